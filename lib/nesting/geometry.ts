@@ -1,0 +1,141 @@
+import type { Axis, Cut, Rotate, Vec3 } from "./types";
+
+/** Tolerance for comparing lengths in mm (inputs are decimals such as a 1.5 mm kerf). */
+export const EPS = 1e-6;
+
+export interface Box {
+  origin: Vec3;
+  size: Vec3;
+}
+
+export const AXIS_NAMES: readonly Axis[] = ["x", "y", "z"];
+
+/**
+ * The distinct orientations (sizes along x, y, z) a part may take under its rotate rule.
+ * @example orientations([1, 2, 3], "z") // → [[1, 2, 3], [2, 1, 3]]
+ */
+export function orientations(size: Vec3, rotate: Rotate): Vec3[] {
+  const [a, b, c] = size;
+  const all: Vec3[] =
+    rotate === "none"
+      ? [[a, b, c]]
+      : rotate === "z"
+        ? [[a, b, c], [b, a, c]]
+        : [[a, b, c], [b, a, c], [a, c, b], [c, a, b], [b, c, a], [c, b, a]];
+  const out: Vec3[] = [];
+  for (const o of all) if (!out.some((p) => sameVec(p, o))) out.push(o);
+  return out;
+}
+
+export function sameVec(a: Vec3, b: Vec3, eps = EPS): boolean {
+  return Math.abs(a[0] - b[0]) <= eps && Math.abs(a[1] - b[1]) <= eps && Math.abs(a[2] - b[2]) <= eps;
+}
+
+export const volume = (s: Vec3): number => s[0] * s[1] * s[2];
+
+/**
+ * True when the interiors of two boxes overlap (touching faces do not count).
+ * @example overlaps({ origin: [0,0,0], size: [1,1,1] }, { origin: [1,0,0], size: [1,1,1] }) // → false
+ */
+export function overlaps(a: Box, b: Box, eps = EPS): boolean {
+  for (let i = 0; i < 3; i++) {
+    if (a.origin[i]! + a.size[i]! <= b.origin[i]! + eps) return false;
+    if (b.origin[i]! + b.size[i]! <= a.origin[i]! + eps) return false;
+  }
+  return true;
+}
+
+/**
+ * Grows a box by `d` on every side.
+ * @example grow({ origin: [5, 5, 5], size: [1, 1, 1] }, 1) // → { origin: [4, 4, 4], size: [3, 3, 3] }
+ */
+export function grow(b: Box, d: number): Box {
+  return { origin: b.origin.map((v) => v - d) as Vec3, size: b.size.map((v) => v + 2 * d) as Vec3 };
+}
+
+/** The extent of an axis-aligned box as min and max corners. */
+export function fromMinMax(min: Vec3, max: Vec3): Box {
+  return { origin: [...min] as Vec3, size: [max[0] - min[0], max[1] - min[1], max[2] - min[2]] };
+}
+
+/**
+ * Whether `sorted(size)` is at least `sorted(min)` element by element (offcut size rule).
+ * @example atLeastSorted([25, 300, 150], [150, 150, 25]) // → true
+ */
+export function atLeastSorted(size: Vec3, min: Vec3, eps = EPS): boolean {
+  const s = [...size].sort((p, q) => p - q);
+  const m = [...min].sort((p, q) => p - q);
+  return s.every((v, i) => v + eps >= m[i]!);
+}
+
+/**
+ * Splits pieces into groups separated by through cuts across `axis`: a new group starts where a
+ * piece begins at least `kerf` past the end of everything before it. Returns the groups (indices)
+ * and the cut positions (where each kerf starts).
+ */
+export function splitAlong(boxes: readonly Box[], idx: readonly number[], axis: number, kerf: number): { groups: number[][]; cuts: number[] } {
+  const order = [...idx].sort((i, j) => boxes[i]!.origin[axis]! - boxes[j]!.origin[axis]!);
+  const groups: number[][] = [];
+  const cuts: number[] = [];
+  let current: number[] = [];
+  let maxEnd = -Infinity;
+  for (const i of order) {
+    const b = boxes[i]!;
+    if (current.length > 0 && b.origin[axis]! + EPS >= maxEnd + kerf) {
+      groups.push(current);
+      cuts.push(maxEnd);
+      current = [];
+    }
+    current.push(i);
+    maxEnd = Math.max(maxEnd, b.origin[axis]! + b.size[axis]!);
+  }
+  if (current.length > 0) groups.push(current);
+  return { groups, cuts };
+}
+
+export type SeparationMode = "guillotine" | "layers";
+
+export interface Separation {
+  /** Through cuts in an order a cutter can make them. */
+  cuts: Cut[];
+  /** Index sets that no through cut separates (empty when the pieces are separable). */
+  stuck: number[][];
+}
+
+/**
+ * Separates pieces recursively by through cuts. In "layers" mode a region whose pieces all span
+ * the same interval on one axis counts as one layer and needs no further through cuts.
+ * @example
+ * separate([{ origin: [0,0,0], size: [1,1,1] }, { origin: [2,0,0], size: [1,1,1] }], 1, "guillotine")
+ * // → { cuts: [{ axis: "x", at: 1 }], stuck: [] }
+ */
+export function separate(boxes: readonly Box[], kerf: number, mode: SeparationMode): Separation {
+  const cuts: Cut[] = [];
+  const stuck: number[][] = [];
+  const stack: number[][] = [boxes.map((_, i) => i)];
+  while (stack.length > 0) {
+    const idx = stack.pop()!;
+    if (idx.length < 2) continue;
+    let done = false;
+    for (let a = 0; a < 3 && !done; a++) {
+      const { groups, cuts: at } = splitAlong(boxes, idx, a, kerf);
+      if (groups.length < 2) continue;
+      for (const c of at) cuts.push({ axis: AXIS_NAMES[a]!, at: c });
+      for (let g = groups.length - 1; g >= 0; g--) stack.push(groups[g]!);
+      done = true;
+    }
+    if (done) continue;
+    if (mode === "layers" && isLayer(boxes, idx)) continue;
+    stuck.push(idx);
+  }
+  return { cuts, stuck };
+}
+
+/** True when all the pieces span the same interval on some axis. */
+export function isLayer(boxes: readonly Box[], idx: readonly number[]): boolean {
+  const first = boxes[idx[0]!]!;
+  for (let a = 0; a < 3; a++) {
+    if (idx.every((i) => Math.abs(boxes[i]!.origin[a]! - first.origin[a]!) <= EPS && Math.abs(boxes[i]!.size[a]! - first.size[a]!) <= EPS)) return true;
+  }
+  return false;
+}

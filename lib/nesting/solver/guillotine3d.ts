@@ -1,0 +1,182 @@
+import type { Box } from "../geometry";
+import type { Rng } from "../rng";
+import type { Vec3 } from "../types";
+import { fitsIn, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
+
+export type SplitRule = "biggest" | "squares";
+
+export interface FillParams {
+  /** Type indices in the order they are tried. */
+  order: number[];
+  /** Place a grid of identical copies at once (fast, tidy) or one piece at a time. */
+  grid: boolean;
+  split: SplitRule;
+  /** Carve defects away across the thinnest axis first (true) or in a random axis order. */
+  thinSlabs: boolean;
+  rng: Rng;
+}
+
+const vol = (s: Vec3): number => s[0] * s[1] * s[2];
+
+/**
+ * Cuts the defect obstacles out of the usable box with through cuts: first a slab across the
+ * obstacle's thinnest axis, then strips inside that slab, so only a small cell is lost.
+ */
+export function carveObstacles(usable: Box, obstacles: readonly Box[], thinSlabs: boolean, r: Rng): { free: Box[]; lost: Box[] } {
+  let free: Box[] = [usable];
+  const lost: Box[] = [];
+  for (const ob of obstacles) {
+    const next: Box[] = [];
+    for (const f of free) {
+      const lo = [0, 1, 2].map((a) => Math.max(f.origin[a]!, ob.origin[a]!));
+      const hi = [0, 1, 2].map((a) => Math.min(f.origin[a]! + f.size[a]!, ob.origin[a]! + ob.size[a]!));
+      if (lo.some((v, a) => v >= hi[a]! - 1e-9)) {
+        next.push(f);
+        continue;
+      }
+      const axes = [0, 1, 2];
+      if (thinSlabs) axes.sort((a, b) => hi[a]! - lo[a]! - (hi[b]! - lo[b]!));
+      else axes.sort(() => r() - 0.5);
+      let region: Box = f;
+      for (const a of axes) {
+        const o = region.origin;
+        const s = region.size;
+        const before: Box = { origin: [...o] as Vec3, size: [...s] as Vec3 };
+        before.size[a] = lo[a]! - o[a]!;
+        const after: Box = { origin: [...o] as Vec3, size: [...s] as Vec3 };
+        after.origin[a] = hi[a]!;
+        after.size[a] = o[a]! + s[a]! - hi[a]!;
+        if (before.size[a]! > 1e-9) next.push(before);
+        if (after.size[a]! > 1e-9) next.push(after);
+        const mid: Box = { origin: [...o] as Vec3, size: [...s] as Vec3 };
+        mid.origin[a] = lo[a]!;
+        mid.size[a] = hi[a]! - lo[a]!;
+        region = mid;
+      }
+      lost.push(region);
+    }
+    free = next;
+  }
+  return { free, lost };
+}
+
+/** Splits what is left of `f` after a box of size `g` at its origin into three cut-separable boxes. */
+function split(f: Box, g: Vec3, rule: SplitRule): Box[] {
+  let best: Box[] = [];
+  let bestScore = -Infinity;
+  const orders = [
+    [0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0],
+  ];
+  for (const [a1, a2, a3] of orders as [number, number, number][]) {
+    const out: Box[] = [];
+    const ext = [...f.size] as Vec3;
+    for (const a of [a1, a2, a3]) {
+      const r = f.size[a]! - g[a]!;
+      if (r > 1e-9) {
+        const o = [...f.origin] as Vec3;
+        o[a] = f.origin[a]! + g[a]!;
+        const s = [...ext] as Vec3;
+        s[a] = r;
+        out.push({ origin: o, size: s });
+      }
+      ext[a] = g[a]!;
+    }
+    const vols = out.map((b) => vol(b.size));
+    const score = rule === "biggest" ? Math.max(0, ...vols) : vols.reduce((s, v) => s + v * v, 0);
+    if (score > bestScore) {
+      bestScore = score;
+      best = out;
+    }
+  }
+  return best;
+}
+
+interface Candidate {
+  free: number;
+  dims: Vec3;
+  n: Vec3;
+  score: number;
+}
+
+/**
+ * Fills one block with guillotine cuts: parts in `order`, each (or a grid of copies) into the free
+ * box where it wastes least, the rest of that box split into three boxes by through cuts.
+ * `remaining` is decremented in place.
+ */
+export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[], remaining: number[], p: FillParams): BlockFill {
+  const { free: initial, lost } = carveObstacles(block.usable, block.obstacles, p.thinSlabs, p.rng);
+  let free = initial;
+  const leftovers: Box[] = [...lost.filter(() => false)];
+  const items: PackedItem[] = [];
+  let packedVolume = 0;
+  const minSideLeft = (): number => {
+    let m = Infinity;
+    for (const t of p.order) if (remaining[t]! > 0) m = Math.min(m, types[t]!.minSide);
+    return m;
+  };
+  let mMin = minSideLeft();
+  // Drop free boxes nothing can use any more.
+  const prune = (): void => {
+    const keep: Box[] = [];
+    for (const f of free) (f.size.some((v) => v < mMin - 1e-9) ? leftovers : keep).push(f);
+    free = keep;
+  };
+  prune();
+  for (const t of p.order) {
+    const type = types[t]!;
+    while (remaining[t]! > 0 && free.length > 0) {
+      let best: Candidate | undefined;
+      for (let fi = 0; fi < free.length; fi++) {
+        const f = free[fi]!;
+        for (const d of type.dims) {
+          if (!fitsIn(d, f.size)) continue;
+          const cap = [0, 1, 2].map((a) => Math.floor(f.size[a]! / d[a]! + 1e-9)) as Vec3;
+          const grids: Vec3[] = [];
+          if (!p.grid) grids.push([1, 1, 1]);
+          else {
+            const rem = remaining[t]!;
+            for (const [a1, a2, a3] of [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]] as [number, number, number][]) {
+              const n: Vec3 = [1, 1, 1];
+              n[a1] = Math.min(cap[a1]!, rem);
+              n[a2] = Math.min(cap[a2]!, Math.floor(rem / n[a1]!));
+              n[a3] = Math.min(cap[a3]!, Math.floor(rem / (n[a1]! * n[a2]!)));
+              grids.push(n);
+            }
+          }
+          for (const n of grids) {
+            const g: Vec3 = [d[0] * n[0], d[1] * n[1], d[2] * n[2]];
+            // Waste: slack on axes too thin for any remaining part, weighted by the face it spans.
+            let waste = 0;
+            for (let a = 0; a < 3; a++) {
+              const r = f.size[a]! - g[a]!;
+              if (r > 1e-9 && r < mMin) waste += (r / f.size[a]!) * 4;
+              else if (r > 1e-9) waste += r / f.size[a]! / 4;
+            }
+            const count = n[0] * n[1] * n[2];
+            const score = waste - count * 1e-6 + vol(f.size) * 1e-15 * (p.rng() * 0.01);
+            if (!best || score < best.score) best = { free: fi, dims: d, n, score };
+          }
+        }
+      }
+      if (!best) break;
+      const f = free[best.free]!;
+      const { dims: d, n } = best;
+      for (let i = 0; i < n[0]; i++)
+        for (let j = 0; j < n[1]; j++)
+          for (let l = 0; l < n[2]; l++)
+            items.push({ type: t, origin: [f.origin[0] + i * d[0], f.origin[1] + j * d[1], f.origin[2] + l * d[2]], dims: d });
+      const count = n[0] * n[1] * n[2];
+      remaining[t] = remaining[t]! - count;
+      packedVolume += count * type.volume;
+      const g: Vec3 = [d[0] * n[0], d[1] * n[1], d[2] * n[2]];
+      free.splice(best.free, 1, ...split(f, g, p.split));
+      if (remaining[t] === 0) {
+        const m = minSideLeft();
+        if (m > mMin) mMin = m;
+      }
+      prune();
+    }
+  }
+  leftovers.push(...free);
+  return { block: block.index, items, leftovers, packedVolume };
+}

@@ -1,0 +1,217 @@
+import { lowerBoundBlocks } from "../bounds";
+import { compareScores, scoreOf, scorePlan, type Score } from "../objective";
+import { rng as makeRng, type Rng } from "../rng";
+import type { Plan, Problem } from "../types";
+import { validatePlan } from "../validate";
+import { assemblePlan, keptOffcuts } from "./assemble";
+import { fillBlockGuillotine, type SplitRule } from "./guillotine3d";
+import { fillBlockMaxRects, layerDims, type RectRule } from "./maxrects2d";
+import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
+
+type OrderKey = "volume" | "maxSide" | "area" | "minSide";
+
+interface PassParams {
+  orderKey: OrderKey;
+  noise: number;
+  grid: boolean;
+  split: SplitRule;
+  thinSlabs: boolean;
+  rectRule: RectRule;
+  planarMaxRects: boolean;
+  blockOrder: "cheap" | "large" | "shuffle";
+  candidates: number;
+}
+
+const DEFAULT: PassParams = {
+  orderKey: "volume",
+  noise: 0,
+  grid: true,
+  split: "biggest",
+  thinSlabs: true,
+  rectRule: "bssf",
+  planarMaxRects: true,
+  blockOrder: "cheap",
+  candidates: 1,
+};
+
+function pick<T>(r: Rng, xs: readonly T[]): T {
+  return xs[Math.floor(r() * xs.length)]!;
+}
+
+export interface SearchOptions {
+  seed: number;
+  now?: () => number;
+  iterations: number;
+  timeLimitMs: number;
+  warmStart?: Plan;
+}
+
+/** The anytime search: one greedy pass per `step()`, keeping the best plan by the objective. */
+export class Search {
+  readonly model: Model;
+  readonly lowerBound: number;
+  private readonly r: Rng;
+  private readonly start: number;
+  private best?: { score: Score; fills?: BlockFill[]; plan?: Plan };
+  private iteration = 0;
+  private readonly placeable: number;
+  private readonly typeFitsSomewhere: boolean[];
+
+  constructor(
+    problem: Problem,
+    private readonly opts: SearchOptions,
+  ) {
+    this.model = buildModel(problem);
+    this.r = makeRng(opts.seed);
+    this.start = opts.now?.() ?? 0;
+    this.lowerBound = lowerBoundBlocks(problem);
+    this.typeFitsSomewhere = this.model.types.map((t) =>
+      this.model.blocks.some((b) => this.model.compatible[b.index]!.includes(t.index) && t.dims.some((d) => fitsIn(d, b.usable.size))),
+    );
+    this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
+    if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
+      this.best = { score: scorePlan(problem, opts.warmStart), plan: opts.warmStart };
+    }
+  }
+
+  elapsed(): number {
+    return this.opts.now ? this.opts.now() - this.start : 0;
+  }
+
+  /** Share of the budget used. */
+  fraction(): number {
+    const byIter = this.iteration / this.opts.iterations;
+    const byTime = this.opts.now ? this.elapsed() / this.opts.timeLimitMs : 0;
+    return Math.min(1, Math.max(byIter, byTime));
+  }
+
+  /** True when nothing better can be found: everything placed in as few blocks as the bound. */
+  atBound(): boolean {
+    const s = this.best?.score;
+    return !!s && s.placedVolume >= this.placeable - 1e-6 && s.blocksUsed <= this.lowerBound;
+  }
+
+  done(signal?: AbortSignal): boolean {
+    if (this.iteration === 0) return false;
+    return !!signal?.aborted || this.atBound() || this.fraction() >= 1;
+  }
+
+  bestScore(): Score | undefined {
+    return this.best?.score;
+  }
+
+  /** One pass; the first uses fixed, sensible settings so a valid plan exists at once. */
+  step(): void {
+    const p = this.iteration === 0 ? DEFAULT : this.randomParams();
+    this.iteration++;
+    const fills = this.pass(p);
+    this.offer(fills);
+  }
+
+  private offer(fills: BlockFill[]): void {
+    const score = scoreOf(this.model.problem, {
+      placedVolume: fills.reduce((s, f) => s + f.packedVolume, 0),
+      usedBlocks: fills.map((f) => f.block),
+      offcuts: fills.flatMap((f) => keptOffcuts(this.model, f).map((o) => ({ block: f.block, volume: o.size[0] * o.size[1] * o.size[2] }))),
+    });
+    if (!this.best || compareScores(score, this.best.score) < 0) this.best = { score, fills };
+  }
+
+  result(): Plan {
+    const elapsed = Math.round(this.elapsed());
+    if (this.best?.plan) return { ...this.best.plan, stats: { ...this.best.plan.stats, elapsedMs: elapsed, lowerBoundBlocks: this.lowerBound } };
+    return assemblePlan(this.model, this.best?.fills ?? [], elapsed, this.lowerBound);
+  }
+
+  private randomParams(): PassParams {
+    const r = this.r;
+    return {
+      orderKey: pick(r, ["volume", "volume", "maxSide", "area", "minSide"] as const),
+      noise: pick(r, [0, 0.05, 0.1, 0.2, 0.4]),
+      grid: r() < 0.7,
+      split: r() < 0.7 ? "biggest" : "squares",
+      thinSlabs: r() < 0.8,
+      rectRule: pick(r, ["bssf", "bssf", "baf", "bl"] as const),
+      planarMaxRects: r() < 0.85,
+      blockOrder: pick(r, ["cheap", "cheap", "large", "shuffle"] as const),
+      candidates: pick(r, [1, 2, 4, 8]),
+    };
+  }
+
+  private typeOrder(p: PassParams, types: number[]): number[] {
+    const key = (t: number): number => {
+      const ty = this.model.types[t]!;
+      const d = ty.dims[0]!;
+      const s = [...d].sort((a, b) => b - a);
+      const base = p.orderKey === "volume" ? d[0] * d[1] * d[2] : p.orderKey === "maxSide" ? s[0]! * 1e6 + s[1]! : p.orderKey === "area" ? s[0]! * s[1]! : s[2]! * 1e6 + s[1]!;
+      return base * (1 + p.noise * (this.r() - 0.5));
+    };
+    const keys = new Map(types.map((t) => [t, key(t)]));
+    return [...types].sort((a, b) => keys.get(b)! - keys.get(a)!);
+  }
+
+  private blockOrder(p: PassParams): number[] {
+    const bl = this.model.blocks;
+    const idx = bl.map((b) => b.index);
+    const perVol = (i: number): number => bl[i]!.cost / bl[i]!.volume;
+    if (p.blockOrder === "large") return idx.sort((a, b) => bl[b]!.volume - bl[a]!.volume || perVol(a) - perVol(b));
+    const jitter = new Map(idx.map((i) => [i, p.blockOrder === "shuffle" ? this.r() : 0]));
+    return idx.sort(
+      (a, b) => Number(bl[b]!.offcut) - Number(bl[a]!.offcut) || perVol(a) - perVol(b) || jitter.get(a)! - jitter.get(b)! || bl[b]!.volume - bl[a]!.volume,
+    );
+  }
+
+  private fillOne(block: number, remaining: number[], p: PassParams): BlockFill {
+    const m = this.model;
+    const info = m.blocks[block]!;
+    const live = m.compatible[block]!.filter((t) => remaining[t]! > 0);
+    const order = this.typeOrder(p, live);
+    const planar = m.problem.settings.layout !== "guillotine" && p.planarMaxRects && live.every((t) => layerDims(m.types[t]!, info).length > 0);
+    if (planar) return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule);
+    return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, rng: this.r });
+  }
+
+  /** One greedy pass: block after block, each filled as well as the pass's settings manage. */
+  private pass(p: PassParams): BlockFill[] {
+    const m = this.model;
+    const remaining = m.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
+    let unused = this.blockOrder(p);
+    const fills: BlockFill[] = [];
+    const left = (): number => remaining.reduce((s, v) => s + v, 0);
+    while (left() > 0 && unused.length > 0) {
+      const cands: number[] = [];
+      const classes = new Set<string>();
+      for (const b of unused) {
+        if (cands.length >= p.candidates) break;
+        if (classes.has(m.blocks[b]!.classKey)) continue;
+        if (!m.compatible[b]!.some((t) => remaining[t]! > 0)) continue;
+        classes.add(m.blocks[b]!.classKey);
+        cands.push(b);
+      }
+      if (cands.length === 0) break;
+      let chosen: { fill: BlockFill; rem: number[]; finishes: boolean; value: number } | undefined;
+      const useless = new Set<number>();
+      for (const b of cands) {
+        const rem = [...remaining];
+        const fill = this.fillOne(b, rem, p);
+        if (fill.items.length === 0) {
+          useless.add(b);
+          continue;
+        }
+        const info = m.blocks[b]!;
+        const kept = keptOffcuts(m, fill).reduce((s, o) => s + o.size[0] * o.size[1] * o.size[2], 0);
+        const net = Math.max(1e-12, info.cost - (info.cost * kept) / info.volume);
+        const finishes = rem.every((v) => v === 0);
+        // Finishing fills compete on net cost; others on part volume per unit of net cost.
+        const value = finishes ? -net : fill.packedVolume / net;
+        if (!chosen || (finishes && !chosen.finishes) || (finishes === chosen.finishes && value > chosen.value)) chosen = { fill, rem, finishes, value };
+      }
+      unused = unused.filter((b) => !useless.has(b));
+      if (!chosen) continue;
+      fills.push(chosen.fill);
+      for (let i = 0; i < remaining.length; i++) remaining[i] = chosen.rem[i]!;
+      unused = unused.filter((b) => b !== chosen.fill.block);
+    }
+    return fills;
+  }
+}
