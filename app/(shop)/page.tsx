@@ -1,0 +1,76 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { requireRole } from "@/lib/auth/guard";
+import { getShopSettings } from "@/db/queries/settings";
+import { listUsers } from "@/db/queries/users";
+import { Card, Notice, PageHeader } from "@/components/ui/card";
+import { HotWireCaution } from "@/components/shell/safety-note";
+import { ROLE_DUTIES, ROLE_LABELS, type Role } from "@/lib/roles";
+import { formatLength } from "@/lib/units";
+
+export const metadata: Metadata = { title: "Today" };
+
+export default async function HomePage({ searchParams }: { searchParams: Promise<{ denied?: string }> }) {
+  const user = await requireRole();
+  const { denied } = await searchParams;
+  const settings = await getShopSettings();
+  const has = (r: Role) => user.roles.includes(r);
+  const u = settings.displayUnits;
+  const people = has("admin") ? await listUsers() : [];
+
+  return (
+    <>
+      <PageHeader
+        title={`Good to see you, ${user.name.split(" ")[0]}`}
+        lead={`Signed in as ${user.roles.map((r) => ROLE_LABELS[r]).join(" and ")} at ${settings.shopName}.`}
+      />
+      {denied && (
+        <div className="mb-6">
+          <Notice tone="danger">That page belongs to another role. Ask your admin if you need it.</Notice>
+        </div>
+      )}
+      <div className="grid gap-5 md:grid-cols-2">
+        {user.roles.map((role) => (
+          <Card key={role} title={`${ROLE_LABELS[role]}`}>
+            <p className="text-sm text-ink-soft">{ROLE_DUTIES[role]}</p>
+            {role === "admin" && (
+              <dl className="mt-3 grid grid-cols-2 gap-3 text-sm">
+                <Figure label="Active people" value={String(people.filter((p) => p.active).length)} />
+                <Figure label="Deactivated" value={String(people.filter((p) => !p.active).length)} />
+                <div className="col-span-2 flex gap-4">
+                  <Link href="/admin/users">Manage people</Link>
+                  <Link href="/admin/settings">Shop settings</Link>
+                </div>
+              </dl>
+            )}
+            {(role === "planner" || role === "cutter") && (
+              <dl className="mt-3 grid grid-cols-2 gap-3 text-sm">
+                <Figure label="Kerf" value={formatLength(settings.kerf, u)} />
+                <Figure label="Face trim" value={formatLength(settings.trim, u)} />
+                <Figure label="Defect margin" value={formatLength(settings.defectMargin, u)} />
+                <Figure label="Layout rule" value={settings.layout} />
+              </dl>
+            )}
+            {(role === "buyer" || role === "manager") && (
+              <p className="mt-3 text-sm text-ink-faint">Figures for this role appear here as stock is received.</p>
+            )}
+          </Card>
+        ))}
+      </div>
+      {has("cutter") && (
+        <div className="mt-6">
+          <HotWireCaution />
+        </div>
+      )}
+    </>
+  );
+}
+
+function Figure({ label, value }: { label: string; value: string }) {
+  return (
+    <div>
+      <dt className="text-xs uppercase tracking-wide text-ink-faint">{label}</dt>
+      <dd className="text-lg font-semibold">{value}</dd>
+    </div>
+  );
+}

@@ -1,0 +1,55 @@
+import type { InputHTMLAttributes, ReactNode, SelectHTMLAttributes } from "react";
+
+const CONTROL =
+  "block w-full min-h-11 rounded-md border bg-paper-raised px-3 text-base text-ink placeholder:text-ink-faint focus:border-kerf focus:outline-none focus:ring-2 focus:ring-kerf-light";
+
+interface FieldProps {
+  label: string;
+  name: string;
+  error?: string;
+  hint?: ReactNode;
+  children?: ReactNode;
+}
+
+/** A labelled control with its hint and its error message, linked for screen readers. */
+export function Field({ label, name, error, hint, children }: FieldProps) {
+  return (
+    <div className="space-y-1">
+      <label htmlFor={name} className="block text-sm font-medium text-ink-soft">
+        {label}
+      </label>
+      {children}
+      {hint && !error && <p className="text-xs text-ink-faint">{hint}</p>}
+      {error && (
+        <p id={`${name}-error`} role="alert" className="text-sm text-ember">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}
+
+export function Input({ error, ...rest }: InputHTMLAttributes<HTMLInputElement> & { error?: string }) {
+  return (
+    <input
+      id={rest.id ?? rest.name}
+      aria-invalid={error ? true : undefined}
+      aria-describedby={error ? `${rest.name}-error` : undefined}
+      className={`${CONTROL} ${error ? "border-ember" : "border-bead-strong"}`}
+      {...rest}
+    />
+  );
+}
+
+export function Select({ error, children, ...rest }: SelectHTMLAttributes<HTMLSelectElement> & { error?: string }) {
+  return (
+    <select
+      id={rest.id ?? rest.name}
+      aria-invalid={error ? true : undefined}
+      className={`${CONTROL} ${error ? "border-ember" : "border-bead-strong"}`}
+      {...rest}
+    >
+      {children}
+    </select>
+  );
+}

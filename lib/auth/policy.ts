@@ -1,0 +1,30 @@
+import type { Role } from "@/lib/roles";
+
+/**
+ * Who may call which API route: the one table the server enforces and the role test reads.
+ * "public": anyone; "signed-in": any role; a role list: those roles (admin may always call).
+ * Keys are "METHOD /api/path" with [param] segments as in the app folder.
+ */
+export type Access = "public" | "signed-in" | readonly Role[];
+
+export const API_POLICY = {
+  "GET /api/health": "public",
+  "POST /api/auth/sign-in": "public",
+  "POST /api/auth/sign-out": "signed-in",
+  "GET /api/me": "signed-in",
+  "POST /api/me/password": "signed-in",
+  "GET /api/settings": "signed-in",
+  "PUT /api/settings": ["admin"],
+  "GET /api/admin/users": ["admin"],
+  "POST /api/admin/users": ["admin"],
+  "GET /api/admin/users/[userId]": ["admin"],
+  "PATCH /api/admin/users/[userId]": ["admin"],
+  "POST /api/admin/users/[userId]/password": ["admin"],
+} as const satisfies Record<string, Access>;
+
+export type RouteKey = keyof typeof API_POLICY;
+
+export function allows(access: Access, roles: readonly Role[]): boolean {
+  if (access === "public" || access === "signed-in") return true;
+  return roles.includes("admin") || roles.some((r) => access.includes(r));
+}

@@ -1,0 +1,43 @@
+/**
+ * Lengths are stored in millimetres; volumes derive from them. Display follows the user's choice.
+ *
+ *   boardFeet(1219.2 * 1219.2 * 4876.8)  // a 4×4×16 ft block → 3072
+ */
+export type LengthUnit = "mm" | "in";
+
+export const MM_PER_INCH = 25.4; // exact, by the 1959 international yard and pound agreement
+export const CM3_PER_BOARD_FOOT = 144 * 2.54 ** 3; // 144 in³ = 2,359.737216 cm³
+export const BOARD_FEET_PER_M3 = 1e6 / CM3_PER_BOARD_FOOT; // ≈ 423.776
+export const KG_M3_PER_LB_FT3 = 0.45359237 / (0.3048 ** 3); // ≈ 16.0185
+
+export const mmToIn = (mm: number) => mm / MM_PER_INCH;
+export const inToMm = (inch: number) => inch * MM_PER_INCH;
+
+/** Cubic metres from a size in mm. */
+export const cubicMetres = (x: number, y: number, z: number) => (x * y * z) / 1e9;
+/** Board feet from cubic millimetres. */
+export const boardFeet = (mm3: number) => mm3 / 1e3 / CM3_PER_BOARD_FOOT;
+export const m3ToBoardFeet = (m3: number) => m3 * BOARD_FEET_PER_M3;
+
+/** kg/m³ from a weight in kg and a size in mm. */
+export const densityKgM3 = (kg: number, size: [number, number, number]) => kg / cubicMetres(...size);
+export const kgM3ToLbFt3 = (kgm3: number) => kgm3 / KG_M3_PER_LB_FT3;
+export const lbFt3ToKgM3 = (pcf: number) => pcf * KG_M3_PER_LB_FT3;
+
+export function formatLength(mm: number, unit: LengthUnit): string {
+  if (unit === "in") return `${trimZeros(mmToIn(mm).toFixed(2))} in`;
+  return `${trimZeros(mm.toFixed(1))} mm`;
+}
+
+export function formatSize(size: readonly number[], unit: LengthUnit): string {
+  const parts = size.map((v) => (unit === "in" ? trimZeros(mmToIn(v).toFixed(2)) : trimZeros(v.toFixed(1))));
+  return `${parts.join(" × ")} ${unit}`;
+}
+
+export function formatVolume(m3: number): string {
+  return `${m3.toLocaleString("en", { maximumFractionDigits: 3 })} m³ · ${Math.round(m3ToBoardFeet(m3)).toLocaleString("en")} BF`;
+}
+
+function trimZeros(s: string): string {
+  return s.includes(".") ? s.replace(/\.?0+$/, "") : s;
+}

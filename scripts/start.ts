@@ -1,0 +1,45 @@
+/**
+ * `npm start`: Postgres (private cluster on 127.0.0.1 unless DATABASE_URL is set) → migrations →
+ * demo seed when the database is empty → build when needed → serve on http://localhost:$PORT.
+ * `npm run dev` does the same with `next dev`.
+ */
+import { spawn, type ChildProcess } from "node:child_process";
+import { DEMO_CLUSTER, ensureCluster } from "./pg";
+import { migrateAndSeed } from "./db";
+import { buildIfNeeded } from "./build-if-needed";
+
+async function main() {
+  const dev = process.argv.includes("--dev");
+  const port = process.env.PORT ?? "3000";
+  const url = await ensureCluster(DEMO_CLUSTER);
+  await migrateAndSeed(url, { seedWhenEmpty: true });
+  if (!dev) buildIfNeeded();
+
+  const env = { ...process.env, DATABASE_URL: url, PORT: port, NEXT_TELEMETRY_DISABLED: "1" };
+  const children: ChildProcess[] = [];
+  // next spawns its own children: give it a process group so we can stop all of it.
+  const web = spawn("npx", ["next", dev ? "dev" : "start", "-p", port], { stdio: "inherit", env, detached: true });
+  children.push(web);
+  process.stderr.write(`[start] Blockyard on http://localhost:${port} (demo users: see README)\n`);
+
+  const stop = (code: number) => {
+    for (const c of children) {
+      if (c.pid && c.exitCode === null) {
+        try {
+          process.kill(-c.pid, "SIGTERM");
+        } catch {
+          /* already gone */
+        }
+      }
+    }
+    process.exit(code);
+  };
+  process.on("SIGINT", () => stop(0));
+  process.on("SIGTERM", () => stop(0));
+  web.on("exit", (code) => stop(code ?? 1));
+}
+
+main().catch((e) => {
+  console.error(e instanceof Error ? e.message : e);
+  process.exit(1);
+});

@@ -1,0 +1,106 @@
+/**
+ * `npm test`: every test, on a private throwaway database — never the demo data.
+ *   1. a private Postgres cluster under .data/pg-test (or TEST_DATABASE_URL), database recreated,
+ *      migrated and seeded with the demo shop as fixtures;
+ *   2. the app built when needed and served on 127.0.0.1 (TEST_PORT, default 3199);
+ *   3. Debian's chromium installed when missing (as root) for the browser tests;
+ *   4. vitest: unit + reference, API (supertest against the served app), browser (playwright-core).
+ * Extra arguments go to vitest (`npm test -- --project unit`).
+ */
+import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import fs from "node:fs";
+import { TEST_CLUSTER, ensureCluster, recreateDatabase, stopCluster } from "./pg";
+import { migrateAndSeed } from "./db";
+import { buildIfNeeded } from "./build-if-needed";
+
+const CHROMIUM = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
+
+function ensureChromium(): void {
+  if (fs.existsSync(CHROMIUM)) return;
+  if (process.getuid?.() !== 0) {
+    console.error(`[test] ${CHROMIUM} is missing. Install it with: sudo apt-get install -y chromium`);
+    process.exit(1);
+  }
+  console.error("[test] installing Debian's chromium for the browser tests (first run only)…");
+  const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
+  for (const args of [["update", "-qq"], ["install", "-y", "-qq", "chromium", "fonts-dejavu-core"]]) {
+    const r = spawnSync("apt-get", args, { stdio: "inherit", env });
+    if (r.status !== 0) process.exit(r.status ?? 1);
+  }
+}
+
+async function waitForHealth(url: string, server: ChildProcess): Promise<void> {
+  const deadline = Date.now() + 60_000;
+  while (Date.now() < deadline) {
+    if (server.exitCode !== null) throw new Error("the test server exited during start-up");
+    try {
+      const r = await fetch(`${url}/api/health`);
+      if (r.ok) return;
+    } catch {
+      /* not up yet */
+    }
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  throw new Error("the test server did not answer /api/health within 60 s");
+}
+
+async function main() {
+  const vitestArgs = process.argv.slice(2);
+  const onlyUnit = vitestArgs.join(" ").includes("--project unit");
+  delete process.env.DATABASE_URL; // the demo database is never a test database
+
+  let url = process.env.TEST_DATABASE_URL;
+  if (!url) {
+    url = await ensureCluster(TEST_CLUSTER);
+    await recreateDatabase(TEST_CLUSTER);
+  }
+  await migrateAndSeed(url, { seedWhenEmpty: false, forceSeed: true });
+
+  let server: ChildProcess | undefined;
+  const port = process.env.TEST_PORT ?? "3199";
+  const baseUrl = `http://127.0.0.1:${port}`;
+  const env: NodeJS.ProcessEnv = {
+    ...process.env,
+    DATABASE_URL: url,
+    BASE_URL: baseUrl,
+    TRUST_PROXY: "true",
+    CHROMIUM_PATH: CHROMIUM,
+    NEXT_TELEMETRY_DISABLED: "1",
+  };
+  const stopAll = () => {
+    if (server?.pid && server.exitCode === null) {
+      try {
+        process.kill(-server.pid, "SIGTERM");
+      } catch {
+        /* gone */
+      }
+    }
+    if (!process.env.TEST_DATABASE_URL && !process.env.KEEP_TEST_DB) stopCluster(TEST_CLUSTER);
+  };
+  process.on("SIGINT", () => (stopAll(), process.exit(130)));
+
+  let code = 1;
+  try {
+    if (!onlyUnit) {
+      buildIfNeeded();
+      ensureChromium();
+      server = spawn("npx", ["next", "start", "-p", port, "-H", "127.0.0.1"], {
+        env,
+        detached: true,
+        stdio: ["ignore", fs.openSync(".data/test-server.log", "w"), fs.openSync(".data/test-server.log", "a")],
+      });
+      await waitForHealth(baseUrl, server);
+    }
+    const r = spawnSync("npx", ["vitest", "run", ...vitestArgs], { stdio: "inherit", env });
+    code = r.status ?? 1;
+  } finally {
+    stopAll();
+  }
+  if (code !== 0) console.error("[test] failures above; the app's log is in .data/test-server.log");
+  process.exit(code);
+}
+
+main().catch((e) => {
+  console.error(e instanceof Error ? e.stack : e);
+  process.exit(1);
+});

@@ -1,0 +1,97 @@
+import fs from "node:fs";
+import path from "node:path";
+import { afterAll, describe, expect, it } from "vitest";
+import { API_POLICY, allows, type Access, type RouteKey } from "@/lib/auth/policy";
+import { ROLES, type Role } from "@/lib/roles";
+import { client } from "../support/http";
+import { TEST_PASSWORD, closeTestDb, makeUser } from "../support/db";
+import { EXAMPLES } from "./route-examples";
+
+afterAll(closeTestDb);
+
+const API_DIR = path.join(process.cwd(), "app", "api");
+const METHODS = ["GET", "POST", "PUT", "PATCH", "DELETE"] as const;
+
+/** Every route handler under app/api, found on disk, with the policy key each method declares. */
+function discoverRoutes(): { file: string; route: string; method: string; key: string | null }[] {
+  const out: { file: string; route: string; method: string; key: string | null }[] = [];
+  const walk = (dir: string) => {
+    for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+      const full = path.join(dir, entry.name);
+      if (entry.isDirectory()) walk(full);
+      else if (/^route\.(ts|tsx|js)$/.test(entry.name)) {
+        const route = "/" + path.relative(path.join(process.cwd(), "app"), path.dirname(full)).split(path.sep).join("/");
+        const text = fs.readFileSync(full, "utf8");
+        for (const method of METHODS) {
+          const exported = new RegExp(`export\\s+(const|async\\s+function|function)\\s+${method}\\b`).test(text);
+          if (!exported) continue;
+          const m = text.match(new RegExp(`export\\s+const\\s+${method}\\s*=\\s*api(?:<[^>]*>)?\\(\\s*"([^"]+)"`));
+          out.push({ file: path.relative(process.cwd(), full), route, method, key: m?.[1] ?? null });
+        }
+      }
+    }
+  };
+  walk(API_DIR);
+  return out;
+}
+
+const routes = discoverRoutes();
+
+describe("route discovery", () => {
+  it("finds the route handlers", () => {
+    expect(routes.length).toBeGreaterThanOrEqual(Object.keys(API_POLICY).length);
+  });
+
+  it.each(routes.map((r) => [`${r.method} ${r.route}`, r] as const))("%s goes through the guarded api() wrapper with its own key", (_name, r) => {
+    expect(r.key, `${r.file}: export const ${r.method} = api("${r.method} ${r.route}", …)`).toBe(`${r.method} ${r.route}`);
+    expect(API_POLICY).toHaveProperty([r.key!]);
+  });
+
+  it("has no policy entry without a route", () => {
+    const found = new Set(routes.map((r) => r.key));
+    expect(Object.keys(API_POLICY).filter((k) => !found.has(k))).toEqual([]);
+  });
+
+  it("has a worked example for every route that changes data or takes a parameter", () => {
+    const missing = routes.filter((r) => (r.method !== "GET" || r.route.includes("[")) && !EXAMPLES[r.key as RouteKey]).map((r) => r.key);
+    expect(missing).toEqual([]);
+  });
+});
+
+async function callAs(key: RouteKey, caller: Role | "anonymous") {
+  const [method, pattern] = key.split(" ") as [string, string];
+  const example = (await EXAMPLES[key]?.({ makeUser, password: TEST_PASSWORD })) ?? {};
+  const url = pattern.replace(/\[(\w+)\]/g, (_, p: string) => encodeURIComponent(example.params?.[p] ?? "missing"));
+  const c = client();
+  if (caller !== "anonymous") {
+    const u = await makeUser([caller]);
+    await c.signIn(u.email, TEST_PASSWORD);
+  }
+  const req = c.call(method.toLowerCase() as "get", url);
+  const res = example.body !== undefined ? await req.send(example.body as object) : await req;
+  return { res, example };
+}
+
+describe("role matrix: anonymous → 401, a role without access → 403, a permitted role → success", () => {
+  const cases: [string, RouteKey, Role | "anonymous", Access][] = [];
+  for (const key of Object.keys(API_POLICY) as RouteKey[]) {
+    const access: Access = API_POLICY[key];
+    cases.push([`${key} as anonymous`, key, "anonymous", access]);
+    for (const role of ROLES) cases.push([`${key} as ${role}`, key, role, access]);
+  }
+
+  it.each(cases)("%s", async (_name, key, caller, access) => {
+    const { res, example } = await callAs(key, caller);
+    const permitted = access === "public" || (caller !== "anonymous" && allows(access, [caller]));
+    if (caller === "anonymous" && access !== "public") {
+      expect(res.status, JSON.stringify(res.body)).toBe(401);
+    } else if (!permitted) {
+      expect(res.status, JSON.stringify(res.body)).toBe(403);
+    } else if (example.expect) {
+      expect(res.status, JSON.stringify(res.body)).toBe(example.expect);
+    } else {
+      expect(res.status, JSON.stringify(res.body)).toBeGreaterThanOrEqual(200);
+      expect(res.status, JSON.stringify(res.body)).toBeLessThan(300);
+    }
+  });
+});
