@@ -62,7 +62,7 @@ async function main() {
   const env: NodeJS.ProcessEnv = {
     ...process.env,
     DATABASE_URL: url,
-    BASE_URL: baseUrl,
+    APP_URL: baseUrl,
     TRUST_PROXY: "true",
     CHROMIUM_PATH: CHROMIUM,
     NEXT_TELEMETRY_DISABLED: "1",

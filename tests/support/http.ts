@@ -1,7 +1,7 @@
 import request from "supertest";
 import { DEMO_PASSWORD } from "@/db/seeds/01_shop";
 
-export const BASE_URL = process.env.BASE_URL ?? "http://127.0.0.1:3199";
+export const BASE_URL = process.env.APP_URL ?? "http://127.0.0.1:3199";
 
 type Method = "get" | "post" | "put" | "patch" | "delete";
 

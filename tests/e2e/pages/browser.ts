@@ -2,7 +2,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { chromium, type Browser, type Page } from "playwright-core";
 
-export const BASE_URL = process.env.BASE_URL ?? "http://127.0.0.1:3199";
+export const BASE_URL = process.env.APP_URL ?? "http://127.0.0.1:3199";
 export const SHOTS = path.join(process.cwd(), "test-results", "screenshots");
 
 // Flags that work on this kind of machine (see ../shared/toolchain.md); Playwright makes its own profile.

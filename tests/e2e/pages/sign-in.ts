@@ -14,8 +14,4 @@ export class SignInPage {
     await this.page.getByLabel("Password").fill(password);
     await this.page.getByRole("button", { name: "Sign in" }).click();
   }
-
-  error() {
-    return this.page.getByRole("alert");
-  }
 }
