@@ -13,6 +13,8 @@ export interface FillParams {
   split: SplitRule;
   /** Carve defects away across the thinnest axis first (true) or in a random axis order. */
   thinSlabs: boolean;
+  /** Fill the lowest free box with the part that fits it best, instead of part after part. */
+  boxFirst: boolean;
   rng: Rng;
 }
 
@@ -122,6 +124,48 @@ export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[]
     free = keep;
   };
   prune();
+  if (p.boxFirst) {
+    while (free.length > 0) {
+      // Lowest corner first (z, then y, then x): fills the block from one end like a cutter would.
+      let fi = 0;
+      for (let i = 1; i < free.length; i++) {
+        const a = free[i]!.origin;
+        const b = free[fi]!.origin;
+        if (a[2] < b[2] - 1e-9 || (Math.abs(a[2] - b[2]) <= 1e-9 && (a[1] < b[1] - 1e-9 || (Math.abs(a[1] - b[1]) <= 1e-9 && a[0] < b[0])))) fi = i;
+      }
+      const f = free[fi]!;
+      let best: { t: number; d: Vec3; score: number } | undefined;
+      for (const t of p.order) {
+        if (remaining[t]! <= 0) continue;
+        for (const d of types[t]!.dims) {
+          if (!fitsIn(d, f.size)) continue;
+          let exact = 0;
+          let waste = 0;
+          for (let a = 0; a < 3; a++) {
+            const r = f.size[a]! - d[a]!;
+            if (r <= 1e-9) exact++;
+            else if (r < mMin) waste += r / f.size[a]!;
+          }
+          const score = -exact * 2 + waste - vol(d) / vol(f.size);
+          if (!best || score < best.score - 1e-12) best = { t, d, score };
+        }
+      }
+      if (!best) {
+        leftovers.push(f);
+        free.splice(fi, 1);
+        continue;
+      }
+      items.push({ type: best.t, origin: [...f.origin] as Vec3, dims: best.d });
+      remaining[best.t] = remaining[best.t]! - 1;
+      packedVolume += types[best.t]!.volume;
+      free.splice(fi, 1, ...split(f, best.d, p.split));
+      if (remaining[best.t] === 0) {
+        const m = minSideLeft();
+        if (m > mMin) mMin = m;
+      }
+      prune();
+    }
+  }
   for (const t of p.order) {
     const type = types[t]!;
     while (remaining[t]! > 0 && free.length > 0) {

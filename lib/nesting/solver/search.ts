@@ -16,6 +16,7 @@ interface PassParams {
   grid: boolean;
   split: SplitRule;
   thinSlabs: boolean;
+  boxFirst: boolean;
   rectRule: RectRule;
   planarMaxRects: boolean;
   blockOrder: "cheap" | "large" | "shuffle";
@@ -28,6 +29,7 @@ const DEFAULT: PassParams = {
   grid: true,
   split: "biggest",
   thinSlabs: true,
+  boxFirst: false,
   rectRule: "bssf",
   planarMaxRects: true,
   blockOrder: "cheap",
@@ -131,8 +133,9 @@ export class Search {
       grid: r() < 0.7,
       split: r() < 0.7 ? "biggest" : "squares",
       thinSlabs: r() < 0.8,
+      boxFirst: r() < 0.4,
       rectRule: pick(r, ["bssf", "bssf", "baf", "bl"] as const),
-      planarMaxRects: r() < 0.85,
+      planarMaxRects: r() < 0.7,
       blockOrder: pick(r, ["cheap", "cheap", "large", "shuffle"] as const),
       candidates: pick(r, [1, 2, 4, 8]),
     };
@@ -168,7 +171,7 @@ export class Search {
     const order = this.typeOrder(p, live);
     const planar = m.problem.settings.layout !== "guillotine" && p.planarMaxRects && live.every((t) => layerDims(m.types[t]!, info).length > 0);
     if (planar) return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule);
-    return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, rng: this.r });
+    return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, rng: this.r });
   }
 
   /** One greedy pass: block after block, each filled as well as the pass's settings manage. */
