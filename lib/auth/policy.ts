@@ -20,6 +20,33 @@ export const API_POLICY = {
   "GET /api/admin/users/[userId]": ["admin"],
   "PATCH /api/admin/users/[userId]": ["admin"],
   "POST /api/admin/users/[userId]/password": ["admin"],
+
+  // Stock register: the buyer receives and corrects; the cutter flags defects and moves blocks;
+  // planner and manager read.
+  "GET /api/grades": "signed-in",
+  "POST /api/grades": ["buyer"],
+  "GET /api/grades/[gradeId]": "signed-in",
+  "PUT /api/grades/[gradeId]": ["buyer"],
+  "GET /api/suppliers": "signed-in",
+  "POST /api/suppliers": ["buyer"],
+  "GET /api/suppliers/[supplierId]": "signed-in",
+  "PUT /api/suppliers/[supplierId]": ["buyer"],
+  "GET /api/deliveries": ["buyer", "planner", "manager"],
+  "POST /api/deliveries": ["buyer"],
+  "GET /api/deliveries/[deliveryId]": ["buyer", "planner", "manager"],
+  "GET /api/deliveries/export": ["buyer", "planner", "manager"],
+  "GET /api/blocks": "signed-in",
+  "GET /api/blocks/export": ["buyer", "planner", "manager"],
+  "GET /api/blocks/[blockId]": "signed-in",
+  "PATCH /api/blocks/[blockId]": ["buyer", "cutter"],
+  "POST /api/blocks/[blockId]/scrap": ["buyer"],
+  "POST /api/blocks/[blockId]/adjust": ["buyer"],
+  "GET /api/blocks/[blockId]/defects": "signed-in",
+  "POST /api/blocks/[blockId]/defects": ["cutter"],
+  "GET /api/ledger": ["buyer", "planner", "manager"],
+  "GET /api/ledger/export": ["buyer", "planner", "manager"],
+  "POST /api/imports/deliveries": ["buyer"],
+  "POST /api/imports/stock-counts": ["buyer"],
 } as const satisfies Record<string, Access>;
 
 export type RouteKey = keyof typeof API_POLICY;

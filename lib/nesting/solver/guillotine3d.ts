@@ -3,7 +3,7 @@ import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
 import { fitsIn, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
-export type SplitRule = "biggest" | "squares";
+export type SplitRule = "biggest" | "squares" | "random";
 
 export interface FillParams {
   /** Type indices in the order they are tried. */
@@ -63,7 +63,7 @@ export function carveObstacles(usable: Box, obstacles: readonly Box[], thinSlabs
 }
 
 /** Splits what is left of `f` after a box of size `g` at its origin into three cut-separable boxes. */
-function split(f: Box, g: Vec3, rule: SplitRule): Box[] {
+function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
   let best: Box[] = [];
   let bestScore = -Infinity;
   const orders = [
@@ -84,7 +84,7 @@ function split(f: Box, g: Vec3, rule: SplitRule): Box[] {
       ext[a] = g[a]!;
     }
     const vols = out.map((b) => vol(b.size));
-    const score = rule === "biggest" ? Math.max(0, ...vols) : vols.reduce((s, v) => s + v * v, 0);
+    const score = rule === "biggest" ? Math.max(0, ...vols) : rule === "squares" ? vols.reduce((s, v) => s + v * v, 0) : r();
     if (score > bestScore) {
       bestScore = score;
       best = out;
@@ -158,7 +158,7 @@ export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[]
       items.push({ type: best.t, origin: [...f.origin] as Vec3, dims: best.d });
       remaining[best.t] = remaining[best.t]! - 1;
       packedVolume += types[best.t]!.volume;
-      free.splice(fi, 1, ...split(f, best.d, p.split));
+      free.splice(fi, 1, ...split(f, best.d, p.split, p.rng));
       if (remaining[best.t] === 0) {
         const m = minSideLeft();
         if (m > mMin) mMin = m;
@@ -213,7 +213,7 @@ export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[]
       remaining[t] = remaining[t]! - count;
       packedVolume += count * type.volume;
       const g: Vec3 = [d[0] * n[0], d[1] * n[1], d[2] * n[2]];
-      free.splice(best.free, 1, ...split(f, g, p.split));
+      free.splice(best.free, 1, ...split(f, g, p.split, p.rng));
       if (remaining[t] === 0) {
         const m = minSideLeft();
         if (m > mMin) mMin = m;

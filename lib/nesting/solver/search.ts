@@ -7,6 +7,8 @@ import { assemblePlan, keptOffcuts } from "./assemble";
 import { fillBlockGuillotine, type SplitRule } from "./guillotine3d";
 import { fillBlockMaxRects, layerDims, type RectRule } from "./maxrects2d";
 import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
+import { eliminateBlocks } from "./improve";
+import { ColumnPool, coverDemand } from "./setcover";
 
 type OrderKey = "volume" | "maxSide" | "area" | "minSide";
 
@@ -21,6 +23,8 @@ interface PassParams {
   planarMaxRects: boolean;
   blockOrder: "cheap" | "large" | "shuffle";
   candidates: number;
+  /** Fill attempts per block with varied settings; the fullest one is kept. */
+  tries: number;
 }
 
 const DEFAULT: PassParams = {
@@ -34,6 +38,7 @@ const DEFAULT: PassParams = {
   planarMaxRects: true,
   blockOrder: "cheap",
   candidates: 1,
+  tries: 1,
 };
 
 function pick<T>(r: Rng, xs: readonly T[]): T {
@@ -58,6 +63,8 @@ export class Search {
   private iteration = 0;
   private readonly placeable: number;
   private readonly typeFitsSomewhere: boolean[];
+  private readonly pool: ColumnPool;
+  private nextCover = 6;
 
   constructor(
     problem: Problem,
@@ -70,6 +77,7 @@ export class Search {
     this.typeFitsSomewhere = this.model.types.map((t) =>
       this.model.blocks.some((b) => this.model.compatible[b.index]!.includes(t.index) && t.dims.some((d) => fitsIn(d, b.usable.size))),
     );
+    this.pool = new ColumnPool(this.model, 250);
     this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
     if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
       this.best = { score: scorePlan(problem, opts.warmStart), plan: opts.warmStart };
@@ -108,9 +116,25 @@ export class Search {
     this.iteration++;
     const fills = this.pass(p);
     this.offer(fills);
+    if (fills.length > 1 && this.model.blocks.every((b) => b.classKey === this.model.blocks[0]!.classKey)) this.offer(eliminateBlocks(this.model, fills));
+    if (this.iteration >= this.nextCover) {
+      this.nextCover = Math.ceil(this.iteration * 1.6) + 2;
+      this.cover();
+    }
+  }
+
+  /** Recombines remembered fillings by set cover when everything fits but above the bound. */
+  private cover(): void {
+    const s = this.best?.score;
+    if (!s || this.atBound() || s.placedVolume < this.placeable - 1e-6 || this.pool.size < 2) return;
+    const demand = this.model.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
+    const left = this.opts.now ? this.opts.timeLimitMs - this.elapsed() : Infinity;
+    const fills = coverDemand(this.model, this.pool.columns(), demand, Math.max(20, Math.min(300, left / 4)));
+    if (fills) this.offer(fills);
   }
 
   private offer(fills: BlockFill[]): void {
+    for (const f of fills) this.pool.add(f);
     const score = scoreOf(this.model.problem, {
       placedVolume: fills.reduce((s, f) => s + f.packedVolume, 0),
       usedBlocks: fills.map((f) => f.block),
@@ -131,13 +155,14 @@ export class Search {
       orderKey: pick(r, ["volume", "volume", "maxSide", "area", "minSide"] as const),
       noise: pick(r, [0, 0.05, 0.1, 0.2, 0.4]),
       grid: r() < 0.7,
-      split: r() < 0.7 ? "biggest" : "squares",
+      split: pick(r, ["biggest", "biggest", "squares", "random"] as const),
       thinSlabs: r() < 0.8,
       boxFirst: r() < 0.4,
       rectRule: pick(r, ["bssf", "bssf", "baf", "bl"] as const),
       planarMaxRects: r() < 0.7,
       blockOrder: pick(r, ["cheap", "cheap", "large", "shuffle"] as const),
       candidates: pick(r, [1, 2, 4, 8]),
+      tries: pick(r, [1, 2, 4, 8]),
     };
   }
 
@@ -165,6 +190,18 @@ export class Search {
   }
 
   private fillOne(block: number, remaining: number[], p: PassParams): BlockFill {
+    let best: { fill: BlockFill; rem: number[] } | undefined;
+    for (let i = 0; i < p.tries; i++) {
+      const q = i === 0 ? p : { ...this.randomParams(), candidates: p.candidates, tries: p.tries, blockOrder: p.blockOrder };
+      const rem = [...remaining];
+      const fill = this.fillWith(block, rem, q);
+      if (!best || fill.packedVolume > best.fill.packedVolume + 1e-9) best = { fill, rem };
+    }
+    for (let i = 0; i < remaining.length; i++) remaining[i] = best!.rem[i]!;
+    return best!.fill;
+  }
+
+  private fillWith(block: number, remaining: number[], p: PassParams): BlockFill {
     const m = this.model;
     const info = m.blocks[block]!;
     const live = m.compatible[block]!.filter((t) => remaining[t]! > 0);

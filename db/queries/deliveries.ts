@@ -1,0 +1,158 @@
+import "server-only";
+import type { Knex } from "knex";
+import { db } from "@/db";
+import { appendLedger } from "./ledger";
+import { nextBlockCodes } from "./blocks";
+import { HttpError } from "@/lib/errors";
+import { addDays, isoDate } from "@/lib/stock";
+import type { DeliveryInput } from "@/lib/validations/stock";
+
+export interface DeliverySummary {
+  id: number;
+  supplierId: number;
+  supplier: string;
+  receivedOn: string;
+  poRef: string | null;
+  lot: string;
+  receivedBy: string | null;
+  notes: string | null;
+  blocks: number;
+  volumeM3: number;
+  cost: number;
+}
+
+export interface ReceiveResult {
+  deliveryId: number;
+  codes: string[];
+  warnings: { index: number; message: string }[];
+}
+
+interface GradeFacts {
+  id: number;
+  code: string;
+  cure_days: number;
+  min_density_kg_m3: string | null;
+}
+
+/**
+ * Receives one delivery of blocks in the caller's transaction: codes (given or generated), the
+ * cut-not-before date from the grade's cure days, and a "received" ledger row per block.
+ * Field errors name the block row: `blocks.3.code`.
+ */
+export async function receiveDelivery(trx: Knex.Transaction, input: DeliveryInput, actorId: string, ref?: string): Promise<ReceiveResult> {
+  const supplier = await trx("suppliers").where({ id: input.supplierId }).first("id");
+  if (!supplier) throw new HttpError(400, "Some fields need attention.", { supplierId: "That supplier does not exist." });
+
+  const gradeIds = [...new Set(input.blocks.map((b) => b.gradeId))];
+  const grades = new Map<number, GradeFacts>(
+    ((await trx("grades").whereIn("id", gradeIds).select("id", "code", "cure_days", "min_density_kg_m3")) as GradeFacts[]).map((g) => [g.id, g]),
+  );
+  const fields: Record<string, string> = {};
+  input.blocks.forEach((b, i) => {
+    if (!grades.has(b.gradeId)) fields[`blocks.${i}.gradeId`] = "That grade does not exist.";
+  });
+
+  const given = input.blocks.map((b) => b.code).filter((c): c is string => Boolean(c));
+  const seen = new Map<string, number>();
+  input.blocks.forEach((b, i) => {
+    if (!b.code) return;
+    if (seen.has(b.code)) fields[`blocks.${i}.code`] = `Code ${b.code} appears twice in this delivery.`;
+    seen.set(b.code, i);
+  });
+  if (given.length) {
+    const taken = (await trx("blocks").whereRaw("upper(code) = ANY(?)", [given]).pluck("code")) as string[];
+    for (const code of taken) fields[`blocks.${seen.get(code.toUpperCase())}.code`] = `Code ${code} is already in stock.`;
+  }
+  if (Object.keys(fields).length) throw new HttpError(400, "Some blocks need attention.", fields);
+
+  const [delivery] = await trx("deliveries")
+    .insert({ supplier_id: input.supplierId, received_on: input.receivedOn, po_ref: input.poRef ?? null, lot: input.lot, received_by: actorId, notes: input.notes ?? null })
+    .returning("id");
+  const generated = await nextBlockCodes(trx, input.blocks.filter((b) => !b.code).length);
+  const warnings: ReceiveResult["warnings"] = [];
+  const rows = input.blocks.map((b, i) => {
+    const grade = grades.get(b.gradeId)!;
+    const nominal = b.nominalSize ?? b.size;
+    const volume = (b.size[0] * b.size[1] * b.size[2]) / 1e9;
+    if (b.weightKg && grade.min_density_kg_m3 !== null) {
+      const density = b.weightKg / volume;
+      if (density < Number(grade.min_density_kg_m3)) {
+        warnings.push({ index: i, message: `Density ${density.toFixed(1)} kg/m³ is below the ${grade.code} minimum of ${Number(grade.min_density_kg_m3)} kg/m³.` });
+      }
+    }
+    return {
+      code: b.code ?? generated.shift()!,
+      grade_id: b.gradeId,
+      lot: input.lot,
+      delivery_id: delivery.id,
+      nominal_x: nominal[0],
+      nominal_y: nominal[1],
+      nominal_z: nominal[2],
+      size_x: b.size[0],
+      size_y: b.size[1],
+      size_z: b.size[2],
+      weight_kg: b.weightKg ?? null,
+      cost: b.cost,
+      location: b.location,
+      moulded_on: b.mouldedOn ?? null,
+      cut_not_before: addDays(b.mouldedOn ?? input.receivedOn, grade.cure_days),
+      status: "in_stock",
+    };
+  });
+  const inserted: { id: number; code: string; volume_m3: string; cost: string }[] = [];
+  for (let i = 0; i < rows.length; i += 1000) {
+    inserted.push(...(await trx("blocks").insert(rows.slice(i, i + 1000)).returning(["id", "code", "volume_m3", "cost"])));
+  }
+  await appendLedger(
+    trx,
+    inserted.map((b) => ({ blockId: b.id, kind: "received" as const, volumeM3: Number(b.volume_m3), value: Number(b.cost), userId: actorId, reason: `Delivery ${delivery.id}, lot ${input.lot}`, ref: ref ?? `delivery:${delivery.id}` })),
+  );
+  return { deliveryId: delivery.id, codes: inserted.map((b) => b.code), warnings };
+}
+
+export async function createDelivery(input: DeliveryInput, actorId: string): Promise<ReceiveResult> {
+  return db().transaction((trx) => receiveDelivery(trx, input, actorId));
+}
+
+function deliveriesQuery() {
+  const k = db();
+  return k("deliveries as d")
+    .join("suppliers as s", "s.id", "d.supplier_id")
+    .leftJoin("users as u", "u.id", "d.received_by")
+    .leftJoin("blocks as b", "b.delivery_id", "d.id")
+    .groupBy("d.id", "s.name", "u.name")
+    .select("d.*", "s.name as supplier_name", "u.name as received_by_name", k.raw("count(b.id) AS n"), k.raw("coalesce(sum(b.volume_m3),0) AS v"), k.raw("coalesce(sum(b.cost),0) AS c"));
+}
+
+type DeliveryRow = { id: number; supplier_id: number; supplier_name: string; received_on: Date | string; po_ref: string | null; lot: string; received_by_name: string | null; notes: string | null; n: string; v: string; c: string };
+
+const toDelivery = (r: DeliveryRow): DeliverySummary => ({
+  id: r.id,
+  supplierId: r.supplier_id,
+  supplier: r.supplier_name,
+  receivedOn: typeof r.received_on === "string" ? r.received_on.slice(0, 10) : isoDate(r.received_on),
+  poRef: r.po_ref,
+  lot: r.lot,
+  receivedBy: r.received_by_name,
+  notes: r.notes,
+  blocks: Number(r.n),
+  volumeM3: Number(r.v),
+  cost: Number(r.c),
+});
+
+export async function listDeliveries(opts: { page?: number; pageSize?: number; supplierId?: number } = {}): Promise<{ items: DeliverySummary[]; total: number }> {
+  const pageSize = opts.pageSize ?? 50;
+  const q = deliveriesQuery().orderBy([{ column: "d.received_on", order: "desc" }, { column: "d.id", order: "desc" }]);
+  const c = db()("deliveries");
+  if (opts.supplierId) {
+    q.where("d.supplier_id", opts.supplierId);
+    c.where("supplier_id", opts.supplierId);
+  }
+  const [rows, count] = await Promise.all([q.limit(pageSize).offset(((opts.page ?? 1) - 1) * pageSize), c.count<{ n: string }[]>({ n: "*" }).first()]);
+  return { items: (rows as DeliveryRow[]).map(toDelivery), total: Number(count?.n ?? 0) };
+}
+
+export async function getDelivery(id: number): Promise<DeliverySummary | undefined> {
+  const r = await deliveriesQuery().where("d.id", id).first();
+  return r ? toDelivery(r as DeliveryRow) : undefined;
+}

@@ -1,0 +1,128 @@
+import "server-only";
+import type { Knex } from "knex";
+import { db } from "@/db";
+import type { LedgerKind } from "@/lib/stock";
+
+export interface LedgerEntryInput {
+  blockId: number;
+  kind: LedgerKind;
+  volumeM3: number;
+  value: number;
+  userId: string | null;
+  reason?: string | null;
+  ref?: string | null;
+  at?: Date;
+}
+
+/** The sign each kind applies to stock on hand: reserve and release move nothing in or out. */
+const ON_HAND_SIGN: Record<LedgerKind, number> = {
+  received: 1,
+  offcut_created: 1,
+  consumed: -1,
+  scrapped: -1,
+  adjusted: 1, // adjustments carry their own sign in volume/value
+  reserved: 0,
+  released: 0,
+};
+
+/** Appends movements (inside the caller's transaction: a movement never stands without its change). */
+export async function appendLedger(trx: Knex.Transaction | Knex, entries: LedgerEntryInput[]): Promise<void> {
+  if (!entries.length) return;
+  const rows = entries.map((e) => ({
+    block_id: e.blockId,
+    kind: e.kind,
+    volume_m3: Math.abs(e.volumeM3),
+    delta_m3: ON_HAND_SIGN[e.kind] * e.volumeM3,
+    value: Math.abs(e.value),
+    delta_value: ON_HAND_SIGN[e.kind] * e.value,
+    user_id: e.userId,
+    reason: e.reason ?? null,
+    ref: e.ref ?? null,
+    ...(e.at ? { at: e.at } : {}),
+  }));
+  for (let i = 0; i < rows.length; i += 1000) await trx("stock_ledger").insert(rows.slice(i, i + 1000));
+}
+
+export interface LedgerEntry {
+  id: number;
+  blockId: number;
+  blockCode: string;
+  kind: LedgerKind;
+  volumeM3: number;
+  deltaM3: number;
+  value: number;
+  deltaValue: number;
+  user: string | null;
+  at: string;
+  reason: string | null;
+  ref: string | null;
+}
+
+interface Row {
+  id: string;
+  block_id: number;
+  code: string;
+  kind: LedgerKind;
+  volume_m3: string;
+  delta_m3: string;
+  value: string;
+  delta_value: string;
+  user_name: string | null;
+  at: Date;
+  reason: string | null;
+  ref: string | null;
+}
+
+const toEntry = (r: Row): LedgerEntry => ({
+  id: Number(r.id),
+  blockId: r.block_id,
+  blockCode: r.code,
+  kind: r.kind,
+  volumeM3: Number(r.volume_m3),
+  deltaM3: Number(r.delta_m3),
+  value: Number(r.value),
+  deltaValue: Number(r.delta_value),
+  user: r.user_name,
+  at: r.at.toISOString(),
+  reason: r.reason,
+  ref: r.ref,
+});
+
+export interface LedgerQuery {
+  blockId?: number;
+  kind?: LedgerKind;
+  from?: string;
+  to?: string;
+  page?: number;
+  pageSize?: number;
+}
+
+function ledgerBase(q: LedgerQuery) {
+  const k = db()("stock_ledger as l").join("blocks as b", "b.id", "l.block_id");
+  if (q.blockId) k.where("l.block_id", q.blockId);
+  if (q.kind) k.where("l.kind", q.kind);
+  if (q.from) k.where("l.at", ">=", q.from);
+  if (q.to) k.where("l.at", "<", db().raw("?::date + 1", [q.to]));
+  return k;
+}
+
+export async function listLedger(q: LedgerQuery): Promise<{ items: LedgerEntry[]; total: number }> {
+  const pageSize = q.pageSize ?? 100;
+  const page = q.page ?? 1;
+  const [rows, count] = await Promise.all([
+    ledgerBase(q)
+      .leftJoin("users as u", "u.id", "l.user_id")
+      .select("l.*", "b.code", "u.name as user_name")
+      .orderBy([{ column: "l.at", order: "desc" }, { column: "l.id", order: "desc" }])
+      .limit(pageSize)
+      .offset((page - 1) * pageSize),
+    ledgerBase(q).count<{ n: string }[]>({ n: "*" }).first(),
+  ]);
+  return { items: (rows as Row[]).map(toEntry), total: Number(count?.n ?? 0) };
+}
+
+/** Stock on hand according to the ledger (m³ and value): the figure every page must agree with. */
+export async function ledgerOnHand(trx: Knex | Knex.Transaction = db()): Promise<{ m3: number; value: number }> {
+  const r = await trx("stock_ledger").sum({ m3: "delta_m3", value: "delta_value" }).first();
+  return { m3: Number(r?.m3 ?? 0), value: Number(r?.value ?? 0) };
+}

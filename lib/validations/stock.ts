@@ -1,0 +1,113 @@
+import { z } from "zod";
+import { DEFECT_KINDS, MATERIALS, SHOWN_STATUSES } from "@/lib/stock";
+
+const text = (label: string, max = 200) => z.string({ error: `${label} must be text.` }).trim().max(max, `${label}: at most ${max} characters.`);
+const required = (label: string, max = 200) => text(label, max).min(1, `Enter ${label.toLowerCase()}.`);
+const optionalText = (label: string, max = 500) =>
+  text(label, max).optional().nullable().transform((v) => (v ? v : null));
+const positive = (label: string, max = 100_000) =>
+  z.number({ error: `${label} must be a number.` }).finite(`${label} must be a number.`).gt(0, `${label} must be more than 0.`).max(max, `${label} must be at most ${max}.`);
+const nonNegative = (label: string, max = 10_000_000) =>
+  z.number({ error: `${label} must be a number.` }).finite(`${label} must be a number.`).min(0, `${label} cannot be negative.`).max(max, `${label} must be at most ${max}.`);
+const date = (label: string) => z.iso.date({ error: `${label} must be a date (YYYY-MM-DD).` });
+const colour = z.string().regex(/^#[0-9a-fA-F]{6}$/, "Use a colour like #3a7bd5.");
+
+export const gradeSchema = z.object({
+  code: required("Code", 40),
+  material: z.enum(MATERIALS, { error: "Choose EPS, XPS, EPP or PU." }),
+  gradeSystem: required("Grade system", 40),
+  grade: required("Grade", 60),
+  nominalDensity: positive("Nominal density", 1000).nullable().optional(),
+  minDensity: positive("Minimum density", 1000).nullable().optional(),
+  cureDays: z.number({ error: "Cure days must be a number." }).int("Cure days must be whole days.").min(0, "Cure days cannot be negative.").max(365, "At most 365 days."),
+  neverHotWire: z.boolean({ error: "Must be true or false." }),
+  colour,
+  priceUnit: z.enum(["m3", "bf"], { error: "Price per m³ or per board foot." }),
+  notes: optionalText("Notes"),
+}).refine((g) => g.material !== "PU" || g.neverHotWire, {
+  path: ["neverHotWire"],
+  message: "Polyurethane must never be hot-wired: keep this on.",
+}).refine((g) => g.minDensity == null || g.nominalDensity == null || g.minDensity <= g.nominalDensity, {
+  path: ["minDensity"],
+  message: "The minimum density cannot exceed the nominal density.",
+});
+export type GradeInput = z.infer<typeof gradeSchema>;
+
+export const supplierSchema = z.object({
+  name: required("Name", 120),
+  contact: optionalText("Contact", 120),
+  email: z.email({ error: "Enter a valid e-mail address." }).max(320).nullable().optional().or(z.literal("").transform(() => null)),
+  phone: optionalText("Phone", 60),
+  leadTimeDays: z.number({ error: "Lead time must be a number." }).int("Lead time must be whole days.").min(0, "Lead time cannot be negative.").max(365, "At most 365 days."),
+  notes: optionalText("Notes"),
+  active: z.boolean().optional(),
+});
+export type SupplierInput = z.infer<typeof supplierSchema>;
+
+export const sizeSchema = z.tuple([positive("Length", 30_000), positive("Width", 30_000), positive("Height", 30_000)]);
+
+export const receivedBlockSchema = z.object({
+  code: text("Code", 40).optional().nullable().transform((v) => (v ? v.toUpperCase() : null)),
+  gradeId: z.number({ error: "Choose a grade." }).int().positive("Choose a grade."),
+  size: sizeSchema,
+  nominalSize: sizeSchema.nullable().optional(),
+  weightKg: positive("Weight", 10_000).nullable().optional(),
+  cost: nonNegative("Cost"),
+  location: required("Location", 60),
+  mouldedOn: date("Moulding date").nullable().optional(),
+});
+
+export const deliverySchema = z.object({
+  supplierId: z.number({ error: "Choose a supplier." }).int().positive("Choose a supplier."),
+  receivedOn: date("Received on"),
+  poRef: optionalText("PO reference", 60),
+  lot: required("Lot", 60),
+  notes: optionalText("Notes"),
+  blocks: z.array(receivedBlockSchema).min(1, "Add at least one block.").max(500, "At most 500 blocks per delivery."),
+});
+export type DeliveryInput = z.infer<typeof deliverySchema>;
+
+const SORTS = ["code", "grade", "volume", "cut_not_before", "received", "location", "cost"] as const;
+
+/** The stock list's query string. Unknown values are refused with 400, not ignored. */
+export const blockQuerySchema = z.object({
+  q: z.string().trim().max(60).optional(),
+  grade: z.coerce.number().int().positive().optional(),
+  status: z.enum([...SHOWN_STATUSES, "available", "all"] as const).optional(),
+  location: z.string().trim().max(60).optional(),
+  minLength: z.coerce.number().finite().min(0).optional(),
+  maxLength: z.coerce.number().finite().min(0).optional(),
+  minVolume: z.coerce.number().finite().min(0).optional(),
+  offcuts: z.enum(["only", "exclude"]).optional(),
+  sort: z.enum(SORTS).default("received"),
+  dir: z.enum(["asc", "desc"]).default("asc"),
+  page: z.coerce.number().int().min(1).max(100_000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(200).default(50),
+});
+export type BlockQuery = z.infer<typeof blockQuerySchema>;
+
+export const blockPatchSchema = z
+  .object({
+    location: required("Location", 60).optional(),
+    notes: optionalText("Notes").optional(),
+  })
+  .strict();
+
+export const scrapSchema = z.object({ reason: required("Reason", 300) });
+
+export const adjustSchema = z.object({
+  size: sizeSchema,
+  reason: required("Reason", 300),
+});
+
+export const defectSchema = z.object({
+  kind: z.enum(DEFECT_KINDS, { error: "Choose what kind of defect it is." }),
+  min: z.tuple([nonNegative("min x", 30_000), nonNegative("min y", 30_000), nonNegative("min z", 30_000)]),
+  max: z.tuple([positive("max x", 30_000), positive("max y", 30_000), positive("max z", 30_000)]),
+  note: optionalText("Note"),
+}).superRefine((d, ctx) => {
+  (["x", "y", "z"] as const).forEach((axis, i) => {
+    if (d.max[i]! <= d.min[i]!) ctx.addIssue({ code: "custom", path: ["max", i], message: `max ${axis} must be more than min ${axis}.` });
+  });
+});
+export type DefectInput = z.infer<typeof defectSchema>;
