@@ -7,6 +7,7 @@ import { assemblePlan, keptOffcuts } from "./assemble";
 import { fillBlockGuillotine, type SplitRule } from "./guillotine3d";
 import { fillBlockMaxRects, layerDims, type RectRule } from "./maxrects2d";
 import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
+import { packAllInBlock } from "./exact";
 import { eliminateBlocks } from "./improve";
 import { ColumnPool, coverDemand } from "./setcover";
 
@@ -65,6 +66,8 @@ export class Search {
   private readonly typeFitsSomewhere: boolean[];
   private readonly pool: ColumnPool;
   private nextCover = 6;
+  /** Completion searches already tried (block class + remaining parts), with their node budget. */
+  private readonly tried = new Map<string, number>();
 
   constructor(
     problem: Problem,
@@ -129,7 +132,8 @@ export class Search {
     if (!s || this.atBound() || s.placedVolume < this.placeable - 1e-6 || this.pool.size < 2) return;
     const demand = this.model.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
     const left = this.opts.now ? this.opts.timeLimitMs - this.elapsed() : Infinity;
-    const fills = coverDemand(this.model, this.pool.columns(), demand, Math.max(20, Math.min(300, left / 4)));
+    if (left < 100) return;
+    const fills = coverDemand(this.model, this.pool.columns(), demand, Math.min(300, left / 4));
     if (fills) this.offer(fills);
   }
 
@@ -211,6 +215,30 @@ export class Search {
     return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, rng: this.r });
   }
 
+  /**
+   * When what is left could fit one candidate block by volume, searches for a packing of all of
+   * it there (cheapest block first). Each state is searched again only with a larger budget.
+   */
+  private tryFinish(cands: readonly number[], remaining: readonly number[]): BlockFill | undefined {
+    const m = this.model;
+    const sorted = [...cands].sort((a, b) => m.blocks[a]!.cost - m.blocks[b]!.cost);
+    for (const b of sorted) {
+      const info = m.blocks[b]!;
+      const counts = remaining.map((c, t) => (m.compatible[b]!.includes(t) ? c : 0));
+      if (counts.some((c, t) => c < remaining[t]!)) continue;
+      const need = counts.reduce((s, c, t) => s + c * m.types[t]!.dims[0]!.reduce((p, v) => p * v, 1), 0);
+      const cap = info.usable.size.reduce((p, v) => p * v, 1);
+      if (need > cap + 1e-6 || need === 0) continue;
+      const key = `${info.classKey}|${counts.join(",")}`;
+      const budget = (this.tried.get(key) ?? 1000) * 2;
+      if (budget > 32_000) continue;
+      this.tried.set(key, budget);
+      const fill = packAllInBlock(info, m.types, counts, budget, this.r);
+      if (fill) return fill;
+    }
+    return undefined;
+  }
+
   /** One greedy pass: block after block, each filled as well as the pass's settings manage. */
   private pass(p: PassParams): BlockFill[] {
     const m = this.model;
@@ -229,6 +257,13 @@ export class Search {
         cands.push(b);
       }
       if (cands.length === 0) break;
+      const finish = this.tryFinish(cands, remaining);
+      if (finish) {
+        fills.push(finish);
+        for (const it of finish.items) remaining[it.type]!--;
+        unused = unused.filter((b) => b !== finish.block);
+        continue;
+      }
       let chosen: { fill: BlockFill; rem: number[]; finishes: boolean; value: number } | undefined;
       const useless = new Set<number>();
       for (const b of cands) {
