@@ -110,3 +110,116 @@ export function packAllInBlock(block: BlockInfo, types: readonly ItemType[], cou
   const packedVolume = items.reduce((s, it) => s + types[it.type]!.volume, 0);
   return { block: block.index, items, leftovers: [], packedVolume };
 }
+
+/**
+ * Depth-first search that builds the cut tree top-down: the current region is either exactly one
+ * part, or is cut through along an axis at a part's length (the first piece of a strip or slab),
+ * or is left as waste while the slack allows. Complete for cut trees whose cuts fall at part
+ * lengths, which is how a cutter usually works; bounded by `nodeLimit`.
+ */
+export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, r: Rng): BlockFill | undefined {
+  const { free: initial } = carveObstacles(block.usable, block.obstacles, true, r);
+  const capacity = initial.reduce((s, b) => s + vol(b.size), 0);
+  const live = counts.map((c, t) => (c > 0 ? t : -1)).filter((t) => t >= 0);
+  const need = live.reduce((s, t) => s + counts[t]! * vol(types[t]!.dims[0]!), 0);
+  const slack = capacity - need;
+  if (slack < -1e-6) return undefined;
+  const rem = [...counts];
+  const items: PackedItem[] = [];
+  let nodes = 0;
+  let left = live.reduce((s, t) => s + counts[t]!, 0);
+  const order = [...live].sort((a, b) => vol(types[b]!.dims[0]!) - vol(types[a]!.dims[0]!) + (r() - 0.5) * 1e-9);
+  const fittingVolume = (size: Vec3): number => {
+    let v = 0;
+    for (const t of order) if (rem[t]! > 0 && types[t]!.dims.some((d) => fitsIn(d, size))) v += rem[t]! * vol(types[t]!.dims[0]!);
+    return v;
+  };
+
+  /** Orientations that fit, or -1 when the parts that fit cannot fill the region within `spare`. */
+  const choices = (size: Vec3, spare: number): number => {
+    let n = 0;
+    let v = 0;
+    for (const t of order) {
+      if (rem[t]! <= 0) continue;
+      let fits = false;
+      for (const d of types[t]!.dims)
+        if (fitsIn(d, size)) {
+          n++;
+          fits = true;
+        }
+      if (fits) v += rem[t]! * vol(types[t]!.dims[0]!);
+    }
+    return v < vol(size) - spare ? -1 : n;
+  };
+
+  const dfs = (regions: Box[], wasted: number): boolean => {
+    if (left === 0) return true;
+    if (++nodes > nodeLimit || regions.length === 0) return false;
+    // Most constrained region first: dead ends show up early.
+    const spare0 = slack - wasted + 1e-6;
+    let ri = regions.length - 1;
+    let best = choices(regions[ri]!.size, spare0);
+    if (best < 0) return false;
+    for (let i = regions.length - 2; i >= 0; i--) {
+      const c = choices(regions[i]!.size, spare0);
+      if (c < 0) return false;
+      if (c < best) {
+        best = c;
+        ri = i;
+      }
+    }
+    const R = regions[ri]!;
+    const rest = regions.filter((_, i) => i !== ri);
+    // Exact fits first, then cuts at part lengths (strips that match the region on more axes first).
+    const cuts = new Map<string, { a: number; c: number; score: number }>();
+    let anyFits = false;
+    for (const t of order) {
+      if (rem[t]! <= 0) continue;
+      for (const d of types[t]!.dims) {
+        if (!fitsIn(d, R.size)) continue;
+        anyFits = true;
+        const match = [0, 1, 2].filter((a) => Math.abs(d[a]! - R.size[a]!) <= 1e-9).length;
+        if (match === 3) {
+          rem[t]!--;
+          left--;
+          items.push({ type: t, origin: [...R.origin] as Vec3, dims: d });
+          if (dfs(rest, wasted)) return true;
+          items.pop();
+          rem[t]!++;
+          left++;
+          if (nodes > nodeLimit) return false;
+          continue;
+        }
+        for (let a = 0; a < 3; a++) {
+          if (d[a]! >= R.size[a]! - 1e-9) continue;
+          // Cutting at c or at R - c gives the same two slabs, mirrored: try the pair once.
+          const c = d[a]!;
+          const key = `${a}:${Math.min(c, R.size[a]! - c)}`;
+          const score = match * 1e9 + c;
+          const prev = cuts.get(key);
+          if (!prev || prev.score < score) cuts.set(key, { a, c, score });
+        }
+      }
+    }
+    if (anyFits) {
+      for (const { a, c } of [...cuts.values()].sort((x, y) => y.score - x.score)) {
+        const first: Box = { origin: [...R.origin] as Vec3, size: [...R.size] as Vec3 };
+        first.size[a] = c;
+        const second: Box = { origin: [...R.origin] as Vec3, size: [...R.size] as Vec3 };
+        second.origin[a] = R.origin[a]! + c;
+        second.size[a] = R.size[a]! - c;
+        // A region needs enough fitting parts to fill it, up to the slack still unspent.
+        const spare = slack - wasted + 1e-6;
+        if (fittingVolume(first.size) < vol(first.size) - spare || fittingVolume(second.size) < vol(second.size) - spare) continue;
+        if (dfs([...rest, second, first], wasted)) return true;
+        if (nodes > nodeLimit) return false;
+      }
+    }
+    const w = wasted + vol(R.size);
+    return w <= slack + 1e-6 && dfs(rest, w);
+  };
+
+  if (!dfs(initial, 0)) return undefined;
+  const packedVolume = items.reduce((s, it) => s + types[it.type]!.volume, 0);
+  return { block: block.index, items, leftovers: [], packedVolume };
+}

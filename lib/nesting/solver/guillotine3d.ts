@@ -93,6 +93,20 @@ function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
   return best;
 }
 
+const GRID_ORDERS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]];
+
+/** Slack on axes too thin for any remaining part costs much; other slack a little. */
+function wasteScore(f: Vec3, g0: number, g1: number, g2: number, mMin: number): number {
+  let waste = 0;
+  const r0 = f[0] - g0;
+  const r1 = f[1] - g1;
+  const r2 = f[2] - g2;
+  if (r0 > 1e-9) waste += r0 < mMin ? (r0 / f[0]) * 4 : r0 / f[0] / 4;
+  if (r1 > 1e-9) waste += r1 < mMin ? (r1 / f[1]) * 4 : r1 / f[1] / 4;
+  if (r2 > 1e-9) waste += r2 < mMin ? (r2 / f[2]) * 4 : r2 / f[2] / 4;
+  return waste;
+}
+
 interface Candidate {
   free: number;
   dims: Vec3;
@@ -172,32 +186,23 @@ export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[]
       let best: Candidate | undefined;
       for (let fi = 0; fi < free.length; fi++) {
         const f = free[fi]!;
+        const fs = f.size;
         for (const d of type.dims) {
-          if (!fitsIn(d, f.size)) continue;
-          const cap = [0, 1, 2].map((a) => Math.floor(f.size[a]! / d[a]! + 1e-9)) as Vec3;
-          const grids: Vec3[] = [];
-          if (!p.grid) grids.push([1, 1, 1]);
-          else {
-            const rem = remaining[t]!;
-            for (const [a1, a2, a3] of [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]] as [number, number, number][]) {
-              const n: Vec3 = [1, 1, 1];
-              n[a1] = Math.min(cap[a1]!, rem);
-              n[a2] = Math.min(cap[a2]!, Math.floor(rem / n[a1]!));
-              n[a3] = Math.min(cap[a3]!, Math.floor(rem / (n[a1]! * n[a2]!)));
-              grids.push(n);
-            }
+          if (d[0] > fs[0] + 1e-9 || d[1] > fs[1] + 1e-9 || d[2] > fs[2] + 1e-9) continue;
+          if (!p.grid || remaining[t]! === 1) {
+            const score = wasteScore(fs, d[0], d[1], d[2], mMin) - 1e-6;
+            if (!best || score < best.score) best = { free: fi, dims: d, n: [1, 1, 1], score };
+            continue;
           }
-          for (const n of grids) {
-            const g: Vec3 = [d[0] * n[0], d[1] * n[1], d[2] * n[2]];
-            // Waste: slack on axes too thin for any remaining part, weighted by the face it spans.
-            let waste = 0;
-            for (let a = 0; a < 3; a++) {
-              const r = f.size[a]! - g[a]!;
-              if (r > 1e-9 && r < mMin) waste += (r / f.size[a]!) * 4;
-              else if (r > 1e-9) waste += r / f.size[a]! / 4;
-            }
+          const rem = remaining[t]!;
+          const cap: Vec3 = [Math.floor(fs[0] / d[0] + 1e-9), Math.floor(fs[1] / d[1] + 1e-9), Math.floor(fs[2] / d[2] + 1e-9)];
+          for (const [a1, a2, a3] of GRID_ORDERS) {
+            const n: Vec3 = [1, 1, 1];
+            n[a1] = Math.min(cap[a1]!, rem);
+            n[a2] = Math.min(cap[a2]!, Math.floor(rem / n[a1]!));
+            n[a3] = Math.min(cap[a3]!, Math.floor(rem / (n[a1]! * n[a2]!)));
             const count = n[0] * n[1] * n[2];
-            const score = waste - count * 1e-6 + vol(f.size) * 1e-15 * (p.rng() * 0.01);
+            const score = wasteScore(fs, d[0] * n[0], d[1] * n[1], d[2] * n[2], mMin) - count * 1e-6;
             if (!best || score < best.score) best = { free: fi, dims: d, n, score };
           }
         }

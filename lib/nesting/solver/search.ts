@@ -7,7 +7,7 @@ import { assemblePlan, keptOffcuts } from "./assemble";
 import { fillBlockGuillotine, type SplitRule } from "./guillotine3d";
 import { fillBlockMaxRects, layerDims, type RectRule } from "./maxrects2d";
 import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
-import { packAllInBlock } from "./exact";
+import { packAllByCuts, packAllInBlock } from "./exact";
 import { eliminateBlocks } from "./improve";
 import { ColumnPool, coverDemand } from "./setcover";
 
@@ -230,10 +230,10 @@ export class Search {
       const cap = info.usable.size.reduce((p, v) => p * v, 1);
       if (need > cap + 1e-6 || need === 0) continue;
       const key = `${info.classKey}|${counts.join(",")}`;
-      const budget = (this.tried.get(key) ?? 1000) * 2;
-      if (budget > 32_000) continue;
+      const budget = (this.tried.get(key) ?? 25) * 2;
+      if (budget > 51_200) continue;
       this.tried.set(key, budget);
-      const fill = packAllInBlock(info, m.types, counts, budget, this.r);
+      const fill = packAllByCuts(info, m.types, counts, budget, this.r) ?? packAllInBlock(info, m.types, counts, budget / 2, this.r);
       if (fill) return fill;
     }
     return undefined;
@@ -257,13 +257,6 @@ export class Search {
         cands.push(b);
       }
       if (cands.length === 0) break;
-      const finish = this.tryFinish(cands, remaining);
-      if (finish) {
-        fills.push(finish);
-        for (const it of finish.items) remaining[it.type]!--;
-        unused = unused.filter((b) => b !== finish.block);
-        continue;
-      }
       let chosen: { fill: BlockFill; rem: number[]; finishes: boolean; value: number } | undefined;
       const useless = new Set<number>();
       for (const b of cands) {
@@ -282,6 +275,16 @@ export class Search {
         if (!chosen || (finishes && !chosen.finishes) || (finishes === chosen.finishes && value > chosen.value)) chosen = { fill, rem, finishes, value };
       }
       unused = unused.filter((b) => !useless.has(b));
+      if (!chosen?.finishes) {
+        // Greedy did not finish here: search harder for a packing of everything that is left.
+        const finish = this.tryFinish(cands, remaining);
+        if (finish) {
+          fills.push(finish);
+          for (const it of finish.items) remaining[it.type]!--;
+          unused = unused.filter((b) => b !== finish.block);
+          continue;
+        }
+      }
       if (!chosen) continue;
       fills.push(chosen.fill);
       for (let i = 0; i < remaining.length; i++) remaining[i] = chosen.rem[i]!;
