@@ -17,8 +17,13 @@ const csp = [
 
 /** @type {import('next').NextConfig} */
 const nextConfig = {
+  // Side-by-side test runs (TEST_SLOT) build into their own folder.
+  distDir: process.env.NEXT_DIST_DIR || ".next",
   poweredByHeader: false,
   serverExternalPackages: ["knex", "pg", "pg-boss", "@node-rs/argon2"],
+  // The proxy (proxy.ts) buffers request bodies and cuts them off at this size: room for a photo
+  // upload (6 photos of at most 10 MB each; the route refuses more with a clear 413).
+  experimental: { proxyClientMaxBodySize: 64 * 1024 * 1024 },
   async headers() {
     return [
       {

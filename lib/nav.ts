@@ -9,6 +9,15 @@ export interface NavItem {
 
 export const NAV: NavItem[] = [
   { href: "/", label: "Today" },
+  { href: "/stock", label: "Stock" },
+  { href: "/defects/new", label: "Flag a defect", roles: ["cutter"] },
+  { href: "/labels", label: "Labels", roles: ["cutter"] },
+  { href: "/deliveries/new", label: "Receive a delivery", roles: ["buyer"] },
+  { href: "/deliveries", label: "Deliveries", roles: ["buyer", "planner", "manager"] },
+  { href: "/stock/import", label: "CSV import", roles: ["buyer"] },
+  { href: "/ledger", label: "Stock ledger", roles: ["buyer", "planner", "manager"] },
+  { href: "/grades", label: "Grades", roles: ["buyer"] },
+  { href: "/suppliers", label: "Suppliers", roles: ["buyer"] },
   { href: "/admin/users", label: "People", roles: ["admin"] },
   { href: "/admin/settings", label: "Shop settings", roles: ["admin"] },
 ];

@@ -18,7 +18,7 @@ function newestMtime(p: string): number {
 }
 
 export function buildIfNeeded(): void {
-  const stamp = path.join(".next", "BUILD_ID");
+  const stamp = path.join(process.env.NEXT_DIST_DIR || ".next", "BUILD_ID");
   const built = fs.existsSync(stamp) ? fs.statSync(stamp).mtimeMs : 0;
   const newest = Math.max(...SOURCES.map(newestMtime));
   if (built && built >= newest) {

@@ -154,9 +154,12 @@ export const DEMO_CLUSTER: ClusterOptions = {
   database: "blockyard",
 };
 
+/** TEST_SLOT=n gives a test run its own cluster, bucket and port, so runs side by side do not collide. */
+export const TEST_SLOT = Number(process.env.TEST_SLOT ?? 0);
+
 export const TEST_CLUSTER: ClusterOptions = {
-  name: "pg-test",
-  port: Number(process.env.BLOCKYARD_TEST_PG_PORT ?? 54329),
+  name: TEST_SLOT ? `pg-test-${TEST_SLOT}` : "pg-test",
+  port: Number(process.env.BLOCKYARD_TEST_PG_PORT ?? (TEST_SLOT ? 55000 + TEST_SLOT : 54329)),
   database: "blockyard_test",
   fast: true,
 };

@@ -9,9 +9,10 @@
  */
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
-import { TEST_CLUSTER, ensureCluster, recreateDatabase, stopCluster } from "./pg";
+import { TEST_CLUSTER, TEST_SLOT, ensureCluster, recreateDatabase, stopCluster } from "./pg";
 import { migrateAndSeed } from "./db";
 import { buildIfNeeded } from "./build-if-needed";
+import { TEST_S3, ensureS3 } from "./s3";
 
 const CHROMIUM = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
 
@@ -46,18 +47,23 @@ async function waitForHealth(url: string, server: ChildProcess): Promise<void> {
 
 async function main() {
   const vitestArgs = process.argv.slice(2);
-  const onlyUnit = vitestArgs.join(" ").includes("--project unit");
+  // Only the unit project asked for: no database, no server, no browser needed.
+  const projects = vitestArgs.flatMap((a, i) => (a === "--project" && vitestArgs[i + 1] ? [vitestArgs[i + 1]!] : a.startsWith("--project=") ? [a.slice(10)] : []));
+  const onlyUnit = projects.length > 0 && projects.every((p) => p === "unit");
   delete process.env.DATABASE_URL; // the demo database is never a test database
+  if (TEST_SLOT && !process.env.NEXT_DIST_DIR) process.env.NEXT_DIST_DIR = `.next-slot-${TEST_SLOT}`;
 
   let url = process.env.TEST_DATABASE_URL;
   if (!url) {
     url = await ensureCluster(TEST_CLUSTER);
     await recreateDatabase(TEST_CLUSTER);
   }
+  const s3 = await ensureS3(TEST_S3); // an empty bucket for photos, before the seed uploads some
+  Object.assign(process.env, s3.env);
   await migrateAndSeed(url, { seedWhenEmpty: false, forceSeed: true });
 
   let server: ChildProcess | undefined;
-  const port = process.env.TEST_PORT ?? "3199";
+  const port = process.env.TEST_PORT ?? String(TEST_SLOT ? 3200 + TEST_SLOT : 3199);
   const baseUrl = `http://127.0.0.1:${port}`;
   const env: NodeJS.ProcessEnv = {
     ...process.env,
@@ -68,6 +74,7 @@ async function main() {
     NEXT_TELEMETRY_DISABLED: "1",
   };
   const stopAll = () => {
+    void s3.stop();
     if (server?.pid && server.exitCode === null) {
       try {
         process.kill(-server.pid, "SIGTERM");
@@ -87,7 +94,7 @@ async function main() {
       server = spawn("npx", ["next", "start", "-p", port, "-H", "127.0.0.1"], {
         env,
         detached: true,
-        stdio: ["ignore", fs.openSync(".data/test-server.log", "w"), fs.openSync(".data/test-server.log", "a")],
+        stdio: ["ignore", fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "w"), fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "a")],
       });
       await waitForHealth(baseUrl, server);
     }

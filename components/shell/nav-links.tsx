@@ -6,10 +6,14 @@ import type { NavItem } from "@/lib/nav";
 
 export function NavLinks({ items }: { items: NavItem[] }) {
   const path = usePathname();
+  // The longest matching link is the current one (/deliveries/new over /deliveries).
+  const current = items
+    .filter((i) => (i.href === "/" ? path === "/" : path === i.href || path.startsWith(i.href + "/")))
+    .sort((a, b) => b.href.length - a.href.length)[0]?.href;
   return (
     <ul className="flex gap-1 overflow-x-auto lg:flex-col lg:overflow-visible">
       {items.map((item) => {
-        const active = item.href === "/" ? path === "/" : path.startsWith(item.href);
+        const active = item.href === current;
         return (
           <li key={item.href}>
             <Link

@@ -126,8 +126,8 @@ export async function up(knex: Knex): Promise<void> {
     t.bigIncrements("id");
     t.integer("block_id").notNullable().references("blocks.id");
     t.text("kind").notNullable();
-    t.decimal("volume_m3", 14, 6).notNullable(); // the volume the entry concerns (≥ 0)
-    t.decimal("delta_m3", 14, 6).notNullable();
+    t.specificType("volume_m3", "numeric").notNullable(); // the volume the entry concerns (≥ 0)
+    t.specificType("delta_m3", "numeric").notNullable();
     t.decimal("value", 14, 2).notNullable().defaultTo(0); // the value the entry concerns (≥ 0)
     t.decimal("delta_value", 14, 2).notNullable().defaultTo(0);
     t.text("user_id").nullable().references("users.id");

@@ -308,7 +308,14 @@ export async function adjustBlock(id: number, size: Size, reason: string, actorI
 }
 
 export async function nextBlockCodes(trx: Knex | Knex.Transaction, n: number, prefix = "HF"): Promise<string[]> {
-  if (n === 0) return [];
-  const rows = await trx.raw("SELECT nextval('block_code_seq') AS v FROM generate_series(1, ?)", [n]);
-  return (rows.rows as { v: string }[]).map((r) => `${prefix}-${r.v}`);
+  const codes: string[] = [];
+  // Skip numbers someone already used by hand (a code typed on receipt, an imported one).
+  while (codes.length < n) {
+    const want = n - codes.length;
+    const rows = await trx.raw("SELECT nextval('block_code_seq') AS v FROM generate_series(1, ?)", [want]);
+    const fresh = (rows.rows as { v: string }[]).map((r) => `${prefix}-${r.v}`);
+    const taken = new Set(((await trx("blocks").whereRaw("upper(code) = ANY(?)", [fresh]).pluck("code")) as string[]).map((c) => c.toUpperCase()));
+    codes.push(...fresh.filter((c) => !taken.has(c)));
+  }
+  return codes;
 }

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { DEFECT_KINDS, MATERIALS, SHOWN_STATUSES } from "@/lib/stock";
+import { DEFECT_KINDS, LEDGER_KINDS, MATERIALS, SHOWN_STATUSES } from "@/lib/stock";
 
 const text = (label: string, max = 200) => z.string({ error: `${label} must be text.` }).trim().max(max, `${label}: at most ${max} characters.`);
 const required = (label: string, max = 200) => text(label, max).min(1, `Enter ${label.toLowerCase()}.`);
@@ -111,3 +111,12 @@ export const defectSchema = z.object({
   });
 });
 export type DefectInput = z.infer<typeof defectSchema>;
+
+export const ledgerQuery = z.object({
+  block: z.coerce.number().int().positive().optional(),
+  kind: z.enum(LEDGER_KINDS).optional(),
+  from: z.iso.date().optional(),
+  to: z.iso.date().optional(),
+  page: z.coerce.number().int().min(1).max(100_000).default(1),
+  pageSize: z.coerce.number().int().min(1).max(500).default(100),
+});

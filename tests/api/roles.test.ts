@@ -61,13 +61,15 @@ describe("route discovery", () => {
 async function callAs(key: RouteKey, caller: Role | "anonymous") {
   const [method, pattern] = key.split(" ") as [string, string];
   const example = (await EXAMPLES[key]?.({ makeUser, password: TEST_PASSWORD })) ?? {};
-  const url = pattern.replace(/\[(\w+)\]/g, (_, p: string) => encodeURIComponent(example.params?.[p] ?? "missing"));
+  const url = pattern.replace(/\[(\w+)\]/g, (_, p: string) => encodeURIComponent(example.params?.[p] ?? "missing")) + (example.query ? `?${example.query}` : "");
   const c = client();
   if (caller !== "anonymous") {
     const u = await makeUser([caller]);
     await c.signIn(u.email, TEST_PASSWORD);
   }
-  const req = c.call(method.toLowerCase() as "get", url);
+  let req = c.call(method.toLowerCase() as "get", url);
+  if (example.contentType) req = req.set("content-type", example.contentType);
+  for (const f of example.files ?? []) req = req.attach(f.field, f.content, { filename: f.name, contentType: f.contentType });
   const res = example.body !== undefined ? await req.send(example.body as object) : await req;
   return { res, example };
 }

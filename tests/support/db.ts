@@ -43,3 +43,36 @@ export async function tableCounts(): Promise<Record<string, number>> {
   }
   return out;
 }
+
+let blockSeq = 0;
+
+/** A block in stock (with its "received" ledger row, so ledger totals still reconcile). */
+export async function makeBlock(opts: { size?: [number, number, number]; gradeCode?: string; location?: string; cutNotBefore?: string; cost?: number } = {}) {
+  const k = testDb();
+  const grade = await k("grades").where({ code: opts.gradeCode ?? "EPS-II" }).first("id");
+  const size = opts.size ?? [2000, 1000, 500];
+  const code = `T-${process.pid}-${Date.now().toString(36)}-${++blockSeq}`.toUpperCase();
+  const [b] = await k("blocks")
+    .insert({
+      code,
+      grade_id: grade.id,
+      lot: "TEST-LOT",
+      nominal_x: size[0], nominal_y: size[1], nominal_z: size[2],
+      size_x: size[0], size_y: size[1], size_z: size[2],
+      cost: opts.cost ?? 100,
+      location: opts.location ?? "Test bay",
+      cut_not_before: opts.cutNotBefore ?? "2020-01-01",
+      status: "in_stock",
+    })
+    .returning(["id", "code", "volume_m3"]);
+  await k("stock_ledger").insert({ block_id: b.id, kind: "received", volume_m3: b.volume_m3, delta_m3: b.volume_m3, value: opts.cost ?? 100, delta_value: opts.cost ?? 100, reason: "test fixture" });
+  return { id: b.id as number, code: b.code as string };
+}
+
+/** Ledger on hand minus the volume of blocks in stock: zero when every movement was recorded. */
+export async function ledgerGap(): Promise<{ m3: number; value: number }> {
+  const k = testDb();
+  const ledger = await k("stock_ledger").sum({ m3: "delta_m3", v: "delta_value" }).first();
+  const stock = await k("blocks").whereIn("status", ["in_stock", "earmarked"]).sum({ m3: "volume_m3", v: "cost" }).first();
+  return { m3: Number(ledger?.m3 ?? 0) - Number(stock?.m3 ?? 0), value: Number(ledger?.v ?? 0) - Number(stock?.v ?? 0) };
+}

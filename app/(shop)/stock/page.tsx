@@ -1,0 +1,38 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { requireRole } from "@/lib/auth/guard";
+import { listBlocks, listLocations } from "@/db/queries/blocks";
+import { listGrades } from "@/db/queries/grades";
+import { blockQuerySchema } from "@/lib/validations/stock";
+import { displayUnit } from "@/lib/display";
+import { PageHeader, Notice } from "@/components/ui/card";
+import { StockTable } from "@/components/stock/stock-table";
+import { buttonClass } from "@/components/ui/button";
+
+export const metadata: Metadata = { title: "Stock" };
+
+export default async function StockPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  const user = await requireRole();
+  const raw = Object.fromEntries(Object.entries(await searchParams).filter((e): e is [string, string] => typeof e[1] === "string" && e[1] !== ""));
+  const parsed = blockQuerySchema.safeParse(raw);
+  const query = parsed.success ? parsed.data : blockQuerySchema.parse({});
+  const [list, grades, locations, unit] = await Promise.all([listBlocks(query), listGrades(), listLocations(), displayUnit(user)]);
+  const qs = new URLSearchParams(raw).toString();
+  const canExport = user.roles.some((r) => ["admin", "buyer", "planner", "manager"].includes(r));
+  const canReceive = user.roles.some((r) => r === "admin" || r === "buyer");
+  return (
+    <>
+      <PageHeader
+        title="Stock"
+        lead="Every block and offcut the shop holds. Settling blocks are still shrinking: cut them after their cut-not-before date."
+        actions={canReceive && <Link className={buttonClass("primary")} href="/deliveries/new">Receive a delivery</Link>}
+      />
+      {!parsed.success && (
+        <div className="mb-4">
+          <Notice tone="caution">Some filters in the address were not understood and were ignored.</Notice>
+        </div>
+      )}
+      <StockTable initial={JSON.parse(JSON.stringify(list))} query={qs} unit={unit} grades={grades.map((g) => ({ id: g.id, code: g.code }))} locations={locations} canExport={canExport} />
+    </>
+  );
+}

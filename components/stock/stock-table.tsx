@@ -1,0 +1,199 @@
+"use client";
+
+import Link from "next/link";
+import { usePathname, useRouter, useSearchParams } from "next/navigation";
+import { useTransition } from "react";
+import { useBlocks, type BlockListResponse } from "@/lib/swr/use-blocks";
+import { formatSize, m3ToBoardFeet, type LengthUnit } from "@/lib/units";
+import { SHOWN_STATUSES, STATUS_LABELS } from "@/lib/stock";
+import { GradeChip, StatusBadge } from "./status-badge";
+import { buttonClass } from "@/components/ui/button";
+
+interface Props {
+  initial: BlockListResponse;
+  query: string;
+  unit: LengthUnit;
+  grades: { id: number; code: string }[];
+  locations: string[];
+  canExport: boolean;
+}
+
+const SORTS: [string, string][] = [
+  ["received", "Oldest first (FIFO)"],
+  ["code", "Code"],
+  ["grade", "Grade"],
+  ["volume", "Volume"],
+  ["cut_not_before", "Cut-not-before"],
+  ["location", "Location"],
+  ["cost", "Value"],
+];
+
+export function StockTable({ initial, query, unit, grades, locations, canExport }: Props) {
+  const router = useRouter();
+  const path = usePathname();
+  const params = useSearchParams();
+  const [pending, start] = useTransition();
+  const { data, isValidating } = useBlocks(query, initial);
+  const list = data ?? initial;
+  const pages = Math.max(1, Math.ceil(list.total / list.pageSize));
+
+  function set(next: Record<string, string | null>) {
+    const p = new URLSearchParams(params.toString());
+    for (const [k, v] of Object.entries(next)) {
+      if (v === null || v === "") p.delete(k);
+      else p.set(k, v);
+    }
+    if (!("page" in next)) p.delete("page");
+    start(() => router.replace(`${path}?${p.toString()}`, { scroll: false }));
+  }
+
+  const v = (k: string) => params.get(k) ?? "";
+  const lenLabel = unit === "in" ? "in" : "mm";
+  const toMm = (s: string) => (s === "" ? null : String(unit === "in" ? Number(s) * 25.4 : Number(s)));
+  const fromMm = (s: string) => (s === "" ? "" : String(unit === "in" ? Math.round((Number(s) / 25.4) * 100) / 100 : Number(s)));
+
+  return (
+    <div className="space-y-4">
+      <form
+        className="grid gap-3 rounded-card border border-bead bg-paper-raised p-4 shadow-card sm:grid-cols-2 lg:grid-cols-4"
+        onSubmit={(e) => {
+          e.preventDefault();
+          const fd = new FormData(e.currentTarget);
+          set({ q: String(fd.get("q") ?? "") });
+        }}
+        role="search"
+      >
+        <label className="text-sm">
+          <span className="block font-medium text-ink-soft">Code starts with</span>
+          <input name="q" defaultValue={v("q")} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3" placeholder="HF-10" />
+        </label>
+        <label className="text-sm">
+          <span className="block font-medium text-ink-soft">Status</span>
+          <select value={v("status") || "available"} onChange={(e) => set({ status: e.target.value === "available" ? null : e.target.value })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+            <option value="available">In stock (all)</option>
+            {SHOWN_STATUSES.map((s) => (
+              <option key={s} value={s}>{STATUS_LABELS[s]}</option>
+            ))}
+            <option value="all">Everything, ever</option>
+          </select>
+        </label>
+        <label className="text-sm">
+          <span className="block font-medium text-ink-soft">Grade</span>
+          <select value={v("grade")} onChange={(e) => set({ grade: e.target.value })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+            <option value="">Any grade</option>
+            {grades.map((g) => (
+              <option key={g.id} value={g.id}>{g.code}</option>
+            ))}
+          </select>
+        </label>
+        <label className="text-sm">
+          <span className="block font-medium text-ink-soft">Location</span>
+          <select value={v("location")} onChange={(e) => set({ location: e.target.value })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+            <option value="">Anywhere</option>
+            {locations.map((l) => (
+              <option key={l} value={l}>{l}</option>
+            ))}
+          </select>
+        </label>
+        <label className="text-sm">
+          <span className="block font-medium text-ink-soft">Longest side at least ({lenLabel})</span>
+          <input type="number" min={0} defaultValue={fromMm(v("minLength"))} onBlur={(e) => set({ minLength: toMm(e.target.value) })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3" />
+        </label>
+        <label className="text-sm">
+          <span className="block font-medium text-ink-soft">Longest side at most ({lenLabel})</span>
+          <input type="number" min={0} defaultValue={fromMm(v("maxLength"))} onBlur={(e) => set({ maxLength: toMm(e.target.value) })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3" />
+        </label>
+        <label className="text-sm">
+          <span className="block font-medium text-ink-soft">Blocks or offcuts</span>
+          <select value={v("offcuts")} onChange={(e) => set({ offcuts: e.target.value })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+            <option value="">Both</option>
+            <option value="exclude">Whole blocks only</option>
+            <option value="only">Offcuts only</option>
+          </select>
+        </label>
+        <label className="text-sm">
+          <span className="block font-medium text-ink-soft">Sort</span>
+          <div className="mt-1 flex gap-2">
+            <select value={v("sort") || "received"} onChange={(e) => set({ sort: e.target.value })} className="min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+              {SORTS.map(([k, label]) => (
+                <option key={k} value={k}>{label}</option>
+              ))}
+            </select>
+            <button type="button" className={buttonClass("secondary", "px-3")} onClick={() => set({ dir: v("dir") === "desc" ? "asc" : "desc" })} aria-label="Reverse the order">
+              {v("dir") === "desc" ? "↓" : "↑"}
+            </button>
+          </div>
+        </label>
+      </form>
+
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <p className="text-sm" aria-live="polite" data-testid="stock-totals">
+          <strong>{list.total.toLocaleString("en")}</strong> {list.total === 1 ? "piece" : "pieces"} ·{" "}
+          <strong>{list.totals.volumeM3.toLocaleString("en", { maximumFractionDigits: 2 })} m³</strong> ·{" "}
+          <strong>{Math.round(m3ToBoardFeet(list.totals.volumeM3)).toLocaleString("en")} BF</strong> · value{" "}
+          <strong>{list.totals.value.toLocaleString("en", { style: "currency", currency: "USD" })}</strong>
+          {(pending || isValidating) && <span className="ml-2 text-ink-faint">updating…</span>}
+        </p>
+        {canExport && (
+          <a className={buttonClass("secondary")} href={`/api/blocks/export?${query}`} download>
+            Export these as CSV
+          </a>
+        )}
+      </div>
+
+      <div className="overflow-x-auto rounded-card border border-bead bg-paper-raised shadow-card">
+        <table>
+          <thead className="border-b border-bead bg-paper-sunk">
+            <tr>
+              <th className="px-3 py-2">Code</th>
+              <th className="px-3 py-2">Grade</th>
+              <th className="px-3 py-2">Size</th>
+              <th className="px-3 py-2 text-right">m³</th>
+              <th className="px-3 py-2">Status</th>
+              <th className="px-3 py-2" title="First in, first out: the order ready blocks of a grade should be used">FIFO</th>
+              <th className="px-3 py-2">Location</th>
+              <th className="px-3 py-2">Lot</th>
+              <th className="px-3 py-2 text-right">Defects</th>
+            </tr>
+          </thead>
+          <tbody>
+            {list.items.map((b) => (
+              <tr key={b.id} className="border-b border-bead/60 last:border-0 hover:bg-paper">
+                <td className="px-3 py-2 font-medium">
+                  <Link href={`/stock/${encodeURIComponent(b.code)}`}>{b.code}</Link>
+                  {b.isOffcut && <span className="ml-1 text-xs text-ink-faint">offcut</span>}
+                </td>
+                <td className="px-3 py-2"><GradeChip code={b.gradeCode} colour={b.colour} noWire={b.neverHotWire} /></td>
+                <td className="whitespace-nowrap px-3 py-2">{formatSize(b.size, unit)}</td>
+                <td className="px-3 py-2 text-right tabular-nums">{b.volumeM3.toFixed(3)}</td>
+                <td className="whitespace-nowrap px-3 py-2">
+                  <StatusBadge status={b.shown} />
+                  {b.shown === "settling" && <span className="ml-1 text-xs text-ink-faint">until {b.cutNotBefore}</span>}
+                </td>
+                <td className="px-3 py-2 tabular-nums">{b.fifo ?? "–"}</td>
+                <td className="whitespace-nowrap px-3 py-2">{b.location}</td>
+                <td className="whitespace-nowrap px-3 py-2">{b.lot}</td>
+                <td className="px-3 py-2 text-right">{b.defectCount ? <span className="font-medium text-ember">{b.defectCount}</span> : "–"}</td>
+              </tr>
+            ))}
+            {!list.items.length && (
+              <tr>
+                <td colSpan={9} className="px-3 py-10 text-center text-ink-soft">No stock matches these filters.</td>
+              </tr>
+            )}
+          </tbody>
+        </table>
+      </div>
+
+      <nav className="flex items-center justify-between gap-3" aria-label="Pages">
+        <button className={buttonClass("secondary")} disabled={list.page <= 1} onClick={() => set({ page: String(list.page - 1) })}>
+          Previous
+        </button>
+        <span className="text-sm text-ink-soft">Page {list.page} of {pages}</span>
+        <button className={buttonClass("secondary")} disabled={list.page >= pages} onClick={() => set({ page: String(list.page + 1) })}>
+          Next
+        </button>
+      </nav>
+    </div>
+  );
+}

@@ -1,0 +1,134 @@
+import Papa from "papaparse";
+
+/**
+ * CSV out: a cell that a spreadsheet would run as a formula (=, +, -, @, tab, CR at the start)
+ * gets a leading apostrophe. Numbers stay numbers.
+ *
+ *   toCsv([{ code: "=cmd", m3: -1.5 }], ["code", "m3"])  // "code,m3\r\n'=cmd,-1.5"
+ */
+export function toCsv<T extends Record<string, unknown>>(rows: T[], columns: (keyof T & string)[]): string {
+  const safe = rows.map((r) => columns.map((c) => escapeCell(r[c])));
+  return Papa.unparse({ fields: columns, data: safe }, { newline: "\r\n" });
+}
+
+export function escapeCell(v: unknown): string | number {
+  if (v === null || v === undefined) return "";
+  if (typeof v === "number") return Number.isFinite(v) ? v : "";
+  if (typeof v === "boolean") return v ? "yes" : "no";
+  const s = String(v);
+  return /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
+}
+
+export function csvResponse(csv: string, fileName: string): Response {
+  return new Response("\uFEFF" + csv, {
+    headers: {
+      "content-type": "text/csv; charset=utf-8",
+      "content-disposition": `attachment; filename="${fileName.replace(/[^\w.-]/g, "_")}"`,
+      "cache-control": "no-store",
+    },
+  });
+}
+
+export interface CsvProblem {
+  row: number; // as a spreadsheet numbers it: the header is row 1
+  column?: string;
+  message: string;
+}
+
+export interface ParsedCsv {
+  headers: string[];
+  rows: Record<string, string>[];
+  problems: CsvProblem[];
+}
+
+/**
+ * CSV in: bytes must be UTF-8 (a BOM is fine); headers are trimmed and lower-cased; every missing
+ * required header and every unknown header is a problem on row 1.
+ */
+export function parseCsv(bytes: Uint8Array, spec: { required: string[]; optional: string[]; maxRows: number }): ParsedCsv {
+  let text: string;
+  try {
+    text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+  } catch {
+    return { headers: [], rows: [], problems: [{ row: 1, message: "The file is not UTF-8 text. Save it from your spreadsheet as “CSV UTF-8” and try again." }] };
+  }
+  if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+  if (!text.trim()) return { headers: [], rows: [], problems: [{ row: 1, message: "The file is empty." }] };
+  const parsed = Papa.parse<Record<string, string>>(text, {
+    header: true,
+    skipEmptyLines: "greedy",
+    transformHeader: (h) => h.trim().toLowerCase(),
+    transform: (v) => v.trim(),
+  });
+  const headers = parsed.meta.fields ?? [];
+  const problems: CsvProblem[] = [];
+  for (const h of spec.required) if (!headers.includes(h)) problems.push({ row: 1, column: h, message: `The column “${h}” is missing.` });
+  const known = new Set([...spec.required, ...spec.optional]);
+  for (const h of headers) if (!known.has(h)) problems.push({ row: 1, column: h, message: `The column “${h || "(blank)"}” is not one Blockyard reads.` });
+  const seen = new Set<string>();
+  for (const h of headers) {
+    if (seen.has(h)) problems.push({ row: 1, column: h, message: `The column “${h}” appears twice.` });
+    seen.add(h);
+  }
+  for (const e of parsed.errors) {
+    if (e.code === "TooFewFields" || e.code === "TooManyFields") {
+      problems.push({ row: (e.row ?? 0) + 2, message: e.code === "TooFewFields" ? "This row has fewer cells than the header." : "This row has more cells than the header." });
+    } else if (e.code !== "UndetectableDelimiter") {
+      problems.push({ row: (e.row ?? 0) + 2, message: e.message });
+    }
+  }
+  if (parsed.data.length > spec.maxRows) problems.push({ row: spec.maxRows + 2, message: `At most ${spec.maxRows} rows per file.` });
+  return { headers, rows: parsed.data, problems };
+}
+
+/** Cell readers that record a problem naming the row and column instead of throwing. */
+export function cellReader(problems: CsvProblem[], row: number, r: Record<string, string>) {
+  const add = (column: string, message: string) => problems.push({ row, column, message });
+  return {
+    text(column: string, opts: { required?: boolean; max?: number } = {}): string | null {
+      const v = r[column] ?? "";
+      if (!v) {
+        if (opts.required) add(column, "Required.");
+        return null;
+      }
+      if (v.length > (opts.max ?? 200)) add(column, `At most ${opts.max ?? 200} characters.`);
+      return v;
+    },
+    number(column: string, opts: { required?: boolean; positive?: boolean; min?: number; max?: number } = {}): number | null {
+      const v = r[column] ?? "";
+      if (!v) {
+        if (opts.required) add(column, "Required.");
+        return null;
+      }
+      if (!/^-?\d+(\.\d+)?$/.test(v.replace(/,/g, ""))) {
+        add(column, `“${v.slice(0, 20)}” is not a number.`);
+        return null;
+      }
+      const n = Number(v.replace(/,/g, ""));
+      if (opts.positive && n <= 0) add(column, "Must be more than 0.");
+      else if (opts.min !== undefined && n < opts.min) add(column, `Must be at least ${opts.min}.`);
+      else if (opts.max !== undefined && n > opts.max) add(column, `Must be at most ${opts.max}.`);
+      return n;
+    },
+    date(column: string, opts: { required?: boolean } = {}): string | null {
+      const v = r[column] ?? "";
+      if (!v) {
+        if (opts.required) add(column, "Required.");
+        return null;
+      }
+      if (!/^\d{4}-\d{2}-\d{2}$/.test(v) || Number.isNaN(Date.parse(`${v}T00:00:00Z`)) || new Date(`${v}T00:00:00Z`).toISOString().slice(0, 10) !== v) {
+        add(column, `“${v.slice(0, 20)}” is not a date (YYYY-MM-DD).`);
+        return null;
+      }
+      return v;
+    },
+    bool(column: string, fallback: boolean): boolean {
+      const v = (r[column] ?? "").toLowerCase();
+      if (!v) return fallback;
+      if (["yes", "y", "true", "1"].includes(v)) return true;
+      if (["no", "n", "false", "0"].includes(v)) return false;
+      add(column, `“${v.slice(0, 20)}” is not yes or no.`);
+      return fallback;
+    },
+  };
+}
