@@ -1,6 +1,7 @@
 import type { Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
+import { fillBoxFirst } from "./boxfirst";
 import { fitsIn, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
 export type SplitRule = "biggest" | "squares" | "random";
@@ -15,6 +16,8 @@ export interface FillParams {
   thinSlabs: boolean;
   /** Fill the lowest free box with the part that fits it best, instead of part after part. */
   boxFirst: boolean;
+  /** Box-first only: candidates per step judged by a greedy completion (0 = plain greedy). */
+  lookahead: number;
   rng: Rng;
 }
 
@@ -63,7 +66,7 @@ export function carveObstacles(usable: Box, obstacles: readonly Box[], thinSlabs
 }
 
 /** Splits what is left of `f` after a box of size `g` at its origin into three cut-separable boxes. */
-function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
+export function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
   let best: Box[] = [];
   let bestScore = -Infinity;
   const orders = [
@@ -139,46 +142,8 @@ export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[]
   };
   prune();
   if (p.boxFirst) {
-    while (free.length > 0) {
-      // Lowest corner first (z, then y, then x): fills the block from one end like a cutter would.
-      let fi = 0;
-      for (let i = 1; i < free.length; i++) {
-        const a = free[i]!.origin;
-        const b = free[fi]!.origin;
-        if (a[2] < b[2] - 1e-9 || (Math.abs(a[2] - b[2]) <= 1e-9 && (a[1] < b[1] - 1e-9 || (Math.abs(a[1] - b[1]) <= 1e-9 && a[0] < b[0])))) fi = i;
-      }
-      const f = free[fi]!;
-      let best: { t: number; d: Vec3; score: number } | undefined;
-      for (const t of p.order) {
-        if (remaining[t]! <= 0) continue;
-        for (const d of types[t]!.dims) {
-          if (!fitsIn(d, f.size)) continue;
-          let exact = 0;
-          let waste = 0;
-          for (let a = 0; a < 3; a++) {
-            const r = f.size[a]! - d[a]!;
-            if (r <= 1e-9) exact++;
-            else if (r < mMin) waste += r / f.size[a]!;
-          }
-          const score = -exact * 2 + waste - vol(d) / vol(f.size);
-          if (!best || score < best.score - 1e-12) best = { t, d, score };
-        }
-      }
-      if (!best) {
-        leftovers.push(f);
-        free.splice(fi, 1);
-        continue;
-      }
-      items.push({ type: best.t, origin: [...f.origin] as Vec3, dims: best.d });
-      remaining[best.t] = remaining[best.t]! - 1;
-      packedVolume += types[best.t]!.volume;
-      free.splice(fi, 1, ...split(f, best.d, p.split, p.rng));
-      if (remaining[best.t] === 0) {
-        const m = minSideLeft();
-        if (m > mMin) mMin = m;
-      }
-      prune();
-    }
+    const r = fillBoxFirst(free, types, remaining, p.order, { grid: p.grid, split: p.split, lookahead: p.lookahead, rng: p.rng });
+    return { block: block.index, items: r.items, leftovers: [...leftovers, ...r.leftovers], packedVolume: r.packedVolume };
   }
   for (const t of p.order) {
     const type = types[t]!;

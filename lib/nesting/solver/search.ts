@@ -20,6 +20,7 @@ interface PassParams {
   split: SplitRule;
   thinSlabs: boolean;
   boxFirst: boolean;
+  lookahead: number;
   rectRule: RectRule;
   planarMaxRects: boolean;
   blockOrder: "cheap" | "large" | "shuffle";
@@ -35,6 +36,7 @@ const DEFAULT: PassParams = {
   split: "biggest",
   thinSlabs: true,
   boxFirst: false,
+  lookahead: 0,
   rectRule: "bssf",
   planarMaxRects: true,
   blockOrder: "cheap",
@@ -161,7 +163,8 @@ export class Search {
       grid: r() < 0.7,
       split: pick(r, ["biggest", "biggest", "squares", "random"] as const),
       thinSlabs: r() < 0.8,
-      boxFirst: r() < 0.4,
+      boxFirst: r() < 0.5,
+      lookahead: pick(r, [0, 3, 6, 12]),
       rectRule: pick(r, ["bssf", "bssf", "baf", "bl"] as const),
       planarMaxRects: r() < 0.7,
       blockOrder: pick(r, ["cheap", "cheap", "large", "shuffle"] as const),
@@ -212,7 +215,7 @@ export class Search {
     const order = this.typeOrder(p, live);
     const planar = m.problem.settings.layout !== "guillotine" && p.planarMaxRects && live.every((t) => layerDims(m.types[t]!, info).length > 0);
     if (planar) return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule);
-    return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, rng: this.r });
+    return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, lookahead: p.lookahead, rng: this.r });
   }
 
   /**

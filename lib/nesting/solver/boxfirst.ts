@@ -1,0 +1,144 @@
+import type { Box } from "../geometry";
+import type { Rng } from "../rng";
+import type { Vec3 } from "../types";
+import { split, type SplitRule } from "./guillotine3d";
+import type { ItemType, PackedItem } from "./model";
+
+const vol = (s: Vec3): number => s[0] * s[1] * s[2];
+const GRID_ORDERS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]];
+
+interface State {
+  free: Box[];
+  remaining: number[];
+  packedVolume: number;
+  leftovers: Box[];
+  items: PackedItem[] | undefined;
+}
+
+interface Move {
+  t: number;
+  d: Vec3;
+  n: Vec3;
+  score: number;
+}
+
+export interface BoxFirstParams {
+  grid: boolean;
+  split: SplitRule;
+  lookahead: number;
+  rng: Rng;
+}
+
+function lowest(free: readonly Box[]): number {
+  let fi = 0;
+  for (let i = 1; i < free.length; i++) {
+    const a = free[i]!.origin;
+    const b = free[fi]!.origin;
+    if (a[2] < b[2] - 1e-9 || (Math.abs(a[2] - b[2]) <= 1e-9 && (a[1] < b[1] - 1e-9 || (Math.abs(a[1] - b[1]) <= 1e-9 && a[0] < b[0])))) fi = i;
+  }
+  return fi;
+}
+
+function minSide(types: readonly ItemType[], order: readonly number[], remaining: readonly number[]): number {
+  let m = Infinity;
+  for (const t of order) if (remaining[t]! > 0) m = Math.min(m, types[t]!.minSide);
+  return m;
+}
+
+/** Candidate placements (a part or a grid of copies) for box `f`, best first. */
+function moves(f: Box, types: readonly ItemType[], order: readonly number[], remaining: readonly number[], grid: boolean, mMin: number): Move[] {
+  const out: Move[] = [];
+  const fs = f.size;
+  const fv = vol(fs);
+  for (const t of order) {
+    const rem = remaining[t]!;
+    if (rem <= 0) continue;
+    for (const d of types[t]!.dims) {
+      if (d[0] > fs[0] + 1e-9 || d[1] > fs[1] + 1e-9 || d[2] > fs[2] + 1e-9) continue;
+      const grids: Vec3[] = [[1, 1, 1]];
+      if (grid && rem > 1) {
+        const cap = [Math.floor(fs[0] / d[0] + 1e-9), Math.floor(fs[1] / d[1] + 1e-9), Math.floor(fs[2] / d[2] + 1e-9)];
+        for (const [a1, a2, a3] of GRID_ORDERS) {
+          const n: Vec3 = [1, 1, 1];
+          n[a1] = Math.min(cap[a1]!, rem);
+          n[a2] = Math.min(cap[a2]!, Math.floor(rem / n[a1]!));
+          n[a3] = Math.min(cap[a3]!, Math.floor(rem / (n[a1]! * n[a2]!)));
+          if (!grids.some((g) => g[0] === n[0] && g[1] === n[1] && g[2] === n[2])) grids.push(n);
+        }
+      }
+      for (const n of grids) {
+        let exact = 0;
+        let waste = 0;
+        for (let a = 0; a < 3; a++) {
+          const r = fs[a]! - d[a]! * n[a]!;
+          if (r <= 1e-9) exact++;
+          else if (r < mMin) waste += r / fs[a]!;
+        }
+        out.push({ t, d, n, score: exact * 2 - waste + (vol(d) * n[0] * n[1] * n[2]) / fv });
+      }
+    }
+  }
+  return out.sort((a, b) => b.score - a.score);
+}
+
+function apply(s: State, fi: number, m: Move, types: readonly ItemType[], p: BoxFirstParams): void {
+  const f = s.free[fi]!;
+  const { d, n } = m;
+  if (s.items)
+    for (let i = 0; i < n[0]; i++)
+      for (let j = 0; j < n[1]; j++)
+        for (let l = 0; l < n[2]; l++) s.items.push({ type: m.t, origin: [f.origin[0] + i * d[0], f.origin[1] + j * d[1], f.origin[2] + l * d[2]], dims: d });
+  const count = n[0] * n[1] * n[2];
+  s.remaining[m.t] = s.remaining[m.t]! - count;
+  s.packedVolume += count * types[m.t]!.volume;
+  s.free.splice(fi, 1, ...split(f, [d[0] * n[0], d[1] * n[1], d[2] * n[2]], p.split, p.rng));
+}
+
+function prune(s: State, mMin: number): void {
+  const keep: Box[] = [];
+  for (const f of s.free) (f.size.some((v) => v < mMin - 1e-9) ? s.leftovers : keep).push(f);
+  s.free = keep;
+}
+
+function run(s: State, types: readonly ItemType[], order: readonly number[], p: BoxFirstParams, lookahead: number): void {
+  let mMin = minSide(types, order, s.remaining);
+  prune(s, mMin);
+  while (s.free.length > 0) {
+    const fi = lowest(s.free);
+    const f = s.free[fi]!;
+    const ms = moves(f, types, order, s.remaining, p.grid, mMin);
+    if (ms.length === 0) {
+      s.leftovers.push(f);
+      s.free.splice(fi, 1);
+      continue;
+    }
+    let chosen = ms[0]!;
+    if (lookahead > 1 && ms.length > 1) {
+      // Judge the first few moves by where a plain greedy fill would end from each.
+      let bestVol = -1;
+      for (const m of ms.slice(0, lookahead)) {
+        const sim: State = { free: [...s.free], remaining: [...s.remaining], packedVolume: s.packedVolume, leftovers: [], items: undefined };
+        apply(sim, fi, m, types, p);
+        run(sim, types, order, p, 0);
+        if (sim.packedVolume > bestVol + 1e-9) {
+          bestVol = sim.packedVolume;
+          chosen = m;
+        }
+      }
+    }
+    apply(s, fi, chosen, types, p);
+    if (s.remaining[chosen.t] === 0) mMin = Math.max(mMin, minSide(types, order, s.remaining));
+    prune(s, mMin);
+  }
+}
+
+/**
+ * Box-first guillotine fill: always fills the lowest free box, with the part (or grid of copies)
+ * that fits it best; with `lookahead` > 1 the best few moves are judged by a greedy completion.
+ * `remaining` is decremented in place.
+ */
+export function fillBoxFirst(free: Box[], types: readonly ItemType[], remaining: number[], order: readonly number[], p: BoxFirstParams): { items: PackedItem[]; leftovers: Box[]; packedVolume: number } {
+  const s: State = { free: [...free], remaining, packedVolume: 0, leftovers: [], items: [] };
+  run(s, types, order, p, p.lookahead);
+  return { items: s.items!, leftovers: s.leftovers, packedVolume: s.packedVolume };
+}
