@@ -25,19 +25,7 @@ function makeSearch(problem: Problem, options: NestOptions): Search {
 }
 
 function report(search: Search, options: NestOptions): void {
-  if (!options.onProgress) return;
-  const s = search.bestScore();
-  const r = search.result();
-  options.onProgress({
-    fraction: search.fraction(),
-    best: {
-      placedVolume: s?.placedVolume ?? 0,
-      blocksUsed: s?.blocksUsed ?? 0,
-      yield: r.stats.yield,
-      unplacedCount: r.unplaced.reduce((n, u) => n + u.count, 0),
-      lowerBoundBlocks: search.lowerBound,
-    },
-  });
+  options.onProgress?.({ fraction: search.fraction(), best: { ...search.bestSummary(), lowerBoundBlocks: search.lowerBound } });
 }
 
 /**

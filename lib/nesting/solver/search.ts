@@ -62,7 +62,7 @@ export class Search {
   readonly lowerBound: number;
   private readonly r: Rng;
   private readonly start: number;
-  private best?: { score: Score; fills?: BlockFill[]; plan?: Plan };
+  private best?: { score: Score; fills?: BlockFill[]; plan?: Plan; yield: number; unplaced: number };
   private iteration = 0;
   private readonly placeable: number;
   private readonly typeFitsSomewhere: boolean[];
@@ -85,7 +85,8 @@ export class Search {
     this.pool = new ColumnPool(this.model, 250);
     this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
     if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
-      this.best = { score: scorePlan(problem, opts.warmStart), plan: opts.warmStart };
+      const w = opts.warmStart;
+      this.best = { score: scorePlan(problem, w), plan: w, yield: w.stats.yield, unplaced: w.unplaced.reduce((n, u) => n + u.count, 0) };
     }
   }
 
@@ -141,12 +142,20 @@ export class Search {
 
   private offer(fills: BlockFill[]): void {
     for (const f of fills) this.pool.add(f);
-    const score = scoreOf(this.model.problem, {
-      placedVolume: fills.reduce((s, f) => s + f.packedVolume, 0),
-      usedBlocks: fills.map((f) => f.block),
-      offcuts: fills.flatMap((f) => keptOffcuts(this.model, f).map((o) => ({ block: f.block, volume: o.size[0] * o.size[1] * o.size[2] }))),
-    });
-    if (!this.best || compareScores(score, this.best.score) < 0) this.best = { score, fills };
+    const offcuts = fills.flatMap((f) => keptOffcuts(this.model, f).map((o) => ({ block: f.block, volume: o.size[0] * o.size[1] * o.size[2] })));
+    const placedVolume = fills.reduce((s, f) => s + f.packedVolume, 0);
+    const score = scoreOf(this.model.problem, { placedVolume, usedBlocks: fills.map((f) => f.block), offcuts });
+    if (this.best && compareScores(score, this.best.score) >= 0) return;
+    const net = fills.reduce((s, f) => s + this.model.blocks[f.block]!.volume, 0) - offcuts.reduce((s, o) => s + o.volume, 0);
+    const placed = fills.reduce((s, f) => s + f.items.length, 0);
+    const demand = this.model.types.reduce((s, t) => s + t.count, 0);
+    this.best = { score, fills, yield: net > 0 ? placedVolume / net : 0, unplaced: demand - placed };
+  }
+
+  /** Figures of the best plan so far, for progress reports. */
+  bestSummary(): { placedVolume: number; blocksUsed: number; yield: number; unplacedCount: number } {
+    const b = this.best;
+    return { placedVolume: b?.score.placedVolume ?? 0, blocksUsed: b?.score.blocksUsed ?? 0, yield: b?.yield ?? 0, unplacedCount: b?.unplaced ?? 0 };
   }
 
   result(): Plan {
