@@ -1,0 +1,32 @@
+/**
+ * `npm run worker`: does the background jobs (nesting runs, scheduled alerts). Start as many as
+ * you like, on any machine that reaches the database; pg-boss hands each job to one of them.
+ * Runs with the react-server condition so server-only modules load outside Next.
+ */
+import { createBoss } from "@/lib/jobs/boss";
+import { jobDefinitions } from "@/lib/jobs/registry";
+
+async function main() {
+  const boss = createBoss("worker");
+  await boss.start();
+  const defs = await jobDefinitions();
+  for (const def of defs) {
+    await boss.createQueue(def.queue, { name: def.queue, ...(def.options ?? {}) });
+    await boss.work<unknown>(def.queue, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async (jobs) => {
+      for (const job of jobs) await def.handle(job.data as never, { id: job.id });
+    });
+    if (def.schedule) await boss.schedule(def.queue, def.schedule.cron, def.schedule.data ?? {});
+  }
+  console.error(`[worker] ready: ${defs.map((d) => d.queue).join(", ") || "no queues"}`);
+  const stop = async () => {
+    await boss.stop({ graceful: true, timeout: 5000 }).catch(() => {});
+    process.exit(0);
+  };
+  process.on("SIGINT", stop);
+  process.on("SIGTERM", stop);
+}
+
+main().catch((e) => {
+  console.error("[worker]", e instanceof Error ? e.message : e);
+  process.exit(1);
+});
