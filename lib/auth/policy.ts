@@ -43,6 +43,8 @@ export const API_POLICY = {
   "POST /api/blocks/[blockId]/adjust": ["buyer"],
   "GET /api/blocks/[blockId]/defects": "signed-in",
   "POST /api/blocks/[blockId]/defects": ["cutter"],
+  "POST /api/defects/[defectId]/photos": ["cutter"],
+  "GET /api/photos/[photoId]": "signed-in",
   "GET /api/ledger": ["buyer", "planner", "manager"],
   "GET /api/ledger/export": ["buyer", "planner", "manager"],
   "POST /api/imports/deliveries": ["buyer"],

@@ -1,0 +1,145 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { client, type Client } from "../support/http";
+import { TEST_PASSWORD, closeTestDb, makeUser, tableCounts, testDb } from "../support/db";
+import { jpegBytes, makeBlock, makeDefect, pngBytes } from "../support/defect-fixtures";
+import { listKeys } from "@/lib/storage/client";
+
+let cutter: Client;
+let defectId: number;
+
+beforeAll(async () => {
+  const u = await makeUser(["cutter"]);
+  cutter = client();
+  await cutter.signIn(u.email, TEST_PASSWORD);
+  defectId = await makeDefect((await makeBlock()).id);
+});
+afterAll(closeTestDb);
+
+const upload = (c: Client, id: number, files: { name: string; content: Buffer; type?: string }[]) => {
+  let r = c.call("post", `/api/defects/${id}/photos`);
+  for (const f of files) r = r.attach("photos", f.content, { filename: f.name, contentType: f.type ?? "application/octet-stream" });
+  return r;
+};
+
+/** Everything a refused upload must leave alone: every table and the bucket. */
+async function snapshot() {
+  return { tables: await tableCounts(), keys: (await listKeys()).sort() };
+}
+
+describe("defect photos: upload", () => {
+  it("stores a real JPEG and PNG with thumbnails and serves them to signed-in people only", async () => {
+    const jpg = await jpegBytes(800, 600);
+    const png = await pngBytes(300, 200);
+    const res = await upload(cutter, defectId, [
+      { name: "void-on-end-face.jpg", content: jpg, type: "image/jpeg" },
+      { name: "close-up.png", content: png, type: "image/png" },
+    ]);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.items).toHaveLength(2);
+    const [a, b] = res.body.items as { id: number; contentType: string; width: number; height: number; bytes: number }[];
+    expect(a).toMatchObject({ contentType: "image/jpeg", width: 800, height: 600, bytes: jpg.length });
+    expect(b).toMatchObject({ contentType: "image/png", width: 300, height: 200 });
+
+    const thumb = await cutter.get(`/api/photos/${a!.id}?size=thumb`).buffer(true);
+    expect(thumb.status).toBe(200);
+    expect(thumb.headers["content-type"]).toBe("image/webp");
+    expect(thumb.headers["x-content-type-options"]).toBe("nosniff");
+    expect(thumb.headers["cache-control"]).toMatch(/^private/);
+    expect((thumb.body as Buffer).subarray(8, 12).toString("latin1")).toBe("WEBP");
+
+    const full = await cutter.get(`/api/photos/${a!.id}`).buffer(true);
+    expect(full.status).toBe(200);
+    expect(full.headers["content-type"]).toBe("image/jpeg");
+    expect(Buffer.compare(full.body as Buffer, jpg)).toBe(0);
+
+    // Anyone signed in may look (a planner checks defects too); strangers may not.
+    const planner = client();
+    await planner.signIn((await makeUser(["planner"])).email, TEST_PASSWORD);
+    expect((await planner.get(`/api/photos/${b!.id}?size=thumb`)).status).toBe(200);
+    const stranger = await client().get(`/api/photos/${a!.id}?size=thumb`);
+    expect(stranger.status).toBe(401);
+    expect(stranger.headers["content-type"]).toMatch(/json/);
+  });
+
+  it("refuses a text file renamed .jpg with 415 and stores nothing, not even the good photo beside it", async () => {
+    const before = await snapshot();
+    const res = await upload(cutter, defectId, [
+      { name: "fine.jpg", content: await jpegBytes(), type: "image/jpeg" },
+      { name: "notes.jpg", content: Buffer.from("Block HF-1001: void near the top, 40 mm deep.\n"), type: "image/jpeg" },
+    ]);
+    expect(res.status).toBe(415);
+    expect(res.body.error).toMatch(/notes\.jpg/);
+    expect(res.body.fields["photos.1"]).toMatch(/"notes\.jpg" is not a JPEG, PNG or WebP image/);
+    expect(res.body.fields["photos.0"]).toBeUndefined();
+    expect(await snapshot()).toEqual(before);
+  });
+
+  it("refuses a photo over 10 MB with 413 naming the file, and stores nothing", async () => {
+    const before = await snapshot();
+    const big = Buffer.alloc(11 * 1024 * 1024, 0x5a);
+    big.set([0xff, 0xd8, 0xff, 0xe0]);
+    const res = await upload(cutter, defectId, [{ name: "huge-void.jpg", content: big, type: "image/jpeg" }]);
+    expect(res.status).toBe(413);
+    expect(res.body.error).toMatch(/"huge-void\.jpg" is 11 MB; a photo may be at most 10 MB/);
+    expect(await snapshot()).toEqual(before);
+  });
+
+  it("refuses bytes that only start like a JPEG (sharp cannot read them)", async () => {
+    const before = await snapshot();
+    const fake = Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0]), Buffer.from("not really an image".repeat(20))]);
+    const res = await upload(cutter, defectId, [{ name: "broken.jpg", content: fake, type: "image/jpeg" }]);
+    expect(res.status).toBe(415);
+    expect(res.body.fields["photos.0"]).toMatch(/broken\.jpg/);
+    expect(await snapshot()).toEqual(before);
+  });
+
+  it("judges the type by the bytes: JPEG bytes sent as image/png named .png are stored as image/jpeg", async () => {
+    const res = await upload(cutter, defectId, [{ name: "looks-like.png", content: await jpegBytes(320, 240), type: "image/png" }]);
+    expect(res.status).toBe(201);
+    const id = res.body.items[0].id as number;
+    const row = await testDb()("defect_photos").where({ id }).first();
+    expect(row.content_type).toBe("image/jpeg");
+    expect(row.object_key).toMatch(/\.jpg$/);
+    const full = await cutter.get(`/api/photos/${id}`);
+    expect(full.headers["content-type"]).toBe("image/jpeg");
+  });
+
+  it("makes object keys on the server, never from the uploaded file name", async () => {
+    const res = await upload(cutter, defectId, [{ name: "..%2F..%2Fsecret-name-7731.jpg", content: await jpegBytes(200, 150), type: "image/jpeg" }]);
+    expect(res.status).toBe(201);
+    const row = await testDb()("defect_photos").where({ id: res.body.items[0].id }).first();
+    for (const key of [row.object_key, row.thumb_key]) {
+      expect(key).toMatch(new RegExp(`^defects/${defectId}/[0-9a-f-]{36}\\.(jpg|thumb\\.webp)$`));
+      expect(key).not.toMatch(/secret-name|\.\./);
+    }
+    expect((await listKeys()).filter((k) => k.includes("secret-name"))).toEqual([]);
+  });
+
+  it("answers bad requests plainly", async () => {
+    const none = await cutter.call("post", `/api/defects/${defectId}/photos`).field("note", "no files");
+    expect(none.status).toBe(400);
+    expect(none.body.fields.photos).toMatch(/Attach at least one photo/);
+    const json = await cutter.post(`/api/defects/${defectId}/photos`, { photos: [] });
+    expect(json.status).toBe(415);
+    const unknown = await upload(cutter, 999_999_999, [{ name: "a.jpg", content: await jpegBytes(), type: "image/jpeg" }]);
+    expect(unknown.status).toBe(404);
+    const tooMany = await upload(cutter, defectId, Array.from({ length: 7 }, (_, i) => ({ name: `p${i}.png`, content: Buffer.from([0x89]), type: "image/png" })));
+    expect(tooMany.status).toBe(400);
+    expect(tooMany.body.fields.photos).toMatch(/At most 6/);
+  });
+});
+
+describe("defect photos: reading", () => {
+  it("answers 404 for ids that are not photo ids, including path-traversal lookalikes", async () => {
+    for (const path of ["/api/photos/../x", "/api/photos/..%2Fx", "/api/photos/1%2F..", "/api/photos/abc", "/api/photos/999999999", "/api/photos/1e3"]) {
+      const res = await cutter.get(path);
+      expect(res.status, path).toBe(404);
+    }
+  });
+
+  it("refuses an unknown size", async () => {
+    const res = await cutter.get("/api/photos/1?size=huge");
+    expect(res.status).toBe(400);
+    expect(res.body.fields.size).toMatch(/size=thumb or size=full/);
+  });
+});
