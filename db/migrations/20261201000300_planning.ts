@@ -60,7 +60,7 @@ export async function up(knex: Knex): Promise<void> {
     t.jsonb("problem").notNullable();
     t.jsonb("plan").nullable();
     t.jsonb("best").nullable(); // figures of the best plan so far, for the progress view
-    t.real("progress").notNullable().defaultTo(0);
+    t.float("progress").notNullable().defaultTo(0);
     t.text("error").nullable();
     t.integer("attempts").notNullable().defaultTo(0);
     t.integer("parent_run_id").nullable().references("nesting_runs.id");
