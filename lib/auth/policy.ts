@@ -49,6 +49,19 @@ export const API_POLICY = {
   "GET /api/ledger/export": ["buyer", "planner", "manager"],
   "POST /api/imports/deliveries": ["buyer"],
   "POST /api/imports/stock-counts": ["buyer"],
+
+  // Jobs and the part library: the planner writes; the cutter and the manager read.
+  "GET /api/jobs": ["planner", "cutter", "manager"],
+  "POST /api/jobs": ["planner"],
+  "GET /api/jobs/[jobId]": ["planner", "cutter", "manager"],
+  "PATCH /api/jobs/[jobId]": ["planner"],
+  "POST /api/jobs/[jobId]/parts": ["planner"],
+  "PATCH /api/jobs/[jobId]/parts/[partId]": ["planner"],
+  "DELETE /api/jobs/[jobId]/parts/[partId]": ["planner"],
+  "POST /api/jobs/[jobId]/parts/import": ["planner"],
+  "GET /api/library": ["planner", "cutter", "manager"],
+  "POST /api/library": ["planner"],
+  "PATCH /api/library/[partId]": ["planner"],
 } as const satisfies Record<string, Access>;
 
 export type RouteKey = keyof typeof API_POLICY;

@@ -1,5 +1,6 @@
 import type { RouteKey } from "@/lib/auth/policy";
 import type { Role } from "@/lib/roles";
+import { makeJob, makeJobPart, makeLibraryPart } from "../support/job-fixtures";
 
 export interface ExampleCtx {
   /** A throwaway user, for routes that act on a user. */
@@ -10,7 +11,11 @@ export interface ExampleCtx {
 
 export interface Example {
   params?: Record<string, string>;
+  /** Query string appended to the URL. */
+  query?: string;
   body?: unknown;
+  /** Content type of a raw (non-JSON) body. */
+  contentType?: string;
   /** Status a permitted caller must get (default: 2xx). */
   expect?: number;
 }
@@ -52,4 +57,25 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     params: { userId: (await ctx.makeUser(["buyer"])).id },
     body: { password: "temporary-pass-2" },
   }),
+  // Jobs and the part library.
+  "POST /api/jobs": async () => ({ body: { name: `Job ${unique()}`, customer: "Test customer", dueOn: "2026-12-24" }, expect: 201 }),
+  "GET /api/jobs/[jobId]": async () => ({ params: { jobId: String(await makeJob()) } }),
+  "PATCH /api/jobs/[jobId]": async () => ({ params: { jobId: String(await makeJob()) }, body: { dueOn: "2026-12-31" } }),
+  "POST /api/jobs/[jobId]/parts": async () => ({ params: { jobId: String(await makeJob()) }, body: { name: "Rib", quantity: 4, size: [400, 120, 20] }, expect: 201 }),
+  "PATCH /api/jobs/[jobId]/parts/[partId]": async () => {
+    const jobId = await makeJob();
+    return { params: { jobId: String(jobId), partId: String(await makeJobPart(jobId)) }, body: { quantity: 6 } };
+  },
+  "DELETE /api/jobs/[jobId]/parts/[partId]": async () => {
+    const jobId = await makeJob();
+    return { params: { jobId: String(jobId), partId: String(await makeJobPart(jobId)) } };
+  },
+  "POST /api/jobs/[jobId]/parts/import": async () => ({
+    params: { jobId: String(await makeJob()) },
+    query: "commit=0",
+    contentType: "text/csv",
+    body: "name,quantity,length_mm,width_mm,height_mm\nRib,4,400,120,20\n",
+  }),
+  "POST /api/library": async () => ({ body: { kit: "Test kit", name: `Former ${unique()}`, size: [200, 150, 10] }, expect: 201 }),
+  "PATCH /api/library/[partId]": async () => ({ params: { partId: String(await makeLibraryPart()) }, body: { defaultQuantity: 3 } }),
 };

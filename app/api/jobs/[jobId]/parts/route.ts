@@ -1,0 +1,24 @@
+import { NextResponse } from "next/server";
+import { api, parseWith, readJson } from "@/lib/auth/guard";
+import { addJobPart, addLibraryParts } from "@/db/queries/jobs";
+import { fromLibrarySchema, partSchema } from "@/lib/validations/jobs";
+import { idParam } from "@/lib/params";
+import { z } from "zod";
+
+type P = { jobId: string };
+
+/**
+ * `POST /api/jobs/3/parts` with one part entered by hand
+ * `{ name, quantity, size?: [x, y, z], profile?: { kind: "polygon" | "naca", … }, gradeId?, rotate? }` → 201 `{ part }`,
+ * or library parts `{ items: [{ libraryPartId, quantity }] }` → 201 `{ parts }`.
+ */
+export const POST = api<P>("POST /api/jobs/[jobId]/parts", async ({ req, params, user }) => {
+  const jobId = idParam(params.jobId, "That job");
+  const body = await readJson(req, z.record(z.string(), z.unknown(), { error: "Send a part, or { items } from the library." }));
+  if ("items" in body) {
+    const { items } = parseWith(fromLibrarySchema, body);
+    return NextResponse.json({ parts: await addLibraryParts(jobId, items, user!.id) }, { status: 201 });
+  }
+  const part = parseWith(partSchema, body);
+  return NextResponse.json({ part: await addJobPart(jobId, part, user!.id) }, { status: 201 });
+});

@@ -1,0 +1,133 @@
+import "server-only";
+import type { Knex } from "knex";
+import { db } from "@/db";
+import { HttpError } from "@/lib/errors";
+import type { RotateRule } from "@/lib/job-terms";
+import type { Profile, Size3 } from "@/lib/profiles";
+import type { LibraryPartInput, LibraryPatch } from "@/lib/validations/jobs";
+import { resolveGeometry, assertGrade } from "./jobs";
+
+export interface LibraryPart {
+  id: number;
+  kit: string | null;
+  name: string;
+  size: Size3;
+  gradeId: number | null;
+  gradeCode: string | null;
+  rotate: RotateRule;
+  profile: Profile | null;
+  trueVolumeMm3: number | null;
+  defaultQuantity: number;
+  notes: string | null;
+  active: boolean;
+}
+
+interface Row {
+  id: number;
+  kit: string | null;
+  name: string;
+  size_x: string;
+  size_y: string;
+  size_z: string;
+  grade_id: number | null;
+  grade_code: string | null;
+  rotate: RotateRule;
+  profile: Profile | null;
+  true_volume_mm3: string | null;
+  default_quantity: number;
+  notes: string | null;
+  active: boolean;
+}
+
+function toPart(r: Row): LibraryPart {
+  return {
+    id: r.id,
+    kit: r.kit,
+    name: r.name,
+    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)],
+    gradeId: r.grade_id,
+    gradeCode: r.grade_code,
+    rotate: r.rotate,
+    profile: r.profile,
+    trueVolumeMm3: r.true_volume_mm3 === null ? null : Number(r.true_volume_mm3),
+    defaultQuantity: r.default_quantity,
+    notes: r.notes,
+    active: r.active,
+  };
+}
+
+const select = (k: Knex) => k("library_parts as l").leftJoin("grades as g", "g.id", "l.grade_id").select("l.*", "g.code as grade_code");
+
+/**
+ *   listLibraryParts({ kit: "Kestrel 1.6 m glider" })
+ * Library parts grouped by kit (kit, then name); retired parts only when asked for.
+ */
+export async function listLibraryParts(f: { kit?: string; includeRetired?: boolean } = {}): Promise<LibraryPart[]> {
+  const q = select(db()).orderByRaw("l.kit NULLS LAST, l.name, l.id");
+  if (f.kit) q.where("l.kit", f.kit);
+  if (!f.includeRetired) q.where("l.active", true);
+  return (await q).map(toPart);
+}
+
+export async function getLibraryPart(id: number): Promise<LibraryPart | undefined> {
+  const r = await select(db()).where("l.id", id).first();
+  return r ? toPart(r) : undefined;
+}
+
+/** The library parts with these ids (active or not), keyed by id. */
+export async function getLibraryParts(ids: number[], k: Knex = db()): Promise<Map<number, LibraryPart>> {
+  if (!ids.length) return new Map();
+  return new Map(((await select(k).whereIn("l.id", ids)) as Row[]).map((r) => [r.id, toPart(r)]));
+}
+
+export async function createLibraryPart(input: LibraryPartInput, actorId: string): Promise<LibraryPart> {
+  const geometry = resolveGeometry(input);
+  await assertGrade(input.gradeId ?? null);
+  return db().transaction(async (trx) => {
+    const [row] = await trx("library_parts")
+      .insert({
+        kit: input.kit,
+        name: input.name,
+        size_x: geometry.size[0],
+        size_y: geometry.size[1],
+        size_z: geometry.size[2],
+        grade_id: input.gradeId ?? null,
+        rotate: input.rotate,
+        profile: input.profile ? JSON.stringify(input.profile) : null,
+        true_volume_mm3: geometry.trueVolumeMm3,
+        default_quantity: input.defaultQuantity,
+        notes: input.notes,
+        active: input.active ?? true,
+      })
+      .returning("id");
+    await trx("audit_log").insert({ actor_id: actorId, action: "library_part.create", subject: `library_part:${row.id}`, detail: input });
+    return toPart(await select(trx).where("l.id", row.id).first());
+  });
+}
+
+export async function updateLibraryPart(id: number, patch: LibraryPatch, actorId: string): Promise<LibraryPart> {
+  const current = await getLibraryPart(id);
+  if (!current) throw new HttpError(404, "That library part was not found.");
+  const changes: Record<string, unknown> = {};
+  if (patch.kit !== undefined) changes.kit = patch.kit;
+  if (patch.name !== undefined) changes.name = patch.name;
+  if (patch.rotate !== undefined) changes.rotate = patch.rotate;
+  if (patch.defaultQuantity !== undefined) changes.default_quantity = patch.defaultQuantity;
+  if (patch.notes !== undefined) changes.notes = patch.notes;
+  if (patch.active !== undefined) changes.active = patch.active;
+  if (patch.gradeId !== undefined) {
+    await assertGrade(patch.gradeId);
+    changes.grade_id = patch.gradeId;
+  }
+  if (patch.profile !== undefined || patch.size !== undefined) {
+    const profile = patch.profile !== undefined ? patch.profile : current.profile;
+    const size = patch.size !== undefined ? patch.size : current.size;
+    const g = resolveGeometry({ profile, size });
+    Object.assign(changes, { size_x: g.size[0], size_y: g.size[1], size_z: g.size[2], profile: profile ? JSON.stringify(profile) : null, true_volume_mm3: g.trueVolumeMm3 });
+  }
+  return db().transaction(async (trx) => {
+    if (Object.keys(changes).length) await trx("library_parts").where({ id }).update(changes);
+    await trx("audit_log").insert({ actor_id: actorId, action: "library_part.update", subject: `library_part:${id}`, detail: patch });
+    return toPart(await select(trx).where("l.id", id).first());
+  });
+}
