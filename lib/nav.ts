@@ -10,6 +10,9 @@ export interface NavItem {
 export const NAV: NavItem[] = [
   { href: "/", label: "Today" },
   { href: "/stock", label: "Stock" },
+  { href: "/plans", label: "Plans", roles: ["planner", "cutter", "manager"] },
+  { href: "/jobs", label: "Jobs", roles: ["planner", "cutter", "manager"] },
+  { href: "/library", label: "Part library", roles: ["planner", "cutter", "manager"] },
   { href: "/defects/new", label: "Flag a defect", roles: ["cutter"] },
   { href: "/labels", label: "Labels", roles: ["cutter"] },
   { href: "/deliveries/new", label: "Receive a delivery", roles: ["buyer"] },

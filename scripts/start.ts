@@ -7,11 +7,14 @@ import { spawn, type ChildProcess } from "node:child_process";
 import { DEMO_CLUSTER, ensureCluster } from "./pg";
 import { migrateAndSeed } from "./db";
 import { buildIfNeeded } from "./build-if-needed";
+import { DEMO_S3, ensureS3 } from "./s3";
 
 async function main() {
   const dev = process.argv.includes("--dev");
   const port = process.env.PORT ?? "3000";
   const url = await ensureCluster(DEMO_CLUSTER);
+  const s3 = await ensureS3(DEMO_S3); // photo storage, before the seed uploads demo photos
+  Object.assign(process.env, s3.env);
   await migrateAndSeed(url, { seedWhenEmpty: true });
   if (!dev) buildIfNeeded();
 
@@ -20,9 +23,13 @@ async function main() {
   // next spawns its own children: give it a process group so we can stop all of it.
   const web = spawn("npx", ["next", dev ? "dev" : "start", "-p", port], { stdio: "inherit", env, detached: true });
   children.push(web);
+  // One background worker alongside (nesting runs, scheduled alerts); more can run elsewhere.
+  const worker = spawn("npm", ["run", "--silent", "worker"], { stdio: "inherit", env, detached: true });
+  children.push(worker);
   process.stderr.write(`[start] Blockyard on http://localhost:${port} (demo users: see README)\n`);
 
   const stop = (code: number) => {
+    void s3.stop();
     for (const c of children) {
       if (c.pid && c.exitCode === null) {
         try {

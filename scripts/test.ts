@@ -52,6 +52,7 @@ async function main() {
   const onlyUnit = projects.length > 0 && projects.every((p) => p === "unit");
   delete process.env.DATABASE_URL; // the demo database is never a test database
   if (TEST_SLOT && !process.env.NEXT_DIST_DIR) process.env.NEXT_DIST_DIR = `.next-slot-${TEST_SLOT}`;
+  if (TEST_SLOT) process.env.SKIP_BUILD_TYPECHECK ??= "1";
 
   let url = process.env.TEST_DATABASE_URL;
   if (!url) {
@@ -63,6 +64,7 @@ async function main() {
   await migrateAndSeed(url, { seedWhenEmpty: false, forceSeed: true });
 
   let server: ChildProcess | undefined;
+  let worker: ChildProcess | undefined;
   const port = process.env.TEST_PORT ?? String(TEST_SLOT ? 3200 + TEST_SLOT : 3199);
   const baseUrl = `http://127.0.0.1:${port}`;
   const env: NodeJS.ProcessEnv = {
@@ -75,11 +77,13 @@ async function main() {
   };
   const stopAll = () => {
     void s3.stop();
-    if (server?.pid && server.exitCode === null) {
-      try {
-        process.kill(-server.pid, "SIGTERM");
-      } catch {
-        /* gone */
+    for (const child of [server, worker]) {
+      if (child?.pid && child.exitCode === null) {
+        try {
+          process.kill(-child.pid, "SIGTERM");
+        } catch {
+          /* gone */
+        }
       }
     }
     if (!process.env.TEST_DATABASE_URL && !process.env.KEEP_TEST_DB) stopCluster(TEST_CLUSTER);
@@ -97,6 +101,9 @@ async function main() {
         stdio: ["ignore", fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "w"), fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "a")],
       });
       await waitForHealth(baseUrl, server);
+      // The background worker, as `npm start` runs it (tests of nesting runs and alerts need it).
+      const workerLog = fs.openSync(`.data/test-worker${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "w");
+      worker = spawn("npm", ["run", "--silent", "worker"], { env, detached: true, stdio: ["ignore", workerLog, workerLog] });
     }
     const r = spawnSync("npx", ["vitest", "run", ...vitestArgs], { stdio: "inherit", env });
     code = r.status ?? 1;

@@ -50,6 +50,25 @@ export const API_POLICY = {
   "POST /api/imports/deliveries": ["buyer"],
   "POST /api/imports/stock-counts": ["buyer"],
 
+  // Purchasing: the buyer orders and receives; the manager reads. Reports: manager and planner
+  // read. The outbox of sent mail: admin.
+  "GET /api/reorder": ["buyer", "manager"],
+  "PUT /api/reorder/settings": ["buyer"],
+  "PUT /api/reorder/[gradeId]": ["buyer"],
+  "POST /api/reorder/draft": ["buyer"],
+  "POST /api/reorder/alert": ["buyer"],
+  "GET /api/purchase-orders": ["buyer", "manager"],
+  "POST /api/purchase-orders": ["buyer"],
+  "GET /api/purchase-orders/[poId]": ["buyer", "manager"],
+  "PUT /api/purchase-orders/[poId]": ["buyer"],
+  "POST /api/purchase-orders/[poId]/send": ["buyer"],
+  "POST /api/purchase-orders/[poId]/cancel": ["buyer"],
+  "POST /api/purchase-orders/[poId]/close": ["buyer"],
+  "POST /api/purchase-orders/[poId]/receive": ["buyer"],
+  "GET /api/purchase-orders/[poId]/export": ["buyer", "manager"],
+  "GET /api/reports/[report]": ["manager", "planner"],
+  "GET /api/outbox": ["admin"],
+
   // Jobs and the part library: the planner writes; the cutter and the manager read.
   "GET /api/jobs": ["planner", "cutter", "manager"],
   "POST /api/jobs": ["planner"],
@@ -62,6 +81,19 @@ export const API_POLICY = {
   "GET /api/library": ["planner", "cutter", "manager"],
   "POST /api/library": ["planner"],
   "PATCH /api/library/[partId]": ["planner"],
+
+  // Cut planning: the planner runs, approves and releases plans; the cutter records cuts.
+  "GET /api/runs": "signed-in",
+  "POST /api/runs": ["planner"],
+  "GET /api/runs/candidates": ["planner"],
+  "GET /api/runs/[runId]": "signed-in",
+  "POST /api/runs/[runId]/cancel": ["planner"],
+  "POST /api/runs/[runId]/approve": ["planner"],
+  "POST /api/runs/[runId]/release": ["planner"],
+  "POST /api/runs/[runId]/replan": ["planner"],
+  "POST /api/runs/[runId]/blocks/[blockId]/cut": ["cutter"],
+  "GET /api/runs/[runId]/cut-list": "signed-in",
+  "GET /api/runs/[runId]/gcode": ["cutter", "planner"],
 } as const satisfies Record<string, Access>;
 
 export type RouteKey = keyof typeof API_POLICY;

@@ -12,5 +12,6 @@ export interface JobDefinition<T = unknown> {
 /** Every job the worker runs. Add a line here for a new one. */
 export async function jobDefinitions(): Promise<JobDefinition<never>[]> {
   const defs: JobDefinition<never>[] = [];
+  defs.push((await import("./handlers/nesting-run")).nestingRunJob as JobDefinition<never>);
   return defs;
 }

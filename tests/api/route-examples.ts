@@ -1,5 +1,8 @@
 import type { RouteKey } from "@/lib/auth/policy";
 import type { Role } from "@/lib/roles";
+import { makeBlock, testDb } from "../support/db";
+import { SETTINGS, makeApprovedRun, makeJobWithParts, makePlannedBlock } from "../support/planning-fixtures";
+import { jpegBytes, makeDefect, makePhoto } from "../support/defect-fixtures";
 import { makeJob, makeJobPart, makeLibraryPart } from "../support/job-fixtures";
 
 export interface ExampleCtx {
@@ -16,6 +19,8 @@ export interface Example {
   body?: unknown;
   /** Content type of a raw (non-JSON) body. */
   contentType?: string;
+  /** Files sent as multipart/form-data (instead of a JSON body). */
+  files?: { field: string; name: string; content: Buffer; contentType?: string }[];
   /** Status a permitted caller must get (default: 2xx). */
   expect?: number;
 }
@@ -57,6 +62,90 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     params: { userId: (await ctx.makeUser(["buyer"])).id },
     body: { password: "temporary-pass-2" },
   }),
+  "POST /api/grades": async () => ({ body: gradeBody(`G-${unique()}`), expect: 201 }),
+  "GET /api/grades/[gradeId]": async () => ({ params: { gradeId: String(await firstId("grades")) } }),
+  "PUT /api/grades/[gradeId]": async () => {
+    const [g] = await testDb()("grades").insert({ code: `G-${unique()}`, material: "EPS", grade_system: "shop", grade: "test", cure_days: 1 }).returning("id");
+    return { params: { gradeId: String(g.id) }, body: gradeBody(`G-${unique()}`) };
+  },
+  "POST /api/suppliers": async () => ({ body: { name: `Supplier ${unique()}`, leadTimeDays: 10 }, expect: 201 }),
+  "GET /api/suppliers/[supplierId]": async () => ({ params: { supplierId: String(await firstId("suppliers")) } }),
+  "PUT /api/suppliers/[supplierId]": async () => {
+    const [s] = await testDb()("suppliers").insert({ name: `Supplier ${unique()}` }).returning("id");
+    return { params: { supplierId: String(s.id) }, body: { name: `Supplier ${unique()}`, leadTimeDays: 7 } };
+  },
+  "POST /api/deliveries": async () => ({
+    body: {
+      supplierId: await firstId("suppliers"),
+      receivedOn: "2026-11-30",
+      lot: `LOT-${unique()}`,
+      blocks: [{ gradeId: await firstId("grades"), size: [1000, 500, 400], cost: 50, location: "Test bay" }],
+    },
+    expect: 201,
+  }),
+  "GET /api/deliveries/[deliveryId]": async () => ({ params: { deliveryId: String(await firstId("deliveries")) } }),
+  "GET /api/blocks/[blockId]": async () => ({ params: { blockId: String((await makeBlock()).id) } }),
+  "PATCH /api/blocks/[blockId]": async () => ({ params: { blockId: String((await makeBlock()).id) }, body: { location: "Bay B – floor" } }),
+  "POST /api/blocks/[blockId]/scrap": async () => ({ params: { blockId: String((await makeBlock()).id) }, body: { reason: "Crushed by a forklift" } }),
+  "POST /api/blocks/[blockId]/adjust": async () => ({ params: { blockId: String((await makeBlock()).id) }, body: { size: [1990, 1000, 500], reason: "Re-measured" } }),
+  "GET /api/blocks/[blockId]/defects": async () => ({ params: { blockId: String((await makeBlock()).id) } }),
+  "POST /api/blocks/[blockId]/defects": async () => ({
+    params: { blockId: String((await makeBlock()).id) },
+    body: { kind: "void", min: [100, 100, 100], max: [200, 180, 160] },
+    expect: 201,
+  }),
+  "POST /api/imports/deliveries": async () => ({
+    query: "commit=0",
+    contentType: "text/csv",
+    body: "supplier,received_on,lot,grade,length_mm,width_mm,height_mm,cost,location\nAshcombe Bead & Block,2026-11-30,L-1,EPS-II,1000,500,400,50,Bay A\n",
+  }),
+  "POST /api/imports/stock-counts": async () => {
+    const b = await makeBlock();
+    return { query: "commit=0", contentType: "text/csv", body: `code,location\n${b.code},Bay A\n` };
+  },
+  "POST /api/runs": async () => {
+    const block = await makeBlock();
+    const { jobId } = await makeJobWithParts([{ name: "Rib", quantity: 2, size: [300, 200, 100], gradeCode: "EPS-II" }]);
+    return { body: { jobIds: [jobId], blockIds: [block.id], settings: { ...SETTINGS, timeLimitMs: 500 } }, expect: 201 };
+  },
+  "GET /api/runs/candidates": async () => ({ query: `jobs=${(await makeJobWithParts([{ name: "Rib", quantity: 1, size: [300, 200, 100], gradeCode: "EPS-II" }])).jobId}` }),
+  "GET /api/runs/[runId]": async () => ({ params: { runId: String((await makePlannedBlock()).runId) } }),
+  "POST /api/runs/[runId]/cancel": async () => {
+    const { runId } = await makePlannedBlock();
+    await testDb()("nesting_runs").where({ id: runId }).update({ status: "queued", plan: null });
+    return { params: { runId: String(runId) } };
+  },
+  "POST /api/runs/[runId]/approve": async () => ({ params: { runId: String((await makePlannedBlock()).runId) } }),
+  "POST /api/runs/[runId]/release": async () => ({ params: { runId: String((await makeApprovedRun()).runId) } }),
+  "POST /api/runs/[runId]/replan": async () => {
+    const { runId, partIds } = await makeApprovedRun();
+    const run = await testDb()("nesting_runs").where({ id: runId }).first("plan");
+    const plan = run.plan;
+    plan.unplaced = [{ part: `jp-${partIds[0]}`, count: 1, reason: "test" }];
+    await testDb()("nesting_runs").where({ id: runId }).update({ plan: JSON.stringify(plan) });
+    return { params: { runId: String(runId) }, expect: 201 };
+  },
+  "POST /api/runs/[runId]/blocks/[blockId]/cut": async () => {
+    const { runId, block } = await makeApprovedRun();
+    return { params: { runId: String(runId), blockId: String(block.id) }, body: { rejects: [] } };
+  },
+  "GET /api/runs/[runId]/cut-list": async () => ({ params: { runId: String((await makePlannedBlock()).runId) } }),
+  "GET /api/runs/[runId]/gcode": async () => {
+    const { runId, block } = await makePlannedBlock();
+    return { params: { runId: String(runId) }, query: `block=${encodeURIComponent(block.code)}` };
+  },
+  "POST /api/defects/[defectId]/photos": async () => {
+    const block = await makeBlock();
+    return {
+      params: { defectId: String(await makeDefect(block.id)) },
+      files: [{ field: "photos", name: "void-face.jpg", content: await jpegBytes(320, 240), contentType: "image/jpeg" }],
+      expect: 201,
+    };
+  },
+  "GET /api/photos/[photoId]": async () => {
+    const block = await makeBlock();
+    return { params: { photoId: String((await makePhoto(await makeDefect(block.id))).id) } };
+  },
   // Jobs and the part library.
   "POST /api/jobs": async () => ({ body: { name: `Job ${unique()}`, customer: "Test customer", dueOn: "2026-12-24" }, expect: 201 }),
   "GET /api/jobs/[jobId]": async () => ({ params: { jobId: String(await makeJob()) } }),
@@ -79,3 +168,12 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
   "POST /api/library": async () => ({ body: { kit: "Test kit", name: `Former ${unique()}`, size: [200, 150, 10] }, expect: 201 }),
   "PATCH /api/library/[partId]": async () => ({ params: { partId: String(await makeLibraryPart()) }, body: { defaultQuantity: 3 } }),
 };
+
+function gradeBody(code: string) {
+  return { code, material: "EPS", gradeSystem: "ASTM C578", grade: "Type II", nominalDensity: 23, minDensity: 21.6, cureDays: 14, neverHotWire: false, colour: "#3f8791", priceUnit: "bf" };
+}
+
+async function firstId(table: string): Promise<number> {
+  const row = await testDb()(table).orderBy("id").first("id");
+  return row.id as number;
+}

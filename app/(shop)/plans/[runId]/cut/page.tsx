@@ -1,0 +1,50 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { requireRole } from "@/lib/auth/guard";
+import { getRun } from "@/db/queries/runs";
+import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
+import { HotWireCaution } from "@/components/shell/safety-note";
+import { PlanView } from "@/components/plans/plan-view";
+import { CutBlockForm } from "@/components/plans/cut-block-form";
+import { partIdFromKey } from "@/lib/planning/problem";
+
+export const metadata: Metadata = { title: "At the machine" };
+
+export default async function AtTheMachinePage({ params }: { params: Promise<{ runId: string }> }) {
+  await requireRole("cutter");
+  const id = Number((await params).runId);
+  const run = Number.isInteger(id) && id > 0 ? await getRun(id) : undefined;
+  if (!run?.plan) notFound();
+  const plan = run.plan;
+  const names = new Map(run.parts.map((p) => [p.id, p.name]));
+  const partName = (k: string) => names.get(partIdFromKey(k)) ?? k;
+  const inPlan = run.blocks.filter((b) => b.planStatus);
+  return (
+    <>
+      <PageHeader title={`At the machine · plan #${run.id}`} lead={<>{run.jobNames.join(", ")} · <Link href={`/plans/${run.id}/sheet`}>cut sheet</Link></>} />
+      <div className="space-y-5">
+        <HotWireCaution />
+        {run.status !== "approved" && <Notice tone="caution">This plan is {run.status === "closed" ? "fully cut" : "not approved"}: nothing to record here.</Notice>}
+        {inPlan.map((b) => {
+          const pb = run.problem.blocks.find((x) => x.id === b.code)!;
+          const placements = plan.placements.filter((p) => p.block === b.code);
+          const counts = new Map<number, number>();
+          for (const p of placements) counts.set(partIdFromKey(p.part), (counts.get(partIdFromKey(p.part)) ?? 0) + 1);
+          return (
+            <Card key={b.id} title={<span className="flex items-center gap-2">{b.code} {b.planStatus === "cut" ? <Badge tone="moss">cut</Badge> : b.planStatus === "released" ? <Badge>released</Badge> : <Badge tone="kerf">to cut</Badge>}</span>}>
+              <div className="grid gap-5 xl:grid-cols-2">
+                <PlanView block={{ id: b.code, size: pb.size, defects: pb.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={placements} offcuts={plan.offcuts.filter((o) => o.block === b.code)} cuts={plan.cuts[b.code] ?? []} kerf={run.settings.kerf} partName={partName} showLayers={false} />
+                {b.planStatus === "reserved" && run.status === "approved" ? (
+                  <CutBlockForm runId={run.id} blockId={b.id} code={b.code} parts={[...counts].map(([jobPartId, count]) => ({ jobPartId, count, name: names.get(jobPartId) ?? `part ${jobPartId}` }))} />
+                ) : (
+                  <p className="text-sm text-ink-soft">{b.planStatus === "cut" ? "Recorded." : "Not part of the work any more."}</p>
+                )}
+              </div>
+            </Card>
+          );
+        })}
+      </div>
+    </>
+  );
+}

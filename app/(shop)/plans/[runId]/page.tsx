@@ -1,0 +1,149 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { requireRole } from "@/lib/auth/guard";
+import { getRun, listRuns, owedByRun } from "@/db/queries/runs";
+import { getShopSettings } from "@/db/queries/settings";
+import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
+import { buttonClass } from "@/components/ui/button";
+import { RunLive } from "@/components/plans/run-live";
+import { RunActions } from "@/components/plans/run-actions";
+import { PlanView } from "@/components/plans/plan-view";
+import { RunStatusBadge } from "@/components/plans/run-status";
+import { HotWireCaution } from "@/components/shell/safety-note";
+import { cutEstimate } from "@/lib/planning/gcode";
+import { partIdFromKey } from "@/lib/planning/problem";
+
+export async function generateMetadata({ params }: { params: Promise<{ runId: string }> }): Promise<Metadata> {
+  return { title: `Plan #${(await params).runId}` };
+}
+
+export default async function RunPage({ params }: { params: Promise<{ runId: string }> }) {
+  const user = await requireRole();
+  const id = Number((await params).runId);
+  if (!Number.isInteger(id) || id <= 0) notFound();
+  const run = await getRun(id);
+  if (!run) notFound();
+  const [settings, siblings, owed] = await Promise.all([getShopSettings(), listRuns({ jobId: run.jobIds[0], limit: 8 }), owedByRun(id)]);
+  const planner = user.roles.some((r) => r === "admin" || r === "planner");
+  const cutter = user.roles.some((r) => r === "admin" || r === "cutter");
+  const names = new Map(run.parts.map((p) => [p.id, p.name]));
+  const partName = (key: string) => names.get(partIdFromKey(key)) ?? key;
+  const plan = run.plan;
+  const used = plan ? run.problem.blocks.filter((b) => plan.placements.some((p) => p.block === b.id)) : [];
+  const estimates = used.map((b) => cutEstimate(b.size, plan!.cuts[b.id] ?? [], settings.feedMmPerMin));
+  const totalMinutes = estimates.reduce((s, e) => s + e.minutes, 0);
+  const totalLength = estimates.reduce((s, e) => s + e.lengthMm, 0);
+  const owes = [...owed.values()].some((n) => n > 0);
+
+  return (
+    <>
+      <PageHeader
+        title={`Plan #${run.id}`}
+        lead={
+          <span className="flex flex-wrap items-center gap-2">
+            <RunStatusBadge status={run.status} />
+            <span>for {run.jobNames.join(", ")}</span>
+            <span className="text-ink-faint">· {run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin {run.settings.defectMargin} mm</span>
+            {run.parentRunId && <span>· re-plan of <Link href={`/plans/${run.parentRunId}`}>#{run.parentRunId}</Link></span>}
+          </span>
+        }
+        actions={
+          plan && (
+            <>
+              <Link className={buttonClass("secondary")} href={`/plans/${run.id}/sheet`}>Cut sheet</Link>
+              <a className={buttonClass("secondary")} href={`/api/runs/${run.id}/cut-list`} download>Cut list CSV</a>
+              {cutter && run.status === "approved" && <Link className={buttonClass("primary")} href={`/plans/${run.id}/cut`}>At the machine</Link>}
+            </>
+          )
+        }
+      />
+      <div className="space-y-5">
+        <RunLive initial={{ id: run.id, status: run.status, progress: run.progress, best: run.best, error: run.error }} canCancel={planner} />
+        {run.status === "failed" && <Notice tone="danger" title="This run failed">{run.error ?? "The worker stopped."} Start a new run from the job.</Notice>}
+        {run.status === "cancelled" && <Notice tone="caution">This plan was stopped or released{plan ? "; the best plan found before then is shown." : "."}</Notice>}
+
+        {plan && (
+          <>
+            <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5" data-testid="plan-figures">
+              <Fig label="Yield" value={`${(plan.stats.yield * 100).toFixed(1)} %`} />
+              <Fig label="Blocks" value={`${plan.stats.blocksUsed}`} note={`at least ${plan.stats.lowerBoundBlocks}`} />
+              <Fig label="Stock cost" value={(run.cost ?? 0).toLocaleString("en", { style: "currency", currency: "USD" })} />
+              <Fig label="Offcuts kept" value={`${(plan.stats.offcutVolume / 1e9).toFixed(3)} m³`} note={`${plan.offcuts.length} pieces`} />
+              <Fig label="Cut time (estimate)" value={`${Math.round(totalMinutes)} min`} note={`${(totalLength / 1000).toFixed(1)} m of wire travel at ${settings.feedMmPerMin} mm/min`} />
+            </div>
+            {plan.unplaced.length > 0 && (
+              <Notice tone="caution" title="Not everything fits">
+                <ul className="list-disc pl-5">
+                  {plan.unplaced.map((u) => <li key={u.part}>{u.count} × {partName(u.part)}: {u.reason}</li>)}
+                </ul>
+              </Notice>
+            )}
+            {planner && <RunActions runId={run.id} status={run.status} owes={owes} />}
+            <HotWireCaution />
+            {used.map((b) => {
+              const status = run.blocks.find((x) => x.code === b.id)?.planStatus;
+              return (
+                <Card
+                  key={b.id}
+                  title={
+                    <span className="flex flex-wrap items-center gap-2">
+                      <Link href={`/stock/${encodeURIComponent(b.id)}`}>{b.id}</Link>
+                      <span className="text-sm font-normal text-ink-soft">{b.size.join(" × ")} mm · {b.grade}{b.offcut && " · offcut"}</span>
+                      {status === "cut" && <Badge tone="moss">cut</Badge>}
+                      {status === "reserved" && <Badge tone="kerf">earmarked</Badge>}
+                    </span>
+                  }
+                  action={cutter || planner ? <a className="text-sm" href={`/api/runs/${run.id}/gcode?block=${encodeURIComponent(b.id)}`}>G-code (straight cuts)</a> : undefined}
+                >
+                  <PlanView
+                    block={{ id: b.id, size: b.size, defects: b.defects.map((d) => ({ min: d.min.map((v) => Math.max(0, v - run.settings.defectMargin)) as [number, number, number], max: d.max.map((v, i) => Math.min(b.size[i]!, v + run.settings.defectMargin)) as [number, number, number] })) }}
+                    placements={plan.placements.filter((p) => p.block === b.id)}
+                    offcuts={plan.offcuts.filter((o) => o.block === b.id)}
+                    cuts={plan.cuts[b.id] ?? []}
+                    kerf={run.settings.kerf}
+                    partName={partName}
+                  />
+                </Card>
+              );
+            })}
+          </>
+        )}
+
+        {siblings.length > 1 && (
+          <Card title="Runs for the same job, side by side">
+            <div className="overflow-x-auto">
+              <table data-testid="run-compare">
+                <thead><tr><th className="py-1">Plan</th><th>Status</th><th className="text-right">Yield</th><th className="text-right">Blocks</th><th className="text-right">Cost</th><th className="text-right">Offcuts m³</th><th className="text-right">Unplaced</th><th>Layout</th></tr></thead>
+                <tbody>
+                  {siblings.map((s) => (
+                    <tr key={s.id} className={`border-t border-bead/60 ${s.id === run.id ? "bg-kerf-light/40" : ""}`}>
+                      <td className="py-1"><Link href={`/plans/${s.id}`}>#{s.id}</Link></td>
+                      <td><RunStatusBadge status={s.status} /></td>
+                      <td className="text-right tabular-nums">{s.stats ? `${(s.stats.yield * 100).toFixed(1)} %` : "–"}</td>
+                      <td className="text-right tabular-nums">{s.stats?.blocksUsed ?? "–"}</td>
+                      <td className="text-right tabular-nums">{s.cost === null ? "–" : s.cost.toFixed(2)}</td>
+                      <td className="text-right tabular-nums">{s.stats ? (s.stats.offcutVolume / 1e9).toFixed(3) : "–"}</td>
+                      <td className="text-right tabular-nums">{s.best?.unplacedCount ?? "–"}</td>
+                      <td>{s.settings.layout}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          </Card>
+        )}
+      </div>
+    </>
+  );
+}
+
+function Fig({ label, value, note }: { label: string; value: string; note?: string }) {
+  return (
+    <div className="rounded-card border border-bead bg-paper-raised p-4 shadow-card">
+      <p className="text-xs uppercase tracking-wide text-ink-faint">{label}</p>
+      <p className="text-xl font-semibold">{value}</p>
+      {note && <p className="text-xs text-ink-faint">{note}</p>}
+    </div>
+  );
+}

@@ -1,0 +1,96 @@
+import type { Metadata } from "next";
+import { notFound } from "next/navigation";
+import QRCode from "qrcode";
+import { requireRole } from "@/lib/auth/guard";
+import { getRun } from "@/db/queries/runs";
+import { getShopSettings } from "@/db/queries/settings";
+import { listChildren } from "@/db/queries/blocks";
+import { PlanView } from "@/components/plans/plan-view";
+import { PrintButton } from "@/components/stock/print-button";
+import { cutEstimate } from "@/lib/planning/gcode";
+import { partIdFromKey } from "@/lib/planning/problem";
+
+export const metadata: Metadata = { title: "Cut sheet" };
+
+/** The printable cut sheet: per block, the through cuts in order, the parts, and labels for the offcuts it will make. */
+export default async function CutSheetPage({ params }: { params: Promise<{ runId: string }> }) {
+  await requireRole();
+  const id = Number((await params).runId);
+  const run = Number.isInteger(id) && id > 0 ? await getRun(id) : undefined;
+  if (!run?.plan) notFound();
+  const plan = run.plan;
+  const settings = await getShopSettings();
+  const names = new Map(run.parts.map((p) => [p.id, p.name]));
+  const partName = (k: string) => names.get(partIdFromKey(k)) ?? k;
+  const used = run.problem.blocks.filter((b) => plan.placements.some((p) => p.block === b.id));
+  const sheets = await Promise.all(
+    used.map(async (b) => {
+      const blockId = run.blocks.find((x) => x.code === b.id)?.id;
+      const existing = blockId ? (await listChildren(blockId)).length : 0;
+      const offcuts = plan.offcuts.filter((o) => o.block === b.id);
+      const labels = await Promise.all(
+        offcuts.map(async (o, i) => {
+          const code = `${b.id}.${existing + i + 1}`;
+          return { code, size: o.size, svg: await QRCode.toString(code, { type: "svg", margin: 1, errorCorrectionLevel: "M" }) };
+        }),
+      );
+      return { b, offcuts, labels, estimate: cutEstimate(b.size, plan.cuts[b.id] ?? [], settings.feedMmPerMin) };
+    }),
+  );
+  return (
+    <div className="space-y-6 print:text-[11pt]">
+      <div className="flex flex-wrap items-start justify-between gap-3">
+        <div>
+          <h1>Cut sheet · plan #{run.id}</h1>
+          <p className="text-ink-soft">{run.jobNames.join(", ")} · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · feed {settings.feedMmPerMin} mm/min</p>
+        </div>
+        <PrintButton label="Print cut sheet" />
+      </div>
+      <section className="rounded-md border-2 border-wire bg-wire-light p-3 text-sm">
+        <p className="font-semibold">Before you heat the wire</p>
+        <p>Ventilate: heated polystyrene gives off styrene; use the lowest wire heat that cuts, and the wire should never smoke. The wire burns and may carry tens of volts: never leave it hot and unattended. Never hot-wire polyurethane. Follow local codes, the material&apos;s safety data sheet and licensed practice.</p>
+      </section>
+      {sheets.map(({ b, offcuts, labels, estimate }) => (
+        <section key={b.id} className="break-inside-avoid space-y-3 border-t border-bead pt-4 print:break-after-page">
+          <h2>Block {b.id} <span className="text-sm font-normal text-ink-soft">{b.size.join(" × ")} mm · {b.grade}{b.offcut ? " · offcut (faces clean)" : ` · trim ${run.settings.trim} mm each face first`}</span></h2>
+          <div className="grid gap-4 lg:grid-cols-2">
+            <div>
+              <h3 className="text-sm font-semibold">Through cuts, in order</h3>
+              <ol className="mt-1 list-decimal pl-6 text-sm">
+                {(plan.cuts[b.id] ?? []).map((c, i) => <li key={i}>across {c.axis === "x" ? "the length" : c.axis === "y" ? "the width" : "the height"}, kerf starting at {c.at} mm</li>)}
+              </ol>
+              <p className="mt-1 text-xs text-ink-faint">About {Math.round(estimate.minutes)} min of cutting ({(estimate.lengthMm / 1000).toFixed(1)} m of wire travel, an upper estimate).</p>
+              <h3 className="mt-3 text-sm font-semibold">Parts</h3>
+              <table className="text-sm">
+                <thead><tr><th>Part</th><th>At (x, y, z mm)</th><th>Size (mm)</th></tr></thead>
+                <tbody>
+                  {plan.placements.filter((p) => p.block === b.id).map((p, i) => (
+                    <tr key={i} className="border-t border-bead/60"><td>{partName(p.part)}</td><td>{p.origin.join(", ")}</td><td>{p.size.join(" × ")}</td></tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+            <PlanView block={{ id: b.id, size: b.size, defects: b.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={plan.placements.filter((p) => p.block === b.id)} offcuts={offcuts} cuts={plan.cuts[b.id] ?? []} kerf={run.settings.kerf} partName={partName} showLayers={false} />
+          </div>
+          {labels.length > 0 && (
+            <div>
+              <h3 className="text-sm font-semibold">Offcut labels (stick on as each offcut comes free)</h3>
+              <div className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-3">
+                {labels.map((l) => (
+                  <div key={l.code} className="flex items-center gap-3 rounded border border-ink p-2" data-testid="offcut-label">
+                    <div className="size-20 shrink-0" dangerouslySetInnerHTML={{ __html: l.svg }} />
+                    <div className="text-sm">
+                      <p className="text-lg font-bold">{l.code}</p>
+                      <p>{l.size.join(" × ")} mm</p>
+                      <p>{b.grade} · offcut of {b.id}</p>
+                    </div>
+                  </div>
+                ))}
+              </div>
+            </div>
+          )}
+        </section>
+      ))}
+    </div>
+  );
+}

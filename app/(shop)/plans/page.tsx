@@ -1,0 +1,39 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { requireRole } from "@/lib/auth/guard";
+import { listRuns } from "@/db/queries/runs";
+import { Card, PageHeader } from "@/components/ui/card";
+import { RunStatusBadge } from "@/components/plans/run-status";
+
+export const metadata: Metadata = { title: "Plans" };
+
+export default async function PlansPage() {
+  const user = await requireRole("planner", "cutter", "manager");
+  const [approved, others] = await Promise.all([listRuns({ statuses: ["approved"] }), listRuns({ statuses: ["queued", "running", "done", "failed", "cancelled", "closed"], limit: 40 })]);
+  const Row = ({ r }: { r: (typeof approved)[number] }) => (
+    <tr className="border-t border-bead/60">
+      <td className="py-2"><Link href={`/plans/${r.id}`}>Plan #{r.id}</Link></td>
+      <td>{r.jobNames.join(", ")}</td>
+      <td><RunStatusBadge status={r.status} /></td>
+      <td className="text-right tabular-nums">{r.stats ? `${(r.stats.yield * 100).toFixed(1)} %` : "–"}</td>
+      <td className="text-right tabular-nums">{r.stats?.blocksUsed ?? "–"}</td>
+      <td className="text-right text-ink-faint">{r.createdAt.slice(0, 10)}</td>
+    </tr>
+  );
+  const head = (
+    <thead><tr><th className="py-1">Plan</th><th>Jobs</th><th>Status</th><th className="text-right">Yield</th><th className="text-right">Blocks</th><th className="text-right">Made</th></tr></thead>
+  );
+  return (
+    <>
+      <PageHeader title="Plans" lead="Nesting runs: what to cut, from which blocks, in which order." />
+      <div className="space-y-5">
+        <Card title={user.roles.includes("cutter") ? "Approved plans to cut" : "Approved plans (stock earmarked)"}>
+          {approved.length ? <table>{head}<tbody>{approved.map((r) => <Row key={r.id} r={r} />)}</tbody></table> : <p className="text-sm text-ink-soft">No approved plans waiting.</p>}
+        </Card>
+        <Card title="Other runs">
+          {others.length ? <table>{head}<tbody>{others.map((r) => <Row key={r.id} r={r} />)}</tbody></table> : <p className="text-sm text-ink-soft">No runs yet. Start one from a job.</p>}
+        </Card>
+      </div>
+    </>
+  );
+}

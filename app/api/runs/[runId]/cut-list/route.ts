@@ -1,0 +1,27 @@
+import { api } from "@/lib/auth/guard";
+import { getRun } from "@/db/queries/runs";
+import { notFound } from "@/lib/errors";
+import { idParam } from "@/lib/params";
+import { csvResponse, toCsv } from "@/lib/csv";
+import { partIdFromKey } from "@/lib/planning/problem";
+
+type P = { runId: string };
+
+/** The plan as a cut list: one row per part placed, in block order, with its position and size. */
+export const GET = api<P>("GET /api/runs/[runId]/cut-list", async ({ params }) => {
+  const run = await getRun(idParam(params.runId, "That plan"));
+  if (!run?.plan) throw notFound("That plan");
+  const names = new Map(run.parts.map((p) => [p.id, p.name]));
+  const rows = run.plan.placements.map((p, i) => ({
+    line: i + 1,
+    block: p.block,
+    part: names.get(partIdFromKey(p.part)) ?? p.part,
+    x_mm: p.origin[0],
+    y_mm: p.origin[1],
+    z_mm: p.origin[2],
+    length_mm: p.size[0],
+    width_mm: p.size[1],
+    height_mm: p.size[2],
+  }));
+  return csvResponse(toCsv(rows, ["line", "block", "part", "x_mm", "y_mm", "z_mm", "length_mm", "width_mm", "height_mm"]), `blockyard-plan-${run.id}-cut-list.csv`);
+});

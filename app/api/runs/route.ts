@@ -1,0 +1,25 @@
+import { NextResponse } from "next/server";
+import { z } from "zod";
+import { api, parseWith, readJson } from "@/lib/auth/guard";
+import { createRun, listRuns, type RunStatus } from "@/db/queries/runs";
+import { createRunSchema } from "@/lib/validations/runs";
+import { enqueue } from "@/lib/jobs/boss";
+import { QUEUES } from "@/lib/jobs/queues";
+
+const query = z.object({
+  job: z.coerce.number().int().positive().optional(),
+  status: z.enum(["queued", "running", "done", "failed", "cancelled", "approved", "closed"]).optional(),
+});
+
+export const GET = api("GET /api/runs", async ({ req }) => {
+  const q = parseWith(query, Object.fromEntries(req.nextUrl.searchParams));
+  return { items: await listRuns({ jobId: q.job, statuses: q.status ? [q.status as RunStatus] : undefined }) };
+});
+
+/** Starts a nesting run: stored as queued, then picked up by a background worker. */
+export const POST = api("POST /api/runs", async ({ req, user }) => {
+  const input = await readJson(req, createRunSchema);
+  const id = await createRun(input, user!.id);
+  await enqueue(QUEUES.nestingRun, { runId: id }, { retryLimit: 1 });
+  return NextResponse.json({ id }, { status: 201 });
+});

@@ -1,0 +1,119 @@
+/**
+ * A block of a plan, drawn to scale: top (length × width), front (length × height) and side
+ * (width × height) views, then one top view per layer. Parts are labelled, defect zones shaded,
+ * offcuts outlined, and the through cuts numbered in the order they are made.
+ * Pure markup: renders on the server and in the browser alike.
+ */
+type V3 = [number, number, number];
+
+export interface PlanViewProps {
+  block: { id: string; size: V3; defects: { min: V3; max: V3 }[] };
+  placements: { part: string; origin: V3; size: V3 }[];
+  offcuts: { origin: V3; size: V3 }[];
+  cuts: { axis: "x" | "y" | "z"; at: number }[];
+  kerf: number;
+  partName: (key: string) => string;
+  showLayers?: boolean;
+}
+
+const AX = { x: 0, y: 1, z: 2 } as const;
+const PALETTE = ["#d7ecee", "#e0efe3", "#f6ecd2", "#efe0f3", "#e3e7f6", "#fbe6da"];
+
+function View({ title, a, b, props, only, width = 360 }: { title: string; a: 0 | 1 | 2; b: 0 | 1 | 2; props: PlanViewProps; only?: PlanViewProps["placements"]; width?: number }) {
+  const { block } = props;
+  const W = block.size[a];
+  const H = block.size[b];
+  const scale = width / Math.max(W, H * 1.6);
+  const w = W * scale;
+  const h = H * scale;
+  const pad = 22;
+  const X = (v: number) => pad + v * scale;
+  const Y = (v: number) => pad + h - v * scale; // up is up
+  const placements = only ?? props.placements;
+  const nameIndex = new Map<string, number>();
+  for (const p of props.placements) if (!nameIndex.has(p.part)) nameIndex.set(p.part, nameIndex.size);
+  const cutAxes = props.cuts.map((c, i) => ({ ...c, n: i + 1 })).filter((c) => AX[c.axis] === a || AX[c.axis] === b);
+  return (
+    <figure className="space-y-1">
+      <figcaption className="text-xs font-medium uppercase tracking-wide text-ink-faint">{title}</figcaption>
+      <svg viewBox={`0 0 ${w + pad * 2} ${h + pad * 2}`} className="w-full max-w-md" role="img" aria-label={`${title} of ${block.id}`}>
+        <rect x={X(0)} y={Y(H)} width={w} height={h} fill="#f7f5ef" stroke="#1c2a2e" strokeWidth={1.5} />
+        {props.offcuts.map((o, i) => (
+          <rect key={`o${i}`} x={X(o.origin[a])} y={Y(o.origin[b] + o.size[b])} width={o.size[a] * scale} height={o.size[b] * scale} fill="#e0efe3" fillOpacity={0.5} stroke="#3b7a4a" strokeDasharray="5 3" strokeWidth={1.2} />
+        ))}
+        {placements.map((p, i) => {
+          const px = X(p.origin[a]);
+          const py = Y(p.origin[b] + p.size[b]);
+          const pw = p.size[a] * scale;
+          const ph = p.size[b] * scale;
+          const label = props.partName(p.part);
+          return (
+            <g key={`p${i}`}>
+              <rect x={px} y={py} width={pw} height={ph} fill={PALETTE[(nameIndex.get(p.part) ?? 0) % PALETTE.length]} fillOpacity={0.85} stroke="#1f6c75" strokeWidth={0.8} />
+              {pw > 34 && ph > 11 && (
+                <text x={px + pw / 2} y={py + ph / 2} fontSize={Math.min(10, ph * 0.6)} textAnchor="middle" dominantBaseline="middle" fill="#16525a">
+                  {label.length > pw / 6 ? label.slice(0, Math.max(2, Math.floor(pw / 6))) + "…" : label}
+                </text>
+              )}
+            </g>
+          );
+        })}
+        {block.defects.map((d, i) => (
+          <rect key={`d${i}`} x={X(d.min[a])} y={Y(d.max[b])} width={(d.max[a] - d.min[a]) * scale} height={(d.max[b] - d.min[b]) * scale} fill="#a8322a" fillOpacity={0.35} stroke="#a8322a" strokeWidth={1} />
+        ))}
+        {cutAxes.map((c) => {
+          const pos = c.at + props.kerf / 2;
+          const vertical = AX[c.axis] === a;
+          return vertical ? (
+            <g key={`c${c.n}`}>
+              <line x1={X(pos)} x2={X(pos)} y1={Y(0) + 6} y2={Y(H) - 6} stroke="#d2571f" strokeWidth={1.2} />
+              <text x={X(pos)} y={Y(H) - 9} fontSize={9} textAnchor="middle" fill="#d2571f" fontWeight={600}>{c.n}</text>
+            </g>
+          ) : (
+            <g key={`c${c.n}`}>
+              <line x1={X(0) - 6} x2={X(W) + 6} y1={Y(pos)} y2={Y(pos)} stroke="#d2571f" strokeWidth={1.2} />
+              <text x={X(W) + 9} y={Y(pos)} fontSize={9} dominantBaseline="middle" fill="#d2571f" fontWeight={600}>{c.n}</text>
+            </g>
+          );
+        })}
+        <text x={X(W / 2)} y={Y(0) + 15} fontSize={10} textAnchor="middle" fill="#3d4f54">{Math.round(W)} mm</text>
+        <text x={X(0) - 8} y={Y(H / 2)} fontSize={10} textAnchor="middle" fill="#3d4f54" transform={`rotate(-90 ${X(0) - 8} ${Y(H / 2)})`}>{Math.round(H)} mm</text>
+      </svg>
+    </figure>
+  );
+}
+
+export function PlanView(props: PlanViewProps) {
+  const layers = new Map<string, PlanViewProps["placements"]>();
+  for (const p of props.placements) {
+    const key = `${p.origin[2]}|${p.origin[2] + p.size[2]}`;
+    layers.set(key, [...(layers.get(key) ?? []), p]);
+  }
+  const sorted = [...layers.entries()].sort((x, y) => Number(x[0].split("|")[0]) - Number(y[0].split("|")[0]));
+  return (
+    <div className="space-y-4">
+      <div className="grid gap-4 md:grid-cols-3">
+        <View title="Top (length × width)" a={0} b={1} props={props} />
+        <View title="Front (length × height)" a={0} b={2} props={props} />
+        <View title="Side (width × height)" a={1} b={2} props={props} />
+      </div>
+      {props.showLayers !== false && sorted.length > 1 && (
+        <details className="rounded-md border border-bead p-3">
+          <summary className="cursor-pointer text-sm font-medium">Layers ({sorted.length}), from the bottom</summary>
+          <div className="mt-3 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
+            {sorted.map(([key, ps], i) => {
+              const [lo, hi] = key.split("|").map(Number);
+              return <View key={key} title={`Layer ${i + 1}: z ${Math.round(lo!)}–${Math.round(hi!)} mm`} a={0} b={1} props={props} only={ps} width={300} />;
+            })}
+          </div>
+        </details>
+      )}
+      <p className="flex flex-wrap gap-4 text-xs text-ink-soft">
+        <span><span className="mr-1 inline-block size-3 border border-kerf bg-kerf-light align-middle" />parts</span>
+        <span><span className="mr-1 inline-block size-3 border border-dashed border-moss bg-moss-light align-middle" />offcuts kept</span>
+        <span><span className="mr-1 inline-block size-3 bg-ember/40 align-middle" />defect zones</span>
+        <span><span className="mr-1 inline-block h-0.5 w-4 bg-wire align-middle" />through cuts, numbered in order</span>
+      </p>
+    </div>
+  );
+}

@@ -1,0 +1,542 @@
+import "server-only";
+import type { Knex } from "knex";
+import { db } from "@/db";
+import { appendLedger } from "./ledger";
+import { HttpError } from "@/lib/errors";
+import { isoDate } from "@/lib/stock";
+import { parseProblem, type Plan, type Problem } from "@/lib/nesting";
+import { buildProblem, partIdFromKey, type PartForPlan, type StockForPlan } from "@/lib/planning/problem";
+import { lossBreakdown } from "@/lib/planning/losses";
+import type { RecordCutInput, RunSettings } from "@/lib/validations/runs";
+
+export type RunStatus = "queued" | "running" | "done" | "failed" | "cancelled" | "approved" | "closed";
+
+export interface RunFigures {
+  placedVolume: number;
+  blocksUsed: number;
+  yield: number;
+  unplacedCount: number;
+  lowerBoundBlocks: number;
+}
+
+export interface RunSummary {
+  id: number;
+  status: RunStatus;
+  jobIds: number[];
+  jobNames: string[];
+  blockIds: number[];
+  settings: RunSettings;
+  progress: number;
+  best: RunFigures | null;
+  error: string | null;
+  createdAt: string;
+  createdBy: string | null;
+  finishedAt: string | null;
+  approvedAt: string | null;
+  parentRunId: number | null;
+  stats: Plan["stats"] | null;
+  cost: number | null;
+}
+
+export interface RunDetail extends RunSummary {
+  problem: Problem;
+  plan: Plan | null;
+  blocks: { id: number; code: string; planStatus: "reserved" | "cut" | "released" | null }[];
+  parts: { id: number; name: string; jobId: number; trueVolumeMm3: number | null }[];
+}
+
+interface RunRow {
+  id: number;
+  status: RunStatus;
+  job_ids: number[];
+  block_ids: number[];
+  settings: RunSettings;
+  problem: Problem;
+  plan: Plan | null;
+  best: RunFigures | null;
+  progress: number;
+  error: string | null;
+  created_at: Date;
+  finished_at: Date | null;
+  approved_at: Date | null;
+  parent_run_id: number | null;
+  created_by_name?: string | null;
+}
+
+function planCost(problem: Problem, plan: Plan | null): number | null {
+  if (!plan) return null;
+  const used = new Set(Object.keys(plan.cuts).concat(plan.placements.map((p) => p.block)));
+  return problem.blocks.filter((b) => used.has(b.id)).reduce((s, b) => s + b.cost, 0);
+}
+
+export async function jobNames(ids: number[]): Promise<Map<number, string>> {
+  if (!ids.length) return new Map();
+  const rows = await db()("jobs").whereIn("id", ids).select("id", "name");
+  return new Map(rows.map((r: { id: number; name: string }) => [r.id, r.name]));
+}
+
+function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
+  return {
+    id: r.id,
+    status: r.status,
+    jobIds: r.job_ids,
+    jobNames: r.job_ids.map((id) => names.get(id) ?? `#${id}`),
+    blockIds: r.block_ids,
+    settings: r.settings,
+    progress: r.progress,
+    best: r.best,
+    error: r.error,
+    createdAt: r.created_at.toISOString(),
+    createdBy: r.created_by_name ?? null,
+    finishedAt: r.finished_at?.toISOString() ?? null,
+    approvedAt: r.approved_at?.toISOString() ?? null,
+    parentRunId: r.parent_run_id,
+    stats: r.plan?.stats ?? null,
+    cost: planCost(r.problem, r.plan),
+  };
+}
+
+/** Parts of jobs with how many are still owed (ordered minus good parts already cut). */
+async function owedParts(trx: Knex | Knex.Transaction, jobIds: number[]): Promise<(PartForPlan & { trueVolumeMm3: number | null; jobId: number })[]> {
+  const rows = await trx("job_parts as p")
+    .leftJoin("grades as g", "g.id", "p.grade_id")
+    .whereIn("p.job_id", jobIds)
+    .select(
+      "p.id",
+      "p.job_id",
+      "p.name",
+      "p.quantity",
+      "p.size_x",
+      "p.size_y",
+      "p.size_z",
+      "p.rotate",
+      "p.true_volume_mm3",
+      "g.code as grade_code",
+      trx.raw("(SELECT coalesce(sum(c.good_count), 0) FROM cut_parts c WHERE c.job_part_id = p.id) AS done"),
+    )
+    .orderBy("p.id");
+  return rows.map((r: Record<string, unknown>) => ({
+    id: r.id as number,
+    jobId: r.job_id as number,
+    name: r.name as string,
+    quantity: Math.max(0, (r.quantity as number) - Number(r.done)),
+    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as [number, number, number],
+    rotate: r.rotate as PartForPlan["rotate"],
+    gradeCode: (r.grade_code as string | null) ?? null,
+    trueVolumeMm3: r.true_volume_mm3 === null ? null : Number(r.true_volume_mm3),
+  }));
+}
+
+async function stockForPlan(trx: Knex | Knex.Transaction, blockIds: number[]): Promise<(StockForPlan & { status: string; cutNotBefore: string; neverHotWire: boolean })[]> {
+  const rows = await trx("blocks as b")
+    .join("grades as g", "g.id", "b.grade_id")
+    .whereIn("b.id", blockIds)
+    .select("b.*", "g.code as grade_code", "g.never_hot_wire")
+    .orderBy("b.id");
+  const defects = await trx("defect_zones").whereIn("block_id", blockIds).orderBy("id");
+  return rows.map((r: Record<string, unknown>) => ({
+    id: r.id as number,
+    code: r.code as string,
+    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as [number, number, number],
+    gradeCode: r.grade_code as string,
+    cost: Number(r.cost),
+    isOffcut: r.parent_id !== null,
+    status: r.status as string,
+    neverHotWire: Boolean(r.never_hot_wire),
+    cutNotBefore: isoDate(r.cut_not_before as Date),
+    defects: defects
+      .filter((d: { block_id: number }) => d.block_id === r.id)
+      .map((d: Record<string, string | number>) => ({
+        id: d.id as number,
+        min: [Number(d.min_x), Number(d.min_y), Number(d.min_z)] as [number, number, number],
+        max: [Number(d.max_x), Number(d.max_y), Number(d.max_z)] as [number, number, number],
+      })),
+  }));
+}
+
+export interface Candidate {
+  id: number;
+  code: string;
+  gradeCode: string;
+  size: [number, number, number];
+  volumeM3: number;
+  cost: number;
+  isOffcut: boolean;
+  location: string;
+  defectCount: number;
+  since: string;
+}
+
+/**
+ * Stock a run may use for these jobs: ready (cut-not-before passed), in stock, of the grades the
+ * parts need (any hot-wireable grade for parts without one), never a no-hot-wire grade; oldest first.
+ */
+export async function candidateStock(jobIds: number[], today = isoDate()): Promise<Candidate[]> {
+  const grades = await db()("job_parts").whereIn("job_id", jobIds).distinct("grade_id").pluck("grade_id");
+  const anyGrade = grades.includes(null);
+  const q = db()("blocks as b")
+    .join("grades as g", "g.id", "b.grade_id")
+    .where("b.status", "in_stock")
+    .where("b.cut_not_before", "<=", today)
+    .where("g.never_hot_wire", false)
+    .select("b.id", "b.code", "b.size_x", "b.size_y", "b.size_z", "b.volume_m3", "b.cost", "b.parent_id", "b.location", "g.code as grade_code", db().raw("coalesce(b.moulded_on, b.created_at::date) AS since"), db().raw("(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id) AS defect_count"))
+    .orderByRaw("coalesce(b.moulded_on, b.created_at::date), b.id")
+    .limit(500);
+  if (!anyGrade) q.whereIn("b.grade_id", grades.filter((g): g is number => g !== null));
+  const rows = await q;
+  return rows.map((r: Record<string, unknown>) => ({
+    id: r.id as number,
+    code: r.code as string,
+    gradeCode: r.grade_code as string,
+    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as [number, number, number],
+    volumeM3: Number(r.volume_m3),
+    cost: Number(r.cost),
+    isOffcut: r.parent_id !== null,
+    location: r.location as string,
+    defectCount: Number(r.defect_count),
+    since: isoDate(r.since as Date),
+  }));
+}
+
+/** Creates a queued run for the jobs' owed parts (or the given part quantities) in the chosen stock. */
+export async function createRun(
+  input: { jobIds: number[]; blockIds: number[]; settings: RunSettings; quantities?: Map<number, number>; parentRunId?: number },
+  actorId: string,
+): Promise<number> {
+  return db().transaction(async (trx) => {
+    const jobs = await trx("jobs").whereIn("id", input.jobIds).select("id", "status");
+    if (jobs.length !== new Set(input.jobIds).size) throw new HttpError(400, "Some fields need attention.", { jobIds: "One of those jobs does not exist." });
+    let parts = await owedParts(trx, input.jobIds);
+    if (input.quantities) parts = parts.map((p) => ({ ...p, quantity: input.quantities!.get(p.id) ?? 0 }));
+    parts = parts.filter((p) => p.quantity > 0);
+    if (!parts.length) throw new HttpError(409, "Nothing is owed on these jobs: every part has been cut.");
+    const stock = await stockForPlan(trx, input.blockIds);
+    const fields: Record<string, string> = {};
+    if (stock.length !== new Set(input.blockIds).size) fields.blockIds = "Some of that stock does not exist.";
+    const today = isoDate();
+    for (const b of stock) {
+      if (b.neverHotWire) fields.blockIds = `${b.code} is a no-hot-wire grade (polyurethane): it cannot go into a hot-wire plan.`;
+      else if (b.status !== "in_stock") fields.blockIds = `${b.code} is not free (${b.status === "earmarked" ? "earmarked for another plan" : "no longer in stock"}).`;
+      else if (b.cutNotBefore > today) fields.blockIds = `${b.code} is still settling until ${b.cutNotBefore}.`;
+    }
+    if (Object.keys(fields).length) throw new HttpError(409, fields.blockIds ?? "That stock cannot be used.", fields);
+    const problem = buildProblem(parts, stock, input.settings);
+    const parsed = parseProblem(problem);
+    if (!parsed.ok) throw new HttpError(400, `The nesting problem is not valid: ${parsed.errors.slice(0, 3).join("; ")}`);
+    const [run] = await trx("nesting_runs")
+      .insert({
+        status: "queued",
+        job_ids: input.jobIds,
+        block_ids: stock.map((b) => b.id),
+        settings: input.settings,
+        problem: JSON.stringify(parsed.problem),
+        parent_run_id: input.parentRunId ?? null,
+        created_by: actorId,
+      })
+      .returning("id");
+    await trx("audit_log").insert({ actor_id: actorId, action: "run.create", subject: `run:${run.id}`, detail: { jobIds: input.jobIds, blocks: stock.length } });
+    return run.id as number;
+  });
+}
+
+const runSelect = () => db()("nesting_runs as r").leftJoin("users as u", "u.id", "r.created_by").select("r.*", "u.name as created_by_name");
+
+export async function listRuns(opts: { jobId?: number; statuses?: RunStatus[]; limit?: number } = {}): Promise<RunSummary[]> {
+  const q = runSelect().orderBy("r.id", "desc").limit(opts.limit ?? 50);
+  if (opts.jobId) q.whereRaw("? = ANY(r.job_ids)", [opts.jobId]);
+  if (opts.statuses) q.whereIn("r.status", opts.statuses);
+  const rows = (await q) as RunRow[];
+  const names = await jobNames([...new Set(rows.flatMap((r) => r.job_ids))]);
+  return rows.map((r) => toSummary(r, names));
+}
+
+export async function getRun(id: number): Promise<RunDetail | undefined> {
+  const r = (await runSelect().where("r.id", id).first()) as RunRow | undefined;
+  if (!r) return undefined;
+  const names = await jobNames(r.job_ids);
+  const blocks = await db()("blocks as b")
+    .leftJoin("plan_blocks as pb", function () {
+      this.on("pb.block_id", "b.id").andOn("pb.run_id", db().raw("?", [id]));
+    })
+    .whereIn("b.id", r.block_ids)
+    .select("b.id", "b.code", "pb.status as plan_status")
+    .orderBy("b.id");
+  const partIds = r.problem.parts.map((p) => partIdFromKey(p.id));
+  const parts = partIds.length ? await db()("job_parts").whereIn("id", partIds).select("id", "name", "job_id", "true_volume_mm3") : [];
+  return {
+    ...toSummary(r, names),
+    problem: r.problem,
+    plan: r.plan,
+    blocks: blocks.map((b: { id: number; code: string; plan_status: "reserved" | "cut" | "released" | null }) => ({ id: b.id, code: b.code, planStatus: b.plan_status })),
+    parts: parts.map((p: { id: number; name: string; job_id: number; true_volume_mm3: string | null }) => ({ id: p.id, name: p.name, jobId: p.job_id, trueVolumeMm3: p.true_volume_mm3 === null ? null : Number(p.true_volume_mm3) })),
+  };
+}
+
+// ---- worker side ----
+
+/** Claims a queued run for this worker (false if it was cancelled or taken meanwhile). */
+export async function claimRun(id: number): Promise<Problem | null> {
+  const [row] = await db()("nesting_runs")
+    .where({ id })
+    .whereIn("status", ["queued", "running"])
+    .update({ status: "running", started_at: db().fn.now(), heartbeat_at: db().fn.now(), attempts: db().raw("attempts + 1"), progress: 0 })
+    .returning(["problem"]);
+  return row ? (row.problem as Problem) : null;
+}
+
+export async function saveProgress(id: number, progress: number, best: RunFigures): Promise<RunStatus | undefined> {
+  const [row] = await db()("nesting_runs").where({ id }).update({ progress, best, heartbeat_at: db().fn.now() }).returning("status");
+  return row?.status;
+}
+
+export async function finishRun(id: number, plan: Plan): Promise<void> {
+  await db()("nesting_runs")
+    .where({ id })
+    .whereIn("status", ["running", "cancelled"])
+    .update({
+      // A cancelled run keeps its best plan so far, but stays cancelled.
+      status: db().raw("CASE WHEN status = 'cancelled' THEN 'cancelled' ELSE 'done' END"),
+      plan: JSON.stringify(plan),
+      progress: 1,
+      finished_at: db().fn.now(),
+      best: { placedVolume: plan.stats.partVolume, blocksUsed: plan.stats.blocksUsed, yield: plan.stats.yield, unplacedCount: plan.unplaced.reduce((s, u) => s + u.count, 0), lowerBoundBlocks: plan.stats.lowerBoundBlocks },
+    });
+}
+
+export async function failRun(id: number, message: string): Promise<void> {
+  await db()("nesting_runs").where({ id }).whereIn("status", ["queued", "running"]).update({ status: "failed", error: message.slice(0, 500), finished_at: db().fn.now() });
+}
+
+/** Runs whose worker died (no heartbeat for `staleSeconds`): marked failed so nobody waits for ever. */
+export async function failStaleRuns(staleSeconds = 90): Promise<number> {
+  return db()("nesting_runs")
+    .where("status", "running")
+    .where("heartbeat_at", "<", db().raw(`now() - interval '${Math.max(5, Math.floor(staleSeconds))} seconds'`))
+    .update({ status: "failed", error: "The worker stopped while planning. Start the run again.", finished_at: db().fn.now() });
+}
+
+export async function cancelRun(id: number, actorId: string): Promise<void> {
+  const n = await db()("nesting_runs").where({ id }).whereIn("status", ["queued", "running"]).update({ status: "cancelled", finished_at: db().fn.now() });
+  if (!n) throw new HttpError(409, "Only a queued or running plan can be stopped.");
+  await db()("audit_log").insert({ actor_id: actorId, action: "run.cancel", subject: `run:${id}` });
+}
+
+// ---- approval and release ----
+
+function blocksInPlan(plan: Plan): string[] {
+  return [...new Set(plan.placements.map((p) => p.block))];
+}
+
+/**
+ * Approves a finished plan: reserves every block it uses in one transaction. A block can be held
+ * by one approved plan only; a second approval touching it fails with a clear message.
+ */
+export async function approveRun(id: number, actorId: string): Promise<void> {
+  try {
+    await db().transaction(async (trx) => {
+      const run = await trx("nesting_runs").where({ id }).forUpdate().first();
+      if (!run) throw new HttpError(404, "That plan was not found.");
+      if (run.status !== "done") throw new HttpError(409, run.status === "approved" ? "This plan is already approved." : "Only a finished plan can be approved.");
+      const plan = run.plan as Plan;
+      const codes = blocksInPlan(plan);
+      if (!codes.length) throw new HttpError(409, "This plan places nothing: there is nothing to reserve.");
+      const blocks = await trx("blocks").whereIn("code", codes).forUpdate().select("id", "code", "status", "volume_m3", "cost");
+      for (const b of blocks) {
+        if (b.status !== "in_stock") {
+          const other = await trx("plan_blocks").where({ block_id: b.id, status: "reserved" }).first("run_id");
+          throw new HttpError(409, other ? `Block ${b.code} is already earmarked by plan #${other.run_id}. Re-plan without it, or release that plan first.` : `Block ${b.code} is no longer in stock.`);
+        }
+      }
+      await trx("plan_blocks").insert(blocks.map((b: { id: number }) => ({ run_id: id, block_id: b.id, status: "reserved" })));
+      await trx("blocks").whereIn("id", blocks.map((b: { id: number }) => b.id)).update({ status: "earmarked", updated_at: trx.fn.now() });
+      await appendLedger(trx, blocks.map((b: { id: number; volume_m3: string; cost: string }) => ({ blockId: b.id, kind: "reserved" as const, volumeM3: Number(b.volume_m3), value: Number(b.cost), userId: actorId, reason: `Plan #${id}`, ref: `run:${id}` })));
+      await trx("nesting_runs").where({ id }).update({ status: "approved", approved_by: actorId, approved_at: trx.fn.now() });
+      await trx("jobs").whereIn("id", run.job_ids).where("status", "open").update({ status: "planned" });
+      await trx("audit_log").insert({ actor_id: actorId, action: "run.approve", subject: `run:${id}`, detail: { blocks: codes } });
+    });
+  } catch (e) {
+    // Two approvals racing for one block: the unique reservation index refuses the second.
+    if ((e as { code?: string }).code === "23505") throw new HttpError(409, "Another plan earmarked one of these blocks a moment ago. Re-plan without it.");
+    throw e;
+  }
+}
+
+/** Releases an approved plan's blocks that are not cut yet; the plan is then cancelled. */
+export async function releaseRun(id: number, actorId: string): Promise<void> {
+  await db().transaction(async (trx) => {
+    const run = await trx("nesting_runs").where({ id }).forUpdate().first();
+    if (!run) throw new HttpError(404, "That plan was not found.");
+    if (run.status !== "approved") throw new HttpError(409, "Only an approved plan can be released.");
+    const held = await trx("plan_blocks as pb").join("blocks as b", "b.id", "pb.block_id").where({ "pb.run_id": id, "pb.status": "reserved" }).select("b.id", "b.volume_m3", "b.cost");
+    await trx("plan_blocks").where({ run_id: id, status: "reserved" }).update({ status: "released" });
+    if (held.length) {
+      await trx("blocks").whereIn("id", held.map((b: { id: number }) => b.id)).update({ status: "in_stock", updated_at: trx.fn.now() });
+      await appendLedger(trx, held.map((b: { id: number; volume_m3: string; cost: string }) => ({ blockId: b.id, kind: "released" as const, volumeM3: Number(b.volume_m3), value: Number(b.cost), userId: actorId, reason: `Plan #${id} released`, ref: `run:${id}` })));
+    }
+    await trx("nesting_runs").where({ id }).update({ status: "cancelled" });
+    await trx("audit_log").insert({ actor_id: actorId, action: "run.release", subject: `run:${id}` });
+  });
+}
+
+// ---- at the machine ----
+
+export interface CutResult {
+  offcutCodes: string[];
+  losses: ReturnType<typeof lossBreakdown>;
+}
+
+/**
+ * Records a block as cut: it leaves stock, its kept offcuts become new stock (same lot and grade,
+ * with the defect zones that fall inside them), rejects are recorded, and the loss breakdown is
+ * kept. Block volume = good blanks + rejects + offcuts + trim + kerf + defect cut-outs + unusable.
+ */
+export async function recordCut(runId: number, blockId: number, input: RecordCutInput, actorId: string): Promise<CutResult> {
+  return db().transaction(async (trx) => {
+    const run = await trx("nesting_runs").where({ id: runId }).forUpdate().first();
+    if (!run) throw new HttpError(404, "That plan was not found.");
+    if (run.status !== "approved") throw new HttpError(409, "Only an approved plan is cut.");
+    const pb = await trx("plan_blocks").where({ run_id: runId, block_id: blockId }).forUpdate().first();
+    if (!pb) throw new HttpError(404, "That block is not in this plan.");
+    if (pb.status !== "reserved") throw new HttpError(409, pb.status === "cut" ? "That block is already marked cut." : "That block was released from this plan.");
+    const block = await trx("blocks").where({ id: blockId }).forUpdate().first();
+    const plan = run.plan as Plan;
+    const problem = run.problem as Problem;
+    const settings = run.settings as RunSettings;
+    const onBlock = plan.placements.filter((p) => p.block === block.code);
+    const placedCount = new Map<number, number>();
+    for (const p of onBlock) placedCount.set(partIdFromKey(p.part), (placedCount.get(partIdFromKey(p.part)) ?? 0) + 1);
+    const rejectCount = new Map<number, { count: number; reason: string }>();
+    const fields: Record<string, string> = {};
+    input.rejects.forEach((r, i) => {
+      const placed = placedCount.get(r.jobPartId) ?? 0;
+      const already = rejectCount.get(r.jobPartId)?.count ?? 0;
+      if (!placed) fields[`rejects.${i}.jobPartId`] = "That part is not cut from this block.";
+      else if (already + r.count > placed) fields[`rejects.${i}.count`] = `Only ${placed} of that part come from this block.`;
+      else rejectCount.set(r.jobPartId, { count: already + r.count, reason: r.reason });
+    });
+    if (Object.keys(fields).length) throw new HttpError(400, "Some rejects need attention.", fields);
+
+    const size: [number, number, number] = [Number(block.size_x), Number(block.size_y), Number(block.size_z)];
+    const problemBlock = problem.blocks.find((b) => b.id === block.code);
+    const trim = problemBlock?.trim ?? (block.parent_id ? 0 : settings.trim);
+    const defects = await trx("defect_zones").where({ block_id: blockId }).orderBy("id");
+    const grown = defects.map((d: Record<string, string>) => ({
+      min: [Number(d.min_x) - settings.defectMargin, Number(d.min_y) - settings.defectMargin, Number(d.min_z) - settings.defectMargin] as [number, number, number],
+      max: [Number(d.max_x) + settings.defectMargin, Number(d.max_y) + settings.defectMargin, Number(d.max_z) + settings.defectMargin] as [number, number, number],
+    }));
+    const rejectedSizes: [number, number, number][] = [];
+    const remaining = new Map([...rejectCount].map(([k, v]) => [k, v.count]));
+    for (const p of onBlock) {
+      const id = partIdFromKey(p.part);
+      if ((remaining.get(id) ?? 0) > 0) {
+        rejectedSizes.push(p.size);
+        remaining.set(id, remaining.get(id)! - 1);
+      }
+    }
+    const offcuts = plan.offcuts.filter((o) => o.block === block.code);
+    const losses = lossBreakdown({ size, trim, kerf: settings.kerf, cuts: plan.cuts[block.code] ?? [], blanks: onBlock.map((p) => p.size), rejected: rejectedSizes, offcuts, defects: grown });
+
+    // The block leaves stock.
+    const blockValue = Number(block.cost);
+    await trx("blocks").where({ id: blockId }).update({ status: "cut", updated_at: trx.fn.now() });
+    await appendLedger(trx, [{ blockId, kind: "consumed", volumeM3: Number(block.volume_m3), value: blockValue, userId: actorId, reason: `Cut to plan #${runId}`, ref: `run:${runId}` }]);
+
+    // Its offcuts come back as stock, with the defect zones that fall inside them.
+    const existing = Number((await trx("blocks").where({ parent_id: blockId }).count<{ n: string }[]>({ n: "*" }).first())?.n ?? 0);
+    const offcutCodes: string[] = [];
+    const blockVol = losses.block;
+    for (const [i, o] of offcuts.entries()) {
+      const code = `${block.code}.${existing + i + 1}`;
+      const vol = (o.size[0] * o.size[1] * o.size[2]) / 1e9;
+      const value = Math.round(((blockValue * vol) / blockVol) * 100) / 100;
+      const [child] = await trx("blocks")
+        .insert({
+          code,
+          grade_id: block.grade_id,
+          lot: block.lot,
+          delivery_id: block.delivery_id,
+          parent_id: blockId,
+          origin_in_parent: trx.raw("?::numeric[]", [`{${o.origin.join(",")}}`]),
+          nominal_x: o.size[0], nominal_y: o.size[1], nominal_z: o.size[2],
+          size_x: o.size[0], size_y: o.size[1], size_z: o.size[2],
+          weight_kg: null,
+          cost: value,
+          location: block.location,
+          moulded_on: block.moulded_on,
+          cut_not_before: block.cut_not_before,
+          status: "in_stock",
+          notes: `Offcut of ${block.code}, plan #${runId}`,
+        })
+        .returning(["id", "volume_m3"]);
+      offcutCodes.push(code);
+      await appendLedger(trx, [{ blockId: child.id, kind: "offcut_created", volumeM3: Number(child.volume_m3), value, userId: actorId, reason: `Offcut of ${block.code}`, ref: `run:${runId}` }]);
+      for (const d of defects) {
+        const min = [Number(d.min_x), Number(d.min_y), Number(d.min_z)].map((v, k) => Math.max(v, o.origin[k]!) - o.origin[k]!);
+        const max = [Number(d.max_x), Number(d.max_y), Number(d.max_z)].map((v, k) => Math.min(v, o.origin[k]! + o.size[k]!) - o.origin[k]!);
+        if (max.every((v, k) => v > min[k]!)) {
+          await trx("defect_zones").insert({ block_id: child.id, kind: d.kind, min_x: min[0], min_y: min[1], min_z: min[2], max_x: max[0], max_y: max[1], max_z: max[2], found_by: d.found_by, found_at: d.found_at, note: d.note, inherited_from: d.id });
+        }
+      }
+    }
+
+    // What was cut, part by part; yield counts the true volume where a profile exists.
+    const partRows = await trx("job_parts").whereIn("id", [...placedCount.keys()]).select("id", "size_x", "size_y", "size_z", "true_volume_mm3");
+    let partVolume = 0;
+    const bases = new Set<string>();
+    for (const p of partRows as Record<string, string | number | null>[]) {
+      const id = p.id as number;
+      const rejected = rejectCount.get(id)?.count ?? 0;
+      const good = (placedCount.get(id) ?? 0) - rejected;
+      const basis = p.true_volume_mm3 !== null ? "profile" : "box";
+      bases.add(basis);
+      const each = basis === "profile" ? Number(p.true_volume_mm3) / 1e9 : (Number(p.size_x) * Number(p.size_y) * Number(p.size_z)) / 1e9;
+      partVolume += each * good;
+      await trx("cut_parts").insert({ run_id: runId, block_id: blockId, job_part_id: id, good_count: good, rejected_count: rejected, reject_reason: rejectCount.get(id)?.reason ?? null, part_volume_m3: each * good, volume_basis: basis, recorded_by: actorId });
+    }
+    await trx("plan_blocks").where({ id: pb.id }).update({
+      status: "cut",
+      cut_at: trx.fn.now(),
+      cut_by: actorId,
+      block_volume_m3: losses.block,
+      part_volume_m3: partVolume,
+      offcut_volume_m3: losses.offcuts,
+      loss_trim_m3: losses.trim,
+      loss_kerf_m3: losses.kerf,
+      loss_defect_m3: losses.defect,
+      loss_unusable_m3: losses.unusable,
+      loss_reject_m3: losses.rejects,
+      volume_basis: bases.size > 1 ? "mixed" : ([...bases][0] ?? "box"),
+    });
+    if (input.note) await trx("audit_log").insert({ actor_id: actorId, action: "run.cut_note", subject: `block:${blockId}`, detail: { note: input.note } });
+
+    // The plan closes when its last block is cut; a job is done when nothing is owed.
+    const open = await trx("plan_blocks").where({ run_id: runId, status: "reserved" }).count<{ n: string }[]>({ n: "*" }).first();
+    if (Number(open?.n) === 0) await trx("nesting_runs").where({ id: runId }).update({ status: "closed" });
+    for (const jobId of run.job_ids as number[]) {
+      const owed = (await owedParts(trx, [jobId])).reduce((s, p) => s + p.quantity, 0);
+      await trx("jobs").where({ id: jobId }).whereNotIn("status", ["cancelled"]).update({ status: owed === 0 ? "done" : "cutting" });
+    }
+    return { offcutCodes, losses };
+  });
+}
+
+/** Parts this run still owes: what it could not place, plus rejects recorded against it. */
+export async function owedByRun(runId: number): Promise<Map<number, number>> {
+  const run = await db()("nesting_runs").where({ id: runId }).first("plan");
+  const owed = new Map<number, number>();
+  for (const u of (run?.plan as Plan | null)?.unplaced ?? []) owed.set(partIdFromKey(u.part), (owed.get(partIdFromKey(u.part)) ?? 0) + u.count);
+  const rejects = await db()("cut_parts").where({ run_id: runId }).where("rejected_count", ">", 0).select("job_part_id", "rejected_count");
+  for (const r of rejects as { job_part_id: number; rejected_count: number }[]) owed.set(r.job_part_id, (owed.get(r.job_part_id) ?? 0) + r.rejected_count);
+  return owed;
+}
+
+/** One step: a new run for what this run still owes, in today's candidate stock. */
+export async function replanRun(runId: number, actorId: string): Promise<number> {
+  const run = await db()("nesting_runs").where({ id: runId }).first();
+  if (!run) throw new HttpError(404, "That plan was not found.");
+  const owed = await owedByRun(runId);
+  if (![...owed.values()].some((n) => n > 0)) throw new HttpError(409, "This plan owes no parts: nothing was rejected or left unplaced.");
+  const stock = await candidateStock(run.job_ids);
+  if (!stock.length) throw new HttpError(409, "No ready stock of the needed grades is free to plan into.");
+  return createRun({ jobIds: run.job_ids, blockIds: stock.map((s) => s.id), settings: run.settings, quantities: owed, parentRunId: runId }, actorId);
+}

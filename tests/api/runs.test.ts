@@ -1,0 +1,207 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { client, demoEmail, type Client } from "../support/http";
+import { closeTestDb, ledgerGap, makeBlock, tableCounts, testDb } from "../support/db";
+import { SETTINGS, makeApprovedRun, makeDoneRun, makeJobWithParts, makePlannedBlock } from "../support/planning-fixtures";
+import { validatePlan, type Plan, type Problem } from "@/lib/nesting";
+
+afterAll(closeTestDb);
+
+let planner: Client;
+let cutter: Client;
+beforeAll(async () => {
+  planner = client();
+  await planner.signIn(demoEmail("planner"));
+  cutter = client();
+  await cutter.signIn(demoEmail("cutter"));
+});
+
+async function waitFor(runId: number, statuses: string[], ms = 60_000) {
+  const end = Date.now() + ms;
+  const seen: number[] = [];
+  for (;;) {
+    const res = await planner.get(`/api/runs/${runId}`);
+    seen.push(res.body.run.progress);
+    if (statuses.includes(res.body.run.status)) return { run: res.body.run, seen };
+    if (Date.now() > end) throw new Error(`run ${runId} still ${res.body.run.status}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+describe("nesting runs in the background worker", () => {
+  it("plans a job into chosen stock, shows progress, and stores a valid plan", async () => {
+    const a = await makeBlock({ size: [2440, 1220, 610] });
+    const b = await makeBlock({ size: [2440, 1220, 610] });
+    const { jobId } = await makeJobWithParts([
+      { name: "Wing core", quantity: 6, size: [1100, 300, 60], gradeCode: "EPS-II" },
+      { name: "Letter B", quantity: 4, size: [600, 450, 100], gradeCode: "EPS-II" },
+    ]);
+    const res = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [a.id, b.id], settings: { ...SETTINGS, timeLimitMs: 1500 } });
+    expect(res.status).toBe(201);
+    const { run } = await waitFor(res.body.id, ["done", "failed"]);
+    expect(run.status).toBe("done");
+    expect(run.progress).toBe(1);
+    const problem = run.problem as Problem;
+    const plan = run.plan as Plan;
+    expect(validatePlan(problem, plan)).toEqual([]);
+    const placed = plan.placements.length + plan.unplaced.reduce((s, u) => s + u.count, 0);
+    expect(placed).toBe(10);
+    expect(plan.unplaced).toEqual([]);
+    expect(run.best.blocksUsed).toBe(plan.stats.blocksUsed);
+  });
+
+  it("can be stopped while it searches, and keeps the best plan found", async () => {
+    // Stock runs short (ten big parts, two blocks), so the search uses its whole budget unless stopped.
+    const a = await makeBlock({ size: [2000, 1000, 1000] });
+    const b = await makeBlock({ size: [2000, 1000, 1000] });
+    const { jobId } = await makeJobWithParts([{ name: "Column", quantity: 10, size: [1300, 700, 700], gradeCode: "EPS-II" }]);
+    const res = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [a.id, b.id], settings: { ...SETTINGS, timeLimitMs: 30_000 } });
+    await waitFor(res.body.id, ["running"]);
+    expect((await planner.post(`/api/runs/${res.body.id}/cancel`)).status).toBe(200);
+    const { run } = await waitFor(res.body.id, ["cancelled"]);
+    expect(run.status).toBe("cancelled");
+    // The worker notices within a moment and stores what it had.
+    const end = Date.now() + 10_000;
+    let plan = null;
+    while (!plan && Date.now() < end) {
+      plan = (await planner.get(`/api/runs/${res.body.id}`)).body.run.plan;
+      await new Promise((r) => setTimeout(r, 250));
+    }
+    expect(plan).toBeTruthy();
+  });
+
+  it("proposes only ready stock of the needed grades, never no-hot-wire foam", async () => {
+    const { jobId } = await makeJobWithParts([{ name: "Rib", quantity: 1, size: [300, 200, 100], gradeCode: "EPS-I" }]);
+    const res = await planner.get(`/api/runs/candidates?jobs=${jobId}`);
+    expect(res.status).toBe(200);
+    const today = new Date().toISOString().slice(0, 10);
+    const rows = await testDb()("blocks as b").join("grades as g", "g.id", "b.grade_id").whereIn("b.id", res.body.items.map((c: { id: number }) => c.id)).select("g.code", "b.status", "b.cut_not_before");
+    expect(rows.length).toBeGreaterThan(0);
+    for (const r of rows) {
+      expect(r.code).toBe("EPS-I");
+      expect(r.status).toBe("in_stock");
+    }
+    const anyGrade = await makeJobWithParts([{ name: "Anything", quantity: 1, size: [100, 100, 100] }]);
+    const all = await planner.get(`/api/runs/candidates?jobs=${anyGrade.jobId}`);
+    const codes = await testDb()("blocks as b").join("grades as g", "g.id", "b.grade_id").whereIn("b.id", all.body.items.map((c: { id: number }) => c.id)).distinct("g.material").pluck("material");
+    expect(codes).not.toContain("PU");
+    expect(all.body.items.every((c: { since: string }) => c.since <= today)).toBe(true);
+  });
+
+  it("refuses stock that is settling, earmarked or polyurethane, and bad settings, saving nothing", async () => {
+    const { jobId } = await makeJobWithParts([{ name: "Rib", quantity: 1, size: [300, 200, 100] }]);
+    const settling = await makeBlock({ cutNotBefore: "2099-01-01" });
+    const before = await tableCounts();
+    const r1 = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [settling.id], settings: SETTINGS });
+    expect(r1.status).toBe(409);
+    expect(r1.body.error).toMatch(/settling/);
+    const pu = await makeBlock({ gradeCode: "PU-SIGN-15" });
+    const r2 = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [pu.id], settings: SETTINGS });
+    expect(r2.status).toBe(409);
+    expect(r2.body.error).toMatch(/polyurethane/);
+    const r3 = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [settling.id], settings: { ...SETTINGS, kerf: -2, layout: "spiral" } });
+    expect(r3.status).toBe(400);
+    expect(Object.keys(r3.body.fields).sort()).toEqual(["settings.kerf", "settings.layout"]);
+    const after = await tableCounts();
+    expect({ ...after, blocks: 0, stock_ledger: 0 }).toEqual({ ...before, blocks: 0, stock_ledger: 0 });
+    expect(after.nesting_runs).toBe(before.nesting_runs);
+  });
+
+  it("lets only planners start runs", async () => {
+    expect((await cutter.post("/api/runs", { jobIds: [1], blockIds: [1], settings: SETTINGS })).status).toBe(403);
+  });
+});
+
+describe("approval", () => {
+  it("reserves the plan's blocks; two approvals of the same block at once: exactly one wins", async () => {
+    const block = await makeBlock({ size: [2000, 1000, 600] });
+    const { jobId } = await makeJobWithParts([{ name: "Panel", quantity: 2, size: [900, 400, 200], gradeCode: "EPS-II" }]);
+    const one = await makeDoneRun(jobId, [block]);
+    const two = await makeDoneRun(jobId, [block]);
+    const gap = await ledgerGap();
+    const [a, b] = await Promise.all([planner.post(`/api/runs/${one.runId}/approve`), planner.post(`/api/runs/${two.runId}/approve`)]);
+    expect([a.status, b.status].sort()).toEqual([200, 409]);
+    const loser = a.status === 409 ? a : b;
+    expect(loser.body.error).toMatch(/earmarked|Another plan/);
+    const holds = await testDb()("plan_blocks").where({ block_id: block.id, status: "reserved" });
+    expect(holds).toHaveLength(1);
+    expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("earmarked");
+    expect(await testDb()("stock_ledger").where({ block_id: block.id, kind: "reserved" })).toHaveLength(1);
+    expect((await ledgerGap()).m3).toBeCloseTo(gap.m3, 9);
+  });
+
+  it("releases an approved plan's blocks back to stock", async () => {
+    const { runId, block } = await makeApprovedRun();
+    const res = await planner.post(`/api/runs/${runId}/release`);
+    expect(res.status).toBe(200);
+    expect(res.body.run.status).toBe("cancelled");
+    expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("in_stock");
+    expect((await planner.post(`/api/runs/${runId}/release`)).status).toBe(409);
+  });
+});
+
+describe("at the machine", () => {
+  it("records a block cut: consumed, offcuts into stock with inherited defects, rejects, losses that add up", async () => {
+    const { runId, block, partIds, plan } = await makeApprovedRun();
+    // A void near the far end, inside where the plan keeps an offcut.
+    const off = plan.offcuts.find((o) => o.block === block.code)!;
+    expect(off).toBeTruthy();
+    const d = { min: off.origin.map((v, i) => v + Math.min(20, off.size[i]! / 4)), max: off.origin.map((v, i) => v + Math.min(60, off.size[i]! / 2)) };
+    await testDb()("defect_zones").insert({ block_id: block.id, kind: "void", min_x: d.min[0], min_y: d.min[1], min_z: d.min[2], max_x: d.max[0], max_y: d.max[1], max_z: d.max[2] });
+    const gap = await ledgerGap();
+    const res = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [{ jobPartId: partIds[0], count: 1, reason: "void in the cut face" }] });
+    expect(res.status).toBe(200);
+    const l = res.body.losses;
+    expect(l.goodBlanks + l.rejects + l.offcuts + l.trim + l.kerf + l.defect + l.unusable).toBeCloseTo(l.block, 9);
+    expect(l.rejects).toBeCloseTo((900 * 400 * 200) / 1e9, 9);
+    expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("cut");
+    const children = await testDb()("blocks").where({ parent_id: block.id });
+    expect(children.map((c: { code: string }) => c.code).sort()).toEqual(res.body.offcutCodes.sort());
+    const inherited = await testDb()("defect_zones").whereIn("block_id", children.map((c: { id: number }) => c.id));
+    expect(inherited.length).toBeGreaterThan(0);
+    expect(inherited[0].inherited_from).toBeTruthy();
+    const kinds = await testDb()("stock_ledger").where({ block_id: block.id }).orderBy("id").pluck("kind");
+    expect(kinds).toEqual(["received", "reserved", "consumed"]);
+    // Block volume = parts + offcuts + losses, and the ledger still reconciles with the stock.
+    expect((await ledgerGap()).m3).toBeCloseTo(gap.m3, 9);
+    const cut = await testDb()("cut_parts").where({ run_id: runId });
+    expect(cut.reduce((s: number, r: { good_count: number }) => s + r.good_count, 0)).toBe(1);
+    expect(cut.reduce((s: number, r: { rejected_count: number }) => s + r.rejected_count, 0)).toBe(1);
+    expect((await testDb()("nesting_runs").where({ id: runId }).first()).status).toBe("closed");
+    expect((await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [] })).status).toBe(409);
+  });
+
+  it("refuses more rejects than the block gives, changing nothing", async () => {
+    const { runId, block, partIds } = await makeApprovedRun();
+    const before = await tableCounts();
+    const res = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [{ jobPartId: partIds[0], count: 5, reason: "x" }] });
+    expect(res.status).toBe(400);
+    expect(res.body.fields["rejects.0.count"]).toMatch(/Only 2/);
+    expect(await tableCounts()).toEqual(before);
+  });
+
+  it("re-plans the rejected parts in one step", async () => {
+    const { runId, block, partIds } = await makeApprovedRun();
+    await makeBlock({ size: [2000, 1000, 600] });
+    await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [{ jobPartId: partIds[0], count: 2, reason: "wet core" }] });
+    const res = await planner.post(`/api/runs/${runId}/replan`);
+    expect(res.status).toBe(201);
+    const next = await testDb()("nesting_runs").where({ id: res.body.id }).first();
+    expect(next.parent_run_id).toBe(runId);
+    expect(next.problem.parts).toEqual([expect.objectContaining({ id: `jp-${partIds[0]}`, quantity: 2 })]);
+  });
+});
+
+describe("outputs", () => {
+  it("gives the cut list as CSV and straight cuts as G-code", async () => {
+    const { runId, block, plan } = await makePlannedBlock();
+    const csv = await planner.get(`/api/runs/${runId}/cut-list`);
+    expect(csv.status).toBe(200);
+    expect(csv.text.replace(/^\uFEFF/, "").split(/\r\n/)).toHaveLength(plan.placements.length + 1);
+    const g = await cutter.get(`/api/runs/${runId}/gcode?block=${encodeURIComponent(block.code)}`);
+    expect(g.status).toBe(200);
+    expect(g.text).toMatch(/^\(BLOCKYARD STRAIGHT CUTS/);
+    expect(g.text).toMatch(/DRY-RUN/);
+    expect(g.text.trim().split("\n").at(-1)).toBe("M2");
+    expect((await cutter.get(`/api/runs/${runId}/gcode?block=NOPE`)).status).toBe(404);
+  });
+});
