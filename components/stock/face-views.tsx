@@ -100,11 +100,13 @@ function gridStep(longest: number, unit: LengthUnit): number {
  */
 export function FaceViews({ size, defects, unit, onDraw, highlight = null, draft = null }: FaceViewsProps) {
   const uid = useId().replace(/[^a-zA-Z0-9_-]/g, "");
-  // Top and front share one scale so their lengths line up; the end view gets its own, larger one.
+  // One scale for all three faces, so they read as one block; only an end view that would be too
+  // small to see or draw on (a long block) is drawn larger, and says so.
   const sTop = Math.min(520 / size[0], 190 / size[1]);
   const sFront = Math.min(520 / size[0], 190 / size[2]);
   const sLong = Math.min(sTop, sFront);
-  const sSide = Math.min(260 / size[1], 190 / size[2]);
+  const sSideFit = Math.min(260 / size[1], 190 / size[2]);
+  const sSide = Math.min(sSideFit, Math.max(sLong, 150 / Math.max(size[1], size[2])));
   const kinds = [...new Set(defects.map((d) => d.kind))];
   const step = gridStep(Math.max(...size), unit);
 
@@ -118,6 +120,7 @@ export function FaceViews({ size, defects, unit, onDraw, highlight = null, draft
             view={v}
             size={size}
             g={geometry(size, v.axes, v.name === "side" ? sSide : sLong)}
+            enlarged={v.name === "side" && sSide > sLong * 1.05}
             defects={defects}
             unit={unit}
             step={step}
@@ -143,9 +146,10 @@ interface ViewProps {
   onDraw?: (rect: DrawnRect) => void;
   highlight: number | null;
   draft: { min: Vec3; max: Vec3 } | null;
+  enlarged?: boolean;
 }
 
-function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft }: ViewProps) {
+function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enlarged = false }: ViewProps) {
   const svgRef = useRef<SVGSVGElement>(null);
   const [drag, setDrag] = useState<{ u0: number; v0: number; u1: number; v1: number; id: number } | null>(null);
   const [a, b] = view.axes;
@@ -230,7 +234,10 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft }: V
     <figure className={view.name === "top" ? "@4xl:col-start-1 @4xl:row-start-1" : view.name === "front" ? "@4xl:col-start-1 @4xl:row-start-2" : "@4xl:col-start-2 @4xl:row-start-2"}>
       <figcaption className="mb-1 flex items-baseline gap-2 text-sm">
         <span className="font-semibold text-ink">{view.title}</span>
-        <span className="text-xs text-ink-faint">{view.caption}</span>
+        <span className="text-xs text-ink-faint">
+          {view.caption}
+          {enlarged && " · drawn larger than the others"}
+        </span>
       </figcaption>
       <svg
         ref={svgRef}
@@ -296,36 +303,60 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft }: V
         {/* The origin corner, where x, y and z are measured from. */}
         <circle cx={M.left} cy={M.top + g.h} r="3.2" fill={INK} />
 
-        {/* Labels last, with a paper halo, so zones never hide each other's names. */}
-        {defects.map((d) => {
-          const r = boxOf(d.min, d.max);
-          const text = labelOf(d.kind);
-          const tw = text.length * FONT * 0.52;
-          const above = r.y - 5 - FONT * 0.8 > M.top;
-          const tx = Math.min(Math.max(r.x, M.left + 3), M.left + g.w - tw - 3);
-          const ty = above ? r.y - 5 : r.y + r.h + FONT + 2;
-          const faded = highlight !== null && highlight !== d.id;
-          return (
-            <text key={`l${d.id}`} x={tx} y={ty} fontSize={FONT - 1} fontWeight={600} fill={colourOf(d.kind)} opacity={faded ? 0.35 : 1} stroke="#fff" strokeWidth="3" strokeLinejoin="round" paintOrder="stroke">
-              {text}
-            </text>
-          );
-        })}
-        {draft && validBox(draft) && (() => {
-          const r = boxOf(draft.min, draft.max);
-          const above = r.y - 5 - FONT * 0.8 > M.top;
-          return (
-            <text x={Math.min(Math.max(r.x, M.left + 3), M.left + g.w - 70)} y={above ? r.y - 5 : r.y + r.h + FONT + 2} fontSize={FONT - 1} fontWeight={700} fill={WIRE} stroke="#fff" strokeWidth="3" strokeLinejoin="round" paintOrder="stroke">
-              New zone
-            </text>
-          );
-        })()}
+        {/* Labels last, with a paper halo, placed so they do not sit on each other. */}
+        {placeLabels(
+          [
+            ...defects.map((d) => ({ key: `l${d.id}`, box: boxOf(d.min, d.max), text: labelOf(d.kind), colour: colourOf(d.kind), weight: 600, faded: highlight !== null && highlight !== d.id })),
+            ...(draft && validBox(draft) ? [{ key: "draft", box: boxOf(draft.min, draft.max), text: "New zone", colour: WIRE, weight: 700, faded: false }] : []),
+          ],
+          { left: M.left, top: M.top, right: M.left + g.w, bottom: M.top + g.h },
+        ).map((l) => (
+          <text key={l.key} x={l.x} y={l.y} fontSize={FONT - 1} fontWeight={l.weight} fill={l.colour} opacity={l.faded ? 0.35 : 1} stroke="#fff" strokeWidth="3" strokeLinejoin="round" paintOrder="stroke">
+            {l.text}
+          </text>
+        ))}
 
         <Dimension x1={M.left} y1={M.top + g.h} x2={M.left + g.w} y2={M.top + g.h} offset={14} label={`${AXIS[a]} ${formatLength(g.U, unit)}`} uid={uid} />
         <Dimension x1={M.left} y1={M.top + g.h} x2={M.left} y2={M.top} offset={-14} label={`${AXIS[b]} ${formatLength(g.V, unit)}`} uid={uid} vertical />
       </svg>
     </figure>
   );
+}
+
+interface LabelIn {
+  key: string;
+  box: { x: number; y: number; w: number; h: number };
+  text: string;
+  colour: string;
+  weight: number;
+  faded: boolean;
+}
+
+/**
+ * Puts each zone's name just above or below its box (or right-aligned to it), taking the first
+ * spot that stays inside the drawing and clear of the names already placed.
+ */
+function placeLabels(items: LabelIn[], area: { left: number; top: number; right: number; bottom: number }) {
+  const placed: { x: number; y: number; w: number; h: number }[] = [];
+  const lh = FONT;
+  const overlaps = (r: { x: number; y: number; w: number; h: number }) =>
+    placed.some((p) => r.x < p.x + p.w + 2 && p.x < r.x + r.w + 2 && r.y < p.y + p.h && p.y < r.y + r.h);
+  return items.map((it) => {
+    const tw = it.text.length * (FONT - 1) * 0.56;
+    const clampX = (x: number) => Math.min(Math.max(x, area.left + 3), area.right - tw - 3);
+    const b = it.box;
+    const candidates = [
+      { x: clampX(b.x), base: b.y - 5 },
+      { x: clampX(b.x), base: b.y + b.h + lh + 1 },
+      { x: clampX(b.x + b.w - tw), base: b.y - 5 },
+      { x: clampX(b.x + b.w - tw), base: b.y + b.h + lh + 1 },
+      { x: clampX(b.x + 3), base: b.y + lh + 2 },
+    ].map((c) => ({ ...c, rect: { x: c.x, y: c.base - lh + 2, w: tw, h: lh } }));
+    const inside = (c: (typeof candidates)[number]) => c.rect.y >= area.top - 2 && c.rect.y + c.rect.h <= area.bottom - 1;
+    const pick = candidates.find((c) => inside(c) && !overlaps(c.rect)) ?? candidates.find(inside) ?? candidates[0]!;
+    placed.push(pick.rect);
+    return { ...it, x: pick.x, y: pick.base };
+  });
 }
 
 function validBox(d: { min: Vec3; max: Vec3 }) {

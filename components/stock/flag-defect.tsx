@@ -194,6 +194,11 @@ export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: 
           Another block
         </Button>
       </section>
+      {(block.shown === "cut" || block.shown === "written_off") && (
+        <Notice tone="caution" title={`${block.code} is ${block.shown === "cut" ? "already cut up" : "written off"}`}>
+          A zone flagged here is kept for the record only; flag it on the offcut you are holding if there is one.
+        </Notice>
+      )}
       <ZoneForm key={block.id} block={block} zones={zones} unit={unit} onSaved={reload} />
     </div>
   );

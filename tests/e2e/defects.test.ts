@@ -93,6 +93,28 @@ describe("flag a defect", () => {
   });
 });
 
+describe("face views on a block page", () => {
+  it("shows a seeded block's defect zones on all three faces, with the demo photo served from storage", async () => {
+    const row = await testDb()("defect_zones as z")
+      .join("defect_photos as p", "p.defect_id", "z.id")
+      .join("blocks as b", "b.id", "z.block_id")
+      .whereNull("b.parent_id")
+      .orderBy("z.id")
+      .first("b.code", "z.id as defect_id", "p.id as photo_id");
+    expect(row, "the demo seed stores a photo for each defect zone").toBeTruthy();
+    const { context, page } = await signedIn("planner", VIEWPORTS.wide);
+    await page.goto(`${BASE_URL}/stock/${encodeURIComponent(row.code)}`);
+    for (const view of ["top", "front", "side"]) {
+      expect(await page.locator(`svg[data-view="${view}"] [data-defect="${row.defect_id}"]`).count(), view).toBe(1);
+    }
+    const img = page.locator(`img[src="/api/photos/${row.photo_id}?size=thumb"]`);
+    await img.waitFor();
+    await page.waitForFunction((el) => (el as HTMLImageElement).complete && (el as HTMLImageElement).naturalWidth === 320, await img.elementHandle());
+    await screenshot(page, "block-faces-wide");
+    await context.close();
+  });
+});
+
 describe("labels", () => {
   it("prints one QR code per block, offcuts say what they were cut from, and the navigation stays off the paper", async () => {
     const parent = await makeBlock({ size: [4877, 1219, 610] });
