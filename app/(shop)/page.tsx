@@ -5,6 +5,7 @@ import { getShopSettings } from "@/db/queries/settings";
 import { listUsers } from "@/db/queries/users";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { HotWireCaution } from "@/components/shell/safety-note";
+import { CutterFigures, PlannerFigures } from "@/components/home/role-figures";
 import { ROLE_DUTIES, ROLE_LABELS, type Role } from "@/lib/roles";
 import { formatLength } from "@/lib/units";
 
@@ -43,6 +44,8 @@ export default async function HomePage({ searchParams }: { searchParams: Promise
                 </div>
               </dl>
             )}
+            {role === "planner" && <PlannerFigures />}
+            {role === "cutter" && <CutterFigures />}
             {(role === "planner" || role === "cutter") && (
               <dl className="mt-3 grid grid-cols-2 gap-3 text-sm">
                 <Figure label="Kerf" value={formatLength(settings.kerf, u)} />

@@ -1,0 +1,101 @@
+import type { Metadata } from "next";
+import { JobRuns } from "@/components/plans/job-runs";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { requireRole } from "@/lib/auth/guard";
+import { getJob, listJobParts } from "@/db/queries/jobs";
+import { listLibraryParts } from "@/db/queries/library";
+import { listGrades } from "@/db/queries/grades";
+import { displayUnit } from "@/lib/display";
+import { Card, Notice, PageHeader } from "@/components/ui/card";
+import { buttonClass } from "@/components/ui/button";
+import { JobStatusBadge } from "@/components/jobs/labels";
+import { JobStatusControl, PartsImport } from "@/components/jobs/job-forms";
+import { PartsTable } from "@/components/jobs/parts-table";
+import { PartForm } from "@/components/jobs/part-form";
+import { AddFromLibrary } from "@/components/jobs/add-from-library";
+import { formatSize } from "@/lib/units";
+
+type Params = { params: Promise<{ jobId: string }> };
+
+const jobIdOf = (v: string) => (/^\d{1,9}$/.test(v) ? Number(v) : null);
+
+export async function generateMetadata({ params }: Params): Promise<Metadata> {
+  const id = jobIdOf((await params).jobId);
+  const job = id ? await getJob(id) : undefined;
+  return { title: job?.name ?? "Job" };
+}
+
+export default async function JobPage({ params }: Params) {
+  const user = await requireRole("planner", "cutter", "manager");
+  const id = jobIdOf((await params).jobId);
+  const job = id ? await getJob(id) : undefined;
+  if (!job) notFound();
+  const canEdit = user.roles.some((r) => r === "admin" || r === "planner");
+  const open = job.status === "open";
+  const [parts, unit, grades, library] = await Promise.all([
+    listJobParts([job.id]),
+    displayUnit(user),
+    canEdit && open ? listGrades() : Promise.resolve([]),
+    canEdit && open ? listLibraryParts() : Promise.resolve([]),
+  ]);
+
+  return (
+    <>
+      <PageHeader
+        title={job.name}
+        lead={
+          <span className="flex flex-wrap items-center gap-3">
+            <JobStatusBadge status={job.status} />
+            <span>{job.customer ?? "No customer given"}</span>
+            <span>Due {job.dueOn ?? "—"}</span>
+          </span>
+        }
+        actions={
+          <div className="flex flex-wrap items-end gap-2">
+            {canEdit && <JobStatusControl jobId={job.id} status={job.status} />}
+            <Link className={buttonClass("secondary")} href="/jobs">All jobs</Link>
+          </div>
+        }
+      />
+      <div className="space-y-5">
+        {job.notes && <Notice>{job.notes}</Notice>}
+        {!open && canEdit && (
+          <Notice tone="caution">This job is past taking parts: its part list is fixed. Set it back to “Taking parts” to change it.</Notice>
+        )}
+
+        <Card title="Parts">
+          <PartsTable jobId={job.id} parts={JSON.parse(JSON.stringify(parts))} unit={unit} editable={canEdit && open} />
+        </Card>
+
+        {/* Nesting runs of this job: filled in by the cut-planning pages. */}
+        <section id="runs" aria-labelledby="runs-title" className="rounded-card border border-dashed border-bead-strong bg-paper-raised p-5">
+          <header className="mb-2 flex flex-wrap items-center justify-between gap-3">
+            <h2 id="runs-title">Nesting runs</h2>
+            {canEdit && parts.length > 0 && (
+              <Link className={buttonClass("primary")} href={`/plans/new?jobs=${job.id}`}>Plan this job</Link>
+            )}
+          </header>
+          <JobRuns jobId={job.id} />
+        </section>
+
+        {canEdit && open && (
+          <>
+            <div className="grid gap-5 lg:grid-cols-[1fr_22rem]">
+              <Card title="Add a part by hand">
+                <PartForm target={{ kind: "job", jobId: job.id }} grades={grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }))} />
+              </Card>
+              <Card title="Add from the part library">
+                <AddFromLibrary jobId={job.id} parts={library.map((l) => ({ id: l.id, kit: l.kit, name: l.name, defaultQuantity: l.defaultQuantity, sizeText: formatSize(l.size, unit) }))} />
+              </Card>
+            </div>
+            <section aria-labelledby="import-title" className="space-y-3">
+              <h2 id="import-title">Import a part list</h2>
+              <PartsImport jobId={job.id} />
+            </section>
+          </>
+        )}
+      </div>
+    </>
+  );
+}
