@@ -1,0 +1,30 @@
+import type { Metadata } from "next";
+import { requireRole } from "@/lib/auth/guard";
+import { listLibraryParts } from "@/db/queries/library";
+import { listGrades } from "@/db/queries/grades";
+import { displayUnit } from "@/lib/display";
+import { Card, PageHeader } from "@/components/ui/card";
+import { LibraryList } from "@/components/jobs/library-list";
+import { PartForm } from "@/components/jobs/part-form";
+
+export const metadata: Metadata = { title: "Part library" };
+
+export default async function LibraryPage() {
+  const user = await requireRole("planner", "cutter", "manager");
+  const canEdit = user.roles.some((r) => r === "admin" || r === "planner");
+  const [parts, grades, unit] = await Promise.all([listLibraryParts({ includeRetired: canEdit }), listGrades(), displayUnit(user)]);
+  const kits = [...new Set(parts.map((p) => p.kit).filter((k): k is string => !!k))];
+  return (
+    <>
+      <PageHeader title="Part library" lead="Parts the shop cuts again and again, grouped by kit. Add them to a job with a quantity." />
+      <div className={`grid gap-5 ${canEdit ? "xl:grid-cols-[1fr_26rem]" : ""}`}>
+        <LibraryList parts={JSON.parse(JSON.stringify(parts))} unit={unit} canEdit={canEdit} />
+        {canEdit && (
+          <Card title="Add a library part">
+            <PartForm target={{ kind: "library" }} kits={kits} grades={grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }))} />
+          </Card>
+        )}
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,193 @@
+"use client";
+
+import { useRouter } from "next/navigation";
+import { useMemo, useState } from "react";
+import { ApiError, send } from "@/lib/swr/fetcher";
+import { Button } from "@/components/ui/button";
+import { Notice } from "@/components/ui/card";
+import { Field, Input, Select } from "@/components/ui/field";
+import { ROTATE_LABELS, ROTATE_RULES } from "@/lib/job-terms";
+import { partGeometry, parsePoints, type Profile } from "@/lib/profiles";
+import { SectionPreview } from "./section-preview";
+
+type Shape = "box" | "polygon" | "naca";
+
+interface Props {
+  /** Where the part goes: a job's part list, or the library. */
+  target: { kind: "job"; jobId: number } | { kind: "library" };
+  grades: { id: number; code: string }[];
+  kits?: string[];
+}
+
+const num = (v: string) => (v.trim() === "" ? null : Number(v));
+
+/**
+ * Adds a part by hand: a plain box, a polygon extruded along the wire, or a NACA wing panel (a tip
+ * chord different from the root makes it a tapered 4-axis panel). The drawing and the computed box
+ * follow the fields as they are typed; the server computes them again before saving.
+ */
+export function PartForm({ target, grades, kits = [] }: Props) {
+  const router = useRouter();
+  const [shape, setShape] = useState<Shape>("box");
+  const [v, setV] = useState<Record<string, string>>({ quantity: "1", rotate: "any", code: "2412", chordMm: "", tipChordMm: "", spanMm: "", sweepMm: "", points: "", extrudeMm: "" });
+  const [fields, setFields] = useState<Record<string, string>>({});
+  const [msg, setMsg] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
+  const [busy, setBusy] = useState(false);
+  const set = (k: string) => (e: { target: { value: string } }) => setV((s) => ({ ...s, [k]: e.target.value }));
+
+  const profile = useMemo((): { profile: Profile | null; error: string | null } => {
+    try {
+      if (shape === "naca") {
+        return { profile: { kind: "naca", code: v.code ?? "", chordMm: num(v.chordMm ?? "") ?? 0, tipChordMm: num(v.tipChordMm ?? ""), spanMm: num(v.spanMm ?? "") ?? 0, sweepMm: num(v.sweepMm ?? "") }, error: null };
+      }
+      if (shape === "polygon") return { profile: { kind: "polygon", points: parsePoints(v.points ?? ""), extrudeMm: num(v.extrudeMm ?? "") ?? 0 }, error: null };
+    } catch (e) {
+      return { profile: null, error: (e as Error).message };
+    }
+    return { profile: null, error: null };
+  }, [shape, v]);
+
+  const computed = useMemo(() => {
+    if (!profile.profile) return null;
+    try {
+      return { ...partGeometry(profile.profile), error: null };
+    } catch (e) {
+      return { error: (e as Error).message };
+    }
+  }, [profile]);
+
+  async function submit() {
+    setFields({});
+    setMsg(null);
+    setBusy(true);
+    const base = {
+      name: v.name ?? "",
+      gradeId: v.gradeId ? Number(v.gradeId) : null,
+      rotate: v.rotate,
+      ...(shape === "box" ? { size: [num(v.length ?? ""), num(v.width ?? ""), num(v.height ?? "")] } : { profile: profile.profile }),
+    };
+    try {
+      if (target.kind === "job") {
+        await send(`/api/jobs/${target.jobId}/parts`, "POST", { ...base, quantity: num(v.quantity ?? "") });
+      } else {
+        await send("/api/library", "POST", { ...base, kit: v.kit ?? null, defaultQuantity: num(v.quantity ?? "") ?? 1 });
+      }
+      setMsg({ tone: "success", text: `${base.name} added.` });
+      setV((s) => ({ ...s, name: "" }));
+      router.refresh();
+    } catch (err) {
+      if (err instanceof ApiError) {
+        setFields(err.fields ?? {});
+        setMsg({ tone: "danger", text: err.message });
+      }
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  const err = (...keys: string[]) => {
+    for (const k of keys) {
+      const hit = Object.entries(fields).find(([f]) => f === k || f.startsWith(`${k}.`));
+      if (hit) return hit[1];
+    }
+    return undefined;
+  };
+  const qtyField = target.kind === "job" ? "quantity" : "defaultQuantity";
+
+  return (
+    <form className="space-y-4" onSubmit={(e) => { e.preventDefault(); void submit(); }}>
+      {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
+      <div className="grid gap-3 sm:grid-cols-2">
+        {target.kind === "library" && (
+          <Field label="Kit" name="kit" error={err("kit")} hint="Parts of one kit are listed together.">
+            <Input name="kit" list="kits" value={v.kit ?? ""} onChange={set("kit")} error={err("kit")} />
+            <datalist id="kits">{kits.map((k) => <option key={k} value={k} />)}</datalist>
+          </Field>
+        )}
+        <Field label="Part name" name="name" error={err("name")}><Input name="name" value={v.name ?? ""} onChange={set("name")} error={err("name")} /></Field>
+        <Field label={target.kind === "job" ? "Quantity" : "Usual quantity"} name={qtyField} error={err(qtyField)}>
+          <Input name={qtyField} inputMode="numeric" value={v.quantity ?? ""} onChange={set("quantity")} error={err(qtyField)} />
+        </Field>
+        <Field label="Grade" name="gradeId" error={err("gradeId")} hint="Empty: any grade will do.">
+          <Select name="gradeId" value={v.gradeId ?? ""} onChange={set("gradeId")} error={err("gradeId")}>
+            <option value="">Any grade</option>
+            {grades.map((g) => <option key={g.id} value={g.id}>{g.code}</option>)}
+          </Select>
+        </Field>
+        <Field label="Turning in the block" name="rotate" error={err("rotate")}>
+          <Select name="rotate" value={v.rotate} onChange={set("rotate")}>
+            {ROTATE_RULES.map((r) => <option key={r} value={r}>{ROTATE_LABELS[r]}</option>)}
+          </Select>
+        </Field>
+      </div>
+
+      <fieldset>
+        <legend className="text-sm font-medium text-ink-soft">Shape</legend>
+        <div className="mt-1 flex flex-wrap gap-2" role="radiogroup">
+          {([["box", "Box"], ["polygon", "Polygon profile"], ["naca", "NACA wing panel"]] as const).map(([k, label]) => (
+            <label key={k} className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 text-sm ${shape === k ? "border-kerf bg-kerf-light" : "border-bead-strong bg-paper-raised"}`}>
+              <input type="radio" name="shape" value={k} checked={shape === k} onChange={() => setShape(k)} className="accent-kerf" /> {label}
+            </label>
+          ))}
+        </div>
+      </fieldset>
+
+      {shape === "box" && (
+        <div className="grid grid-cols-3 gap-3">
+          <Field label="Length mm" name="length" error={err("size.0", "size")}><Input name="length" inputMode="decimal" value={v.length ?? ""} onChange={set("length")} error={err("size.0", "size")} /></Field>
+          <Field label="Width mm" name="width" error={err("size.1")}><Input name="width" inputMode="decimal" value={v.width ?? ""} onChange={set("width")} error={err("size.1")} /></Field>
+          <Field label="Height mm" name="height" error={err("size.2")}><Input name="height" inputMode="decimal" value={v.height ?? ""} onChange={set("height")} error={err("size.2")} /></Field>
+        </div>
+      )}
+
+      {shape !== "box" && (
+        <div className="grid gap-4 md:grid-cols-[1fr_auto]">
+          <div className="grid content-start gap-3 sm:grid-cols-2">
+            {shape === "naca" ? (
+              <>
+                <Field label="NACA code" name="code" error={err("profile.code")} hint="Four digits, e.g. 2412 or 0012.">
+                  <Input name="code" value={v.code ?? ""} onChange={set("code")} error={err("profile.code")} />
+                </Field>
+                <Field label="Span mm (along the wire)" name="spanMm" error={err("profile.spanMm")}><Input name="spanMm" inputMode="decimal" value={v.spanMm ?? ""} onChange={set("spanMm")} error={err("profile.spanMm")} /></Field>
+                <Field label="Root chord mm" name="chordMm" error={err("profile.chordMm")}><Input name="chordMm" inputMode="decimal" value={v.chordMm ?? ""} onChange={set("chordMm")} error={err("profile.chordMm")} /></Field>
+                <Field label="Tip chord mm" name="tipChordMm" error={err("profile.tipChordMm")} hint="Empty: same as the root (a 2-axis cut).">
+                  <Input name="tipChordMm" inputMode="decimal" value={v.tipChordMm ?? ""} onChange={set("tipChordMm")} error={err("profile.tipChordMm")} />
+                </Field>
+                <Field label="Sweep mm" name="sweepMm" error={err("profile.sweepMm")} hint="How far the tip's leading edge sits behind the root's. Empty: straight.">
+                  <Input name="sweepMm" inputMode="decimal" value={v.sweepMm ?? ""} onChange={set("sweepMm")} error={err("profile.sweepMm")} />
+                </Field>
+              </>
+            ) : (
+              <>
+                <div className="sm:col-span-2">
+                  <Field label="Outline points (mm)" name="points" error={err("profile.points", "profile")} hint="“x y; x y; …” in the cutting plane, in order round the outline.">
+                    <textarea id="points" name="points" rows={3} value={v.points ?? ""} onChange={set("points")} className="block w-full rounded-md border border-bead-strong bg-paper-raised px-3 py-2 font-mono text-sm" placeholder="0 0; 180 0; 180 90; 90 140; 0 90" />
+                  </Field>
+                </div>
+                <Field label="Extrusion mm (along the wire)" name="extrudeMm" error={err("profile.extrudeMm")}><Input name="extrudeMm" inputMode="decimal" value={v.extrudeMm ?? ""} onChange={set("extrudeMm")} error={err("profile.extrudeMm")} /></Field>
+              </>
+            )}
+          </div>
+          <div className="space-y-2">
+            <SectionPreview profile={profile.profile} label={shape === "naca" ? `NACA ${v.code} section` : "Polygon outline"} />
+            <div className="text-xs text-ink-soft" data-testid="computed-box">
+              {profile.error ? (
+                <span className="text-ember">{profile.error}</span>
+              ) : computed && "size" in computed && computed.size ? (
+                <>
+                  Box {computed.size.map((x) => Math.round(x * 10) / 10).join(" × ")} mm
+                  <br />
+                  Foam {(computed.trueVolumeMm3 / 1e6).toFixed(3)} dm³ each
+                </>
+              ) : computed?.error ? (
+                <span className="text-ember">{computed.error}</span>
+              ) : null}
+            </div>
+            {shape === "naca" && fields.profile && <p className="text-sm text-ember" role="alert">{fields.profile}</p>}
+          </div>
+        </div>
+      )}
+      <Button type="submit" disabled={busy}>{target.kind === "job" ? "Add the part" : "Add to the library"}</Button>
+    </form>
+  );
+}

@@ -1,0 +1,144 @@
+"use client";
+
+import { useState, type ReactNode } from "react";
+import { Button } from "./button";
+import { Card, Notice } from "./card";
+
+export interface CsvProblem { row: number; column?: string; message: string }
+export interface CsvReport { committed: boolean; rows: number; problems: CsvProblem[]; problemCount: number; warnings: CsvProblem[]; summary: Record<string, number>; error?: string }
+
+/** Sends the file with XHR so the bar can show upload progress, then the server's check. */
+function upload(url: string, file: File, commit: boolean, onProgress: (f: number) => void): Promise<{ status: number; body: CsvReport }> {
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open("POST", `${url}${url.includes("?") ? "&" : "?"}commit=${commit ? 1 : 0}&name=${encodeURIComponent(file.name)}`);
+    xhr.setRequestHeader("content-type", "text/csv");
+    xhr.upload.onprogress = (e) => e.lengthComputable && onProgress(e.loaded / e.total);
+    xhr.onload = () => {
+      try {
+        resolve({ status: xhr.status, body: JSON.parse(xhr.responseText) as CsvReport });
+      } catch {
+        reject(new Error("The server's answer could not be read."));
+      }
+    };
+    xhr.onerror = () => reject(new Error("The upload did not reach the server."));
+    xhr.send(file);
+  });
+}
+
+interface Props {
+  /** The import endpoint; `commit` and `name` are added to its query string. */
+  url: string;
+  /** Extra controls beside the file input (e.g. what the file holds). */
+  controls?: ReactNode;
+  /** The line under the file input. */
+  hint?: ReactNode;
+  /** What to say once every row is in. */
+  imported: (report: CsvReport) => ReactNode;
+  /** Runs after a successful import (e.g. refresh the page's data). */
+  onImported?: (report: CsvReport) => void;
+  /** Names for the summary figures of a clean check. */
+  summaryLabels?: Record<string, string>;
+  /** Resets the report when the caller's choices change. */
+  resetKey?: string;
+}
+
+/**
+ * Choose a CSV file, check it (nothing changes), then import every row or none — with a progress
+ * bar for the upload and the server's work, and the problems listed by row and column.
+ */
+export function CsvUpload({ url, controls, hint, imported, onImported, summaryLabels = {}, resetKey }: Props) {
+  const [file, setFile] = useState<File | null>(null);
+  const [phase, setPhase] = useState<"idle" | "uploading" | "checking" | "saving">("idle");
+  const [progress, setProgress] = useState(0);
+  const [report, setReport] = useState<(CsvReport & { key?: string }) | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const shown = report && report.key === resetKey ? report : null;
+
+  async function go(commit: boolean) {
+    if (!file) return;
+    setError(null);
+    setPhase("uploading");
+    setProgress(0);
+    try {
+      const res = await upload(url, file, commit, (f) => {
+        setProgress(f);
+        if (f >= 1) setPhase(commit ? "saving" : "checking");
+      });
+      if (res.body.error && !res.body.problems) setError(res.body.error);
+      else {
+        setReport({ ...res.body, key: resetKey });
+        if (res.body.committed) onImported?.(res.body);
+      }
+    } catch (e) {
+      setError(e instanceof Error ? e.message : "The import failed; nothing was saved.");
+    } finally {
+      setPhase("idle");
+    }
+  }
+
+  const busy = phase !== "idle";
+  const fmt = (v: number) => (Number.isInteger(v) ? v.toLocaleString("en") : v.toFixed(2));
+  return (
+    <div className="space-y-5">
+      <Card title="1 · Choose the file">
+        <div className="flex flex-wrap items-end gap-4">
+          {controls}
+          <label className="text-sm">
+            <span className="block font-medium text-ink-soft">CSV file (UTF-8)</span>
+            <input type="file" accept=".csv,text/csv" onChange={(e) => { setFile(e.target.files?.[0] ?? null); setReport(null); }} className="mt-1 block min-h-11 text-sm" />
+          </label>
+          <Button onClick={() => go(false)} disabled={!file || busy}>Check the file</Button>
+        </div>
+        {hint && <p className="mt-3 text-xs text-ink-faint">{hint}</p>}
+      </Card>
+
+      {busy && (
+        <div className="space-y-1" aria-live="polite">
+          <div className="h-3 overflow-hidden rounded-full bg-paper-sunk" role="progressbar" aria-label="Import progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(progress * 100)}>
+            <div className={`h-full bg-kerf transition-all ${phase !== "uploading" ? "animate-pulse" : ""}`} style={{ width: `${Math.max(4, progress * 100)}%` }} />
+          </div>
+          <p className="text-sm text-ink-soft">
+            {phase === "uploading" ? `Sending… ${Math.round(progress * 100)} %` : phase === "checking" ? "Checking every row…" : "Saving every row in one go…"}
+          </p>
+        </div>
+      )}
+      {error && <Notice tone="danger">{error}</Notice>}
+
+      {shown && (
+        <Card title={shown.committed ? "3 · Imported" : "2 · What Blockyard found"}>
+          {shown.committed ? (
+            <Notice tone="success">{imported(shown)}</Notice>
+          ) : shown.problemCount ? (
+            <Notice tone="danger" title={`${shown.problemCount} problem${shown.problemCount === 1 ? "" : "s"} in ${shown.rows} rows — nothing will be imported until they are fixed`}>
+              Fix them in your spreadsheet and check the file again.
+            </Notice>
+          ) : (
+            <Notice tone="success" title={`All ${shown.rows} rows are fine`}>
+              {Object.entries(shown.summary).map(([k, v]) => `${summaryLabels[k] ?? k}: ${fmt(v)}`).join(" · ")}
+            </Notice>
+          )}
+          {shown.problems.length > 0 && (
+            <table className="mt-4" data-testid="import-problems">
+              <thead><tr><th className="py-1">Row</th><th>Column</th><th>Problem</th></tr></thead>
+              <tbody>
+                {shown.problems.map((p, i) => (
+                  <tr key={i} className="border-t border-bead/60"><td className="py-1 pr-3 tabular-nums">{p.row}</td><td className="pr-3">{p.column ?? "–"}</td><td>{p.message}</td></tr>
+                ))}
+              </tbody>
+            </table>
+          )}
+          {shown.problemCount > shown.problems.length && <p className="mt-2 text-sm text-ink-faint">…and {shown.problemCount - shown.problems.length} more.</p>}
+          {shown.warnings.length > 0 && (
+            <div className="mt-4 space-y-1">
+              {shown.warnings.map((w, i) => <p key={i} className="text-sm text-wire">Row {w.row}: {w.message}</p>)}
+            </div>
+          )}
+          {!shown.committed && !shown.problemCount && (
+            <div className="mt-4"><Button onClick={() => go(true)} disabled={busy}>Import {shown.rows} rows</Button></div>
+          )}
+        </Card>
+      )}
+    </div>
+  );
+}
