@@ -102,7 +102,11 @@ export function parsePoints(text: string): Point[] {
   return pts;
 }
 
-/** Writes points back as "x y; x y; …". */
+/**
+ * Writes points back as "x y; x y; …" (to a thousandth of a millimetre).
+ *
+ *   formatPoints([[0, 0], [100, 0], [100, 50.25]])  // "0 0; 100 0; 100 50.25"
+ */
 export function formatPoints(points: readonly Point[]): string {
   return points.map(([x, y]) => `${round(x)} ${round(y)}`).join("; ");
 }
