@@ -21,8 +21,13 @@ export const NAV: NavItem[] = [
   { href: "/ledger", label: "Stock ledger", roles: ["buyer", "planner", "manager"] },
   { href: "/grades", label: "Grades", roles: ["buyer"] },
   { href: "/suppliers", label: "Suppliers", roles: ["buyer"] },
+  { href: "/purchasing", label: "Reorder list", roles: ["buyer", "manager"] },
+  { href: "/purchasing/orders", label: "Purchase orders", roles: ["buyer", "manager"] },
+  { href: "/reports", label: "Reports", roles: ["manager", "planner"] },
   { href: "/admin/users", label: "People", roles: ["admin"] },
   { href: "/admin/settings", label: "Shop settings", roles: ["admin"] },
+  { href: "/admin/outbox", label: "Outbox", roles: ["admin"] },
+  { href: "/safety", label: "Safety" },
 ];
 
 export function navFor(roles: readonly Role[]): NavItem[] {

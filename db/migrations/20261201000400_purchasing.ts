@@ -13,7 +13,6 @@ export async function up(knex: Knex): Promise<void> {
     t.integer("history_days").notNullable().defaultTo(90);
     t.decimal("order_cost", 12, 2).notNullable().defaultTo(75); // S: cost of placing one order
     t.decimal("holding_cost_m3_year", 12, 2).notNullable().defaultTo(18); // H: per m³ held for a year
-    t.text("alert_cron").notNullable().defaultTo("0 6 * * 1-5");
     t.timestamp("updated_at", { useTz: true }).notNullable().defaultTo(knex.fn.now());
     t.text("updated_by").nullable().references("users.id");
   });

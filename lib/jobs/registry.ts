@@ -13,5 +13,6 @@ export interface JobDefinition<T = unknown> {
 export async function jobDefinitions(): Promise<JobDefinition<never>[]> {
   const defs: JobDefinition<never>[] = [];
   defs.push((await import("./handlers/nesting-run")).nestingRunJob as JobDefinition<never>);
+  defs.push((await import("./handlers/low-stock-alert")).lowStockAlertJob as JobDefinition<never>);
   return defs;
 }

@@ -4,6 +4,7 @@ import { makeBlock, testDb } from "../support/db";
 import { SETTINGS, makeApprovedRun, makeJobWithParts, makePlannedBlock } from "../support/planning-fixtures";
 import { jpegBytes, makeDefect, makePhoto } from "../support/defect-fixtures";
 import { makeJob, makeJobPart, makeLibraryPart } from "../support/job-fixtures";
+import { makeOrder } from "../support/purchasing-fixtures";
 
 export interface ExampleCtx {
   /** A throwaway user, for routes that act on a user. */
@@ -167,6 +168,28 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
   }),
   "POST /api/library": async () => ({ body: { kit: "Test kit", name: `Former ${unique()}`, size: [200, 150, 10] }, expect: 201 }),
   "PATCH /api/library/[partId]": async () => ({ params: { partId: String(await makeLibraryPart()) }, body: { defaultQuantity: 3 } }),
+  "PUT /api/reorder/settings": async () => ({ body: { serviceLevel: 0.95, historyDays: 90, orderCost: 75, holdingCost: 18 } }),
+  "PUT /api/reorder/[gradeId]": async () => ({ params: { gradeId: String(await firstId("grades")) }, body: { leadTimeDays: null, note: "role check" } }),
+  "POST /api/reorder/draft": async () => ({ body: { gradeIds: [(await testDb()("grades").where({ code: "EPS-II" }).first("id")).id] }, expect: 201 }),
+  "POST /api/reorder/alert": async () => ({}),
+  "POST /api/purchase-orders": async () => ({
+    body: { supplierId: await firstId("suppliers"), expectedOn: "2026-12-20", lines: [{ gradeId: await firstId("grades"), size: [2000, 1000, 500], quantity: 4, price: 0.4 }] },
+    expect: 201,
+  }),
+  "GET /api/purchase-orders/[poId]": async () => ({ params: { poId: String((await makeOrder()).id) } }),
+  "PUT /api/purchase-orders/[poId]": async () => ({
+    params: { poId: String((await makeOrder()).id) },
+    body: { supplierId: await firstId("suppliers"), lines: [{ gradeId: await firstId("grades"), size: [2000, 1000, 500], quantity: 5, price: 0.4 }] },
+  }),
+  "POST /api/purchase-orders/[poId]/send": async () => ({ params: { poId: String((await makeOrder()).id) }, body: { email: false } }),
+  "POST /api/purchase-orders/[poId]/cancel": async () => ({ params: { poId: String((await makeOrder({ status: "sent" })).id) }, body: { reason: "Role check" } }),
+  "POST /api/purchase-orders/[poId]/close": async () => ({ params: { poId: String((await makeOrder({ status: "part_received", receivedM3: 1 })).id) }, body: { reason: "Role check" } }),
+  "POST /api/purchase-orders/[poId]/receive": async () => {
+    const po = await makeOrder({ status: "sent", quantity: 1 });
+    return { params: { poId: String(po.id) }, body: { receivedOn: "2026-11-30", lot: `LOT-${unique()}`, blocks: [{ lineId: po.lineId, size: [2000, 1000, 500], location: "Test bay" }] }, expect: 201 };
+  },
+  "GET /api/purchase-orders/[poId]/export": async () => ({ params: { poId: String((await makeOrder()).id) } }),
+  "GET /api/reports/[report]": async () => ({ params: { report: "stock-value" }, query: "from=2026-09-01&to=2026-12-01" }),
 };
 
 function gradeBody(code: string) {

@@ -1,0 +1,238 @@
+import "server-only";
+import type { Knex } from "knex";
+import { db } from "@/db";
+import { HttpError } from "@/lib/errors";
+import { dailyStats, planReorder, type ReorderResult, type Source } from "@/lib/purchasing/reorder";
+import { addDays, isoDate } from "@/lib/stock";
+import type { GradeReorderInput, ReorderSettings } from "@/lib/validations/purchasing";
+
+export const DEFAULT_REORDER_SETTINGS: ReorderSettings = { serviceLevel: 0.95, historyDays: 90, orderCost: 75, holdingCost: 18 };
+
+export async function getReorderSettings(k: Knex | Knex.Transaction = db()): Promise<ReorderSettings> {
+  const r = await k("reorder_settings").where({ id: 1 }).first();
+  if (!r) return DEFAULT_REORDER_SETTINGS;
+  return { serviceLevel: Number(r.service_level), historyDays: r.history_days, orderCost: Number(r.order_cost), holdingCost: Number(r.holding_cost_m3_year) };
+}
+
+export async function saveReorderSettings(s: ReorderSettings, actorId: string): Promise<ReorderSettings> {
+  await db().transaction(async (trx) => {
+    await trx("reorder_settings")
+      .insert({ id: 1, service_level: s.serviceLevel, history_days: s.historyDays, order_cost: s.orderCost, holding_cost_m3_year: s.holdingCost, updated_by: actorId, updated_at: trx.fn.now() })
+      .onConflict("id")
+      .merge();
+    await trx("audit_log").insert({ actor_id: actorId, action: "reorder.settings", subject: "shop", detail: s });
+  });
+  return s;
+}
+
+export async function saveGradeReorder(gradeId: number, o: GradeReorderInput, actorId: string): Promise<void> {
+  await db().transaction(async (trx) => {
+    if (!(await trx("grades").where({ id: gradeId }).first("id"))) throw new HttpError(404, "That grade was not found.");
+    if (o.supplierId && !(await trx("suppliers").where({ id: o.supplierId }).first("id"))) {
+      throw new HttpError(400, "Some fields need attention.", { supplierId: "That supplier does not exist." });
+    }
+    const row = {
+      grade_id: gradeId,
+      supplier_id: o.supplierId ?? null,
+      lead_time_days: o.leadTimeDays ?? null,
+      service_level: o.serviceLevel ?? null,
+      daily_demand_m3: o.dailyDemandM3 ?? null,
+      demand_sd_m3: o.demandSdM3 ?? null,
+      order_cost: o.orderCost ?? null,
+      holding_cost_m3_year: o.holdingCost ?? null,
+      reorder_point_m3: o.reorderPointM3 ?? null,
+      order_qty_m3: o.orderQtyM3 ?? null,
+      note: o.note ?? null,
+      updated_by: actorId,
+      updated_at: trx.fn.now(),
+    };
+    await trx("grade_reorder").insert(row).onConflict("grade_id").merge();
+    await trx("audit_log").insert({ actor_id: actorId, action: "reorder.grade", subject: `grade:${gradeId}`, detail: o });
+  });
+}
+
+export interface ReorderInput<T> {
+  value: T;
+  source: Source;
+}
+
+export interface ReorderRow {
+  gradeId: number;
+  gradeCode: string;
+  gradeLabel: string;
+  colour: string;
+  priceUnit: "m3" | "bf";
+  neverHotWire: boolean;
+  supplier: { id: number; name: string; email: string | null } | null;
+  supplierSource: Source;
+  dailyDemand: ReorderInput<number>;
+  demandSd: ReorderInput<number>;
+  historyDays: number;
+  leadTimeDays: ReorderInput<number>;
+  serviceLevel: ReorderInput<number>;
+  committed: ReorderInput<number>;
+  orderCost: ReorderInput<number>;
+  holdingCost: ReorderInput<number>;
+  onHand: number;
+  onOrder: number;
+  inDraft: number;
+  blockSize: [number, number, number] | null;
+  blockVolume: number;
+  /** What the shop last paid, in the grade's price unit (from the newest delivered block). */
+  lastPrice: number | null;
+  reorderPointOverride: number | null;
+  orderQtyOverride: number | null;
+  note: string | null;
+  result: ReorderResult;
+}
+
+const n = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+
+/**
+ * Every active grade's reorder figures, each input with where it came from:
+ *   demand    – stock used per day over the last `historyDays` (ledger: consumed less offcuts kept),
+ *   committed – part volume of open jobs not yet cut (job_parts, true volume or bounding box),
+ *   supplier  – the grade's usual supplier (newest delivery of the grade) and its lead time,
+ *   on hand   – blocks in stock or earmarked; on order – sent orders not yet received.
+ * `today` is handed in so tests and the seed agree on the window.
+ */
+export async function listReorder(opts: { today?: string; gradeIds?: number[] } = {}): Promise<ReorderRow[]> {
+  const k = db();
+  const today = opts.today ?? isoDate();
+  const settings = await getReorderSettings();
+  const since = addDays(today, -settings.historyDays + 1);
+
+  const gradesQ = k("grades").where({ active: true }).orderBy(["material", "code"]);
+  if (opts.gradeIds) gradesQ.whereIn("id", opts.gradeIds);
+  const grades = (await gradesQ) as { id: number; code: string; grade_system: string; grade: string; colour: string; price_unit: "m3" | "bf"; never_hot_wire: boolean }[];
+  if (!grades.length) return [];
+  const ids = grades.map((g) => g.id);
+
+  const [overrides, onHand, onOrder, inDraft, usage, committed, usual, lastBlocks, suppliers] = await Promise.all([
+    k("grade_reorder").whereIn("grade_id", ids),
+    k("blocks").whereIn("grade_id", ids).whereIn("status", ["in_stock", "earmarked"]).groupBy("grade_id").select("grade_id", k.raw("sum(volume_m3) AS m3")),
+    k("purchase_order_lines as l")
+      .join("purchase_orders as p", "p.id", "l.purchase_order_id")
+      .leftJoin(k("purchase_order_receipts").groupBy("line_id").select("line_id", k.raw("sum(volume_m3) AS got")).as("r"), "r.line_id", "l.id")
+      .whereIn("p.status", ["sent", "part_received"])
+      .whereIn("l.grade_id", ids)
+      .groupBy("l.grade_id")
+      .select("l.grade_id", k.raw("sum(greatest(l.volume_m3 - coalesce(r.got, 0), 0)) AS m3")),
+    k("purchase_order_lines as l").join("purchase_orders as p", "p.id", "l.purchase_order_id").where("p.status", "draft").whereIn("l.grade_id", ids).groupBy("l.grade_id").select("l.grade_id", k.raw("sum(l.volume_m3) AS m3")),
+    k("stock_ledger as s")
+      .join("blocks as b", "b.id", "s.block_id")
+      .whereIn("b.grade_id", ids)
+      .whereIn("s.kind", ["consumed", "offcut_created"])
+      .where("s.at", ">=", since)
+      .where("s.at", "<", k.raw("?::date + 1", [today]))
+      .groupBy("b.grade_id", k.raw("s.at::date"))
+      .select("b.grade_id", k.raw("s.at::date::text AS day"), k.raw("sum(CASE WHEN s.kind = 'consumed' THEN s.volume_m3 ELSE -s.volume_m3 END) AS m3")),
+    openJobDemand(k, ids),
+    k
+      .select(k.raw("DISTINCT ON (b.grade_id) b.grade_id, d.supplier_id"))
+      .from("blocks as b")
+      .join("deliveries as d", "d.id", "b.delivery_id")
+      .whereIn("b.grade_id", ids)
+      .orderBy([{ column: "b.grade_id" }, { column: "d.received_on", order: "desc" }, { column: "d.id", order: "desc" }]),
+    k
+      .select(k.raw("DISTINCT ON (b.grade_id) b.grade_id, b.nominal_x, b.nominal_y, b.nominal_z, b.cost, b.volume_m3"))
+      .from("blocks as b")
+      .whereIn("b.grade_id", ids)
+      .whereNull("b.parent_id")
+      .orderBy([{ column: "b.grade_id" }, { column: "b.created_at", order: "desc" }, { column: "b.id", order: "desc" }]),
+    k("suppliers").select("id", "name", "email", "lead_time_days"),
+  ]);
+
+  const by = <T extends { grade_id: number }>(rows: T[]) => new Map(rows.map((r) => [r.grade_id, r]));
+  const ov = by(overrides as { grade_id: number; [k: string]: unknown }[]);
+  const hand = by(onHand as { grade_id: number; m3: string }[]);
+  const order = by(onOrder as { grade_id: number; m3: string }[]);
+  const draft = by(inDraft as { grade_id: number; m3: string }[]);
+  const usualSupplier = by(usual as { grade_id: number; supplier_id: number }[]);
+  const last = by(lastBlocks as { grade_id: number; nominal_x: string; nominal_y: string; nominal_z: string; cost: string; volume_m3: string }[]);
+  const supplierById = new Map((suppliers as { id: number; name: string; email: string | null; lead_time_days: number }[]).map((s) => [s.id, s]));
+  const days: string[] = [];
+  for (let d = since; d <= today; d = addDays(d, 1)) days.push(d);
+
+  return grades.map((g) => {
+    const o: Record<string, unknown> = ov.get(g.id) ?? {};
+    const series = new Map<string, number>();
+    for (const u of usage as { grade_id: number; day: string; m3: string }[]) if (u.grade_id === g.id) series.set(u.day, Number(u.m3));
+    const stats = dailyStats(days.map((d) => Math.max(0, series.get(d) ?? 0)));
+    const overSupplier = n(o.supplier_id);
+    const supplierId = overSupplier ?? usualSupplier.get(g.id)?.supplier_id ?? null;
+    const supplier = supplierId ? supplierById.get(supplierId) ?? null : null;
+    const pick = (override: unknown, computed: number, source: Source): ReorderInput<number> => (n(override) !== null ? { value: n(override)!, source: "override" } : { value: computed, source });
+    const lb = last.get(g.id);
+    const blockSize = lb ? ([Number(lb.nominal_x), Number(lb.nominal_y), Number(lb.nominal_z)] as [number, number, number]) : null;
+    const blockVolume = blockSize ? (blockSize[0] * blockSize[1] * blockSize[2]) / 1e9 : 0;
+    const lastPrice = lb && Number(lb.volume_m3) > 0 ? Number(lb.cost) / (g.price_unit === "bf" ? Number(lb.volume_m3) * 423.776 : Number(lb.volume_m3)) : null;
+    const row = {
+      dailyDemand: pick(o.daily_demand_m3, stats.mean, "ledger"),
+      demandSd: pick(o.demand_sd_m3, stats.sd, "ledger"),
+      leadTimeDays: pick(o.lead_time_days, supplier?.lead_time_days ?? 14, supplier ? "supplier" : "settings"),
+      serviceLevel: pick(o.service_level, settings.serviceLevel, "settings"),
+      committed: { value: committed.get(g.id) ?? 0, source: "jobs" as Source },
+      orderCost: pick(o.order_cost, settings.orderCost, "settings"),
+      holdingCost: pick(o.holding_cost_m3_year, settings.holdingCost, "settings"),
+    };
+    const onHandM3 = Number(hand.get(g.id)?.m3 ?? 0);
+    const onOrderM3 = Number(order.get(g.id)?.m3 ?? 0);
+    const result = planReorder({
+      dailyDemand: row.dailyDemand.value,
+      demandSd: row.demandSd.value,
+      leadTimeDays: row.leadTimeDays.value,
+      serviceLevel: row.serviceLevel.value,
+      committed: row.committed.value,
+      orderCost: row.orderCost.value,
+      holdingCost: row.holdingCost.value,
+      onHand: onHandM3,
+      onOrder: onOrderM3,
+      blockVolume,
+      reorderPointOverride: n(o.reorder_point_m3),
+      orderQtyOverride: n(o.order_qty_m3),
+    });
+    return {
+      gradeId: g.id,
+      gradeCode: g.code,
+      gradeLabel: `${g.grade_system} ${g.grade}`,
+      colour: g.colour,
+      priceUnit: g.price_unit,
+      neverHotWire: g.never_hot_wire,
+      supplier: supplier ? { id: supplier.id, name: supplier.name, email: supplier.email } : null,
+      supplierSource: overSupplier ? "override" : supplier ? "ledger" : "none",
+      ...row,
+      historyDays: settings.historyDays,
+      onHand: onHandM3,
+      onOrder: onOrderM3,
+      inDraft: Number(draft.get(g.id)?.m3 ?? 0),
+      blockSize,
+      blockVolume,
+      lastPrice: lastPrice === null ? null : Math.round(lastPrice * 10000) / 10000,
+      reorderPointOverride: n(o.reorder_point_m3),
+      orderQtyOverride: n(o.order_qty_m3),
+      note: (o.note as string | null | undefined) ?? null,
+      result,
+    };
+  });
+}
+
+/** Part volume (m³) of open jobs not yet cut, by grade: true volume where a profile exists, else the box. */
+async function openJobDemand(k: Knex, gradeIds: number[]): Promise<Map<number, number>> {
+  const rows = (await k("job_parts as p")
+    .join("jobs as j", "j.id", "p.job_id")
+    .leftJoin(k("cut_parts").groupBy("job_part_id").select("job_part_id", k.raw("sum(good_count) AS good")).as("c"), "c.job_part_id", "p.id")
+    .whereNotIn("j.status", ["done", "cancelled"])
+    .whereIn("p.grade_id", gradeIds)
+    .groupBy("p.grade_id")
+    .select(
+      "p.grade_id",
+      k.raw("sum(greatest(p.quantity - coalesce(c.good, 0), 0) * coalesce(p.true_volume_mm3, p.size_x * p.size_y * p.size_z) / 1e9) AS m3"),
+    )) as { grade_id: number; m3: string }[];
+  return new Map(rows.map((r) => [r.grade_id, Number(r.m3)]));
+}
+
+/** The grades at or under their reorder point. */
+export async function listDueGrades(today?: string): Promise<ReorderRow[]> {
+  return (await listReorder({ today })).filter((r) => r.result.due);
+}
