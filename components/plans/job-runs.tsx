@@ -22,7 +22,7 @@ export async function JobRuns({ jobId }: { jobId: number }) {
               <td className="text-right tabular-nums">{r.cost === null ? "–" : r.cost.toLocaleString("en", { style: "currency", currency: "USD" })}</td>
               <td className="text-right tabular-nums">{r.stats ? (r.stats.offcutVolume / 1e9).toFixed(3) : "–"}</td>
               <td className="text-right tabular-nums">{r.best?.unplacedCount ?? "–"}</td>
-              <td>{r.settings.layout}</td>
+              <td>{r.settings.layout ?? "–"}</td>
               <td className="text-right text-ink-faint">{r.createdAt.slice(0, 10)}</td>
             </tr>
           ))}

@@ -4,6 +4,8 @@
  * offcuts outlined, and the through cuts numbered in the order they are made.
  * Pure markup: renders on the server and in the browser alike.
  */
+import { cutRegions } from "@/lib/planning/cut-regions";
+
 type V3 = [number, number, number];
 
 export interface PlanViewProps {
@@ -12,6 +14,8 @@ export interface PlanViewProps {
   offcuts: { origin: V3; size: V3 }[];
   cuts: { axis: "x" | "y" | "z"; at: number }[];
   kerf: number;
+  /** Face trim of this block (0 for offcuts), to place the first cuts inside the trimmed faces. */
+  trim?: number;
   partName: (key: string) => string;
   showLayers?: boolean;
 }
@@ -32,11 +36,13 @@ function View({ title, a, b, props, only, width = 360 }: { title: string; a: 0 |
   const placements = only ?? props.placements;
   const nameIndex = new Map<string, number>();
   for (const p of props.placements) if (!nameIndex.has(p.part)) nameIndex.set(p.part, nameIndex.size);
-  const cutAxes = props.cuts.map((c, i) => ({ ...c, n: i + 1 })).filter((c) => AX[c.axis] === a || AX[c.axis] === b);
+  const pieces = [...props.placements, ...props.offcuts].map((p) => ({ min: p.origin, max: p.origin.map((v, i) => v + p.size[i]!) as V3 }));
+  const cutAxes = cutRegions(block.size, props.cuts, props.trim ?? 0, props.kerf, pieces).filter((c) => AX[c.axis] === a || AX[c.axis] === b);
+  const labelled = props.cuts.length <= 30;
   return (
     <figure className="space-y-1">
       <figcaption className="text-xs font-medium uppercase tracking-wide text-ink-faint">{title}</figcaption>
-      <svg viewBox={`0 0 ${w + pad * 2} ${h + pad * 2}`} className="w-full max-w-md" role="img" aria-label={`${title} of ${block.id}`}>
+      <svg viewBox={`0 0 ${w + pad * 2} ${h + pad * 2}`} className="w-full max-w-xl" role="img" aria-label={`${title} of ${block.id}`}>
         <rect x={X(0)} y={Y(H)} width={w} height={h} fill="#f7f5ef" stroke="#1c2a2e" strokeWidth={1.5} />
         {props.offcuts.map((o, i) => (
           <rect key={`o${i}`} x={X(o.origin[a])} y={Y(o.origin[b] + o.size[b])} width={o.size[a] * scale} height={o.size[b] * scale} fill="#e0efe3" fillOpacity={0.5} stroke="#3b7a4a" strokeDasharray="5 3" strokeWidth={1.2} />
@@ -64,15 +70,17 @@ function View({ title, a, b, props, only, width = 360 }: { title: string; a: 0 |
         {cutAxes.map((c) => {
           const pos = c.at + props.kerf / 2;
           const vertical = AX[c.axis] === a;
+          // The wire crosses only the piece this cut splits.
+          const span = vertical ? [c.region.min[b]!, c.region.max[b]!] : [c.region.min[a]!, c.region.max[a]!];
           return vertical ? (
             <g key={`c${c.n}`}>
-              <line x1={X(pos)} x2={X(pos)} y1={Y(0) + 6} y2={Y(H) - 6} stroke="#d2571f" strokeWidth={1.2} />
-              <text x={X(pos)} y={Y(H) - 9} fontSize={9} textAnchor="middle" fill="#d2571f" fontWeight={600}>{c.n}</text>
+              <line x1={X(pos)} x2={X(pos)} y1={Y(span[0]!)} y2={Y(span[1]!)} stroke="#d2571f" strokeWidth={1.1} />
+              {labelled && <text x={X(pos)} y={Y(span[1]!) - 3} fontSize={8} textAnchor="middle" fill="#d2571f" fontWeight={600}>{c.n}</text>}
             </g>
           ) : (
             <g key={`c${c.n}`}>
-              <line x1={X(0) - 6} x2={X(W) + 6} y1={Y(pos)} y2={Y(pos)} stroke="#d2571f" strokeWidth={1.2} />
-              <text x={X(W) + 9} y={Y(pos)} fontSize={9} dominantBaseline="middle" fill="#d2571f" fontWeight={600}>{c.n}</text>
+              <line x1={X(span[0]!)} x2={X(span[1]!)} y1={Y(pos)} y2={Y(pos)} stroke="#d2571f" strokeWidth={1.1} />
+              {labelled && <text x={X(span[1]!) + 3} y={Y(pos)} fontSize={8} dominantBaseline="middle" fill="#d2571f" fontWeight={600}>{c.n}</text>}
             </g>
           );
         })}
@@ -92,7 +100,7 @@ export function PlanView(props: PlanViewProps) {
   const sorted = [...layers.entries()].sort((x, y) => Number(x[0].split("|")[0]) - Number(y[0].split("|")[0]));
   return (
     <div className="space-y-4">
-      <div className="grid gap-4 md:grid-cols-3">
+      <div className="grid gap-4 sm:grid-cols-2 xl:grid-cols-3">
         <View title="Top (length × width)" a={0} b={1} props={props} />
         <View title="Front (length × height)" a={0} b={2} props={props} />
         <View title="Side (width × height)" a={1} b={2} props={props} />

@@ -64,7 +64,7 @@ interface RunRow {
 }
 
 function planCost(problem: Problem, plan: Plan | null): number | null {
-  if (!plan) return null;
+  if (!plan || !problem.blocks) return null;
   const used = new Set(Object.keys(plan.cuts).concat(plan.placements.map((p) => p.block)));
   return problem.blocks.filter((b) => used.has(b.id)).reduce((s, b) => s + b.cost, 0);
 }
@@ -261,6 +261,9 @@ export async function getRun(id: number): Promise<RunDetail | undefined> {
     .whereIn("b.id", r.block_ids)
     .select("b.id", "b.code", "pb.status as plan_status")
     .orderBy("b.id");
+  // Runs recorded before planning moved into Blockyard (demo history) carry no problem or plan.
+  r.problem.parts ??= [];
+  r.problem.blocks ??= [];
   const partIds = r.problem.parts.map((p) => partIdFromKey(p.id));
   const parts = partIds.length ? await db()("job_parts").whereIn("id", partIds).select("id", "name", "job_id", "true_volume_mm3") : [];
   return {
@@ -311,7 +314,7 @@ export async function failRun(id: number, message: string): Promise<void> {
 export async function failStaleRuns(staleSeconds = 90): Promise<number> {
   return db()("nesting_runs")
     .where("status", "running")
-    .where("heartbeat_at", "<", db().raw(`now() - interval '${Math.max(5, Math.floor(staleSeconds))} seconds'`))
+    .where("heartbeat_at", "<", db().raw("now() - make_interval(secs => ?)", [Math.max(5, Math.floor(staleSeconds))]))
     .update({ status: "failed", error: "The worker stopped while planning. Start the run again.", finished_at: db().fn.now() });
 }
 

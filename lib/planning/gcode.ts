@@ -1,4 +1,5 @@
 import type { Cut } from "@/lib/nesting";
+import { cutRegions, travelAcross, type Box } from "./cut-regions";
 
 /**
  * Straight through cuts of one block as a G-code program in the ISO 6983 word-address format
@@ -48,11 +49,12 @@ function sanitize(s: string): string {
 }
 
 /**
- * Wire travel for a block's through cuts (mm) and the time at `feed` mm/min. An estimate that
- * errs high: each cut is counted across the whole block, plus entry and exit clearance.
+ * Wire travel for a block's through cuts (mm) and the time at `feed` mm/min: each cut crosses the
+ * piece of foam it splits (see cutRegions), plus entry and exit clearance. Without the pieces the
+ * whole block is assumed for every cut, which errs high.
  */
-export function cutEstimate(size: [number, number, number], cuts: Cut[], feed: number, clearance = 10): { lengthMm: number; minutes: number } {
-  const travel = { x: size[2], y: size[2], z: size[0] }; // x and y cuts feed down the height; z cuts along the length
-  const lengthMm = cuts.reduce((s, c) => s + travel[c.axis] + 2 * clearance, 0);
+export function cutEstimate(size: [number, number, number], cuts: Cut[], feed: number, clearance = 10, opts: { trim?: number; kerf?: number; pieces?: Box[] } = {}): { lengthMm: number; minutes: number } {
+  const regions = cutRegions(size, cuts, opts.trim ?? 0, opts.kerf ?? 0, opts.pieces ?? []);
+  const lengthMm = regions.reduce((s, c) => s + (opts.pieces ? travelAcross(c) : c.axis === "z" ? size[0] : size[2]) + 2 * clearance, 0);
   return { lengthMm, minutes: feed > 0 ? lengthMm / feed : 0 };
 }

@@ -12,6 +12,7 @@ import { PlanView } from "@/components/plans/plan-view";
 import { RunStatusBadge } from "@/components/plans/run-status";
 import { HotWireCaution } from "@/components/shell/safety-note";
 import { cutEstimate } from "@/lib/planning/gcode";
+import { piecesOf } from "@/lib/planning/cut-regions";
 import { partIdFromKey } from "@/lib/planning/problem";
 
 export async function generateMetadata({ params }: { params: Promise<{ runId: string }> }): Promise<Metadata> {
@@ -31,7 +32,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   const partName = (key: string) => names.get(partIdFromKey(key)) ?? key;
   const plan = run.plan;
   const used = plan ? run.problem.blocks.filter((b) => plan.placements.some((p) => p.block === b.id)) : [];
-  const estimates = used.map((b) => cutEstimate(b.size, plan!.cuts[b.id] ?? [], settings.feedMmPerMin));
+  const estimates = used.map((b) => cutEstimate(b.size, plan!.cuts[b.id] ?? [], settings.feedMmPerMin, 10, { trim: b.trim, kerf: run.settings.kerf, pieces: piecesOf(plan!, b.id) }));
   const totalMinutes = estimates.reduce((s, e) => s + e.minutes, 0);
   const totalLength = estimates.reduce((s, e) => s + e.lengthMm, 0);
   const owes = [...owed.values()].some((n) => n > 0);
@@ -44,7 +45,11 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
           <span className="flex flex-wrap items-center gap-2">
             <RunStatusBadge status={run.status} />
             <span>for {run.jobNames.join(", ")}</span>
-            <span className="text-ink-faint">· {run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin {run.settings.defectMargin} mm</span>
+            {run.settings.layout ? (
+              <span className="text-ink-faint">· {run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin {run.settings.defectMargin} mm</span>
+            ) : (
+              <span className="text-ink-faint">· recorded history (no plan stored)</span>
+            )}
             {run.parentRunId && <span>· re-plan of <Link href={`/plans/${run.parentRunId}`}>#{run.parentRunId}</Link></span>}
           </span>
         }
@@ -102,6 +107,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                     offcuts={plan.offcuts.filter((o) => o.block === b.id)}
                     cuts={plan.cuts[b.id] ?? []}
                     kerf={run.settings.kerf}
+                    trim={b.trim}
                     partName={partName}
                   />
                 </Card>
@@ -114,7 +120,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
           <Card title="Runs for the same job, side by side">
             <div className="overflow-x-auto">
               <table data-testid="run-compare">
-                <thead><tr><th className="py-1">Plan</th><th>Status</th><th className="text-right">Yield</th><th className="text-right">Blocks</th><th className="text-right">Cost</th><th className="text-right">Offcuts m³</th><th className="text-right">Unplaced</th><th>Layout</th></tr></thead>
+                <thead><tr><th className="py-1">Plan</th><th>Status</th><th className="text-right">Yield</th><th className="text-right">Blocks</th><th className="text-right">Cost</th><th className="text-right">Offcuts m³</th><th className="text-right">Unplaced</th><th className="pl-4">Layout</th></tr></thead>
                 <tbody>
                   {siblings.map((s) => (
                     <tr key={s.id} className={`border-t border-bead/60 ${s.id === run.id ? "bg-kerf-light/40" : ""}`}>
@@ -125,7 +131,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                       <td className="text-right tabular-nums">{s.cost === null ? "–" : s.cost.toFixed(2)}</td>
                       <td className="text-right tabular-nums">{s.stats ? (s.stats.offcutVolume / 1e9).toFixed(3) : "–"}</td>
                       <td className="text-right tabular-nums">{s.best?.unplacedCount ?? "–"}</td>
-                      <td>{s.settings.layout}</td>
+                      <td className="pl-4">{s.settings.layout ?? "–"}</td>
                     </tr>
                   ))}
                 </tbody>

@@ -34,7 +34,7 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
           return (
             <Card key={b.id} title={<span className="flex items-center gap-2">{b.code} {b.planStatus === "cut" ? <Badge tone="moss">cut</Badge> : b.planStatus === "released" ? <Badge>released</Badge> : <Badge tone="kerf">to cut</Badge>}</span>}>
               <div className="grid gap-5 xl:grid-cols-2">
-                <PlanView block={{ id: b.code, size: pb.size, defects: pb.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={placements} offcuts={plan.offcuts.filter((o) => o.block === b.code)} cuts={plan.cuts[b.code] ?? []} kerf={run.settings.kerf} partName={partName} showLayers={false} />
+                <PlanView block={{ id: b.code, size: pb.size, defects: pb.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={placements} offcuts={plan.offcuts.filter((o) => o.block === b.code)} cuts={plan.cuts[b.code] ?? []} kerf={run.settings.kerf} trim={pb.trim} partName={partName} showLayers={false} />
                 {b.planStatus === "reserved" && run.status === "approved" ? (
                   <CutBlockForm runId={run.id} blockId={b.id} code={b.code} parts={[...counts].map(([jobPartId, count]) => ({ jobPartId, count, name: names.get(jobPartId) ?? `part ${jobPartId}` }))} />
                 ) : (

@@ -8,9 +8,14 @@ import { listChildren } from "@/db/queries/blocks";
 import { PlanView } from "@/components/plans/plan-view";
 import { PrintButton } from "@/components/stock/print-button";
 import { cutEstimate } from "@/lib/planning/gcode";
+import { piecesOf } from "@/lib/planning/cut-regions";
 import { partIdFromKey } from "@/lib/planning/problem";
 
 export const metadata: Metadata = { title: "Cut sheet" };
+
+/** Millimetres as a cutter reads them: a tenth at most, no float noise. */
+const mm = (v: number) => String(Math.round(v * 10) / 10);
+const dims = (v: readonly number[]) => v.map(mm).join(" × ");
 
 /** The printable cut sheet: per block, the through cuts in order, the parts, and labels for the offcuts it will make. */
 export default async function CutSheetPage({ params }: { params: Promise<{ runId: string }> }) {
@@ -34,7 +39,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
           return { code, size: o.size, svg: await QRCode.toString(code, { type: "svg", margin: 1, errorCorrectionLevel: "M" }) };
         }),
       );
-      return { b, offcuts, labels, estimate: cutEstimate(b.size, plan.cuts[b.id] ?? [], settings.feedMmPerMin) };
+      return { b, offcuts, labels, estimate: cutEstimate(b.size, plan.cuts[b.id] ?? [], settings.feedMmPerMin, 10, { trim: b.trim, kerf: run.settings.kerf, pieces: piecesOf(plan, b.id) }) };
     }),
   );
   return (
@@ -52,25 +57,25 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
       </section>
       {sheets.map(({ b, offcuts, labels, estimate }) => (
         <section key={b.id} className="break-inside-avoid space-y-3 border-t border-bead pt-4 print:break-after-page">
-          <h2>Block {b.id} <span className="text-sm font-normal text-ink-soft">{b.size.join(" × ")} mm · {b.grade}{b.offcut ? " · offcut (faces clean)" : ` · trim ${run.settings.trim} mm each face first`}</span></h2>
+          <h2>Block {b.id} <span className="text-sm font-normal text-ink-soft">{dims(b.size)} mm · {b.grade}{b.offcut ? " · offcut (faces clean)" : ` · trim ${run.settings.trim} mm each face first`}</span></h2>
           <div className="grid gap-4 lg:grid-cols-2">
             <div>
               <h3 className="text-sm font-semibold">Through cuts, in order</h3>
               <ol className="mt-1 list-decimal pl-6 text-sm">
-                {(plan.cuts[b.id] ?? []).map((c, i) => <li key={i}>across {c.axis === "x" ? "the length" : c.axis === "y" ? "the width" : "the height"}, kerf starting at {c.at} mm</li>)}
+                {(plan.cuts[b.id] ?? []).map((c, i) => <li key={i}>across {c.axis === "x" ? "the length" : c.axis === "y" ? "the width" : "the height"}, kerf starting at {mm(c.at)} mm</li>)}
               </ol>
-              <p className="mt-1 text-xs text-ink-faint">About {Math.round(estimate.minutes)} min of cutting ({(estimate.lengthMm / 1000).toFixed(1)} m of wire travel, an upper estimate).</p>
+              <p className="mt-1 text-xs text-ink-faint">About {Math.round(estimate.minutes)} min of cutting ({(estimate.lengthMm / 1000).toFixed(1)} m of wire travel across the pieces each cut splits).</p>
               <h3 className="mt-3 text-sm font-semibold">Parts</h3>
               <table className="text-sm">
                 <thead><tr><th>Part</th><th>At (x, y, z mm)</th><th>Size (mm)</th></tr></thead>
                 <tbody>
                   {plan.placements.filter((p) => p.block === b.id).map((p, i) => (
-                    <tr key={i} className="border-t border-bead/60"><td>{partName(p.part)}</td><td>{p.origin.join(", ")}</td><td>{p.size.join(" × ")}</td></tr>
+                    <tr key={i} className="border-t border-bead/60"><td>{partName(p.part)}</td><td>{p.origin.map(mm).join(", ")}</td><td>{dims(p.size)}</td></tr>
                   ))}
                 </tbody>
               </table>
             </div>
-            <PlanView block={{ id: b.id, size: b.size, defects: b.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={plan.placements.filter((p) => p.block === b.id)} offcuts={offcuts} cuts={plan.cuts[b.id] ?? []} kerf={run.settings.kerf} partName={partName} showLayers={false} />
+            <PlanView block={{ id: b.id, size: b.size, defects: b.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={plan.placements.filter((p) => p.block === b.id)} offcuts={offcuts} cuts={plan.cuts[b.id] ?? []} kerf={run.settings.kerf} trim={b.trim} partName={partName} showLayers={false} />
           </div>
           {labels.length > 0 && (
             <div>
@@ -81,7 +86,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                     <div className="size-20 shrink-0" dangerouslySetInnerHTML={{ __html: l.svg }} />
                     <div className="text-sm">
                       <p className="text-lg font-bold">{l.code}</p>
-                      <p>{l.size.join(" × ")} mm</p>
+                      <p>{dims(l.size)} mm</p>
                       <p>{b.grade} · offcut of {b.id}</p>
                     </div>
                   </div>

@@ -6,6 +6,7 @@ import { csvResponse, toCsv } from "@/lib/csv";
 import { partIdFromKey } from "@/lib/planning/problem";
 
 type P = { runId: string };
+const r2 = (v: number) => Math.round(v * 100) / 100;
 
 /** The plan as a cut list: one row per part placed, in block order, with its position and size. */
 export const GET = api<P>("GET /api/runs/[runId]/cut-list", async ({ params }) => {
@@ -16,12 +17,12 @@ export const GET = api<P>("GET /api/runs/[runId]/cut-list", async ({ params }) =
     line: i + 1,
     block: p.block,
     part: names.get(partIdFromKey(p.part)) ?? p.part,
-    x_mm: p.origin[0],
-    y_mm: p.origin[1],
-    z_mm: p.origin[2],
-    length_mm: p.size[0],
-    width_mm: p.size[1],
-    height_mm: p.size[2],
+    x_mm: r2(p.origin[0]),
+    y_mm: r2(p.origin[1]),
+    z_mm: r2(p.origin[2]),
+    length_mm: r2(p.size[0]),
+    width_mm: r2(p.size[1]),
+    height_mm: r2(p.size[2]),
   }));
   return csvResponse(toCsv(rows, ["line", "block", "part", "x_mm", "y_mm", "z_mm", "length_mm", "width_mm", "height_mm"]), `blockyard-plan-${run.id}-cut-list.csv`);
 });
