@@ -45,40 +45,51 @@ function minSide(types: readonly ItemType[], order: readonly number[], remaining
   return m;
 }
 
-/** Candidate placements (a part or a grid of copies) for box `f`, best first. */
-function moves(f: Box, types: readonly ItemType[], order: readonly number[], remaining: readonly number[], grid: boolean, mMin: number): Move[] {
+/** The `k` best placements (a part or a grid of copies) for box `f`, best first. */
+function moves(f: Box, types: readonly ItemType[], order: readonly number[], remaining: readonly number[], grid: boolean, mMin: number, k: number): Move[] {
   const out: Move[] = [];
   const fs = f.size;
   const fv = vol(fs);
+  const consider = (t: number, d: Vec3, n0: number, n1: number, n2: number): void => {
+    let exact = 0;
+    let waste = 0;
+    const g0 = d[0] * n0;
+    const g1 = d[1] * n1;
+    const g2 = d[2] * n2;
+    const r0 = fs[0] - g0;
+    const r1 = fs[1] - g1;
+    const r2 = fs[2] - g2;
+    if (r0 <= 1e-9) exact++;
+    else if (r0 < mMin) waste += r0 / fs[0];
+    if (r1 <= 1e-9) exact++;
+    else if (r1 < mMin) waste += r1 / fs[1];
+    if (r2 <= 1e-9) exact++;
+    else if (r2 < mMin) waste += r2 / fs[2];
+    const score = exact * 2 - waste + (g0 * g1 * g2) / fv;
+    if (out.length >= k && score <= out[out.length - 1]!.score) return;
+    let i = out.length;
+    while (i > 0 && out[i - 1]!.score < score) i--;
+    out.splice(i, 0, { t, d, n: [n0, n1, n2], score });
+    if (out.length > k) out.pop();
+  };
   for (const t of order) {
     const rem = remaining[t]!;
     if (rem <= 0) continue;
     for (const d of types[t]!.dims) {
       if (d[0] > fs[0] + 1e-9 || d[1] > fs[1] + 1e-9 || d[2] > fs[2] + 1e-9) continue;
-      const grids: Vec3[] = [[1, 1, 1]];
-      if (grid && rem > 1) {
-        const cap = [Math.floor(fs[0] / d[0] + 1e-9), Math.floor(fs[1] / d[1] + 1e-9), Math.floor(fs[2] / d[2] + 1e-9)];
-        for (const [a1, a2, a3] of GRID_ORDERS) {
-          const n: Vec3 = [1, 1, 1];
-          n[a1] = Math.min(cap[a1]!, rem);
-          n[a2] = Math.min(cap[a2]!, Math.floor(rem / n[a1]!));
-          n[a3] = Math.min(cap[a3]!, Math.floor(rem / (n[a1]! * n[a2]!)));
-          if (!grids.some((g) => g[0] === n[0] && g[1] === n[1] && g[2] === n[2])) grids.push(n);
-        }
-      }
-      for (const n of grids) {
-        let exact = 0;
-        let waste = 0;
-        for (let a = 0; a < 3; a++) {
-          const r = fs[a]! - d[a]! * n[a]!;
-          if (r <= 1e-9) exact++;
-          else if (r < mMin) waste += r / fs[a]!;
-        }
-        out.push({ t, d, n, score: exact * 2 - waste + (vol(d) * n[0] * n[1] * n[2]) / fv });
+      consider(t, d, 1, 1, 1);
+      if (!grid || rem <= 1) continue;
+      const cap = [Math.floor(fs[0] / d[0] + 1e-9), Math.floor(fs[1] / d[1] + 1e-9), Math.floor(fs[2] / d[2] + 1e-9)];
+      for (const [a1, a2, a3] of GRID_ORDERS) {
+        const n: Vec3 = [1, 1, 1];
+        n[a1] = Math.min(cap[a1]!, rem);
+        n[a2] = Math.min(cap[a2]!, Math.floor(rem / n[a1]!));
+        n[a3] = Math.min(cap[a3]!, Math.floor(rem / (n[a1]! * n[a2]!)));
+        if (n[0] * n[1] * n[2] > 1) consider(t, d, n[0], n[1], n[2]);
       }
     }
   }
-  return out.sort((a, b) => b.score - a.score);
+  return out;
 }
 
 function apply(s: State, fi: number, m: Move, types: readonly ItemType[], p: BoxFirstParams): void {
@@ -106,17 +117,17 @@ function run(s: State, types: readonly ItemType[], order: readonly number[], p: 
   while (s.free.length > 0) {
     const fi = lowest(s.free);
     const f = s.free[fi]!;
-    const ms = moves(f, types, order, s.remaining, p.grid, mMin);
+    const ms = moves(f, types, order, s.remaining, p.grid, mMin, Math.max(1, lookahead));
     if (ms.length === 0) {
       s.leftovers.push(f);
       s.free.splice(fi, 1);
       continue;
     }
     let chosen = ms[0]!;
-    if (lookahead > 1 && ms.length > 1) {
+    if (ms.length > 1) {
       // Judge the first few moves by where a plain greedy fill would end from each.
       let bestVol = -1;
-      for (const m of ms.slice(0, lookahead)) {
+      for (const m of ms) {
         const sim: State = { free: [...s.free], remaining: [...s.remaining], packedVolume: s.packedVolume, leftovers: [], items: undefined };
         apply(sim, fi, m, types, p);
         run(sim, types, order, p, 0);
@@ -139,6 +150,9 @@ function run(s: State, types: readonly ItemType[], order: readonly number[], p: 
  */
 export function fillBoxFirst(free: Box[], types: readonly ItemType[], remaining: number[], order: readonly number[], p: BoxFirstParams): { items: PackedItem[]; leftovers: Box[]; packedVolume: number } {
   const s: State = { free: [...free], remaining, packedVolume: 0, leftovers: [], items: [] };
-  run(s, types, order, p, p.lookahead);
+  // Lookahead costs a greedy completion per move: keep it for few part lines and modest counts.
+  const live = order.filter((t) => remaining[t]! > 0);
+  const pieces = live.reduce((n, t) => n + remaining[t]!, 0);
+  run(s, types, live, p, live.length > 30 || pieces > 400 ? 0 : pieces > 150 ? Math.min(p.lookahead, 3) : p.lookahead);
   return { items: s.items!, leftovers: s.leftovers, packedVolume: s.packedVolume };
 }

@@ -41,7 +41,7 @@ const lowerCorner = (a: Box, b: Box): number => a.origin[2] - b.origin[2] || a.o
  * exceeds the block's slack (usable volume minus part volume). Bounded by `nodeLimit`.
  * Returns the fill, or undefined when it gives up.
  */
-export function packAllInBlock(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, r: Rng): BlockFill | undefined {
+export function packAllInBlock(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, r: Rng, stop: () => boolean = () => false): BlockFill | undefined {
   const { free: initial } = carveObstacles(block.usable, block.obstacles, true, r);
   const capacity = initial.reduce((s, b) => s + vol(b.size), 0);
   const live = counts.map((c, t) => (c > 0 ? t : -1)).filter((t) => t >= 0);
@@ -58,7 +58,7 @@ export function packAllInBlock(block: BlockInfo, types: readonly ItemType[], cou
 
   const dfs = (free: Box[], wasted: number): boolean => {
     if (left === 0) return true;
-    if (++nodes > nodeLimit) return false;
+    if (++nodes > nodeLimit || ((nodes & 127) === 0 && stop() && (nodes = Infinity))) return false;
     if (free.length === 0) return false;
     let fi = 0;
     for (let i = 1; i < free.length; i++) if (lowerCorner(free[i]!, free[fi]!) < 0) fi = i;
@@ -117,7 +117,7 @@ export function packAllInBlock(block: BlockInfo, types: readonly ItemType[], cou
  * or is left as waste while the slack allows. Complete for cut trees whose cuts fall at part
  * lengths, which is how a cutter usually works; bounded by `nodeLimit`.
  */
-export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, r: Rng): BlockFill | undefined {
+export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, r: Rng, stop: () => boolean = () => false): BlockFill | undefined {
   const { free: initial } = carveObstacles(block.usable, block.obstacles, true, r);
   const capacity = initial.reduce((s, b) => s + vol(b.size), 0);
   const live = counts.map((c, t) => (c > 0 ? t : -1)).filter((t) => t >= 0);
@@ -154,7 +154,7 @@ export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], coun
 
   const dfs = (regions: Box[], wasted: number): boolean => {
     if (left === 0) return true;
-    if (++nodes > nodeLimit || regions.length === 0) return false;
+    if (++nodes > nodeLimit || ((nodes & 127) === 0 && stop() && (nodes = Infinity)) || regions.length === 0) return false;
     // Most constrained region first: dead ends show up early.
     const spare0 = slack - wasted + 1e-6;
     let ri = regions.length - 1;

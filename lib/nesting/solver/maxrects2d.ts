@@ -1,3 +1,4 @@
+import { MaxRectsPacker } from "maxrects-packer";
 import type { Box } from "../geometry";
 import type { Vec3 } from "../types";
 import type { BlockFill, BlockInfo, ItemType, PackedItem } from "./model";
@@ -91,4 +92,31 @@ export function edgeStrip(u: Box, items: readonly PackedItem[]): Box {
     if (size[a]! > 1e-9 && size[0] * size[1] * size[2] > best.size[0] * best.size[1] * best.size[2]) best = { origin, size };
   }
   return best;
+}
+
+/**
+ * The same single-layer fill done by the `maxrects-packer` package (its own MaxRects choice
+ * rule). Pieces that spill into its second bin stay unplaced here. Blocks with defects are left to
+ * `fillBlockMaxRects`, which can route around them.
+ */
+export function fillBlockMaxRectsPackage(block: BlockInfo, types: readonly ItemType[], remaining: number[], order: readonly number[]): BlockFill {
+  const u = block.usable;
+  const packer = new MaxRectsPacker(u.size[0], u.size[1], 0, { smart: false, pot: false, square: false, allowRotation: true, border: 0 });
+  for (const t of order) {
+    const dims = layerDims(types[t]!, block).filter((d) => d[0] <= u.size[0] + E && d[1] <= u.size[1] + E);
+    const d = dims[0];
+    if (!d) continue;
+    for (let i = 0; i < remaining[t]!; i++) packer.add(d[0], d[1], { t, allowRotation: dims.length > 1 });
+  }
+  const items: PackedItem[] = [];
+  let packedVolume = 0;
+  for (const r of packer.bins[0]?.rects ?? []) {
+    const t = (r.data as { t: number }).t;
+    const d = layerDims(types[t]!, block).find((o) => Math.abs(o[0] - r.width) <= E && Math.abs(o[1] - r.height) <= E);
+    if (!d || remaining[t]! <= 0) continue;
+    items.push({ type: t, origin: [u.origin[0] + r.x, u.origin[1] + r.y, u.origin[2]], dims: d });
+    remaining[t] = remaining[t]! - 1;
+    packedVolume += types[t]!.volume;
+  }
+  return { block: block.index, items, leftovers: items.length > 0 ? [edgeStrip(u, items)] : [], packedVolume };
 }

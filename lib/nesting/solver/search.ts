@@ -5,7 +5,7 @@ import type { Plan, Problem } from "../types";
 import { validatePlan } from "../validate";
 import { assemblePlan, keptOffcuts } from "./assemble";
 import { fillBlockGuillotine, type SplitRule } from "./guillotine3d";
-import { fillBlockMaxRects, layerDims, type RectRule } from "./maxrects2d";
+import { fillBlockMaxRects, fillBlockMaxRectsPackage, layerDims, type RectRule } from "./maxrects2d";
 import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
 import { packAllByCuts, packAllInBlock } from "./exact";
 import { eliminateBlocks } from "./improve";
@@ -21,7 +21,7 @@ interface PassParams {
   thinSlabs: boolean;
   boxFirst: boolean;
   lookahead: number;
-  rectRule: RectRule;
+  rectRule: RectRule | "package";
   planarMaxRects: boolean;
   blockOrder: "cheap" | "large" | "shuffle";
   candidates: number;
@@ -134,6 +134,9 @@ export class Search {
     const s = this.best?.score;
     if (!s || this.atBound() || s.placedVolume < this.placeable - 1e-6 || this.pool.size < 2) return;
     const demand = this.model.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
+    // javascript-lp-solver's branch and bound does not keep to its timeout on big models: keep
+    // the integer program to cutting-stock sizes (few part lines, a few hundred columns).
+    if (demand.filter((d) => d > 0).length > 60) return;
     const left = this.opts.now ? this.opts.timeLimitMs - this.elapsed() : Infinity;
     if (left < 100) return;
     const fills = coverDemand(this.model, this.pool.columns(), demand, Math.min(300, left / 4));
@@ -174,7 +177,7 @@ export class Search {
       thinSlabs: r() < 0.8,
       boxFirst: r() < 0.5,
       lookahead: pick(r, [0, 3, 6, 12]),
-      rectRule: pick(r, ["bssf", "bssf", "baf", "bl"] as const),
+      rectRule: pick(r, ["bssf", "bssf", "baf", "bl", "package"] as const),
       planarMaxRects: r() < 0.7,
       blockOrder: pick(r, ["cheap", "cheap", "large", "shuffle"] as const),
       candidates: pick(r, [1, 2, 4, 8]),
@@ -223,7 +226,8 @@ export class Search {
     const live = m.compatible[block]!.filter((t) => remaining[t]! > 0);
     const order = this.typeOrder(p, live);
     const planar = m.problem.settings.layout !== "guillotine" && p.planarMaxRects && live.every((t) => layerDims(m.types[t]!, info).length > 0);
-    if (planar) return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule);
+    if (planar && p.rectRule === "package" && info.obstacles.length === 0) return fillBlockMaxRectsPackage(info, m.types, remaining, order);
+    if (planar) return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule === "package" ? "bssf" : p.rectRule);
     return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, lookahead: p.lookahead, rng: this.r });
   }
 
@@ -245,7 +249,8 @@ export class Search {
       const budget = (this.tried.get(key) ?? 25) * 2;
       if (budget > 51_200) continue;
       this.tried.set(key, budget);
-      const fill = packAllByCuts(info, m.types, counts, budget, this.r) ?? packAllInBlock(info, m.types, counts, budget / 2, this.r);
+      const stop = (): boolean => this.fraction() >= 1;
+      const fill = packAllByCuts(info, m.types, counts, budget, this.r, stop) ?? packAllInBlock(info, m.types, counts, budget / 2, this.r, stop);
       if (fill) return fill;
     }
     return undefined;
