@@ -3,6 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireRole } from "@/lib/auth/guard";
 import { getRun } from "@/db/queries/runs";
+import { listChildren } from "@/db/queries/blocks";
 import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
 import { HotWireCaution } from "@/components/shell/safety-note";
 import { PlanView } from "@/components/plans/plan-view";
@@ -20,6 +21,7 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
   const partName = (k: string) => names.get(partIdFromKey(k)) ?? k;
   const inPlan = run.blocks.filter((b) => b.planStatus);
+  const offcutsOf = new Map(await Promise.all(inPlan.filter((b) => b.planStatus === "cut").map(async (b) => [b.id, (await listChildren(b.id)).map((c) => c.code)] as const)));
   return (
     <>
       <PageHeader title={`At the machine · plan #${run.id}`} lead={<>{run.jobNames.join(", ")} · <Link href={`/plans/${run.id}/sheet`}>cut sheet</Link></>} />
@@ -38,7 +40,17 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
                 {b.planStatus === "reserved" && run.status === "approved" ? (
                   <CutBlockForm runId={run.id} blockId={b.id} code={b.code} parts={[...counts].map(([jobPartId, count]) => ({ jobPartId, count, name: names.get(jobPartId) ?? `part ${jobPartId}` }))} />
                 ) : (
-                  <p className="text-sm text-ink-soft">{b.planStatus === "cut" ? "Recorded." : "Not part of the work any more."}</p>
+                  b.planStatus === "cut" ? (
+                    <Notice tone="success" title={`${b.code} is cut`}>
+                      {offcutsOf.get(b.id)?.length ? (
+                        <>Offcuts now in stock: {offcutsOf.get(b.id)!.join(", ")}. <Link href={`/labels?codes=${encodeURIComponent(offcutsOf.get(b.id)!.join(","))}`}>Print their labels</Link>.</>
+                      ) : (
+                        "No offcuts were kept from it."
+                      )}
+                    </Notice>
+                  ) : (
+                    <p className="text-sm text-ink-soft">Released: not part of the work any more.</p>
+                  )
                 )}
               </div>
             </Card>

@@ -1,0 +1,82 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser, Page } from "playwright-core";
+import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
+import { SignInPage } from "./pages/sign-in";
+import { JobsPage } from "./pages/jobs";
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launch();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function signedIn(role: string, viewport: { width: number; height: number } = VIEWPORTS.wide): Promise<Page> {
+  const page = await (await browser.newContext({ viewport })).newPage();
+  const signIn = new SignInPage(page);
+  await signIn.open();
+  await signIn.signIn(`${role}@demo.blockyard.test`, "blockyard-demo");
+  await page.waitForURL(`${BASE_URL}/`);
+  return page;
+}
+
+describe("the planner's and the cutter's loop", () => {
+  it("imports a part list, nests it with live progress, approves, cuts, and finds the offcuts in stock", async () => {
+    // Planner: a job and its part list from CSV.
+    const planner = await signedIn("planner");
+    const jobs = new JobsPage(planner);
+    await jobs.openList();
+    const jobId = await jobs.createJob(`Foyer letters ${Date.now().toString(36)}`, "Copperleaf Signs", "2026-12-20");
+    await jobs.importCsv(
+      "letters.csv",
+      ["name,quantity,length_mm,width_mm,height_mm,grade,rotate", "Letter O,3,600,600,100,EPS-II,z", "Letter K,2,600,480,100,EPS-II,z", "Backing strip,4,1200,80,40,EPS-II,any"].join("\n") + "\n",
+    );
+    await jobs.confirmImport();
+    await expect.poll(() => jobs.partRows().count(), { timeout: 10_000 }).toBe(3);
+
+    // Plan it: the proposed stock, a short budget, and a bar that moves.
+    await planner.getByRole("link", { name: "Plan this job" }).click();
+    await planner.waitForURL(/\/plans\/new\?jobs=/);
+    await planner.getByLabel("Time budget (ms)").fill("1500");
+    await planner.getByRole("button", { name: "Start nesting" }).click();
+    await planner.waitForURL(/\/plans\/\d+$/);
+    const runId = Number(new URL(planner.url()).pathname.split("/").pop());
+    // The live bar shows while a worker searches, then the plan replaces it.
+    await planner.getByRole("progressbar", { name: "Nesting progress" }).waitFor({ timeout: 15_000 });
+    await planner.getByRole("button", { name: "Approve and earmark the stock" }).waitFor({ timeout: 60_000 });
+    expect(await planner.getByTestId("plan-figures").textContent()).toMatch(/Yield\s*\d+(\.\d)? %/);
+    expect(await planner.locator("svg[aria-label^='Top (length × width) of']").count()).toBeGreaterThan(0);
+    await screenshot(planner, "plan-view-wide");
+    await planner.getByRole("button", { name: "Approve and earmark the stock" }).click();
+    await planner.getByText("Approved: the blocks are earmarked").waitFor();
+    await planner.goto(`${BASE_URL}/plans/${runId}/sheet`);
+    await planner.getByRole("heading", { name: `Cut sheet · plan #${runId}` }).waitFor();
+    expect(await planner.getByText("Before you heat the wire").count()).toBe(1);
+    await screenshot(planner, "cut-sheet-wide");
+
+    // Cutter, on a tablet: marks each block cut and sees its offcuts come into stock.
+    const cutter = await signedIn("cutter", VIEWPORTS.tablet);
+    await cutter.goto(`${BASE_URL}/plans/${runId}/cut`);
+    await screenshot(cutter, "at-the-machine-tablet");
+    const buttons = cutter.getByRole("button", { name: /^Mark .+ cut$/ });
+    const n = await buttons.count();
+    expect(n).toBeGreaterThan(0);
+    let offcutCodes: string[] = [];
+    for (let i = 0; i < n; i++) {
+      await cutter.getByRole("button", { name: /^Mark .+ cut$/ }).first().click();
+      await expect.poll(() => cutter.getByRole("button", { name: /^Mark .+ cut$/ }).count(), { timeout: 15_000 }).toBe(n - i - 1);
+    }
+    await expect.poll(() => cutter.getByText(/ is cut$/).count(), { timeout: 15_000 }).toBe(n);
+    const notes = await cutter.getByText(/Offcuts now in stock: /).allTextContents();
+    offcutCodes = notes.flatMap((t) => [...t.matchAll(/[A-Z]+-\d+(?:\.\d+)+/g)].map((m) => m[0]));
+    expect(offcutCodes.length).toBeGreaterThan(0);
+    await cutter.goto(`${BASE_URL}/stock?offcuts=only&q=${encodeURIComponent(offcutCodes[0]!)}`);
+    await cutter.getByRole("link", { name: offcutCodes[0]!, exact: true }).waitFor();
+    await screenshot(cutter, "offcuts-in-stock-tablet");
+
+    // The plan is closed once every block is cut.
+    await planner.goto(`${BASE_URL}/plans/${runId}`);
+    await planner.getByText("Cut and closed").first().waitFor();
+  });
+});
