@@ -33,7 +33,6 @@ export const GET = api<P>("GET /api/photos/[photoId]", async ({ req, params }) =
     "X-Content-Type-Options": "nosniff",
     "Cache-Control": "private, max-age=604800, immutable",
     "Content-Disposition": `inline; filename="defect-${photo.defectId}-photo-${photo.id}${size === "thumb" ? "-thumb" : ""}.${ext}"`,
-    "Content-Security-Policy": "default-src 'none'; sandbox",
   };
   if (obj.contentLength !== undefined) headers["Content-Length"] = String(obj.contentLength);
   return new Response(obj.body, { status: 200, headers });
