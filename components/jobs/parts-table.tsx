@@ -64,15 +64,13 @@ export function PartsTable({ jobId, parts, unit, editable }: { jobId: number; pa
           <tbody>
             {parts.map((p) => (
               <tr key={p.id} className="border-b border-bead/60 align-middle last:border-0" data-testid={`part-${p.id}`}>
-                <td className="py-2 pr-3 font-medium">
-                  {p.name}
-                  {p.libraryPartId && <span className="ml-1 text-xs font-normal text-ink-faint">library</span>}
+                <td className="py-2 pr-3">
+                  <span className="font-medium">{p.name}</span>
+                  {p.libraryPartId && <span className="ml-1 text-xs text-ink-faint">library</span>}
+                  <span className="block text-xs text-ink-soft">{describeProfile(p.profile)}</span>
                 </td>
                 <td className="pr-3">
-                  <div className="flex min-w-52 items-center gap-2">
-                    <SectionPreview profile={p.profile} size={p.size} width={88} height={40} label={`${p.name} profile`} />
-                    <span className="text-xs text-ink-soft">{describeProfile(p.profile)}</span>
-                  </div>
+                  <SectionPreview profile={p.profile} size={p.size} width={88} height={40} label={`${p.name} profile`} />
                 </td>
                 <td className="whitespace-nowrap pr-3">{formatSize(p.size, unit)}</td>
                 <td className="pr-3">{p.gradeCode ?? <span className="text-ink-faint">any</span>}</td>
@@ -89,7 +87,8 @@ export function PartsTable({ jobId, parts, unit, editable }: { jobId: number; pa
                   )}
                 </td>
                 {editable && (
-                  <td className="whitespace-nowrap text-right">
+                  <td className="text-right">
+                    <div className="flex flex-col items-end xl:flex-row xl:justify-end">
                     {editing === p.id ? (
                       <>
                         <Button tone="primary" onClick={() => act(() => send(`/api/jobs/${jobId}/parts/${p.id}`, "PATCH", { quantity: qty.trim() === "" ? null : Number(qty) }))}>Save</Button>
@@ -101,6 +100,7 @@ export function PartsTable({ jobId, parts, unit, editable }: { jobId: number; pa
                         <Button tone="quiet" onClick={() => confirm(`Remove ${p.name} from this job?`) && act(() => send(`/api/jobs/${jobId}/parts/${p.id}`, "DELETE"))} aria-label={`Remove ${p.name}`}>Remove</Button>
                       </>
                     )}
+                    </div>
                   </td>
                 )}
               </tr>

@@ -63,7 +63,7 @@ export default async function JobsPage({ searchParams }: { searchParams: Promise
                       <td className="px-3 py-2 font-medium"><Link href={`/jobs/${j.id}`}>{j.name}</Link></td>
                       <td className="px-3 py-2">{j.customer ?? "–"}</td>
                       <td className={`whitespace-nowrap px-3 py-2 ${late ? "font-semibold text-ember" : ""}`}>{j.dueOn ?? "–"}{late && " · late"}</td>
-                      <td className="px-3 py-2"><JobStatusBadge status={j.status} /></td>
+                      <td className="whitespace-nowrap px-3 py-2"><JobStatusBadge status={j.status} /></td>
                       <td className="px-3 py-2 text-right tabular-nums">{j.lineCount}</td>
                       <td className="px-3 py-2 text-right tabular-nums">{j.pieceCount.toLocaleString("en")}</td>
                       <td className="px-3 py-2 text-right tabular-nums">{j.partVolumeM3.toFixed(3)}</td>
