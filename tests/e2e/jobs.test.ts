@@ -57,6 +57,7 @@ describe("a planner imports a part list into a job", () => {
     await jobs.addNacaPart("Tailplane", 4, "0009", 120, 90, 320);
     await expect.poll(async () => (await page.getByTestId("computed-box").textContent()) ?? "").toMatch(/Box 320 × 120(\.\d)? × 10\.8 mm/);
     expect(await jobs.preview().locator("path").count()).toBe(2);
+    await screenshot(page, "job-part-form-naca-wide");
     await jobs.submitPart();
     await expect.poll(() => jobs.partRows().count()).toBe(5);
 
