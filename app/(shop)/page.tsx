@@ -6,6 +6,7 @@ import { listUsers } from "@/db/queries/users";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { HotWireCaution } from "@/components/shell/safety-note";
 import { CutterFigures, PlannerFigures } from "@/components/home/role-figures";
+import { BuyerFigures, ManagerFigures } from "@/components/home/purchasing-figures";
 import { ROLE_DUTIES, ROLE_LABELS, type Role } from "@/lib/roles";
 import { formatLength } from "@/lib/units";
 
@@ -54,9 +55,8 @@ export default async function HomePage({ searchParams }: { searchParams: Promise
                 <Figure label="Layout rule" value={settings.layout} />
               </dl>
             )}
-            {(role === "buyer" || role === "manager") && (
-              <p className="mt-3 text-sm text-ink-faint">Figures for this role appear here as stock is received.</p>
-            )}
+            {role === "buyer" && <BuyerFigures />}
+            {role === "manager" && <ManagerFigures />}
           </Card>
         ))}
       </div>

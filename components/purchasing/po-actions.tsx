@@ -37,7 +37,7 @@ export function PoActions({ id, status, supplierEmail }: { id: number; status: P
           <Button disabled={busy} onClick={() => act("send", { email: true }, `Order e-mailed to ${supplierEmail} with the CSV attached.`)}>{status === "draft" ? "E-mail to supplier" : "E-mail again"}</Button>
         )}
         {status === "draft" && <Button tone="secondary" disabled={busy} onClick={() => act("send", { email: false }, "Marked as sent.")}>Mark sent (no e-mail)</Button>}
-        {(status === "sent" || status === "part_received") && <Link className={buttonClass("primary")} href={`/purchasing/orders/${id}/receive`}>Receive a delivery</Link>}
+        {(status === "sent" || status === "part_received") && <Link className={buttonClass("primary")} href={`/purchasing/orders/${id}/receive`}>Receive against this order</Link>}
         {status === "part_received" && <Button tone="secondary" disabled={busy} onClick={() => setAsking("close")}>Close short</Button>}
         {(status === "draft" || status === "sent") && <Button tone="danger" disabled={busy} onClick={() => setAsking("cancel")}>Cancel order</Button>}
         <a className={buttonClass("secondary")} href={`/api/purchase-orders/${id}/export`} download>Export CSV</a>

@@ -126,14 +126,15 @@ function Table({ rows, picked, setPicked, open, setOpen, suppliers, canEdit, emp
                     <span className="font-medium">{r.gradeCode}</span> {r.neverHotWire && <Badge tone="ember">never hot-wire</Badge>}
                     <p className="text-xs text-ink-faint">{r.supplier ? r.supplier.name : "no usual supplier"}{r.supplierSource === "override" && " (chosen)"}</p>
                   </td>
-                  <td className="px-3 py-2 text-right tabular-nums">{f(r.onHand)} m³</td>
-                  <td className="px-3 py-2 text-right tabular-nums">{f(r.onOrder)} m³{r.inDraft > 0 && <p className="text-xs text-ink-faint">{f(r.inDraft)} in drafts</p>}</td>
-                  <td className="px-3 py-2 text-right tabular-nums">{f(r.result.reorderPoint)} m³</td>
+                  <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{f(r.onHand)} m³</td>
+                  <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{f(r.onOrder)} m³{r.inDraft > 0 && <p className="text-xs text-ink-faint">{f(r.inDraft)} in drafts</p>}</td>
+                  <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{f(r.result.reorderPoint)} m³</td>
                   <td className="px-3 py-2">
+                    {r.result.reorderPoint <= 0 ? <span className="text-xs text-ink-faint">no use lately, no open jobs</span> : (
                     <div className="relative h-3 w-32 rounded bg-paper-sunk" aria-label={`${Math.round((r.result.position / (r.result.reorderPoint || 1)) * 100)} % of the reorder point`}>
                       <div className={`absolute inset-y-0 left-0 rounded ${r.result.due ? "bg-wire" : "bg-moss"}`} style={{ width: `${(ratio / 1.5) * 100}%` }} />
                       <div className="absolute inset-y-[-3px] w-0.5 bg-ink" style={{ left: `${(1 / 1.5) * 100}%` }} title="reorder point" />
-                    </div>
+                    </div>)}
                   </td>
                   <td className="px-3 py-2 text-right tabular-nums">{r.result.due ? (r.result.suggestedBlocks !== null ? `${r.result.suggestedBlocks} blocks` : `${f(r.result.suggestedM3)} m³`) : "–"}{r.result.due && r.result.suggestedBlocks !== null && <p className="text-xs text-ink-faint">{f(r.result.suggestedM3)} m³</p>}</td>
                   <td className="px-3 py-2 text-right"><Button tone="quiet" onClick={() => setOpen(open === r.gradeId ? null : r.gradeId)} aria-expanded={open === r.gradeId}>{open === r.gradeId ? "Hide" : "Why?"}</Button></td>

@@ -36,7 +36,7 @@ export function ReportChart({ type, data, xKey, series, unit, label }: { type: "
         ) : (
           <BarChart data={data} margin={{ top: 8, right: 12, bottom: 4, left: 0 }}>
             <CartesianGrid stroke={GRID} strokeDasharray="3 3" vertical={false} />
-            <XAxis dataKey={xKey} {...axis} interval={0} />
+            <XAxis dataKey={xKey} {...axis} interval={0} {...(data.length > 4 ? { angle: -35, textAnchor: "end", height: 56 } : {})} />
             <YAxis {...axis} width={56} />
             <Tooltip formatter={(v) => fmt(v)} />
             {series.length > 1 && <Legend />}

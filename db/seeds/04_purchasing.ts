@@ -36,6 +36,7 @@ export async function seed(knex: Knex): Promise<void> {
   const tallow = suppliers.get("Tallow Creek Foams")!;
 
   await knex("grade_reorder").insert([
+    { grade_id: grades.get("EPS-II")!.id, daily_demand_m3: 2, note: "Sign season forecast: about 2 m³ a day until February.", updated_by: "u-buyer" },
     { grade_id: grades.get("EPS-IX")!.id, service_level: 0.98, note: "Dense stage-floor foam: a stock-out stops the panto work.", updated_by: "u-buyer" },
     { grade_id: grades.get("XPS-IV")!.id, supplier_id: tallow.id, lead_time_days: 10, note: "Tallow Creek holds XPS boards for us.", updated_by: "u-buyer" },
   ]);
@@ -57,7 +58,7 @@ export async function seed(knex: Knex): Promise<void> {
   };
 
   // The orders behind the two newest EPS deliveries of the stock seed: one filled and closed,
-  // one partly received (three blocks still to come).
+  // one partly received (two blocks of its first line still to come).
   const recent = (await knex("deliveries as d")
     .join("blocks as b", "b.delivery_id", "d.id")
     .join("grades as g", "g.id", "b.grade_id")
@@ -87,10 +88,10 @@ export async function seed(knex: Knex): Promise<void> {
       sent: created + 1,
       expected: created + 15,
       closed: open ? undefined : created + 16,
-      lines: [...groups.values()].map((g) => {
+      lines: [...groups.values()].map((g, j) => {
         const unit = grades.get(g.grade)!.unit;
         const perM3 = g.cost / g.m3;
-        return { grade: g.grade, size: g.size, quantity: g.n + (open ? 3 : 0), price: Math.round((unit === "bf" ? perM3 / 423.776 : perM3) * 10000) / 10000 };
+        return { grade: g.grade, size: g.size, quantity: g.n + (open && j === 0 ? 2 : 0), price: Math.round((unit === "bf" ? perM3 / 423.776 : perM3) * 10000) / 10000 };
       }),
     });
     await knex("deliveries").where({ id: d.id }).update({ purchase_order_id: po.id });
@@ -105,7 +106,7 @@ export async function seed(knex: Knex): Promise<void> {
   const big: [number, number, number] = [4877, 1219, 1219];
   const sent = await order({
     supplierId: north.id, status: "sent", created: -4, sent: -4, expected: 12, notes: "Deliver to Bay A, mornings only.",
-    lines: [{ grade: "EPS-II", size: big, quantity: 6, price: 0.44 }, { grade: "EPS-IX", size: [3658, 1219, 610], quantity: 4, price: 0.61 }],
+    lines: [{ grade: "EPS-VIII", size: big, quantity: 3, price: 0.36 }, { grade: "EPS-IX", size: [3658, 1219, 610], quantity: 4, price: 0.61 }],
   });
   await order({ supplierId: ash.id, status: "draft", created: -1, expected: 14, notes: "Drafted from the reorder list.", lines: [{ grade: "EPS-I", size: big, quantity: 5, price: 0.31, note: "Kestrel kits need the lighter grade." }] });
   await order({ supplierId: tallow.id, status: "cancelled", created: -30, sent: -29, expected: -10, closed: -25, cancel: "Supplier could not mould before the panto deadline; bought elsewhere.", lines: [{ grade: "EPS-VIII", size: [4000, 1200, 1000], quantity: 3, price: 0.38 }] });

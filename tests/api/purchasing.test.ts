@@ -237,7 +237,7 @@ describe("the reorder list", () => {
   it("shows every input with its source and a reorder point that follows from them", async () => {
     const res = await buyer.get("/api/reorder");
     expect(res.status).toBe(200);
-    const eps = res.body.items.find((r: { gradeCode: string }) => r.gradeCode === "EPS-II");
+    const eps = res.body.items.find((r: { gradeCode: string }) => r.gradeCode === "EPS-I");
     expect(eps.dailyDemand.source).toBe("ledger");
     expect(eps.leadTimeDays.source).toBe("supplier");
     expect(eps.committed.source).toBe("jobs");
@@ -267,14 +267,14 @@ describe("the reorder list", () => {
   });
 
   it("e-mails buyers the due grades when asked, as the scheduled job does", async () => {
-    const ii = await gradeId("EPS-II");
-    await buyer.put(`/api/reorder/${ii}`, { reorderPointM3: 10_000 });
+    const viii = await gradeId("EPS-VIII");
+    await buyer.put(`/api/reorder/${viii}`, { reorderPointM3: 10_000 });
     const res = await buyer.post("/api/reorder/alert");
     expect(res.status, JSON.stringify(res.body)).toBe(200);
-    expect(res.body.grades).toContain("EPS-II");
+    expect(res.body.grades).toContain("EPS-VIII");
     expect(res.body.sentTo).toContain("buyer@demo.blockyard.test");
     const row = await testDb()("mail_outbox").where({ kind: "low_stock", to_address: "buyer@demo.blockyard.test" }).orderBy("id", "desc").first();
     expect(row.subject).toMatch(/reorder point/);
-    await buyer.put(`/api/reorder/${ii}`, {});
+    await buyer.put(`/api/reorder/${viii}`, {});
   });
 });

@@ -73,7 +73,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
           </div>
           <details className="mt-4">
             <summary className="cursor-pointer text-sm font-medium text-kerf">By lot ({suppliers.byLot.length})</summary>
-            <div className="mt-2"><Table head={["Supplier", "Lot", "Blocks", "m³", "Defects", "per m³", "Under density"]} rows={suppliers.byLot.map((s) => [s.supplier, s.lot ?? "–", String(s.blocks), m3(s.m3), String(s.defects), s.defectsPerM3?.toFixed(3) ?? "–", `${s.belowMinDensity} of ${s.weighed}`])} /></div>
+            <div className="mt-2"><Table left={2} head={["Supplier", "Lot", "Blocks", "m³", "Defects", "per m³", "Under density"]} rows={suppliers.byLot.map((s) => [s.supplier, s.lot ?? "–", String(s.blocks), m3(s.m3), String(s.defects), s.defectsPerM3?.toFixed(3) ?? "–", `${s.belowMinDensity} of ${s.weighed}`])} /></div>
           </details>
           {suppliers.lowDensity.length > 0 && (
             <div className="mt-4"><Notice tone="caution" title="Below the grade's minimum density">{suppliers.lowDensity.map((b) => `${b.code} (${b.grade}, ${b.supplier}, lot ${b.lot}): ${b.density} kg/m³ < ${b.minDensity}`).join("; ")}</Notice></div>
@@ -83,7 +83,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
         <Section id="stock-value" title="Stock value" csv={csv("stock-value")} lead={<>On hand at the end of {period.to}, from the stock ledger: {m3(stock.total.m3)} m³, {stock.total.boardFeet.toLocaleString("en")} BF, {money(stock.total.value)}. Locations are where the blocks are now.</>}>
           <div className="grid gap-5 xl:grid-cols-[2fr_3fr]">
             <ReportChart type="bar" label="Stock value by grade" xKey="grade" unit="$" data={stock.byGrade.map((g) => ({ grade: g.grade, value: g.value }))} series={[{ key: "value", label: "Value", colour: COLOURS.moss }]} />
-            <Table head={["Grade", "Location", "Blocks", "m³", "Value"]} rows={stock.rows.map((r) => [r.grade, r.location, String(r.blocks), m3(r.m3), money(r.value)])} foot={["All grades", "All locations", String(stock.total.blocks), m3(stock.total.m3), money(stock.total.value)]} />
+            <Table left={2} head={["Grade", "Location", "Blocks", "m³", "Value"]} rows={stock.rows.map((r) => [r.grade, r.location, String(r.blocks), m3(r.m3), money(r.value)])} foot={["All grades", "All locations", String(stock.total.blocks), m3(stock.total.m3), money(stock.total.value)]} />
           </div>
         </Section>
       </div>
@@ -107,21 +107,22 @@ function Basis({ basis }: { basis: keyof typeof BASIS_LABEL }) {
 function YieldTable({ rows, first, total }: { rows: (YieldRow & { customer?: string | null })[]; first: string; total?: YieldRow }) {
   return (
     <Table
-      head={[first, "Parts m³", "Net stock m³", "Yield", "Volume"]}
+      head={[first, "Parts m³", "Net m³", "Yield", "Volume"]}
       rows={rows.map((r) => [r.label.replace(/^Week of /, ""), m3(r.partM3), m3(r.issuedM3 - r.offcutM3), r.yieldPct === null ? "–" : `${r.yieldPct} %`, r.basis ?? "–"])}
       foot={total ? ["All", m3(total.partM3), m3(total.issuedM3 - total.offcutM3), total.yieldPct === null ? "–" : `${total.yieldPct} %`, total.basis ?? "–"] : undefined}
     />
   );
 }
 
-function Table({ head, rows, foot }: { head: string[]; rows: string[][]; foot?: string[] }) {
+/** A plain figures table: the first `left` columns are text, the rest right-aligned numbers. */
+function Table({ head, rows, foot, left = 1 }: { head: string[]; rows: string[][]; foot?: string[]; left?: number }) {
   if (!rows.length) return <p className="text-sm text-ink-faint">Nothing in this period.</p>;
   return (
     <div className="overflow-x-auto">
       <table>
-        <thead className="border-b border-bead"><tr>{head.map((h, i) => <th key={h} className={`py-1.5 pr-3 ${i > 0 ? "text-right" : ""}`}>{h}</th>)}</tr></thead>
-        <tbody>{rows.map((r, i) => <tr key={i} className="border-b border-bead/60 last:border-0">{r.map((c, j) => <td key={j} className={`py-1.5 pr-3 ${j > 0 ? "text-right tabular-nums" : ""}`}>{c}</td>)}</tr>)}</tbody>
-        {foot && <tfoot><tr className="border-t border-bead font-medium">{foot.map((c, j) => <td key={j} className={`py-1.5 pr-3 ${j > 0 ? "text-right tabular-nums" : ""}`}>{c}</td>)}</tr></tfoot>}
+        <thead className="border-b border-bead"><tr>{head.map((h, i) => <th key={h} className={`py-1.5 pr-3 ${i >= left ? "text-right" : ""}`}>{h}</th>)}</tr></thead>
+        <tbody>{rows.map((r, i) => <tr key={i} className="border-b border-bead/60 last:border-0">{r.map((c, j) => <td key={j} className={`py-1.5 pr-3 ${j >= left ? "whitespace-nowrap text-right tabular-nums" : ""}`}>{c}</td>)}</tr>)}</tbody>
+        {foot && <tfoot><tr className="border-t border-bead font-medium">{foot.map((c, j) => <td key={j} className={`py-1.5 pr-3 ${j >= left ? "whitespace-nowrap text-right tabular-nums" : ""}`}>{c}</td>)}</tr></tfoot>}
       </table>
     </div>
   );
