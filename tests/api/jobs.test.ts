@@ -57,6 +57,9 @@ describe("jobs", () => {
     expect(p2.body.items.filter((j: { id: number }) => ids1.includes(j.id))).toEqual([]);
     const dues = all.body.items.map((j: { dueOn: string | null }) => j.dueOn).filter(Boolean);
     expect([...dues].sort()).toEqual(dues);
+    const found = await planner.get("/api/jobs?status=all&q=larkspur");
+    expect(found.body.total).toBeGreaterThan(0);
+    for (const j of found.body.items) expect(`${j.name} ${j.customer}`.toLowerCase()).toContain("larkspur");
   });
 
   it("refuses bad input by field and saves nothing", async () => {
