@@ -6,6 +6,8 @@ import { closeTestDb, ledgerGap, tableCounts, testDb } from "../support/db";
 import { makeOrder } from "../support/purchasing-fixtures";
 import { attachment, parseMime } from "../support/mime";
 import { PO_CSV_COLUMNS } from "@/lib/purchasing/orders";
+import { createBoss } from "@/lib/jobs/boss";
+import { QUEUES } from "@/lib/jobs/queues";
 
 let buyer: Client;
 let manager: Client;
@@ -277,4 +279,26 @@ describe("the reorder list", () => {
     expect(row.subject).toMatch(/reorder point/);
     await buyer.put(`/api/reorder/${viii}`, {});
   });
+
+  it("runs the low-stock alert as a background job through pg-boss (the worker `npm test` starts)", async () => {
+    const viii = await gradeId("EPS-VIII");
+    await buyer.put(`/api/reorder/${viii}`, { reorderPointM3: 10_000 });
+    const last = (await testDb()("mail_outbox").max({ id: "id" }).first())?.id ?? 0;
+    const boss = createBoss("sender");
+    await boss.start();
+    try {
+      await boss.createQueue(QUEUES.lowStockAlert);
+      expect(await boss.send(QUEUES.lowStockAlert, {})).toBeTruthy();
+      let row: { subject: string } | undefined;
+      for (let i = 0; i < 60 && !row; i++) {
+        row = await testDb()("mail_outbox").where("id", ">", last).where({ kind: "low_stock" }).first();
+        if (!row) await new Promise((r) => setTimeout(r, 500));
+      }
+      expect(row?.subject).toMatch(/EPS-VIII|reorder point/);
+    } finally {
+      await boss.stop({ graceful: false, wait: false }).catch(() => {});
+      await buyer.put(`/api/reorder/${viii}`, {});
+    }
+  });
 });
+
