@@ -3,6 +3,7 @@ import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
 import { SignInPage } from "./pages/sign-in";
 import { JobsPage } from "./pages/jobs";
+import { closeTestDb, makeBlock } from "../support/db";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -10,6 +11,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await browser?.close();
+  await closeTestDb();
 });
 
 async function signedIn(role: string, viewport: { width: number; height: number } = VIEWPORTS.wide): Promise<Page> {
@@ -35,9 +37,12 @@ describe("the planner's and the cutter's loop", () => {
     await jobs.confirmImport();
     await expect.poll(() => jobs.partRows().count(), { timeout: 10_000 }).toBe(3);
 
-    // Plan it: the proposed stock, a short budget, and a bar that moves.
+    // Plan it into one fresh block (so offcuts are certain), a short budget, and a bar that moves.
+    const block = await makeBlock({ size: [2440, 1220, 610], gradeCode: "EPS-II" });
     await planner.getByRole("link", { name: "Plan this job" }).click();
     await planner.waitForURL(/\/plans\/new\?jobs=/);
+    await planner.getByRole("button", { name: "None" }).click();
+    await planner.getByLabel(`Use ${block.code}`).check();
     await planner.getByLabel("Time budget (ms)").fill("1500");
     await planner.getByRole("button", { name: "Start nesting" }).click();
     await planner.waitForURL(/\/plans\/\d+$/);
