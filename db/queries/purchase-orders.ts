@@ -7,7 +7,7 @@ import { HttpError, notFound } from "@/lib/errors";
 import { poActionRefusal, type PoAction, type PoLine, type PoStatus, type PurchaseOrder } from "@/lib/purchasing/orders";
 import { priceFor, type PriceUnit } from "@/lib/purchasing/pricing";
 import { receivingCheck } from "@/lib/purchasing/reorder";
-import { isoDate } from "@/lib/stock";
+import { addDays, isoDate } from "@/lib/stock";
 import type { PurchaseOrderInput, ReceivePoInput } from "@/lib/validations/purchasing";
 import type { DeliveryInput } from "@/lib/validations/stock";
 
@@ -212,7 +212,8 @@ export async function draftFromReorder(gradeIds: number[], expectedOn: string | 
     for (const [supplierId, grades] of bySupplier) {
       const input: PurchaseOrderInput = {
         supplierId,
-        expectedOn: expectedOn ?? null,
+        // Unless the buyer says, expect it after the longest lead time among its grades.
+        expectedOn: expectedOn ?? addDays(isoDate(), Math.max(...grades.map((r) => r.leadTimeDays.value))),
         notes: "Drafted from the reorder list.",
         lines: grades.map((r) => ({
           gradeId: r.gradeId,

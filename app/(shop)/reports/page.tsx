@@ -7,6 +7,7 @@ import { Button } from "@/components/ui/button";
 import { Field, Input } from "@/components/ui/field";
 import { ReportChart } from "@/components/reports/report-chart";
 import { BASIS_LABEL } from "@/lib/reports/yield";
+import { StorageCaution } from "@/components/safety/storage-caution";
 
 export const metadata: Metadata = { title: "Reports" };
 
@@ -76,7 +77,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
             <div className="mt-2"><Table left={2} head={["Supplier", "Lot", "Blocks", "m³", "Defects", "per m³", "Under density"]} rows={suppliers.byLot.map((s) => [s.supplier, s.lot ?? "–", String(s.blocks), m3(s.m3), String(s.defects), s.defectsPerM3?.toFixed(3) ?? "–", `${s.belowMinDensity} of ${s.weighed}`])} /></div>
           </details>
           {suppliers.lowDensity.length > 0 && (
-            <div className="mt-4"><Notice tone="caution" title="Below the grade's minimum density">{suppliers.lowDensity.map((b) => `${b.code} (${b.grade}, ${b.supplier}, lot ${b.lot}): ${b.density} kg/m³ < ${b.minDensity}`).join("; ")}</Notice></div>
+            <div className="mt-4"><Notice tone="caution" title="Below the grade's minimum density">{suppliers.lowDensity.length} blocks weighed under their grade&apos;s minimum: {suppliers.lowDensity.slice(0, 6).map((b) => `${b.code} (${b.grade}, ${b.supplier.split(" ")[0]}, lot ${b.lot}) ${b.density} < ${b.minDensity} kg/m³`).join("; ")}{suppliers.lowDensity.length > 6 && `; and ${suppliers.lowDensity.length - 6} more (in the CSV by lot)`}.</Notice></div>
           )}
         </Section>
 
@@ -85,6 +86,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
             <ReportChart type="bar" label="Stock value by grade" xKey="grade" unit="$" data={stock.byGrade.map((g) => ({ grade: g.grade, value: g.value }))} series={[{ key: "value", label: "Value", colour: COLOURS.moss }]} />
             <Table left={2} head={["Grade", "Location", "Blocks", "m³", "Value"]} rows={stock.rows.map((r) => [r.grade, r.location, String(r.blocks), m3(r.m3), money(r.value)])} foot={["All grades", "All locations", String(stock.total.blocks), m3(stock.total.m3), money(stock.total.value)]} />
           </div>
+          <div className="mt-4"><StorageCaution compact /></div>
         </Section>
       </div>
     </>

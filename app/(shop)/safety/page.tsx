@@ -16,14 +16,14 @@ export default async function SafetyPage() {
       <div className="grid gap-5 lg:grid-cols-2">
         <Card title="Styrene limits">
           <table>
-            <thead className="border-b border-bead"><tr><th className="py-2">Limit</th><th className="text-right">ppm</th><th>Set by</th></tr></thead>
+            <thead className="border-b border-bead"><tr><th className="py-2">Limit</th><th className="text-right">ppm</th><th className="pl-6">Set by</th></tr></thead>
             <tbody>
-              <tr className="border-b border-bead/60"><td className="py-2">Permissible exposure limit, 8-hour TWA</td><td className="text-right tabular-nums" data-testid="osha-pel">{STYRENE.oshaPelTwaPpm}</td><td>OSHA</td></tr>
-              <tr className="border-b border-bead/60"><td className="py-2">Ceiling</td><td className="text-right tabular-nums">{STYRENE.oshaCeilingPpm}</td><td>OSHA</td></tr>
-              <tr className="border-b border-bead/60"><td className="py-2">Peak</td><td className="text-right tabular-nums">{STYRENE.oshaPeakPpm}</td><td>OSHA</td></tr>
-              <tr className="border-b border-bead/60"><td className="py-2">Recommended exposure limit, TWA</td><td className="text-right tabular-nums" data-testid="niosh-rel">{STYRENE.nioshRelTwaPpm}</td><td>NIOSH</td></tr>
-              <tr className="border-b border-bead/60"><td className="py-2">Short-term exposure limit</td><td className="text-right tabular-nums">{STYRENE.nioshStelPpm}</td><td>NIOSH</td></tr>
-              <tr><td className="py-2">Immediately dangerous to life or health</td><td className="text-right tabular-nums" data-testid="idlh">{STYRENE.idlhPpm}</td><td>NIOSH</td></tr>
+              <tr className="border-b border-bead/60"><td className="py-2">Permissible exposure limit, 8-hour TWA</td><td className="text-right tabular-nums" data-testid="osha-pel">{STYRENE.oshaPelTwaPpm}</td><td className="pl-6">OSHA</td></tr>
+              <tr className="border-b border-bead/60"><td className="py-2">Ceiling</td><td className="text-right tabular-nums">{STYRENE.oshaCeilingPpm}</td><td className="pl-6">OSHA</td></tr>
+              <tr className="border-b border-bead/60"><td className="py-2">Peak</td><td className="text-right tabular-nums">{STYRENE.oshaPeakPpm}</td><td className="pl-6">OSHA</td></tr>
+              <tr className="border-b border-bead/60"><td className="py-2">Recommended exposure limit, TWA</td><td className="text-right tabular-nums" data-testid="niosh-rel">{STYRENE.nioshRelTwaPpm}</td><td className="pl-6">NIOSH</td></tr>
+              <tr className="border-b border-bead/60"><td className="py-2">Short-term exposure limit</td><td className="text-right tabular-nums">{STYRENE.nioshStelPpm}</td><td className="pl-6">NIOSH</td></tr>
+              <tr><td className="py-2">Immediately dangerous to life or health</td><td className="text-right tabular-nums" data-testid="idlh">{STYRENE.idlhPpm}</td><td className="pl-6">NIOSH</td></tr>
             </tbody>
           </table>
         </Card>

@@ -48,12 +48,12 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
                     <tr key={l.id} className="border-b border-bead/60 last:border-0" data-testid={`line-${i + 1}`}>
                       <td className="px-3 py-2">{i + 1}</td>
                       <td className="px-3 py-2">{l.gradeCode}<p className="text-xs text-ink-faint">{l.gradeLabel}</p></td>
-                      <td className="px-3 py-2 tabular-nums">{l.size.join(" × ")}</td>
-                      <td className="px-3 py-2 text-right tabular-nums">{l.quantity}</td>
-                      <td className="px-3 py-2 text-right tabular-nums">{l.volumeM3.toFixed(3)} m³<p className="text-xs text-ink-faint">{Math.round(m3ToBoardFeet(l.volumeM3)).toLocaleString("en")} BF</p></td>
-                      <td className="px-3 py-2 text-right tabular-nums">{l.price} <span className="text-xs text-ink-faint">{PRICE_UNIT_LABEL[l.priceUnit]}</span></td>
-                      <td className="px-3 py-2 text-right tabular-nums">{money(l.value)}</td>
-                      <td className="px-3 py-2 text-right tabular-nums">
+                      <td className="whitespace-nowrap px-3 py-2 tabular-nums">{l.size.join(" × ")}</td>
+                      <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{l.quantity}</td>
+                      <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{l.volumeM3.toFixed(3)} m³<p className="text-xs text-ink-faint">{Math.round(m3ToBoardFeet(l.volumeM3)).toLocaleString("en")} BF</p></td>
+                      <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{l.price} <span className="text-xs text-ink-faint">{PRICE_UNIT_LABEL[l.priceUnit]}</span></td>
+                      <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{money(l.value)}</td>
+                      <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">
                         {l.receivedBlocks} blocks · {Math.round(pctGot)} %
                         {l.overTolerance ? <p><Badge tone="wire">over +10 %</Badge></p> : pctGot >= 90 ? <p><Badge tone="moss">filled</Badge></p> : null}
                       </td>
@@ -61,7 +61,7 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
                   );
                 })}
               </tbody>
-              <tfoot><tr className="border-t border-bead font-medium"><td className="px-3 py-2" colSpan={4}>Total</td><td className="px-3 py-2 text-right tabular-nums">{po.volumeM3.toFixed(3)} m³</td><td /><td className="px-3 py-2 text-right tabular-nums">{money(po.value)}</td><td className="px-3 py-2 text-right tabular-nums">{po.volumeM3 > 0 ? Math.round((po.receivedM3 / po.volumeM3) * 100) : 0} %</td></tr></tfoot>
+              <tfoot><tr className="border-t border-bead font-medium"><td className="px-3 py-2" colSpan={4}>Total</td><td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{po.volumeM3.toFixed(3)} m³</td><td /><td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{money(po.value)}</td><td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{po.volumeM3 > 0 ? Math.round((po.receivedM3 / po.volumeM3) * 100) : 0} %</td></tr></tfoot>
             </table>
           </div>
           {po.notes && <p className="mt-3 text-sm text-ink-soft">Notes: {po.notes}</p>}
