@@ -35,6 +35,13 @@ export interface CsvProblem {
   message: string;
 }
 
+/** The one-line `error` of a refused import (its 422 answer is `{ error, problems, … }` like every 4xx). */
+export function problemSummary(problems: CsvProblem[]): string {
+  const first = problems[0];
+  const where = first ? ` First: row ${first.row}${first.column ? `, column “${first.column}”` : ""}: ${first.message}` : "";
+  return `The file has ${problems.length} problem${problems.length === 1 ? "" : "s"}; nothing was imported.${where}`;
+}
+
 export interface ParsedCsv {
   headers: string[];
   rows: Record<string, string>[];

@@ -5,6 +5,21 @@
  */
 import { createBoss } from "@/lib/jobs/boss";
 import { jobDefinitions } from "@/lib/jobs/registry";
+import { failStaleRuns } from "@/db/queries/runs";
+
+// A worker that dies mid-run leaves its run "running" with a stale heartbeat: every worker sweeps
+// such runs to "failed" at start and then periodically, so nobody waits on a dead one for ever.
+const STALE_SECONDS = Number(process.env.RUN_STALE_SECONDS ?? 90);
+const SWEEP_SECONDS = Number(process.env.RUN_SWEEP_SECONDS ?? 30);
+
+async function sweepStaleRuns() {
+  try {
+    const n = await failStaleRuns(STALE_SECONDS);
+    if (n) console.error(`[worker] marked ${n} stalled nesting run(s) failed`);
+  } catch (e) {
+    console.error("[worker] stale-run sweep:", e instanceof Error ? e.message : e);
+  }
+}
 
 async function main() {
   const boss = createBoss("worker");
@@ -17,8 +32,11 @@ async function main() {
     });
     if (def.schedule) await boss.schedule(def.queue, def.schedule.cron, def.schedule.data ?? {});
   }
+  await sweepStaleRuns();
+  const sweeper = setInterval(() => void sweepStaleRuns(), Math.max(1, SWEEP_SECONDS) * 1000);
   console.error(`[worker] ready: ${defs.map((d) => d.queue).join(", ") || "no queues"}`);
   const stop = async () => {
+    clearInterval(sweeper);
     await boss.stop({ graceful: true, timeout: 5000 }).catch(() => {});
     process.exit(0);
   };

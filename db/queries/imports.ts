@@ -2,7 +2,7 @@ import "server-only";
 import { db } from "@/db";
 import { receiveDelivery } from "./deliveries";
 import { appendLedger } from "./ledger";
-import { cellReader, parseCsv, type CsvProblem } from "@/lib/csv";
+import { cellReader, parseCsv, problemSummary, type CsvProblem } from "@/lib/csv";
 import type { DeliveryInput } from "@/lib/validations/stock";
 
 export const DELIVERY_COLUMNS = {
@@ -18,6 +18,8 @@ export const STOCK_COUNT_COLUMNS = {
 };
 
 export interface ImportReport {
+  /** Set when the file was refused (422): a one-line summary, as every 4xx answer carries. */
+  error?: string;
   committed: boolean;
   rows: number;
   problems: CsvProblem[];
@@ -30,7 +32,7 @@ const MAX_REPORTED = 500;
 
 function report(committed: boolean, rows: number, problems: CsvProblem[], warnings: CsvProblem[], summary: Record<string, number>): ImportReport {
   problems.sort((a, b) => a.row - b.row);
-  return { committed, rows, problems: problems.slice(0, MAX_REPORTED), problemCount: problems.length, warnings: warnings.slice(0, MAX_REPORTED), summary };
+  return { ...(problems.length ? { error: problemSummary(problems) } : {}), committed, rows, problems: problems.slice(0, MAX_REPORTED), problemCount: problems.length, warnings: warnings.slice(0, MAX_REPORTED), summary };
 }
 
 /**

@@ -2,7 +2,7 @@ import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
 import { HttpError } from "@/lib/errors";
-import { cellReader, parseCsv, type CsvProblem } from "@/lib/csv";
+import { cellReader, parseCsv, problemSummary, type CsvProblem } from "@/lib/csv";
 import { PART_CSV_COLUMNS, ROTATE_RULES, type JobStatus, type RotateRule } from "@/lib/job-terms";
 import { ProfileError, partGeometry, parsePoints, parseNaca, type Profile, type Size3 } from "@/lib/profiles";
 import type { ImportReport } from "./imports";
@@ -317,7 +317,7 @@ export async function importJobParts(jobId: number, bytes: Uint8Array, fileName:
   const { rows, problems } = parseCsv(bytes, PART_CSV_COLUMNS);
   const done = (committed: boolean, summary: Record<string, number>): ImportReport => {
     problems.sort((a, b) => a.row - b.row);
-    return { committed, rows: rows.length, problems: problems.slice(0, MAX_REPORTED), problemCount: problems.length, warnings: [], summary };
+    return { ...(problems.length ? { error: problemSummary(problems) } : {}), committed, rows: rows.length, problems: problems.slice(0, MAX_REPORTED), problemCount: problems.length, warnings: [], summary };
   };
   if (problems.some((p) => p.row === 1) || !rows.length) {
     if (!rows.length && !problems.length) problems.push({ row: 2, message: "The file has a header but no rows." });

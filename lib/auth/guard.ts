@@ -66,6 +66,18 @@ export function errorResponse(e: unknown): NextResponse {
       { status: e.status, headers: e.headers },
     );
   }
+  // Input that slipped past validation and was refused by Postgres itself is still the caller's
+  // input: a data exception (NUL in text, a number out of range) or a CHECK constraint is 400; a
+  // unique index refusing a write (a concurrent request took the same code first) is 409.
+  const pgCode = (e as { code?: unknown } | null)?.code;
+  if (typeof pgCode === "string" && (/^22[0-9A-Z]{3}$/.test(pgCode) || pgCode === "23514")) {
+    console.warn("[api] refused by the database (data exception)", pgCode, (e as Error).message?.slice(-200));
+    return NextResponse.json({ error: "A value cannot be stored: it is out of range or holds characters that are not allowed (such as NUL). Nothing was changed." }, { status: 400 });
+  }
+  if (pgCode === "23505") {
+    console.warn("[api] refused by the database (unique)", (e as { constraint?: string }).constraint);
+    return NextResponse.json({ error: "Another request saved the same code or name a moment ago. Nothing was changed; check and try again." }, { status: 409 });
+  }
   if (isDatabaseDown(e)) {
     return NextResponse.json(
       { error: "The database cannot be reached. Try again in a moment." },
