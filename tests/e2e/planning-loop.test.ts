@@ -74,7 +74,9 @@ describe("the planner's and the cutter's loop", () => {
     }
     await expect.poll(() => cutter.getByText(/ is cut$/).count(), { timeout: 15_000 }).toBe(n);
     const notes = await cutter.getByText(/Offcuts now in stock: /).allTextContents();
-    offcutCodes = notes.flatMap((t) => [...t.matchAll(/[A-Z]+-\d+(?:\.\d+)+/g)].map((m) => m[0]));
+    // Offcuts are numbered after their block: CODE.1, CODE.2, …
+    const ours = new RegExp(`${block.code.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}\\.\\d+`, "g");
+    offcutCodes = notes.flatMap((t) => [...t.matchAll(ours)].map((m) => m[0]));
     expect(offcutCodes.length).toBeGreaterThan(0);
     await cutter.goto(`${BASE_URL}/stock?offcuts=only&q=${encodeURIComponent(offcutCodes[0]!)}`);
     await cutter.getByRole("link", { name: offcutCodes[0]!, exact: true }).waitFor();
