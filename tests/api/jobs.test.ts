@@ -220,6 +220,7 @@ describe("part-list CSV import", () => {
     expect(res.status).toBe(422);
     expect(res.body.committed).toBe(false);
     expect(res.body.problems).toEqual([{ row: 28, column: "width_mm", message: "Must be more than 0." }]);
+    expect(res.body.error).toMatch(/row 28, column “width_mm”/);
     expect(await tableCounts()).toEqual(before);
   });
 
