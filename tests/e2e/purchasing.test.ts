@@ -105,6 +105,21 @@ describe("the buyer's reorder list", () => {
   });
 });
 
+describe("the admin's outbox", () => {
+  it("lists the mails sent, with their attachments", async () => {
+    const page = await signedIn("admin", VIEWPORTS.wide);
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox", exact: true }).click();
+    await page.getByRole("heading", { name: "Outbox", level: 1 }).waitFor();
+    expect(await page.locator('[data-testid^="mail-"]').count()).toBeGreaterThanOrEqual(2);
+    expect(await page.getByText(/^PO-\d{4}-\d{4}\.csv$/).count()).toBeGreaterThan(0);
+    await screenshot(page, "outbox-admin-wide");
+    await page.goto(`${BASE_URL}/purchasing/orders`);
+    await page.getByRole("heading", { name: "Purchase orders", level: 1 }).waitFor();
+    await screenshot(page, "po-list-admin-wide");
+    await page.context().close();
+  });
+});
+
 describe("the safety page", () => {
   it("lists the cautions with their sources for everyone", async () => {
     const page = await signedIn("cutter", VIEWPORTS.tablet);
