@@ -1,7 +1,7 @@
 "use client";
 
-import { useState } from "react";
-import { ApiError, send } from "@/lib/swr/fetcher";
+import { send } from "@/lib/swr/fetcher";
+import { useSubmit } from "@/components/ui/use-submit";
 import type { ShopSettings } from "@/lib/validations/settings";
 import { Field, Input, Select } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
@@ -10,9 +10,7 @@ import { Card, Notice } from "@/components/ui/card";
 const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
 
 export function SettingsForm({ initial }: { initial: ShopSettings }) {
-  const [fields, setFields] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
-  const [busy, setBusy] = useState(false);
+  const { busy, fields, message, submit } = useSubmit();
   const s = initial;
   return (
     <form
@@ -20,30 +18,21 @@ export function SettingsForm({ initial }: { initial: ShopSettings }) {
       onSubmit={async (e) => {
         e.preventDefault();
         const fd = new FormData(e.currentTarget);
-        setBusy(true);
-        setFields({});
-        setMessage(null);
-        try {
-          await send("/api/settings", "PUT", {
-            shopName: fd.get("shopName"),
-            displayUnits: fd.get("displayUnits"),
-            kerf: num(fd.get("kerf")),
-            trim: num(fd.get("trim")),
-            defectMargin: num(fd.get("defectMargin")),
-            minOffcut: [num(fd.get("minOffcut.0")), num(fd.get("minOffcut.1")), num(fd.get("minOffcut.2"))],
-            layout: fd.get("layout"),
-            feedMmPerMin: num(fd.get("feedMmPerMin")),
-            nestingTimeLimitMs: num(fd.get("nestingTimeLimitMs")),
-          });
-          setMessage({ tone: "success", text: "Shop settings saved. New nesting runs start from these." });
-        } catch (err) {
-          if (err instanceof ApiError) {
-            setFields(err.fields ?? {});
-            setMessage({ tone: "danger", text: err.message });
-          } else setMessage({ tone: "danger", text: "Settings were not saved." });
-        } finally {
-          setBusy(false);
-        }
+        await submit(
+          () =>
+            send("/api/settings", "PUT", {
+              shopName: fd.get("shopName"),
+              displayUnits: fd.get("displayUnits"),
+              kerf: num(fd.get("kerf")),
+              trim: num(fd.get("trim")),
+              defectMargin: num(fd.get("defectMargin")),
+              minOffcut: [num(fd.get("minOffcut.0")), num(fd.get("minOffcut.1")), num(fd.get("minOffcut.2"))],
+              layout: fd.get("layout"),
+              feedMmPerMin: num(fd.get("feedMmPerMin")),
+              nestingTimeLimitMs: num(fd.get("nestingTimeLimitMs")),
+            }),
+          { ok: "Shop settings saved. New nesting runs start from these.", failed: "Settings were not saved." },
+        );
       }}
     >
       {message && <Notice tone={message.tone}>{message.text}</Notice>}

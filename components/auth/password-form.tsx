@@ -1,15 +1,13 @@
 "use client";
 
-import { useState } from "react";
-import { ApiError, send } from "@/lib/swr/fetcher";
+import { send } from "@/lib/swr/fetcher";
+import { useSubmit } from "@/components/ui/use-submit";
 import { Field, Input } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 
 export function PasswordForm() {
-  const [fields, setFields] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
-  const [busy, setBusy] = useState(false);
+  const { busy, fields, message, setFields, submit } = useSubmit();
   return (
     <form
       className="max-w-md space-y-4"
@@ -17,25 +15,15 @@ export function PasswordForm() {
         e.preventDefault();
         const form = e.currentTarget;
         const fd = new FormData(form);
-        setFields({});
-        setMessage(null);
         if (fd.get("newPassword") !== fd.get("repeat")) {
           setFields({ repeat: "The two new passwords differ." });
           return;
         }
-        setBusy(true);
-        try {
-          await send("/api/me/password", "POST", { currentPassword: fd.get("currentPassword"), newPassword: fd.get("newPassword") });
-          form.reset();
-          setMessage({ tone: "success", text: "Password changed. Your other sessions were signed out." });
-        } catch (err) {
-          if (err instanceof ApiError) {
-            setFields(err.fields ?? {});
-            setMessage({ tone: "danger", text: err.message });
-          } else setMessage({ tone: "danger", text: "The password was not changed." });
-        } finally {
-          setBusy(false);
-        }
+        const done = await submit(() => send("/api/me/password", "POST", { currentPassword: fd.get("currentPassword"), newPassword: fd.get("newPassword") }), {
+          ok: "Password changed. Your other sessions were signed out.",
+          failed: "The password was not changed.",
+        });
+        if (done) form.reset();
       }}
     >
       {message && <Notice tone={message.tone}>{message.text}</Notice>}

@@ -2,7 +2,8 @@
 
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import { ApiError, send } from "@/lib/swr/fetcher";
+import { send } from "@/lib/swr/fetcher";
+import { useSubmit } from "@/components/ui/use-submit";
 import { Button } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
@@ -14,9 +15,7 @@ interface Candidate { id: number; code: string; gradeCode: string; size: [number
 export function NewRunForm({ jobIds, candidates, defaults }: { jobIds: number[]; candidates: Candidate[]; defaults: RunSettings }) {
   const router = useRouter();
   const [chosen, setChosen] = useState<Set<number>>(new Set(candidates.map((c) => c.id)));
-  const [fields, setFields] = useState<Record<string, string>>({});
-  const [error, setError] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
+  const { busy, fields, message, submit } = useSubmit();
   const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
   const toggle = (id: number) => setChosen((s) => { const n = new Set(s); if (n.has(id)) n.delete(id); else n.add(id); return n; });
   const volume = candidates.filter((c) => chosen.has(c.id)).reduce((s, c) => s + c.volumeM3, 0);
@@ -26,26 +25,22 @@ export function NewRunForm({ jobIds, candidates, defaults }: { jobIds: number[];
       onSubmit={async (e) => {
         e.preventDefault();
         const fd = new FormData(e.currentTarget);
-        setBusy(true);
-        setError(null);
-        setFields({});
-        try {
-          const { id } = await send<{ id: number }>("/api/runs", "POST", {
-            jobIds,
-            blockIds: [...chosen],
-            settings: {
-              kerf: num(fd.get("kerf")), trim: num(fd.get("trim")), defectMargin: num(fd.get("defectMargin")),
-              minOffcut: [num(fd.get("mo0")), num(fd.get("mo1")), num(fd.get("mo2"))], layout: fd.get("layout"), timeLimitMs: num(fd.get("timeLimitMs")),
-            },
-          });
-          router.push(`/plans/${id}`);
-        } catch (err) {
-          if (err instanceof ApiError) { setFields(err.fields ?? {}); setError(err.message); } else setError("The run was not started.");
-          setBusy(false);
-        }
+        const started = await submit(
+          () =>
+            send<{ id: number }>("/api/runs", "POST", {
+              jobIds,
+              blockIds: [...chosen],
+              settings: {
+                kerf: num(fd.get("kerf")), trim: num(fd.get("trim")), defectMargin: num(fd.get("defectMargin")),
+                minOffcut: [num(fd.get("mo0")), num(fd.get("mo1")), num(fd.get("mo2"))], layout: fd.get("layout"), timeLimitMs: num(fd.get("timeLimitMs")),
+              },
+            }),
+          { failed: "The run was not started." },
+        );
+        if (started) router.push(`/plans/${started.id}`);
       }}
     >
-      {error && <Notice tone="danger">{error}</Notice>}
+      {message && <Notice tone={message.tone}>{message.text}</Notice>}
       <Card title={`Stock to plan into (${chosen.size} of ${candidates.length}, ${volume.toFixed(2)} m³)`} action={<span className="text-sm text-ink-faint">ready, right grade, oldest first</span>}>
         {fields.blockIds && <p className="mb-2 text-sm text-ember">{fields.blockIds}</p>}
         {candidates.length === 0 ? (

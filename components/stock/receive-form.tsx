@@ -2,7 +2,8 @@
 
 import Link from "next/link";
 import { useState } from "react";
-import { ApiError, send } from "@/lib/swr/fetcher";
+import { send } from "@/lib/swr/fetcher";
+import { useSubmit } from "@/components/ui/use-submit";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
@@ -18,10 +19,8 @@ const blank = (from?: Partial<Row>): Row => ({ key: nextKey++, code: "", gradeId
 /** One delivery, many blocks: tab through measured sizes, copy a row for the next block of the same kind. */
 export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: number; name: string }[]; grades: GradeOption[]; unit: LengthUnit }) {
   const [rows, setRows] = useState<Row[]>([blank()]);
-  const [fields, setFields] = useState<Record<string, string>>({});
-  const [error, setError] = useState<string | null>(null);
+  const { busy, fields, message, submit } = useSubmit();
   const [done, setDone] = useState<{ codes: string[]; warnings: { index: number; message: string }[] } | null>(null);
-  const [busy, setBusy] = useState(false);
   const [receivedOn, setReceivedOn] = useState(isoDate());
   const toMm = (s: string) => (s.trim() === "" ? null : unit === "in" ? inToMm(Number(s)) : Number(s));
   const update = (key: number, patch: Partial<Row>) => setRows((rs) => rs.map((r) => (r.key === key ? { ...r, ...patch } : r)));
@@ -50,38 +49,30 @@ export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: numb
       onSubmit={async (e) => {
         e.preventDefault();
         const fd = new FormData(e.currentTarget);
-        setBusy(true);
-        setFields({});
-        setError(null);
-        try {
-          const res = await send<{ codes: string[]; warnings: { index: number; message: string }[] }>("/api/deliveries", "POST", {
-            supplierId: Number(fd.get("supplierId")) || null,
-            receivedOn: fd.get("receivedOn"),
-            poRef: fd.get("poRef"),
-            lot: fd.get("lot"),
-            notes: fd.get("notes"),
-            blocks: rows.map((r) => ({
-              code: r.code || null,
-              gradeId: Number(r.gradeId) || null,
-              size: [toMm(r.x), toMm(r.y), toMm(r.z)],
-              weightKg: r.weight ? Number(r.weight) : null,
-              cost: r.cost === "" ? null : Number(r.cost),
-              location: r.location,
-              mouldedOn: r.mouldedOn || null,
-            })),
-          });
-          setDone(res);
-        } catch (err) {
-          if (err instanceof ApiError) {
-            setFields(err.fields ?? {});
-            setError(err.message);
-          } else setError("The delivery was not saved.");
-        } finally {
-          setBusy(false);
-        }
+        const res = await submit(
+          () =>
+            send<{ codes: string[]; warnings: { index: number; message: string }[] }>("/api/deliveries", "POST", {
+              supplierId: Number(fd.get("supplierId")) || null,
+              receivedOn: fd.get("receivedOn"),
+              poRef: fd.get("poRef"),
+              lot: fd.get("lot"),
+              notes: fd.get("notes"),
+              blocks: rows.map((r) => ({
+                code: r.code || null,
+                gradeId: Number(r.gradeId) || null,
+                size: [toMm(r.x), toMm(r.y), toMm(r.z)],
+                weightKg: r.weight ? Number(r.weight) : null,
+                cost: r.cost === "" ? null : Number(r.cost),
+                location: r.location,
+                mouldedOn: r.mouldedOn || null,
+              })),
+            }),
+          { failed: "The delivery was not saved." },
+        );
+        if (res) setDone(res);
       }}
     >
-      {error && <Notice tone="danger">{error} Nothing was saved.</Notice>}
+      {message && <Notice tone={message.tone}>{message.text} Nothing was saved.</Notice>}
       <Card title="The delivery">
         <div className="grid gap-4 md:grid-cols-2 lg:grid-cols-4">
           <Field label="Supplier" name="supplierId" error={fields.supplierId}>

@@ -3,38 +3,12 @@ import type { Knex } from "knex";
 import { db } from "@/db";
 import { appendLedger } from "./ledger";
 import { HttpError } from "@/lib/errors";
-import { isoDate, shownStatus, type BlockStatus, type Material, type ShownStatus } from "@/lib/stock";
+import { isoDate, shownStatus, type BlockStatus, type Material } from "@/lib/stock";
 import type { BlockQuery } from "@/lib/validations/stock";
 
-export type Size = [number, number, number];
+import type { BlockSummary, Size } from "@/lib/stock-types";
 
-export interface BlockSummary {
-  id: number;
-  code: string;
-  gradeId: number;
-  gradeCode: string;
-  material: Material;
-  neverHotWire: boolean;
-  colour: string;
-  lot: string;
-  size: Size;
-  volumeM3: number;
-  weightKg: number | null;
-  densityKgM3: number | null;
-  minDensity: number | null;
-  cost: number;
-  location: string;
-  mouldedOn: string | null;
-  cutNotBefore: string;
-  status: BlockStatus;
-  shown: ShownStatus;
-  isOffcut: boolean;
-  parentId: number | null;
-  defectCount: number;
-  fifo: number | null;
-  receivedOn: string | null;
-  supplier: string | null;
-}
+export type { BlockSummary, Size };
 
 export interface BlockDetail extends BlockSummary {
   nominalSize: Size;
@@ -170,13 +144,8 @@ const SORT_COLUMNS: Record<BlockQuery["sort"], string> = {
   cost: "b.cost",
 };
 
-export interface BlockList {
-  items: BlockSummary[];
-  total: number;
-  totals: { volumeM3: number; value: number };
-  page: number;
-  pageSize: number;
-}
+export type { BlockList } from "@/lib/stock-types";
+import type { BlockList } from "@/lib/stock-types";
 
 /**
  *   listBlocks({ status: "ready", grade: 2, sort: "received", page: 1, pageSize: 50 })
@@ -184,16 +153,17 @@ export interface BlockList {
  */
 export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<BlockList> {
   const k = db();
-  const filtered = applyFilters(
-    k("blocks as b").join("grades as g", "g.id", "b.grade_id"),
-    f,
-    today,
-  );
-  const pageQ = applyFilters(selectBlocks(k), f, today)
+  // No filter reads the grade: counting and totals need the blocks alone (a covering index).
+  const filtered = applyFilters(k("blocks as b"), f, today);
+  // The page's ids first, from the narrow index, so a deep page does not build (and count the
+  // defects of) every row it skips; then the full rows of those ids only.
+  const pageIds = applyFilters(f.sort === "grade" ? k("blocks as b").join("grades as g", "g.id", "b.grade_id") : k("blocks as b"), f, today)
+    .select("b.id")
     .orderBy(SORT_COLUMNS[f.sort], f.dir)
     .orderBy("b.id", f.dir)
     .limit(f.pageSize)
     .offset((f.page - 1) * f.pageSize);
+  const pageQ = selectBlocks(k).whereIn("b.id", pageIds).orderBy(SORT_COLUMNS[f.sort], f.dir).orderBy("b.id", f.dir);
   const [rows, totals] = await Promise.all([
     pageQ,
     filtered
@@ -212,22 +182,30 @@ export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<Bloc
   };
 }
 
-/** First-in, first-out position among ready stock of the same grade (oldest moulding/receipt first). */
+/**
+ * First-in, first-out position among ready stock of the same grade (oldest moulding/receipt first,
+ * `fifo_on`). Ranks in the order of the blocks_fifo index, and only up to the page's latest block
+ * in each grade: nothing after it can change the positions shown.
+ */
 async function attachFifo(items: BlockSummary[], today: string) {
   const ready = items.filter((b) => b.shown === "ready");
   if (!ready.length) return;
+  const ids = ready.map((b) => b.id);
   const rows = await db()
+    .with("upto", db()("blocks").whereIn("id", ids).groupBy("grade_id").select("grade_id", db().raw("max(fifo_on) AS fifo_on")))
     .with(
       "ranked",
-      db()("blocks as b")
-        .select("b.id", db().raw("row_number() OVER (PARTITION BY b.grade_id ORDER BY coalesce(b.moulded_on, b.created_at::date), b.id) AS fifo"))
+      db()("upto as u")
+        .join("blocks as b", function () {
+          this.on("b.grade_id", "u.grade_id").andOn("b.fifo_on", "<=", "u.fifo_on");
+        })
+        .select("b.id", db().raw("row_number() OVER (PARTITION BY b.grade_id ORDER BY b.fifo_on, b.id) AS fifo"))
         .where("b.status", "in_stock")
-        .where("b.cut_not_before", "<=", today)
-        .whereIn("b.grade_id", [...new Set(ready.map((b) => b.gradeId))]),
+        .where("b.cut_not_before", "<=", today),
     )
     .select("id", "fifo")
     .from("ranked")
-    .whereIn("id", ready.map((b) => b.id));
+    .whereIn("id", ids);
   const byId = new Map((rows as { id: number; fifo: string }[]).map((r) => [r.id, Number(r.fifo)]));
   for (const b of ready) b.fifo = byId.get(b.id) ?? null;
 }

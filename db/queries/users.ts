@@ -4,15 +4,9 @@ import type { Knex } from "knex";
 import { db } from "@/db";
 import { isRole, type Role } from "@/lib/roles";
 
-export interface UserSummary {
-  id: string;
-  email: string;
-  name: string;
-  active: boolean;
-  mustChangePassword: boolean;
-  roles: Role[];
-  createdAt: string;
-}
+import type { UserSummary } from "@/lib/user-types";
+
+export type { UserSummary };
 
 interface UserRow {
   id: string;

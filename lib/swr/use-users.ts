@@ -2,17 +2,9 @@
 
 import useSWR from "swr";
 import { fetcher } from "./fetcher";
-import type { Role } from "@/lib/roles";
+import type { UserSummary } from "@/lib/user-types";
 
-export interface UserRow {
-  id: string;
-  email: string;
-  name: string;
-  active: boolean;
-  mustChangePassword: boolean;
-  roles: Role[];
-  createdAt: string;
-}
+export type UserRow = UserSummary;
 
 export function useUsers(fallback?: UserRow[]) {
   return useSWR<{ items: UserRow[] }>("/api/admin/users", fetcher, fallback ? { fallbackData: { items: fallback } } : undefined);
