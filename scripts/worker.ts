@@ -26,7 +26,12 @@ async function main() {
   await boss.start();
   const defs = await jobDefinitions();
   for (const def of defs) {
-    await boss.createQueue(def.queue, { name: def.queue, ...(def.options ?? {}) });
+    // Several workers may start at once: whoever creates the queue first wins, the others use it.
+    if (!(await boss.getQueue(def.queue))) {
+      await boss.createQueue(def.queue, { name: def.queue, ...(def.options ?? {}) }).catch(async (e) => {
+        if (!(await boss.getQueue(def.queue))) throw e;
+      });
+    }
     await boss.work<unknown>(def.queue, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async (jobs) => {
       for (const job of jobs) await def.handle(job.data as never, { id: job.id });
     });

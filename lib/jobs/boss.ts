@@ -33,8 +33,27 @@ export function sender(): Promise<PgBoss> {
   return g.blockyardBoss;
 }
 
+const queuesMade = new Map<string, Promise<void>>();
+
+/** Creates a queue once per process: concurrent first sends must not race to create it. */
+function ensureQueue(boss: PgBoss, queue: string): Promise<void> {
+  let made = queuesMade.get(queue);
+  if (!made) {
+    made = (async () => {
+      if (!(await boss.getQueue(queue))) {
+        await boss.createQueue(queue).catch(async (e) => {
+          if (!(await boss.getQueue(queue))) throw e; // another process made it first: fine
+        });
+      }
+    })();
+    made.catch(() => queuesMade.delete(queue));
+    queuesMade.set(queue, made);
+  }
+  return made;
+}
+
 export async function enqueue(queue: string, data: object, options: PgBoss.SendOptions = {}): Promise<string | null> {
   const boss = await sender();
-  await boss.createQueue(queue);
+  await ensureQueue(boss, queue);
   return boss.send(queue, data, options);
 }
