@@ -1,0 +1,140 @@
+/**
+ * `npm run bench:stock`: 50,000 blocks in a throwaway database, then p50/p95 of `GET /api/blocks`
+ * for the filters people use, and the time of a 10,000-row deliveries CSV import (commit).
+ * Targets: p95 under 150 ms; import under 5 s. Prints figures; asserts nothing. Starts its own
+ * cluster, S3 fake and app (TEST_SLOT, default 5) and stops them when done.
+ *
+ *   npm run bench:stock              # 50,000 blocks, 60 timed requests per filter
+ *   npm run bench:stock -- --blocks 20000 --runs 30 --explain
+ */
+import fs from "node:fs";
+import knex from "knex";
+import { BENCH_SLOT, ms, percentile, signIn, startBenchStack } from "./bench-stack";
+import { DEMO_PASSWORD } from "../db/seeds/01_shop";
+
+const arg = (name: string, fallback: number) => {
+  const i = process.argv.indexOf(`--${name}`);
+  return i > 0 ? Number(process.argv[i + 1]) : fallback;
+};
+const BLOCKS = arg("blocks", 50_000);
+const RUNS = arg("runs", 60);
+const IMPORT_ROWS = arg("import-rows", 10_000);
+const EXPLAIN = process.argv.includes("--explain");
+
+/** 50,000 blocks with their "received" ledger rows, spread over grades, statuses, sizes and ages. */
+async function seedBlocks(databaseUrl: string) {
+  const k = knex({ client: "pg", connection: databaseUrl });
+  try {
+    const t = Date.now();
+    await k.raw(
+      `INSERT INTO blocks (code, grade_id, lot, nominal_x, nominal_y, nominal_z, size_x, size_y, size_z, weight_kg, cost, location, moulded_on, cut_not_before, status, parent_id, created_at)
+       SELECT 'BN-' || lpad(i::text, 6, '0'),
+              (SELECT id FROM grades ORDER BY id OFFSET (i % (SELECT count(*) FROM grades)) LIMIT 1),
+              'BL-' || (i / 40),
+              sx, sy, sz, sx, sy, sz,
+              round((sx * sy * sz / 1e9 * (18 + i % 12))::numeric, 3),
+              round((sx * sy * sz / 1e9 * 95)::numeric, 2),
+              'Bay ' || chr(65 + i % 8) || ' – rack ' || (i % 12),
+              date '2026-01-01' + (i % 330),
+              date '2026-01-01' + (i % 330) + (i % 30),
+              CASE WHEN i % 10 < 6 THEN 'in_stock' WHEN i % 10 = 6 THEN 'earmarked' WHEN i % 10 < 9 THEN 'cut' ELSE 'written_off' END,
+              NULL,
+              timestamptz '2026-01-01' + (i || ' minutes')::interval * 9
+         FROM (SELECT i, (300 + (i * 37) % 4600)::numeric AS sx, (200 + (i * 53) % 1100)::numeric AS sy, (50 + (i * 71) % 600)::numeric AS sz
+                 FROM generate_series(1, ?) AS i) s`,
+      [BLOCKS],
+    );
+    await k.raw(
+      `INSERT INTO stock_ledger (block_id, kind, volume_m3, delta_m3, value, delta_value, reason, at)
+       SELECT id, 'received', volume_m3, volume_m3, cost, cost, 'bench seed', created_at FROM blocks WHERE code LIKE 'BN-%'`,
+    );
+    await k.raw("ANALYZE");
+    process.stderr.write(`[bench] seeded ${BLOCKS} blocks in ${((Date.now() - t) / 1000).toFixed(1)} s\n`);
+  } finally {
+    await k.destroy();
+  }
+}
+
+async function main() {
+  const stack = await startBenchStack("bench-stock", { beforeServe: seedBlocks });
+  const lines: string[] = [];
+  const out = (s: string) => {
+    lines.push(s);
+    console.log(s);
+  };
+  try {
+    const cookie = await signIn(stack.url, "admin@demo.blockyard.test", DEMO_PASSWORD);
+    const k = knex({ client: "pg", connection: stack.databaseUrl });
+    const grade = (await k("grades").where({ code: "EPS-II" }).first("id")).id as number;
+    await k.destroy();
+    const filters: [string, string][] = [
+      ["default (available, by received)", ""],
+      ["status ready", "status=ready"],
+      ["grade", `grade=${grade}`],
+      ["code prefix", "q=BN-012"],
+      ["size range", "minLength=1500&maxLength=2500"],
+      ["sort by volume, desc", "sort=volume&dir=desc"],
+      ["deep page (page 600)", "page=600"],
+      ["ready + grade + volume sort", `status=ready&grade=${grade}&sort=volume&dir=desc`],
+      ["all statuses, 200 per page", "status=all&pageSize=200"],
+    ];
+    out(`bench:stock — ${new Date().toISOString()} — ${BLOCKS.toLocaleString("en")} blocks (+ demo stock), ${RUNS} sequential requests per filter after 5 warm-ups, slot ${BENCH_SLOT}`);
+    out("");
+    out("| filter | p50 | p95 | max | total matched |");
+    out("| --- | --- | --- | --- | --- |");
+    const worst: { name: string; p95: number }[] = [];
+    for (const [name, query] of filters) {
+      const url = `${stack.url}/api/blocks${query ? `?${query}` : ""}`;
+      const times: number[] = [];
+      let total = 0;
+      for (let i = 0; i < RUNS + 5; i++) {
+        const t = performance.now();
+        const res = await fetch(url, { headers: { cookie } });
+        const body = (await res.json()) as { total?: number; error?: string };
+        const dt = performance.now() - t;
+        if (res.status !== 200) throw new Error(`${url}: ${res.status} ${JSON.stringify(body)}`);
+        total = body.total ?? 0;
+        if (i >= 5) times.push(dt);
+      }
+      times.sort((a, b) => a - b);
+      const p95 = percentile(times, 95);
+      worst.push({ name, p95 });
+      out(`| ${name} | ${ms(percentile(times, 50))} | ${ms(p95)} | ${ms(times.at(-1)!)} | ${total.toLocaleString("en")} |`);
+    }
+
+    // A 10,000-row deliveries file, timed from request to committed answer.
+    const rows = ["supplier,received_on,lot,grade,length_mm,width_mm,height_mm,cost,location,weight_kg"];
+    for (let i = 0; i < IMPORT_ROWS; i++) rows.push(`Ashcombe Bead & Block,2026-11-30,BENCH-${Math.floor(i / 100)},EPS-II,${2000 + (i % 400)},1000,${500 + (i % 100)},${60 + (i % 40)},Bay Z,${(22 * (2000 + (i % 400)) * (500 + (i % 100))) / 1e6}`);
+    const csv = rows.join("\n") + "\n";
+    const t = performance.now();
+    const res = await fetch(`${stack.url}/api/imports/deliveries?commit=1&name=bench.csv`, { method: "POST", headers: { cookie, origin: stack.url, "content-type": "text/csv" }, body: csv });
+    const took = performance.now() - t;
+    const report = (await res.json()) as { committed?: boolean; summary?: Record<string, number>; problemCount?: number; error?: string };
+    out("");
+    out(`10,000-row deliveries import (POST /api/imports/deliveries?commit=1, ${(csv.length / 1024 / 1024).toFixed(2)} MB): ${res.status} ${report.committed ? "committed" : "NOT committed"} ${report.summary?.blocks ?? 0} blocks in ${(took / 1000).toFixed(2)} s (target < 5 s)`);
+    const slowest = worst.sort((a, b) => b.p95 - a.p95)[0]!;
+    out(`slowest filter p95: ${slowest.name} ${ms(slowest.p95)} (target < 150 ms)`);
+
+    if (EXPLAIN) {
+      const k2 = knex({ client: "pg", connection: stack.databaseUrl });
+      const plan = await k2.raw(
+        `EXPLAIN (ANALYZE, BUFFERS) SELECT b.*, (SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id) AS defect_count
+           FROM blocks b JOIN grades g ON g.id = b.grade_id WHERE b.status IN ('in_stock','earmarked') ORDER BY b.created_at, b.id LIMIT 50 OFFSET 29950`,
+      );
+      console.log(plan.rows.map((r: Record<string, string>) => r["QUERY PLAN"]).join("\n"));
+      await k2.destroy();
+    }
+    fs.mkdirSync("bench-results", { recursive: true });
+    fs.writeFileSync(`bench-results/stock-${new Date().toISOString().slice(0, 10)}.md`, lines.join("\n") + "\n");
+  } finally {
+    await stack.stop();
+  }
+}
+
+main().then(
+  () => process.exit(0),
+  (e) => {
+    console.error(e instanceof Error ? e.stack : e);
+    process.exit(1);
+  },
+);
