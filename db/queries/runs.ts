@@ -7,6 +7,8 @@ import { isoDate } from "@/lib/stock";
 import { parseProblem, type Plan, type Problem } from "@/lib/nesting";
 import { buildProblem, partIdFromKey, type PartForPlan, type StockForPlan } from "@/lib/planning/problem";
 import { lossBreakdown } from "@/lib/planning/losses";
+import { cutEstimate } from "@/lib/planning/gcode";
+import { piecesOf } from "@/lib/planning/cut-regions";
 import type { RecordCutInput, RunSettings } from "@/lib/validations/runs";
 
 export type RunStatus = "queued" | "running" | "done" | "failed" | "cancelled" | "approved" | "closed";
@@ -36,6 +38,8 @@ export interface RunSummary {
   parentRunId: number | null;
   stats: Plan["stats"] | null;
   cost: number | null;
+  /** Wire travel of all the plan's through cuts (mm); divide by the feed for the cut time. */
+  cutLengthMm: number | null;
 }
 
 export interface RunDetail extends RunSummary {
@@ -69,6 +73,15 @@ function planCost(problem: Problem, plan: Plan | null): number | null {
   return problem.blocks.filter((b) => used.has(b.id)).reduce((s, b) => s + b.cost, 0);
 }
 
+function planCutLength(problem: Problem, plan: Plan | null): number | null {
+  if (!plan || !problem.blocks) return null;
+  return problem.blocks.reduce((sum, b) => {
+    const cuts = plan.cuts[b.id];
+    if (!cuts?.length) return sum;
+    return sum + cutEstimate(b.size, cuts, 1, 10, { trim: b.trim, kerf: problem.settings.kerf, pieces: piecesOf(plan, b.id) }).lengthMm;
+  }, 0);
+}
+
 export async function jobNames(ids: number[]): Promise<Map<number, string>> {
   if (!ids.length) return new Map();
   const rows = await db()("jobs").whereIn("id", ids).select("id", "name");
@@ -93,6 +106,7 @@ function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
     parentRunId: r.parent_run_id,
     stats: r.plan?.stats ?? null,
     cost: planCost(r.problem, r.plan),
+    cutLengthMm: planCutLength(r.problem, r.plan),
   };
 }
 

@@ -120,7 +120,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
           <Card title="Runs for the same job, side by side">
             <div className="overflow-x-auto">
               <table data-testid="run-compare">
-                <thead><tr><th className="py-1">Plan</th><th>Status</th><th className="text-right">Yield</th><th className="text-right">Blocks</th><th className="text-right">Cost</th><th className="text-right">Offcuts m³</th><th className="text-right">Unplaced</th><th className="pl-4">Layout</th></tr></thead>
+                <thead><tr><th className="py-1">Plan</th><th>Status</th><th className="text-right">Yield</th><th className="text-right">Blocks</th><th className="text-right">Cost</th><th className="text-right">Offcuts m³</th><th className="text-right">Cut time</th><th className="text-right">Unplaced</th><th className="pl-4">Layout</th></tr></thead>
                 <tbody>
                   {siblings.map((s) => (
                     <tr key={s.id} className={`border-t border-bead/60 ${s.id === run.id ? "bg-kerf-light/40" : ""}`}>
@@ -130,6 +130,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                       <td className="text-right tabular-nums">{s.stats?.blocksUsed ?? "–"}</td>
                       <td className="text-right tabular-nums">{s.cost === null ? "–" : s.cost.toFixed(2)}</td>
                       <td className="text-right tabular-nums">{s.stats ? (s.stats.offcutVolume / 1e9).toFixed(3) : "–"}</td>
+                      <td className="text-right tabular-nums">{s.cutLengthMm === null ? "–" : `${Math.round(s.cutLengthMm / settings.feedMmPerMin)} min`}</td>
                       <td className="text-right tabular-nums">{s.best?.unplacedCount ?? "–"}</td>
                       <td className="pl-4">{s.settings.layout ?? "–"}</td>
                     </tr>
