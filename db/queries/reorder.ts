@@ -4,6 +4,7 @@ import { db } from "@/db";
 import { HttpError } from "@/lib/errors";
 import { dailyStats, planReorder, type ReorderResult, type Source } from "@/lib/purchasing/reorder";
 import { addDays, isoDate } from "@/lib/stock";
+import { m3ToBoardFeet } from "@/lib/units";
 import type { GradeReorderInput, ReorderSettings } from "@/lib/validations/purchasing";
 
 export const DEFAULT_REORDER_SETTINGS: ReorderSettings = { serviceLevel: 0.95, historyDays: 90, orderCost: 75, holdingCost: 18 };
@@ -166,7 +167,7 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
     const lb = last.get(g.id);
     const blockSize = lb ? ([Number(lb.nominal_x), Number(lb.nominal_y), Number(lb.nominal_z)] as [number, number, number]) : null;
     const blockVolume = blockSize ? (blockSize[0] * blockSize[1] * blockSize[2]) / 1e9 : 0;
-    const lastPrice = lb && Number(lb.volume_m3) > 0 ? Number(lb.cost) / (g.price_unit === "bf" ? Number(lb.volume_m3) * 423.776 : Number(lb.volume_m3)) : null;
+    const lastPrice = lb && Number(lb.volume_m3) > 0 ? Number(lb.cost) / (g.price_unit === "bf" ? m3ToBoardFeet(Number(lb.volume_m3)) : Number(lb.volume_m3)) : null;
     const row = {
       dailyDemand: pick(o.daily_demand_m3, stats.mean, "ledger"),
       demandSd: pick(o.demand_sd_m3, stats.sd, "ledger"),
