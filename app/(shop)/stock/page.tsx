@@ -8,6 +8,7 @@ import { displayUnit } from "@/lib/display";
 import { PageHeader, Notice } from "@/components/ui/card";
 import { StockTable } from "@/components/stock/stock-table";
 import { buttonClass } from "@/components/ui/button";
+import { StorageCaution } from "@/components/safety/storage-caution";
 
 export const metadata: Metadata = { title: "Stock" };
 
@@ -33,6 +34,9 @@ export default async function StockPage({ searchParams }: { searchParams: Promis
         </div>
       )}
       <StockTable initial={JSON.parse(JSON.stringify(list))} query={qs} unit={unit} grades={grades.map((g) => ({ id: g.id, code: g.code }))} locations={locations} canExport={canExport} />
+      <div className="mt-6">
+        <StorageCaution compact />
+      </div>
     </>
   );
 }
