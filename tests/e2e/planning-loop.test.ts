@@ -32,10 +32,12 @@ describe("the planner's and the cutter's loop", () => {
     const jobId = await jobs.createJob(`Foyer letters ${Date.now().toString(36)}`, "Copperleaf Signs", "2026-12-20");
     await jobs.importCsv(
       "letters.csv",
-      ["name,quantity,length_mm,width_mm,height_mm,grade,rotate", "Letter O,3,600,600,100,EPS-II,z", "Letter K,2,600,480,100,EPS-II,z", "Backing strip,4,1200,80,40,EPS-II,any"].join("\n") + "\n",
+      ["name,quantity,length_mm,width_mm,height_mm,grade,rotate", "Letter O,3,600,600,100,EPS-II,z", "Letter K,2,600,480,100,EPS-II,z", "Backing strip,4,1200,80,40,EPS-II,any",
+        // Too big for the block in any orientation: it stays unplaced, so the search uses its whole budget and the bar is seen.
+        "Plinth,1,2600,1300,700,EPS-II,any"].join("\n") + "\n",
     );
     await jobs.confirmImport();
-    await expect.poll(() => jobs.partRows().count(), { timeout: 10_000 }).toBe(3);
+    await expect.poll(() => jobs.partRows().count(), { timeout: 10_000 }).toBe(4);
 
     // Plan it into one fresh block (so offcuts are certain), a short budget, and a bar that moves.
     const block = await makeBlock({ size: [2440, 1220, 610], gradeCode: "EPS-II" });
@@ -43,7 +45,7 @@ describe("the planner's and the cutter's loop", () => {
     await planner.waitForURL(/\/plans\/new\?jobs=/);
     await planner.getByRole("button", { name: "None" }).click();
     await planner.getByLabel(`Use ${block.code}`).check();
-    await planner.getByLabel("Time budget (ms)").fill("1500");
+    await planner.getByLabel("Time budget (ms)").fill("4000");
     await planner.getByRole("button", { name: "Start nesting" }).click();
     await planner.waitForURL(/\/plans\/\d+$/);
     const runId = Number(new URL(planner.url()).pathname.split("/").pop());
@@ -51,6 +53,7 @@ describe("the planner's and the cutter's loop", () => {
     await planner.getByRole("progressbar", { name: "Nesting progress" }).waitFor({ timeout: 15_000 });
     await planner.getByRole("button", { name: "Approve and earmark the stock" }).waitFor({ timeout: 60_000 });
     expect(await planner.getByTestId("plan-figures").textContent()).toMatch(/Yield\s*\d+(\.\d)? %/);
+    await planner.getByText("Not everything fits").waitFor();
     expect(await planner.locator("svg[aria-label^='Top (length × width) of']").count()).toBeGreaterThan(0);
     await screenshot(planner, "plan-view-wide");
     await planner.getByRole("button", { name: "Approve and earmark the stock" }).click();
