@@ -9,6 +9,7 @@
  *   npm run bench:load -- --duration 10 --connections 50
  */
 import fs from "node:fs";
+import os from "node:os";
 import autocannon from "autocannon";
 import { BENCH_SLOT, ms, percentile, signIn, startBenchStack } from "./bench-stack";
 
@@ -47,6 +48,8 @@ async function arrange(databaseUrl: string): Promise<Fixtures> {
 
 interface Figures {
   name: string;
+  /** One user, one request at a time: the service time the 50 connections queue behind. */
+  alone: number;
   path: string;
   requests: number;
   rps: number;
@@ -58,7 +61,18 @@ interface Figures {
   timeouts: number;
 }
 
+async function alone(url: string, cookie: string): Promise<number> {
+  const times: number[] = [];
+  for (let i = 0; i < 25; i++) {
+    const t = performance.now();
+    await fetch(url, { headers: { cookie } }).then((r) => r.arrayBuffer());
+    times.push(performance.now() - t);
+  }
+  return percentile(times.sort((a, b) => a - b), 50);
+}
+
 async function scenario(url: string, name: string, path: string, cookies: string[]): Promise<Figures> {
+  const single = await alone(`${url}${path}`, cookies[0]!);
   const times: number[] = [];
   let next = 0;
   const instance = autocannon({
@@ -74,6 +88,7 @@ async function scenario(url: string, name: string, path: string, cookies: string
   times.sort((a, b) => a - b);
   return {
     name,
+    alone: single,
     path,
     requests: result.requests.total,
     rps: result.requests.average,
@@ -106,6 +121,7 @@ async function main() {
       ["plan view", `/plans/${f.runId}`],
     ];
     const rows: Figures[] = [];
+    const load = os.loadavg().map((l) => l.toFixed(1)).join(" ");
     for (const [name, path] of scenarios) {
       // A short warm-up so the first compile of each route is not counted.
       for (let i = 0; i < 3; i++) await fetch(`${stack.url}${path}`, { headers: { cookie: cookies[0]! } }).then((r) => r.arrayBuffer());
@@ -113,11 +129,13 @@ async function main() {
       process.stderr.write(`[bench] ${name} done\n`);
     }
     const lines = [
-      `bench:load — ${new Date().toISOString()} — ${CONNECTIONS} connections, ${cookies.length} signed-in users, ${DURATION} s per scenario, slot ${BENCH_SLOT}, ${(await import("node:os")).cpus().length} cores`,
+      `bench:load — ${new Date().toISOString()} — ${CONNECTIONS} connections, ${cookies.length} signed-in users, ${DURATION} s per scenario, slot ${BENCH_SLOT}, ${os.cpus().length} cores, load average before ${load}, after ${os.loadavg().map((l) => l.toFixed(1)).join(" ")}`,
       "",
-      "| scenario | path | requests | req/s | p50 | p95 | p99 | non-2xx | errors | timeouts |",
-      "| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |",
-      ...rows.map((r) => `| ${r.name} | \`${r.path}\` | ${r.requests} | ${r.rps.toFixed(0)} | ${ms(r.p50)} | ${ms(r.p95)} | ${ms(r.p99)} | ${r.non2xx} | ${r.errors} | ${r.timeouts} |`),
+      "| scenario | path | alone p50 | requests | req/s | p50 | p95 | p99 | non-2xx | errors | timeouts |",
+      "| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |",
+      ...rows.map((r) => `| ${r.name} | \`${r.path}\` | ${ms(r.alone)} | ${r.requests} | ${r.rps.toFixed(0)} | ${ms(r.p50)} | ${ms(r.p95)} | ${ms(r.p99)} | ${r.non2xx} | ${r.errors} | ${r.timeouts} |`),
+      "",
+      "alone p50: one user, one request at a time. With 50 connections and no think time, latency ≈ 50 / (requests per second).",
       "",
       `target: p95 < 150 ms and 0 errors — ${rows.every((r) => r.p95 < 150 && r.non2xx + r.errors + r.timeouts === 0) ? "met" : "NOT met"}`,
     ];

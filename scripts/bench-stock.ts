@@ -8,6 +8,7 @@
  *   npm run bench:stock -- --blocks 20000 --runs 30 --explain
  */
 import fs from "node:fs";
+import os from "node:os";
 import knex from "knex";
 import { BENCH_SLOT, ms, percentile, signIn, startBenchStack } from "./bench-stack";
 import { DEMO_PASSWORD } from "../db/seeds/01_shop";
@@ -78,7 +79,7 @@ async function main() {
       ["ready + grade + volume sort", `status=ready&grade=${grade}&sort=volume&dir=desc`],
       ["all statuses, 200 per page", "status=all&pageSize=200"],
     ];
-    out(`bench:stock — ${new Date().toISOString()} — ${BLOCKS.toLocaleString("en")} blocks (+ demo stock), ${RUNS} sequential requests per filter after 5 warm-ups, slot ${BENCH_SLOT}`);
+    out(`bench:stock — ${new Date().toISOString()} — ${BLOCKS.toLocaleString("en")} blocks (+ demo stock), ${RUNS} sequential requests per filter after 5 warm-ups, slot ${BENCH_SLOT}, load average ${os.loadavg().map((l) => l.toFixed(1)).join(" ")}`);
     out("");
     out("| filter | p50 | p95 | max | total matched |");
     out("| --- | --- | --- | --- | --- |");
