@@ -4,7 +4,7 @@
  * ../shared/benchmarks (or BENCH_DATA / --data) and on generated instances; prints a table and
  * writes bench-results/nesting.json. Every Blockyard plan is checked with validatePlan.
  */
-import { mkdirSync, writeFileSync } from "node:fs";
+import { appendFileSync, mkdirSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { MaxRectsPacker } from "maxrects-packer";
@@ -25,10 +25,18 @@ const want = (set: string): boolean => !only || only.includes(set);
 
 let invalid = 0;
 const invalidNotes: string[] = [];
+mkdirSync("bench-results", { recursive: true });
+const LOG = "bench-results/nesting-log.txt";
+writeFileSync(LOG, "");
+/** One line per instance in bench-results/nesting-log.txt, so a long run can be followed. */
+function log(line: string): void {
+  appendFileSync(LOG, `${line}\n`);
+}
 function solve(problem: Problem, label: string): { plan: Plan; ms: number } {
   const t0 = performance.now();
   const plan = nestSync(problem, { seed: 1, now: () => performance.now() });
   const ms = performance.now() - t0;
+  log(`${label}: ${plan.stats.blocksUsed} blocks, ${plan.unplaced.length} unplaced lines, ${ms.toFixed(0)} ms`);
   const errs = validatePlan(problem, plan);
   if (errs.length > 0) {
     invalid++;
@@ -147,7 +155,9 @@ function benchZeroWaste(dir: string): void {
 function benchMpv(dir: string): void {
   const classes = [1, 4, 5, 6, 7, 8];
   const all = loadMpv(dir, classes);
-  const insts = quick ? all.filter((x) => x.no === 1 && x.n <= 100) : all;
+  // --mpv-sizes 50,100 keeps a subset of the item counts (the full set takes the longest).
+  const sizes = opt("--mpv-sizes")?.split(",").map(Number);
+  const insts = quick ? all.filter((x) => x.no === 1 && x.n <= 100) : sizes ? all.filter((x) => sizes.includes(x.n)) : all;
   const per = new Map<number, { ours: number; peer: number; lb: number; ms: number; n: number }>();
   for (const inst of insts) {
     const problem = problemOf({

@@ -134,12 +134,11 @@ export class Search {
     const s = this.best?.score;
     if (!s || this.atBound() || s.placedVolume < this.placeable - 1e-6 || this.pool.size < 2) return;
     const demand = this.model.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
-    // javascript-lp-solver's branch and bound does not keep to its timeout on big models: keep
-    // the integer program to cutting-stock sizes (few part lines, a few hundred columns).
-    if (demand.filter((d) => d > 0).length > 60) return;
+    // Keep the linear program modest (its simplex is not interruptible): at most 80 part lines.
+    if (demand.filter((d) => d > 0).length > 80) return;
     const left = this.opts.now ? this.opts.timeLimitMs - this.elapsed() : Infinity;
-    if (left < 100) return;
-    const fills = coverDemand(this.model, this.pool.columns(), demand, Math.min(300, left / 4));
+    if (left < 50) return;
+    const fills = coverDemand(this.model, this.pool.columns(), demand);
     if (fills) this.offer(fills);
   }
 

@@ -46,13 +46,14 @@ export class ColumnPool {
 }
 
 /**
- * Picks the cheapest combination of remembered fillings that covers the demand (cutting-stock
- * set cover, solved as an integer program by javascript-lp-solver), then drops surplus pieces and
- * maps the chosen fillings onto real blocks of their class. Returns undefined when no cover is
- * found in time.
- * @example coverDemand(model, pool.columns(), demand, 300) // → BlockFill[] | undefined
+ * Picks a cheap combination of remembered fillings that covers the demand (cutting-stock set
+ * cover): javascript-lp-solver solves the linear relaxation (branch and bound is not used: on some
+ * models it runs far past its timeout), the solution is rounded down and the rest of the demand
+ * is covered greedily by the fillings that cover most of it; surplus pieces are dropped and the
+ * fillings are mapped onto real blocks of their class. Undefined when no cover is found.
+ * @example coverDemand(model, pool.columns(), demand) // → BlockFill[] | undefined
  */
-export function coverDemand(model: Model, columns: readonly Column[], demand: readonly number[], timeoutMs: number): BlockFill[] | undefined {
+export function coverDemand(model: Model, columns: readonly Column[], demand: readonly number[]): BlockFill[] | undefined {
   if (columns.length === 0) return undefined;
   const classBlocks = new Map<string, number[]>();
   for (const b of model.blocks) classBlocks.set(b.classKey, [...(classBlocks.get(b.classKey) ?? []), b.index]);
@@ -63,37 +64,50 @@ export function coverDemand(model: Model, columns: readonly Column[], demand: re
   });
   for (const [k, blocks] of classBlocks) constraints[classId.get(k)!] = { max: blocks.length };
   const variables: Record<string, Record<string, number>> = {};
-  const ints: Record<string, 1> = {};
   columns.forEach((c, j) => {
     const block = model.blocks[c.fill.block]!;
-    // Cost first, then a nudge towards fewer blocks.
     const v: Record<string, number> = { cost: block.cost * (1 + 1e-6) + 1e-9, [classId.get(c.classKey)!]: 1 };
     for (const [t, n] of c.counts) if (demand[t]! > 0) v[`t${t}`] = n;
     variables[`f${j}`] = v;
-    ints[`f${j}`] = 1;
   });
   let res: Record<string, unknown>;
   try {
-    res = solver.Solve({ optimize: "cost", opType: "min", constraints, variables, ints, options: { timeout: timeoutMs } }) as unknown as Record<string, unknown>;
+    res = solver.Solve({ optimize: "cost", opType: "min", constraints, variables }) as unknown as Record<string, unknown>;
   } catch {
     return undefined;
   }
   if (!res.feasible) return undefined;
-  // Chosen columns, with multiplicities rounded up (still a cover); class limits are re-checked.
-  const chosen: { col: Column; n: number }[] = [];
+  const mult = columns.map((_, j) => Math.floor(Number(res[`f${j}`] ?? 0) + 1e-6));
   const used = new Map<string, number>();
+  columns.forEach((c, j) => used.set(c.classKey, (used.get(c.classKey) ?? 0) + mult[j]!));
+  const short = demand.map((d) => d);
   columns.forEach((c, j) => {
-    const x = Number(res[`f${j}`] ?? 0);
-    const n = Math.ceil(x - 1e-6);
-    if (n > 0) {
-      chosen.push({ col: c, n });
-      used.set(c.classKey, (used.get(c.classKey) ?? 0) + n);
-    }
+    for (const [t, n] of c.counts) short[t]! -= n * mult[j]!;
   });
-  for (const [k, n] of used) if (n > classBlocks.get(k)!.length) return undefined;
-  const surplus = demand.map((d) => -d);
-  for (const { col, n } of chosen) for (const [t, c] of col.counts) surplus[t]! += c * n;
-  if (surplus.some((s, t) => s < 0 && demand[t]! > 0)) return undefined;
+  // Greedy completion of what rounding down left uncovered.
+  for (;;) {
+    const needVol = short.reduce((s, v, t) => s + Math.max(0, v) * model.types[t]!.volume, 0);
+    if (needVol <= 0) break;
+    let best = -1;
+    let bestGain = 0;
+    columns.forEach((c, j) => {
+      if ((used.get(c.classKey) ?? 0) >= classBlocks.get(c.classKey)!.length) return;
+      let gain = 0;
+      for (const [t, n] of c.counts) gain += Math.min(n, Math.max(0, short[t]!)) * model.types[t]!.volume;
+      gain /= model.blocks[c.fill.block]!.cost + 1e-9;
+      if (gain > bestGain) {
+        bestGain = gain;
+        best = j;
+      }
+    });
+    if (best < 0) return undefined;
+    mult[best]!++;
+    const c = columns[best]!;
+    used.set(c.classKey, (used.get(c.classKey) ?? 0) + 1);
+    for (const [t, n] of c.counts) short[t]! -= n;
+  }
+  const chosen = columns.map((col, j) => ({ col, n: mult[j]! })).filter((x) => x.n > 0);
+  const surplus = short.map((v) => -v);
   // Least dense fillings give up their surplus pieces first.
   chosen.sort((a, b) => a.col.density - b.col.density);
   const free = new Map([...classBlocks].map(([k, bs]) => [k, [...bs]]));
