@@ -9,7 +9,8 @@ import { buildProblem, partIdFromKey, type PartForPlan, type StockForPlan } from
 import { lossBreakdown } from "@/lib/planning/losses";
 import { cutEstimate } from "@/lib/planning/gcode";
 import { piecesOf } from "@/lib/planning/cut-regions";
-import type { RecordCutInput, RunSettings } from "@/lib/validations/runs";
+import { runSettingsSchema, type RecordCutInput, type RunSettings } from "@/lib/validations/runs";
+import { getShopSettings } from "./settings";
 
 export type RunStatus = "queued" | "running" | "done" | "failed" | "cancelled" | "approved" | "closed";
 
@@ -555,5 +556,14 @@ export async function replanRun(runId: number, actorId: string): Promise<number>
   if (![...owed.values()].some((n) => n > 0)) throw new HttpError(409, "This plan owes no parts: nothing was rejected or left unplaced.");
   const stock = await candidateStock(run.job_ids);
   if (!stock.length) throw new HttpError(409, "No ready stock of the needed grades is free to plan into.");
-  return createRun({ jobIds: run.job_ids, blockIds: stock.map((s) => s.id), settings: run.settings, quantities: owed, parentRunId: runId }, actorId);
+  // Runs recorded before planning moved into Blockyard (demo history) kept no settings: re-plan
+  // those with the shop's current ones rather than fail.
+  const own = runSettingsSchema.safeParse(run.settings);
+  let settings: RunSettings;
+  if (own.success) settings = own.data;
+  else {
+    const shop = await getShopSettings();
+    settings = { kerf: shop.kerf, trim: shop.trim, defectMargin: shop.defectMargin, minOffcut: shop.minOffcut, layout: shop.layout, timeLimitMs: shop.nestingTimeLimitMs };
+  }
+  return createRun({ jobIds: run.job_ids, blockIds: stock.map((s) => s.id), settings, quantities: owed, parentRunId: runId }, actorId);
 }

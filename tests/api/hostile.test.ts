@@ -3,7 +3,8 @@ import Papa from "papaparse";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { API_POLICY, type RouteKey } from "@/lib/auth/policy";
 import { BASE_URL, client, type Client } from "../support/http";
-import { TEST_PASSWORD, closeTestDb, makeBlock, makeUser } from "../support/db";
+import { TEST_PASSWORD, closeTestDb, makeBlock, makeUser, testDb } from "../support/db";
+import { makeJobWithParts } from "../support/planning-fixtures";
 import { diff, fingerprint } from "../support/fingerprint";
 import { EXAMPLES, type Example } from "./route-examples";
 
@@ -366,5 +367,25 @@ describe("CSV exports defuse formula cells", () => {
     expect(parsed.data[0]!.location).toBe(`'${location}`);
     // No cell of the file starts a formula.
     for (const cell of parsed.data.flatMap((r) => Object.values(r))) expect(cell).not.toMatch(/^[=+\-@\t\r]/);
+  });
+});
+
+describe("hostile stored data", () => {
+  it("re-plans the rejects of a history run that kept no settings (demo history) instead of failing", async () => {
+    const k = testDb();
+    const block = await makeBlock({ size: [2000, 1000, 600] });
+    const spare = await makeBlock({ size: [2000, 1000, 600] });
+    const { jobId, partIds } = await makeJobWithParts([{ name: "History rib", quantity: 2, size: [600, 300, 100], gradeCode: "EPS-II" }]);
+    const [run] = await k("nesting_runs")
+      .insert({ status: "closed", job_ids: [jobId], block_ids: [block.id], settings: JSON.stringify({ seeded: true }), problem: JSON.stringify({ seeded: true }), progress: 1 })
+      .returning("id");
+    const admin = await k("users").where({ email: adminEmail }).first("id");
+    await k("cut_parts").insert({ run_id: run.id, block_id: block.id, job_part_id: partIds[0], good_count: 1, rejected_count: 1, reject_reason: "test", part_volume_m3: 0.018, volume_basis: "box", recorded_by: admin.id });
+    const res = await (await freshAdmin()).post(`/api/runs/${run.id}/replan`);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const child = await k("nesting_runs").where({ id: res.body.id }).first("settings", "parent_run_id");
+    expect(child.parent_run_id).toBe(run.id);
+    expect(child.settings.minOffcut).toHaveLength(3);
+    expect(spare.id).toBeGreaterThan(0);
   });
 });
