@@ -188,7 +188,9 @@ export function parseProblemText(text: string): ParseResult {
   try {
     json = JSON.parse(text);
   } catch (e) {
-    return { ok: false, errors: [`(root): malformed JSON: ${e instanceof Error ? e.message : String(e)}`] };
+    // One line per problem: the engine's message may quote the input, newlines included.
+    const msg = (e instanceof Error ? e.message : String(e)).replace(/\s+/g, " ");
+    return { ok: false, errors: [`(root): malformed JSON: ${msg}`] };
   }
   return parseProblem(json);
 }

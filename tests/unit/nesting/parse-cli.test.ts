@@ -58,7 +58,7 @@ describe("nest command line", () => {
 
   // One spawn per kind keeps this file quick; the parser cases above cover each message.
   it.each([
-    ["malformed JSON", '{"blocks": [', /^\(root\): malformed JSON/],
+    ["malformed JSON", "{\"blocks\": [\n", /^\(root\): malformed JSON[^\n]*\n$/],
     ["missing fields", JSON.stringify({ parts: [] }), /^blocks: is required$/m],
     ["negative and zero sizes", JSON.stringify(withPath((j) => ((j.parts[0].size = [10, 0, -1]), (j.blocks[0].size[0] = 0)))), /^blocks\[0\]\.size\[0\]: must be > 0\nparts\[0\]\.size\[1\]: must be > 0\nparts\[0\]\.size\[2\]: must be > 0\n$/],
     ["a defect outside its block", JSON.stringify(withPath((j) => (j.blocks[0].defects = [{ min: [-5, 0, 0], max: [10, 10, 10] }]))), /^blocks\[0\]\.defects\[0\]\.min\[0\]: must be >= 0$/m],
