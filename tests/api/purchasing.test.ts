@@ -3,6 +3,7 @@ import Papa from "papaparse";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, tableCounts, testDb } from "../support/db";
+import { seed as seedPurchasing } from "@/db/seeds/04_purchasing";
 import { makeOrder } from "../support/purchasing-fixtures";
 import { attachment, parseMime } from "../support/mime";
 import { PO_CSV_COLUMNS } from "@/lib/purchasing/orders";
@@ -14,6 +15,9 @@ let manager: Client;
 let cutter: Client;
 
 beforeAll(async () => {
+  // Other files (the role matrix, hostile input) send and receive orders and set overrides:
+  // start from the demo shop's purchasing state so the figures below are the seeded ones.
+  await seedPurchasing(testDb());
   buyer = client();
   await buyer.signIn(demoEmail("buyer"));
   manager = client();

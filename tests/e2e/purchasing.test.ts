@@ -4,13 +4,21 @@ import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
 import { SignInPage } from "./pages/sign-in";
 import { ReorderPage, ReportsPage } from "./pages/purchasing";
+import { closeTestDb, testDb } from "../support/db";
+import { seed as seedPurchasing } from "@/db/seeds/04_purchasing";
 
 let browser: Browser;
 beforeAll(async () => {
+  // Start from the demo shop's purchasing state (other test files send orders and set overrides).
+  await seedPurchasing(testDb());
+  // Other files add EPS-II test blocks by the hundred; a forecast that outruns them keeps EPS-II due.
+  const epsII = await testDb()("grades").where({ code: "EPS-II" }).first("id");
+  await testDb()("grade_reorder").where({ grade_id: epsII.id }).update({ daily_demand_m3: 500 });
   browser = await launch();
 });
 afterAll(async () => {
   await browser?.close();
+  await closeTestDb();
 });
 
 async function signedIn(role: string, viewport: { width: number; height: number }): Promise<Page> {
