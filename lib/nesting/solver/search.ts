@@ -101,6 +101,11 @@ export class Search {
     return Math.min(1, Math.max(byIter, byTime));
   }
 
+  /** Past the time limit in a pass after the first (the first always completes). */
+  private outOfTime(): boolean {
+    return this.iteration > 1 && !!this.opts.now && this.fraction() >= 1;
+  }
+
   /** True when nothing better can be found: everything placed in as few blocks as the bound. */
   atBound(): boolean {
     const s = this.best?.score;
@@ -121,8 +126,9 @@ export class Search {
     const p = this.iteration === 0 ? DEFAULT : this.randomParams();
     this.iteration++;
     const fills = this.pass(p);
+    if (!fills) return;
     this.offer(fills);
-    if (fills.length > 1 && this.model.blocks.every((b) => b.classKey === this.model.blocks[0]!.classKey)) this.offer(eliminateBlocks(this.model, fills));
+    if (fills.length > 1 && !this.outOfTime() && this.model.blocks.every((b) => b.classKey === this.model.blocks[0]!.classKey)) this.offer(eliminateBlocks(this.model, fills));
     if (this.iteration >= this.nextCover) {
       this.nextCover = Math.ceil(this.iteration * 1.6) + 2;
       this.cover();
@@ -210,6 +216,7 @@ export class Search {
   private fillOne(block: number, remaining: number[], p: PassParams): BlockFill {
     let best: { fill: BlockFill; rem: number[] } | undefined;
     for (let i = 0; i < p.tries; i++) {
+      if (i > 0 && this.outOfTime()) break;
       const q = i === 0 ? p : { ...this.randomParams(), candidates: p.candidates, tries: p.tries, blockOrder: p.blockOrder };
       const rem = [...remaining];
       const fill = this.fillWith(block, rem, q);
@@ -256,13 +263,15 @@ export class Search {
   }
 
   /** One greedy pass: block after block, each filled as well as the pass's settings manage. */
-  private pass(p: PassParams): BlockFill[] {
+  private pass(p: PassParams): BlockFill[] | undefined {
     const m = this.model;
     const remaining = m.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
     let unused = this.blockOrder(p);
     const fills: BlockFill[] = [];
     const left = (): number => remaining.reduce((s, v) => s + v, 0);
     while (left() > 0 && unused.length > 0) {
+      // Out of time: drop this pass (the first one always completes, so a plan exists).
+      if (this.outOfTime()) return undefined;
       const cands: number[] = [];
       const classes = new Set<string>();
       for (const b of unused) {
@@ -276,6 +285,7 @@ export class Search {
       let chosen: { fill: BlockFill; rem: number[]; finishes: boolean; value: number } | undefined;
       const useless = new Set<number>();
       for (const b of cands) {
+        if (chosen && this.outOfTime()) break;
         const rem = [...remaining];
         const fill = this.fillOne(b, rem, p);
         if (fill.items.length === 0) {
