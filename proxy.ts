@@ -9,7 +9,9 @@ const MUTATIONS = new Set(["POST", "PUT", "PATCH", "DELETE"]);
  */
 export function proxy(request: NextRequest) {
   if (!MUTATIONS.has(request.method)) return NextResponse.next();
-  const host = request.headers.get("x-forwarded-host") ?? request.headers.get("host");
+  // X-Forwarded-Host only from a proxy we were told to trust.
+  const trustProxy = ["true", "1"].includes(process.env.TRUST_PROXY ?? "");
+  const host = (trustProxy ? request.headers.get("x-forwarded-host") : null) ?? request.headers.get("host");
   const origin = request.headers.get("origin") ?? request.headers.get("referer");
   let ok = false;
   if (host && origin) {
