@@ -1,13 +1,12 @@
 "use client";
 
+import { numberOrNull as num } from "@/lib/forms";
 import { send } from "@/lib/swr/fetcher";
 import { useSubmit } from "@/components/ui/use-submit";
 import type { ShopSettings } from "@/lib/validations/settings";
 import { Field, Input, Select } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
-
-const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
 
 export function SettingsForm({ initial }: { initial: ShopSettings }) {
   const { busy, fields, message, submit } = useSubmit();

@@ -1,5 +1,6 @@
 "use client";
 
+import { numberOrNull as num } from "@/lib/forms";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { send } from "@/lib/swr/fetcher";
@@ -16,7 +17,6 @@ export function NewRunForm({ jobIds, candidates, defaults }: { jobIds: number[];
   const router = useRouter();
   const [chosen, setChosen] = useState<Set<number>>(new Set(candidates.map((c) => c.id)));
   const { busy, fields, message, submit } = useSubmit();
-  const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
   const toggle = (id: number) => setChosen((s) => { const n = new Set(s); if (n.has(id)) n.delete(id); else n.add(id); return n; });
   const volume = candidates.filter((c) => chosen.has(c.id)).reduce((s, c) => s + c.volumeM3, 0);
   return (

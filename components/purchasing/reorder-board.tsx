@@ -1,5 +1,6 @@
 "use client";
 
+import { numberOrNull as num } from "@/lib/forms";
 import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { Fragment, useState } from "react";
@@ -197,7 +198,6 @@ function OverrideForm({ r, suppliers }: { r: ReorderView; suppliers: { id: numbe
   const [fields, setFields] = useState<Record<string, string>>({});
   const [msg, setMsg] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
   const ov = (i: In) => (i.source === "override" ? String(i.value) : "");
-  const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
   return (
     <form
       className="grid grid-cols-2 gap-3"

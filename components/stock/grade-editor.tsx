@@ -1,5 +1,6 @@
 "use client";
 
+import { numberOrNull as num } from "@/lib/forms";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
@@ -23,7 +24,6 @@ export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit:
   const [msg, setMsg] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
   const [material, setMaterial] = useState<Material>("EPS");
   const g = editing ?? { id: 0, ...EMPTY };
-  const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
 
   return (
     <div className="grid gap-5 lg:grid-cols-[1fr_24rem]">

@@ -2,7 +2,7 @@ import fs from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
-import { SignInPage } from "./pages/sign-in";
+import { signedInPage } from "./pages/sign-in";
 import { JobsPage } from "./pages/jobs";
 
 let browser: Browser;
@@ -14,13 +14,7 @@ afterAll(async () => {
 });
 
 async function signedIn(role: string, viewport: { width: number; height: number }): Promise<Page> {
-  const context = await browser.newContext({ viewport });
-  const page = await context.newPage();
-  const signIn = new SignInPage(page);
-  await signIn.open();
-  await signIn.signIn(`${role}@demo.blockyard.test`, "blockyard-demo");
-  await page.waitForURL(`${BASE_URL}/`);
-  return page;
+  return signedInPage(browser, role, viewport);
 }
 
 const HEADER = "name,quantity,length_mm,width_mm,height_mm,grade,rotate,naca,chord_mm,tip_chord_mm,span_mm,polygon,extrude_mm";

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
-import { SignInPage } from "./pages/sign-in";
+import { signedInPage } from "./pages/sign-in";
 import { JobsPage } from "./pages/jobs";
 import { closeTestDb, makeBlock } from "../support/db";
 
@@ -15,12 +15,7 @@ afterAll(async () => {
 });
 
 async function signedIn(role: string, viewport: { width: number; height: number } = VIEWPORTS.wide): Promise<Page> {
-  const page = await (await browser.newContext({ viewport })).newPage();
-  const signIn = new SignInPage(page);
-  await signIn.open();
-  await signIn.signIn(`${role}@demo.blockyard.test`, "blockyard-demo");
-  await page.waitForURL(`${BASE_URL}/`);
-  return page;
+  return signedInPage(browser, role, viewport);
 }
 
 describe("the planner's and the cutter's loop", () => {

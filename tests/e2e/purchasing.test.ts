@@ -2,7 +2,7 @@ import fs from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
-import { SignInPage } from "./pages/sign-in";
+import { signedInPage } from "./pages/sign-in";
 import { ReorderPage, ReportsPage } from "./pages/purchasing";
 import { closeTestDb, testDb } from "../support/db";
 import { seed as seedPurchasing } from "@/db/seeds/04_purchasing";
@@ -22,13 +22,7 @@ afterAll(async () => {
 });
 
 async function signedIn(role: string, viewport: { width: number; height: number }): Promise<Page> {
-  const context = await browser.newContext({ viewport });
-  const page = await context.newPage();
-  const signIn = new SignInPage(page);
-  await signIn.open();
-  await signIn.signIn(`${role}@demo.blockyard.test`, "blockyard-demo");
-  await page.waitForURL(`${BASE_URL}/`);
-  return page;
+  return signedInPage(browser, role, viewport);
 }
 
 describe("the manager's reports", () => {

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
-import { SignInPage } from "./pages/sign-in";
+import { signedInPage } from "./pages/sign-in";
 import { closeTestDb, testDb } from "../support/db";
 
 let browser: Browser;
@@ -14,12 +14,7 @@ afterAll(async () => {
 });
 
 async function signedIn(role: string, viewport: { width: number; height: number }): Promise<Page> {
-  const page = await (await browser.newContext({ viewport })).newPage();
-  const signIn = new SignInPage(page);
-  await signIn.open();
-  await signIn.signIn(`${role}@demo.blockyard.test`, "blockyard-demo");
-  await page.waitForURL(`${BASE_URL}/`);
-  return page;
+  return signedInPage(browser, role, viewport);
 }
 
 describe("the buyer receives a delivery", () => {

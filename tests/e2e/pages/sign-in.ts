@@ -1,4 +1,4 @@
-import type { Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import { BASE_URL } from "./browser";
 
 /** The sign-in page, as a person uses it. */
@@ -14,4 +14,14 @@ export class SignInPage {
     await this.page.getByLabel("Password").fill(password);
     await this.page.getByRole("button", { name: "Sign in" }).click();
   }
+}
+
+/** A fresh browser context at `viewport`, signed in as the demo user of `role`, on its home page. */
+export async function signedInPage(browser: Browser, role: string, viewport: { width: number; height: number }): Promise<Page> {
+  const page = await (await browser.newContext({ viewport })).newPage();
+  const signIn = new SignInPage(page);
+  await signIn.open();
+  await signIn.signIn(`${role}@demo.blockyard.test`, "blockyard-demo");
+  await page.waitForURL(`${BASE_URL}/`);
+  return page;
 }
