@@ -104,6 +104,7 @@ describe("face views on a block page", () => {
     expect(row, "the demo seed stores a photo for each defect zone").toBeTruthy();
     const { context, page } = await signedIn("planner", VIEWPORTS.wide);
     await page.goto(`${BASE_URL}/stock/${encodeURIComponent(row.code)}`);
+    await page.locator('svg[data-view="top"]').first().waitFor(); // the block page streams in after its skeleton
     for (const view of ["top", "front", "side"]) {
       expect(await page.locator(`svg[data-view="${view}"] [data-defect="${row.defect_id}"]`).count(), view).toBe(1);
     }

@@ -81,6 +81,7 @@ describe("a planner imports a part list into a job", () => {
   it("lists the seeded jobs, soonest due first, and shows a cutter a job without edit controls", async () => {
     const page = await signedIn("cutter", VIEWPORTS.tablet);
     await page.goto(`${BASE_URL}/jobs`);
+    await page.getByTestId("job-list").waitFor(); // the list streams in after its skeleton
     const rows = page.getByTestId("job-list").locator("tbody tr");
     expect(await rows.count()).toBeGreaterThanOrEqual(3);
     expect(await page.getByRole("button", { name: "Create the job" }).count()).toBe(0);

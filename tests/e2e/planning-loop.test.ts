@@ -61,6 +61,9 @@ describe("the planner's and the cutter's loop", () => {
     // Cutter, on a tablet: marks each block cut and sees its offcuts come into stock.
     const cutter = await signedIn("cutter", VIEWPORTS.tablet);
     await cutter.goto(`${BASE_URL}/plans/${runId}/cut`);
+    // The page streams in after its loading skeleton: wait for it before counting.
+    await cutter.getByRole("heading", { name: `At the machine · plan #${runId}` }).waitFor();
+    await cutter.getByRole("button", { name: /^Mark .+ cut$/ }).first().waitFor();
     await screenshot(cutter, "at-the-machine-tablet");
     const buttons = cutter.getByRole("button", { name: /^Mark .+ cut$/ });
     const n = await buttons.count();
