@@ -1,3 +1,4 @@
+import type { Profile, Size3 } from "@/lib/profiles";
 /** Job and part vocabulary shared by server and client: statuses, rotation rules and their names. */
 export const JOB_STATUSES = ["open", "planned", "cutting", "done", "cancelled"] as const;
 export type JobStatus = (typeof JOB_STATUSES)[number];
@@ -33,3 +34,19 @@ export const PART_CSV_COLUMNS = {
   optional: ["length_mm", "width_mm", "height_mm", "grade", "rotate", "naca", "chord_mm", "tip_chord_mm", "span_mm", "sweep_mm", "polygon", "extrude_mm"],
   maxRows: 5_000,
 };
+
+/** A reusable part definition as the library pages and the API show it. */
+export interface LibraryPart {
+  id: number;
+  kit: string | null;
+  name: string;
+  size: Size3;
+  gradeId: number | null;
+  gradeCode: string | null;
+  rotate: RotateRule;
+  profile: Profile | null;
+  trueVolumeMm3: number | null;
+  defaultQuantity: number;
+  notes: string | null;
+  active: boolean;
+}

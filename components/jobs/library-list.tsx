@@ -6,24 +6,11 @@ import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { Badge, Card, Notice } from "@/components/ui/card";
 import { formatSize, type LengthUnit } from "@/lib/units";
-import type { RotateRule } from "@/lib/job-terms";
-import type { Profile } from "@/lib/profiles";
+import type { LibraryPart } from "@/lib/job-terms";
 import { RotateLabel, describeProfile } from "./labels";
 import { SectionPreview } from "./section-preview";
 
-export interface LibraryRow {
-  id: number;
-  kit: string | null;
-  name: string;
-  size: [number, number, number];
-  gradeCode: string | null;
-  rotate: RotateRule;
-  profile: Profile | null;
-  trueVolumeMm3: number | null;
-  defaultQuantity: number;
-  notes: string | null;
-  active: boolean;
-}
+export type LibraryRow = LibraryPart;
 
 /** Library parts, one card per kit; the planner can retire a part or bring it back. */
 export function LibraryList({ parts, unit, canEdit }: { parts: LibraryRow[]; unit: LengthUnit; canEdit: boolean }) {

@@ -2,25 +2,12 @@ import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
 import { HttpError } from "@/lib/errors";
-import type { RotateRule } from "@/lib/job-terms";
-import type { Profile, Size3 } from "@/lib/profiles";
+import type { LibraryPart, RotateRule } from "@/lib/job-terms";
+import type { Profile } from "@/lib/profiles";
 import type { LibraryPartInput, LibraryPatch } from "@/lib/validations/jobs";
 import { resolveGeometry, assertGrade } from "./jobs";
 
-export interface LibraryPart {
-  id: number;
-  kit: string | null;
-  name: string;
-  size: Size3;
-  gradeId: number | null;
-  gradeCode: string | null;
-  rotate: RotateRule;
-  profile: Profile | null;
-  trueVolumeMm3: number | null;
-  defaultQuantity: number;
-  notes: string | null;
-  active: boolean;
-}
+export type { LibraryPart };
 
 interface Row {
   id: number;

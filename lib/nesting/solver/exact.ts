@@ -1,4 +1,4 @@
-import type { Box } from "../geometry";
+import { guillotineSplits, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
 import { carveObstacles } from "./guillotine3d";
@@ -8,29 +8,13 @@ const vol = (s: Vec3): number => s[0] * s[1] * s[2];
 
 /** The distinct three-box guillotine splits of `f` around a piece `d` at its corner. */
 function splits(f: Box, d: Vec3): Box[][] {
-  const out: Box[][] = [];
   const seen = new Set<string>();
-  for (const order of [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]]) {
-    const boxes: Box[] = [];
-    const ext = [...f.size] as Vec3;
-    for (const a of order) {
-      const r = f.size[a]! - d[a]!;
-      if (r > 1e-9) {
-        const o = [...f.origin] as Vec3;
-        o[a] = f.origin[a]! + d[a]!;
-        const s = [...ext] as Vec3;
-        s[a] = r;
-        boxes.push({ origin: o, size: s });
-      }
-      ext[a] = d[a]!;
-    }
+  return guillotineSplits(f, d).filter((boxes) => {
     const key = boxes.map((b) => `${b.origin.join(",")}:${b.size.join(",")}`).sort().join("|");
-    if (!seen.has(key)) {
-      seen.add(key);
-      out.push(boxes);
-    }
-  }
-  return out;
+    if (seen.has(key)) return false;
+    seen.add(key);
+    return true;
+  });
 }
 
 const lowerCorner = (a: Box, b: Box): number => a.origin[2] - b.origin[2] || a.origin[1] - b.origin[1] || a.origin[0] - b.origin[0];

@@ -1,4 +1,4 @@
-import type { Box } from "../geometry";
+import { guillotineSplits, type Box } from "../geometry";
 import type { Vec3 } from "../types";
 import { fitsIn, type BlockFill, type Model, type PackedItem } from "./model";
 
@@ -6,20 +6,7 @@ import { fitsIn, type BlockFill, type Model, type PackedItem } from "./model";
 function splitBiggest(f: Box, d: Vec3): Box[] {
   let best: Box[] = [];
   let bestVol = -1;
-  for (const order of [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]]) {
-    const out: Box[] = [];
-    const ext = [...f.size] as Vec3;
-    for (const a of order) {
-      const r = f.size[a]! - d[a]!;
-      if (r > 1e-9) {
-        const o = [...f.origin] as Vec3;
-        o[a] = f.origin[a]! + d[a]!;
-        const s = [...ext] as Vec3;
-        s[a] = r;
-        out.push({ origin: o, size: s });
-      }
-      ext[a] = d[a]!;
-    }
+  for (const out of guillotineSplits(f, d)) {
     const v = Math.max(0, ...out.map((b) => b.size[0] * b.size[1] * b.size[2]));
     if (v > bestVol) {
       bestVol = v;
