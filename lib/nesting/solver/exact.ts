@@ -207,3 +207,170 @@ export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], coun
   const packedVolume = items.reduce((s, it) => s + types[it.type]!.volume, 0);
   return { block: block.index, items, leftovers: [], packedVolume };
 }
+
+/** The six axis permutations: oriented size = [d[p[0]], d[p[1]], d[p[2]]]. */
+const PERMS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [0, 2, 1], [2, 0, 1], [1, 2, 0], [2, 1, 0]];
+const permute = (p: number, d: Vec3): Vec3 => {
+  const q = PERMS[p]!;
+  return [d[q[0]]!, d[q[1]]!, d[q[2]]!];
+};
+/** AFTER[q][p]: the permutation "p, then q". */
+const AFTER: number[][] = PERMS.map((q) => PERMS.map((p) => PERMS.findIndex((r) => r.every((v, j) => v === p[q[j]!]))));
+const ALL_PERMS = (1 << PERMS.length) - 1;
+const near = (a: number, b: number): boolean => Math.abs(a - b) <= 1e-6;
+const sameSize = (a: Vec3, b: Vec3): boolean => near(a[0], b[0]) && near(a[1], b[1]) && near(a[2], b[2]);
+const ascending = (d: Vec3): Vec3 => [...d].sort((x, y) => x - y) as Vec3;
+
+/** A box of the merge search: one part, or two boxes glued face to face (a through cut between them). */
+interface MergeNode {
+  /** Size in the node's own frame. */
+  dims: Vec3;
+  /** Bit p set: the node may be turned by PERMS[p] without breaking any part's rotate rule. */
+  mask: number;
+  /** Same key = same sizes reachable = interchangeable in the search. */
+  key: string;
+  sorted: Vec3;
+  volume: number;
+  type?: number;
+  kids?: { node: MergeNode; perm: number; at: Vec3 }[];
+}
+
+function mergeNode(dims: Vec3, mask: number, extra: Pick<MergeNode, "type" | "kids">): MergeNode {
+  const sizes = new Set<string>();
+  for (let p = 0; p < PERMS.length; p++) if (mask & (1 << p)) sizes.add(permute(p, dims).map((v) => v.toFixed(4)).join(","));
+  return { dims, mask, key: [...sizes].sort().join(";"), sorted: ascending(dims), volume: vol(dims), ...extra };
+}
+
+/** True when two ascending sizes share at least two sides (a face could be common). */
+function shareTwoSides(a: Vec3, b: Vec3): boolean {
+  let i = 0;
+  let j = 0;
+  let common = 0;
+  while (i < 3 && j < 3) {
+    if (near(a[i]!, b[j]!)) {
+      common++;
+      i++;
+      j++;
+    } else if (a[i]! < b[j]!) i++;
+    else j++;
+  }
+  return common >= 2;
+}
+
+/**
+ * Exact search for a packing with no waste at all: when the parts (grown by the kerf) fill the
+ * block's usable box exactly, as when the parts were themselves cut from one block, the cut tree
+ * is rebuilt bottom-up by gluing two boxes that share a face into one, until one box is left that
+ * is the block. Every guillotine tree can be glued back this way, so the search is complete for
+ * zero-waste packings (bounded by `nodeLimit`); failed states are remembered. Rotation rules are
+ * kept by carrying, per box, the turns all its parts allow. Only for blocks without defects.
+ * The first call should go without `r` (a fixed order); calls again with `r` shuffle the order
+ * among equally good moves, since a wrong early glue can cost the whole budget.
+ */
+export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, stop: () => boolean = () => false, r?: Rng): BlockFill | undefined {
+  if (block.obstacles.length > 0) return undefined;
+  const target = block.usable.size;
+  const targetSorted = ascending(target);
+  const leaves: MergeNode[] = [];
+  let need = 0;
+  counts.forEach((c, t) => {
+    if (c <= 0) return;
+    const type = types[t]!;
+    const base = type.dims[0]!;
+    let mask = 0;
+    for (let p = 0; p < PERMS.length; p++) if (type.dims.some((d) => sameSize(d, permute(p, base)))) mask |= 1 << p;
+    for (let i = 0; i < c; i++) leaves.push(mergeNode(base, mask, { type: t }));
+    need += c * vol(base);
+  });
+  if (leaves.length === 0 || leaves.length > 200 || Math.abs(need - vol(target)) > 1e-6 * vol(target)) return undefined;
+  const fitsBlock = (s: Vec3): boolean => s[0] <= targetSorted[0] + 1e-6 && s[1] <= targetSorted[1] + 1e-6 && s[2] <= targetSorted[2] + 1e-6;
+  const rootPerm = (n: MergeNode): number => {
+    for (let p = 0; p < PERMS.length; p++) if (n.mask & (1 << p) && sameSize(permute(p, n.dims), target)) return p;
+    return -1;
+  };
+
+  /** Every distinct box that gluing a and b can give. */
+  const glue = (a: MergeNode, b: MergeNode): MergeNode[] => {
+    const out = new Map<string, MergeNode>();
+    for (let pa = 0; pa < PERMS.length; pa++) {
+      if (!(a.mask & (1 << pa))) continue;
+      const da = permute(pa, a.dims);
+      for (let pb = 0; pb < PERMS.length; pb++) {
+        if (!(b.mask & (1 << pb))) continue;
+        const db = permute(pb, b.dims);
+        for (let ax = 0; ax < 3; ax++) {
+          const o1 = (ax + 1) % 3;
+          const o2 = (ax + 2) % 3;
+          if (!near(da[o1]!, db[o1]!) || !near(da[o2]!, db[o2]!)) continue;
+          const dims = [...da] as Vec3;
+          dims[ax] = da[ax]! + db[ax]!;
+          if (!fitsBlock(ascending(dims))) continue;
+          let mask = 0;
+          for (let q = 0; q < PERMS.length; q++) if (a.mask & (1 << AFTER[q]![pa]!) && b.mask & (1 << AFTER[q]![pb]!)) mask |= 1 << q;
+          const at: Vec3 = [0, 0, 0];
+          at[ax] = da[ax]!;
+          const node = mergeNode(dims, mask, { kids: [{ node: a, perm: pa, at: [0, 0, 0] }, { node: b, perm: pb, at }] });
+          if (!out.has(node.key)) out.set(node.key, node);
+        }
+      }
+    }
+    return [...out.values()];
+  };
+
+  const failed = new Set<string>();
+  let nodes = 0;
+  let aborted = false;
+  const dfs = (boxes: MergeNode[]): MergeNode | undefined => {
+    if (boxes.length === 1) return rootPerm(boxes[0]!) >= 0 ? boxes[0] : undefined;
+    if (++nodes > nodeLimit || ((nodes & 63) === 0 && stop())) {
+      aborted = true;
+      return undefined;
+    }
+    const stateKey = boxes.map((b) => b.key).sort().join("|");
+    if (failed.has(stateKey)) return undefined;
+    const moves: { i: number; j: number; node: MergeNode; score: number }[] = [];
+    const pairs = new Set<string>();
+    const sharing: [number, number][] = [];
+    for (let i = 0; i < boxes.length; i++) for (let j = i + 1; j < boxes.length; j++) if (shareTwoSides(boxes[i]!.sorted, boxes[j]!.sorted)) sharing.push([i, j]);
+    for (const [i, j] of sharing) {
+      const a = boxes[i]!;
+      const b = boxes[j]!;
+      const pk = a.key < b.key ? `${a.key}/${b.key}` : `${b.key}/${a.key}`;
+      if (pairs.has(pk)) continue;
+      pairs.add(pk);
+      for (const node of glue(a, b)) {
+        // Boxes that reach a side of the block whole are the slabs a cutter makes first.
+        const whole = node.sorted.filter((v) => targetSorted.some((t) => near(v, t))).length;
+        // Then small boxes first (bottom-up); with an rng, a shuffled order for restarts.
+        moves.push({ i, j, node, score: whole * 1e12 - node.volume * (r ? 0.5 + r() : 1) });
+      }
+    }
+    moves.sort((x, y) => y.score - x.score);
+    for (const m of moves) {
+      const next = boxes.filter((_, k) => k !== m.i && k !== m.j);
+      next.push(m.node);
+      const found = dfs(next);
+      if (found || aborted) return found;
+    }
+    failed.add(stateKey);
+    return undefined;
+  };
+  const root = dfs(leaves);
+  if (!root) return undefined;
+
+  // Unfold the glued tree into placements in the block's frame.
+  const items: PackedItem[] = [];
+  const place = (n: MergeNode, perm: number, origin: Vec3): void => {
+    if (n.type !== undefined) {
+      items.push({ type: n.type, origin, dims: permute(perm, n.dims) });
+      return;
+    }
+    for (const k of n.kids!) {
+      const at = permute(perm, k.at);
+      place(k.node, AFTER[perm]![k.perm]!, [origin[0] + at[0], origin[1] + at[1], origin[2] + at[2]]);
+    }
+  };
+  place(root, rootPerm(root), [...block.usable.origin] as Vec3);
+  const packedVolume = items.reduce((s, it) => s + types[it.type]!.volume, 0);
+  return { block: block.index, items, leftovers: [], packedVolume };
+}

@@ -7,7 +7,7 @@ import { assemblePlan, keptOffcuts } from "./assemble";
 import { fillBlockGuillotine, type SplitRule } from "./guillotine3d";
 import { fillBlockMaxRects, fillBlockMaxRectsPackage, layerDims, type RectRule } from "./maxrects2d";
 import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
-import { packAllByCuts, packAllInBlock } from "./exact";
+import { packAllByCuts, packAllByMerging, packAllInBlock } from "./exact";
 import { eliminateBlocks } from "./improve";
 import { ColumnPool, coverDemand } from "./setcover";
 
@@ -256,7 +256,10 @@ export class Search {
       if (budget > 51_200) continue;
       this.tried.set(key, budget);
       const stop = (): boolean => this.fraction() >= 1;
-      const fill = packAllByCuts(info, m.types, counts, budget, this.r, stop) ?? packAllInBlock(info, m.types, counts, budget / 2, this.r, stop);
+      // Parts that fill the block exactly (no waste at all): glue their cut tree back together,
+      // first in a fixed order, then shuffled as the budget grows (restarts).
+      const exact = Math.abs(need - cap) <= 1e-6 * cap ? packAllByMerging(info, m.types, counts, 200 + budget * 4, stop, budget > 50 ? this.r : undefined) : undefined;
+      const fill = exact ?? packAllByCuts(info, m.types, counts, budget, this.r, stop) ?? packAllInBlock(info, m.types, counts, budget / 2, this.r, stop);
       if (fill) return fill;
     }
     return undefined;
