@@ -538,11 +538,15 @@ export async function recordCut(runId: number, blockId: number, input: RecordCut
   });
 }
 
-/** Parts this run still owes: what it could not place, plus rejects recorded against it. */
-export async function owedByRun(runId: number): Promise<Map<number, number>> {
-  const run = await db()("nesting_runs").where({ id: runId }).first("plan");
+/**
+ * Parts this run still owes: what it could not place, plus rejects recorded against it.
+ * A caller that already holds the run's plan hands it in (`owedByRun(run.id, run.plan)`) to spare
+ * reading and parsing it again.
+ */
+export async function owedByRun(runId: number, knownPlan?: Plan | null): Promise<Map<number, number>> {
+  const plan = knownPlan !== undefined ? knownPlan : ((await db()("nesting_runs").where({ id: runId }).first("plan"))?.plan as Plan | null | undefined);
   const owed = new Map<number, number>();
-  for (const u of (run?.plan as Plan | null)?.unplaced ?? []) owed.set(partIdFromKey(u.part), (owed.get(partIdFromKey(u.part)) ?? 0) + u.count);
+  for (const u of plan?.unplaced ?? []) owed.set(partIdFromKey(u.part), (owed.get(partIdFromKey(u.part)) ?? 0) + u.count);
   const rejects = await db()("cut_parts").where({ run_id: runId }).where("rejected_count", ">", 0).select("job_part_id", "rejected_count");
   for (const r of rejects as { job_part_id: number; rejected_count: number }[]) owed.set(r.job_part_id, (owed.get(r.job_part_id) ?? 0) + r.rejected_count);
   return owed;

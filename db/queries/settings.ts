@@ -1,4 +1,5 @@
 import "server-only";
+import { cache } from "react";
 import { db } from "@/db";
 import type { ShopSettings } from "@/lib/validations/settings";
 
@@ -28,7 +29,8 @@ export const FALLBACK_SETTINGS: ShopSettings = {
   nestingTimeLimitMs: 3000,
 };
 
-export async function getShopSettings(): Promise<ShopSettings> {
+/** The shop's settings, read once per page render (layout and page share it; React cache). */
+export const getShopSettings = cache(async function getShopSettings(): Promise<ShopSettings> {
   const r = await db()("shop_settings").where({ id: 1 }).first<Row | undefined>();
   if (!r) return FALLBACK_SETTINGS;
   return {
@@ -42,7 +44,7 @@ export async function getShopSettings(): Promise<ShopSettings> {
     feedMmPerMin: Number(r.feed_mm_per_min),
     nestingTimeLimitMs: r.nesting_time_limit_ms,
   };
-}
+});
 
 export async function saveShopSettings(s: ShopSettings, actorId: string): Promise<void> {
   const row = {

@@ -3,8 +3,7 @@ import { cache } from "react";
 import { cookies, headers } from "next/headers";
 import { env } from "@/lib/env";
 import { lucia } from "./lucia";
-import { getRoles } from "@/db/queries/users";
-import type { Role } from "@/lib/roles";
+import { isRole, type Role } from "@/lib/roles";
 
 export interface CurrentUser {
   id: string;
@@ -40,7 +39,7 @@ export const getCurrentSession = cache(async (): Promise<SessionResult> => {
       id: user.id,
       email: user.email,
       name: user.name,
-      roles: await getRoles(user.id),
+      roles: user.roles.filter(isRole),
       mustChangePassword: user.mustChangePassword,
       displayUnits: user.displayUnits,
     },

@@ -25,7 +25,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   if (!Number.isInteger(id) || id <= 0) notFound();
   const run = await getRun(id);
   if (!run) notFound();
-  const [settings, siblings, owed] = await Promise.all([getShopSettings(), listRuns({ jobId: run.jobIds[0], limit: 8 }), owedByRun(id)]);
+  const [settings, siblings, owed] = await Promise.all([getShopSettings(), listRuns({ jobId: run.jobIds[0], limit: 8 }), owedByRun(id, run.plan)]);
   const planner = user.roles.some((r) => r === "admin" || r === "planner");
   const cutter = user.roles.some((r) => r === "admin" || r === "cutter");
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
