@@ -5,7 +5,7 @@ import { appendLedger } from "./ledger";
 import { HttpError } from "@/lib/errors";
 import { isoDate } from "@/lib/stock";
 import { parseProblem, type Plan, type Problem } from "@/lib/nesting";
-import { buildProblem, partIdFromKey, type PartForPlan, type StockForPlan } from "@/lib/planning/problem";
+import { buildProblem, partIdFromKey, partKey, type PartForPlan, type StockForPlan } from "@/lib/planning/problem";
 import { lossBreakdown } from "@/lib/planning/losses";
 import { cutEstimate } from "@/lib/planning/gcode";
 import { piecesOf } from "@/lib/planning/cut-regions";
@@ -142,6 +142,34 @@ async function owedParts(trx: Knex | Knex.Transaction, jobIds: number[]): Promis
   }));
 }
 
+/**
+ * Parts that approved plans already hold: placed in blocks they have reserved and not yet cut,
+ * per job part (and which plans), optionally leaving one plan out.
+ */
+async function heldByApprovedPlans(trx: Knex | Knex.Transaction, partIds: number[], exceptRunId?: number): Promise<Map<number, { count: number; runs: number[] }>> {
+  const held = new Map<number, { count: number; runs: number[] }>();
+  if (!partIds.length) return held;
+  const { rows } = await trx.raw(
+    `SELECT pl->>'part' AS part, r.id AS run_id, count(*)::int AS n
+       FROM plan_blocks pb
+       JOIN nesting_runs r ON r.id = pb.run_id
+       JOIN blocks b ON b.id = pb.block_id
+       CROSS JOIN LATERAL jsonb_array_elements(r.plan->'placements') AS pl
+      WHERE pb.status = 'reserved' AND r.status = 'approved' AND r.id <> ? AND pl->>'block' = b.code AND pl->>'part' = ANY(?)
+      GROUP BY 1, 2
+      ORDER BY 2`,
+    [exceptRunId ?? -1, partIds.map(partKey)],
+  );
+  for (const r of rows as { part: string; run_id: number; n: number }[]) {
+    const id = partIdFromKey(r.part);
+    const h = held.get(id) ?? { count: 0, runs: [] };
+    h.count += r.n;
+    h.runs.push(r.run_id);
+    held.set(id, h);
+  }
+  return held;
+}
+
 async function stockForPlan(trx: Knex | Knex.Transaction, blockIds: number[]): Promise<(StockForPlan & { status: string; cutNotBefore: string; neverHotWire: boolean })[]> {
   const rows = await trx("blocks as b")
     .join("grades as g", "g.id", "b.grade_id")
@@ -222,9 +250,22 @@ export async function createRun(
     const jobs = await trx("jobs").whereIn("id", input.jobIds).select("id", "status");
     if (jobs.length !== new Set(input.jobIds).size) throw new HttpError(400, "Some fields need attention.", { jobIds: "One of those jobs does not exist." });
     let parts = await owedParts(trx, input.jobIds);
+    let heldRuns: number[] = [];
     if (input.quantities) parts = parts.map((p) => ({ ...p, quantity: input.quantities!.get(p.id) ?? 0 }));
+    else {
+      // Parts an approved plan already holds in reserved blocks are on their way: not planned twice.
+      const held = await heldByApprovedPlans(trx, parts.map((p) => p.id));
+      heldRuns = [...new Set([...held.values()].flatMap((h) => h.runs))];
+      parts = parts.map((p) => ({ ...p, quantity: Math.max(0, p.quantity - (held.get(p.id)?.count ?? 0)) }));
+    }
     parts = parts.filter((p) => p.quantity > 0);
-    if (!parts.length) throw new HttpError(409, "Nothing is owed on these jobs: every part has been cut.");
+    if (!parts.length)
+      throw new HttpError(
+        409,
+        heldRuns.length
+          ? `Nothing is left to plan: every part still owed is in approved ${heldRuns.length === 1 ? "plan" : "plans"} ${heldRuns.map((r) => `#${r}`).join(", ")}, waiting to be cut. Release a plan first to plan those parts again.`
+          : "Nothing is owed on these jobs: every part has been cut.",
+      );
     const stock = await stockForPlan(trx, input.blockIds);
     const fields: Record<string, string> = {};
     if (stock.length !== new Set(input.blockIds).size) fields.blockIds = "Some of that stock does not exist.";
@@ -364,6 +405,22 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
           const other = await trx("plan_blocks").where({ block_id: b.id, status: "reserved" }).first("run_id");
           throw new HttpError(409, other ? `Block ${b.code} is already earmarked by plan #${other.run_id}. Re-plan without it, or release that plan first.` : `Block ${b.code} is no longer in stock.`);
         }
+      }
+      // One approval per job at a time, so two plans cannot both claim the same owed parts.
+      await trx("jobs").whereIn("id", run.job_ids).orderBy("id").forUpdate().select("id");
+      const placed = new Map<number, number>();
+      for (const pl of plan.placements) placed.set(partIdFromKey(pl.part), (placed.get(partIdFromKey(pl.part)) ?? 0) + 1);
+      const owed = new Map((await owedParts(trx, run.job_ids)).map((p) => [p.id, p]));
+      const held = await heldByApprovedPlans(trx, [...placed.keys()], id);
+      for (const [partId, n] of placed) {
+        const part = owed.get(partId);
+        const h = held.get(partId);
+        const free = Math.max(0, (part?.quantity ?? 0) - (h?.count ?? 0));
+        if (n > free)
+          throw new HttpError(
+            409,
+            `"${part?.name ?? "A part"}": this plan cuts ${n}, but only ${free} ${free === 1 ? "is" : "are"} still owed${h ? ` once approved ${h.runs.length === 1 ? "plan" : "plans"} ${h.runs.map((r) => `#${r}`).join(", ")} ${h.runs.length === 1 ? "is" : "are"} counted` : ""}. Release that plan first, or plan again.`,
+          );
       }
       await trx("plan_blocks").insert(blocks.map((b: { id: number }) => ({ run_id: id, block_id: b.id, status: "reserved" })));
       await trx("blocks").whereIn("id", blocks.map((b: { id: number }) => b.id)).update({ status: "earmarked", updated_at: trx.fn.now() });

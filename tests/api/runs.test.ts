@@ -129,6 +129,37 @@ describe("approval", () => {
     expect((await ledgerGap()).m3).toBeCloseTo(gap.m3, 9);
   });
 
+  it("a new run leaves out parts an approved plan already holds; with nothing left it says which plan holds them", async () => {
+    const { jobId, partIds, runId } = await makeApprovedRun(); // 2 panels held by the approved plan
+    const spare = await makeBlock({ size: [2000, 1000, 600] });
+    const none = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [spare.id], settings: SETTINGS });
+    expect(none.status).toBe(409);
+    expect(none.body.error).toContain(`plan #${runId}`);
+    // The customer orders 3 more: only those 3 are planned.
+    await testDb()("job_parts").where({ id: partIds[0] }).update({ quantity: 5 });
+    const more = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [spare.id], settings: SETTINGS });
+    expect(more.status).toBe(201);
+    const stored = await testDb()("nesting_runs").where({ id: more.body.id }).first("problem");
+    expect((stored.problem as Problem).parts.map((p) => p.quantity)).toEqual([3]);
+    await waitFor(more.body.id, ["done", "failed"]);
+  });
+
+  it("refuses to approve a second plan for parts another approved plan holds, changing nothing", async () => {
+    const { jobId, runId } = await makeApprovedRun();
+    const other = await makeBlock({ size: [2000, 1000, 600] });
+    const second = await makeDoneRun(jobId, [other]);
+    const before = await tableCounts();
+    const res = await planner.post(`/api/runs/${second.runId}/approve`);
+    expect(res.status).toBe(409);
+    expect(res.body.error).toContain("Test panel");
+    expect(res.body.error).toContain(`plan #${runId}`);
+    expect(await tableCounts()).toEqual(before);
+    expect((await testDb()("blocks").where({ id: other.id }).first()).status).toBe("in_stock");
+    // Released, the first plan no longer holds them: the second can be approved.
+    expect((await planner.post(`/api/runs/${runId}/release`)).status).toBe(200);
+    expect((await planner.post(`/api/runs/${second.runId}/approve`)).status).toBe(200);
+  });
+
   it("releases an approved plan's blocks back to stock", async () => {
     const { runId, block } = await makeApprovedRun();
     const res = await planner.post(`/api/runs/${runId}/release`);
