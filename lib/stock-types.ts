@@ -39,3 +39,21 @@ export interface BlockList {
   page: number;
   pageSize: number;
 }
+
+/** What a row of the stock table shows; the stock page sends only these fields to the browser. */
+export type StockRow = Pick<
+  BlockSummary,
+  "id" | "code" | "gradeCode" | "colour" | "neverHotWire" | "size" | "volumeM3" | "shown" | "cutNotBefore" | "fifo" | "location" | "lot" | "defectCount" | "isOffcut"
+>;
+
+/** A stock list page as the stock table needs it (`GET /api/blocks` answers a superset). */
+export interface StockRows extends Omit<BlockList, "items"> {
+  items: StockRow[];
+}
+
+export function toStockRows(list: BlockList): StockRows {
+  const items = list.items.map(({ id, code, gradeCode, colour, neverHotWire, size, volumeM3, shown, cutNotBefore, fifo, location, lot, defectCount, isOffcut }) => ({
+    id, code, gradeCode, colour, neverHotWire, size, volumeM3, shown, cutNotBefore, fifo, location, lot, defectCount, isOffcut,
+  }));
+  return { ...list, items };
+}

@@ -160,7 +160,7 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
             {list.items.map((b) => (
               <tr key={b.id} className="border-b border-bead/60 last:border-0 hover:bg-paper">
                 <td className="px-3 py-2 font-medium">
-                  <Link href={`/stock/${encodeURIComponent(b.code)}`}>{b.code}</Link>
+                  <Link href={`/stock/${encodeURIComponent(b.code)}`} prefetch={false}>{b.code}</Link>
                   {b.isOffcut && <span className="ml-1 text-xs text-ink-faint">offcut</span>}
                 </td>
                 <td className="px-3 py-2"><GradeChip code={b.gradeCode} colour={b.colour} noWire={b.neverHotWire} /></td>

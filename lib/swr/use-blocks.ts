@@ -2,11 +2,11 @@
 
 import useSWR from "swr";
 import { fetcher } from "./fetcher";
-import type { BlockList, BlockSummary } from "@/lib/stock-types";
+import type { StockRow, StockRows } from "@/lib/stock-types";
 
-export type BlockRow = BlockSummary;
+export type BlockRow = StockRow;
 
-export type BlockListResponse = BlockList;
+export type BlockListResponse = StockRows;
 
 /** One page of the stock list, keyed on its API URL (the query string is the filter). */
 export function useBlocks(query: string, fallback?: BlockListResponse) {

@@ -4,6 +4,7 @@ import { requireRole } from "@/lib/auth/guard";
 import { listBlocks, listLocations } from "@/db/queries/blocks";
 import { listGrades } from "@/db/queries/grades";
 import { blockQuerySchema } from "@/lib/validations/stock";
+import { toStockRows } from "@/lib/stock-types";
 import { displayUnit } from "@/lib/display";
 import { PageHeader, Notice } from "@/components/ui/card";
 import { StockTable } from "@/components/stock/stock-table";
@@ -33,7 +34,7 @@ export default async function StockPage({ searchParams }: { searchParams: Promis
           <Notice tone="caution">Some filters in the address were not understood and were ignored.</Notice>
         </div>
       )}
-      <StockTable initial={JSON.parse(JSON.stringify(list))} query={qs} unit={unit} grades={grades.map((g) => ({ id: g.id, code: g.code }))} locations={locations} canExport={canExport} />
+      <StockTable initial={toStockRows(list)} query={qs} unit={unit} grades={grades.map((g) => ({ id: g.id, code: g.code }))} locations={locations} canExport={canExport} />
       <div className="mt-6">
         <StorageCaution compact />
       </div>
