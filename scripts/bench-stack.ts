@@ -1,6 +1,7 @@
 /**
  * A private stack for the benchmark scripts, built from the same pieces as `npm test`: a throwaway
- * Postgres cluster, the S3 fake, the demo seed, the built app on 127.0.0.1 — and a stop() that
+ * Postgres cluster, the S3 fake, the demo seed, the built app on 127.0.0.1 (scripts/serve.mjs, as
+ * `npm start` runs it; WEB_WORKERS sets its process count) — and a stop() that
  * takes all of it down again. TEST_SLOT (default 5) keeps its folders and ports apart from other
  * runs: cluster .data/pg-bench-<slot> on 55020+slot, app on 3220+slot, S3 fake on 55120+slot.
  *
@@ -58,7 +59,8 @@ export async function startBenchStack(name: string, opts: { beforeServe?: (datab
     buildIfNeeded();
     fs.mkdirSync(".data", { recursive: true });
     const log = fs.openSync(`.data/${name}-server-${BENCH_SLOT}.log`, "w");
-    server = spawn("npx", ["next", "start", "-p", String(port), "-H", "127.0.0.1"], {
+    // The app as `npm start` serves it: scripts/serve.mjs, one process per core (WEB_WORKERS).
+    server = spawn(process.execPath, ["scripts/serve.mjs", "--port", String(port), "--hostname", "127.0.0.1"], {
       env: { ...process.env, DATABASE_URL: databaseUrl, APP_URL: url, TRUST_PROXY: "true", NEXT_TELEMETRY_DISABLED: "1" },
       detached: true,
       stdio: ["ignore", log, log],

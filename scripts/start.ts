@@ -1,7 +1,8 @@
 /**
  * `npm start`: Postgres (private cluster on 127.0.0.1 unless DATABASE_URL is set) → migrations →
- * demo seed when the database is empty → build when needed → serve on http://localhost:$PORT.
- * `npm run dev` does the same with `next dev`.
+ * demo seed when the database is empty → build when needed → serve on http://localhost:$PORT
+ * (scripts/serve.mjs: Next's request handler in one process per core). `npm run dev` does the same
+ * with `next dev`.
  */
 import { spawn, type ChildProcess } from "node:child_process";
 import { DEMO_CLUSTER, ensureCluster } from "./pg";
@@ -20,8 +21,11 @@ async function main() {
 
   const env = { ...process.env, DATABASE_URL: url, PORT: port, NEXT_TELEMETRY_DISABLED: "1" };
   const children: ChildProcess[] = [];
-  // next spawns its own children: give it a process group so we can stop all of it.
-  const web = spawn("npx", ["next", dev ? "dev" : "start", "-p", port], { stdio: "inherit", env, detached: true });
+  // Production: scripts/serve.mjs, one app process per core (WEB_WORKERS to change). Both it and
+  // next dev spawn children: give them a process group so we can stop all of it.
+  const web = dev
+    ? spawn("npx", ["next", "dev", "-p", port], { stdio: "inherit", env, detached: true })
+    : spawn(process.execPath, ["scripts/serve.mjs", "--port", port], { stdio: "inherit", env, detached: true });
   children.push(web);
   // One background worker alongside (nesting runs, scheduled alerts); more can run elsewhere.
   const worker = spawn("npm", ["run", "--silent", "worker"], { stdio: "inherit", env, detached: true });

@@ -95,7 +95,8 @@ async function main() {
     if (!onlyUnit) {
       buildIfNeeded();
       ensureChromium();
-      server = spawn("npx", ["next", "start", "-p", port, "-H", "127.0.0.1"], {
+      // Served as `npm start` serves it (scripts/serve.mjs, one process per core).
+      server = spawn(process.execPath, ["scripts/serve.mjs", "--port", port, "--hostname", "127.0.0.1"], {
         env,
         detached: true,
         stdio: ["ignore", fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "w"), fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "a")],
