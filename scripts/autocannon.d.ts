@@ -8,6 +8,8 @@ declare module "autocannon" {
     interface Options {
       url: string;
       connections?: number;
+      /** Requests per second per connection at most (a paced client, not a closed loop). */
+      connectionRate?: number;
       duration?: number;
       timeout?: number;
       headers?: Record<string, string>;
