@@ -11,7 +11,8 @@ export const BOARD_FEET_PER_M3 = 1e6 / CM3_PER_BOARD_FOOT; // ≈ 423.776
 export const KG_M3_PER_LB_FT3 = 0.45359237 / (0.3048 ** 3); // ≈ 16.0185
 
 export const mmToIn = (mm: number) => mm / MM_PER_INCH;
-export const inToMm = (inch: number) => inch * MM_PER_INCH;
+/** Inches to mm, to the micrometre (so 24 in is stored as 609.6 mm, not 609.5999999999999). */
+export const inToMm = (inch: number) => Math.round(inch * MM_PER_INCH * 1000) / 1000;
 
 /** Cubic metres from a size in mm. */
 export const cubicMetres = (x: number, y: number, z: number) => (x * y * z) / 1e9;

@@ -8,6 +8,7 @@ import { Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { ROTATE_LABELS, ROTATE_RULES } from "@/lib/job-terms";
 import { partGeometry, parsePoints, type Profile } from "@/lib/profiles";
+import { formatSize, inToMm, type LengthUnit } from "@/lib/units";
 import { SectionPreview } from "./section-preview";
 
 type Shape = "box" | "polygon" | "naca";
@@ -17,6 +18,8 @@ interface Props {
   target: { kind: "job"; jobId: number } | { kind: "library" };
   grades: { id: number; code: string }[];
   kits?: string[];
+  /** Lengths are typed in this unit (the person's display unit) and sent in mm. */
+  unit?: LengthUnit;
 }
 
 const num = (v: string) => (v.trim() === "" ? null : Number(v));
@@ -26,7 +29,13 @@ const num = (v: string) => (v.trim() === "" ? null : Number(v));
  * chord different from the root makes it a tapered 4-axis panel). The drawing and the computed box
  * follow the fields as they are typed; the server computes them again before saving.
  */
-export function PartForm({ target, grades, kits = [] }: Props) {
+export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
+  const toMm = (n: number) => (unit === "in" ? inToMm(n) : n);
+  /** A length field in mm (empty: null). */
+  const len = (s: string | undefined) => {
+    const n = num(s ?? "");
+    return n === null ? null : toMm(n);
+  };
   const router = useRouter();
   const [shape, setShape] = useState<Shape>("box");
   const [v, setV] = useState<Record<string, string>>({ quantity: "1", rotate: "any", code: "2412", chordMm: "", tipChordMm: "", spanMm: "", sweepMm: "", points: "", extrudeMm: "" });
@@ -38,14 +47,14 @@ export function PartForm({ target, grades, kits = [] }: Props) {
   const profile = useMemo((): { profile: Profile | null; error: string | null } => {
     try {
       if (shape === "naca") {
-        return { profile: { kind: "naca", code: v.code ?? "", chordMm: num(v.chordMm ?? "") ?? 0, tipChordMm: num(v.tipChordMm ?? ""), spanMm: num(v.spanMm ?? "") ?? 0, sweepMm: num(v.sweepMm ?? "") }, error: null };
+        return { profile: { kind: "naca", code: v.code ?? "", chordMm: len(v.chordMm) ?? 0, tipChordMm: len(v.tipChordMm), spanMm: len(v.spanMm) ?? 0, sweepMm: len(v.sweepMm) }, error: null };
       }
-      if (shape === "polygon") return { profile: { kind: "polygon", points: parsePoints(v.points ?? ""), extrudeMm: num(v.extrudeMm ?? "") ?? 0 }, error: null };
+      if (shape === "polygon") return { profile: { kind: "polygon", points: parsePoints(v.points ?? "").map(([x, y]): [number, number] => [toMm(x), toMm(y)]), extrudeMm: len(v.extrudeMm) ?? 0 }, error: null };
     } catch (e) {
       return { profile: null, error: (e as Error).message };
     }
     return { profile: null, error: null };
-  }, [shape, v]);
+  }, [shape, v, unit]);
 
   const computed = useMemo(() => {
     if (!profile.profile) return null;
@@ -64,7 +73,7 @@ export function PartForm({ target, grades, kits = [] }: Props) {
       name: v.name ?? "",
       gradeId: v.gradeId ? Number(v.gradeId) : null,
       rotate: v.rotate,
-      ...(shape === "box" ? { size: [num(v.length ?? ""), num(v.width ?? ""), num(v.height ?? "")] } : { profile: profile.profile }),
+      ...(shape === "box" ? { size: [len(v.length), len(v.width), len(v.height)] } : { profile: profile.profile }),
     };
     try {
       if (target.kind === "job") {
@@ -134,9 +143,9 @@ export function PartForm({ target, grades, kits = [] }: Props) {
 
       {shape === "box" && (
         <div className="grid grid-cols-3 gap-3">
-          <Field label="Length mm" name="length" error={err("size.0", "size")}><Input name="length" inputMode="decimal" value={v.length ?? ""} onChange={set("length")} error={err("size.0", "size")} /></Field>
-          <Field label="Width mm" name="width" error={err("size.1")}><Input name="width" inputMode="decimal" value={v.width ?? ""} onChange={set("width")} error={err("size.1")} /></Field>
-          <Field label="Height mm" name="height" error={err("size.2")}><Input name="height" inputMode="decimal" value={v.height ?? ""} onChange={set("height")} error={err("size.2")} /></Field>
+          <Field label={`Length ${unit}`} name="length" error={err("size.0", "size")}><Input name="length" inputMode="decimal" value={v.length ?? ""} onChange={set("length")} error={err("size.0", "size")} /></Field>
+          <Field label={`Width ${unit}`} name="width" error={err("size.1")}><Input name="width" inputMode="decimal" value={v.width ?? ""} onChange={set("width")} error={err("size.1")} /></Field>
+          <Field label={`Height ${unit}`} name="height" error={err("size.2")}><Input name="height" inputMode="decimal" value={v.height ?? ""} onChange={set("height")} error={err("size.2")} /></Field>
         </div>
       )}
 
@@ -148,23 +157,23 @@ export function PartForm({ target, grades, kits = [] }: Props) {
                 <Field label="NACA code" name="code" error={err("profile.code")} hint="Four digits, e.g. 2412 or 0012.">
                   <Input name="code" value={v.code ?? ""} onChange={set("code")} error={err("profile.code")} />
                 </Field>
-                <Field label="Span mm (along the wire)" name="spanMm" error={err("profile.spanMm")}><Input name="spanMm" inputMode="decimal" value={v.spanMm ?? ""} onChange={set("spanMm")} error={err("profile.spanMm")} /></Field>
-                <Field label="Root chord mm" name="chordMm" error={err("profile.chordMm")}><Input name="chordMm" inputMode="decimal" value={v.chordMm ?? ""} onChange={set("chordMm")} error={err("profile.chordMm")} /></Field>
-                <Field label="Tip chord mm" name="tipChordMm" error={err("profile.tipChordMm")} hint="Empty: same as the root (a 2-axis cut).">
+                <Field label={`Span ${unit} (along the wire)`} name="spanMm" error={err("profile.spanMm")}><Input name="spanMm" inputMode="decimal" value={v.spanMm ?? ""} onChange={set("spanMm")} error={err("profile.spanMm")} /></Field>
+                <Field label={`Root chord ${unit}`} name="chordMm" error={err("profile.chordMm")}><Input name="chordMm" inputMode="decimal" value={v.chordMm ?? ""} onChange={set("chordMm")} error={err("profile.chordMm")} /></Field>
+                <Field label={`Tip chord ${unit}`} name="tipChordMm" error={err("profile.tipChordMm")} hint="Empty: same as the root (a 2-axis cut).">
                   <Input name="tipChordMm" inputMode="decimal" value={v.tipChordMm ?? ""} onChange={set("tipChordMm")} error={err("profile.tipChordMm")} />
                 </Field>
-                <Field label="Sweep mm" name="sweepMm" error={err("profile.sweepMm")} hint="How far the tip's leading edge sits behind the root's. Empty: straight.">
+                <Field label={`Sweep ${unit}`} name="sweepMm" error={err("profile.sweepMm")} hint="How far the tip's leading edge sits behind the root's. Empty: straight.">
                   <Input name="sweepMm" inputMode="decimal" value={v.sweepMm ?? ""} onChange={set("sweepMm")} error={err("profile.sweepMm")} />
                 </Field>
               </>
             ) : (
               <>
                 <div className="sm:col-span-2">
-                  <Field label="Outline points (mm)" name="points" error={err("profile.points", "profile")} hint="“x y; x y; …” in the cutting plane, in order round the outline.">
+                  <Field label={`Outline points (${unit})`} name="points" error={err("profile.points", "profile")} hint="“x y; x y; …” in the cutting plane, in order round the outline.">
                     <textarea id="points" name="points" rows={3} value={v.points ?? ""} onChange={set("points")} className="block w-full rounded-md border border-bead-strong bg-paper-raised px-3 py-2 font-mono text-sm" placeholder="0 0; 180 0; 180 90; 90 140; 0 90" />
                   </Field>
                 </div>
-                <Field label="Extrusion mm (along the wire)" name="extrudeMm" error={err("profile.extrudeMm")}><Input name="extrudeMm" inputMode="decimal" value={v.extrudeMm ?? ""} onChange={set("extrudeMm")} error={err("profile.extrudeMm")} /></Field>
+                <Field label={`Extrusion ${unit} (along the wire)`} name="extrudeMm" error={err("profile.extrudeMm")}><Input name="extrudeMm" inputMode="decimal" value={v.extrudeMm ?? ""} onChange={set("extrudeMm")} error={err("profile.extrudeMm")} /></Field>
               </>
             )}
           </div>
@@ -175,7 +184,7 @@ export function PartForm({ target, grades, kits = [] }: Props) {
                 <span className="text-ember">{profile.error}</span>
               ) : computed && "size" in computed && computed.size ? (
                 <>
-                  Box {computed.size.map((x) => Math.round(x * 10) / 10).join(" × ")} mm
+                  Box {formatSize(computed.size, unit)}
                   <br />
                   Foam {(computed.trueVolumeMm3 / 1e6).toFixed(3)} dm³ each
                 </>

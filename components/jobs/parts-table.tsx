@@ -113,7 +113,7 @@ export function PartsTable({ jobId, parts, unit, editable }: { jobId: number; pa
       </div>
       {parts.length > 0 && (
         <p className="text-sm text-ink-soft" data-testid="job-totals">
-          <strong>{parts.length}</strong> lines · <strong>{totalPieces.toLocaleString("en")}</strong> pieces · <strong>{totalM3.toFixed(3)} m³</strong> of foam in the parts
+          <strong>{parts.length}</strong> {parts.length === 1 ? "line" : "lines"} · <strong>{totalPieces.toLocaleString("en")}</strong> {totalPieces === 1 ? "piece" : "pieces"} · <strong>{totalM3.toFixed(3)} m³</strong> of foam in the parts
           <span className="text-ink-faint"> (* no profile: the box counts)</span>
         </p>
       )}

@@ -2,7 +2,8 @@ import fs from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
-import { signedInPage } from "./pages/sign-in";
+import { SignInPage, signedInPage } from "./pages/sign-in";
+import { TEST_PASSWORD, closeTestDb, makeUser, testDb } from "../support/db";
 import { JobsPage } from "./pages/jobs";
 
 let browser: Browser;
@@ -11,6 +12,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await browser?.close();
+  await closeTestDb();
 });
 
 async function signedIn(role: string, viewport: { width: number; height: number }): Promise<Page> {
@@ -62,6 +64,31 @@ describe("a planner imports a part list into a job", () => {
       const file = await screenshot(page, `job-page-${size}`);
       expect(fs.statSync(file).size).toBeGreaterThan(20_000);
     }
+    await page.context().close();
+  });
+
+  it("a planner who works in inches types inches; the part is stored in mm (25.4 mm to the inch, exact)", async () => {
+    // 1 in = 25.4 mm exactly: international yard and pound agreement (1959).
+    const u = await makeUser(["planner"]);
+    await testDb()("users").where({ id: u.id }).update({ display_units: "in" });
+    const page = await (await browser.newContext({ viewport: VIEWPORTS.tablet })).newPage();
+    const signIn = new SignInPage(page);
+    await signIn.open();
+    await signIn.signIn(u.email, TEST_PASSWORD);
+    await page.waitForURL(`${BASE_URL}/`);
+    const jobs = new JobsPage(page);
+    await jobs.openList();
+    const jobId = await jobs.createJob("Shop-front letters", "Marrow Lane Bakery", "2026-12-20");
+    await jobs.addBoxPart("Letter M", 2, [24, 18, 2], "in");
+    await jobs.submitPart();
+    await expect.poll(() => jobs.partRows().count()).toBe(1);
+    const row = await testDb()("job_parts").where({ job_id: jobId }).first("size_x", "size_y", "size_z", "quantity");
+    expect([Number(row.size_x), Number(row.size_y), Number(row.size_z)]).toEqual([609.6, 457.2, 50.8]);
+    expect(await page.getByTestId("job-parts").textContent()).toMatch(/24 × 18 × 2 in/);
+    // A wing panel typed in inches: the computed box is shown in inches too.
+    await jobs.addNacaPart("Stabiliser", 2, "0012", 6, 6, 16, "in");
+    await expect.poll(async () => (await page.getByTestId("computed-box").textContent()) ?? "").toMatch(/Box 16 × 6 × 0\.72 in/);
+    await screenshot(page, "job-part-form-inches-tablet");
     await page.context().close();
   });
 

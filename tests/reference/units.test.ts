@@ -16,6 +16,13 @@ describe("units against published conversions", () => {
     expect(cubicMetres(ft(4), ft(4), ft(16))).toBeCloseTo(7.249, 3);
   });
 
+  it("1 in = 25.4 mm exactly (international yard and pound agreement, 1959; NIST SP 811); typed inches are kept to the micrometre", () => {
+    expect(inToMm(1)).toBe(25.4);
+    expect(inToMm(24)).toBe(609.6); // 24 × 25.4 in floating point is 609.5999999999999
+    expect(inToMm(48)).toBe(1219.2);
+    expect(inToMm(0.001)).toBe(0.025); // 25.4 µm, to the micrometre
+  });
+
   it("1 lb/ft³ = 16.0185 kg/m³ (domain brief check value 4)", () => {
     expect(KG_M3_PER_LB_FT3).toBeCloseTo(16.0185, 4);
     expect(kgM3ToLbFt3(21.6)).toBeCloseTo(1.35, 2); // ASTM C578 Type II minimum, 1.35 pcf = 21.6 kg/m³

@@ -21,7 +21,7 @@ export default async function LibraryPage() {
         <LibraryList parts={JSON.parse(JSON.stringify(parts))} unit={unit} canEdit={canEdit} />
         {canEdit && (
           <Card title="Add a library part">
-            <PartForm target={{ kind: "library" }} kits={kits} grades={grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }))} />
+            <PartForm target={{ kind: "library" }} unit={unit} kits={kits} grades={grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }))} />
           </Card>
         )}
       </div>

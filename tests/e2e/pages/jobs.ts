@@ -43,14 +43,22 @@ export class JobsPage {
     return this.page.getByTestId("job-parts").locator("tbody tr[data-testid^='part-']");
   }
 
-  async addNacaPart(name: string, qty: number, code: string, chord: number, tip: number, span: number) {
+  async addNacaPart(name: string, qty: number, code: string, chord: number, tip: number, span: number, unit = "mm") {
     await this.page.getByLabel("Part name").fill(name);
     await this.page.getByLabel("Quantity", { exact: true }).fill(String(qty));
     await this.page.getByLabel("NACA wing panel").check();
     await this.page.getByLabel("NACA code").fill(code);
-    await this.page.getByLabel("Root chord mm").fill(String(chord));
-    await this.page.getByLabel("Tip chord mm").fill(String(tip));
-    await this.page.getByLabel("Span mm (along the wire)").fill(String(span));
+    await this.page.getByLabel(`Root chord ${unit}`).fill(String(chord));
+    await this.page.getByLabel(`Tip chord ${unit}`).fill(String(tip));
+    await this.page.getByLabel(`Span ${unit} (along the wire)`).fill(String(span));
+  }
+
+  async addBoxPart(name: string, qty: number, size: [number, number, number], unit = "mm") {
+    await this.page.getByLabel("Part name").fill(name);
+    await this.page.getByLabel("Quantity", { exact: true }).fill(String(qty));
+    await this.page.getByLabel(`Length ${unit}`).fill(String(size[0]));
+    await this.page.getByLabel(`Width ${unit}`).fill(String(size[1]));
+    await this.page.getByLabel(`Height ${unit}`).fill(String(size[2]));
   }
 
   preview() {

@@ -83,7 +83,7 @@ export default async function JobPage({ params }: Params) {
           <>
             <div className="grid gap-5 lg:grid-cols-[1fr_22rem]">
               <Card title="Add a part by hand">
-                <PartForm target={{ kind: "job", jobId: job.id }} grades={grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }))} />
+                <PartForm target={{ kind: "job", jobId: job.id }} unit={unit} grades={grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }))} />
               </Card>
               <Card title="Add from the part library">
                 <AddFromLibrary jobId={job.id} parts={library.map((l) => ({ id: l.id, kit: l.kit, name: l.name, defaultQuantity: l.defaultQuantity, sizeText: formatSize(l.size, unit) }))} />
