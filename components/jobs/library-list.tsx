@@ -9,13 +9,15 @@ import { formatSize, type LengthUnit } from "@/lib/units";
 import type { LibraryPart } from "@/lib/job-terms";
 import { RotateLabel, describeProfile } from "./labels";
 import { SectionPreview } from "./section-preview";
+import { EditLibraryPart } from "./edit-library-part";
 
 export type LibraryRow = LibraryPart;
 
-/** Library parts, one card per kit; the planner can retire a part or bring it back. */
-export function LibraryList({ parts, unit, canEdit }: { parts: LibraryRow[]; unit: LengthUnit; canEdit: boolean }) {
+/** Library parts, one card per kit; the planner can edit a part, retire it or bring it back. */
+export function LibraryList({ parts, unit, canEdit, grades = [] }: { parts: LibraryRow[]; unit: LengthUnit; canEdit: boolean; grades?: { id: number; code: string }[] }) {
   const router = useRouter();
   const [error, setError] = useState<string | null>(null);
+  const [editing, setEditing] = useState<number | null>(null);
   const kits = [...new Set(parts.map((p) => p.kit ?? "Parts without a kit"))];
   async function toggle(p: LibraryRow) {
     setError(null);
@@ -47,7 +49,15 @@ export function LibraryList({ parts, unit, canEdit }: { parts: LibraryRow[]; uni
                   <dt className="text-ink-faint">Grade</dt><dd className="whitespace-nowrap">{p.gradeCode ?? "any"} · <RotateLabel rotate={p.rotate} /></dd>
                   <dt className="text-ink-faint">Usually</dt><dd>× {p.defaultQuantity}</dd>
                 </dl>
-                {canEdit ? <div className="col-start-2 sm:col-start-auto"><Button tone="quiet" onClick={() => toggle(p)}>{p.active ? "Retire" : "Bring back"}</Button></div> : <span className="hidden sm:block" />}
+                {canEdit ? (
+                  <div className="col-start-2 flex gap-1 sm:col-start-auto sm:flex-col">
+                    <Button tone="quiet" onClick={() => setEditing(editing === p.id ? null : p.id)} aria-expanded={editing === p.id} aria-label={`Edit ${p.name}`}>Edit</Button>
+                    <Button tone="quiet" onClick={() => toggle(p)}>{p.active ? "Retire" : "Bring back"}</Button>
+                  </div>
+                ) : (
+                  <span className="hidden sm:block" />
+                )}
+                {canEdit && editing === p.id && <EditLibraryPart part={p} grades={grades} unit={unit} onDone={() => setEditing(null)} />}
               </li>
             ))}
           </ul>

@@ -92,6 +92,31 @@ describe("a planner imports a part list into a job", () => {
     await page.context().close();
   });
 
+  it("a planner edits a library part in place; a bad size is named and nothing changes", async () => {
+    const [made] = await testDb()("library_parts")
+      .insert({ kit: "Test kit", name: "Plinth blank", size_x: 600, size_y: 400, size_z: 300, rotate: "any", default_quantity: 1 })
+      .returning("id");
+    const page = await signedIn("planner", VIEWPORTS.wide);
+    await page.goto(`${BASE_URL}/library`);
+    await page.getByRole("button", { name: "Edit Plinth blank" }).click();
+    const form = page.getByRole("form", { name: "Edit Plinth blank" });
+    await form.getByLabel("Length mm").fill("-5");
+    await form.getByRole("button", { name: "Save the part" }).click();
+    await form.getByText(/must be more than 0/).first().waitFor();
+    await screenshot(page, "library-edit-refused-wide");
+    expect(Number((await testDb()("library_parts").where({ id: made.id }).first("size_x")).size_x)).toBe(600);
+
+    await form.getByLabel("Length mm").fill("650");
+    await form.getByLabel("Part name").fill("Plinth blank, tall");
+    await form.getByLabel("Usual quantity").fill("3");
+    await form.getByRole("button", { name: "Save the part" }).click();
+    await page.getByText("Plinth blank, tall").waitFor();
+    const row = await testDb()("library_parts").where({ id: made.id }).first("name", "size_x", "default_quantity");
+    expect([row.name, Number(row.size_x), row.default_quantity]).toEqual(["Plinth blank, tall", 650, 3]);
+    await screenshot(page, "library-edited-wide");
+    await page.context().close();
+  });
+
   it("shows the part library by kit to a cutter, read-only", async () => {
     for (const [size, viewport] of Object.entries(VIEWPORTS)) {
       const page = await signedIn(size === "wide" ? "planner" : "cutter", viewport);

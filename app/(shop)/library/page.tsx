@@ -14,14 +14,15 @@ export default async function LibraryPage() {
   const canEdit = user.roles.some((r) => r === "admin" || r === "planner");
   const [parts, grades, unit] = await Promise.all([listLibraryParts({ includeRetired: canEdit }), listGrades(), displayUnit(user)]);
   const kits = [...new Set(parts.map((p) => p.kit).filter((k): k is string => !!k))];
+  const gradeOptions = grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }));
   return (
     <>
       <PageHeader title="Part library" lead="Parts the shop cuts again and again, grouped by kit. Add them to a job with a quantity." />
       <div className={`grid gap-5 ${canEdit ? "xl:grid-cols-[1fr_26rem]" : ""}`}>
-        <LibraryList parts={JSON.parse(JSON.stringify(parts))} unit={unit} canEdit={canEdit} />
+        <LibraryList parts={JSON.parse(JSON.stringify(parts))} unit={unit} canEdit={canEdit} grades={gradeOptions} />
         {canEdit && (
           <Card title="Add a library part">
-            <PartForm target={{ kind: "library" }} unit={unit} kits={kits} grades={grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }))} />
+            <PartForm target={{ kind: "library" }} unit={unit} kits={kits} grades={gradeOptions} />
           </Card>
         )}
       </div>
