@@ -71,8 +71,11 @@ export async function makeBlock(opts: { size?: [number, number, number]; gradeCo
 
 /** Ledger on hand minus the volume of blocks in stock: zero when every movement was recorded. */
 export async function ledgerGap(): Promise<{ m3: number; value: number }> {
-  const k = testDb();
-  const ledger = await k("stock_ledger").sum({ m3: "delta_m3", v: "delta_value" }).first();
-  const stock = await k("blocks").whereIn("status", ["in_stock", "earmarked"]).sum({ m3: "volume_m3", v: "cost" }).first();
-  return { m3: Number(ledger?.m3 ?? 0) - Number(stock?.m3 ?? 0), value: Number(ledger?.v ?? 0) - Number(stock?.v ?? 0) };
+  // One statement, so one snapshot: a delivery committed by a test running beside this one (the
+  // browser tests) between two separate reads would show as a gap.
+  const { rows } = await testDb().raw(
+    `SELECT (SELECT coalesce(sum(delta_m3), 0) FROM stock_ledger) - (SELECT coalesce(sum(volume_m3), 0) FROM blocks WHERE status IN ('in_stock', 'earmarked')) AS m3,
+            (SELECT coalesce(sum(delta_value), 0) FROM stock_ledger) - (SELECT coalesce(sum(cost), 0) FROM blocks WHERE status IN ('in_stock', 'earmarked')) AS value`,
+  );
+  return { m3: Number(rows[0].m3), value: Number(rows[0].value) };
 }
