@@ -107,18 +107,21 @@ function ledgerBase(q: LedgerQuery) {
 }
 
 export async function listLedger(q: LedgerQuery): Promise<{ items: LedgerEntry[]; total: number }> {
+  const [items, count] = await Promise.all([listLedgerEntries(q), ledgerBase(q).count<{ n: string }[]>({ n: "*" }).first()]);
+  return { items, total: Number(count?.n ?? 0) };
+}
+
+/** One page of ledger entries, newest first, without counting them all (a block's history, exports). */
+export async function listLedgerEntries(q: LedgerQuery): Promise<LedgerEntry[]> {
   const pageSize = q.pageSize ?? 100;
   const page = q.page ?? 1;
-  const [rows, count] = await Promise.all([
-    ledgerBase(q)
-      .leftJoin("users as u", "u.id", "l.user_id")
-      .select("l.*", "b.code", "u.name as user_name")
-      .orderBy([{ column: "l.at", order: "desc" }, { column: "l.id", order: "desc" }])
-      .limit(pageSize)
-      .offset((page - 1) * pageSize),
-    ledgerBase(q).count<{ n: string }[]>({ n: "*" }).first(),
-  ]);
-  return { items: (rows as Row[]).map(toEntry), total: Number(count?.n ?? 0) };
+  const rows = await ledgerBase(q)
+    .leftJoin("users as u", "u.id", "l.user_id")
+    .select("l.*", "b.code", "u.name as user_name")
+    .orderBy([{ column: "l.at", order: "desc" }, { column: "l.id", order: "desc" }])
+    .limit(pageSize)
+    .offset((page - 1) * pageSize);
+  return (rows as Row[]).map(toEntry);
 }
 
 /** Stock on hand according to the ledger (m³ and value): the figure every page must agree with. */

@@ -4,7 +4,7 @@ import { notFound } from "next/navigation";
 import { requireRole } from "@/lib/auth/guard";
 import { getBlock, listChildren } from "@/db/queries/blocks";
 import { listDefects } from "@/db/queries/defects";
-import { listLedger } from "@/db/queries/ledger";
+import { listLedgerEntries } from "@/db/queries/ledger";
 import { displayUnit } from "@/lib/display";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { GradeChip, StatusBadge } from "@/components/stock/status-badge";
@@ -23,7 +23,7 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
   const code = decodeURIComponent((await params).code);
   const block = await getBlock(code);
   if (!block) notFound();
-  const [defects, offcuts, history, unit] = await Promise.all([listDefects(block.id), listChildren(block.id), listLedger({ blockId: block.id, pageSize: 200 }), displayUnit(user)]);
+  const [defects, offcuts, history, unit] = await Promise.all([listDefects(block.id), listChildren(block.id), listLedgerEntries({ blockId: block.id, pageSize: 200 }), displayUnit(user)]);
   const has = (...r: string[]) => user.roles.some((x) => x === "admin" || r.includes(x));
   const lowDensity = block.densityKgM3 !== null && block.minDensity !== null && block.densityKgM3 < block.minDensity;
   const inStock = block.status === "in_stock";
@@ -135,7 +135,7 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
           </Card>
           <Card title="History">
             <ol className="space-y-2 text-sm">
-              {history.items.map((e) => (
+              {history.map((e) => (
                 <li key={e.id} className="flex flex-wrap justify-between gap-2 border-b border-bead/60 pb-1 last:border-0">
                   <span><strong>{LEDGER_LABELS[e.kind]}</strong>{e.reason && <span className="text-ink-soft"> · {e.reason}</span>}</span>
                   <span className="text-ink-faint">{e.deltaM3 !== 0 && `${e.deltaM3 > 0 ? "+" : ""}${e.deltaM3.toFixed(3)} m³ · `}{e.user ?? "system"} · {e.at.slice(0, 10)}</span>
