@@ -26,7 +26,10 @@ export async function makeBlock(opts: { size?: [number, number, number]; code?: 
       location: "Bay 2",
       cut_not_before: "2026-01-01",
     })
-    .returning(["id", "code"]);
+    .returning(["id", "code", "volume_m3"]);
+  // Received through the ledger like every block in stock, so tests that reconcile the ledger
+  // with the stock (run beside these) still find them equal.
+  await k("stock_ledger").insert({ block_id: block.id, kind: "received", volume_m3: block.volume_m3, delta_m3: block.volume_m3, value: 100, delta_value: 100, reason: "test fixture" });
   return { id: block.id as number, code: block.code as string, gradeCode: grade.code as string };
 }
 
