@@ -221,6 +221,9 @@ const near = (a: number, b: number): boolean => Math.abs(a - b) <= 1e-6;
 const sameSize = (a: Vec3, b: Vec3): boolean => near(a[0], b[0]) && near(a[1], b[1]) && near(a[2], b[2]);
 const ascending = (d: Vec3): Vec3 => [...d].sort((x, y) => x - y) as Vec3;
 
+/** The glue search is tried for up to this many pieces. */
+export const MAX_MERGE_PIECES = 64;
+
 /** A box of the merge search: one part, or two boxes glued face to face (a through cut between them). */
 interface MergeNode {
   /** Size in the node's own frame. */
@@ -229,6 +232,8 @@ interface MergeNode {
   mask: number;
   /** Same key = same sizes reachable = interchangeable in the search. */
   key: string;
+  /** 32-bit hash of `key`, for remembering failed states compactly. */
+  hash: number;
   sorted: Vec3;
   volume: number;
   type?: number;
@@ -238,7 +243,30 @@ interface MergeNode {
 function mergeNode(dims: Vec3, mask: number, extra: Pick<MergeNode, "type" | "kids">): MergeNode {
   const sizes = new Set<string>();
   for (let p = 0; p < PERMS.length; p++) if (mask & (1 << p)) sizes.add(permute(p, dims).map((v) => v.toFixed(4)).join(","));
-  return { dims, mask, key: [...sizes].sort().join(";"), sorted: ascending(dims), volume: vol(dims), ...extra };
+  const key = [...sizes].sort().join(";");
+  return { dims, mask, key, hash: fnv(key, 0x811c9dc5), sorted: ascending(dims), volume: vol(dims), ...extra };
+}
+
+/** FNV-1a over a string's UTF-16 code units. */
+function fnv(text: string, seed: number): number {
+  let h = seed >>> 0;
+  for (let i = 0; i < text.length; i++) h = Math.imul(h ^ text.charCodeAt(i), 0x01000193) >>> 0;
+  return h;
+}
+
+/**
+ * A state (a multiset of boxes) as one number: two 32-bit hashes of the sorted box hashes, folded
+ * into 52 bits. A collision can only make the search skip a state (never accept a wrong packing).
+ */
+function stateHash(boxes: readonly MergeNode[]): number {
+  const hs = boxes.map((b) => b.hash).sort((x, y) => x - y);
+  let a = 0x811c9dc5;
+  let b = 0x01000193;
+  for (const h of hs) {
+    a = Math.imul(a ^ h, 0x01000193) >>> 0;
+    b = Math.imul(b ^ (h + 0x9e3779b9), 0x85ebca6b) >>> 0;
+  }
+  return a * 0x100000 + (b & 0xfffff);
 }
 
 /** True when two ascending sizes share at least two sides (a face could be common). */
@@ -282,7 +310,9 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
     for (let i = 0; i < c; i++) leaves.push(mergeNode(base, mask, { type: t }));
     need += c * vol(base);
   });
-  if (leaves.length === 0 || leaves.length > 200 || Math.abs(need - vol(target)) > 1e-6 * vol(target)) return undefined;
+  // Each level of the search holds its candidate glues: beyond a few dozen pieces that costs more
+  // memory and time than it is worth.
+  if (leaves.length === 0 || leaves.length > MAX_MERGE_PIECES || Math.abs(need - vol(target)) > 1e-6 * vol(target)) return undefined;
   const fitsBlock = (s: Vec3): boolean => s[0] <= targetSorted[0] + 1e-6 && s[1] <= targetSorted[1] + 1e-6 && s[2] <= targetSorted[2] + 1e-6;
   const rootPerm = (n: MergeNode): number => {
     for (let p = 0; p < PERMS.length; p++) if (n.mask & (1 << p) && sameSize(permute(p, n.dims), target)) return p;
@@ -317,7 +347,9 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
     return [...out.values()];
   };
 
-  const failed = new Set<string>();
+  // Failed states, as numbers; bounded so a long search cannot grow memory without end.
+  const failed = new Set<number>();
+  const MAX_REMEMBERED = 200_000;
   let nodes = 0;
   let aborted = false;
   const dfs = (boxes: MergeNode[]): MergeNode | undefined => {
@@ -326,7 +358,7 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
       aborted = true;
       return undefined;
     }
-    const stateKey = boxes.map((b) => b.key).sort().join("|");
+    const stateKey = stateHash(boxes);
     if (failed.has(stateKey)) return undefined;
     const moves: { i: number; j: number; node: MergeNode; score: number }[] = [];
     const pairs = new Set<string>();
@@ -352,7 +384,7 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
       const found = dfs(next);
       if (found || aborted) return found;
     }
-    failed.add(stateKey);
+    if (failed.size < MAX_REMEMBERED) failed.add(stateKey);
     return undefined;
   };
   const root = dfs(leaves);
