@@ -33,7 +33,8 @@ export interface PreparedPhoto extends PhotoType {
 
 /**
  * Decodes the image (refusing what sharp cannot read) and makes a WebP thumbnail, turned upright
- * by the photo's EXIF orientation. Throws `Error("unreadable")` for bytes that only look like an image.
+ * by the photo's EXIF orientation; strips EXIF/XMP/IPTC from the original (re-encoded upright).
+ * Throws `Error("unreadable")` for bytes that only look like an image.
  */
 export async function preparePhoto(bytes: Uint8Array, type: PhotoType): Promise<PreparedPhoto> {
   let meta: Metadata;
@@ -53,6 +54,17 @@ export async function preparePhoto(bytes: Uint8Array, type: PhotoType): Promise<
       .toBuffer();
   } catch {
     throw new Error("unreadable");
+  }
+  // A tablet's photo carries EXIF/XMP/IPTC (often where and when it was taken): the original is
+  // stored without it, turned upright as EXIF said; a photo without such metadata is kept byte for byte.
+  if (meta.exif || meta.xmp || meta.iptc) {
+    try {
+      const upright = sharp(bytes, { limitInputPixels: 80_000_000 }).rotate();
+      const out = await (type.ext === "jpg" ? upright.jpeg({ quality: 92 }) : type.ext === "png" ? upright.png() : upright.webp({ quality: 92 })).toBuffer({ resolveWithObject: true });
+      return { ...type, bytes: new Uint8Array(out.data), width: out.info.width, height: out.info.height, thumb: new Uint8Array(thumb) };
+    } catch {
+      throw new Error("unreadable");
+    }
   }
   const sideways = (meta.orientation ?? 1) >= 5;
   const w = meta.width ?? null;

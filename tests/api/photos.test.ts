@@ -3,6 +3,7 @@ import { client, type Client } from "../support/http";
 import { TEST_PASSWORD, closeTestDb, makeUser, tableCounts, testDb } from "../support/db";
 import { jpegBytes, makeBlock, makeDefect, pngBytes } from "../support/defect-fixtures";
 import { listKeys } from "@/lib/storage/client";
+import sharp from "sharp";
 
 let cutter: Client;
 let defectId: number;
@@ -59,6 +60,29 @@ describe("defect photos: upload", () => {
     const stranger = await client().get(`/api/photos/${a!.id}?size=thumb`);
     expect(stranger.status).toBe(401);
     expect(stranger.headers["content-type"]).toMatch(/json/);
+  });
+
+  it("stores a tablet photo without its EXIF (GPS position, camera), turned upright as EXIF said", async () => {
+    // A 400 x 300 picture taken with the tablet turned (EXIF orientation 6: rotate 90° to view).
+    const tagged = await sharp({ create: { width: 400, height: 300, channels: 3, background: "#b8b2a4" } })
+      .jpeg({ quality: 85 })
+      .withExif({ IFD0: { Make: "Tablet maker", Model: "Shop tablet" }, IFD3: { GPSLatitudeRef: "N", GPSLatitude: "51/1 28/1 40/1", GPSLongitudeRef: "W", GPSLongitude: "0/1 0/1 5/1" } })
+      .withMetadata({ orientation: 6 })
+      .toBuffer();
+    const before = await sharp(tagged).metadata();
+    expect(before.exif, "the fixture really carries EXIF").toBeDefined();
+    expect(before.orientation).toBe(6);
+    const res = await upload(cutter, defectId, [{ name: "IMG_2041.jpg", content: tagged, type: "image/jpeg" }]);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const [item] = res.body.items as { id: number; width: number; height: number }[];
+    expect(item).toMatchObject({ width: 300, height: 400 });
+    const full = await cutter.get(`/api/photos/${item!.id}`).buffer(true);
+    const meta = await sharp(full.body as Buffer).metadata();
+    expect(meta.format).toBe("jpeg");
+    expect(meta.exif).toBeUndefined();
+    expect(meta.orientation ?? 1).toBe(1);
+    expect([meta.width, meta.height]).toEqual([300, 400]);
+    expect((full.body as Buffer).includes(Buffer.from("Shop tablet"))).toBe(false);
   });
 
   it("refuses a text file renamed .jpg with 415 and stores nothing, not even the good photo beside it", async () => {
