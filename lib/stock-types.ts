@@ -41,10 +41,8 @@ export interface BlockList {
 }
 
 /** What a row of the stock table shows; the stock page sends only these fields to the browser. */
-export type StockRow = Pick<
-  BlockSummary,
-  "id" | "code" | "gradeCode" | "colour" | "neverHotWire" | "size" | "volumeM3" | "shown" | "cutNotBefore" | "fifo" | "location" | "lot" | "defectCount" | "isOffcut"
->;
+const STOCK_ROW_FIELDS = ["id", "code", "gradeCode", "colour", "neverHotWire", "size", "volumeM3", "shown", "cutNotBefore", "fifo", "location", "lot", "defectCount", "isOffcut"] as const;
+export type StockRow = Pick<BlockSummary, (typeof STOCK_ROW_FIELDS)[number]>;
 
 /** A stock list page as the stock table needs it (`GET /api/blocks` answers a superset). */
 export interface StockRows extends Omit<BlockList, "items"> {
@@ -52,8 +50,6 @@ export interface StockRows extends Omit<BlockList, "items"> {
 }
 
 export function toStockRows(list: BlockList): StockRows {
-  const items = list.items.map(({ id, code, gradeCode, colour, neverHotWire, size, volumeM3, shown, cutNotBefore, fifo, location, lot, defectCount, isOffcut }) => ({
-    id, code, gradeCode, colour, neverHotWire, size, volumeM3, shown, cutNotBefore, fifo, location, lot, defectCount, isOffcut,
-  }));
+  const items = list.items.map((b) => Object.fromEntries(STOCK_ROW_FIELDS.map((f) => [f, b[f]])) as StockRow);
   return { ...list, items };
 }

@@ -18,10 +18,9 @@
  *   npm run bench:load -- --duration 10 --connections 50
  *   WEB_WORKERS=1 npm run bench:load    # one app process, like `next start`
  */
-import fs from "node:fs";
 import os from "node:os";
 import autocannon from "autocannon";
-import { BENCH_SLOT, ms, percentile, signIn, startBenchStack } from "./bench-stack";
+import { BENCH_SLOT, ms, percentile, runBench, saveReport, signIn, startBenchStack } from "./bench-stack";
 
 const arg = (name: string, fallback: number) => {
   const i = process.argv.indexOf(`--${name}`);
@@ -200,17 +199,10 @@ async function main() {
       `target (judged on the ${cookies.length}-users-with-think-time model): p95 < 150 ms and 0 errors — ${met ? "met" : "NOT met"}; saturation errors: ${rows.every((r) => ok(r.saturation)) ? "none" : "SOME"}`,
     ];
     console.log(lines.join("\n"));
-    fs.mkdirSync("bench-results", { recursive: true });
-    fs.writeFileSync(`bench-results/load-${new Date().toISOString().slice(0, 10)}.md`, lines.join("\n") + "\n");
+    saveReport("load", lines);
   } finally {
     await stack.stop();
   }
 }
 
-main().then(
-  () => process.exit(0),
-  (e) => {
-    console.error(e instanceof Error ? e.stack : e);
-    process.exit(1);
-  },
-);
+runBench(main);

@@ -103,3 +103,20 @@ export function percentile(sorted: number[], p: number): number {
 }
 
 export const ms = (v: number) => (Number.isFinite(v) ? `${v.toFixed(1)} ms` : "—");
+
+/** Writes a benchmark's printed report to bench-results/<name>-<date>.md. */
+export function saveReport(name: string, lines: readonly string[]): void {
+  fs.mkdirSync("bench-results", { recursive: true });
+  fs.writeFileSync(`bench-results/${name}-${new Date().toISOString().slice(0, 10)}.md`, lines.join("\n") + "\n");
+}
+
+/** Runs a benchmark's main and exits: 0 when it finished, 1 with the stack when it threw. */
+export function runBench(main: () => Promise<void>): void {
+  main().then(
+    () => process.exit(0),
+    (e) => {
+      console.error(e instanceof Error ? e.stack : e);
+      process.exit(1);
+    },
+  );
+}

@@ -7,10 +7,9 @@
  *   npm run bench:stock              # 50,000 blocks, 60 timed requests per filter
  *   npm run bench:stock -- --blocks 20000 --runs 30 --explain
  */
-import fs from "node:fs";
 import os from "node:os";
 import knex from "knex";
-import { BENCH_SLOT, ms, percentile, signIn, startBenchStack } from "./bench-stack";
+import { BENCH_SLOT, ms, percentile, runBench, saveReport, signIn, startBenchStack } from "./bench-stack";
 import { DEMO_PASSWORD } from "../db/seeds/01_shop";
 
 const arg = (name: string, fallback: number) => {
@@ -125,17 +124,10 @@ async function main() {
       console.log(plan.rows.map((r: Record<string, string>) => r["QUERY PLAN"]).join("\n"));
       await k2.destroy();
     }
-    fs.mkdirSync("bench-results", { recursive: true });
-    fs.writeFileSync(`bench-results/stock-${new Date().toISOString().slice(0, 10)}.md`, lines.join("\n") + "\n");
+    saveReport("stock", lines);
   } finally {
     await stack.stop();
   }
 }
 
-main().then(
-  () => process.exit(0),
-  (e) => {
-    console.error(e instanceof Error ? e.stack : e);
-    process.exit(1);
-  },
-);
+runBench(main);

@@ -7,9 +7,9 @@ import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { ROTATE_LABELS, ROTATE_RULES, type LibraryPart } from "@/lib/job-terms";
-import { inToMm, mmToIn, type LengthUnit } from "@/lib/units";
+import { mmToIn, type LengthUnit } from "@/lib/units";
+import { lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
 
-const num = (v: string) => (v.trim() === "" ? null : Number(v));
 const shown = (mm: number, unit: LengthUnit) => String(unit === "in" ? Math.round(mmToIn(mm) * 1000) / 1000 : mm);
 
 /**
@@ -34,10 +34,7 @@ export function EditLibraryPart({ part, grades, unit, onDone }: { part: LibraryP
   const [msg, setMsg] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   const set = (k: string) => (e: { target: { value: string } }) => setV((s) => ({ ...s, [k]: e.target.value }));
-  const len = (s: string | undefined) => {
-    const n = num(s ?? "");
-    return n === null ? null : unit === "in" ? inToMm(n) : n;
-  };
+  const len = (s: string | undefined) => lengthMmOrNull(s ?? "", unit);
   const err = (k: string) => Object.entries(fields).find(([f]) => f === k || f.startsWith(`${k}.`))?.[1];
 
   async function save() {

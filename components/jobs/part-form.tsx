@@ -9,6 +9,7 @@ import { Field, Input, Select } from "@/components/ui/field";
 import { ROTATE_LABELS, ROTATE_RULES } from "@/lib/job-terms";
 import { partGeometry, parsePoints, type Profile } from "@/lib/profiles";
 import { formatSize, inToMm, type LengthUnit } from "@/lib/units";
+import { lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
 import { SectionPreview } from "./section-preview";
 
 type Shape = "box" | "polygon" | "naca";
@@ -22,7 +23,6 @@ interface Props {
   unit?: LengthUnit;
 }
 
-const num = (v: string) => (v.trim() === "" ? null : Number(v));
 
 /**
  * Adds a part by hand: a plain box, a polygon extruded along the wire, or a NACA wing panel (a tip
@@ -31,11 +31,7 @@ const num = (v: string) => (v.trim() === "" ? null : Number(v));
  */
 export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
   const toMm = (n: number) => (unit === "in" ? inToMm(n) : n);
-  /** A length field in mm (empty: null). */
-  const len = (s: string | undefined) => {
-    const n = num(s ?? "");
-    return n === null ? null : toMm(n);
-  };
+  const len = (s: string | undefined) => lengthMmOrNull(s ?? "", unit);
   const router = useRouter();
   const [shape, setShape] = useState<Shape>("box");
   const [v, setV] = useState<Record<string, string>>({ quantity: "1", rotate: "any", code: "2412", chordMm: "", tipChordMm: "", spanMm: "", sweepMm: "", points: "", extrudeMm: "" });

@@ -8,7 +8,8 @@ import { Button, buttonClass } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { addDays, isoDate } from "@/lib/stock";
-import { inToMm, type LengthUnit } from "@/lib/units";
+import type { LengthUnit } from "@/lib/units";
+import { lengthMmOrNull } from "@/lib/forms";
 
 interface GradeOption { id: number; code: string; minDensity: number | null; cureDays: number; neverHotWire: boolean }
 interface Row { key: number; code: string; gradeId: string; x: string; y: string; z: string; weight: string; cost: string; location: string; mouldedOn: string }
@@ -22,7 +23,7 @@ export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: numb
   const { busy, fields, message, submit } = useSubmit();
   const [done, setDone] = useState<{ codes: string[]; warnings: { index: number; message: string }[] } | null>(null);
   const [receivedOn, setReceivedOn] = useState(isoDate());
-  const toMm = (s: string) => (s.trim() === "" ? null : unit === "in" ? inToMm(Number(s)) : Number(s));
+  const toMm = (s: string) => lengthMmOrNull(s, unit);
   const update = (key: number, patch: Partial<Row>) => setRows((rs) => rs.map((r) => (r.key === key ? { ...r, ...patch } : r)));
   const cell = "min-h-11 w-full rounded-md border bg-paper-raised px-2 text-sm";
   const bad = (k: string) => (fields[k] ? "border-ember" : "border-bead-strong");

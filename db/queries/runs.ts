@@ -170,6 +170,9 @@ async function heldByApprovedPlans(trx: Knex | Knex.Transaction, partIds: number
   return held;
 }
 
+/** "plan #3" or "plans #3, #5", for messages. */
+const plansNamed = (runs: number[]): string => `${runs.length === 1 ? "plan" : "plans"} ${runs.map((r) => `#${r}`).join(", ")}`;
+
 async function stockForPlan(trx: Knex | Knex.Transaction, blockIds: number[]): Promise<(StockForPlan & { status: string; cutNotBefore: string; neverHotWire: boolean })[]> {
   const rows = await trx("blocks as b")
     .join("grades as g", "g.id", "b.grade_id")
@@ -263,7 +266,7 @@ export async function createRun(
       throw new HttpError(
         409,
         heldRuns.length
-          ? `Nothing is left to plan: every part still owed is in approved ${heldRuns.length === 1 ? "plan" : "plans"} ${heldRuns.map((r) => `#${r}`).join(", ")}, waiting to be cut. Release a plan first to plan those parts again.`
+          ? `Nothing is left to plan: every part still owed is in approved ${plansNamed(heldRuns)}, waiting to be cut. Release a plan first to plan those parts again.`
           : "Nothing is owed on these jobs: every part has been cut.",
       );
     const stock = await stockForPlan(trx, input.blockIds);
@@ -419,7 +422,7 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
         if (n > free)
           throw new HttpError(
             409,
-            `"${part?.name ?? "A part"}": this plan cuts ${n}, but only ${free} ${free === 1 ? "is" : "are"} still owed${h ? ` once approved ${h.runs.length === 1 ? "plan" : "plans"} ${h.runs.map((r) => `#${r}`).join(", ")} ${h.runs.length === 1 ? "is" : "are"} counted` : ""}. Release that plan first, or plan again.`,
+            `"${part?.name ?? "A part"}": this plan cuts ${n}, but only ${free} ${free === 1 ? "is" : "are"} still owed${h ? ` once approved ${plansNamed(h.runs)} ${h.runs.length === 1 ? "is" : "are"} counted` : ""}. Release that plan first, or plan again.`,
           );
       }
       await trx("plan_blocks").insert(blocks.map((b: { id: number }) => ({ run_id: id, block_id: b.id, status: "reserved" })));

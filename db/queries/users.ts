@@ -55,11 +55,6 @@ export async function getUser(id: string): Promise<UserSummary | undefined> {
   return row ? toUser(row) : undefined;
 }
 
-export async function getRoles(userId: string): Promise<Role[]> {
-  const rows = await db()("user_roles").where({ user_id: userId }).select<{ role: string }[]>("role");
-  return rows.map((r) => r.role).filter(isRole);
-}
-
 export async function findUserForSignIn(email: string) {
   return db()("users")
     .whereRaw("lower(email) = lower(?)", [email])

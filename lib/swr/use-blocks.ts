@@ -2,9 +2,7 @@
 
 import useSWR from "swr";
 import { fetcher } from "./fetcher";
-import type { StockRow, StockRows } from "@/lib/stock-types";
-
-export type BlockRow = StockRow;
+import type { StockRows } from "@/lib/stock-types";
 
 export type BlockListResponse = StockRows;
 

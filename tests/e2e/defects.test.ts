@@ -2,7 +2,7 @@ import fs from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
-import { SignInPage } from "./pages/sign-in";
+import { signedInPage } from "./pages/sign-in";
 import { FlagDefectPage } from "./pages/flag-defect";
 import { closeTestDb, testDb } from "../support/db";
 import { jpegBytes, makeBlock } from "../support/defect-fixtures";
@@ -17,13 +17,8 @@ afterAll(async () => {
 });
 
 async function signedIn(role: string, viewport: { width: number; height: number }): Promise<{ context: BrowserContext; page: Page }> {
-  const context = await browser.newContext({ viewport });
-  const page = await context.newPage();
-  const signIn = new SignInPage(page);
-  await signIn.open();
-  await signIn.signIn(`${role}@demo.blockyard.test`, "blockyard-demo");
-  await page.waitForURL(`${BASE_URL}/`);
-  return { context, page };
+  const page = await signedInPage(browser, role, viewport);
+  return { context: page.context(), page };
 }
 
 describe("flag a defect", () => {

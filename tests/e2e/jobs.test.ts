@@ -2,7 +2,7 @@ import fs from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
-import { SignInPage, signedInPage } from "./pages/sign-in";
+import { signedInAs, signedInPage } from "./pages/sign-in";
 import { TEST_PASSWORD, closeTestDb, makeUser, testDb } from "../support/db";
 import { JobsPage } from "./pages/jobs";
 
@@ -71,11 +71,7 @@ describe("a planner imports a part list into a job", () => {
     // 1 in = 25.4 mm exactly: international yard and pound agreement (1959).
     const u = await makeUser(["planner"]);
     await testDb()("users").where({ id: u.id }).update({ display_units: "in" });
-    const page = await (await browser.newContext({ viewport: VIEWPORTS.tablet })).newPage();
-    const signIn = new SignInPage(page);
-    await signIn.open();
-    await signIn.signIn(u.email, TEST_PASSWORD);
-    await page.waitForURL(`${BASE_URL}/`);
+    const page = await signedInAs(browser, u.email, TEST_PASSWORD, VIEWPORTS.tablet);
     const jobs = new JobsPage(page);
     await jobs.openList();
     const jobId = await jobs.createJob("Shop-front letters", "Marrow Lane Bakery", "2026-12-20");

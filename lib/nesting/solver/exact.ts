@@ -1,4 +1,4 @@
-import { guillotineSplits, type Box } from "../geometry";
+import { EPS, atLeastSorted, guillotineSplits, sameVec, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
 import { carveObstacles } from "./guillotine3d";
@@ -217,8 +217,7 @@ const permute = (p: number, d: Vec3): Vec3 => {
 /** AFTER[q][p]: the permutation "p, then q". */
 const AFTER: number[][] = PERMS.map((q) => PERMS.map((p) => PERMS.findIndex((r) => r.every((v, j) => v === p[q[j]!]))));
 const ALL_PERMS = (1 << PERMS.length) - 1;
-const near = (a: number, b: number): boolean => Math.abs(a - b) <= 1e-6;
-const sameSize = (a: Vec3, b: Vec3): boolean => near(a[0], b[0]) && near(a[1], b[1]) && near(a[2], b[2]);
+const near = (a: number, b: number): boolean => Math.abs(a - b) <= EPS;
 const ascending = (d: Vec3): Vec3 => [...d].sort((x, y) => x - y) as Vec3;
 
 /** The glue search is tried for up to this many pieces. */
@@ -306,16 +305,15 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
     const type = types[t]!;
     const base = type.dims[0]!;
     let mask = 0;
-    for (let p = 0; p < PERMS.length; p++) if (type.dims.some((d) => sameSize(d, permute(p, base)))) mask |= 1 << p;
+    for (let p = 0; p < PERMS.length; p++) if (type.dims.some((d) => sameVec(d, permute(p, base)))) mask |= 1 << p;
     for (let i = 0; i < c; i++) leaves.push(mergeNode(base, mask, { type: t }));
     need += c * vol(base);
   });
   // Each level of the search holds its candidate glues: beyond a few dozen pieces that costs more
   // memory and time than it is worth.
   if (leaves.length === 0 || leaves.length > MAX_MERGE_PIECES || Math.abs(need - vol(target)) > 1e-6 * vol(target)) return undefined;
-  const fitsBlock = (s: Vec3): boolean => s[0] <= targetSorted[0] + 1e-6 && s[1] <= targetSorted[1] + 1e-6 && s[2] <= targetSorted[2] + 1e-6;
   const rootPerm = (n: MergeNode): number => {
-    for (let p = 0; p < PERMS.length; p++) if (n.mask & (1 << p) && sameSize(permute(p, n.dims), target)) return p;
+    for (let p = 0; p < PERMS.length; p++) if (n.mask & (1 << p) && sameVec(permute(p, n.dims), target)) return p;
     return -1;
   };
 
@@ -334,7 +332,7 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
           if (!near(da[o1]!, db[o1]!) || !near(da[o2]!, db[o2]!)) continue;
           const dims = [...da] as Vec3;
           dims[ax] = da[ax]! + db[ax]!;
-          if (!fitsBlock(ascending(dims))) continue;
+          if (!atLeastSorted(target, dims)) continue;
           let mask = 0;
           for (let q = 0; q < PERMS.length; q++) if (a.mask & (1 << AFTER[q]![pa]!) && b.mask & (1 << AFTER[q]![pb]!)) mask |= 1 << q;
           const at: Vec3 = [0, 0, 0];
