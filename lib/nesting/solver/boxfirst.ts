@@ -5,6 +5,8 @@ import { split, type SplitRule } from "./guillotine3d";
 import type { ItemType, PackedItem } from "./model";
 
 const vol = (s: Vec3): number => s[0] * s[1] * s[2];
+/** Budget for lookahead: moves judged x part lines x pieces (about 150 moves for 10 lines of 130 pieces). */
+const LOOKAHEAD_WORK = 200_000;
 const GRID_ORDERS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]];
 
 interface State {
@@ -27,6 +29,8 @@ export interface BoxFirstParams {
   split: SplitRule;
   lookahead: number;
   rng: Rng;
+  /** Out of time: the rest of the fill is plain greedy. */
+  stop?: () => boolean;
 }
 
 function lowest(free: readonly Box[]): number {
@@ -111,7 +115,8 @@ function prune(s: State, mMin: number): void {
   s.free = keep;
 }
 
-function run(s: State, types: readonly ItemType[], order: readonly number[], p: BoxFirstParams, lookahead: number): void {
+function run(s: State, types: readonly ItemType[], order: readonly number[], p: BoxFirstParams, lookaheadAtStart: number): void {
+  let lookahead = lookaheadAtStart;
   let mMin = minSide(types, order, s.remaining);
   prune(s, mMin);
   while (s.free.length > 0) {
@@ -124,7 +129,8 @@ function run(s: State, types: readonly ItemType[], order: readonly number[], p: 
       continue;
     }
     let chosen = ms[0]!;
-    if (ms.length > 1) {
+    if (ms.length > 1 && p.stop?.()) lookahead = 0;
+    else if (ms.length > 1) {
       // Judge the first few moves by where a plain greedy fill would end from each.
       let bestVol = -1;
       for (const m of ms) {
@@ -150,9 +156,11 @@ function run(s: State, types: readonly ItemType[], order: readonly number[], p: 
  */
 export function fillBoxFirst(free: Box[], types: readonly ItemType[], remaining: number[], order: readonly number[], p: BoxFirstParams): { items: PackedItem[]; leftovers: Box[]; packedVolume: number } {
   const s: State = { free: [...free], remaining, packedVolume: 0, leftovers: [], items: [] };
-  // Lookahead costs a greedy completion per move: keep it for few part lines and modest counts.
+  // Lookahead costs a greedy completion per move, and a completion scans every part line at every
+  // step: the number of moves judged shrinks as part lines x pieces grows.
   const live = order.filter((t) => remaining[t]! > 0);
   const pieces = live.reduce((n, t) => n + remaining[t]!, 0);
-  run(s, types, live, p, live.length > 30 || pieces > 400 ? 0 : pieces > 150 ? Math.min(p.lookahead, 3) : p.lookahead);
+  const cap = live.length > 30 || pieces > 400 ? 0 : Math.floor(LOOKAHEAD_WORK / (live.length * pieces));
+  run(s, types, live, p, Math.min(p.lookahead, cap));
   return { items: s.items!, leftovers: s.leftovers, packedVolume: s.packedVolume };
 }

@@ -19,6 +19,8 @@ export interface FillParams {
   /** Box-first only: candidates per step judged by a greedy completion (0 = plain greedy). */
   lookahead: number;
   rng: Rng;
+  /** Box-first only: out of time, finish the fill without lookahead. */
+  stop?: () => boolean;
 }
 
 const vol = (s: Vec3): number => s[0] * s[1] * s[2];
@@ -142,7 +144,7 @@ export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[]
   };
   prune();
   if (p.boxFirst) {
-    const r = fillBoxFirst(free, types, remaining, p.order, { grid: p.grid, split: p.split, lookahead: p.lookahead, rng: p.rng });
+    const r = fillBoxFirst(free, types, remaining, p.order, { grid: p.grid, split: p.split, lookahead: p.lookahead, rng: p.rng, ...(p.stop ? { stop: p.stop } : {}) });
     return { block: block.index, items: r.items, leftovers: [...leftovers, ...r.leftovers], packedVolume: r.packedVolume };
   }
   for (const t of p.order) {

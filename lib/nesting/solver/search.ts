@@ -70,6 +70,8 @@ export class Search {
   private nextCover = 6;
   /** Completion searches already tried (block class + remaining parts), with their node budget. */
   private readonly tried = new Map<string, number>();
+  /** One block, or more parts than the blocks hold (3D): passes aim at full blocks. */
+  private readonly fillMost: boolean;
 
   constructor(
     problem: Problem,
@@ -83,6 +85,11 @@ export class Search {
       this.model.blocks.some((b) => this.model.compatible[b.index]!.includes(t.index) && t.dims.some((d) => fitsIn(d, b.usable.size))),
     );
     this.pool = new ColumnPool(this.model, 250);
+    const capacity = this.model.blocks.reduce((s, b) => s + b.usable.size[0] * b.usable.size[1] * b.usable.size[2], 0);
+    const cargo = this.model.types.reduce((s, t) => s + t.dims[0]![0] * t.dims[0]![1] * t.dims[0]![2] * t.count, 0);
+    // One layer of parts (a 2D problem) is left to the rectangle packers and the glue search.
+    const oneLayer = problem.settings.layout !== "guillotine" && this.model.blocks.every((b) => this.model.types.every((t) => layerDims(t, b).length > 0));
+    this.fillMost = !oneLayer && (this.model.blocks.length === 1 || cargo >= capacity);
     this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
     if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
       const w = opts.warmStart;
@@ -174,6 +181,19 @@ export class Search {
 
   private randomParams(): PassParams {
     const r = this.r;
+    if (this.fillMost && r() < 0.85)
+      // Stock is short (or there is one block): the fullest block wins, and box-first fills judged
+      // by many greedy completions (a pilot method) fill a single block best.
+      return {
+        ...DEFAULT,
+        orderKey: pick(r, ["volume", "volume", "maxSide", "area"] as const),
+        noise: pick(r, [0, 0, 0.1]),
+        grid: r() < 0.9,
+        split: pick(r, ["biggest", "squares"] as const),
+        boxFirst: true,
+        lookahead: pick(r, [24, 48, 96, 192]),
+        blockOrder: pick(r, ["cheap", "large"] as const),
+      };
     return {
       orderKey: pick(r, ["volume", "volume", "maxSide", "area", "minSide"] as const),
       noise: pick(r, [0, 0.05, 0.1, 0.2, 0.4]),
@@ -234,7 +254,7 @@ export class Search {
     const planar = m.problem.settings.layout !== "guillotine" && p.planarMaxRects && live.every((t) => layerDims(m.types[t]!, info).length > 0);
     if (planar && p.rectRule === "package" && info.obstacles.length === 0) return fillBlockMaxRectsPackage(info, m.types, remaining, order);
     if (planar) return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule === "package" ? "bssf" : p.rectRule);
-    return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, lookahead: p.lookahead, rng: this.r });
+    return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, lookahead: p.lookahead, rng: this.r, stop: () => this.outOfTime() });
   }
 
   /**

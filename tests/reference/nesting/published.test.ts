@@ -5,7 +5,7 @@
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { nestSync, validatePlan, type Vec3 } from "@/lib/nesting";
-import { benchDataDir, load2DClass, loadZeroWaste, problemOf, readCsv } from "@/scripts/lib-bench/loaders";
+import { benchDataDir, brPart, load2DClass, loadBr, loadZeroWaste, problemOf, readCsv } from "@/scripts/lib-bench/loaders";
 
 const dir = benchDataDir();
 
@@ -59,6 +59,28 @@ describe.skipIf(!dir)("Berkey & Wang (1987); Martello & Vigo (1998): 2D class se
         total += plan.stats.blocksUsed;
       }
       expect(total).toBeLessThanOrEqual(best.get(group)! + 1);
+    });
+  }
+});
+
+describe.skipIf(!dir)("Bischoff & Ratcliff (1995), Omega 23(4):377–390: BR container loading, one container, free layout", () => {
+  // Published heuristics reach about 94–96 % mean fill on BR1–BR7 [memory, see the benchmarks
+  // README]; simple one-pass greedy packers about 85–90 % [memory]. Boxes whose flags allow two
+  // of their sides vertical are held to one of them here (the format's rotate rules cannot say
+  // "these two"), a stricter rule than the benchmark's. Sample: instances this solver fills to 90 %
+  // within 8 passes (BR7 instance 1 stays at 89.6 %); class means are in lib/nesting/README.md.
+  const cases = [
+    [1, 1], [1, 2], [4, 1], [5, 1], [7, 2],
+  ] as const;
+  for (const [set, no] of cases) {
+    it(`BR${set} instance ${no}: at least 90 % of the container filled, every box as its flags allow`, () => {
+      const inst = loadBr(dir!, set).find((i) => i.no === no);
+      expect(inst, `BR${set} instance ${no} in the data`).toBeDefined();
+      const problem = problemOf({ bins: [inst!.container], parts: inst!.boxes.map((b) => ({ ...brPart(b), quantity: b.count })), layout: "free", timeLimitMs: 1000 });
+      const plan = nestSync(problem, { seed: 1, iterations: 8 });
+      expect(validatePlan(problem, plan)).toEqual([]);
+      const cv = inst!.container[0] * inst!.container[1] * inst!.container[2];
+      expect(plan.stats.partVolume / cv).toBeGreaterThanOrEqual(0.9);
     });
   }
 });
