@@ -80,4 +80,25 @@ describe("stock list and block page", () => {
       await screenshot(page, `block-page-${size}`);
     }
   });
+
+  it("shows the page the server rendered without fetching it again, also after a filter change", async () => {
+    const page = await signedIn("buyer", VIEWPORTS.wide);
+    const fetched: string[] = [];
+    page.on("request", (r) => {
+      if (new URL(r.url()).pathname === "/api/blocks") fetched.push(r.url());
+    });
+    await page.goto(`${BASE_URL}/stock`);
+    await expect.poll(() => page.getByTestId("stock-totals").textContent()).toMatch(/\d+ pieces?/);
+    await page.getByLabel("Status").selectOption("all");
+    await page.waitForURL(/status=all/);
+    // The figures shown are the server's for the new filter (polled: other suites may add blocks).
+    await expect
+      .poll(async () => {
+        const shown = Number((await page.getByTestId("stock-totals").textContent())!.match(/([\d,]+) pieces?/)![1]!.replace(/,/g, ""));
+        const api = (await (await page.request.get(`${BASE_URL}/api/blocks?status=all`)).json()) as { total: number };
+        return shown === api.total;
+      })
+      .toBe(true);
+    expect(fetched).toEqual([]);
+  });
 });
