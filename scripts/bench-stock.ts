@@ -118,8 +118,11 @@ async function main() {
     if (EXPLAIN) {
       const k2 = knex({ client: "pg", connection: stack.databaseUrl });
       const plan = await k2.raw(
+        // The deep page as listBlocks runs it: the page's ids from the narrow index, then their rows.
         `EXPLAIN (ANALYZE, BUFFERS) SELECT b.*, (SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id) AS defect_count
-           FROM blocks b JOIN grades g ON g.id = b.grade_id WHERE b.status IN ('in_stock','earmarked') ORDER BY b.created_at, b.id LIMIT 50 OFFSET 29950`,
+           FROM blocks b JOIN grades g ON g.id = b.grade_id
+          WHERE b.id IN (SELECT id FROM blocks WHERE status IN ('in_stock','earmarked') ORDER BY created_at, id LIMIT 50 OFFSET 29950)
+          ORDER BY b.created_at, b.id`,
       );
       console.log(plan.rows.map((r: Record<string, string>) => r["QUERY PLAN"]).join("\n"));
       await k2.destroy();
