@@ -89,7 +89,10 @@ export class Search {
     const cargo = this.model.types.reduce((s, t) => s + t.dims[0]![0] * t.dims[0]![1] * t.dims[0]![2] * t.count, 0);
     // One layer of parts (a 2D problem) is left to the rectangle packers and the glue search.
     const oneLayer = problem.settings.layout !== "guillotine" && this.model.blocks.every((b) => this.model.types.every((t) => layerDims(t, b).length > 0));
-    this.fillMost = !oneLayer && (this.model.blocks.length === 1 || cargo >= capacity);
+    // Judging moves by greedy completions pays only for modest orders (see fillBoxFirst's cap).
+    const pieces = this.model.types.reduce((s, t) => s + t.count, 0);
+    const modest = pieces <= 400 && this.model.types.length <= 30;
+    this.fillMost = modest && !oneLayer && (this.model.blocks.length === 1 || cargo >= capacity);
     this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
     if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
       const w = opts.warmStart;
