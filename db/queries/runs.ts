@@ -50,14 +50,24 @@ export interface RunDetail extends RunSummary {
   parts: { id: number; name: string; jobId: number; trueVolumeMm3: number | null }[];
 }
 
+/** What lists show of a finished plan, stored with it (`nesting_runs.summary`). */
+interface PlanFigures {
+  stats: Plan["stats"];
+  cost: number | null;
+  cutLengthMm: number | null;
+}
+
 interface RunRow {
   id: number;
   status: RunStatus;
   job_ids: number[];
   block_ids: number[];
   settings: RunSettings;
-  problem: Problem;
-  plan: Plan | null;
+  /** Absent when a list read only the light columns. */
+  problem?: Problem;
+  plan?: Plan | null;
+  summary?: PlanFigures | null;
+  has_plan?: boolean;
   best: RunFigures | null;
   progress: number;
   error: string | null;
@@ -89,7 +99,12 @@ export async function jobNames(ids: number[]): Promise<Map<number, string>> {
   return new Map(rows.map((r: { id: number; name: string }) => [r.id, r.name]));
 }
 
+function planFigures(problem: Problem, plan: Plan): PlanFigures {
+  return { stats: plan.stats, cost: planCost(problem, plan), cutLengthMm: planCutLength(problem, plan) };
+}
+
 function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
+  const figures = r.summary ?? (r.plan && r.problem ? planFigures(r.problem, r.plan) : null);
   return {
     id: r.id,
     status: r.status,
@@ -105,9 +120,9 @@ function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
     finishedAt: r.finished_at?.toISOString() ?? null,
     approvedAt: r.approved_at?.toISOString() ?? null,
     parentRunId: r.parent_run_id,
-    stats: r.plan?.stats ?? null,
-    cost: planCost(r.problem, r.plan),
-    cutLengthMm: planCutLength(r.problem, r.plan),
+    stats: figures?.stats ?? null,
+    cost: figures?.cost ?? null,
+    cutLengthMm: figures?.cutLengthMm ?? null,
   };
 }
 
@@ -300,17 +315,36 @@ export async function createRun(
 
 const runSelect = () => db()("nesting_runs as r").leftJoin("users as u", "u.id", "r.created_by").select("r.*", "u.name as created_by_name");
 
+/** Every column but the (large) problem and plan. */
+const LIGHT_COLUMNS = ["id", "status", "job_ids", "block_ids", "settings", "best", "progress", "error", "created_at", "finished_at", "approved_at", "parent_run_id", "summary"].map((c) => `r.${c}`);
+
 export async function listRuns(opts: { jobId?: number; statuses?: RunStatus[]; limit?: number } = {}): Promise<RunSummary[]> {
-  const q = runSelect().orderBy("r.id", "desc").limit(opts.limit ?? 50);
+  const q = db()("nesting_runs as r")
+    .leftJoin("users as u", "u.id", "r.created_by")
+    .select(...LIGHT_COLUMNS, "u.name as created_by_name", db().raw("r.plan IS NOT NULL AS has_plan"))
+    .orderBy("r.id", "desc")
+    .limit(opts.limit ?? 50);
   if (opts.jobId) q.whereRaw("? = ANY(r.job_ids)", [opts.jobId]);
   if (opts.statuses) q.whereIn("r.status", opts.statuses);
   const rows = (await q) as RunRow[];
+  await fillMissingFigures(rows.filter((r) => r.has_plan && !r.summary));
   const names = await jobNames([...new Set(rows.flatMap((r) => r.job_ids))]);
   return rows.map((r) => toSummary(r, names));
 }
 
+/** Runs planned before figures were stored with the plan: work them out once and keep them. */
+async function fillMissingFigures(rows: RunRow[]): Promise<void> {
+  if (!rows.length) return;
+  const full = (await db()("nesting_runs").whereIn("id", rows.map((r) => r.id)).select("id", "problem", "plan")) as { id: number; problem: Problem; plan: Plan }[];
+  for (const f of full) {
+    const row = rows.find((r) => r.id === f.id)!;
+    row.summary = planFigures(f.problem, f.plan);
+    await db()("nesting_runs").where({ id: f.id }).whereNull("summary").update({ summary: JSON.stringify(row.summary) });
+  }
+}
+
 export async function getRun(id: number): Promise<RunDetail | undefined> {
-  const r = (await runSelect().where("r.id", id).first()) as RunRow | undefined;
+  const r = (await runSelect().where("r.id", id).first()) as (RunRow & { problem: Problem; plan: Plan | null }) | undefined;
   if (!r) return undefined;
   const names = await jobNames(r.job_ids);
   const blocks = await db()("blocks as b")
@@ -352,6 +386,8 @@ export async function saveProgress(id: number, progress: number, best: RunFigure
 }
 
 export async function finishRun(id: number, plan: Plan): Promise<void> {
+  const row = (await db()("nesting_runs").where({ id }).first("problem")) as { problem: Problem } | undefined;
+  const summary = row ? JSON.stringify(planFigures(row.problem, plan)) : null;
   await db()("nesting_runs")
     .where({ id })
     .whereIn("status", ["running", "cancelled"])
@@ -359,6 +395,7 @@ export async function finishRun(id: number, plan: Plan): Promise<void> {
       // A cancelled run keeps its best plan so far, but stays cancelled.
       status: db().raw("CASE WHEN status = 'cancelled' THEN 'cancelled' ELSE 'done' END"),
       plan: JSON.stringify(plan),
+      summary,
       progress: 1,
       finished_at: db().fn.now(),
       best: { placedVolume: plan.stats.partVolume, blocksUsed: plan.stats.blocksUsed, yield: plan.stats.yield, unplacedCount: plan.unplaced.reduce((s, u) => s + u.count, 0), lowerBoundBlocks: plan.stats.lowerBoundBlocks },

@@ -47,6 +47,29 @@ describe("nesting runs in the background worker", () => {
     expect(placed).toBe(10);
     expect(plan.unplaced).toEqual([]);
     expect(run.best.blocksUsed).toBe(plan.stats.blocksUsed);
+    // Lists read the figures stored with the plan, not the plan itself.
+    const stored = await testDb()("nesting_runs").where({ id: run.id }).first("summary");
+    expect(stored.summary.stats).toEqual(plan.stats);
+    const list = await planner.get(`/api/runs?job=${jobId}`);
+    const item = list.body.items.find((r: { id: number }) => r.id === run.id);
+    expect(item).toMatchObject({ stats: plan.stats, cost: run.cost, cutLengthMm: run.cutLengthMm });
+    expect(item.cost).toBeGreaterThan(0);
+    expect(item.cutLengthMm).toBeGreaterThan(0);
+    expect(item.plan).toBeUndefined();
+    expect(item.problem).toBeUndefined();
+  });
+
+  it("works out and keeps the figures of a run planned before they were stored with the plan", async () => {
+    const made = await makePlannedBlock();
+    expect((await testDb()("nesting_runs").where({ id: made.runId }).first("summary")).summary).toBeNull();
+    const detail = (await planner.get(`/api/runs/${made.runId}`)).body.run;
+    const list = await planner.get(`/api/runs?job=${made.jobId}`);
+    expect(list.status).toBe(200);
+    const item = list.body.items.find((r: { id: number }) => r.id === made.runId);
+    expect(item).toMatchObject({ stats: made.plan.stats, cost: detail.cost, cutLengthMm: detail.cutLengthMm });
+    expect(item.cost).toBeGreaterThan(0);
+    const stored = (await testDb()("nesting_runs").where({ id: made.runId }).first("summary")).summary;
+    expect(stored).toMatchObject({ stats: made.plan.stats, cost: detail.cost, cutLengthMm: detail.cutLengthMm });
   });
 
   it("can be stopped while it searches, and keeps the best plan found", async () => {
