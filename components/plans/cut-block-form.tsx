@@ -48,13 +48,13 @@ export function CutBlockForm({ runId, blockId, code, parts }: { runId: number; b
     >
       {error && <Notice tone="danger">{error}</Notice>}
       <table className="text-sm">
-        <thead><tr><th className="py-1">Part</th><th className="text-right">From this block</th><th>Rejected</th><th>Why</th></tr></thead>
+        <thead><tr><th className="py-1">Part</th><th className="pr-4 text-right">From this block</th><th className="pr-3">Rejected</th><th>Why</th></tr></thead>
         <tbody>
           {parts.map((p) => (
             <tr key={p.jobPartId} className="border-t border-bead/60">
               <td className="py-1">{p.name}</td>
-              <td className="text-right tabular-nums">{p.count}</td>
-              <td><input aria-label={`Rejected ${p.name}`} inputMode="numeric" className="min-h-11 w-20 rounded-md border border-bead-strong px-2" value={rejects[p.jobPartId]?.count ?? ""} onChange={(e) => setRejects({ ...rejects, [p.jobPartId]: { count: e.target.value, reason: rejects[p.jobPartId]?.reason ?? "" } })} /></td>
+              <td className="pr-4 text-right tabular-nums">{p.count}</td>
+              <td className="pr-3"><input aria-label={`Rejected ${p.name}`} inputMode="numeric" className="min-h-11 w-20 rounded-md border border-bead-strong px-2" value={rejects[p.jobPartId]?.count ?? ""} onChange={(e) => setRejects({ ...rejects, [p.jobPartId]: { count: e.target.value, reason: rejects[p.jobPartId]?.reason ?? "" } })} /></td>
               <td><input aria-label={`Why ${p.name} was rejected`} className="min-h-11 w-full rounded-md border border-bead-strong px-2" placeholder="e.g. void in the cut face" value={rejects[p.jobPartId]?.reason ?? ""} onChange={(e) => setRejects({ ...rejects, [p.jobPartId]: { count: rejects[p.jobPartId]?.count ?? "", reason: e.target.value } })} /></td>
             </tr>
           ))}

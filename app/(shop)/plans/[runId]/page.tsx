@@ -46,11 +46,11 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
             <RunStatusBadge status={run.status} />
             <span>for {run.jobNames.join(", ")}</span>
             {run.settings.layout ? (
-              <span className="text-ink-faint">· {run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin {run.settings.defectMargin} mm</span>
+              <span className="text-ink-faint">{run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin {run.settings.defectMargin} mm</span>
             ) : (
-              <span className="text-ink-faint">· recorded history (no plan stored)</span>
+              <span className="text-ink-faint">recorded history (no plan stored)</span>
             )}
-            {run.parentRunId && <span>· re-plan of <Link href={`/plans/${run.parentRunId}`}>#{run.parentRunId}</Link></span>}
+            {run.parentRunId && <span>re-plan of <Link href={`/plans/${run.parentRunId}`}>#{run.parentRunId}</Link></span>}
           </span>
         }
         actions={
