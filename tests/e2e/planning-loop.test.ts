@@ -3,7 +3,8 @@ import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
 import { signedInPage } from "./pages/sign-in";
 import { JobsPage } from "./pages/jobs";
-import { closeTestDb, makeBlock } from "../support/db";
+import { closeTestDb, makeBlock, testDb } from "../support/db";
+import { makeJobWithParts } from "../support/planning-fixtures";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -85,5 +86,24 @@ describe("the planner's and the cutter's loop", () => {
     // The plan is closed once every block is cut.
     await planner.goto(`${BASE_URL}/plans/${runId}`);
     await planner.getByText("Cut and closed").first().waitFor();
+  });
+
+  it("chooses two jobs on the new-plan page and plans them together", async () => {
+    const a = await makeJobWithParts([{ name: "Arch segment", quantity: 2, size: [900, 300, 200], gradeCode: "EPS-II" }]);
+    const b = await makeJobWithParts([{ name: "Plinth", quantity: 1, size: [600, 600, 300], gradeCode: "EPS-II" }]);
+    const names = await testDb()("jobs").whereIn("id", [a.jobId, b.jobId]).orderBy("id").pluck("name");
+    for (const viewport of [VIEWPORTS.tablet, VIEWPORTS.wide]) {
+      const planner = await signedIn("planner", viewport);
+      await planner.goto(`${BASE_URL}/plans`);
+      await planner.getByRole("link", { name: "New plan" }).click();
+      await planner.waitForURL(/\/plans\/new$/);
+      for (const name of names) await planner.getByRole("checkbox", { name: new RegExp(name) }).check();
+      await screenshot(planner, `new-plan-choose-jobs-${viewport.width}`);
+      await planner.getByRole("button", { name: "Choose stock for these jobs" }).click();
+      await planner.waitForURL(/\/plans\/new\?job=\d+&job=\d+/);
+      const lead = await planner.getByText(/^Nest the parts still owed on/).textContent();
+      for (const name of names) expect(lead).toContain(name);
+      await planner.close();
+    }
   });
 });

@@ -30,7 +30,14 @@ export default async function JobsPage({ searchParams }: { searchParams: Promise
       <PageHeader
         title="Jobs"
         lead="Batches of parts to cut, soonest due first. A job takes parts until it is planned."
-        actions={canEdit && <Link className={buttonClass("secondary")} href="/library">Part library</Link>}
+        actions={
+          canEdit && (
+            <>
+              <Link className={buttonClass("secondary")} href="/plans/new">Plan jobs together</Link>
+              <Link className={buttonClass("secondary")} href="/library">Part library</Link>
+            </>
+          )
+        }
       />
       {!parsed.success && <div className="mb-4"><Notice tone="caution">Some filters in the address were not understood and were ignored.</Notice></div>}
       <div className={`grid gap-5 ${canEdit ? "lg:grid-cols-[1fr_22rem]" : ""}`}>

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { requireRole } from "@/lib/auth/guard";
 import { listRuns } from "@/db/queries/runs";
 import { Card, PageHeader } from "@/components/ui/card";
+import { buttonClass } from "@/components/ui/button";
 import { RunStatusBadge } from "@/components/plans/run-status";
 
 export const metadata: Metadata = { title: "Plans" };
@@ -25,7 +26,11 @@ export default async function PlansPage() {
   );
   return (
     <>
-      <PageHeader title="Plans" lead="Nesting runs: what to cut, from which blocks, in which order." />
+      <PageHeader
+        title="Plans"
+        lead="Nesting runs: what to cut, from which blocks, in which order."
+        actions={user.roles.some((r) => r === "admin" || r === "planner") && <Link className={buttonClass("primary")} href="/plans/new">New plan</Link>}
+      />
       <div className="space-y-5">
         <Card title={user.roles.includes("cutter") ? "Approved plans to cut" : "Approved plans (stock earmarked)"}>
           {approved.length ? <table>{head}<tbody>{approved.map((r) => <Row key={r.id} r={r} />)}</tbody></table> : <p className="text-sm text-ink-soft">No approved plans waiting.</p>}

@@ -2,20 +2,58 @@ import type { Metadata } from "next";
 import { requireRole } from "@/lib/auth/guard";
 import { candidateStock, jobNames } from "@/db/queries/runs";
 import { getShopSettings } from "@/db/queries/settings";
-import { Notice, PageHeader } from "@/components/ui/card";
+import { listJobs } from "@/db/queries/jobs";
+import { JOB_STATUS_LABELS } from "@/lib/job-terms";
+import { Card, Notice, PageHeader } from "@/components/ui/card";
+import { buttonClass } from "@/components/ui/button";
 import { NewRunForm } from "@/components/plans/new-run-form";
 
 export const metadata: Metadata = { title: "New plan" };
 
-export default async function NewPlanPage({ searchParams }: { searchParams: Promise<{ jobs?: string }> }) {
+/** `?jobs=3,5` (from a job's page) or `?job=3&job=5` (from the chooser below). */
+function chosenJobs(q: { jobs?: string; job?: string | string[] }): number[] {
+  const raw = [q.jobs ?? "", ...[q.job ?? []].flat()].join(",");
+  return [...new Set(raw.split(",").filter((x) => /^\d+$/.test(x)).map(Number))];
+}
+
+export default async function NewPlanPage({ searchParams }: { searchParams: Promise<{ jobs?: string; job?: string | string[] }> }) {
   await requireRole("planner");
-  const raw = (await searchParams).jobs ?? "";
-  const jobIds = /^\d+(,\d+)*$/.test(raw) ? raw.split(",").map(Number) : [];
+  const jobIds = chosenJobs(await searchParams);
   if (!jobIds.length) {
+    const { items } = await listJobs({ status: "active", page: 1, pageSize: 200 });
+    const open = items.filter((j) => j.pieceCount > 0);
     return (
       <>
-        <PageHeader title="New plan" />
-        <Notice tone="caution">Choose the jobs to plan from the Jobs page.</Notice>
+        <PageHeader title="New plan" lead="Choose the jobs to nest together: their parts share the stock you pick next." />
+        {open.length === 0 ? (
+          <Notice tone="caution">No open job has parts to plan. Add a job and its parts on the Jobs page first.</Notice>
+        ) : (
+          <Card>
+            <form method="get" action="/plans/new" className="space-y-3">
+              <fieldset>
+                <legend className="mb-2 text-sm font-medium text-ink-soft">Jobs ({open.length})</legend>
+                <ul className="divide-y divide-bead">
+                  {open.map((j) => (
+                    <li key={j.id}>
+                      <label className="flex min-h-11 items-center gap-3 py-2">
+                        <input type="checkbox" name="job" value={j.id} className="size-5" />
+                        <span className="flex-1">
+                          <span className="font-medium">{j.name}</span>
+                          {j.customer && <span className="text-ink-soft"> · {j.customer}</span>}
+                          <span className="block text-sm text-ink-faint">
+                            {JOB_STATUS_LABELS[j.status]} · {j.lineCount} {j.lineCount === 1 ? "line" : "lines"} · {j.pieceCount} {j.pieceCount === 1 ? "piece" : "pieces"}
+                            {j.dueOn && <> · due {j.dueOn}</>}
+                          </span>
+                        </span>
+                      </label>
+                    </li>
+                  ))}
+                </ul>
+              </fieldset>
+              <button type="submit" className={buttonClass("primary")}>Choose stock for these jobs</button>
+            </form>
+          </Card>
+        )}
       </>
     );
   }
