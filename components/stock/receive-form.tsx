@@ -103,21 +103,50 @@ export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: numb
             const low = density !== null && grade?.minDensity != null && density < grade.minDensity;
             const p = (k: string) => `blocks.${i}.${k}`;
             const rowErrors = Object.entries(fields).filter(([k]) => k.startsWith(`blocks.${i}.`));
+            // Captions above every field on narrow screens; on wide ones the first row's serve as column heads.
+            const caption = `mb-0.5 block text-xs font-medium text-ink-soft ${i === 0 ? "" : "lg:hidden"}`;
             return (
               <fieldset key={r.key} className="rounded-md border border-bead p-3" aria-label={`Block ${i + 1}`}>
                 <div className="grid grid-cols-2 gap-2 sm:grid-cols-4 lg:grid-cols-[7rem_9rem_repeat(3,5.5rem)_5.5rem_6rem_1fr_9rem]">
-                  <input aria-label={`Block ${i + 1} code (blank: Blockyard numbers it)`} placeholder="code (auto)" value={r.code} onChange={(e) => update(r.key, { code: e.target.value })} className={`${cell} ${bad(p("code"))}`} />
-                  <select aria-label={`Block ${i + 1} grade`} value={r.gradeId} onChange={(e) => update(r.key, { gradeId: e.target.value })} className={`${cell} ${bad(p("gradeId"))}`}>
-                    <option value="">grade…</option>
-                    {grades.map((g) => <option key={g.id} value={g.id}>{g.code}</option>)}
-                  </select>
-                  <input aria-label={`Block ${i + 1} length`} placeholder="length" inputMode="decimal" value={r.x} onChange={(e) => update(r.key, { x: e.target.value })} className={`${cell} ${bad(p("size.0"))}`} />
-                  <input aria-label={`Block ${i + 1} width`} placeholder="width" inputMode="decimal" value={r.y} onChange={(e) => update(r.key, { y: e.target.value })} className={`${cell} ${bad(p("size.1"))}`} />
-                  <input aria-label={`Block ${i + 1} height`} placeholder="height" inputMode="decimal" value={r.z} onChange={(e) => update(r.key, { z: e.target.value })} className={`${cell} ${bad(p("size.2"))}`} />
-                  <input aria-label={`Block ${i + 1} weight kg`} placeholder="kg" inputMode="decimal" value={r.weight} onChange={(e) => update(r.key, { weight: e.target.value })} className={`${cell} ${bad(p("weightKg"))}`} />
-                  <input aria-label={`Block ${i + 1} cost`} placeholder="cost" inputMode="decimal" value={r.cost} onChange={(e) => update(r.key, { cost: e.target.value })} className={`${cell} ${bad(p("cost"))}`} />
-                  <input aria-label={`Block ${i + 1} location`} placeholder="location" value={r.location} onChange={(e) => update(r.key, { location: e.target.value })} className={`${cell} ${bad(p("location"))}`} />
-                  <input aria-label={`Block ${i + 1} moulding date`} type="date" value={r.mouldedOn} onChange={(e) => update(r.key, { mouldedOn: e.target.value })} className={`${cell} ${bad(p("mouldedOn"))}`} />
+                  <label className="block">
+                    <span aria-hidden="true" className={caption}>Code</span>
+                    <input aria-label={`Block ${i + 1} code (blank: Blockyard numbers it)`} placeholder="code (auto)" value={r.code} onChange={(e) => update(r.key, { code: e.target.value })} className={`${cell} ${bad(p("code"))}`} />
+                  </label>
+                  <label className="block">
+                    <span aria-hidden="true" className={caption}>Grade</span>
+                    <select aria-label={`Block ${i + 1} grade`} value={r.gradeId} onChange={(e) => update(r.key, { gradeId: e.target.value })} className={`${cell} ${bad(p("gradeId"))}`}>
+                      <option value="">grade…</option>
+                      {grades.map((g) => <option key={g.id} value={g.id}>{g.code}</option>)}
+                    </select>
+                  </label>
+                  <label className="block">
+                    <span aria-hidden="true" className={caption}>{`Length (${unit})`}</span>
+                    <input aria-label={`Block ${i + 1} length`} placeholder="length" inputMode="decimal" value={r.x} onChange={(e) => update(r.key, { x: e.target.value })} className={`${cell} ${bad(p("size.0"))}`} />
+                  </label>
+                  <label className="block">
+                    <span aria-hidden="true" className={caption}>{`Width (${unit})`}</span>
+                    <input aria-label={`Block ${i + 1} width`} placeholder="width" inputMode="decimal" value={r.y} onChange={(e) => update(r.key, { y: e.target.value })} className={`${cell} ${bad(p("size.1"))}`} />
+                  </label>
+                  <label className="block">
+                    <span aria-hidden="true" className={caption}>{`Height (${unit})`}</span>
+                    <input aria-label={`Block ${i + 1} height`} placeholder="height" inputMode="decimal" value={r.z} onChange={(e) => update(r.key, { z: e.target.value })} className={`${cell} ${bad(p("size.2"))}`} />
+                  </label>
+                  <label className="block">
+                    <span aria-hidden="true" className={caption}>Weight (kg)</span>
+                    <input aria-label={`Block ${i + 1} weight kg`} placeholder="kg" inputMode="decimal" value={r.weight} onChange={(e) => update(r.key, { weight: e.target.value })} className={`${cell} ${bad(p("weightKg"))}`} />
+                  </label>
+                  <label className="block">
+                    <span aria-hidden="true" className={caption}>Cost</span>
+                    <input aria-label={`Block ${i + 1} cost`} placeholder="cost" inputMode="decimal" value={r.cost} onChange={(e) => update(r.key, { cost: e.target.value })} className={`${cell} ${bad(p("cost"))}`} />
+                  </label>
+                  <label className="block">
+                    <span aria-hidden="true" className={caption}>Location</span>
+                    <input aria-label={`Block ${i + 1} location`} placeholder="location" value={r.location} onChange={(e) => update(r.key, { location: e.target.value })} className={`${cell} ${bad(p("location"))}`} />
+                  </label>
+                  <label className="block">
+                    <span aria-hidden="true" className={caption}>Moulded on</span>
+                    <input aria-label={`Block ${i + 1} moulding date`} type="date" value={r.mouldedOn} onChange={(e) => update(r.key, { mouldedOn: e.target.value })} className={`${cell} ${bad(p("mouldedOn"))}`} />
+                  </label>
                 </div>
                 <div className="mt-2 flex flex-wrap items-center justify-between gap-2 text-xs">
                   <span className="text-ink-soft">
