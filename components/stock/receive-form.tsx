@@ -1,7 +1,7 @@
 "use client";
 
 import Link from "next/link";
-import { useState } from "react";
+import { useState, type ReactNode } from "react";
 import { send } from "@/lib/swr/fetcher";
 import { useSubmit } from "@/components/ui/use-submit";
 import { Button, buttonClass } from "@/components/ui/button";
@@ -108,45 +108,36 @@ export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: numb
             return (
               <fieldset key={r.key} className="rounded-md border border-bead p-3" aria-label={`Block ${i + 1}`}>
                 <div className="grid grid-cols-2 gap-2 sm:grid-cols-4 lg:grid-cols-[7rem_9rem_repeat(3,5.5rem)_5.5rem_6rem_1fr_9rem]">
-                  <label className="block">
-                    <span aria-hidden="true" className={caption}>Code</span>
+                  <Captioned caption="Code" className={caption}>
                     <input aria-label={`Block ${i + 1} code (blank: Blockyard numbers it)`} placeholder="code (auto)" value={r.code} onChange={(e) => update(r.key, { code: e.target.value })} className={`${cell} ${bad(p("code"))}`} />
-                  </label>
-                  <label className="block">
-                    <span aria-hidden="true" className={caption}>Grade</span>
+                  </Captioned>
+                  <Captioned caption="Grade" className={caption}>
                     <select aria-label={`Block ${i + 1} grade`} value={r.gradeId} onChange={(e) => update(r.key, { gradeId: e.target.value })} className={`${cell} ${bad(p("gradeId"))}`}>
                       <option value="">grade…</option>
                       {grades.map((g) => <option key={g.id} value={g.id}>{g.code}</option>)}
                     </select>
-                  </label>
-                  <label className="block">
-                    <span aria-hidden="true" className={caption}>{`Length (${unit})`}</span>
+                  </Captioned>
+                  <Captioned caption={`Length (${unit})`} className={caption}>
                     <input aria-label={`Block ${i + 1} length`} placeholder="length" inputMode="decimal" value={r.x} onChange={(e) => update(r.key, { x: e.target.value })} className={`${cell} ${bad(p("size.0"))}`} />
-                  </label>
-                  <label className="block">
-                    <span aria-hidden="true" className={caption}>{`Width (${unit})`}</span>
+                  </Captioned>
+                  <Captioned caption={`Width (${unit})`} className={caption}>
                     <input aria-label={`Block ${i + 1} width`} placeholder="width" inputMode="decimal" value={r.y} onChange={(e) => update(r.key, { y: e.target.value })} className={`${cell} ${bad(p("size.1"))}`} />
-                  </label>
-                  <label className="block">
-                    <span aria-hidden="true" className={caption}>{`Height (${unit})`}</span>
+                  </Captioned>
+                  <Captioned caption={`Height (${unit})`} className={caption}>
                     <input aria-label={`Block ${i + 1} height`} placeholder="height" inputMode="decimal" value={r.z} onChange={(e) => update(r.key, { z: e.target.value })} className={`${cell} ${bad(p("size.2"))}`} />
-                  </label>
-                  <label className="block">
-                    <span aria-hidden="true" className={caption}>Weight (kg)</span>
+                  </Captioned>
+                  <Captioned caption="Weight (kg)" className={caption}>
                     <input aria-label={`Block ${i + 1} weight kg`} placeholder="kg" inputMode="decimal" value={r.weight} onChange={(e) => update(r.key, { weight: e.target.value })} className={`${cell} ${bad(p("weightKg"))}`} />
-                  </label>
-                  <label className="block">
-                    <span aria-hidden="true" className={caption}>Cost</span>
+                  </Captioned>
+                  <Captioned caption="Cost" className={caption}>
                     <input aria-label={`Block ${i + 1} cost`} placeholder="cost" inputMode="decimal" value={r.cost} onChange={(e) => update(r.key, { cost: e.target.value })} className={`${cell} ${bad(p("cost"))}`} />
-                  </label>
-                  <label className="block">
-                    <span aria-hidden="true" className={caption}>Location</span>
+                  </Captioned>
+                  <Captioned caption="Location" className={caption}>
                     <input aria-label={`Block ${i + 1} location`} placeholder="location" value={r.location} onChange={(e) => update(r.key, { location: e.target.value })} className={`${cell} ${bad(p("location"))}`} />
-                  </label>
-                  <label className="block">
-                    <span aria-hidden="true" className={caption}>Moulded on</span>
+                  </Captioned>
+                  <Captioned caption="Moulded on" className={caption}>
                     <input aria-label={`Block ${i + 1} moulding date`} type="date" value={r.mouldedOn} onChange={(e) => update(r.key, { mouldedOn: e.target.value })} className={`${cell} ${bad(p("mouldedOn"))}`} />
-                  </label>
+                  </Captioned>
                 </div>
                 <div className="mt-2 flex flex-wrap items-center justify-between gap-2 text-xs">
                   <span className="text-ink-soft">
@@ -169,5 +160,15 @@ export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: numb
       </Card>
       <Button type="submit" disabled={busy}>{busy ? "Saving…" : `Receive ${rows.length} block${rows.length === 1 ? "" : "s"}`}</Button>
     </form>
+  );
+}
+
+/** A field with a small caption above it (the control keeps its own, fuller accessible name). */
+function Captioned({ caption, className, children }: { caption: string; className: string; children: ReactNode }) {
+  return (
+    <label className="block">
+      <span aria-hidden="true" className={className}>{caption}</span>
+      {children}
+    </label>
   );
 }
