@@ -4,7 +4,7 @@ import type { Vec3 } from "../types";
 import { fillBoxFirst } from "./boxfirst";
 import { fitsIn, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
-export type SplitRule = "biggest" | "squares" | "random";
+export type SplitRule = "biggest" | "squares" | "random" | "column";
 
 export interface FillParams {
   /** Type indices in the order they are tried. */
@@ -74,7 +74,12 @@ export function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
   const orders = [
     [0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0],
   ];
+  // "column": cut across the piece's thinnest side last, so what is left beyond it keeps the
+  // piece's footprint (a column for a stack of like pieces) and the strips beside it run the whole
+  // length of the box (room for pieces turned the other way).
+  const thin = g[0] <= g[1] && g[0] <= g[2] ? 0 : g[1] <= g[2] ? 1 : 2;
   for (const [a1, a2, a3] of orders as [number, number, number][]) {
+    if (rule === "column" && a3 !== thin) continue;
     const out: Box[] = [];
     const ext = [...f.size] as Vec3;
     for (const a of [a1, a2, a3]) {
@@ -89,7 +94,7 @@ export function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
       ext[a] = g[a]!;
     }
     const vols = out.map((b) => vol(b.size));
-    const score = rule === "biggest" ? Math.max(0, ...vols) : rule === "squares" ? vols.reduce((s, v) => s + v * v, 0) : r();
+    const score = rule === "biggest" || rule === "column" ? Math.max(0, ...vols) : rule === "squares" ? vols.reduce((s, v) => s + v * v, 0) : r();
     if (score > bestScore) {
       bestScore = score;
       best = out;

@@ -8,6 +8,7 @@ import { describe, expect, it } from "vitest";
 import { nestSync, validatePlan } from "@/lib/nesting";
 import { buildModel } from "@/lib/nesting/solver/model";
 import { fillBoxFirst } from "@/lib/nesting/solver/boxfirst";
+import { split } from "@/lib/nesting/solver/guillotine3d";
 import { rng } from "@/lib/nesting/rng";
 import { problem } from "./helpers";
 
@@ -55,5 +56,24 @@ describe("box-first fill with lookahead", () => {
     expect(validatePlan(p, plan)).toEqual([]);
     const cargo = p.parts.reduce((s, x) => s + x.size[0] * x.size[1] * x.size[2] * x.quantity, 0);
     expect(plan.stats.partVolume / Math.min(cargo, 587 * 233 * 220)).toBeGreaterThan(0.85);
+  });
+});
+
+describe("split rule 'column' (common practice, no source: stack like slabs, cross-stack the strips)", () => {
+  it("keeps the piece's footprint beyond its thin side and lets the strips beside it run the whole box", () => {
+    const box = { origin: [0, 0, 0] as [number, number, number], size: [100, 100, 100] as [number, number, number] };
+    const slab: [number, number, number] = [20, 75, 80]; // thin along x
+    const parts = split(box, slab, "column", rng(1));
+    const column = parts.find((b) => b.origin[0] === 20);
+    expect(column).toEqual({ origin: [20, 0, 0], size: [80, 75, 80] });
+    // The other two boxes span the full 100 along x.
+    const strips = parts.filter((b) => b !== column);
+    expect(strips).toHaveLength(2);
+    for (const s of strips) expect(s.size[0]).toBe(100);
+    // Together they fill the box exactly.
+    const vol = (s: [number, number, number]) => s[0] * s[1] * s[2];
+    expect(vol(slab) + parts.reduce((t, b) => t + vol(b.size), 0)).toBe(100 ** 3);
+    // 'biggest' instead keeps the long box beyond the slab whole.
+    expect(split(box, slab, "biggest", rng(1)).some((b) => b.size[0] === 80 && b.size[1] === 100 && b.size[2] === 100)).toBe(true);
   });
 });
