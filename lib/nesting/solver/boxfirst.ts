@@ -76,10 +76,15 @@ function moves(f: Box, types: readonly ItemType[], order: readonly number[], rem
     out.splice(i, 0, { t, d, n: [n0, n1, n2], score });
     if (out.length > k) out.pop();
   };
+  const boxMin = Math.min(fs[0], fs[1], fs[2]) + 1e-9;
+  const boxMax = Math.max(fs[0], fs[1], fs[2]) + 1e-9;
   for (const t of order) {
     const rem = remaining[t]!;
     if (rem <= 0) continue;
-    for (const d of types[t]!.dims) {
+    const ty = types[t]!;
+    // No turn of a piece whose shortest side is longer than the box's shortest fits (nor longest).
+    if (ty.minSide > boxMin || ty.maxSide > boxMax) continue;
+    for (const d of ty.dims) {
       if (d[0] > fs[0] + 1e-9 || d[1] > fs[1] + 1e-9 || d[2] > fs[2] + 1e-9) continue;
       consider(t, d, 1, 1, 1);
       if (!grid || rem <= 1) continue;

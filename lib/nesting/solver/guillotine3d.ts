@@ -68,39 +68,58 @@ export function carveObstacles(usable: Box, obstacles: readonly Box[], thinSlabs
 }
 
 /** Splits what is left of `f` after a box of size `g` at its origin into three cut-separable boxes. */
+const SPLIT_ORDERS: readonly (readonly [number, number, number])[] = [
+  [0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0],
+];
+
 export function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
-  let best: Box[] = [];
-  let bestScore = -Infinity;
-  const orders = [
-    [0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0],
-  ];
   // "column": cut across the piece's thinnest side last, so what is left beyond it keeps the
   // piece's footprint (a column for a stack of like pieces) and the strips beside it run the whole
   // length of the box (room for pieces turned the other way).
   const thin = g[0] <= g[1] && g[0] <= g[2] ? 0 : g[1] <= g[2] ? 1 : 2;
-  for (const [a1, a2, a3] of orders as [number, number, number][]) {
-    if (rule === "column" && a3 !== thin) continue;
-    const out: Box[] = [];
-    const ext = [...f.size] as Vec3;
-    for (const a of [a1, a2, a3]) {
-      const r = f.size[a]! - g[a]!;
-      if (r > 1e-9) {
-        const o = [...f.origin] as Vec3;
-        o[a] = f.origin[a]! + g[a]!;
-        const s = [...ext] as Vec3;
-        s[a] = r;
-        out.push({ origin: o, size: s });
+  const fs = f.size;
+  let bestOrder = -1;
+  let bestScore = -Infinity;
+  // Score each order from the volumes alone; build the boxes of the chosen one only.
+  for (let k = 0; k < SPLIT_ORDERS.length; k++) {
+    const order = SPLIT_ORDERS[k]!;
+    if (rule === "column" && order[2] !== thin) continue;
+    let e0 = fs[0];
+    let e1 = fs[1];
+    let e2 = fs[2];
+    let biggest = 0;
+    let squares = 0;
+    for (const a of order) {
+      const rest = fs[a]! - g[a]!;
+      if (rest > 1e-9) {
+        const v = (a === 0 ? rest : e0) * (a === 1 ? rest : e1) * (a === 2 ? rest : e2);
+        if (v > biggest) biggest = v;
+        squares += v * v;
       }
-      ext[a] = g[a]!;
+      if (a === 0) e0 = g[0];
+      else if (a === 1) e1 = g[1];
+      else e2 = g[2];
     }
-    const vols = out.map((b) => vol(b.size));
-    const score = rule === "biggest" || rule === "column" ? Math.max(0, ...vols) : rule === "squares" ? vols.reduce((s, v) => s + v * v, 0) : r();
+    const score = rule === "biggest" || rule === "column" ? biggest : rule === "squares" ? squares : r();
     if (score > bestScore) {
       bestScore = score;
-      best = out;
+      bestOrder = k;
     }
   }
-  return best;
+  const out: Box[] = [];
+  const ext = [...fs] as Vec3;
+  for (const a of SPLIT_ORDERS[bestOrder]!) {
+    const rest = fs[a]! - g[a]!;
+    if (rest > 1e-9) {
+      const o = [...f.origin] as Vec3;
+      o[a] = f.origin[a]! + g[a]!;
+      const sz = [...ext] as Vec3;
+      sz[a] = rest;
+      out.push({ origin: o, size: sz });
+    }
+    ext[a] = g[a]!;
+  }
+  return out;
 }
 
 const GRID_ORDERS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]];

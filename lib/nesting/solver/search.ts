@@ -70,6 +70,8 @@ export class Search {
   private nextCover = 6;
   /** Completion searches already tried (block class + remaining parts), with their node budget. */
   private readonly tried = new Map<string, number>();
+  /** Each type's sort key for every part order (before noise). */
+  private readonly orderKeys: Record<OrderKey, number[]>;
   /** One block, or more parts than the blocks hold (3D): passes aim at full blocks. */
   private readonly fillMost: boolean;
 
@@ -85,6 +87,14 @@ export class Search {
       this.model.blocks.some((b) => this.model.compatible[b.index]!.includes(t.index) && t.dims.some((d) => fitsIn(d, b.usable.size))),
     );
     this.pool = new ColumnPool(this.model, 250);
+    const sorted = this.model.types.map((t) => [...t.dims[0]!].sort((a, b) => b - a));
+    const first = this.model.types.map((t) => t.dims[0]!);
+    this.orderKeys = {
+      volume: first.map((d) => d[0] * d[1] * d[2]),
+      maxSide: sorted.map((s) => s[0]! * 1e6 + s[1]!),
+      area: sorted.map((s) => s[0]! * s[1]!),
+      minSide: sorted.map((s) => s[2]! * 1e6 + s[1]!),
+    };
     const capacity = this.model.blocks.reduce((s, b) => s + b.usable.size[0] * b.usable.size[1] * b.usable.size[2], 0);
     const cargo = this.model.types.reduce((s, t) => s + t.dims[0]![0] * t.dims[0]![1] * t.dims[0]![2] * t.count, 0);
     // One layer of parts (a 2D problem) is left to the rectangle packers and the glue search.
@@ -214,15 +224,10 @@ export class Search {
   }
 
   private typeOrder(p: PassParams, types: number[]): number[] {
-    const key = (t: number): number => {
-      const ty = this.model.types[t]!;
-      const d = ty.dims[0]!;
-      const s = [...d].sort((a, b) => b - a);
-      const base = p.orderKey === "volume" ? d[0] * d[1] * d[2] : p.orderKey === "maxSide" ? s[0]! * 1e6 + s[1]! : p.orderKey === "area" ? s[0]! * s[1]! : s[2]! * 1e6 + s[1]!;
-      return base * (1 + p.noise * (this.r() - 0.5));
-    };
-    const keys = new Map(types.map((t) => [t, key(t)]));
-    return [...types].sort((a, b) => keys.get(b)! - keys.get(a)!);
+    const base = this.orderKeys[p.orderKey];
+    const keyed = types.map((t) => ({ t, key: base[t]! * (1 + p.noise * (this.r() - 0.5)) }));
+    keyed.sort((a, b) => b.key - a.key);
+    return keyed.map((k) => k.t);
   }
 
   private blockOrder(p: PassParams): number[] {
