@@ -318,7 +318,8 @@ const runSelect = () => db()("nesting_runs as r").leftJoin("users as u", "u.id",
 /** Every column but the (large) problem and plan. */
 const LIGHT_COLUMNS = ["id", "status", "job_ids", "block_ids", "settings", "best", "progress", "error", "created_at", "finished_at", "approved_at", "parent_run_id", "summary"].map((c) => `r.${c}`);
 
-export async function listRuns(opts: { jobId?: number; statuses?: RunStatus[]; limit?: number } = {}): Promise<RunSummary[]> {
+/** Newest first; `beforeId` pages back through older runs (keyset: `id < beforeId`). */
+export async function listRuns(opts: { jobId?: number; statuses?: RunStatus[]; limit?: number; beforeId?: number } = {}): Promise<RunSummary[]> {
   const q = db()("nesting_runs as r")
     .leftJoin("users as u", "u.id", "r.created_by")
     .select(...LIGHT_COLUMNS, "u.name as created_by_name", db().raw("r.plan IS NOT NULL AS has_plan"))
@@ -326,6 +327,7 @@ export async function listRuns(opts: { jobId?: number; statuses?: RunStatus[]; l
     .limit(opts.limit ?? 50);
   if (opts.jobId) q.whereRaw("? = ANY(r.job_ids)", [opts.jobId]);
   if (opts.statuses) q.whereIn("r.status", opts.statuses);
+  if (opts.beforeId) q.where("r.id", "<", opts.beforeId);
   const rows = (await q) as RunRow[];
   await fillMissingFigures(rows.filter((r) => r.has_plan && !r.summary));
   const names = await jobNames([...new Set(rows.flatMap((r) => r.job_ids))]);

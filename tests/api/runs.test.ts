@@ -59,6 +59,19 @@ describe("nesting runs in the background worker", () => {
     expect(item.problem).toBeUndefined();
   });
 
+  it("pages back through a job's runs, newest first; a bad page is named", async () => {
+    const made = await makePlannedBlock();
+    const more = [await makeDoneRun(made.jobId, [made.block]), await makeDoneRun(made.jobId, [made.block])];
+    const ids = [made.runId, ...more.map((m) => m.runId)].sort((a, b) => b - a);
+    const first = await planner.get(`/api/runs?job=${made.jobId}&limit=2`);
+    expect(first.body.items.map((r: { id: number }) => r.id)).toEqual(ids.slice(0, 2));
+    const next = await planner.get(`/api/runs?job=${made.jobId}&limit=2&before=${ids[1]}`);
+    expect(next.body.items.map((r: { id: number }) => r.id)).toEqual(ids.slice(2));
+    const bad = await planner.get(`/api/runs?job=${made.jobId}&before=-3`);
+    expect(bad.status).toBe(400);
+    expect(JSON.stringify(bad.body)).toContain("before");
+  });
+
   it("works out and keeps the figures of a run planned before they were stored with the plan", async () => {
     const made = await makePlannedBlock();
     expect((await testDb()("nesting_runs").where({ id: made.runId }).first("summary")).summary).toBeNull();

@@ -8,9 +8,18 @@ import { RunStatusBadge } from "@/components/plans/run-status";
 
 export const metadata: Metadata = { title: "Plans" };
 
-export default async function PlansPage() {
+const PAGE = 40;
+
+export default async function PlansPage({ searchParams }: { searchParams: Promise<{ before?: string }> }) {
   const user = await requireRole("planner", "cutter", "manager");
-  const [approved, others] = await Promise.all([listRuns({ statuses: ["approved"] }), listRuns({ statuses: ["queued", "running", "done", "failed", "cancelled", "closed"], limit: 40 })]);
+  const raw = (await searchParams).before ?? "";
+  const before = /^\d{1,9}$/.test(raw) ? Number(raw) : undefined;
+  const [approved, page] = await Promise.all([
+    listRuns({ statuses: ["approved"] }),
+    listRuns({ statuses: ["queued", "running", "done", "failed", "cancelled", "closed"], limit: PAGE + 1, ...(before ? { beforeId: before } : {}) }),
+  ]);
+  const others = page.slice(0, PAGE);
+  const older = page.length > PAGE ? others.at(-1)!.id : undefined;
   const Row = ({ r }: { r: (typeof approved)[number] }) => (
     <tr className="border-t border-bead/60">
       <td className="py-2"><Link href={`/plans/${r.id}`}>Plan #{r.id}</Link></td>
@@ -35,8 +44,14 @@ export default async function PlansPage() {
         <Card title={user.roles.includes("cutter") ? "Approved plans to cut" : "Approved plans (stock earmarked)"}>
           {approved.length ? <table>{head}<tbody>{approved.map((r) => <Row key={r.id} r={r} />)}</tbody></table> : <p className="text-sm text-ink-soft">No approved plans waiting.</p>}
         </Card>
-        <Card title="Other runs">
-          {others.length ? <table>{head}<tbody>{others.map((r) => <Row key={r.id} r={r} />)}</tbody></table> : <p className="text-sm text-ink-soft">No runs yet. Start one from a job.</p>}
+        <Card title={before ? `Other runs before plan #${before}` : "Other runs"}>
+          {others.length ? <table>{head}<tbody>{others.map((r) => <Row key={r.id} r={r} />)}</tbody></table> : <p className="text-sm text-ink-soft">{before ? "No older runs." : "No runs yet. Start one with New plan or from a job."}</p>}
+          {(before || older) && (
+            <nav aria-label="Older and newer runs" className="mt-3 flex flex-wrap gap-2">
+              {before && <Link className={buttonClass("secondary")} href="/plans">Newest runs</Link>}
+              {older && <Link className={buttonClass("secondary")} href={`/plans?before=${older}`}>Older runs</Link>}
+            </nav>
+          )}
         </Card>
       </div>
     </>

@@ -9,11 +9,14 @@ import { QUEUES } from "@/lib/jobs/queues";
 const query = z.object({
   job: z.coerce.number().int().positive().optional(),
   status: z.enum(["queued", "running", "done", "failed", "cancelled", "approved", "closed"]).optional(),
+  before: z.coerce.number().int().positive({ error: "before is a plan number." }).optional(),
+  limit: z.coerce.number().int().min(1).max(200, { error: "limit is at most 200." }).optional(),
 });
 
 export const GET = api("GET /api/runs", async ({ req }) => {
   const q = parseWith(query, Object.fromEntries(req.nextUrl.searchParams));
-  return { items: await listRuns({ jobId: q.job, statuses: q.status ? [q.status as RunStatus] : undefined }) };
+  // Newest first, 50 unless `limit`; `before=<plan number>` pages back to older runs.
+  return { items: await listRuns({ jobId: q.job, statuses: q.status ? [q.status as RunStatus] : undefined, limit: q.limit, beforeId: q.before }) };
 });
 
 /** Starts a nesting run: stored as queued, then picked up by a background worker. */
