@@ -11,7 +11,7 @@ export function NavLinks({ items }: { items: NavItem[] }) {
     .filter((i) => (i.href === "/" ? path === "/" : path === i.href || path.startsWith(i.href + "/")))
     .sort((a, b) => b.href.length - a.href.length)[0]?.href;
   return (
-    <ul className="flex gap-1 overflow-x-auto lg:flex-col lg:overflow-visible">
+    <ul className="flex flex-wrap gap-1 lg:flex-col lg:flex-nowrap">
       {items.map((item) => {
         const active = item.href === current;
         return (
