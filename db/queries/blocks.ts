@@ -297,3 +297,19 @@ export async function nextBlockCodes(trx: Knex | Knex.Transaction, n: number, pr
   }
   return codes;
 }
+
+/**
+ * Codes of what still stands in stock and came in lately — offcuts cut, or blocks received, in the
+ * last `days` days — oldest first, for labelling a batch at once.
+ */
+export async function recentCodes(kind: "offcuts" | "received", days: number, limit: number): Promise<string[]> {
+  const q = db()("blocks")
+    .whereIn("status", ["in_stock", "earmarked"])
+    .where("created_at", ">=", db().raw("now() - make_interval(days => ?)", [days]))
+    .orderBy([{ column: "created_at" }, { column: "id" }])
+    .limit(limit)
+    .pluck("code");
+  if (kind === "offcuts") q.whereNotNull("parent_id");
+  else q.whereNull("parent_id");
+  return (await q) as string[];
+}

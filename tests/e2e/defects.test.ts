@@ -131,4 +131,18 @@ describe("labels", () => {
     await screenshot(page, "labels-print");
     await context.close();
   });
+
+  it("offers the offcuts cut this week as one batch of labels", async () => {
+    const parent = await makeBlock({ size: [4877, 1219, 610] });
+    const offcut = await makeBlock({ size: [600, 1219, 458], code: `${parent.code}.1`, parentId: parent.id });
+    const { context, page } = await signedIn("cutter", VIEWPORTS.tablet);
+    await page.goto(`${BASE_URL}/labels`);
+    await page.getByRole("link", { name: /^\d+ offcuts? cut$/ }).click();
+    await page.getByRole("button", { name: "Print labels" }).waitFor();
+    expect(await page.getByTestId("label").filter({ hasText: offcut.code }).count()).toBe(1);
+    // Only offcuts: the block it was cut from is not in this batch (its label is under "received").
+    expect(await page.getByTestId("label").filter({ hasText: new RegExp(`${parent.code}(?!\\.)`) }).filter({ hasNotText: "Offcut of" }).count()).toBe(0);
+    await screenshot(page, "labels-recent-offcuts-tablet");
+    await context.close();
+  });
 });

@@ -1,8 +1,9 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 import QRCode from "qrcode";
 import { requireRole } from "@/lib/auth/guard";
 import { displayUnit } from "@/lib/display";
-import { getBlock, type BlockDetail } from "@/db/queries/blocks";
+import { getBlock, recentCodes, type BlockDetail } from "@/db/queries/blocks";
 import { getShopSettings } from "@/db/queries/settings";
 import { labelPayload } from "@/lib/block-code";
 import { formatSize, type LengthUnit } from "@/lib/units";
@@ -13,6 +14,8 @@ import { PrintButton } from "@/components/stock/print-button";
 export const metadata: Metadata = { title: "Labels" };
 
 const MAX_LABELS = 120; // fifteen sheets of eight
+/** Quick picks: what came into stock in the last week. */
+const RECENT_DAYS = 7;
 
 /** "HF-1001, hf-1002 HF-1001" → ["HF-1001", "HF-1002"] */
 function parseCodes(raw: string | string[] | undefined): string[] {
@@ -52,6 +55,8 @@ export default async function LabelsPage({ searchParams }: { searchParams: Promi
   const missing = found.filter((f) => !f.block).map((f) => f.code);
   const qrs = await Promise.all(blocks.map((b) => qrSvg(b.code)));
   const shop = (await getShopSettings()).shopName;
+  const [recentOffcuts, recentBlocks] = asked.length ? [[], []] : await Promise.all([recentCodes("offcuts", RECENT_DAYS, MAX_LABELS), recentCodes("received", RECENT_DAYS, MAX_LABELS)]);
+  const pick = (codes: string[]) => `/labels?codes=${encodeURIComponent(codes.join(","))}`;
 
   return (
     <>
@@ -89,6 +94,21 @@ export default async function LabelsPage({ searchParams }: { searchParams: Promi
                 Show labels
               </button>
             </form>
+            {(recentOffcuts.length > 0 || recentBlocks.length > 0) && (
+              <div className="mt-4 flex flex-wrap items-center gap-2 border-t border-bead pt-4 text-sm">
+                <span className="text-ink-soft">In stock since {RECENT_DAYS} days ago:</span>
+                {recentOffcuts.length > 0 && (
+                  <Link className={buttonClass("secondary")} href={pick(recentOffcuts)}>
+                    {recentOffcuts.length} {recentOffcuts.length === 1 ? "offcut" : "offcuts"} cut
+                  </Link>
+                )}
+                {recentBlocks.length > 0 && (
+                  <Link className={buttonClass("secondary")} href={pick(recentBlocks)}>
+                    {recentBlocks.length} {recentBlocks.length === 1 ? "block" : "blocks"} received
+                  </Link>
+                )}
+              </div>
+            )}
           </Card>
         </div>
       </div>
