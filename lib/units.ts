@@ -13,6 +13,10 @@ export const KG_M3_PER_LB_FT3 = 0.45359237 / (0.3048 ** 3); // ≈ 16.0185
 export const mmToIn = (mm: number) => mm / MM_PER_INCH;
 /** Inches to mm, to the micrometre (so 24 in is stored as 609.6 mm, not 609.5999999999999). */
 export const inToMm = (inch: number) => Math.round(inch * MM_PER_INCH * 1000) / 1000;
+/** A length given in `unit`, in mm. */
+export const lengthToMm = (n: number, unit: LengthUnit) => (unit === "in" ? inToMm(n) : n);
+/** A length in mm as a number in `unit` (inches rounded to `places` decimals), e.g. for a form field. */
+export const lengthInUnit = (mm: number, unit: LengthUnit, places = 3) => (unit === "in" ? Math.round(mmToIn(mm) * 10 ** places) / 10 ** places : mm);
 
 /** Cubic metres from a size in mm. */
 export const cubicMetres = (x: number, y: number, z: number) => (x * y * z) / 1e9;

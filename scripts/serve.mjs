@@ -27,6 +27,10 @@ if (cluster.isPrimary && workers > 1) {
   let stopping = false;
   const born = new Map();
   const fork = () => born.set(cluster.fork().id, Date.now());
+  const stopWorkers = () => {
+    stopping = true;
+    for (const w of Object.values(cluster.workers ?? {})) w?.process.kill("SIGTERM");
+  };
   for (let i = 0; i < workers; i++) fork();
   // A worker that dies on its own is replaced; one that was told to stop is not, and one that dies
   // while starting (no build, a bad environment) stops everything rather than looping.
@@ -34,8 +38,7 @@ if (cluster.isPrimary && workers > 1) {
     if (stopping) return;
     if (Date.now() - (born.get(worker.id) ?? 0) < 10_000) {
       process.stderr.write(`[serve] worker ${worker.process.pid} failed while starting (${signal ?? code}); stopping\n`);
-      stopping = true;
-      for (const w of Object.values(cluster.workers ?? {})) w?.process.kill("SIGTERM");
+      stopWorkers();
       process.exitCode = 1;
       return;
     }
@@ -43,8 +46,7 @@ if (cluster.isPrimary && workers > 1) {
     fork();
   });
   const stop = () => {
-    stopping = true;
-    for (const w of Object.values(cluster.workers ?? {})) w?.process.kill("SIGTERM");
+    stopWorkers();
     setTimeout(() => process.exit(0), 3_000).unref();
     cluster.on("exit", () => {
       if (!Object.keys(cluster.workers ?? {}).length) process.exit(0);

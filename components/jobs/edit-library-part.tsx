@@ -2,15 +2,14 @@
 
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import { ApiError, send } from "@/lib/swr/fetcher";
+import { send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
+import { useSubmit } from "@/components/ui/use-submit";
 import { ROTATE_LABELS, ROTATE_RULES, type LibraryPart } from "@/lib/job-terms";
-import { mmToIn, type LengthUnit } from "@/lib/units";
-import { lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
-
-const shown = (mm: number, unit: LengthUnit) => String(unit === "in" ? Math.round(mmToIn(mm) * 1000) / 1000 : mm);
+import { lengthInUnit, type LengthUnit } from "@/lib/units";
+import { fieldError, lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
 
 /**
  * Edits a library part in place: name, kit, usual quantity, grade, turning and notes, and the box
@@ -26,22 +25,17 @@ export function EditLibraryPart({ part, grades, unit, onDone }: { part: LibraryP
     gradeId: part.gradeId === null ? "" : String(part.gradeId),
     rotate: part.rotate,
     notes: part.notes ?? "",
-    length: shown(part.size[0], unit),
-    width: shown(part.size[1], unit),
-    height: shown(part.size[2], unit),
+    length: String(lengthInUnit(part.size[0], unit)),
+    width: String(lengthInUnit(part.size[1], unit)),
+    height: String(lengthInUnit(part.size[2], unit)),
   });
-  const [fields, setFields] = useState<Record<string, string>>({});
-  const [msg, setMsg] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
+  const form = useSubmit();
   const set = (k: string) => (e: { target: { value: string } }) => setV((s) => ({ ...s, [k]: e.target.value }));
   const len = (s: string | undefined) => lengthMmOrNull(s ?? "", unit);
-  const err = (k: string) => Object.entries(fields).find(([f]) => f === k || f.startsWith(`${k}.`))?.[1];
+  const err = (...keys: string[]) => fieldError(form.fields, ...keys);
 
   async function save() {
-    setFields({});
-    setMsg(null);
-    setBusy(true);
-    try {
+    const saved = await form.submit(async () => {
       await send(`/api/library/${part.id}`, "PATCH", {
         name: v.name ?? "",
         kit: v.kit ?? "",
@@ -51,16 +45,11 @@ export function EditLibraryPart({ part, grades, unit, onDone }: { part: LibraryP
         notes: v.notes ?? "",
         ...(part.profile ? {} : { size: [len(v.length), len(v.width), len(v.height)] }),
       });
-      router.refresh();
-      onDone();
-    } catch (e) {
-      if (e instanceof ApiError) {
-        setFields(e.fields ?? {});
-        setMsg(e.message);
-      } else setMsg("That did not work; nothing was changed.");
-    } finally {
-      setBusy(false);
-    }
+      return true;
+    }, { failed: "That did not work; nothing was changed." });
+    if (!saved) return;
+    router.refresh();
+    onDone();
   }
 
   return (
@@ -72,7 +61,7 @@ export function EditLibraryPart({ part, grades, unit, onDone }: { part: LibraryP
         void save();
       }}
     >
-      {msg && <Notice tone="danger">{msg}</Notice>}
+      {form.message && <Notice tone={form.message.tone}>{form.message.text}</Notice>}
       <div className="grid gap-3 sm:grid-cols-2">
         <Field label="Part name" name="name" error={err("name")}><Input name="name" value={v.name} onChange={set("name")} error={err("name")} /></Field>
         <Field label="Kit" name="kit" error={err("kit")}><Input name="kit" value={v.kit} onChange={set("kit")} error={err("kit")} /></Field>
@@ -92,13 +81,13 @@ export function EditLibraryPart({ part, grades, unit, onDone }: { part: LibraryP
       </div>
       {!part.profile && (
         <div className="grid gap-3 sm:grid-cols-3">
-          <Field label={`Length ${unit}`} name="length" error={err("size.0") ?? err("size")}><Input name="length" inputMode="decimal" value={v.length} onChange={set("length")} error={err("size.0") ?? err("size")} /></Field>
+          <Field label={`Length ${unit}`} name="length" error={err("size.0", "size")}><Input name="length" inputMode="decimal" value={v.length} onChange={set("length")} error={err("size.0", "size")} /></Field>
           <Field label={`Width ${unit}`} name="width" error={err("size.1")}><Input name="width" inputMode="decimal" value={v.width} onChange={set("width")} error={err("size.1")} /></Field>
           <Field label={`Height ${unit}`} name="height" error={err("size.2")}><Input name="height" inputMode="decimal" value={v.height} onChange={set("height")} error={err("size.2")} /></Field>
         </div>
       )}
       <div className="flex flex-wrap gap-2">
-        <Button type="submit" disabled={busy}>Save the part</Button>
+        <Button type="submit" disabled={form.busy}>Save the part</Button>
         <Button type="button" tone="quiet" onClick={onDone}>Cancel</Button>
       </div>
     </form>

@@ -8,8 +8,8 @@ import { Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { ROTATE_LABELS, ROTATE_RULES } from "@/lib/job-terms";
 import { partGeometry, parsePoints, type Profile } from "@/lib/profiles";
-import { formatSize, inToMm, type LengthUnit } from "@/lib/units";
-import { lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
+import { formatSize, lengthToMm, type LengthUnit } from "@/lib/units";
+import { fieldError, lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
 import { SectionPreview } from "./section-preview";
 
 type Shape = "box" | "polygon" | "naca";
@@ -30,7 +30,6 @@ interface Props {
  * follow the fields as they are typed; the server computes them again before saving.
  */
 export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
-  const toMm = (n: number) => (unit === "in" ? inToMm(n) : n);
   const len = (s: string | undefined) => lengthMmOrNull(s ?? "", unit);
   const router = useRouter();
   const [shape, setShape] = useState<Shape>("box");
@@ -45,7 +44,7 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
       if (shape === "naca") {
         return { profile: { kind: "naca", code: v.code ?? "", chordMm: len(v.chordMm) ?? 0, tipChordMm: len(v.tipChordMm), spanMm: len(v.spanMm) ?? 0, sweepMm: len(v.sweepMm) }, error: null };
       }
-      if (shape === "polygon") return { profile: { kind: "polygon", points: parsePoints(v.points ?? "").map(([x, y]): [number, number] => [toMm(x), toMm(y)]), extrudeMm: len(v.extrudeMm) ?? 0 }, error: null };
+      if (shape === "polygon") return { profile: { kind: "polygon", points: parsePoints(v.points ?? "").map(([x, y]): [number, number] => [lengthToMm(x, unit), lengthToMm(y, unit)]), extrudeMm: len(v.extrudeMm) ?? 0 }, error: null };
     } catch (e) {
       return { profile: null, error: (e as Error).message };
     }
@@ -90,13 +89,7 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
     }
   }
 
-  const err = (...keys: string[]) => {
-    for (const k of keys) {
-      const hit = Object.entries(fields).find(([f]) => f === k || f.startsWith(`${k}.`));
-      if (hit) return hit[1];
-    }
-    return undefined;
-  };
+  const err = (...keys: string[]) => fieldError(fields, ...keys);
   const qtyField = target.kind === "job" ? "quantity" : "defaultQuantity";
 
   return (

@@ -4,7 +4,8 @@ import Link from "next/link";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useTransition } from "react";
 import { useBlocks, type BlockListResponse } from "@/lib/swr/use-blocks";
-import { formatSize, inToMm, m3ToBoardFeet, mmToIn, type LengthUnit } from "@/lib/units";
+import { formatSize, lengthInUnit, m3ToBoardFeet, type LengthUnit } from "@/lib/units";
+import { lengthMmOrNull } from "@/lib/forms";
 import { SHOWN_STATUSES, STATUS_LABELS } from "@/lib/stock";
 import { GradeChip, StatusBadge } from "./status-badge";
 import { buttonClass } from "@/components/ui/button";
@@ -49,8 +50,11 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
 
   const v = (k: string) => params.get(k) ?? "";
   const lenLabel = unit === "in" ? "in" : "mm";
-  const toMm = (s: string) => (s === "" ? null : String(unit === "in" ? inToMm(Number(s)) : Number(s)));
-  const fromMm = (s: string) => (s === "" ? "" : String(unit === "in" ? Math.round(mmToIn(Number(s)) * 100) / 100 : Number(s)));
+  const toMm = (s: string) => {
+    const mm = lengthMmOrNull(s, unit);
+    return mm === null ? null : String(mm);
+  };
+  const fromMm = (s: string) => (s === "" ? "" : String(lengthInUnit(Number(s), unit, 2)));
 
   return (
     <div className="space-y-4">

@@ -76,6 +76,11 @@ export async function listGrades(): Promise<Grade[]> {
   return (await db()("grades").orderBy(["material", "code"])).map(toGrade);
 }
 
+/** The grades a part may ask for, as form choices: active ones that may be hot-wired. */
+export function partGradeChoices(grades: readonly Grade[]): { id: number; code: string }[] {
+  return grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }));
+}
+
 export async function getGrade(id: number): Promise<Grade | undefined> {
   const r = await db()("grades").where({ id }).first();
   return r ? toGrade(r) : undefined;

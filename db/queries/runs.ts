@@ -313,15 +313,16 @@ export async function createRun(
   });
 }
 
-const runSelect = () => db()("nesting_runs as r").leftJoin("users as u", "u.id", "r.created_by").select("r.*", "u.name as created_by_name");
+/** Runs with the name of who started them. */
+const runsWithAuthor = () => db()("nesting_runs as r").leftJoin("users as u", "u.id", "r.created_by");
+const runSelect = () => runsWithAuthor().select("r.*", "u.name as created_by_name");
 
 /** Every column but the (large) problem and plan. */
 const LIGHT_COLUMNS = ["id", "status", "job_ids", "block_ids", "settings", "best", "progress", "error", "created_at", "finished_at", "approved_at", "parent_run_id", "summary"].map((c) => `r.${c}`);
 
 /** Newest first; `beforeId` pages back through older runs (keyset: `id < beforeId`). */
 export async function listRuns(opts: { jobId?: number; statuses?: RunStatus[]; limit?: number; beforeId?: number } = {}): Promise<RunSummary[]> {
-  const q = db()("nesting_runs as r")
-    .leftJoin("users as u", "u.id", "r.created_by")
+  const q = runsWithAuthor()
     .select(...LIGHT_COLUMNS, "u.name as created_by_name", db().raw("r.plan IS NOT NULL AS has_plan"))
     .orderBy("r.id", "desc")
     .limit(opts.limit ?? 50);
@@ -387,9 +388,8 @@ export async function saveProgress(id: number, progress: number, best: RunFigure
   return row?.status;
 }
 
-export async function finishRun(id: number, plan: Plan): Promise<void> {
-  const row = (await db()("nesting_runs").where({ id }).first("problem")) as { problem: Problem } | undefined;
-  const summary = row ? JSON.stringify(planFigures(row.problem, plan)) : null;
+/** Stores a run's plan with the figures lists show; `problem` is the one the worker claimed. */
+export async function finishRun(id: number, problem: Problem, plan: Plan): Promise<void> {
   await db()("nesting_runs")
     .where({ id })
     .whereIn("status", ["running", "cancelled"])
@@ -397,7 +397,7 @@ export async function finishRun(id: number, plan: Plan): Promise<void> {
       // A cancelled run keeps its best plan so far, but stays cancelled.
       status: db().raw("CASE WHEN status = 'cancelled' THEN 'cancelled' ELSE 'done' END"),
       plan: JSON.stringify(plan),
-      summary,
+      summary: JSON.stringify(planFigures(problem, plan)),
       progress: 1,
       finished_at: db().fn.now(),
       best: { placedVolume: plan.stats.partVolume, blocksUsed: plan.stats.blocksUsed, yield: plan.stats.yield, unplacedCount: plan.unplaced.reduce((s, u) => s + u.count, 0), lowerBoundBlocks: plan.stats.lowerBoundBlocks },
@@ -451,7 +451,10 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
       // One approval per job at a time, so two plans cannot both claim the same owed parts.
       await trx("jobs").whereIn("id", run.job_ids).orderBy("id").forUpdate().select("id");
       const placed = new Map<number, number>();
-      for (const pl of plan.placements) placed.set(partIdFromKey(pl.part), (placed.get(partIdFromKey(pl.part)) ?? 0) + 1);
+      for (const pl of plan.placements) {
+        const partId = partIdFromKey(pl.part);
+        placed.set(partId, (placed.get(partId) ?? 0) + 1);
+      }
       const owed = new Map((await owedParts(trx, run.job_ids)).map((p) => [p.id, p]));
       const held = await heldByApprovedPlans(trx, [...placed.keys()], id);
       for (const [partId, n] of placed) {

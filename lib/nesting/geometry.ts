@@ -140,28 +140,34 @@ export function isLayer(boxes: readonly Box[], idx: readonly number[]): boolean 
   return false;
 }
 
+/** The six orders three through cuts can be made in: x-y-z, x-z-y, y-x-z, y-z-x, z-x-y, z-y-x. */
+export const CUT_ORDERS: readonly (readonly [number, number, number])[] = [
+  [0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0],
+];
+
+/** The leftover boxes when a piece `d` at the lower corner of box `f` is freed by cuts in `order`. */
+export function splitInOrder(f: Box, d: Vec3, order: readonly [number, number, number]): Box[] {
+  const boxes: Box[] = [];
+  const ext = [...f.size] as Vec3;
+  for (const a of order) {
+    const r = f.size[a]! - d[a]!;
+    if (r > 1e-9) {
+      const o = [...f.origin] as Vec3;
+      o[a] = f.origin[a]! + d[a]!;
+      const s = [...ext] as Vec3;
+      s[a] = r;
+      boxes.push({ origin: o, size: s });
+    }
+    ext[a] = d[a]!;
+  }
+  return boxes;
+}
+
 /**
  * The six ways three through cuts can free a piece `d` sitting at the lower corner of box `f`,
- * one list of leftover boxes per cut order (x-y-z, x-z-y, …), in that fixed order.
+ * one list of leftover boxes per cut order (`CUT_ORDERS`), in that fixed order.
  * @example guillotineSplits({ origin: [0, 0, 0], size: [10, 10, 10] }, [4, 10, 10]) // six times [{ origin: [4,0,0], size: [6,10,10] }]
  */
 export function guillotineSplits(f: Box, d: Vec3): Box[][] {
-  const all: Box[][] = [];
-  for (const order of [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]]) {
-    const boxes: Box[] = [];
-    const ext = [...f.size] as Vec3;
-    for (const a of order) {
-      const r = f.size[a]! - d[a]!;
-      if (r > 1e-9) {
-        const o = [...f.origin] as Vec3;
-        o[a] = f.origin[a]! + d[a]!;
-        const s = [...ext] as Vec3;
-        s[a] = r;
-        boxes.push({ origin: o, size: s });
-      }
-      ext[a] = d[a]!;
-    }
-    all.push(boxes);
-  }
-  return all;
+  return CUT_ORDERS.map((order) => splitInOrder(f, d, order));
 }

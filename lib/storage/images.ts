@@ -37,39 +37,26 @@ export interface PreparedPhoto extends PhotoType {
  * Throws `Error("unreadable")` for bytes that only look like an image.
  */
 export async function preparePhoto(bytes: Uint8Array, type: PhotoType): Promise<PreparedPhoto> {
-  let meta: Metadata;
+  const image = sharp(bytes, { limitInputPixels: 80_000_000 });
   try {
-    meta = await sharp(bytes, { limitInputPixels: 80_000_000 }).metadata();
-  } catch {
-    throw new Error("unreadable");
-  }
-  const declared = meta.format === "jpeg" ? "image/jpeg" : meta.format === "png" ? "image/png" : meta.format === "webp" ? "image/webp" : null;
-  if (declared !== type.contentType) throw new Error("unreadable");
-  let thumb: Buffer;
-  try {
-    thumb = await sharp(bytes, { limitInputPixels: 80_000_000 })
-      .rotate()
-      .resize({ width: THUMB_WIDTH, withoutEnlargement: true })
-      .webp({ quality: 78 })
-      .toBuffer();
-  } catch {
-    throw new Error("unreadable");
-  }
-  // A tablet's photo carries EXIF/XMP/IPTC (often where and when it was taken): the original is
-  // stored without it, turned upright as EXIF said; a photo without such metadata is kept byte for byte.
-  if (meta.exif || meta.xmp || meta.iptc) {
-    try {
-      const upright = sharp(bytes, { limitInputPixels: 80_000_000 }).rotate();
+    const meta: Metadata = await image.metadata();
+    const declared = meta.format === "jpeg" ? "image/jpeg" : meta.format === "png" ? "image/png" : meta.format === "webp" ? "image/webp" : null;
+    if (declared !== type.contentType) throw new Error("unreadable");
+    const thumb = new Uint8Array(await image.clone().rotate().resize({ width: THUMB_WIDTH, withoutEnlargement: true }).webp({ quality: 78 }).toBuffer());
+    // A tablet's photo carries EXIF/XMP/IPTC (often where and when it was taken): the original is
+    // stored without it, turned upright as EXIF said; a photo without such metadata is kept byte for byte.
+    if (meta.exif || meta.xmp || meta.iptc) {
+      const upright = image.clone().rotate();
       const out = await (type.ext === "jpg" ? upright.jpeg({ quality: 92 }) : type.ext === "png" ? upright.png() : upright.webp({ quality: 92 })).toBuffer({ resolveWithObject: true });
-      return { ...type, bytes: new Uint8Array(out.data), width: out.info.width, height: out.info.height, thumb: new Uint8Array(thumb) };
-    } catch {
-      throw new Error("unreadable");
+      return { ...type, bytes: new Uint8Array(out.data), width: out.info.width, height: out.info.height, thumb };
     }
+    const sideways = (meta.orientation ?? 1) >= 5;
+    const w = meta.width ?? null;
+    const h = meta.height ?? null;
+    return { ...type, bytes, width: sideways ? h : w, height: sideways ? w : h, thumb };
+  } catch {
+    throw new Error("unreadable");
   }
-  const sideways = (meta.orientation ?? 1) >= 5;
-  const w = meta.width ?? null;
-  const h = meta.height ?? null;
-  return { ...type, bytes, width: sideways ? h : w, height: sideways ? w : h, thumb: new Uint8Array(thumb) };
 }
 
 /** Object keys are made here, from the defect id and a random id: never from anything the client sent. */

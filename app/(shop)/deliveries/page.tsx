@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { listDeliveries } from "@/db/queries/deliveries";
 import { PageHeader } from "@/components/ui/card";
 import { buttonClass } from "@/components/ui/button";
@@ -11,7 +12,7 @@ export default async function DeliveriesPage({ searchParams }: { searchParams: P
   const user = await requireRole("buyer", "planner", "manager");
   const page = Math.max(1, Math.min(10_000, Number((await searchParams).page) || 1));
   const { items, total } = await listDeliveries({ page, pageSize: 50 });
-  const canReceive = user.roles.some((r) => r === "admin" || r === "buyer");
+  const canReceive = allows(["buyer"], user.roles);
   return (
     <>
       <PageHeader

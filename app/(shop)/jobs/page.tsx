@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { listJobs } from "@/db/queries/jobs";
 import { jobQuerySchema } from "@/lib/validations/jobs";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
@@ -20,7 +21,7 @@ export default async function JobsPage({ searchParams }: { searchParams: Promise
   const parsed = jobQuerySchema.safeParse(raw);
   const query = parsed.success ? parsed.data : jobQuerySchema.parse({});
   const list = await listJobs(query);
-  const canEdit = user.roles.some((r) => r === "admin" || r === "planner");
+  const canEdit = allows(["planner"], user.roles);
   const pages = Math.max(1, Math.ceil(list.total / list.pageSize));
   const today = isoDate();
   const href = (next: Record<string, string | number>) => `/jobs?${new URLSearchParams({ ...raw, ...Object.fromEntries(Object.entries(next).map(([k, v]) => [k, String(v)])) }).toString()}`;

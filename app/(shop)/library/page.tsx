@@ -1,7 +1,8 @@
 import type { Metadata } from "next";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { listLibraryParts } from "@/db/queries/library";
-import { listGrades } from "@/db/queries/grades";
+import { listGrades, partGradeChoices } from "@/db/queries/grades";
 import { displayUnit } from "@/lib/display";
 import { Card, PageHeader } from "@/components/ui/card";
 import { LibraryList } from "@/components/jobs/library-list";
@@ -11,10 +12,10 @@ export const metadata: Metadata = { title: "Part library" };
 
 export default async function LibraryPage() {
   const user = await requireRole("planner", "cutter", "manager");
-  const canEdit = user.roles.some((r) => r === "admin" || r === "planner");
+  const canEdit = allows(["planner"], user.roles);
   const [parts, grades, unit] = await Promise.all([listLibraryParts({ includeRetired: canEdit }), listGrades(), displayUnit(user)]);
   const kits = [...new Set(parts.map((p) => p.kit).filter((k): k is string => !!k))];
-  const gradeOptions = grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }));
+  const gradeOptions = partGradeChoices(grades);
   return (
     <>
       <PageHeader title="Part library" lead="Parts the shop cuts again and again, grouped by kit. Add them to a job with a quantity." />

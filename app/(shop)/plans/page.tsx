@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { listRuns } from "@/db/queries/runs";
 import { Card, PageHeader } from "@/components/ui/card";
 import { buttonClass } from "@/components/ui/button";
@@ -38,7 +39,7 @@ export default async function PlansPage({ searchParams }: { searchParams: Promis
       <PageHeader
         title="Plans"
         lead="Nesting runs: what to cut, from which blocks, in which order."
-        actions={user.roles.some((r) => r === "admin" || r === "planner") && <Link className={buttonClass("primary")} href="/plans/new">New plan</Link>}
+        actions={allows(["planner"], user.roles) && <Link className={buttonClass("primary")} href="/plans/new">New plan</Link>}
       />
       <div className="space-y-5">
         <Card title={user.roles.includes("cutter") ? "Approved plans to cut" : "Approved plans (stock earmarked)"}>

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { getReorderSettings, listReorder } from "@/db/queries/reorder";
 import { listSuppliers } from "@/db/queries/suppliers";
 import { PageHeader } from "@/components/ui/card";
@@ -13,7 +14,7 @@ export const metadata: Metadata = { title: "Reorder list" };
 export default async function ReorderPage() {
   const user = await requireRole("buyer", "manager");
   const [rows, settings, suppliers] = await Promise.all([listReorder(), getReorderSettings(), listSuppliers()]);
-  const canEdit = user.roles.some((r) => r === "admin" || r === "buyer");
+  const canEdit = allows(["buyer"], user.roles);
   return (
     <>
       <PageHeader

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { listBlocks, listLocations } from "@/db/queries/blocks";
 import { listGrades } from "@/db/queries/grades";
 import { blockQuerySchema } from "@/lib/validations/stock";
@@ -21,7 +22,7 @@ export default async function StockPage({ searchParams }: { searchParams: Promis
   const [list, grades, locations, unit] = await Promise.all([listBlocks(query), listGrades(), listLocations(), displayUnit(user)]);
   const qs = new URLSearchParams(raw).toString();
   const canExport = user.roles.some((r) => ["admin", "buyer", "planner", "manager"].includes(r));
-  const canReceive = user.roles.some((r) => r === "admin" || r === "buyer");
+  const canReceive = allows(["buyer"], user.roles);
   return (
     <>
       <PageHeader

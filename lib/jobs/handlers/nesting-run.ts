@@ -34,7 +34,7 @@ export const nestingRunJob: JobDefinition<{ runId: number }> = {
         },
       });
       await writing;
-      await finishRun(runId, plan);
+      await finishRun(runId, problem, plan);
     } catch (e) {
       await failRun(runId, e instanceof Error ? e.message : String(e));
     }

@@ -1,13 +1,19 @@
-import type { Box } from "../geometry";
+import { volume as vol, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
-import { split, type SplitRule } from "./guillotine3d";
+import { GRID_ORDERS, split, type SplitRule } from "./guillotine3d";
 import type { ItemType, PackedItem } from "./model";
 
-const vol = (s: Vec3): number => s[0] * s[1] * s[2];
 /** Budget for lookahead: moves judged x part lines x pieces (about 150 moves for 10 lines of 130 pieces). */
 const LOOKAHEAD_WORK = 200_000;
-const GRID_ORDERS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]];
+
+/**
+ * How many moves a box-first fill may judge by greedy completions for this many part lines and
+ * pieces: none past 30 lines or 400 pieces, else a share of LOOKAHEAD_WORK.
+ */
+export function lookaheadCap(lines: number, pieces: number): number {
+  return lines > 30 || pieces > 400 ? 0 : Math.floor(LOOKAHEAD_WORK / (lines * pieces));
+}
 
 interface State {
   free: Box[];
@@ -165,7 +171,6 @@ export function fillBoxFirst(free: Box[], types: readonly ItemType[], remaining:
   // step: the number of moves judged shrinks as part lines x pieces grows.
   const live = order.filter((t) => remaining[t]! > 0);
   const pieces = live.reduce((n, t) => n + remaining[t]!, 0);
-  const cap = live.length > 30 || pieces > 400 ? 0 : Math.floor(LOOKAHEAD_WORK / (live.length * pieces));
-  run(s, types, live, p, Math.min(p.lookahead, cap));
+  run(s, types, live, p, Math.min(p.lookahead, lookaheadCap(live.length, pieces)));
   return { items: s.items!, leftovers: s.leftovers, packedVolume: s.packedVolume };
 }

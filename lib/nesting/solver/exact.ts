@@ -1,10 +1,9 @@
-import { EPS, atLeastSorted, guillotineSplits, sameVec, type Box } from "../geometry";
+import { EPS, atLeastSorted, guillotineSplits, sameVec, volume as vol, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
 import { carveObstacles } from "./guillotine3d";
 import { fitsIn, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
-const vol = (s: Vec3): number => s[0] * s[1] * s[2];
 
 /** The distinct three-box guillotine splits of `f` around a piece `d` at its corner. */
 function splits(f: Box, d: Vec3): Box[][] {

@@ -1,4 +1,4 @@
-import type { Box } from "../geometry";
+import { CUT_ORDERS, splitInOrder, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
 import { fillBoxFirst } from "./boxfirst";
@@ -23,7 +23,6 @@ export interface FillParams {
   stop?: () => boolean;
 }
 
-const vol = (s: Vec3): number => s[0] * s[1] * s[2];
 
 /**
  * Cuts the defect obstacles out of the usable box with through cuts: first a slab across the
@@ -67,38 +66,33 @@ export function carveObstacles(usable: Box, obstacles: readonly Box[], thinSlabs
   return { free, lost };
 }
 
-/** Splits what is left of `f` after a box of size `g` at its origin into three cut-separable boxes. */
-const SPLIT_ORDERS: readonly (readonly [number, number, number])[] = [
-  [0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0],
-];
-
+/**
+ * Splits what is left of `f` after a box of size `g` at its origin into three cut-separable boxes,
+ * in the cut order `rule` prefers: the biggest box kept whole, the most even boxes ("squares"), a
+ * random order, or "column": across the piece's thinnest side last, so what is left beyond it keeps
+ * the piece's footprint (a column for a stack of like pieces) and the strips beside it run the whole
+ * length of the box (room for pieces turned the other way).
+ */
 export function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
-  // "column": cut across the piece's thinnest side last, so what is left beyond it keeps the
-  // piece's footprint (a column for a stack of like pieces) and the strips beside it run the whole
-  // length of the box (room for pieces turned the other way).
   const thin = g[0] <= g[1] && g[0] <= g[2] ? 0 : g[1] <= g[2] ? 1 : 2;
   const fs = f.size;
   let bestOrder = -1;
   let bestScore = -Infinity;
   // Score each order from the volumes alone; build the boxes of the chosen one only.
-  for (let k = 0; k < SPLIT_ORDERS.length; k++) {
-    const order = SPLIT_ORDERS[k]!;
+  for (let k = 0; k < CUT_ORDERS.length; k++) {
+    const order = CUT_ORDERS[k]!;
     if (rule === "column" && order[2] !== thin) continue;
-    let e0 = fs[0];
-    let e1 = fs[1];
-    let e2 = fs[2];
+    const ext = [fs[0], fs[1], fs[2]];
     let biggest = 0;
     let squares = 0;
     for (const a of order) {
       const rest = fs[a]! - g[a]!;
       if (rest > 1e-9) {
-        const v = (a === 0 ? rest : e0) * (a === 1 ? rest : e1) * (a === 2 ? rest : e2);
+        const v = (a === 0 ? rest : ext[0]!) * (a === 1 ? rest : ext[1]!) * (a === 2 ? rest : ext[2]!);
         if (v > biggest) biggest = v;
         squares += v * v;
       }
-      if (a === 0) e0 = g[0];
-      else if (a === 1) e1 = g[1];
-      else e2 = g[2];
+      ext[a] = g[a]!;
     }
     const score = rule === "biggest" || rule === "column" ? biggest : rule === "squares" ? squares : r();
     if (score > bestScore) {
@@ -106,23 +100,11 @@ export function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
       bestOrder = k;
     }
   }
-  const out: Box[] = [];
-  const ext = [...fs] as Vec3;
-  for (const a of SPLIT_ORDERS[bestOrder]!) {
-    const rest = fs[a]! - g[a]!;
-    if (rest > 1e-9) {
-      const o = [...f.origin] as Vec3;
-      o[a] = f.origin[a]! + g[a]!;
-      const sz = [...ext] as Vec3;
-      sz[a] = rest;
-      out.push({ origin: o, size: sz });
-    }
-    ext[a] = g[a]!;
-  }
-  return out;
+  return splitInOrder(f, g, CUT_ORDERS[bestOrder]!);
 }
 
-const GRID_ORDERS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]];
+/** Axis orders for growing a grid of identical copies (first axis filled first). */
+export const GRID_ORDERS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]];
 
 /** Slack on axes too thin for any remaining part costs much; other slack a little. */
 function wasteScore(f: Vec3, g0: number, g1: number, g2: number, mMin: number): number {

@@ -1,4 +1,6 @@
 import { lowerBoundBlocks } from "../bounds";
+import { volume } from "../geometry";
+import { lookaheadCap } from "./boxfirst";
 import { compareScores, scoreOf, scorePlan, type Score } from "../objective";
 import { rng as makeRng, type Rng } from "../rng";
 import type { Plan, Problem } from "../types";
@@ -95,13 +97,13 @@ export class Search {
       area: sorted.map((s) => s[0]! * s[1]!),
       minSide: sorted.map((s) => s[2]! * 1e6 + s[1]!),
     };
-    const capacity = this.model.blocks.reduce((s, b) => s + b.usable.size[0] * b.usable.size[1] * b.usable.size[2], 0);
-    const cargo = this.model.types.reduce((s, t) => s + t.dims[0]![0] * t.dims[0]![1] * t.dims[0]![2] * t.count, 0);
+    const capacity = this.model.blocks.reduce((s, b) => s + volume(b.usable.size), 0);
+    const cargo = this.model.types.reduce((s, t) => s + volume(t.dims[0]!) * t.count, 0);
     // One layer of parts (a 2D problem) is left to the rectangle packers and the glue search.
     const oneLayer = problem.settings.layout !== "guillotine" && this.model.blocks.every((b) => this.model.types.every((t) => layerDims(t, b).length > 0));
-    // Judging moves by greedy completions pays only for modest orders (see fillBoxFirst's cap).
+    // Judging moves by greedy completions is allowed for modest orders only.
     const pieces = this.model.types.reduce((s, t) => s + t.count, 0);
-    const modest = pieces <= 400 && this.model.types.length <= 30;
+    const modest = lookaheadCap(this.model.types.length, pieces) > 0;
     this.fillMost = modest && !oneLayer && (this.model.blocks.length === 1 || cargo >= capacity);
     this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
     if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
@@ -276,8 +278,8 @@ export class Search {
       const info = m.blocks[b]!;
       const counts = remaining.map((c, t) => (m.compatible[b]!.includes(t) ? c : 0));
       if (counts.some((c, t) => c < remaining[t]!)) continue;
-      const need = counts.reduce((s, c, t) => s + c * m.types[t]!.dims[0]!.reduce((p, v) => p * v, 1), 0);
-      const cap = info.usable.size.reduce((p, v) => p * v, 1);
+      const need = counts.reduce((s, c, t) => s + c * volume(m.types[t]!.dims[0]!), 0);
+      const cap = volume(info.usable.size);
       if (need > cap + 1e-6 || need === 0) continue;
       const key = `${info.classKey}|${counts.join(",")}`;
       const budget = (this.tried.get(key) ?? 25) * 2;

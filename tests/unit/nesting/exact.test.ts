@@ -29,13 +29,15 @@ describe("perfect packings: parts cut from one block by random through cuts (ker
 });
 
 describe("the glue search keeps each part's rotate rule", () => {
-  // Two 60 x 50 x 10 plates fill a 100 x 60 x 10 block only when each is turned a quarter about z.
-  const plates = (rotate: "none" | "z") =>
+  /** Two like pieces and one block they can fill exactly, no kerf or trim. */
+  const twoIn = (block: Vec3, id: string, size: Vec3, rotate: "none" | "z" | "any") =>
     problem({
       settings: { kerf: 0, trim: 0, layout: "guillotine" },
-      blocks: [{ id: "B", size: [100, 60, 10] }],
-      parts: [{ id: "plate", size: [60, 50, 10], quantity: 2, rotate }],
+      blocks: [{ id: "B", size: block }],
+      parts: [{ id, size, quantity: 2, rotate }],
     });
+  // Two 60 x 50 x 10 plates fill a 100 x 60 x 10 block only when each is turned a quarter about z.
+  const plates = (rotate: "none" | "z") => twoIn([100, 60, 10], "plate", [60, 50, 10], rotate);
 
   it('rotate "z": the quarter turn is allowed, so the two plates fill the block', () => {
     const fill = mergeFill(plates("z"));
@@ -48,12 +50,7 @@ describe("the glue search keeps each part's rotate rule", () => {
   });
 
   // Two 100 x 100 x 10 sheets fill a 20 x 100 x 100 block only standing on edge.
-  const sheets = (rotate: "any" | "z") =>
-    problem({
-      settings: { kerf: 0, trim: 0, layout: "guillotine" },
-      blocks: [{ id: "B", size: [20, 100, 100] }],
-      parts: [{ id: "sheet", size: [100, 100, 10], quantity: 2, rotate }],
-    });
+  const sheets = (rotate: "any" | "z") => twoIn([20, 100, 100], "sheet", [100, 100, 10], rotate);
 
   it('rotate "any": the sheets stand on edge side by side', () => {
     const fill = mergeFill(sheets("any"));

@@ -3,9 +3,10 @@ import { JobRuns } from "@/components/plans/job-runs";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { getJob, listJobParts } from "@/db/queries/jobs";
 import { listLibraryParts } from "@/db/queries/library";
-import { listGrades } from "@/db/queries/grades";
+import { listGrades, partGradeChoices } from "@/db/queries/grades";
 import { displayUnit } from "@/lib/display";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { buttonClass } from "@/components/ui/button";
@@ -31,7 +32,7 @@ export default async function JobPage({ params }: Params) {
   const id = jobIdOf((await params).jobId);
   const job = id ? await getJob(id) : undefined;
   if (!job) notFound();
-  const canEdit = user.roles.some((r) => r === "admin" || r === "planner");
+  const canEdit = allows(["planner"], user.roles);
   const open = job.status === "open";
   const [parts, unit, grades, library] = await Promise.all([
     listJobParts([job.id]),
@@ -83,7 +84,7 @@ export default async function JobPage({ params }: Params) {
           <>
             <div className="grid gap-5 lg:grid-cols-[1fr_22rem]">
               <Card title="Add a part by hand">
-                <PartForm target={{ kind: "job", jobId: job.id }} unit={unit} grades={grades.filter((g) => !g.neverHotWire && g.active).map((g) => ({ id: g.id, code: g.code }))} />
+                <PartForm target={{ kind: "job", jobId: job.id }} unit={unit} grades={partGradeChoices(grades)} />
               </Card>
               <Card title="Add from the part library">
                 <AddFromLibrary jobId={job.id} parts={library.map((l) => ({ id: l.id, kit: l.kit, name: l.name, defaultQuantity: l.defaultQuantity, sizeText: formatSize(l.size, unit) }))} />

@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { getRun, listRuns, owedByRun } from "@/db/queries/runs";
 import { getShopSettings } from "@/db/queries/settings";
 import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
@@ -26,8 +27,8 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   const run = await getRun(id);
   if (!run) notFound();
   const [settings, siblings, owed] = await Promise.all([getShopSettings(), listRuns({ jobId: run.jobIds[0], limit: 8 }), owedByRun(id, run.plan)]);
-  const planner = user.roles.some((r) => r === "admin" || r === "planner");
-  const cutter = user.roles.some((r) => r === "admin" || r === "cutter");
+  const planner = allows(["planner"], user.roles);
+  const cutter = allows(["cutter"], user.roles);
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
   const partName = (key: string) => names.get(partIdFromKey(key)) ?? key;
   const plan = run.plan;

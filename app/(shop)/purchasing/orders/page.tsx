@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { listPurchaseOrders } from "@/db/queries/purchase-orders";
 import { PageHeader } from "@/components/ui/card";
 import { buttonClass } from "@/components/ui/button";
@@ -15,7 +16,7 @@ export default async function OrdersPage({ searchParams }: { searchParams: Promi
   const status = sp.status === "open" || (PO_STATUSES as readonly string[]).includes(sp.status ?? "") ? (sp.status as PoStatus | "open") : undefined;
   const page = Math.max(1, Math.min(10_000, Number(sp.page) || 1));
   const { items, total } = await listPurchaseOrders({ status, page });
-  const canEdit = user.roles.some((r) => r === "admin" || r === "buyer");
+  const canEdit = allows(["buyer"], user.roles);
   const tab = (s: string | undefined, label: string) => (
     <Link key={label} href={s ? `/purchasing/orders?status=${s}` : "/purchasing/orders"} className={`rounded-md px-3 py-1.5 text-sm ${status === s ? "bg-kerf text-white hover:no-underline" : "text-ink-soft"}`}>{label}</Link>
   );

@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireRole } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { getPurchaseOrder, listOrderDeliveries } from "@/db/queries/purchase-orders";
 import { listReorder } from "@/db/queries/reorder";
 import { listSuppliers } from "@/db/queries/suppliers";
@@ -23,7 +24,7 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
   const po = await getPurchaseOrder(Number(poId));
   if (!po) notFound();
   const deliveries = await listOrderDeliveries(po.id);
-  const canEdit = user.roles.some((r) => r === "admin" || r === "buyer");
+  const canEdit = allows(["buyer"], user.roles);
   const [grades, suppliers] = canEdit && po.status === "draft" ? await Promise.all([listReorder(), listSuppliers()]) : [[], []];
   return (
     <>
