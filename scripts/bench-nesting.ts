@@ -152,41 +152,56 @@ function benchZeroWaste(dir: string): void {
   results["2d-zero-waste"] = { solved, peerSolved, meanFill: fill / insts.length, peerMeanFill: peerFill / insts.length, unsolved };
 }
 
+type MpvLayout = "guillotine" | "free";
+
+/**
+ * MPV 3D classes with rotation, under the cuttable layout (guillotine) and under the free layout
+ * the classic box-packing results use (`--mpv-layout guillotine,free`, both by default).
+ */
 function benchMpv(dir: string): void {
+  const layouts = (opt("--mpv-layout") ?? "guillotine,free").split(",") as MpvLayout[];
   const classes = [1, 4, 5, 6, 7, 8];
   const all = loadMpv(dir, classes);
   // --mpv-sizes 50,100 keeps a subset of the item counts (the full set takes the longest).
   const sizes = opt("--mpv-sizes")?.split(",").map(Number);
   const insts = quick ? all.filter((x) => x.no === 1 && x.n <= 100) : sizes ? all.filter((x) => sizes.includes(x.n)) : all;
-  const per = new Map<number, { ours: number; peer: number; lb: number; ms: number; n: number }>();
+  type Sums = { ours: number; peer: number; lb: number; ms: number; n: number };
+  const per = new Map<MpvLayout, Map<number, Sums>>(layouts.map((l) => [l, new Map()]));
   for (const inst of insts) {
-    const problem = problemOf({
-      bins: inst.items.map(() => inst.bin),
-      parts: inst.items.map((s) => ({ size: s, rotate: "any" as const })),
-      layout: "guillotine",
-      timeLimitMs: quick ? 300 : 900,
-    });
-    const { plan, ms } = solve(problem, `MPV ${inst.cls}_${inst.n}/${inst.no}`);
     // Enough bins for the peer without making its first-fit scan needlessly long.
     let peer = binpackingjs3D(inst.bin, inst.items.map((d) => ({ dims: d })), Math.ceil(inst.lb * 1.3) + 2);
     if (peer.unfit > 0) peer = binpackingjs3D(inst.bin, inst.items.map((d) => ({ dims: d })), inst.lb * 2 + 5);
-    const c = per.get(inst.cls) ?? { ours: 0, peer: 0, lb: 0, ms: 0, n: 0 };
-    c.ours += plan.stats.blocksUsed + (plan.unplaced.length > 0 ? 1000 : 0);
-    c.peer += peer.used;
-    c.lb += inst.lb;
-    c.ms += ms;
-    c.n++;
-    per.set(inst.cls, c);
+    for (const layout of layouts) {
+      const problem = problemOf({
+        bins: inst.items.map(() => inst.bin),
+        parts: inst.items.map((s) => ({ size: s, rotate: "any" as const })),
+        layout,
+        timeLimitMs: quick ? 300 : 900,
+      });
+      const { plan, ms } = solve(problem, `MPV ${inst.cls}_${inst.n}/${inst.no} ${layout}`);
+      const byClass = per.get(layout)!;
+      const c = byClass.get(inst.cls) ?? { ours: 0, peer: 0, lb: 0, ms: 0, n: 0 };
+      c.ours += plan.stats.blocksUsed + (plan.unplaced.length > 0 ? 1000 : 0);
+      c.peer += peer.used;
+      c.lb += inst.lb;
+      c.ms += ms;
+      c.n++;
+      byClass.set(inst.cls, c);
+    }
   }
-  let tot = { ours: 0, peer: 0, lb: 0, ms: 0, n: 0 };
-  for (const [cls, c] of per) {
-    printRow({ set: `MPV class ${cls} (rot, guillotine)`, instances: c.n, blockyard: `${c.ours} bins`, ratio: `${(c.ours / c.lb).toFixed(3)}× LB`, peer: `binpackingjs ${c.peer}`, peerRatio: `${(c.peer / c.lb).toFixed(3)}×`, msPerInstance: c.ms / c.n, note: `LB ${c.lb}${c.ours > c.peer ? " (MORE than peer)" : ""}` });
-    tot = { ours: tot.ours + c.ours, peer: tot.peer + c.peer, lb: tot.lb + c.lb, ms: tot.ms + c.ms, n: tot.n + c.n };
+  const out: Record<string, unknown> = {};
+  for (const layout of layouts) {
+    let tot: Sums = { ours: 0, peer: 0, lb: 0, ms: 0, n: 0 };
+    for (const [cls, c] of per.get(layout)!) {
+      printRow({ set: `MPV class ${cls} (rot, ${layout})`, instances: c.n, blockyard: `${c.ours} bins`, ratio: `${(c.ours / c.lb).toFixed(3)}× LB`, peer: `binpackingjs ${c.peer}`, peerRatio: `${(c.peer / c.lb).toFixed(3)}×`, msPerInstance: c.ms / c.n, note: `LB ${c.lb}${c.ours > c.peer ? " (MORE than peer)" : ""}` });
+      tot = { ours: tot.ours + c.ours, peer: tot.peer + c.peer, lb: tot.lb + c.lb, ms: tot.ms + c.ms, n: tot.n + c.n };
+    }
+    const row: Row = { set: `MPV 3D classes 1,4,5,6,7,8 (${layout})`, instances: tot.n, blockyard: `${tot.ours} bins`, ratio: `${(tot.ours / tot.lb).toFixed(3)}× LB`, peer: `binpackingjs ${tot.peer}`, peerRatio: `${(tot.peer / tot.lb).toFixed(3)}×`, msPerInstance: tot.ms / tot.n, note: `LB ${tot.lb}; target ≤ 1.05×` };
+    rows.push(row);
+    printRow(row);
+    out[layout] = { perClass: Object.fromEntries(per.get(layout)!), total: tot };
   }
-  const row: Row = { set: "MPV 3D classes 1,4,5,6,7,8", instances: tot.n, blockyard: `${tot.ours} bins`, ratio: `${(tot.ours / tot.lb).toFixed(3)}× LB`, peer: `binpackingjs ${tot.peer}`, peerRatio: `${(tot.peer / tot.lb).toFixed(3)}×`, msPerInstance: tot.ms / tot.n, note: `LB ${tot.lb}; target ≤ 1.05×` };
-  rows.push(row);
-  printRow(row);
-  results.mpv = { perClass: Object.fromEntries(per), total: tot };
+  results.mpv = out;
 }
 
 function brAllowed(flags: [number, number, number]): RotationType[] {

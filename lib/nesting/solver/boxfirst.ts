@@ -23,7 +23,7 @@ interface State {
   items: PackedItem[] | undefined;
 }
 
-interface Move {
+export interface Move {
   t: number;
   d: Vec3;
   n: Vec3;
@@ -49,14 +49,14 @@ function lowest(free: readonly Box[]): number {
   return fi;
 }
 
-function minSide(types: readonly ItemType[], order: readonly number[], remaining: readonly number[]): number {
+export function minSide(types: readonly ItemType[], order: readonly number[], remaining: readonly number[]): number {
   let m = Infinity;
   for (const t of order) if (remaining[t]! > 0) m = Math.min(m, types[t]!.minSide);
   return m;
 }
 
 /** The `k` best placements (a part or a grid of copies) for box `f`, best first. */
-function moves(f: Box, types: readonly ItemType[], order: readonly number[], remaining: readonly number[], grid: boolean, mMin: number, k: number): Move[] {
+export function moves(f: Box, types: readonly ItemType[], order: readonly number[], remaining: readonly number[], grid: boolean, mMin: number, k: number): Move[] {
   const out: Move[] = [];
   const fs = f.size;
   const fv = vol(fs);
@@ -145,6 +145,8 @@ function run(s: State, types: readonly ItemType[], order: readonly number[], p: 
       // Judge the first few moves by where a plain greedy fill would end from each.
       let bestVol = -1;
       for (const m of ms) {
+        // Out of time mid-step: take the best judged so far.
+        if (bestVol >= 0 && p.stop?.()) break;
         const sim: State = { free: [...s.free], remaining: [...s.remaining], packedVolume: s.packedVolume, leftovers: [], items: undefined };
         apply(sim, fi, m, types, p);
         run(sim, types, order, p, 0);

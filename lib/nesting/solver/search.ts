@@ -11,6 +11,7 @@ import { fillBlockMaxRects, fillBlockMaxRectsPackage, layerDims, type RectRule }
 import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
 import { packAllByCuts, packAllByMerging, packAllInBlock } from "./exact";
 import { eliminateBlocks } from "./improve";
+import { fillBlockFree } from "./freefill";
 import { ColumnPool, coverDemand } from "./setcover";
 
 type OrderKey = "volume" | "maxSide" | "area" | "minSide";
@@ -29,6 +30,10 @@ interface PassParams {
   candidates: number;
   /** Fill attempts per block with varied settings; the fullest one is kept. */
   tries: number;
+  /** Free layout only: keep the empty room as maximal boxes (freefill.ts) instead of a cut tree. */
+  free: boolean;
+  /** Free fills: from the block corner nearest each empty box, or from the origin corner. */
+  corners: boolean;
 }
 
 const DEFAULT: PassParams = {
@@ -44,6 +49,8 @@ const DEFAULT: PassParams = {
   blockOrder: "cheap",
   candidates: 1,
   tries: 1,
+  free: false,
+  corners: true,
 };
 
 function pick<T>(r: Rng, xs: readonly T[]): T {
@@ -76,6 +83,8 @@ export class Search {
   private readonly orderKeys: Record<OrderKey, number[]>;
   /** One block, or more parts than the blocks hold (3D): passes aim at full blocks. */
   private readonly fillMost: boolean;
+  /** Share of passes that fill blocks in free layout (maximal empty boxes); 0 unless the layout is free. */
+  private readonly freeShare: number;
 
   constructor(
     problem: Problem,
@@ -105,6 +114,7 @@ export class Search {
     const pieces = this.model.types.reduce((s, t) => s + t.count, 0);
     const modest = lookaheadCap(this.model.types.length, pieces) > 0;
     this.fillMost = modest && !oneLayer && (this.model.blocks.length === 1 || cargo >= capacity);
+    this.freeShare = problem.settings.layout === "free" ? 0.7 : 0;
     this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
     if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
       const w = opts.warmStart;
@@ -196,6 +206,8 @@ export class Search {
 
   private randomParams(): PassParams {
     const r = this.r;
+    // The second pass of a fill-most search: the setting that fills single blocks best on average.
+    if (this.fillMost && this.iteration === 1) return { ...DEFAULT, boxFirst: true, lookahead: 96, free: this.freeShare > 0, corners: true };
     if (this.fillMost && r() < 0.85)
       // Stock is short (or there is one block): the fullest block wins, and box-first fills judged
       // by many greedy completions (a pilot method) fill a single block best.
@@ -208,6 +220,8 @@ export class Search {
         boxFirst: true,
         lookahead: pick(r, [24, 48, 96, 192]),
         blockOrder: pick(r, ["cheap", "large"] as const),
+        free: this.freeShare > 0 && r() < this.freeShare,
+        corners: r() < 0.8,
       };
     return {
       orderKey: pick(r, ["volume", "volume", "maxSide", "area", "minSide"] as const),
@@ -222,6 +236,8 @@ export class Search {
       blockOrder: pick(r, ["cheap", "cheap", "large", "shuffle"] as const),
       candidates: pick(r, [1, 2, 4, 8]),
       tries: pick(r, [1, 2, 4, 8]),
+      free: this.freeShare > 0 && r() < this.freeShare,
+      corners: r() < 0.5,
     };
   }
 
@@ -264,6 +280,8 @@ export class Search {
     const planar = m.problem.settings.layout !== "guillotine" && p.planarMaxRects && live.every((t) => layerDims(m.types[t]!, info).length > 0);
     if (planar && p.rectRule === "package" && info.obstacles.length === 0) return fillBlockMaxRectsPackage(info, m.types, remaining, order);
     if (planar) return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule === "package" ? "bssf" : p.rectRule);
+    // Piece by piece, free fills leave many small empty boxes: no moves judged then (too slow).
+    if (p.free) return fillBlockFree(info, m.types, remaining, { order, grid: p.grid, lookahead: p.boxFirst && p.grid ? p.lookahead : 0, corners: p.corners, rng: this.r, stop: () => this.outOfTime() });
     return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, lookahead: p.lookahead, rng: this.r, stop: () => this.outOfTime() });
   }
 
