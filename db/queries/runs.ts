@@ -8,7 +8,7 @@ import { parseProblem, type Plan, type Problem } from "@/lib/nesting";
 import { buildProblem, partIdFromKey, partKey, type PartForPlan, type StockForPlan } from "@/lib/planning/problem";
 import { lossBreakdown } from "@/lib/planning/losses";
 import { cutEstimate } from "@/lib/planning/gcode";
-import { piecesOf } from "@/lib/planning/cut-regions";
+import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
 import { runSettingsSchema, type RecordCutInput, type RunSettings } from "@/lib/validations/runs";
 import { getShopSettings } from "./settings";
 
@@ -441,6 +441,10 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
       const plan = run.plan as Plan;
       const codes = blocksInPlan(plan);
       if (!codes.length) throw new HttpError(409, "This plan places nothing: there is nothing to reserve.");
+      // A free-layout plan may hold pieces no cutter can free: never reserve stock for it.
+      const stuck = codes.filter((c) => stuckPieces(plan, c, (run.settings as RunSettings).kerf) > 0);
+      if (stuck.length)
+        throw new HttpError(409, `${stuck.length === 1 ? "Block" : "Blocks"} ${stuck.join(", ")}: some pieces cannot be freed by through cuts nor cut out of one layer (free layout, for comparison only). Plan again with the guillotine or layers rule.`);
       const blocks = await trx("blocks").whereIn("code", codes).forUpdate().select("id", "code", "status", "volume_m3", "cost");
       for (const b of blocks) {
         if (b.status !== "in_stock") {

@@ -1,4 +1,5 @@
 import type { Cut } from "@/lib/nesting";
+import { separate } from "@/lib/nesting/geometry";
 
 type V3 = [number, number, number];
 export interface Box { min: V3; max: V3 }
@@ -43,4 +44,17 @@ export function travelAcross(cut: RegionCut): number {
 /** The pieces (placements and offcuts) a plan puts in one block, as boxes. */
 export function piecesOf(plan: { placements: { block: string; origin: V3; size: V3 }[]; offcuts: { block: string; origin: V3; size: V3 }[] }, blockId: string): Box[] {
   return [...plan.placements, ...plan.offcuts].filter((p) => p.block === blockId).map((p) => ({ min: p.origin, max: p.origin.map((v, i) => v + p.size[i]!) as V3 }));
+}
+
+/**
+ * How many pieces of a block (parts and offcuts) neither through cuts nor a profile cutter in a
+ * layer can free — not zero only for plans made with the free layout rule, which is for
+ * comparison with box-packing results and not cuttable in general.
+ *
+ *   // a pinwheel: four oblong pieces around a lower square one
+ *   stuckPieces(pinwheelPlan, "B", 0)  // → 5
+ */
+export function stuckPieces(plan: { placements: { block: string; origin: V3; size: V3 }[]; offcuts: { block: string; origin: V3; size: V3 }[] }, blockId: string, kerf: number): number {
+  const boxes = [...plan.placements, ...plan.offcuts].filter((p) => p.block === blockId).map((p) => ({ origin: p.origin, size: p.size }));
+  return separate(boxes, kerf, "layers").stuck.reduce((n, group) => n + group.length, 0);
 }

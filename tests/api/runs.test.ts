@@ -196,6 +196,25 @@ describe("approval", () => {
     expect((await planner.post(`/api/runs/${second.runId}/approve`)).status).toBe(200);
   });
 
+  it("refuses a plan whose pieces no cut can free (free layout), naming the block and changing nothing", async () => {
+    const block = await makeBlock({ size: [2000, 1000, 600] });
+    const { jobId } = await makeJobWithParts([{ name: "Pinwheel piece", quantity: 5, size: [100, 100, 100], gradeCode: "EPS-II" }]);
+    const { runId, plan } = await makeDoneRun(jobId, [block], { ...SETTINGS, layout: "free" });
+    // Four oblongs turning around a lower middle piece: no through cut frees any of them, and
+    // they are not one layer (a pinwheel; common knowledge, no source).
+    const key = plan.placements[0]!.part;
+    const at = (origin: [number, number, number], size: [number, number, number]) => ({ part: key, block: block.code, origin, size });
+    const pinwheel = { ...plan, offcuts: [], placements: [at([10, 10, 10], [200, 100, 100]), at([210, 10, 10], [100, 200, 100]), at([110, 210, 10], [200, 100, 100]), at([10, 110, 10], [100, 200, 100]), at([110, 110, 10], [100, 100, 50])] };
+    await testDb()("nesting_runs").where({ id: runId }).update({ plan: JSON.stringify(pinwheel) });
+    const before = await tableCounts();
+    const res = await planner.post(`/api/runs/${runId}/approve`);
+    expect(res.status).toBe(409);
+    expect(res.body.error).toContain(`Block ${block.code}`);
+    expect(res.body.error).toMatch(/guillotine or layers/);
+    expect(await tableCounts()).toEqual(before);
+    expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("in_stock");
+  });
+
   it("releases an approved plan's blocks back to stock", async () => {
     const { runId, block } = await makeApprovedRun();
     const res = await planner.post(`/api/runs/${runId}/release`);

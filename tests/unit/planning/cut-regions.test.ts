@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { cutRegions, travelAcross } from "@/lib/planning/cut-regions";
+import { cutRegions, stuckPieces, travelAcross } from "@/lib/planning/cut-regions";
 import { cutEstimate } from "@/lib/planning/gcode";
 
 type V3 = [number, number, number];
@@ -23,5 +23,21 @@ describe("the piece each through cut crosses", () => {
     const e = cutEstimate([1002, 500, 502], cuts, 100, 0, { kerf: 2, pieces });
     expect(e.lengthMm).toBe(1502);
     expect(cutEstimate([1002, 500, 502], cuts, 100, 0).lengthMm).toBe(502 + 1002 + 1002);
+  });
+});
+
+describe("pieces no cut can free", () => {
+  const at = (block: string, origin: V3, size: V3) => ({ block, origin, size });
+  it("counts the five pieces of a pinwheel (the textbook non-guillotine pattern; common knowledge, no source) with a lower middle piece, and none of a stack of slabs", () => {
+    // With pieces all as high as each other the pinwheel would be one layer a profile cutter frees.
+    const pinwheel = {
+      placements: [at("B", [0, 0, 0], [20, 10, 10]), at("B", [20, 0, 0], [10, 20, 10]), at("B", [10, 20, 0], [20, 10, 10]), at("B", [0, 10, 0], [10, 20, 10]), at("B", [10, 10, 0], [10, 10, 5])],
+      offcuts: [],
+    };
+    expect(stuckPieces(pinwheel, "B", 0)).toBe(5);
+    const slabs = { placements: [at("C", [0, 0, 0], [30, 30, 10]), at("C", [0, 0, 12], [30, 30, 10])], offcuts: [at("C", [0, 0, 24], [30, 30, 6])] };
+    expect(stuckPieces(slabs, "C", 2)).toBe(0);
+    // Pieces of other blocks are not counted.
+    expect(stuckPieces(pinwheel, "C", 0)).toBe(0);
   });
 });

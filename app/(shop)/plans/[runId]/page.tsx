@@ -13,7 +13,8 @@ import { PlanView } from "@/components/plans/plan-view";
 import { RunStatusBadge } from "@/components/plans/run-status";
 import { HotWireCaution } from "@/components/shell/safety-note";
 import { cutEstimate } from "@/lib/planning/gcode";
-import { piecesOf } from "@/lib/planning/cut-regions";
+import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
+import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
 
 export async function generateMetadata({ params }: { params: Promise<{ runId: string }> }): Promise<Metadata> {
@@ -33,6 +34,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   const partName = (key: string) => names.get(partIdFromKey(key)) ?? key;
   const plan = run.plan;
   const used = plan ? run.problem.blocks.filter((b) => plan.placements.some((p) => p.block === b.id)) : [];
+  const uncuttable = plan ? used.filter((b) => stuckPieces(plan, b.id, run.settings.kerf) > 0).map((b) => b.id) : [];
   const estimates = used.map((b) => cutEstimate(b.size, plan!.cuts[b.id] ?? [], settings.feedMmPerMin, 10, { trim: b.trim, kerf: run.settings.kerf, pieces: piecesOf(plan!, b.id) }));
   const totalMinutes = estimates.reduce((s, e) => s + e.minutes, 0);
   const totalLength = estimates.reduce((s, e) => s + e.lengthMm, 0);
@@ -85,7 +87,13 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                 </ul>
               </Notice>
             )}
-            {planner && <RunActions runId={run.id} status={run.status} owes={owes} />}
+            {uncuttable.length > 0 && (
+              <Notice tone="danger" title="This plan cannot be cut">
+                {uncuttable.length === 1 ? `Block ${uncuttable[0]} holds` : `Blocks ${uncuttable.join(", ")} hold`} pieces that no through cut frees (free layout, for
+                comparison only), so the plan cannot be approved. Plan the job again with the guillotine or layers rule.
+              </Notice>
+            )}
+            {planner && <RunActions runId={run.id} status={run.status} owes={owes} canApprove={uncuttable.length === 0} />}
             <HotWireCaution />
             {used.map((b) => {
               const status = run.blocks.find((x) => x.code === b.id)?.planStatus;
@@ -102,6 +110,11 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                   }
                   action={cutter || planner ? <a className="text-sm" href={`/api/runs/${run.id}/gcode?block=${encodeURIComponent(b.id)}`}>G-code (straight cuts)</a> : undefined}
                 >
+                  {uncuttable.includes(b.id) && (
+                    <div className="mb-3">
+                      <NotCuttable count={stuckPieces(plan, b.id, run.settings.kerf)} />
+                    </div>
+                  )}
                   <PlanView
                     block={{ id: b.id, size: b.size, defects: b.defects.map((d) => ({ min: d.min.map((v) => Math.max(0, v - run.settings.defectMargin)) as [number, number, number], max: d.max.map((v, i) => Math.min(b.size[i]!, v + run.settings.defectMargin)) as [number, number, number] })) }}
                     placements={plan.placements.filter((p) => p.block === b.id)}

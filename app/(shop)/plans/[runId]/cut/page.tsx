@@ -9,6 +9,8 @@ import { HotWireCaution } from "@/components/shell/safety-note";
 import { PlanView } from "@/components/plans/plan-view";
 import { CutBlockForm } from "@/components/plans/cut-block-form";
 import { partIdFromKey } from "@/lib/planning/problem";
+import { stuckPieces } from "@/lib/planning/cut-regions";
+import { NotCuttable } from "@/components/plans/not-cuttable";
 
 export const metadata: Metadata = { title: "At the machine" };
 
@@ -31,10 +33,16 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
         {inPlan.map((b) => {
           const pb = run.problem.blocks.find((x) => x.id === b.code)!;
           const placements = plan.placements.filter((p) => p.block === b.code);
+          const stuck = stuckPieces(plan, b.code, run.settings.kerf);
           const counts = new Map<number, number>();
           for (const p of placements) counts.set(partIdFromKey(p.part), (counts.get(partIdFromKey(p.part)) ?? 0) + 1);
           return (
             <Card key={b.id} title={<span className="flex items-center gap-2">{b.code} {b.planStatus === "cut" ? <Badge tone="moss">cut</Badge> : b.planStatus === "released" ? <Badge>released</Badge> : <Badge tone="kerf">to cut</Badge>}</span>}>
+              {stuck > 0 && (
+                <div className="mb-3">
+                  <NotCuttable count={stuck} />
+                </div>
+              )}
               <div className="grid gap-5 xl:grid-cols-2">
                 <PlanView block={{ id: b.code, size: pb.size, defects: pb.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={placements} offcuts={plan.offcuts.filter((o) => o.block === b.code)} cuts={plan.cuts[b.code] ?? []} kerf={run.settings.kerf} trim={pb.trim} partName={partName} showLayers={false} />
                 {b.planStatus === "reserved" && run.status === "approved" ? (

@@ -8,7 +8,8 @@ import { listChildren } from "@/db/queries/blocks";
 import { PlanView } from "@/components/plans/plan-view";
 import { PrintButton } from "@/components/stock/print-button";
 import { cutEstimate } from "@/lib/planning/gcode";
-import { piecesOf } from "@/lib/planning/cut-regions";
+import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
+import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
 
 export const metadata: Metadata = { title: "Cut sheet" };
@@ -39,7 +40,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
           return { code, size: o.size, svg: await QRCode.toString(code, { type: "svg", margin: 1, errorCorrectionLevel: "M" }) };
         }),
       );
-      return { b, offcuts, labels, estimate: cutEstimate(b.size, plan.cuts[b.id] ?? [], settings.feedMmPerMin, 10, { trim: b.trim, kerf: run.settings.kerf, pieces: piecesOf(plan, b.id) }) };
+      return { b, offcuts, labels, stuck: stuckPieces(plan, b.id, run.settings.kerf), estimate: cutEstimate(b.size, plan.cuts[b.id] ?? [], settings.feedMmPerMin, 10, { trim: b.trim, kerf: run.settings.kerf, pieces: piecesOf(plan, b.id) }) };
     }),
   );
   return (
@@ -55,9 +56,10 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
         <p className="font-semibold">Before you heat the wire</p>
         <p>Ventilate: heated polystyrene gives off styrene; use the lowest wire heat that cuts, and the wire should never smoke. The wire burns and may carry tens of volts: never leave it hot and unattended. Never hot-wire polyurethane. Follow local codes, the material&apos;s safety data sheet and licensed practice.</p>
       </section>
-      {sheets.map(({ b, offcuts, labels, estimate }) => (
+      {sheets.map(({ b, offcuts, labels, stuck, estimate }) => (
         <section key={b.id} className="break-inside-avoid space-y-3 border-t border-bead pt-4 print:break-after-page">
           <h2>Block {b.id} <span className="text-sm font-normal text-ink-soft">{dims(b.size)} mm · {b.grade}{b.offcut ? " · offcut (faces clean)" : ` · trim ${run.settings.trim} mm each face first`}</span></h2>
+          {stuck > 0 && <NotCuttable count={stuck} />}
           <div className="grid gap-4 lg:grid-cols-2">
             <div>
               <h3 className="text-sm font-semibold">Through cuts, in order</h3>
