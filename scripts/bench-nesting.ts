@@ -176,7 +176,7 @@ function benchMpv(dir: string): void {
         bins: inst.items.map(() => inst.bin),
         parts: inst.items.map((s) => ({ size: s, rotate: "any" as const })),
         layout,
-        timeLimitMs: quick ? 300 : 900,
+        timeLimitMs: quick ? 300 : Number(opt("--mpv-ms") ?? 900),
       });
       const { plan, ms } = solve(problem, `MPV ${inst.cls}_${inst.n}/${inst.no} ${layout}`);
       const byClass = per.get(layout)!;

@@ -220,8 +220,8 @@ export class Search {
         boxFirst: true,
         lookahead: pick(r, [24, 48, 96, 192]),
         blockOrder: pick(r, ["cheap", "large"] as const),
-        free: this.freeShare > 0 && r() < this.freeShare,
-        corners: r() < 0.8,
+        // Drawn only in free layout, so other layouts keep their random sequence.
+        ...this.freeChoice(0.8),
       };
     return {
       orderKey: pick(r, ["volume", "volume", "maxSide", "area", "minSide"] as const),
@@ -236,9 +236,14 @@ export class Search {
       blockOrder: pick(r, ["cheap", "cheap", "large", "shuffle"] as const),
       candidates: pick(r, [1, 2, 4, 8]),
       tries: pick(r, [1, 2, 4, 8]),
-      free: this.freeShare > 0 && r() < this.freeShare,
-      corners: r() < 0.5,
+      ...this.freeChoice(0.5),
     };
+  }
+
+  /** Free layout: whether a pass uses maximal empty boxes and, if so, fills from the nearest corners. */
+  private freeChoice(cornerShare: number): { free: boolean; corners: boolean } {
+    if (this.freeShare === 0 || this.r() >= this.freeShare) return { free: false, corners: true };
+    return { free: true, corners: this.r() < cornerShare };
   }
 
   private typeOrder(p: PassParams, types: number[]): number[] {
