@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, makeBlock, tableCounts, testDb } from "../support/db";
-import { SETTINGS, makeApprovedRun, makeDoneRun, makeJobWithParts, makePlannedBlock } from "../support/planning-fixtures";
+import { SETTINGS, makeApprovedRun, makeDoneRun, makeJobWithParts, makePinwheelRun, makePlannedBlock } from "../support/planning-fixtures";
 import { validatePlan, type Plan, type Problem } from "@/lib/nesting";
 
 afterAll(closeTestDb);
@@ -197,15 +197,7 @@ describe("approval", () => {
   });
 
   it("refuses a plan whose pieces no cut can free (free layout), naming the block and changing nothing", async () => {
-    const block = await makeBlock({ size: [2000, 1000, 600] });
-    const { jobId } = await makeJobWithParts([{ name: "Pinwheel piece", quantity: 5, size: [100, 100, 100], gradeCode: "EPS-II" }]);
-    const { runId, plan } = await makeDoneRun(jobId, [block], { ...SETTINGS, layout: "free" });
-    // Four oblongs turning around a lower middle piece: no through cut frees any of them, and
-    // they are not one layer (a pinwheel; common knowledge, no source).
-    const key = plan.placements[0]!.part;
-    const at = (origin: [number, number, number], size: [number, number, number]) => ({ part: key, block: block.code, origin, size });
-    const pinwheel = { ...plan, offcuts: [], placements: [at([10, 10, 10], [200, 100, 100]), at([210, 10, 10], [100, 200, 100]), at([110, 210, 10], [200, 100, 100]), at([10, 110, 10], [100, 200, 100]), at([110, 110, 10], [100, 100, 50])] };
-    await testDb()("nesting_runs").where({ id: runId }).update({ plan: JSON.stringify(pinwheel) });
+    const { runId, block } = await makePinwheelRun();
     const before = await tableCounts();
     const res = await planner.post(`/api/runs/${runId}/approve`);
     expect(res.status).toBe(409);

@@ -4,7 +4,7 @@ import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
 import { signedInPage } from "./pages/sign-in";
 import { JobsPage } from "./pages/jobs";
 import { closeTestDb, makeBlock, testDb } from "../support/db";
-import { makeJobWithParts } from "../support/planning-fixtures";
+import { makeJobWithParts, makePinwheelRun } from "../support/planning-fixtures";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -104,6 +104,26 @@ describe("the planner's and the cutter's loop", () => {
       const lead = await planner.getByText(/^Nest the parts still owed on/).textContent();
       for (const name of names) expect(lead).toContain(name);
       await planner.close();
+    }
+  });
+});
+
+describe("a plan no cutter can follow", () => {
+  it("is flagged on the plan page without an approve button, and on the cut sheet per block", async () => {
+    // A free-layout plan whose pieces no cutter can free (see makePinwheelRun).
+    const { runId, block } = await makePinwheelRun();
+
+    for (const [size, viewport] of Object.entries(VIEWPORTS)) {
+      const page = await signedIn("planner", viewport);
+      await page.goto(`${BASE_URL}/plans/${runId}`);
+      await page.getByText("This plan cannot be cut").waitFor();
+      expect(await page.getByText(`Block ${block.code} holds pieces that no through cut frees`).count()).toBe(1);
+      expect(await page.getByRole("button", { name: "Approve and earmark the stock" }).count()).toBe(0);
+      await screenshot(page, `plan-uncuttable-${size}`);
+      await page.goto(`${BASE_URL}/plans/${runId}/sheet`);
+      await page.getByText("Do not cut this block from this plan").waitFor();
+      expect(await page.getByText("5 pieces of this block cannot be freed by through cuts").count()).toBe(1);
+      await page.close();
     }
   });
 });

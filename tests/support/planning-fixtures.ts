@@ -58,3 +58,19 @@ export async function makeApprovedRun() {
   await k("nesting_runs").where({ id: made.runId }).update({ status: "approved", approved_at: k.fn.now() });
   return made;
 }
+
+/**
+ * A finished free-layout plan whose one block holds a pinwheel — four oblong pieces turning around
+ * a lower middle one (the textbook non-guillotine pattern; common knowledge, no source) — so no
+ * through cut frees any piece and they are not one layer.
+ */
+export async function makePinwheelRun() {
+  const block = await makeBlock({ size: [2000, 1000, 600] });
+  const { jobId } = await makeJobWithParts([{ name: "Pinwheel piece", quantity: 5, size: [100, 100, 100], gradeCode: "EPS-II" }]);
+  const { runId, plan } = await makeDoneRun(jobId, [block], { ...SETTINGS, layout: "free" });
+  const key = plan.placements[0]!.part;
+  const at = (origin: [number, number, number], size: [number, number, number]) => ({ part: key, block: block.code, origin, size });
+  const placements = [at([10, 10, 10], [200, 100, 100]), at([210, 10, 10], [100, 200, 100]), at([110, 210, 10], [200, 100, 100]), at([10, 110, 10], [100, 200, 100]), at([110, 110, 10], [100, 100, 50])];
+  await testDb()("nesting_runs").where({ id: runId }).update({ plan: JSON.stringify({ ...plan, offcuts: [], cuts: { [block.code]: [] }, placements }) });
+  return { runId, block };
+}

@@ -107,6 +107,24 @@ export function moves(f: Box, types: readonly ItemType[], order: readonly number
   return out;
 }
 
+/**
+ * The move whose greedy completion packs most (a pilot method): each move is judged by the volume
+ * `complete` reaches from it; when `stop` says the time is up, the best judged so far is taken.
+ */
+export function bestByCompletion<M extends object>(ms: readonly M[], complete: (m: M) => number, stop?: () => boolean): M {
+  let chosen = ms[0]!;
+  let bestVol = -1;
+  for (const m of ms) {
+    if (bestVol >= 0 && stop?.()) break;
+    const v = complete(m);
+    if (v > bestVol + 1e-9) {
+      bestVol = v;
+      chosen = m;
+    }
+  }
+  return chosen;
+}
+
 function apply(s: State, fi: number, m: Move, types: readonly ItemType[], p: BoxFirstParams): void {
   const f = s.free[fi]!;
   const { d, n } = m;
@@ -141,21 +159,17 @@ function run(s: State, types: readonly ItemType[], order: readonly number[], p: 
     }
     let chosen = ms[0]!;
     if (ms.length > 1 && p.stop?.()) lookahead = 0;
-    else if (ms.length > 1) {
-      // Judge the first few moves by where a plain greedy fill would end from each.
-      let bestVol = -1;
-      for (const m of ms) {
-        // Out of time mid-step: take the best judged so far.
-        if (bestVol >= 0 && p.stop?.()) break;
-        const sim: State = { free: [...s.free], remaining: [...s.remaining], packedVolume: s.packedVolume, leftovers: [], items: undefined };
-        apply(sim, fi, m, types, p);
-        run(sim, types, order, p, 0);
-        if (sim.packedVolume > bestVol + 1e-9) {
-          bestVol = sim.packedVolume;
-          chosen = m;
-        }
-      }
-    }
+    else if (ms.length > 1)
+      chosen = bestByCompletion(
+        ms,
+        (m) => {
+          const sim: State = { free: [...s.free], remaining: [...s.remaining], packedVolume: s.packedVolume, leftovers: [], items: undefined };
+          apply(sim, fi, m, types, p);
+          run(sim, types, order, p, 0);
+          return sim.packedVolume;
+        },
+        p.stop,
+      );
     apply(s, fi, chosen, types, p);
     if (s.remaining[chosen.t] === 0) mMin = Math.max(mMin, minSide(types, order, s.remaining));
     prune(s, mMin);

@@ -1,7 +1,7 @@
 import { volume as vol, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
-import { lookaheadCap, minSide, moves, type Move } from "./boxfirst";
+import { bestByCompletion, lookaheadCap, minSide, moves, type Move } from "./boxfirst";
 import type { BlockFill, BlockInfo, ItemType, PackedItem } from "./model";
 
 /**
@@ -215,20 +215,17 @@ function run(s: State, u: Box, types: readonly ItemType[], order: readonly numbe
     }
     let chosen = ms[0]!;
     if (ms.length > 1 && p.stop?.()) lookahead = 0;
-    else if (ms.length > 1) {
-      let bestVol = -1;
-      for (const m of ms) {
-        // Out of time mid-step: take the best judged so far.
-        if (bestVol >= 0 && p.stop?.()) break;
-        const sim: State = { spaces: s.spaces, remaining: [...s.remaining], packedVolume: s.packedVolume, items: undefined, mMin: s.mMin };
-        apply(sim, at, m, types, order);
-        run(sim, u, types, order, p, 0);
-        if (sim.packedVolume > bestVol + 1e-9) {
-          bestVol = sim.packedVolume;
-          chosen = m;
-        }
-      }
-    }
+    else if (ms.length > 1)
+      chosen = bestByCompletion(
+        ms,
+        (m) => {
+          const sim: State = { spaces: s.spaces, remaining: [...s.remaining], packedVolume: s.packedVolume, items: undefined, mMin: s.mMin };
+          apply(sim, at, m, types, order);
+          run(sim, u, types, order, p, 0);
+          return sim.packedVolume;
+        },
+        p.stop,
+      );
     apply(s, at, chosen, types, order);
   }
 }
