@@ -117,6 +117,7 @@ describe("a plan no cutter can follow", () => {
       const page = await signedIn("planner", viewport);
       await page.goto(`${BASE_URL}/plans/${runId}`);
       await page.getByText("This plan cannot be cut").waitFor();
+      expect(await page.getByText("Not cuttable", { exact: true }).count()).toBe(1);
       expect(await page.getByText(`Block ${block.code} holds pieces that no through cut frees`).count()).toBe(1);
       expect(await page.getByRole("button", { name: "Approve and earmark the stock" }).count()).toBe(0);
       await screenshot(page, `plan-uncuttable-${size}`);

@@ -46,7 +46,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
         title={`Plan #${run.id}`}
         lead={
           <span className="flex flex-wrap items-center gap-2">
-            <RunStatusBadge status={run.status} />
+            {run.status === "done" && uncuttable.length > 0 ? <Badge tone="ember">Not cuttable</Badge> : <RunStatusBadge status={run.status} />}
             <span>for {run.jobNames.join(", ")}</span>
             {run.settings.layout ? (
               <span className="text-ink-faint">{run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin {run.settings.defectMargin} mm</span>
