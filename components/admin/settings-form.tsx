@@ -57,11 +57,11 @@ export function SettingsForm({ initial }: { initial: ShopSettings }) {
           <Field label="Smallest offcut kept: length" name="minOffcut.0" error={fields["minOffcut.0"]}><Input name="minOffcut.0" inputMode="decimal" defaultValue={s.minOffcut[0]} error={fields["minOffcut.0"]} /></Field>
           <Field label="… width" name="minOffcut.1" error={fields["minOffcut.1"]}><Input name="minOffcut.1" inputMode="decimal" defaultValue={s.minOffcut[1]} error={fields["minOffcut.1"]} /></Field>
           <Field label="… height" name="minOffcut.2" error={fields["minOffcut.2"]}><Input name="minOffcut.2" inputMode="decimal" defaultValue={s.minOffcut[2]} error={fields["minOffcut.2"]} /></Field>
-          <Field label="Layout rule" name="layout" error={fields.layout} hint="Guillotine: every piece comes free by through cuts.">
+          <Field label="Layout rule" name="layout" error={fields.layout} hint="Guillotine: every piece comes free by through cuts. Free: for comparing with box-packing figures; a plan no cutter can follow cannot be approved.">
             <Select name="layout" defaultValue={s.layout}>
               <option value="guillotine">guillotine (through cuts only)</option>
               <option value="layers">layers (slabs, then profiles)</option>
-              <option value="free">free (comparison only)</option>
+              <option value="free">free (comparison only: may not be cuttable, cannot be approved then)</option>
             </Select>
           </Field>
           <Field label="Feed rate (mm/min)" name="feedMmPerMin" error={fields.feedMmPerMin}><Input name="feedMmPerMin" inputMode="decimal" defaultValue={s.feedMmPerMin} error={fields.feedMmPerMin} /></Field>

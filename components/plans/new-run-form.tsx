@@ -81,7 +81,7 @@ export function NewRunForm({ jobIds, candidates, defaults }: { jobIds: number[];
             <Select name="layout" defaultValue={defaults.layout}>
               <option value="guillotine">guillotine (through cuts only)</option>
               <option value="layers">layers (slabs, then profiles)</option>
-              <option value="free">free (comparison only)</option>
+              <option value="free">free (comparison only: may not be cuttable, cannot be approved then)</option>
             </Select>
           </Field>
           <Field label="Smallest offcut kept: length" name="mo0" error={fields["settings.minOffcut.0"]}><Input name="mo0" inputMode="decimal" defaultValue={defaults.minOffcut[0]} /></Field>
