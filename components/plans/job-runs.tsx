@@ -17,7 +17,7 @@ export async function JobRuns({ jobId }: { jobId: number }) {
           {runs.map((r) => (
             <tr key={r.id} className="border-t border-bead/60">
               <td className="py-1"><Link href={`/plans/${r.id}`}>#{r.id}</Link></td>
-              <td><RunStatusBadge status={r.status} /></td>
+              <td><RunStatusBadge status={r.status} stuck={r.stuckBlocks.length > 0} /></td>
               <td className="text-right tabular-nums">{r.stats ? `${(r.stats.yield * 100).toFixed(1)} %` : "–"}</td>
               <td className="text-right tabular-nums">{r.stats?.blocksUsed ?? "–"}</td>
               <td className="text-right tabular-nums">{r.cost === null ? "–" : r.cost.toLocaleString("en", { style: "currency", currency: "USD" })}</td>

@@ -10,7 +10,9 @@ const LABELS = {
   closed: ["Cut and closed", "plain"],
 } as const;
 
-export function RunStatusBadge({ status }: { status: keyof typeof LABELS }) {
+/** A run's state; a finished plan with blocks no cutter can follow (`stuck`) is "Not cuttable", never "Ready to approve". */
+export function RunStatusBadge({ status, stuck = false }: { status: keyof typeof LABELS; stuck?: boolean }) {
+  if (status === "done" && stuck) return <Badge tone="ember">Not cuttable</Badge>;
   const [label, tone] = LABELS[status];
   return <Badge tone={tone}>{label}</Badge>;
 }

@@ -41,6 +41,8 @@ export interface RunSummary {
   cost: number | null;
   /** Wire travel of all the plan's through cuts (mm); divide by the feed for the cut time. */
   cutLengthMm: number | null;
+  /** Blocks holding pieces no cut can free (free layout only); such a plan cannot be approved. */
+  stuckBlocks: string[];
 }
 
 export interface RunDetail extends RunSummary {
@@ -55,6 +57,8 @@ interface PlanFigures {
   stats: Plan["stats"];
   cost: number | null;
   cutLengthMm: number | null;
+  /** Absent in summaries stored before plans could be uncuttable (all of them were cut trees). */
+  stuckBlocks?: string[];
 }
 
 interface RunRow {
@@ -99,8 +103,14 @@ export async function jobNames(ids: number[]): Promise<Map<number, string>> {
   return new Map(rows.map((r: { id: number; name: string }) => [r.id, r.name]));
 }
 
+/** Blocks of a plan holding pieces that no through cut frees nor a profile cutter in one layer. */
+export function stuckBlocks(problem: Problem, plan: Plan): string[] {
+  const used = [...new Set(plan.placements.map((p) => p.block))];
+  return used.filter((b) => stuckPieces(plan, b, problem.settings.kerf) > 0);
+}
+
 function planFigures(problem: Problem, plan: Plan): PlanFigures {
-  return { stats: plan.stats, cost: planCost(problem, plan), cutLengthMm: planCutLength(problem, plan) };
+  return { stats: plan.stats, cost: planCost(problem, plan), cutLengthMm: planCutLength(problem, plan), stuckBlocks: stuckBlocks(problem, plan) };
 }
 
 function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
@@ -123,6 +133,8 @@ function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
     stats: figures?.stats ?? null,
     cost: figures?.cost ?? null,
     cutLengthMm: figures?.cutLengthMm ?? null,
+    // With the whole plan at hand (the run page), ask it; lists read the stored figures.
+    stuckBlocks: r.plan && r.problem ? stuckBlocks(r.problem, r.plan) : (figures?.stuckBlocks ?? []),
   };
 }
 
@@ -442,7 +454,7 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
       const codes = blocksInPlan(plan);
       if (!codes.length) throw new HttpError(409, "This plan places nothing: there is nothing to reserve.");
       // A free-layout plan may hold pieces no cutter can free: never reserve stock for it.
-      const stuck = codes.filter((c) => stuckPieces(plan, c, (run.settings as RunSettings).kerf) > 0);
+      const stuck = stuckBlocks(run.problem as Problem, plan);
       if (stuck.length)
         throw new HttpError(409, `${stuck.length === 1 ? "Block" : "Blocks"} ${stuck.join(", ")}: some pieces cannot be freed by through cuts nor cut out of one layer (free layout, for comparison only). Plan again with the guillotine or layers rule.`);
       const blocks = await trx("blocks").whereIn("code", codes).forUpdate().select("id", "code", "status", "volume_m3", "cost");

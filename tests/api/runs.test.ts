@@ -55,6 +55,7 @@ describe("nesting runs in the background worker", () => {
     expect(item).toMatchObject({ stats: plan.stats, cost: run.cost, cutLengthMm: run.cutLengthMm });
     expect(item.cost).toBeGreaterThan(0);
     expect(item.cutLengthMm).toBeGreaterThan(0);
+    expect(item.stuckBlocks).toEqual([]);
     expect(item.plan).toBeUndefined();
     expect(item.problem).toBeUndefined();
   });
@@ -197,7 +198,11 @@ describe("approval", () => {
   });
 
   it("refuses a plan whose pieces no cut can free (free layout), naming the block and changing nothing", async () => {
-    const { runId, block } = await makePinwheelRun();
+    const { runId, block, jobId } = await makePinwheelRun();
+    // Lists say so too (from the figures stored with the plan), and the run itself.
+    const list = await planner.get(`/api/runs?job=${jobId}`);
+    expect(list.body.items.find((r: { id: number }) => r.id === runId).stuckBlocks).toEqual([block.code]);
+    expect((await planner.get(`/api/runs/${runId}`)).body.run.stuckBlocks).toEqual([block.code]);
     const before = await tableCounts();
     const res = await planner.post(`/api/runs/${runId}/approve`);
     expect(res.status).toBe(409);

@@ -72,5 +72,5 @@ export async function makePinwheelRun() {
   const at = (origin: [number, number, number], size: [number, number, number]) => ({ part: key, block: block.code, origin, size });
   const placements = [at([10, 10, 10], [200, 100, 100]), at([210, 10, 10], [100, 200, 100]), at([110, 210, 10], [200, 100, 100]), at([10, 110, 10], [100, 200, 100]), at([110, 110, 10], [100, 100, 50])];
   await testDb()("nesting_runs").where({ id: runId }).update({ plan: JSON.stringify({ ...plan, offcuts: [], cuts: { [block.code]: [] }, placements }) });
-  return { runId, block };
+  return { runId, block, jobId };
 }

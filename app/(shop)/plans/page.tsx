@@ -25,7 +25,7 @@ export default async function PlansPage({ searchParams }: { searchParams: Promis
     <tr className="border-t border-bead/60">
       <td className="py-2"><Link href={`/plans/${r.id}`}>Plan #{r.id}</Link></td>
       <td>{r.jobNames.join(", ")}</td>
-      <td><RunStatusBadge status={r.status} /></td>
+      <td><RunStatusBadge status={r.status} stuck={r.stuckBlocks.length > 0} /></td>
       <td className="text-right tabular-nums">{r.stats ? `${(r.stats.yield * 100).toFixed(1)} %` : "–"}</td>
       <td className="text-right tabular-nums">{r.stats?.blocksUsed ?? "–"}</td>
       <td className="text-right text-ink-faint">{r.createdAt.slice(0, 10)}</td>

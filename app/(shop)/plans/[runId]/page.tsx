@@ -34,7 +34,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   const partName = (key: string) => names.get(partIdFromKey(key)) ?? key;
   const plan = run.plan;
   const used = plan ? run.problem.blocks.filter((b) => plan.placements.some((p) => p.block === b.id)) : [];
-  const uncuttable = plan ? used.filter((b) => stuckPieces(plan, b.id, run.settings.kerf) > 0).map((b) => b.id) : [];
+  const uncuttable = run.stuckBlocks;
   const estimates = used.map((b) => cutEstimate(b.size, plan!.cuts[b.id] ?? [], settings.feedMmPerMin, 10, { trim: b.trim, kerf: run.settings.kerf, pieces: piecesOf(plan!, b.id) }));
   const totalMinutes = estimates.reduce((s, e) => s + e.minutes, 0);
   const totalLength = estimates.reduce((s, e) => s + e.lengthMm, 0);
@@ -46,7 +46,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
         title={`Plan #${run.id}`}
         lead={
           <span className="flex flex-wrap items-center gap-2">
-            {run.status === "done" && uncuttable.length > 0 ? <Badge tone="ember">Not cuttable</Badge> : <RunStatusBadge status={run.status} />}
+            <RunStatusBadge status={run.status} stuck={uncuttable.length > 0} />
             <span>for {run.jobNames.join(", ")}</span>
             {run.settings.layout ? (
               <span className="text-ink-faint">{run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin {run.settings.defectMargin} mm</span>
@@ -139,7 +139,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                   {siblings.map((s) => (
                     <tr key={s.id} className={`border-t border-bead/60 ${s.id === run.id ? "bg-kerf-light/40" : ""}`}>
                       <td className="py-1"><Link href={`/plans/${s.id}`}>#{s.id}</Link></td>
-                      <td><RunStatusBadge status={s.status} /></td>
+                      <td><RunStatusBadge status={s.status} stuck={s.stuckBlocks.length > 0} /></td>
                       <td className="text-right tabular-nums">{s.stats ? `${(s.stats.yield * 100).toFixed(1)} %` : "–"}</td>
                       <td className="text-right tabular-nums">{s.stats?.blocksUsed ?? "–"}</td>
                       <td className="text-right tabular-nums">{s.cost === null ? "–" : s.cost.toFixed(2)}</td>
