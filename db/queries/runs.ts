@@ -104,9 +104,8 @@ export async function jobNames(ids: number[]): Promise<Map<number, string>> {
 }
 
 /** Blocks of a plan holding pieces that no through cut frees nor a profile cutter in one layer. */
-export function stuckBlocks(problem: Problem, plan: Plan): string[] {
-  const used = [...new Set(plan.placements.map((p) => p.block))];
-  return used.filter((b) => stuckPieces(plan, b, problem.settings.kerf) > 0);
+function stuckBlocks(problem: Problem, plan: Plan): string[] {
+  return blocksInPlan(plan).filter((b) => stuckPieces(plan, b, problem.settings.kerf) > 0);
 }
 
 function planFigures(problem: Problem, plan: Plan): PlanFigures {
@@ -133,8 +132,8 @@ function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
     stats: figures?.stats ?? null,
     cost: figures?.cost ?? null,
     cutLengthMm: figures?.cutLengthMm ?? null,
-    // With the whole plan at hand (the run page), ask it; lists read the stored figures.
-    stuckBlocks: r.plan && r.problem ? stuckBlocks(r.problem, r.plan) : (figures?.stuckBlocks ?? []),
+    // Figures stored before plans could be uncuttable lack it: ask the plan when it is at hand.
+    stuckBlocks: figures?.stuckBlocks ?? (r.plan && r.problem ? stuckBlocks(r.problem, r.plan) : []),
   };
 }
 

@@ -42,8 +42,13 @@ export function travelAcross(cut: RegionCut): number {
 }
 
 /** The pieces (placements and offcuts) a plan puts in one block, as boxes. */
-export function piecesOf(plan: { placements: { block: string; origin: V3; size: V3 }[]; offcuts: { block: string; origin: V3; size: V3 }[] }, blockId: string): Box[] {
-  return [...plan.placements, ...plan.offcuts].filter((p) => p.block === blockId).map((p) => ({ min: p.origin, max: p.origin.map((v, i) => v + p.size[i]!) as V3 }));
+/** The pieces of a plan: placed parts and kept offcuts, each in a block. */
+type PlanPieces = { placements: { block: string; origin: V3; size: V3 }[]; offcuts: { block: string; origin: V3; size: V3 }[] };
+
+const inBlock = (plan: PlanPieces, blockId: string) => [...plan.placements, ...plan.offcuts].filter((p) => p.block === blockId);
+
+export function piecesOf(plan: PlanPieces, blockId: string): Box[] {
+  return inBlock(plan, blockId).map((p) => ({ min: p.origin, max: p.origin.map((v, i) => v + p.size[i]!) as V3 }));
 }
 
 /**
@@ -54,7 +59,6 @@ export function piecesOf(plan: { placements: { block: string; origin: V3; size: 
  *   // a pinwheel: four oblong pieces around a lower square one
  *   stuckPieces(pinwheelPlan, "B", 0)  // → 5
  */
-export function stuckPieces(plan: { placements: { block: string; origin: V3; size: V3 }[]; offcuts: { block: string; origin: V3; size: V3 }[] }, blockId: string, kerf: number): number {
-  const boxes = [...plan.placements, ...plan.offcuts].filter((p) => p.block === blockId).map((p) => ({ origin: p.origin, size: p.size }));
-  return separate(boxes, kerf, "layers").stuck.reduce((n, group) => n + group.length, 0);
+export function stuckPieces(plan: PlanPieces, blockId: string, kerf: number): number {
+  return separate(inBlock(plan, blockId), kerf, "layers").stuck.reduce((n, group) => n + group.length, 0);
 }

@@ -21,7 +21,7 @@ export default async function StockPage({ searchParams }: { searchParams: Promis
   const query = parsed.success ? parsed.data : blockQuerySchema.parse({});
   const [list, grades, locations, unit] = await Promise.all([listBlocks(query), listGrades(), listLocations(), displayUnit(user)]);
   const qs = new URLSearchParams(raw).toString();
-  const canExport = user.roles.some((r) => ["admin", "buyer", "planner", "manager"].includes(r));
+  const canExport = allows(["buyer", "planner", "manager"], user.roles);
   const canReceive = allows(["buyer"], user.roles);
   return (
     <>

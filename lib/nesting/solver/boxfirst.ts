@@ -2,7 +2,7 @@ import { volume as vol, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
 import { GRID_ORDERS, split, type SplitRule } from "./guillotine3d";
-import type { ItemType, PackedItem } from "./model";
+import { gridItems, type ItemType, type PackedItem } from "./model";
 
 /** Budget for lookahead: moves judged x part lines x pieces (about 150 moves for 10 lines of 130 pieces). */
 const LOOKAHEAD_WORK = 200_000;
@@ -128,10 +128,7 @@ export function bestByCompletion<M extends object>(ms: readonly M[], complete: (
 function apply(s: State, fi: number, m: Move, types: readonly ItemType[], p: BoxFirstParams): void {
   const f = s.free[fi]!;
   const { d, n } = m;
-  if (s.items)
-    for (let i = 0; i < n[0]; i++)
-      for (let j = 0; j < n[1]; j++)
-        for (let l = 0; l < n[2]; l++) s.items.push({ type: m.t, origin: [f.origin[0] + i * d[0], f.origin[1] + j * d[1], f.origin[2] + l * d[2]], dims: d });
+  if (s.items) s.items.push(...gridItems(m.t, f.origin, d, n));
   const count = n[0] * n[1] * n[2];
   s.remaining[m.t] = s.remaining[m.t]! - count;
   s.packedVolume += count * types[m.t]!.volume;

@@ -1,8 +1,7 @@
 import { volume as vol, type Box } from "../geometry";
-import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
 import { bestByCompletion, lookaheadCap, minSide, moves, type Move } from "./boxfirst";
-import type { BlockFill, BlockInfo, ItemType, PackedItem } from "./model";
+import { gridItems, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
 /**
  * Free layout (rule 2 of the format only, for comparison with classic box-packing results): the
@@ -18,7 +17,6 @@ export interface FreeFillParams {
   lookahead: number;
   /** Fill from the corner of the block nearest each empty box (true) or always from the origin corner. */
   corners: boolean;
-  rng: Rng;
   /** Out of time: the rest of the fill is plain greedy. */
   stop?: () => boolean;
 }
@@ -192,10 +190,7 @@ function apply(s: State, at: Anchor, m: Move, types: readonly ItemType[], order:
   const { d, n } = m;
   const g: Vec3 = [d[0] * n[0], d[1] * n[1], d[2] * n[2]];
   const origin = [0, 1, 2].map((a) => (at.far[a] ? f.origin[a]! + f.size[a]! - g[a]! : f.origin[a]!)) as Vec3;
-  if (s.items)
-    for (let i = 0; i < n[0]; i++)
-      for (let j = 0; j < n[1]; j++)
-        for (let l = 0; l < n[2]; l++) s.items.push({ type: m.t, origin: [origin[0] + i * d[0], origin[1] + j * d[1], origin[2] + l * d[2]], dims: d });
+  if (s.items) s.items.push(...gridItems(m.t, origin, d, n));
   const count = n[0] * n[1] * n[2];
   s.remaining[m.t] = s.remaining[m.t]! - count;
   s.packedVolume += count * types[m.t]!.volume;
@@ -245,6 +240,8 @@ export function fillBlockFree(block: BlockInfo, types: readonly ItemType[], rema
   run(s, block.usable, types, live, p, Math.min(p.lookahead, Math.floor(lookaheadCap(live.length, pieces) / 2)));
   const items = s.items!;
   const taken: Box[] = [...block.obstacles, ...items.map((it) => ({ origin: it.origin, size: it.dims }))];
-  const leftovers = disjointLeftovers(emptySpaces(block.usable, taken, Number.isFinite(smallest) ? smallest : 0), Number.isFinite(smallest) ? smallest : 0);
+  // Leftovers as small as the smallest part of the order (any size when nothing was left to place).
+  const keep = Number.isFinite(smallest) ? smallest : 0;
+  const leftovers = disjointLeftovers(emptySpaces(block.usable, taken, keep), keep);
   return { block: block.index, items, leftovers, packedVolume: s.packedVolume };
 }

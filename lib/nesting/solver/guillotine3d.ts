@@ -2,7 +2,7 @@ import { CUT_ORDERS, splitInOrder, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
 import { fillBoxFirst } from "./boxfirst";
-import { fitsIn, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
+import { fitsIn, gridItems, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
 export type SplitRule = "biggest" | "squares" | "random" | "column";
 
@@ -183,10 +183,7 @@ export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[]
       if (!best) break;
       const f = free[best.free]!;
       const { dims: d, n } = best;
-      for (let i = 0; i < n[0]; i++)
-        for (let j = 0; j < n[1]; j++)
-          for (let l = 0; l < n[2]; l++)
-            items.push({ type: t, origin: [f.origin[0] + i * d[0], f.origin[1] + j * d[1], f.origin[2] + l * d[2]], dims: d });
+      items.push(...gridItems(t, f.origin, d, n));
       const count = n[0] * n[1] * n[2];
       remaining[t] = remaining[t]! - count;
       packedVolume += count * type.volume;

@@ -95,6 +95,15 @@ export interface PackedItem {
   dims: Vec3;
 }
 
+/** An n0 × n1 × n2 grid of identical pieces of type `type`, size `d`, from `origin`. */
+export function gridItems(type: number, origin: Vec3, d: Vec3, n: Vec3): PackedItem[] {
+  const out: PackedItem[] = [];
+  for (let i = 0; i < n[0]; i++)
+    for (let j = 0; j < n[1]; j++)
+      for (let l = 0; l < n[2]; l++) out.push({ type, origin: [origin[0] + i * d[0], origin[1] + j * d[1], origin[2] + l * d[2]], dims: d });
+  return out;
+}
+
 /** What one block holds after filling: pieces, and leftover boxes (disjoint, cut-separable). */
 export interface BlockFill {
   block: number;

@@ -286,7 +286,7 @@ export class Search {
     if (planar && p.rectRule === "package" && info.obstacles.length === 0) return fillBlockMaxRectsPackage(info, m.types, remaining, order);
     if (planar) return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule === "package" ? "bssf" : p.rectRule);
     // Piece by piece, free fills leave many small empty boxes: no moves judged then (too slow).
-    if (p.free) return fillBlockFree(info, m.types, remaining, { order, grid: p.grid, lookahead: p.boxFirst && p.grid ? p.lookahead : 0, corners: p.corners, rng: this.r, stop: () => this.outOfTime() });
+    if (p.free) return fillBlockFree(info, m.types, remaining, { order, grid: p.grid, lookahead: p.boxFirst && p.grid ? p.lookahead : 0, corners: p.corners, stop: () => this.outOfTime() });
     return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, lookahead: p.lookahead, rng: this.r, stop: () => this.outOfTime() });
   }
 

@@ -113,7 +113,7 @@ describe("free fill", () => {
     const order = [0, 1, 2];
     // One piece at a time from the block's corners packs it, whatever the part order.
     for (const order of [[0, 1, 2], [1, 0, 2], [2, 0, 1]]) {
-      const free = fillBlockFree(m.blocks[0]!, m.types, m.types.map((t) => t.count), { order, grid: false, lookahead: 0, corners: true, rng: rng(1) });
+      const free = fillBlockFree(m.blocks[0]!, m.types, m.types.map((t) => t.count), { order, grid: false, lookahead: 0, corners: true });
       expect(free.items).toHaveLength(5);
     }
     // No through-cut fill manages, with or without judging moves.
@@ -136,7 +136,7 @@ describe("free fill", () => {
         parts: Array.from({ length: 6 }, (_, i) => ({ id: `P${i}`, size: [20 + Math.floor(r() * 120), 20 + Math.floor(r() * 100), 10 + Math.floor(r() * 80)], quantity: 3 + Math.floor(r() * 8) })),
       });
       const m = buildModel(p);
-      const fill = fillBlockFree(m.blocks[0]!, m.types, m.types.map((t) => t.count), { order: m.types.map((t) => t.index), grid: true, lookahead: 6, corners: seed % 2 === 0, rng: rng(seed) });
+      const fill = fillBlockFree(m.blocks[0]!, m.types, m.types.map((t) => t.count), { order: m.types.map((t) => t.index), grid: true, lookahead: 6, corners: seed % 2 === 0 });
       const boxes = fill.items.map((it) => box(it.origin, it.dims));
       expect(boxes.length).toBeGreaterThan(0);
       for (let i = 0; i < boxes.length; i++) {
