@@ -105,6 +105,8 @@ async function main() {
       // The background worker, as `npm start` runs it (tests of nesting runs and alerts need it).
       const workerLog = fs.openSync(`.data/test-worker${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "w");
       worker = spawn("npm", ["run", "--silent", "worker"], { env, detached: true, stdio: ["ignore", workerLog, workerLog] });
+      // The faults test pauses this worker while its own takes a run, so the run cannot go elsewhere.
+      if (worker.pid) env.TEST_WORKER_PGID = String(worker.pid);
     }
     const r = spawnSync("npx", ["vitest", "run", ...vitestArgs], { stdio: "inherit", env });
     code = r.status ?? 1;

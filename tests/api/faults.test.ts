@@ -194,16 +194,41 @@ describe("the app is killed in the middle of an import", () => {
 
 // ---- a worker of our own ----
 
-function startOwnWorker(): ChildProcess {
-  const log = fs.openSync(`.data/faults-worker${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "a");
+const workerLog = `.data/faults-worker${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`;
+
+/** Starts a worker of this file's own and waits until it polls for jobs (its "ready" line). */
+async function startOwnWorker(): Promise<ChildProcess> {
+  const from = fs.existsSync(workerLog) ? fs.statSync(workerLog).size : 0;
+  const log = fs.openSync(workerLog, "a");
   const child = spawn("npm", ["run", "--silent", "worker"], {
     env: { ...process.env, RUN_STALE_SECONDS: "5", RUN_SWEEP_SECONDS: "1" },
     detached: true,
     stdio: ["ignore", log, log],
   });
   children.add(child);
+  const state = await until("the worker to be ready", async () => {
+    if (child.exitCode !== null) return "exited";
+    return fs.readFileSync(workerLog, "utf8").slice(from).includes("[worker] ready") && "ready";
+  }, 120_000, 100);
+  if (state === "exited") throw new Error(`the worker exited (${child.exitCode}); see ${workerLog}`);
   return child;
 }
+
+/**
+ * The shared test worker (started by `npm test`, its process group in TEST_WORKER_PGID) would
+ * compete for the run: it is paused while this file's worker takes one, and resumed after.
+ */
+const sharedWorker = Number(process.env.TEST_WORKER_PGID) || undefined;
+function pauseSharedWorker(paused: boolean) {
+  if (!sharedWorker) return false;
+  try {
+    process.kill(-sharedWorker, paused ? "SIGSTOP" : "SIGCONT");
+    return true;
+  } catch {
+    return false;
+  }
+}
+afterAll(() => void pauseSharedWorker(false));
 
 describe("a worker is killed in the middle of a nesting run", () => {
   it("after a restart the run is marked failed with a reason, never left running", async () => {
@@ -213,11 +238,12 @@ describe("a worker is killed in the middle of a nesting run", () => {
     const blocks = [await makeBlock({ size: [2440, 1220, 610] }), await makeBlock({ size: [2440, 1220, 610] })];
     const sizes: [number, number, number][] = [[730, 410, 95], [515, 333, 121], [1210, 287, 64], [377, 377, 377], [905, 150, 45], [640, 480, 210]];
 
-    // The shared test worker competes for the job: repeat until the one we kill had it.
+    // The shared test worker competes for the job: it is paused (under `npm test`); otherwise
+    // repeat until the one we kill had it.
     let orphan: number | undefined;
-    for (let attempt = 0; attempt < 6 && !orphan; attempt++) {
-      const worker = startOwnWorker();
-      await sleep(4000); // ready to poll
+    const paused = pauseSharedWorker(true);
+    for (let attempt = 0; attempt < (paused ? 1 : 6) && !orphan; attempt++) {
+      const worker = await startOwnWorker();
       const { jobId } = await makeJobWithParts(sizes.map((s, i) => ({ name: `Fault part ${i}`, quantity: 30, size: s, gradeCode: "EPS-II" })));
       const created = await planner.post("/api/runs", { jobIds: [jobId], blockIds: blocks.map((b) => b.id), settings: { kerf: 1.5, trim: 6, defectMargin: 10, minOffcut: [150, 150, 25], layout: "guillotine", timeLimitMs: 120_000 } });
       expect(created.status, JSON.stringify(created.body)).toBe(201);
@@ -230,10 +256,11 @@ describe("a worker is killed in the middle of a nesting run", () => {
       if (row.status === "running" && (row.heartbeat_at as Date).getTime() === h1.getTime()) orphan = runId;
       else await planner.post(`/api/runs/${runId}/cancel`); // the shared worker had it: stop it, try again
     }
+    pauseSharedWorker(false);
     expect(orphan, "a run held by the killed worker").toBeTruthy();
 
     // The "restart": a fresh worker sweeps the stalled run.
-    const restarted = startOwnWorker();
+    const restarted = await startOwnWorker();
     const failed = await until("the stalled run to be swept", async () => {
       const r = await testDb()("nesting_runs").where({ id: orphan }).first("status", "error", "finished_at");
       return r.status !== "running" ? r : undefined;
