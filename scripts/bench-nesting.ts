@@ -20,6 +20,8 @@ const opt = (name: string): string | undefined => {
   return i >= 0 ? args[i + 1] : undefined;
 };
 const quick = flag("--quick");
+/** `--seed N` (default 1): the search's seed, to tell a change from run-to-run noise. */
+const SEED = Number(opt("--seed") ?? 1);
 const only = opt("--only")?.split(",");
 const want = (set: string): boolean => !only || only.includes(set);
 
@@ -34,7 +36,7 @@ function log(line: string): void {
 }
 function solve(problem: Problem, label: string): { plan: Plan; ms: number } {
   const t0 = performance.now();
-  const plan = nestSync(problem, { seed: 1, now: () => performance.now() });
+  const plan = nestSync(problem, { seed: SEED, now: () => performance.now() });
   const ms = performance.now() - t0;
   log(`${label}: ${plan.stats.blocksUsed} blocks, ${plan.unplaced.length} unplaced lines, ${ms.toFixed(0)} ms`);
   const errs = validatePlan(problem, plan);
@@ -274,12 +276,12 @@ function benchPerfect(): void {
 async function benchShop(): Promise<void> {
   const problem = shopCase(42, 3000);
   const t0 = performance.now();
-  const first = nestSync(problem, { seed: 1, iterations: 1, now: () => performance.now() });
+  const first = nestSync(problem, { seed: SEED, iterations: 1, now: () => performance.now() });
   const firstMs = performance.now() - t0;
   const firstErrs = validatePlan(problem, first);
   let firstReport: number | undefined;
   const t1 = performance.now();
-  const plan = await nest(problem, { seed: 1, now: () => performance.now(), onProgress: () => (firstReport ??= performance.now() - t1) });
+  const plan = await nest(problem, { seed: SEED, now: () => performance.now(), onProgress: () => (firstReport ??= performance.now() - t1) });
   const ms = performance.now() - t1;
   const errs = validatePlan(problem, plan);
   if (errs.length + firstErrs.length > 0) {

@@ -12,7 +12,7 @@ import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
 import { packAllByCuts, packAllByMerging, packAllInBlock } from "./exact";
 import { eliminateBlocks } from "./improve";
 import { fillBlockFree } from "./freefill";
-import { ColumnPool, coverDemand } from "./setcover";
+import { ColumnPool, coverDemand, denseDisjoint } from "./setcover";
 
 type OrderKey = "volume" | "maxSide" | "area" | "minSide";
 
@@ -34,6 +34,8 @@ interface PassParams {
   free: boolean;
   /** Free fills: from the block corner nearest each empty box, or from the origin corner. */
   corners: boolean;
+  /** Start from this share of the best plan's block count in dense remembered fillings, then fill on. */
+  reuse: number;
 }
 
 const DEFAULT: PassParams = {
@@ -51,7 +53,11 @@ const DEFAULT: PassParams = {
   tries: 1,
   free: false,
   corners: true,
+  reuse: 0,
 };
+
+/** Share of passes (once `reusable`) that start from remembered dense fillings. */
+const REUSE_SHARE = 0.8;
 
 function pick<T>(r: Rng, xs: readonly T[]): T {
   return xs[Math.floor(r() * xs.length)]!;
@@ -155,7 +161,8 @@ export class Search {
 
   /** One pass; the first uses fixed, sensible settings so a valid plan exists at once. */
   step(): void {
-    const p = this.iteration === 0 ? DEFAULT : this.randomParams();
+    const p = { ...(this.iteration === 0 ? DEFAULT : this.randomParams()) };
+    if (this.reusable() && this.r() < REUSE_SHARE) p.reuse = 0.3 + 0.6 * this.r();
     this.iteration++;
     const fills = this.pass(p);
     if (!fills) return;
@@ -165,6 +172,22 @@ export class Search {
       this.nextCover = Math.ceil(this.iteration * 1.6) + 2;
       this.cover();
     }
+  }
+
+  /**
+   * Whether passes may start from remembered fillings: everything fits, above the bound, in
+   * blocks of one kind (decided without drawing, so other problems keep their random sequence).
+   */
+  private reusable(): boolean {
+    const s = this.best?.score;
+    if (!s || this.iteration < 4 || this.pool.size < 4 || this.atBound() || s.placedVolume < this.placeable - 1e-6) return false;
+    return this.model.blocks.every((b) => b.classKey === this.model.blocks[0]!.classKey) && s.blocksUsed > 1;
+  }
+
+  /** The dense fillings a pass starts from (see `denseDisjoint`), each given a block of its own. */
+  private reuseFills(share: number, remaining: number[], unused: number[]): BlockFill[] {
+    const want = Math.min(unused.length, Math.floor(share * (this.best?.score.blocksUsed ?? 0)));
+    return denseDisjoint(this.pool.columns(), remaining, want, this.r).map((c) => ({ ...c.fill, block: unused.shift()! }));
   }
 
   /** Recombines remembered fillings by set cover when everything fits but above the bound. */
@@ -237,6 +260,7 @@ export class Search {
       candidates: pick(r, [1, 2, 4, 8]),
       tries: pick(r, [1, 2, 4, 8]),
       ...this.freeChoice(0.5),
+      reuse: 0,
     };
   }
 
@@ -323,7 +347,7 @@ export class Search {
     const m = this.model;
     const remaining = m.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
     let unused = this.blockOrder(p);
-    const fills: BlockFill[] = [];
+    const fills: BlockFill[] = p.reuse > 0 ? this.reuseFills(p.reuse, remaining, unused) : [];
     const left = (): number => remaining.reduce((s, v) => s + v, 0);
     while (left() > 0 && unused.length > 0) {
       // Out of time: drop this pass (the first one always completes, so a plan exists).

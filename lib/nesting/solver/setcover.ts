@@ -46,6 +46,25 @@ export class ColumnPool {
 }
 
 /**
+ * Up to `want` remembered fillings that take no piece twice, densest first (densities jittered by
+ * ±5 % so passes differ); takes their pieces off `remaining`. A pass that starts from them packs
+ * only the rest afresh, so the densest blocks of earlier passes are combined.
+ * @example denseDisjoint(pool.columns(), remaining, 3, rng) // → the 3 densest compatible columns
+ */
+export function denseDisjoint(columns: readonly Column[], remaining: number[], want: number, rng: () => number): Column[] {
+  const keyed = columns.map((c) => ({ c, key: c.density * (1 + 0.1 * (rng() - 0.5)) }));
+  keyed.sort((a, b) => b.key - a.key);
+  const out: Column[] = [];
+  for (const { c } of keyed) {
+    if (out.length >= want) break;
+    if ([...c.counts].some(([t, n]) => remaining[t]! < n)) continue;
+    for (const [t, n] of c.counts) remaining[t]! -= n;
+    out.push(c);
+  }
+  return out;
+}
+
+/**
  * Picks a cheap combination of remembered fillings that covers the demand (cutting-stock set
  * cover): javascript-lp-solver solves the linear relaxation (branch and bound is not used: on some
  * models it runs far past its timeout), the solution is rounded down and the rest of the demand
