@@ -23,7 +23,10 @@ export interface PlanViewProps {
 const AX = { x: 0, y: 1, z: 2 } as const;
 const PALETTE = ["#d7ecee", "#e0efe3", "#f6ecd2", "#efe0f3", "#e3e7f6", "#fbe6da"];
 
-function View({ title, a, b, props, only, width = 360 }: { title: string; a: 0 | 1 | 2; b: 0 | 1 | 2; props: PlanViewProps; only?: PlanViewProps["placements"]; width?: number }) {
+/** A view at least this many times longer than high takes a whole row (drawn larger). */
+const LONG_VIEW = 2.5;
+
+function View({ title, a, b, props, only, width = 360, className = "" }: { title: string; a: 0 | 1 | 2; b: 0 | 1 | 2; props: PlanViewProps; only?: PlanViewProps["placements"]; width?: number; className?: string }) {
   const { block } = props;
   const W = block.size[a];
   const H = block.size[b];
@@ -40,9 +43,9 @@ function View({ title, a, b, props, only, width = 360 }: { title: string; a: 0 |
   const cutAxes = cutRegions(block.size, props.cuts, props.trim ?? 0, props.kerf, pieces).filter((c) => AX[c.axis] === a || AX[c.axis] === b);
   const labelled = props.cuts.length <= 30;
   return (
-    <figure className="space-y-1">
+    <figure className={`space-y-1 ${className}`}>
       <figcaption className="text-xs font-medium uppercase tracking-wide text-ink-faint">{title}</figcaption>
-      <svg viewBox={`0 0 ${w + pad * 2} ${h + pad * 2}`} className="w-full max-w-xl" role="img" aria-label={`${title} of ${block.id}`}>
+      <svg viewBox={`0 0 ${w + pad * 2} ${h + pad * 2}`} className="w-full" style={{ maxWidth: w + pad * 2 }} role="img" aria-label={`${title} of ${block.id}`}>
         <rect x={X(0)} y={Y(H)} width={w} height={h} fill="#f7f5ef" stroke="#1c2a2e" strokeWidth={1.5} />
         {props.offcuts.map((o, i) => (
           <rect key={`o${i}`} x={X(o.origin[a])} y={Y(o.origin[b] + o.size[b])} width={o.size[a] * scale} height={o.size[b] * scale} fill="#e0efe3" fillOpacity={0.5} stroke="#3b7a4a" strokeDasharray="5 3" strokeWidth={1.2} />
@@ -91,6 +94,12 @@ function View({ title, a, b, props, only, width = 360 }: { title: string; a: 0 |
   );
 }
 
+const VIEWS: [string, 0 | 1 | 2, 0 | 1 | 2][] = [
+  ["Top (length × width)", 0, 1],
+  ["Front (length × height)", 0, 2],
+  ["Side (width × height)", 1, 2],
+];
+
 export function PlanView(props: PlanViewProps) {
   const layers = new Map<string, PlanViewProps["placements"]>();
   for (const p of props.placements) {
@@ -100,10 +109,13 @@ export function PlanView(props: PlanViewProps) {
   const sorted = [...layers.entries()].sort((x, y) => Number(x[0].split("|")[0]) - Number(y[0].split("|")[0]));
   return (
     <div className="space-y-4">
-      <div className="grid gap-4 sm:grid-cols-2 xl:grid-cols-3">
-        <View title="Top (length × width)" a={0} b={1} props={props} />
-        <View title="Front (length × height)" a={0} b={2} props={props} />
-        <View title="Side (width × height)" a={1} b={2} props={props} />
+      {/* Long views (a long block's top and front) take a whole row at a larger scale, so thin
+          pieces stay readable; the others share a row. */}
+      <div className="grid gap-4 sm:grid-cols-2">
+        {VIEWS.map(([title, a, b]) => {
+          const long = props.block.size[a] >= LONG_VIEW * props.block.size[b];
+          return <View key={title} title={title} a={a} b={b} props={props} width={long ? 960 : 420} className={long ? "sm:col-span-2" : ""} />;
+        })}
       </div>
       {props.showLayers !== false && sorted.length > 1 && (
         <details className="rounded-md border border-bead p-3">

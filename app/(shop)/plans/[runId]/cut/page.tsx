@@ -43,7 +43,8 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
                   <NotCuttable count={stuck} />
                 </div>
               )}
-              <div className="grid gap-5 xl:grid-cols-2">
+              {/* The drawing full width above the form: at the machine it is what people look at. */}
+              <div className="space-y-5">
                 <PlanView block={{ id: b.code, size: pb.size, defects: pb.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={placements} offcuts={plan.offcuts.filter((o) => o.block === b.code)} cuts={plan.cuts[b.code] ?? []} kerf={run.settings.kerf} trim={pb.trim} partName={partName} showLayers={false} />
                 {b.planStatus === "reserved" && run.status === "approved" ? (
                   <CutBlockForm runId={run.id} blockId={b.id} code={b.code} parts={[...counts].map(([jobPartId, count]) => ({ jobPartId, count, name: names.get(jobPartId) ?? `part ${jobPartId}` }))} />
