@@ -12,6 +12,7 @@ import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
 import { packAllByCuts, packAllByMerging, packAllInBlock } from "./exact";
 import { eliminateBlocks } from "./improve";
 import { fillBlockFree } from "./freefill";
+import { packLayerPerfect } from "./perfect2d";
 import { ColumnPool, coverDemand, denseDisjoint } from "./setcover";
 
 type OrderKey = "volume" | "maxSide" | "area" | "minSide";
@@ -58,6 +59,9 @@ const DEFAULT: PassParams = {
 
 /** Share of passes (once `reusable`) that start from remembered dense fillings. */
 const REUSE_SHARE = 0.8;
+
+/** The perfect-layer search is tried for up to this many pieces (beyond, it rarely ends in time). */
+const MAX_PERFECT_PIECES = 40;
 
 function pick<T>(r: Rng, xs: readonly T[]): T {
   return xs[Math.floor(r() * xs.length)]!;
@@ -335,7 +339,13 @@ export class Search {
       const stop = (): boolean => this.fraction() >= 1;
       // Parts that fill the block exactly (no waste at all): glue their cut tree back together,
       // first in a fixed order, then shuffled as the budget grows (restarts).
-      const exact = Math.abs(need - cap) <= 1e-6 * cap ? packAllByMerging(info, m.types, counts, 200 + budget * 4, stop, budget > 50 ? this.r : undefined) : undefined;
+      // Under the layers and free rules one layer may also hold parts no through cut frees: then a
+      // perfect packing of the layer is searched next (complete, skyline order).
+      const zeroWaste = Math.abs(need - cap) <= 1e-6 * cap;
+      const left = counts.reduce((a, c) => a + c, 0);
+      const exact =
+        (zeroWaste ? packAllByMerging(info, m.types, counts, 200 + budget * 4, stop, budget > 50 ? this.r : undefined) : undefined) ??
+        (zeroWaste && m.problem.settings.layout !== "guillotine" && left <= MAX_PERFECT_PIECES ? packLayerPerfect(info, m.types, counts, 4000 + budget * 40, stop) : undefined);
       const fill = exact ?? packAllByCuts(info, m.types, counts, budget, this.r, stop) ?? packAllInBlock(info, m.types, counts, budget / 2, this.r, stop);
       if (fill) return fill;
     }
