@@ -12,7 +12,7 @@ import { fillBlockGuillotine } from "@/lib/nesting/solver/guillotine3d";
 import { buildModel } from "@/lib/nesting/solver/model";
 import { rng } from "@/lib/nesting/rng";
 import type { Vec3 } from "@/lib/nesting";
-import { problem, solveValid } from "./helpers";
+import { pinwheel, problem, solveValid } from "./helpers";
 
 const box = (origin: Vec3, size: Vec3): Box => ({ origin, size });
 const inside = (p: Vec3, b: Box): boolean => [0, 1, 2].every((a) => p[a]! > b.origin[a]! && p[a]! < b.origin[a]! + b.size[a]!);
@@ -94,18 +94,6 @@ describe("maximal empty boxes", () => {
     );
   });
 });
-
-/** The pinwheel: two 20×10 and two 10×20 pieces (no turning) around a 10×10 one, in a 30×30 block. */
-const pinwheel = (layout: "free" | "guillotine") =>
-  problem({
-    settings: { kerf: 0, trim: 0, layout, minOffcut: [1, 1, 1] },
-    blocks: [{ id: "B", size: [30, 30, 10] }],
-    parts: [
-      { id: "H", size: [20, 10, 10], quantity: 2, rotate: "none" },
-      { id: "V", size: [10, 20, 10], quantity: 2, rotate: "none" },
-      { id: "C", size: [10, 10, 10], quantity: 1, rotate: "none" },
-    ],
-  });
 
 describe("free fill", () => {
   it("packs the pinwheel, which no through-cut layout holds", () => {

@@ -8,19 +8,7 @@ import { validatePlan } from "@/lib/nesting";
 import { buildModel } from "@/lib/nesting/solver/model";
 import { packLayerPerfect } from "@/lib/nesting/solver/perfect2d";
 import { packAllByMerging } from "@/lib/nesting/solver/exact";
-import { problem, solveValid } from "./helpers";
-
-/** The pinwheel as one layer: two 20×10 and two 10×20 pieces (no turning) around a 10×10 one. */
-const pinwheel = (layout: "layers" | "guillotine" = "layers") =>
-  problem({
-    settings: { kerf: 0, trim: 0, layout, minOffcut: [1, 1, 1] },
-    blocks: [{ id: "B", size: [30, 30, 10] }],
-    parts: [
-      { id: "H", size: [20, 10, 10], quantity: 2, rotate: "none" },
-      { id: "V", size: [10, 20, 10], quantity: 2, rotate: "none" },
-      { id: "C", size: [10, 10, 10], quantity: 1, rotate: "none" },
-    ],
-  });
+import { pinwheel, problem, solveValid } from "./helpers";
 
 /** The same five pieces, all lying the long way and not to be turned: no packing exists. */
 const unturned = problem({
@@ -48,14 +36,14 @@ function cover(W: number, H: number, items: { origin: number[]; dims: number[] }
 
 describe("perfect layer search", () => {
   it("packs the pinwheel, which the glue search (through cuts only) cannot", () => {
-    const m = buildModel(pinwheel());
+    const m = buildModel(pinwheel("layers"));
     const counts = m.types.map((t) => t.count);
     const fill = packLayerPerfect(m.blocks[0]!, m.types, counts, 10_000);
     expect(fill?.items).toHaveLength(5);
     expect(cover(30, 30, fill!.items)).toBe(900);
     expect(packAllByMerging(m.blocks[0]!, m.types, counts, 100_000)).toBeUndefined();
     // Through the whole solver: layers places all five, guillotine must leave one out.
-    expect(solveValid(pinwheel()).unplaced).toEqual([]);
+    expect(solveValid(pinwheel("layers")).unplaced).toEqual([]);
     expect(solveValid(pinwheel("guillotine")).unplaced.reduce((n, u) => n + u.count, 0)).toBe(1);
   });
 
@@ -65,7 +53,7 @@ describe("perfect layer search", () => {
   });
 
   it("declines parts that do not fill the layer exactly, or stand lower than the block", () => {
-    const short = buildModel(pinwheel());
+    const short = buildModel(pinwheel("layers"));
     expect(packLayerPerfect(short.blocks[0]!, short.types, [2, 2, 0], 10_000)).toBeUndefined();
     const thin = buildModel(problem({ settings: { kerf: 0, trim: 0, layout: "layers" }, blocks: [{ id: "B", size: [20, 10, 10] }], parts: [{ id: "P", size: [10, 10, 5], quantity: 4, rotate: "none" }] }));
     expect(packLayerPerfect(thin.blocks[0]!, thin.types, [4], 10_000)).toBeUndefined();
