@@ -110,24 +110,33 @@ export function packLayerPerfect(block: BlockInfo, types: readonly ItemType[], c
     const gap = sky[i]!;
     const key = `${sky.map((g) => `${g.w}:${g.y}`).join(",")}|${left.join(",")}`;
     if (failed.has(key)) return false;
+    // Parts that close the well's width first, then those whose top meets the left wall's, then
+    // larger ones (the order the parts were sorted in).
+    const wallTop = i > 0 ? sky[i - 1]!.y : Infinity;
+    const moves: { k: number; d: Vec3; rank: number }[] = [];
     for (let k = 0; k < live.length; k++) {
       if (left[k] === 0) continue;
       for (const d of live[k]!.dims) {
-        const [w, h] = d;
-        if (w > gap.w + E || gap.y + h > H + E) continue;
-        left[k]!--;
-        // What the part leaves of the gap must take some part still to place.
-        const over = gap.w - w;
-        if (over > E && over < narrowest() - E) {
-          left[k]!++;
-          continue;
-        }
-        placed.push({ k, d, x: gap.x, y: gap.y });
-        if (dfs(raise(sky, i, w, h), rest - 1)) return true;
-        placed.pop();
-        left[k]!++;
-        if (aborted) return false;
+        if (d[0] > gap.w + E || gap.y + d[1] > H + E) continue;
+        const rank = (Math.abs(d[0] - gap.w) <= E ? 0 : 2) + (Math.abs(gap.y + d[1] - wallTop) <= E ? 0 : 1);
+        moves.push({ k, d, rank: rank * 1e6 + moves.length });
       }
+    }
+    moves.sort((a, b) => a.rank - b.rank);
+    for (const { k, d } of moves) {
+      const [w, h] = d;
+      left[k]!--;
+      // What the part leaves of the gap must take some part still to place.
+      const over = gap.w - w;
+      if (over > E && over < narrowest() - E) {
+        left[k]!++;
+        continue;
+      }
+      placed.push({ k, d, x: gap.x, y: gap.y });
+      if (dfs(raise(sky, i, w, h), rest - 1)) return true;
+      placed.pop();
+      left[k]!++;
+      if (aborted) return false;
     }
     if (failed.size < 50_000) failed.add(key);
     return false;
