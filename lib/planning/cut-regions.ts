@@ -41,12 +41,12 @@ export function travelAcross(cut: RegionCut): number {
   return cut.axis === "z" ? ext(0) : ext(2);
 }
 
-/** The pieces (placements and offcuts) a plan puts in one block, as boxes. */
 /** The pieces of a plan: placed parts and kept offcuts, each in a block. */
 type PlanPieces = { placements: { block: string; origin: V3; size: V3 }[]; offcuts: { block: string; origin: V3; size: V3 }[] };
 
 const inBlock = (plan: PlanPieces, blockId: string) => [...plan.placements, ...plan.offcuts].filter((p) => p.block === blockId);
 
+/** The pieces (placements and offcuts) a plan puts in one block, as boxes. */
 export function piecesOf(plan: PlanPieces, blockId: string): Box[] {
   return inBlock(plan, blockId).map((p) => ({ min: p.origin, max: p.origin.map((v, i) => v + p.size[i]!) as V3 }));
 }

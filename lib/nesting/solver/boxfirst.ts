@@ -111,7 +111,7 @@ export function moves(f: Box, types: readonly ItemType[], order: readonly number
  * The move whose greedy completion packs most (a pilot method): each move is judged by the volume
  * `complete` reaches from it; when `stop` says the time is up, the best judged so far is taken.
  */
-export function bestByCompletion<M extends object>(ms: readonly M[], complete: (m: M) => number, stop?: () => boolean): M {
+function bestByCompletion<M extends object>(ms: readonly M[], complete: (m: M) => number, stop?: () => boolean): M {
   let chosen = ms[0]!;
   let bestVol = -1;
   for (const m of ms) {
@@ -123,6 +123,17 @@ export function bestByCompletion<M extends object>(ms: readonly M[], complete: (
     }
   }
   return chosen;
+}
+
+/**
+ * One step of a pilot fill: the only move, or the best of `ms` by `bestByCompletion`. Once `stop`
+ * says the time is up it takes the first move and reports `stopped`, and the fill goes on plainly
+ * greedy (both fills, cut tree and maximal boxes, step this way).
+ */
+export function pickMove<M extends object>(ms: readonly M[], complete: (m: M) => number, stop?: () => boolean): { move: M; stopped: boolean } {
+  if (ms.length === 1) return { move: ms[0]!, stopped: false };
+  if (stop?.()) return { move: ms[0]!, stopped: true };
+  return { move: bestByCompletion(ms, complete, stop), stopped: false };
 }
 
 function apply(s: State, fi: number, m: Move, types: readonly ItemType[], p: BoxFirstParams): void {
@@ -154,19 +165,17 @@ function run(s: State, types: readonly ItemType[], order: readonly number[], p: 
       s.free.splice(fi, 1);
       continue;
     }
-    let chosen = ms[0]!;
-    if (ms.length > 1 && p.stop?.()) lookahead = 0;
-    else if (ms.length > 1)
-      chosen = bestByCompletion(
-        ms,
-        (m) => {
-          const sim: State = { free: [...s.free], remaining: [...s.remaining], packedVolume: s.packedVolume, leftovers: [], items: undefined };
-          apply(sim, fi, m, types, p);
-          run(sim, types, order, p, 0);
-          return sim.packedVolume;
-        },
-        p.stop,
-      );
+    const { move: chosen, stopped } = pickMove(
+      ms,
+      (m) => {
+        const sim: State = { free: [...s.free], remaining: [...s.remaining], packedVolume: s.packedVolume, leftovers: [], items: undefined };
+        apply(sim, fi, m, types, p);
+        run(sim, types, order, p, 0);
+        return sim.packedVolume;
+      },
+      p.stop,
+    );
+    if (stopped) lookahead = 0;
     apply(s, fi, chosen, types, p);
     if (s.remaining[chosen.t] === 0) mMin = Math.max(mMin, minSide(types, order, s.remaining));
     prune(s, mMin);

@@ -1,6 +1,6 @@
 import { volume as vol, type Box } from "../geometry";
 import type { Vec3 } from "../types";
-import { bestByCompletion, lookaheadCap, minSide, moves, type Move } from "./boxfirst";
+import { lookaheadCap, minSide, moves, pickMove, type Move } from "./boxfirst";
 import { gridItems, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
 /**
@@ -208,19 +208,18 @@ function run(s: State, u: Box, types: readonly ItemType[], order: readonly numbe
       s.spaces.splice(at.index, 1);
       continue;
     }
-    let chosen = ms[0]!;
-    if (ms.length > 1 && p.stop?.()) lookahead = 0;
-    else if (ms.length > 1)
-      chosen = bestByCompletion(
-        ms,
-        (m) => {
-          const sim: State = { spaces: s.spaces, remaining: [...s.remaining], packedVolume: s.packedVolume, items: undefined, mMin: s.mMin };
-          apply(sim, at, m, types, order);
-          run(sim, u, types, order, p, 0);
-          return sim.packedVolume;
-        },
-        p.stop,
-      );
+    const { move: chosen, stopped } = pickMove(
+      ms,
+      (m) => {
+        // apply() replaces sim.spaces before anything changes it, so the list itself is shared.
+        const sim: State = { spaces: s.spaces, remaining: [...s.remaining], packedVolume: s.packedVolume, items: undefined, mMin: s.mMin };
+        apply(sim, at, m, types, order);
+        run(sim, u, types, order, p, 0);
+        return sim.packedVolume;
+      },
+      p.stop,
+    );
+    if (stopped) lookahead = 0;
     apply(s, at, chosen, types, order);
   }
 }
