@@ -9,7 +9,7 @@ import type { NestOptions, Plan, Problem } from "./types";
 export type * from "./types";
 export { parseProblem, parseProblemText, type ParseResult };
 export { validatePlan } from "./validate";
-export { lowerBoundBlocks, volumeBound, largeItemBound, type BoundItem } from "./bounds";
+export { lowerBoundBlocks, volumeBound, largeItemBound, scaleBound, dffRound, dffLarge, type BoundItem, type Dff } from "./bounds";
 export { comparePlans, compareScores, scorePlan, type Score } from "./objective";
 
 const DEFAULT_ITERATIONS = 200;
