@@ -97,16 +97,16 @@ export function dffLarge(eps: number): Dff {
   return (x) => (x > 1 - eps + TOL ? 1 : x < eps - TOL ? 0 : x);
 }
 
-/** At most this many thresholds ε are tried (evenly spread over the distinct ones). */
+/** Most thresholds ε tried (evenly spread over the distinct ones); fewer past 3,000 orientations. */
 const MAX_THRESHOLDS = 64;
 
 /**
  * The conservative-scale bound for identical bins (Fekete & Schepers): for a DFF f, every bin's
  * parts satisfy Σ f(w/W)·f(h/H)·f(d/D) ≤ 1, so the bins needed are at least the sum over all
- * parts, rounded up. A part that may turn counts with its least value over the orientations it may
- * take (and fit in), so the bound holds whichever way it is packed. Tried: u^(k) for k ≤ 20, U^(ε) at the
- * thresholds where the parts' sides change class, and u^(k) after U^(ε) for k ≤ 10; the best is
- * returned. Sizes are grown by the kerf, as in the packer.
+ * parts, rounded up. A part that may turn counts with its least value over the orientations it
+ * may take and fit in, so the bound holds whichever way it is packed. Tried: u^(k) for k ≤ 20,
+ * U^(ε) at the thresholds where the parts' sides change class, and u^(k) after U^(ε) for k ≤ 10;
+ * the best is returned. Sizes are grown by the kerf, as in the packer.
  * @example scaleBound([10, 10, 10], [{ size: [6, 6, 6], rotate: "any", count: 3 }], 0) // → 3
  */
 export function scaleBound(bin: Vec3, items: readonly BoundItem[], kerf = 0): number {
@@ -130,7 +130,7 @@ export function scaleBound(bin: Vec3, items: readonly BoundItem[], kerf = 0): nu
     count: it.count,
   }));
   const sides = new Set<number>();
-  for (const x of fracs) if (x <= 1 + TOL) {
+  for (const x of fracs) {
     sides.add(x);
     sides.add(1 - x);
   }
@@ -142,7 +142,10 @@ export function scaleBound(bin: Vec3, items: readonly BoundItem[], kerf = 0): nu
     const next = sorted[i + 1];
     if (next !== undefined) eps.push((v + next) / 2);
   });
-  if (eps.length > MAX_THRESHOLDS) eps = Array.from({ length: MAX_THRESHOLDS }, (_, i) => eps[Math.floor((i * eps.length) / MAX_THRESHOLDS)]!);
+  // Fewer thresholds for very long part lists, so the bound stays a matter of milliseconds.
+  const work = lines.reduce((s, l) => s + l.idx.length, 0);
+  const most = Math.max(8, Math.min(MAX_THRESHOLDS, Math.floor(200_000 / Math.max(1, work))));
+  if (eps.length > most) eps = Array.from({ length: most }, (_, i) => eps[Math.floor((i * eps.length) / most)]!);
   const fs: Dff[] = [];
   for (let k = 1; k <= 20; k++) fs.push(dffRound(k));
   for (const e of eps) {
