@@ -403,3 +403,146 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
   const packedVolume = items.reduce((s, it) => s + types[it.type]!.volume, 0);
   return { block: block.index, items, leftovers: [], packedVolume };
 }
+
+/** The table search numbers sets of pieces up to this many (20 different pieces, or more alike ones). */
+export const MAX_TABLE_STATES = 2 ** 20;
+
+/** At most this many sets that fill some box are kept (about 200 bytes each). */
+const MAX_TABLE_SETS = 200_000;
+
+/** One set of pieces in the table search: how many of each part line, and the boxes it can fill. */
+interface TileSet {
+  /** Mixed-radix number of the counts (the same set of pieces has the same number). */
+  id: number;
+  counts: Int32Array;
+  /** Bit i set: holds the piece of single-piece line i (the first 31 such lines). */
+  mask: number;
+  boxes: Vec3[];
+  /** How each box was made: one piece, or two disjoint sets glued across `axis`. */
+  ways: ({ type: number } | { a: TileSet; ia: number; b: TileSet; ib: number; axis: number })[];
+}
+
+/**
+ * Complete search for a cut tree with no waste, bottom-up over sets of pieces: every cut tree is two
+ * cut trees of disjoint sets that share a face, so the sets that fill some box are built by size,
+ * each from two smaller ones, keeping every distinct box (in the block's frame, as the rotate rules
+ * allow) that fits the usable box. Identical pieces are counted, not told apart, so an order of few
+ * part lines with large quantities stays small. Unlike the glue search it has no order to get wrong:
+ * it returns the packing when one exists, `null` when it has proved that none does, and undefined
+ * when it ran past `pairLimit` pairs of sets or `stop`, or when the sets of pieces number more than
+ * `MAX_TABLE_STATES` (the product over part lines of quantity + 1).
+ * @example packAllByTable(block, types, counts, 1e6) // → BlockFill | null | undefined
+ */
+export function packAllByTable(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], pairLimit: number, stop: () => boolean = () => false): BlockFill | null | undefined {
+  if (block.obstacles.length > 0) return undefined;
+  // Local copies: imported bindings are read through accessors in some module systems (hot loop).
+  const eps = EPS;
+  const lines = counts.map((c, t) => ({ c, t })).filter((x) => x.c > 0);
+  const k = lines.length;
+  const target = block.usable.size;
+  const need = lines.reduce((s, { c, t }) => s + c * vol(types[t]!.dims[0]!), 0);
+  if (k === 0 || Math.abs(need - vol(target)) > 1e-6 * vol(target)) return undefined;
+  const radix: number[] = [];
+  let states = 1;
+  for (const { c } of lines) {
+    radix.push(states);
+    states *= c + 1;
+    if (states > MAX_TABLE_STATES) return undefined;
+  }
+  const total = lines.reduce((s, x) => s + x.c, 0);
+  const fits = (d: Vec3): boolean => d[0] <= target[0] + eps && d[1] <= target[1] + eps && d[2] <= target[2] + eps;
+  const same = (p: Vec3, q: Vec3): boolean => Math.abs(p[0] - q[0]) <= eps && Math.abs(p[1] - q[1]) <= eps && Math.abs(p[2] - q[2]) <= eps;
+  const byId = new Map<number, TileSet>();
+  const bySize: TileSet[][] = Array.from({ length: total + 1 }, () => []);
+  // Lines of one piece (most, in a one-off order) are told apart by a bit; the others by their counts.
+  const bit = new Int32Array(k);
+  const counted: number[] = [];
+  let nextBit = 0;
+  lines.forEach(({ c }, i) => {
+    if (c === 1 && nextBit < 31) bit[i] = 1 << nextBit++;
+    else counted.push(i);
+  });
+  lines.forEach(({ t }, i) => {
+    const cs = new Int32Array(k);
+    cs[i] = 1;
+    const set: TileSet = { id: radix[i]!, counts: cs, mask: bit[i]!, boxes: [], ways: [] };
+    for (const d of types[t]!.dims) {
+      if (!fits(d)) continue;
+      set.boxes.push(d);
+      set.ways.push({ type: t });
+    }
+    if (set.boxes.length > 0) {
+      byId.set(set.id, set);
+      bySize[1]!.push(set);
+    }
+  });
+  const disjoint = (a: TileSet, b: TileSet): boolean => {
+    for (const i of counted) if (a.counts[i]! + b.counts[i]! > lines[i]!.c) return false;
+    return true;
+  };
+  let pairs = 0;
+  for (let size = 2; size <= total; size++) {
+    for (let sa = 1; sa <= size - sa; sa++) {
+      const left = bySize[sa]!;
+      const right = bySize[size - sa]!;
+      // The numbers of the right-hand sets in a flat array: the disjointness test is the hot loop.
+      const rightIds = Float64Array.from(right, (x) => x.id);
+      const rightMasks = Int32Array.from(right, (x) => x.mask);
+      for (const a of left) {
+        pairs += right.length;
+        if (pairs > pairLimit || stop()) return undefined;
+        const am = a.mask;
+        for (let j = 0; j < rightIds.length; j++) {
+          if ((am & rightMasks[j]!) !== 0 || (sa === size - sa && a.id > rightIds[j]!)) continue;
+          const b = right[j]!;
+          if (!disjoint(a, b)) continue;
+          let set: TileSet | undefined;
+          for (let ia = 0; ia < a.boxes.length; ia++)
+            for (let ib = 0; ib < b.boxes.length; ib++) {
+              const x = a.boxes[ia]!;
+              const y = b.boxes[ib]!;
+              for (let axis = 0; axis < 3; axis++) {
+                const o1 = (axis + 1) % 3;
+                const o2 = (axis + 2) % 3;
+                if (Math.abs(x[o1]! - y[o1]!) > eps || Math.abs(x[o2]! - y[o2]!) > eps) continue;
+                const d = [...x] as Vec3;
+                d[axis] = x[axis]! + y[axis]!;
+                if (!fits(d)) continue;
+                set ??= byId.get(a.id + b.id);
+                if (!set) {
+                  // Too many sets to keep in memory: give up (the glue search takes over).
+                  if (byId.size >= MAX_TABLE_SETS) return undefined;
+                  const id = a.id + b.id;
+                  const cs = new Int32Array(k);
+                  for (let i = 0; i < k; i++) cs[i] = a.counts[i]! + b.counts[i]!;
+                  set = { id, counts: cs, mask: a.mask | b.mask, boxes: [], ways: [] };
+                  byId.set(id, set);
+                  bySize[size]!.push(set);
+                }
+                if (set.boxes.some((o) => same(o, d))) continue;
+                set.boxes.push(d);
+                set.ways.push({ a, ia, b, ib, axis });
+              }
+            }
+        }
+      }
+    }
+  }
+  const all = byId.get(states - 1);
+  const at = all ? all.boxes.findIndex((d) => same(d, target)) : -1;
+  if (!all || at < 0) return null;
+  const items: PackedItem[] = [];
+  const place = (set: TileSet, i: number, origin: Vec3): void => {
+    const way = set.ways[i]!;
+    if ("type" in way) {
+      items.push({ type: way.type, origin, dims: set.boxes[i]! });
+      return;
+    }
+    place(way.a, way.ia, origin);
+    const next = [...origin] as Vec3;
+    next[way.axis] = next[way.axis]! + way.a.boxes[way.ia]![way.axis]!;
+    place(way.b, way.ib, next);
+  };
+  place(all, at, [...block.usable.origin] as Vec3);
+  return { block: block.index, items, leftovers: [], packedVolume: items.reduce((s, it) => s + types[it.type]!.volume, 0) };
+}

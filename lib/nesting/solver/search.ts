@@ -9,7 +9,7 @@ import { assemblePlan, keptOffcuts } from "./assemble";
 import { fillBlockGuillotine, type SplitRule } from "./guillotine3d";
 import { fillBlockMaxRects, fillBlockMaxRectsPackage, layerDims, type RectRule } from "./maxrects2d";
 import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
-import { packAllByCuts, packAllByMerging, packAllInBlock } from "./exact";
+import { packAllByCuts, packAllByMerging, packAllByTable, packAllInBlock } from "./exact";
 import { eliminateBlocks } from "./improve";
 import { fillBlockFree } from "./freefill";
 import { packLayerPerfect } from "./perfect2d";
@@ -343,8 +343,12 @@ export class Search {
       // perfect packing of the layer is searched next (complete, skyline order).
       const zeroWaste = Math.abs(need - cap) <= 1e-6 * cap;
       const left = counts.reduce((a, c) => a + c, 0);
+      // The table over sets of pieces settles whether a cut tree exists (null: none does, so the glue
+      // search is skipped); for larger orders (undefined), or when it runs out, the glue search.
+      const table = zeroWaste ? packAllByTable(info, m.types, counts, 100_000 * budget, stop) : undefined;
       const exact =
-        (zeroWaste ? packAllByMerging(info, m.types, counts, 200 + budget * 4, stop, budget > 50 ? this.r : undefined) : undefined) ??
+        table ??
+        (zeroWaste && table === undefined ? packAllByMerging(info, m.types, counts, 200 + budget * 4, stop, budget > 50 ? this.r : undefined) : undefined) ??
         (zeroWaste && m.problem.settings.layout !== "guillotine" && left <= MAX_PERFECT_PIECES ? packLayerPerfect(info, m.types, counts, 4000 + budget * 40, stop) : undefined);
       const fill = exact ?? packAllByCuts(info, m.types, counts, budget, this.r, stop) ?? packAllInBlock(info, m.types, counts, budget / 2, this.r, stop);
       if (fill) return fill;

@@ -6,6 +6,7 @@ import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { nestSync, validatePlan, type Vec3 } from "@/lib/nesting";
 import { buildModel } from "@/lib/nesting/solver/model";
+import { packAllByTable } from "@/lib/nesting/solver/exact";
 import { fillBlockFree } from "@/lib/nesting/solver/freefill";
 import { fillBlockGuillotine } from "@/lib/nesting/solver/guillotine3d";
 import { rng } from "@/lib/nesting/rng";
@@ -44,6 +45,35 @@ describe.skipIf(!dir)("Hopper & Turton (2001), EJOR 128:34–57 / Hopper (2000) 
       if (/^[NT]1/.test(name)) expect(validatePlan({ ...problem, settings: { ...problem.settings, layout: "guillotine" } }, plan), "a packing through cuts could not free").not.toEqual([]);
     });
   }
+});
+
+describe.skipIf(!dir)("Hopper & Turton (2001) / Hopper (2000): zero-waste sets under the guillotine rule — cut trees found or proved absent", () => {
+  const all = dir ? loadZeroWaste(dir) : [];
+  const oneBin = (name: string, layout: "guillotine" | "layers") => {
+    const inst = all.find((i) => i.name === name);
+    expect(inst, `instance ${name} in the data`).toBeDefined();
+    return problemOf({
+      bins: [[inst!.W, inst!.H, 1]],
+      parts: inst!.items.map(([w, h]) => ({ size: [w, h, 1] as Vec3, rotate: "z" as const })),
+      layout,
+      timeLimitMs: 1000,
+    });
+  };
+  it("C1-1, C1-2 and C1-3 pack into one bin at 100 % by through cuts alone (C1-2: the glue search misses its cut tree, the table search finds it)", () => {
+    for (const name of ["C1-1", "C1-2", "C1-3"]) {
+      const problem = oneBin(name, "guillotine");
+      const plan = nestSync(problem, { seed: 1, iterations: 20 });
+      expect(validatePlan(problem, plan), name).toEqual([]);
+      expect(plan.unplaced, name).toEqual([]);
+      expect(plan.stats.blocksUsed, name).toBe(1);
+    }
+  });
+  it("N1A–E and T1A–E have no cut tree: the table search proves it (their packings need a layer)", () => {
+    for (const name of ["N1A", "N1B", "N1C", "N1D", "N1E", "T1A", "T1B", "T1C", "T1D", "T1E"]) {
+      const m = buildModel(oneBin(name, "guillotine"));
+      expect(packAllByTable(m.blocks[0]!, m.types, m.types.map((t) => t.count), 50_000_000), name).toBeNull();
+    }
+  });
 });
 
 describe.skipIf(!dir)("Berkey & Wang (1987); Martello & Vigo (1998): 2D class set with rotation, at or within one bin of the best published group total", () => {

@@ -4,15 +4,23 @@
  * parts were made by cutting that block, kerf included), so these checks need no outside source.
  */
 import { describe, expect, it } from "vitest";
-import type { Vec3 } from "@/lib/nesting";
-import { packAllByMerging } from "@/lib/nesting/solver/exact";
+import { validatePlan, type Vec3 } from "@/lib/nesting";
+import { assemblePlan } from "@/lib/nesting/solver/assemble";
+import { packAllByMerging, packAllByTable } from "@/lib/nesting/solver/exact";
 import { buildModel } from "@/lib/nesting/solver/model";
 import { perfectPacking } from "@/scripts/lib-bench/generate";
-import { problem, solveValid } from "./helpers";
+import { pinwheel, problem, solveValid } from "./helpers";
 
 const mergeFill = (p: ReturnType<typeof problem>, nodeLimit = 5000) => {
   const m = buildModel(p);
   return packAllByMerging(m.blocks[0]!, m.types, m.types.map((t) => t.count), nodeLimit);
+};
+
+/** The table search on a one-block problem; with the plan it makes, checked by the validator. */
+const tableFill = (p: ReturnType<typeof problem>, pairLimit = 5_000_000) => {
+  const m = buildModel(p);
+  const fill = packAllByTable(m.blocks[0]!, m.types, m.types.map((t) => t.count), pairLimit);
+  return { fill, errors: fill ? validatePlan(p, assemblePlan(m, [fill], 0, 1)) : undefined };
 };
 
 describe("perfect packings: parts cut from one block by random through cuts (kerf 2) go back into one block", () => {
@@ -87,5 +95,60 @@ describe("the glue search only answers when it applies", () => {
     const xs = [...new Set(fill!.items.map((i) => i.origin[0]))].sort((a, b) => a - b);
     expect(xs).toEqual([4, 106]);
     expect(solveValid(p).stats.blocksUsed).toBe(1);
+  });
+});
+
+describe("the table search over sets of pieces (packAllByTable): complete for cut trees", () => {
+  for (let seed = 101; seed <= 130; seed++) {
+    const parts = 8 + (seed % 5) * 6;
+    if (parts > 20) continue;
+    it(`finds the cut tree of a generated perfect packing (seed ${seed}, ${parts} parts, kerf 2), valid under the guillotine rule`, () => {
+      const { fill, errors } = tableFill(perfectPacking(seed, [1200, 800, 600], parts, 2));
+      expect(fill?.items).toHaveLength(parts);
+      expect(errors).toEqual([]);
+    });
+  }
+
+  it("proves that the pinwheel has no cut tree (null), where the glue search can only give up", () => {
+    expect(tableFill(pinwheel("guillotine")).fill).toBeNull();
+    expect(mergeFill(pinwheel("guillotine"))).toBeUndefined();
+  });
+
+  it("keeps each part's rotate rule: the plates fill the block only turned about z, the sheets only on edge", () => {
+    const plates = (rotate: "none" | "z") => problem({ settings: { kerf: 0, trim: 0, layout: "guillotine" }, blocks: [{ id: "B", size: [100, 60, 10] }], parts: [{ id: "plate", size: [60, 50, 10], quantity: 2, rotate }] });
+    const turned = tableFill(plates("z"));
+    expect(turned.errors).toEqual([]);
+    for (const it of turned.fill!.items) expect(it.dims).toEqual([50, 60, 10]);
+    expect(tableFill(plates("none")).fill).toBeNull();
+    const sheets = (rotate: "any" | "z") => problem({ settings: { kerf: 0, trim: 0, layout: "guillotine" }, blocks: [{ id: "B", size: [20, 100, 100] }], parts: [{ id: "sheet", size: [100, 100, 10], quantity: 2, rotate }] });
+    expect(tableFill(sheets("any")).fill?.items.map((i) => i.dims)).toEqual([[10, 100, 100] as Vec3, [10, 100, 100] as Vec3]);
+    expect(tableFill(sheets("z")).fill).toBeNull();
+  });
+
+  it("counts alike pieces instead of telling them apart: 25 pieces of two lines (176 sets, not 2^25)", () => {
+    // 15 plates 20 × 10 and 10 squares 10 × 10 fill a 100 × 40 × 10 block exactly.
+    const p = problem({
+      settings: { kerf: 0, trim: 0, layout: "guillotine" },
+      blocks: [{ id: "B", size: [100, 40, 10] }],
+      parts: [
+        { id: "plate", size: [20, 10, 10], quantity: 15, rotate: "z" },
+        { id: "square", size: [10, 10, 10], quantity: 10, rotate: "z" },
+      ],
+    });
+    const { fill, errors } = tableFill(p, 200_000);
+    expect(fill?.items).toHaveLength(25);
+    expect(errors).toEqual([]);
+  });
+
+  it("says it does not know (undefined), not that none exists, when it runs out of pairs, and leaves other cases alone", () => {
+    expect(tableFill(perfectPacking(103, [1200, 800, 600], 20, 2), 10).fill).toBeUndefined();
+    const spare = problem({ settings: { kerf: 0, trim: 0 }, blocks: [{ id: "B", size: [100, 100, 100] }], parts: [{ id: "c", size: [50, 50, 50], quantity: 7 }] });
+    expect(tableFill(spare).fill).toBeUndefined();
+    const defect = problem({
+      settings: { kerf: 0, trim: 0, defectMargin: 0 },
+      blocks: [{ id: "B", size: [100, 100, 100], defects: [{ id: "v", min: [10, 10, 10], max: [20, 20, 20] }] }],
+      parts: [{ id: "c", size: [50, 50, 50], quantity: 8 }],
+    });
+    expect(tableFill(defect).fill).toBeUndefined();
   });
 });
