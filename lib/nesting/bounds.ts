@@ -174,8 +174,8 @@ export function scaleBound(bin: Vec3, items: readonly BoundItem[], kerf = 0): nu
 
 /**
  * Lower bound on the blocks needed to place every part that fits some block: for identical
- * blocks max(L0, L2, conservative scales) on the trimmed usable box inflated by kerf; for mixed blocks the volume bound
- * over the largest blocks; summed over grades where that is larger.
+ * blocks max(L0, L2, conservative scales) on the trimmed usable box inflated by kerf; for mixed
+ * blocks the volume bound over the largest blocks; summed over grades where that is larger.
  * @example lowerBoundBlocks(problem) // → 3
  */
 export function lowerBoundBlocks(problem: Problem): number {

@@ -435,7 +435,8 @@ interface TileSet {
  */
 export function packAllByTable(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], pairLimit: number, stop: () => boolean = () => false): BlockFill | null | undefined {
   if (block.obstacles.length > 0) return undefined;
-  // Local copies: imported bindings are read through accessors in some module systems (hot loop).
+  // A local copy for the face test of the hot loop: imported bindings are read through accessors
+  // in some module systems.
   const eps = EPS;
   const lines = counts.map((c, t) => ({ c, t })).filter((x) => x.c > 0);
   const k = lines.length;
@@ -450,8 +451,6 @@ export function packAllByTable(block: BlockInfo, types: readonly ItemType[], cou
     if (states > MAX_TABLE_STATES) return undefined;
   }
   const total = lines.reduce((s, x) => s + x.c, 0);
-  const fits = (d: Vec3): boolean => d[0] <= target[0] + eps && d[1] <= target[1] + eps && d[2] <= target[2] + eps;
-  const same = (p: Vec3, q: Vec3): boolean => Math.abs(p[0] - q[0]) <= eps && Math.abs(p[1] - q[1]) <= eps && Math.abs(p[2] - q[2]) <= eps;
   const byId = new Map<number, TileSet>();
   const bySize: TileSet[][] = Array.from({ length: total + 1 }, () => []);
   // Lines of one piece (most, in a one-off order) are told apart by a bit; the others by their counts.
@@ -467,7 +466,7 @@ export function packAllByTable(block: BlockInfo, types: readonly ItemType[], cou
     cs[i] = 1;
     const set: TileSet = { id: radix[i]!, counts: cs, mask: bit[i]!, boxes: [], ways: [] };
     for (const d of types[t]!.dims) {
-      if (!fits(d)) continue;
+      if (!fitsIn(d, target)) continue;
       set.boxes.push(d);
       set.ways.push({ type: t });
     }
@@ -507,7 +506,7 @@ export function packAllByTable(block: BlockInfo, types: readonly ItemType[], cou
                 if (Math.abs(x[o1]! - y[o1]!) > eps || Math.abs(x[o2]! - y[o2]!) > eps) continue;
                 const d = [...x] as Vec3;
                 d[axis] = x[axis]! + y[axis]!;
-                if (!fits(d)) continue;
+                if (!fitsIn(d, target)) continue;
                 set ??= byId.get(a.id + b.id);
                 if (!set) {
                   // Too many sets to keep in memory: give up (the glue search takes over).
@@ -519,7 +518,7 @@ export function packAllByTable(block: BlockInfo, types: readonly ItemType[], cou
                   byId.set(id, set);
                   bySize[size]!.push(set);
                 }
-                if (set.boxes.some((o) => same(o, d))) continue;
+                if (set.boxes.some((o) => sameVec(o, d))) continue;
                 set.boxes.push(d);
                 set.ways.push({ a, ia, b, ib, axis });
               }
@@ -529,7 +528,7 @@ export function packAllByTable(block: BlockInfo, types: readonly ItemType[], cou
     }
   }
   const all = byId.get(states - 1);
-  const at = all ? all.boxes.findIndex((d) => same(d, target)) : -1;
+  const at = all ? all.boxes.findIndex((d) => sameVec(d, target)) : -1;
   if (!all || at < 0) return null;
   const items: PackedItem[] = [];
   const place = (set: TileSet, i: number, origin: Vec3): void => {
