@@ -250,6 +250,8 @@ describe("a worker is killed in the middle of a nesting run", () => {
       const runId = created.body.run?.id ?? created.body.id ?? created.body.runId;
       await until("the run to start", async () => (await testDb()("nesting_runs").where({ id: runId }).first("status")).status === "running", 60_000);
       killGroup(worker, "SIGKILL");
+      // A progress write the worker sent just before it died may still commit: let it land first.
+      await sleep(500);
       const h1 = (await testDb()("nesting_runs").where({ id: runId }).first("heartbeat_at")).heartbeat_at as Date;
       await sleep(2500);
       const row = await testDb()("nesting_runs").where({ id: runId }).first("status", "heartbeat_at");
