@@ -1,4 +1,4 @@
-import { EPS, atLeastSorted, fromMinMax, grow, orientations, overlaps, separate, type Box } from "./geometry";
+import { EPS, atLeastSorted, fromMinMax, grow, orientations, overlappingPairs, overlaps, separate, type Box } from "./geometry";
 import type { Block, Part, Plan, Problem, Vec3 } from "./types";
 
 const fmt = (v: readonly number[]): string => `[${v.map((x) => +x.toFixed(4)).join(", ")}]`;
@@ -82,10 +82,8 @@ export function validatePlan(problem: Problem, plan: Plan): string[] {
 
   for (const [blockId, list] of pieces) {
     // Rule 2: pieces grown by kerf/2 must not overlap.
-    for (let i = 0; i < list.length; i++)
-      for (let j = i + 1; j < list.length; j++)
-        if (overlaps(grow(list[i]!, kerf / 2), grow(list[j]!, kerf / 2)))
-          errors.push(`${list[i]!.name} and ${list[j]!.name} in block ${blockId}: less than the kerf ${kerf} apart`);
+    for (const [i, j] of overlappingPairs(list.map((p) => grow(p, kerf / 2))))
+      errors.push(`${list[i]!.name} and ${list[j]!.name} in block ${blockId}: less than the kerf ${kerf} apart`);
     if (layout === "free") continue;
     const { stuck } = separate(list, kerf, layout);
     for (const idx of stuck)

@@ -1,5 +1,7 @@
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { atLeastSorted, grow, isLayer, orientations, overlaps, separate } from "@/lib/nesting/geometry";
+import { atLeastSorted, grow, isLayer, orientations, overlappingPairs, overlaps, separate, type Box } from "@/lib/nesting/geometry";
+import type { Vec3 } from "@/lib/nesting/types";
 
 describe("geometry", () => {
   it("lists the orientations each rotate rule allows", () => {
@@ -34,5 +36,34 @@ describe("geometry", () => {
     // The same boards all span z = [0, 5]: one layer, fine for "layers".
     expect(isLayer(pinwheel, [0, 1, 2, 3])).toBe(true);
     expect(separate(pinwheel, 0, "layers").stuck).toHaveLength(0);
+  });
+
+  it("finds exactly the overlapping pairs every-pair comparison finds, through the grid too (fast-check)", () => {
+    const every = (boxes: Box[]): [number, number][] => {
+      const out: [number, number][] = [];
+      for (let i = 0; i < boxes.length; i++) for (let j = i + 1; j < boxes.length; j++) if (overlaps(boxes[i]!, boxes[j]!)) out.push([i, j]);
+      return out;
+    };
+    // Boxes on a coarse lattice so faces touch and coincide often; a few span most of the space.
+    const side = fc.oneof({ weight: 6, arbitrary: fc.integer({ min: 1, max: 6 }) }, { weight: 1, arbitrary: fc.integer({ min: 20, max: 60 }) }, { weight: 1, arbitrary: fc.constant(0) });
+    const box = fc.record({ origin: fc.tuple(fc.integer({ min: 0, max: 60 }), fc.integer({ min: 0, max: 60 }), fc.integer({ min: 0, max: 60 })), size: fc.tuple(side, side, side) });
+    fc.assert(
+      fc.property(fc.oneof(fc.array(box, { maxLength: 64 }), fc.array(box, { minLength: 65, maxLength: 400, size: "max" })), fc.constantFrom(0, 0.5), (raw, shift) => {
+        const boxes: Box[] = raw.map((b) => ({ origin: b.origin.map((v) => v * shift + v) as Vec3, size: b.size.map((v) => v + v * shift) as Vec3 }));
+        expect(overlappingPairs(boxes)).toEqual(every(boxes));
+      }),
+      { numRuns: 200 },
+    );
+  });
+
+  it("separates pieces that only touch and catches one overlap among 20,000 cubes", () => {
+    const cubes: Box[] = [];
+    for (let x = 0; x < 40; x++) for (let y = 0; y < 25; y++) for (let z = 0; z < 20; z++) cubes.push({ origin: [x * 10, y * 10, z * 10], size: [10, 10, 10] });
+    expect(cubes).toHaveLength(20_000);
+    expect(overlappingPairs(cubes)).toEqual([]);
+    // Nudge one cube 0.1 mm into its neighbour along y: exactly that pair, lower index first.
+    const k = 1 * 25 * 20 + 3 * 20 + 7;
+    cubes[k] = { origin: [10, 30.1 - 0.2, 70], size: [10, 10, 10] };
+    expect(overlappingPairs(cubes)).toEqual([[k - 20, k]]);
   });
 });

@@ -52,6 +52,20 @@ describe("rule 2: kerf between pieces", () => {
     // Pieces closer than the kerf cannot be parted by a through cut either.
     expect(errs.slice(1)).toEqual([expect.stringContaining("cannot be separated by through cuts")]);
   });
+  it("checks a plan of 2,400 pieces in one block and names the one pair closer than the kerf", () => {
+    // 2,400 cubes a kerf apart fill most of a trimmed block: the check goes through its grid.
+    const big = problem({ settings: { kerf: 2, trim: 5, layout: "guillotine" }, blocks: [{ id: "G", size: [500, 250, 50] }], parts: [{ id: "c", size: [10, 10, 10], quantity: 2400, rotate: "none" }] });
+    const cubes: Placement[] = [];
+    for (let x = 0; x < 40; x++) for (let y = 0; y < 20; y++) for (let z = 0; z < 3; z++) cubes.push(at([5 + 12 * x, 5 + 12 * y, 5 + 12 * z], [10, 10, 10], "c", "G"));
+    const grid = plan(cubes, { stats: { ...good.stats, partVolume: 2400 * 1000 } });
+    expect(validatePlan(big, grid)).toEqual([]);
+    // One cube 1 mm closer to its neighbour along x than the kerf allows.
+    const k = 10 * 60 + 4 * 3 + 1;
+    const moved = cubes.map((c, i) => (i === k ? { ...c, origin: [c.origin[0] - 1, c.origin[1], c.origin[2]] as [number, number, number] } : c));
+    const errs = validatePlan(big, { ...grid, placements: moved });
+    expect(errs[0]).toBe(`placements[${k - 60}] and placements[${k}] in block G: less than the kerf 2 apart`);
+    expect(errs.filter((e) => e.includes("less than the kerf"))).toHaveLength(1);
+  });
   it("refuses an offcut closer than the kerf to a part", () => {
     const bad = plan([at([5, 5, 5]), at([47, 5, 5])], { offcuts: [{ block: "A", origin: [5, 35.5, 5], size: [80, 40, 40] }] });
     expect(validatePlan(base, bad).join()).toContain("offcuts[0] in block A: less than the kerf 2 apart");
