@@ -171,7 +171,13 @@ export interface Separation {
  * separate([{ origin: [0,0,0], size: [1,1,1] }, { origin: [2,0,0], size: [1,1,1] }], 1, "guillotine")
  * // → { cuts: [{ axis: "x", at: 1 }], stuck: [] }
  */
-export function separate(boxes: readonly Box[], kerf: number, mode: SeparationMode): Separation {
+export function separate(
+  boxes: readonly Box[],
+  kerf: number,
+  mode: SeparationMode,
+  /** Told of every split: the pieces split (the same array as an earlier `groups` entry, or the first set), the axis, the groups and the cuts between them. */
+  onSplit?: (parent: readonly number[], axis: number, groups: readonly number[][], at: readonly number[]) => void,
+): Separation {
   const cuts: Cut[] = [];
   const stuck: number[][] = [];
   const stack: number[][] = [boxes.map((_, i) => i)];
@@ -182,6 +188,7 @@ export function separate(boxes: readonly Box[], kerf: number, mode: SeparationMo
     for (let a = 0; a < 3 && !done; a++) {
       const { groups, cuts: at } = splitAlong(boxes, idx, a, kerf);
       if (groups.length < 2) continue;
+      onSplit?.(idx, a, groups, at);
       for (const c of at) cuts.push({ axis: AXIS_NAMES[a]!, at: c });
       for (let g = groups.length - 1; g >= 0; g--) stack.push(groups[g]!);
       done = true;

@@ -26,6 +26,39 @@ describe("the piece each through cut crosses", () => {
   });
 });
 
+describe("which region each cut of a plan belongs to", () => {
+  // Left part: a y cut, then its upper piece split by a z cut; right part: its own z cut at the same
+  // height. A 152×100×10 block, kerf 2 — the order the nesting core derives (separate).
+  const pieces = [
+    box([0, 0, 0], [50, 30, 10]),
+    box([0, 32, 0], [50, 100, 4]),
+    box([0, 32, 6], [50, 100, 10]),
+    box([52, 0, 0], [152, 100, 4]),
+    box([52, 0, 6], [152, 100, 10]),
+  ];
+  const cuts = [{ axis: "x" as const, at: 50 }, { axis: "y" as const, at: 30 }, { axis: "z" as const, at: 4 }, { axis: "z" as const, at: 4 }];
+
+  it("gives cut 3 the left part's upper piece and cut 4 the right part, as they are made", () => {
+    // Replaying cuts by "first region split" gave cut 3 to the right part (it too has pieces on both
+    // sides of z = 4), so the sheet numbered the two z cuts the wrong way round.
+    const r = cutRegions([152, 100, 10], cuts, 0, 2, pieces);
+    expect(r.map((c) => [c.n, c.axis, c.region])).toEqual([
+      [1, "x", box([0, 0, 0], [152, 100, 10])],
+      [2, "y", box([0, 0, 0], [50, 100, 10])],
+      [3, "z", box([0, 32, 0], [50, 100, 10])],
+      [4, "z", box([52, 0, 0], [152, 100, 10])],
+    ]);
+    expect(r.map(travelAcross)).toEqual([10, 10, 50, 100]);
+  });
+
+  it("replays a cut list made in another order: each cut takes the first region it splits", () => {
+    const other = [{ axis: "z" as const, at: 4 }, { axis: "x" as const, at: 50 }];
+    const two = [box([0, 0, 0], [50, 100, 4]), box([52, 0, 0], [152, 100, 4]), box([0, 0, 6], [152, 100, 10])];
+    const r = cutRegions([152, 100, 10], other, 0, 2, two);
+    expect(r.map((c) => c.region)).toEqual([box([0, 0, 0], [152, 100, 10]), box([0, 0, 0], [152, 100, 4])]);
+  });
+});
+
 describe("pieces no cut can free", () => {
   const at = (block: string, origin: V3, size: V3) => ({ block, origin, size });
   it("counts the five pieces of a pinwheel (the textbook non-guillotine pattern; common knowledge, no source) with a lower middle piece, and none of a stack of slabs", () => {
