@@ -4,7 +4,7 @@
  * offcuts outlined, and the through cuts numbered in the order they are made.
  * Pure markup: renders on the server and in the browser alike.
  */
-import { cutRegions } from "@/lib/planning/cut-regions";
+import { cutRegions, type RegionCut } from "@/lib/planning/cut-regions";
 
 type V3 = [number, number, number];
 
@@ -26,7 +26,10 @@ const PALETTE = ["#d7ecee", "#e0efe3", "#f6ecd2", "#efe0f3", "#e3e7f6", "#fbe6da
 /** A view at least this many times longer than high takes a whole row (drawn larger). */
 const LONG_VIEW = 2.5;
 
-function View({ title, a, b, props, only, width = 360, className = "" }: { title: string; a: 0 | 1 | 2; b: 0 | 1 | 2; props: PlanViewProps; only?: PlanViewProps["placements"]; width?: number; className?: string }) {
+/** Drawing coordinates to a tenth of a pixel: the same picture, far shorter markup for big plans. */
+const px1 = (v: number): number => Math.round(v * 10) / 10;
+
+function View({ title, a, b, props, regions, only, width = 360, className = "" }: { title: string; a: 0 | 1 | 2; b: 0 | 1 | 2; props: PlanViewProps; regions: RegionCut[]; only?: PlanViewProps["placements"]; width?: number; className?: string }) {
   const { block } = props;
   const W = block.size[a];
   const H = block.size[b];
@@ -34,13 +37,20 @@ function View({ title, a, b, props, only, width = 360, className = "" }: { title
   const w = W * scale;
   const h = H * scale;
   const pad = 22;
-  const X = (v: number) => pad + v * scale;
-  const Y = (v: number) => pad + h - v * scale; // up is up
-  const placements = only ?? props.placements;
+  const X = (v: number) => px1(pad + v * scale);
+  const Y = (v: number) => px1(pad + h - v * scale); // up is up
   const nameIndex = new Map<string, number>();
   for (const p of props.placements) if (!nameIndex.has(p.part)) nameIndex.set(p.part, nameIndex.size);
-  const pieces = [...props.placements, ...props.offcuts].map((p) => ({ min: p.origin, max: p.origin.map((v, i) => v + p.size[i]!) as V3 }));
-  const cutAxes = cutRegions(block.size, props.cuts, props.trim ?? 0, props.kerf, pieces).filter((c) => AX[c.axis] === a || AX[c.axis] === b);
+  // Pieces stacked behind one another along the line of sight draw the same rectangle: draw it once
+  // (a block of 4,000 small parts has a few hundred columns seen from the top).
+  const seen = new Set<string>();
+  const placements = (only ?? props.placements).filter((p) => {
+    const key = `${p.part}|${px1(p.origin[a] * scale)}|${px1(p.origin[b] * scale)}|${px1(p.size[a] * scale)}|${px1(p.size[b] * scale)}`;
+    if (seen.has(key)) return false;
+    seen.add(key);
+    return true;
+  });
+  const cutAxes = regions.filter((c) => AX[c.axis] === a || AX[c.axis] === b);
   const labelled = props.cuts.length <= 30;
   return (
     <figure className={`space-y-1 ${className}`}>
@@ -48,19 +58,19 @@ function View({ title, a, b, props, only, width = 360, className = "" }: { title
       <svg viewBox={`0 0 ${w + pad * 2} ${h + pad * 2}`} className="w-full" style={{ maxWidth: w + pad * 2 }} role="img" aria-label={`${title} of ${block.id}`}>
         <rect x={X(0)} y={Y(H)} width={w} height={h} fill="#f7f5ef" stroke="#1c2a2e" strokeWidth={1.5} />
         {props.offcuts.map((o, i) => (
-          <rect key={`o${i}`} x={X(o.origin[a])} y={Y(o.origin[b] + o.size[b])} width={o.size[a] * scale} height={o.size[b] * scale} fill="#e0efe3" fillOpacity={0.5} stroke="#3b7a4a" strokeDasharray="5 3" strokeWidth={1.2} />
+          <rect key={`o${i}`} x={X(o.origin[a])} y={Y(o.origin[b] + o.size[b])} width={px1(o.size[a] * scale)} height={px1(o.size[b] * scale)} fill="#e0efe3" fillOpacity={0.5} stroke="#3b7a4a" strokeDasharray="5 3" strokeWidth={1.2} />
         ))}
         {placements.map((p, i) => {
           const px = X(p.origin[a]);
           const py = Y(p.origin[b] + p.size[b]);
-          const pw = p.size[a] * scale;
-          const ph = p.size[b] * scale;
+          const pw = px1(p.size[a] * scale);
+          const ph = px1(p.size[b] * scale);
           const label = props.partName(p.part);
           return (
             <g key={`p${i}`}>
               <rect x={px} y={py} width={pw} height={ph} fill={PALETTE[(nameIndex.get(p.part) ?? 0) % PALETTE.length]} fillOpacity={0.85} stroke="#1f6c75" strokeWidth={0.8} />
               {pw > 34 && ph > 11 && (
-                <text x={px + pw / 2} y={py + ph / 2} fontSize={Math.min(10, ph * 0.6)} textAnchor="middle" dominantBaseline="middle" fill="#16525a">
+                <text x={px1(px + pw / 2)} y={px1(py + ph / 2)} fontSize={px1(Math.min(10, ph * 0.6))} textAnchor="middle" dominantBaseline="middle" fill="#16525a">
                   {label.length > pw / 6 ? label.slice(0, Math.max(2, Math.floor(pw / 6))) + "…" : label}
                 </text>
               )}
@@ -68,7 +78,7 @@ function View({ title, a, b, props, only, width = 360, className = "" }: { title
           );
         })}
         {block.defects.map((d, i) => (
-          <rect key={`d${i}`} x={X(d.min[a])} y={Y(d.max[b])} width={(d.max[a] - d.min[a]) * scale} height={(d.max[b] - d.min[b]) * scale} fill="#a8322a" fillOpacity={0.35} stroke="#a8322a" strokeWidth={1} />
+          <rect key={`d${i}`} x={X(d.min[a])} y={Y(d.max[b])} width={px1((d.max[a] - d.min[a]) * scale)} height={px1((d.max[b] - d.min[b]) * scale)} fill="#a8322a" fillOpacity={0.35} stroke="#a8322a" strokeWidth={1} />
         ))}
         {cutAxes.map((c) => {
           const pos = c.at + props.kerf / 2;
@@ -101,6 +111,9 @@ const VIEWS: [string, 0 | 1 | 2, 0 | 1 | 2][] = [
 ];
 
 export function PlanView(props: PlanViewProps) {
+  // Which piece of foam each cut crosses: worked out once for all the views of the block.
+  const pieces = [...props.placements, ...props.offcuts].map((p) => ({ min: p.origin, max: p.origin.map((v, i) => v + p.size[i]!) as V3 }));
+  const regions = cutRegions(props.block.size, props.cuts, props.trim ?? 0, props.kerf, pieces);
   const layers = new Map<string, PlanViewProps["placements"]>();
   for (const p of props.placements) {
     const key = `${p.origin[2]}|${p.origin[2] + p.size[2]}`;
@@ -114,7 +127,7 @@ export function PlanView(props: PlanViewProps) {
       <div className="grid gap-4 sm:grid-cols-2">
         {VIEWS.map(([title, a, b]) => {
           const long = props.block.size[a] >= LONG_VIEW * props.block.size[b];
-          return <View key={title} title={title} a={a} b={b} props={props} width={long ? 960 : 420} className={long ? "sm:col-span-2" : ""} />;
+          return <View key={title} title={title} a={a} b={b} props={props} regions={regions} width={long ? 960 : 420} className={long ? "sm:col-span-2" : ""} />;
         })}
       </div>
       {props.showLayers !== false && sorted.length > 1 && (
@@ -123,7 +136,7 @@ export function PlanView(props: PlanViewProps) {
           <div className="mt-3 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
             {sorted.map(([key, ps], i) => {
               const [lo, hi] = key.split("|").map(Number);
-              return <View key={key} title={`Layer ${i + 1}: z ${Math.round(lo!)}–${Math.round(hi!)} mm`} a={0} b={1} props={props} only={ps} width={300} />;
+              return <View key={key} title={`Layer ${i + 1}: z ${Math.round(lo!)}–${Math.round(hi!)} mm`} a={0} b={1} props={props} regions={regions} only={ps} width={300} />;
             })}
           </div>
         </details>

@@ -41,4 +41,16 @@ describe("plan views", () => {
     expect(v.some((x) => x.wholeRow)).toBe(false);
     expect(Math.max(...v.map((x) => x.width))).toBeLessThan(500);
   });
+
+  it("draws pieces stacked along the line of sight once per view, and every piece of each layer", () => {
+    // 10 × 10 × 4 cubes of 50 mm, a kerf apart: 100 columns seen from the top, 40 from the front and the side.
+    const placements: PlanViewProps["placements"] = [];
+    for (let x = 0; x < 10; x++) for (let y = 0; y < 10; y++) for (let z = 0; z < 4; z++) placements.push({ part: "c", origin: [x * 52, y * 52, z * 52], size: [50, 50, 50] });
+    const html = renderToStaticMarkup(
+      createElement(PlanView, { block: { id: "G", size: [520, 520, 210], defects: [] }, placements, offcuts: [], cuts: [], kerf: 2, partName: () => "Cube", showLayers: true }),
+    );
+    const figures = [...html.matchAll(/<figure[^>]*><figcaption[^>]*>([^<]+)<\/figcaption>(.*?)<\/figure>/g)].map((m) => ({ title: m[1]!, rects: (m[2]!.match(/<rect /g) ?? []).length - 1 }));
+    expect(figures.map((f) => f.rects)).toEqual([100, 40, 40, 100, 100, 100, 100]);
+    expect(figures[3]!.title).toBe("Layer 1: z 0–50 mm");
+  });
 });
