@@ -29,7 +29,7 @@ const LONG_VIEW = 2.5;
 /** Drawing coordinates to a tenth of a pixel: the same picture, far shorter markup for big plans. */
 const px1 = (v: number): number => Math.round(v * 10) / 10;
 
-function View({ title, a, b, props, regions, only, width = 360, className = "" }: { title: string; a: 0 | 1 | 2; b: 0 | 1 | 2; props: PlanViewProps; regions: RegionCut[]; only?: PlanViewProps["placements"]; width?: number; className?: string }) {
+function View({ title, a, b, props, regions, only, zRange, width = 360, className = "" }: { title: string; a: 0 | 1 | 2; b: 0 | 1 | 2; props: PlanViewProps; regions: RegionCut[]; only?: PlanViewProps["placements"]; zRange?: [number, number]; width?: number; className?: string }) {
   const { block } = props;
   const W = block.size[a];
   const H = block.size[b];
@@ -50,8 +50,18 @@ function View({ title, a, b, props, regions, only, width = 360, className = "" }
     seen.add(key);
     return true;
   });
-  const cutAxes = regions.filter((c) => AX[c.axis] === a || AX[c.axis] === b);
   const labelled = props.cuts.length <= 30;
+  // A layer shows the cuts through its own height; unnumbered, a cut line drawn already is not drawn again.
+  const drawn = new Set<string>();
+  const cutAxes = regions.filter((c) => {
+    if (AX[c.axis] !== a && AX[c.axis] !== b) return false;
+    if (zRange && (c.region.max[2]! <= zRange[0] || c.region.min[2]! >= zRange[1])) return false;
+    if (labelled) return true;
+    const key = `${c.axis}|${px1(c.at * scale)}|${px1(c.region.min[a]! * scale)}|${px1(c.region.max[a]! * scale)}|${px1(c.region.min[b]! * scale)}|${px1(c.region.max[b]! * scale)}`;
+    if (drawn.has(key)) return false;
+    drawn.add(key);
+    return true;
+  });
   return (
     <figure className={`space-y-1 ${className}`}>
       <figcaption className="text-xs font-medium uppercase tracking-wide text-ink-faint">{title}</figcaption>
@@ -136,7 +146,7 @@ export function PlanView(props: PlanViewProps) {
           <div className="mt-3 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
             {sorted.map(([key, ps], i) => {
               const [lo, hi] = key.split("|").map(Number);
-              return <View key={key} title={`Layer ${i + 1}: z ${Math.round(lo!)}–${Math.round(hi!)} mm`} a={0} b={1} props={props} regions={regions} only={ps} width={300} />;
+              return <View key={key} title={`Layer ${i + 1}: z ${Math.round(lo!)}–${Math.round(hi!)} mm`} a={0} b={1} props={props} regions={regions} only={ps} zRange={[lo!, hi!]} width={300} />;
             })}
           </div>
         </details>

@@ -2,6 +2,7 @@ import { createElement } from "react";
 import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it } from "vitest";
 import { PlanView, type PlanViewProps } from "@/components/plans/plan-view";
+import { separate } from "@/lib/nesting/geometry";
 
 const render = (size: [number, number, number]) => {
   const props: PlanViewProps = {
@@ -52,5 +53,23 @@ describe("plan views", () => {
     const figures = [...html.matchAll(/<figure[^>]*><figcaption[^>]*>([^<]+)<\/figcaption>(.*?)<\/figure>/g)].map((m) => ({ title: m[1]!, rects: (m[2]!.match(/<rect /g) ?? []).length - 1 }));
     expect(figures.map((f) => f.rects)).toEqual([100, 40, 40, 100, 100, 100, 100]);
     expect(figures[3]!.title).toBe("Layer 1: z 0–50 mm");
+  });
+
+  it("draws in each layer only the cuts through that layer", () => {
+    // Four layers of 10 × 10 cubes, each layer shifted 5 mm: the block is first cut into layers
+    // (no x or y cut runs through all of them), then each layer into columns and cubes.
+    const placements: PlanViewProps["placements"] = [];
+    for (let z = 0; z < 4; z++) for (let x = 0; x < 10; x++) for (let y = 0; y < 10; y++) placements.push({ part: "c", origin: [x * 52 + 5 * z, y * 52 + 5 * z, z * 52], size: [50, 50, 50] });
+    const { cuts, stuck } = separate(placements, 2, "guillotine");
+    expect(stuck).toEqual([]);
+    expect(cuts.slice(0, 3).map((c) => c.axis)).toEqual(["z", "z", "z"]);
+    const html = renderToStaticMarkup(
+      createElement(PlanView, { block: { id: "L", size: [540, 540, 210], defects: [] }, placements, offcuts: [], cuts, kerf: 2, partName: () => "Cube", showLayers: true }),
+    );
+    const lines = [...html.matchAll(/<figure[^>]*><figcaption[^>]*>[^<]+<\/figcaption>(.*?)<\/figure>/g)].map((m) => (m[1]!.match(/<line /g) ?? []).length);
+    // Each layer: 9 cuts across x, then 9 across y in each of its 10 slabs.
+    expect(lines.slice(3)).toEqual([99, 99, 99, 99]);
+    // The top view shows the x and y cuts of all four layers (they lie 5 mm apart).
+    expect(lines[0]).toBe(4 * 99);
   });
 });
