@@ -11,6 +11,7 @@ import { cutEstimate } from "@/lib/planning/gcode";
 import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
+import { cutRuns, groupPlacements } from "@/lib/planning/sheet";
 
 export const metadata: Metadata = { title: "Cut sheet" };
 
@@ -64,15 +65,33 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
             <div>
               <h3 className="text-sm font-semibold">Through cuts, in order</h3>
               <ol className="mt-1 list-decimal pl-6 text-sm">
-                {(plan.cuts[b.id] ?? []).map((c, i) => <li key={i}>across {c.axis === "x" ? "the length" : c.axis === "y" ? "the width" : "the height"}, kerf starting at {mm(c.at)} mm</li>)}
+                {cutRuns(plan.cuts[b.id] ?? []).map((r) => {
+                  const across = r.axis === "x" ? "the length" : r.axis === "y" ? "the width" : "the height";
+                  return r.to === r.from ? (
+                    <li key={r.from} value={r.from}>across {across}, kerf starting at {mm(r.first)} mm</li>
+                  ) : (
+                    <li key={r.from} value={r.from}>
+                      <span className="font-medium">cuts {r.from}–{r.to}</span>: across {across},{" "}
+                      {r.step > 0 ? `kerf starting at ${mm(r.first)} mm, then every ${mm(r.step)} mm to ${mm(r.last)} mm (${r.to - r.from + 1} cuts)` : `kerf starting at ${mm(r.first)} mm in each of the next ${r.to - r.from + 1} pieces`}
+                    </li>
+                  );
+                })}
               </ol>
               <p className="mt-1 text-xs text-ink-faint">About {Math.round(estimate.minutes)} min of cutting ({(estimate.lengthMm / 1000).toFixed(1)} m of wire travel across the pieces each cut splits).</p>
               <h3 className="mt-3 text-sm font-semibold">Parts</h3>
               <table className="text-sm">
-                <thead><tr><th>Part</th><th>At (x, y, z mm)</th><th>Size (mm)</th></tr></thead>
+                <thead><tr><th>Part</th><th>Count</th><th>Size (mm)</th><th>At (x, y, z mm)</th></tr></thead>
                 <tbody>
-                  {plan.placements.filter((p) => p.block === b.id).map((p, i) => (
-                    <tr key={i} className="border-t border-bead/60"><td>{partName(p.part)}</td><td>{p.origin.map(mm).join(", ")}</td><td>{dims(p.size)}</td></tr>
+                  {groupPlacements(plan.placements.filter((p) => p.block === b.id)).map((l, i) => (
+                    <tr key={i} className="border-t border-bead/60">
+                      <td>{partName(l.part)}</td>
+                      <td className="tabular-nums">{l.count}</td>
+                      <td>{dims(l.size)}</td>
+                      <td>
+                        {l.origins.slice(0, 4).map((o) => o.map(mm).join(", ")).join("; ")}
+                        {l.count > 4 && <span className="text-ink-faint"> and {l.count - 4} more (see the drawing)</span>}
+                      </td>
+                    </tr>
                   ))}
                 </tbody>
               </table>
