@@ -80,15 +80,15 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
               <p className="mt-1 text-xs text-ink-faint">About {Math.round(estimate.minutes)} min of cutting ({(estimate.lengthMm / 1000).toFixed(1)} m of wire travel across the pieces each cut splits).</p>
               <h3 className="mt-3 text-sm font-semibold">Parts</h3>
               <table className="text-sm">
-                <thead><tr><th>Part</th><th>Count</th><th>Size (mm)</th><th>At (x, y, z mm)</th></tr></thead>
+                <thead><tr className="text-left [&>th]:pr-4 [&>th]:font-medium"><th>Part</th><th className="text-right">Count</th><th>Size (mm)</th><th>At (x, y, z mm)</th></tr></thead>
                 <tbody>
                   {groupPlacements(plan.placements.filter((p) => p.block === b.id)).map((l, i) => (
-                    <tr key={i} className="border-t border-bead/60">
+                    <tr key={i} className="border-t border-bead/60 align-top [&>td]:pr-4">
                       <td>{partName(l.part)}</td>
-                      <td className="tabular-nums">{l.count}</td>
-                      <td>{dims(l.size)}</td>
+                      <td className="text-right tabular-nums">{l.count}</td>
+                      <td className="whitespace-nowrap">{dims(l.size)}</td>
                       <td>
-                        {l.origins.slice(0, 4).map((o) => o.map(mm).join(", ")).join("; ")}
+                        {l.origins.slice(0, 4).map((o) => `(${o.map(mm).join(", ")})`).join(" · ")}
                         {l.count > 4 && <span className="text-ink-faint"> and {l.count - 4} more (see the drawing)</span>}
                       </td>
                     </tr>
