@@ -12,6 +12,7 @@ import { pack3D, RotationType } from "binpackingjs/3d";
 import { nest, nestSync, validatePlan, type Plan, type Problem, type Vec3 } from "@/lib/nesting";
 import { benchDataDir, brPart, load2DClass, loadBr, loadMpv, loadZeroWaste, problemOf, readCsv } from "./lib-bench/loaders";
 import { perfectPacking, shopCase } from "./lib-bench/generate";
+import { cutRegions, piecesOf } from "@/lib/planning/cut-regions";
 
 const args = process.argv.slice(2);
 const flag = (name: string): boolean => args.includes(name);
@@ -309,6 +310,56 @@ async function benchShop(): Promise<void> {
   results.shop = { firstPlanMs: firstMs, firstProgressMs: firstReport, bestMs: ms, blocksUsed: plan.stats.blocksUsed, firstBlocks: first.stats.blocksUsed, yield: plan.stats.yield, firstYield: first.stats.yield, placed, peakRssMB: rss, lowerBound: plan.stats.lowerBoundBlocks };
 }
 
+/**
+ * A large order: 20,000 small inserts and 2,000 corner blocks into ten 1200 × 600 × 500 blocks
+ * (kerf 1.5, trim 5). Times the search, the validator (kerf between every pair of close pieces)
+ * and the cut regions the plan page, cut sheet and run summary draw on — each grows with the
+ * number of pieces, so these stay in the minutes unless the work stays near n log n.
+ */
+async function benchLarge(): Promise<void> {
+  const problem: Problem = {
+    version: 1,
+    settings: { kerf: 1.5, trim: 5, defectMargin: 10, minOffcut: [100, 100, 20], layout: "guillotine", timeLimitMs: 3000 },
+    blocks: Array.from({ length: 10 }, (_, i) => ({ id: `L${i + 1}`, size: [1200, 600, 500] as Vec3, cost: 90, offcut: false, trim: 5, defects: [] })),
+    parts: [
+      { id: "insert", size: [40, 25, 12], quantity: 20_000, rotate: "any" },
+      { id: "corner", size: [30, 30, 30], quantity: 2_000, rotate: "any" },
+    ],
+  };
+  const t0 = performance.now();
+  const plan = await nest(problem, { seed: SEED, now: () => performance.now() });
+  const nestMs = performance.now() - t0;
+  const t1 = performance.now();
+  const errs = validatePlan(problem, plan);
+  const validateMs = performance.now() - t1;
+  if (errs.length > 0) {
+    invalid++;
+    invalidNotes.push(`large order: ${errs.slice(0, 3).join("; ")}`);
+  }
+  const t2 = performance.now();
+  let cuts = 0;
+  for (const b of problem.blocks) {
+    const c = plan.cuts[b.id];
+    if (!c?.length) continue;
+    cuts += cutRegions(b.size, c, b.trim, problem.settings.kerf, piecesOf(plan, b.id)).length;
+  }
+  const regionsMs = performance.now() - t2;
+  const rss = process.resourceUsage().maxRSS / 1024;
+  const row: Row = {
+    set: "Large order: 22,000 parts, 10 blocks",
+    instances: 1,
+    blockyard: `${plan.stats.blocksUsed} blocks`,
+    ratio: `yield ${(100 * plan.stats.yield).toFixed(1)}%`,
+    peer: `validate ${validateMs.toFixed(0)} ms`,
+    peerRatio: `LB ${plan.stats.lowerBoundBlocks}`,
+    msPerInstance: nestMs,
+    note: `${plan.placements.length}/22000 placed; ${cuts} cuts, their regions ${regionsMs.toFixed(0)} ms; peak RSS ${rss.toFixed(0)} MB (whole process)`,
+  };
+  rows.push(row);
+  printRow(row);
+  results.large = { nestMs, validateMs, regionsMs, cuts, blocksUsed: plan.stats.blocksUsed, placed: plan.placements.length, peakRssMB: rss };
+}
+
 async function main(): Promise<void> {
   const dir = benchDataDir(opt("--data"));
   const t0 = performance.now();
@@ -323,6 +374,7 @@ async function main(): Promise<void> {
   }
   if (want("perfect")) benchPerfect();
   if (want("shop")) await benchShop();
+  if (want("large")) await benchLarge();
   console.log("LB: the simple bound computed beside the data; bound*: Blockyard's own (volume, large-item and conservative-scale bounds, lib/nesting/bounds.ts) — no packing can use fewer blocks");
   console.log(`invalid plans (or below the bound): ${invalid}${invalidNotes.length ? `\n  ${invalidNotes.slice(0, 10).join("\n  ")}` : ""}`);
   console.log(`total time ${((performance.now() - t0) / 1000).toFixed(0)} s`);

@@ -16,6 +16,9 @@ function splitBiggest(f: Box, d: Vec3): Box[] {
   return best;
 }
 
+/** A block with more pieces than this is not emptied piece by piece (quadratic in pieces and leftovers). */
+const MAX_PIECES_MOVED = 500;
+
 /**
  * Tries to empty the least-filled blocks by moving their pieces into the leftover boxes of the
  * other blocks (each leftover is a region of that block's cut tree, so cuts still separate
@@ -27,6 +30,11 @@ export function eliminateBlocks(model: Model, fills: readonly BlockFill[]): Bloc
     const order = [...current].sort((a, b) => a.packedVolume - b.packedVolume);
     let improved = false;
     for (const weak of order.slice(0, 3)) {
+      // Piece by piece into the smallest leftover that takes it is slow for thousands of pieces, and
+      // hopeless when the leftovers of the others hold less room than the weak block's parts.
+      if (weak.items.length > MAX_PIECES_MOVED) continue;
+      const room = current.reduce((sum, f) => (f === weak ? sum : f.leftovers.reduce((s, l) => s + l.size[0] * l.size[1] * l.size[2], sum)), 0);
+      if (room < weak.packedVolume) continue;
       const others = current.filter((f) => f !== weak).map((f) => ({ ...f, items: [...f.items], leftovers: [...f.leftovers] }));
       const pieces = [...weak.items].sort((a, b) => model.types[b.type]!.volume - model.types[a.type]!.volume);
       let ok = true;
