@@ -75,11 +75,22 @@ export function overlappingPairs(boxes: readonly Box[], eps = EPS): [number, num
   const cells: number[] = [];
   for (let a = 0; a < 3; a++) {
     const sides = boxes.map((b) => b.size[a]!).sort((p, q) => p - q);
-    const c = Math.max((hi[a]! - lo[a]!) / perAxis, sides[sides.length >> 1]!, 1e-9);
-    cell.push(c);
-    cells.push(Math.floor((hi[a]! - lo[a]!) / c) + 1);
+    cell.push(Math.max((hi[a]! - lo[a]!) / perAxis, sides[sides.length >> 1]!, 1e-9));
   }
   const at = (v: number, a: number): number => Math.min(cells[a]! - 1, Math.max(0, Math.floor((v - lo[a]!) / cell[a]!)));
+  // Many large boxes among small ones would each sit in thousands of cells: coarsen the grid until
+  // the boxes take at most ~32 cells each on average (at worst one cell, every pair compared).
+  for (;;) {
+    for (let a = 0; a < 3; a++) cells[a] = Math.floor((hi[a]! - lo[a]!) / cell[a]!) + 1;
+    let entries = 0;
+    for (const b of boxes) {
+      let k = 1;
+      for (let a = 0; a < 3; a++) k *= at(b.origin[a]! + b.size[a]!, a) - at(b.origin[a]!, a) + 1;
+      entries += k;
+    }
+    if (entries <= 32 * n || cells[0]! * cells[1]! * cells[2]! === 1) break;
+    for (let a = 0; a < 3; a++) cell[a]! *= 2;
+  }
   const grid = new Map<number, number[]>();
   boxes.forEach((b, i) => {
     const from = [0, 1, 2].map((a) => at(b.origin[a]!, a));

@@ -56,6 +56,18 @@ describe("geometry", () => {
     );
   });
 
+  it("keeps the grid coarse enough when large boxes lie among many small ones, and still finds every pair", () => {
+    // 400 small cubes and 200 thin sheets spanning the whole space: the sheets would each sit in
+    // every cell of a fine grid.
+    const boxes: Box[] = [];
+    for (let i = 0; i < 400; i++) boxes.push({ origin: [(i % 20) * 10, Math.floor(i / 20) * 10, 0], size: [10, 10, 10] });
+    for (let i = 0; i < 200; i++) boxes.push({ origin: [0, 0, 5 + i * 0.5], size: [200, 200, i % 7 === 0 ? 1 : 0.25] });
+    const every: [number, number][] = [];
+    for (let i = 0; i < boxes.length; i++) for (let j = i + 1; j < boxes.length; j++) if (overlaps(boxes[i]!, boxes[j]!)) every.push([i, j]);
+    expect(every.length).toBeGreaterThan(4000);
+    expect(overlappingPairs(boxes)).toEqual(every);
+  });
+
   it("separates pieces that only touch and catches one overlap among 20,000 cubes", () => {
     const cubes: Box[] = [];
     for (let x = 0; x < 40; x++) for (let y = 0; y < 25; y++) for (let z = 0; z < 20; z++) cubes.push({ origin: [x * 10, y * 10, z * 10], size: [10, 10, 10] });
