@@ -40,14 +40,22 @@ function solve(problem: Problem, label: string): { plan: Plan; ms: number } {
   const plan = nestSync(problem, { seed: SEED, now: () => performance.now() });
   const ms = performance.now() - t0;
   log(`${label}: ${plan.stats.blocksUsed} blocks, ${plan.unplaced.length} unplaced lines, ${ms.toFixed(0)} ms`);
+  check(problem, plan, label);
+  return { plan, ms };
+}
+
+/** Validates a plan, and that it does not beat its own lower bound; counts and notes one that fails. Returns the ms spent. */
+function check(problem: Problem, plan: Plan, label: string): number {
+  const t0 = performance.now();
   const errs = validatePlan(problem, plan);
+  const ms = performance.now() - t0;
   // A plan with everything placed in fewer blocks than the lower bound would prove the bound wrong.
   if (plan.unplaced.length === 0 && plan.stats.blocksUsed < plan.stats.lowerBoundBlocks) errs.push(`${plan.stats.blocksUsed} blocks, below the lower bound ${plan.stats.lowerBoundBlocks}`);
   if (errs.length > 0) {
     invalid++;
     invalidNotes.push(`${label}: ${errs.slice(0, 3).join("; ")}`);
   }
-  return { plan, ms };
+  return ms;
 }
 
 interface Row {
@@ -283,16 +291,12 @@ async function benchShop(): Promise<void> {
   const t0 = performance.now();
   const first = nestSync(problem, { seed: SEED, iterations: 1, now: () => performance.now() });
   const firstMs = performance.now() - t0;
-  const firstErrs = validatePlan(problem, first);
+  check(problem, first, "shop case, first plan");
   let firstReport: number | undefined;
   const t1 = performance.now();
   const plan = await nest(problem, { seed: SEED, now: () => performance.now(), onProgress: () => (firstReport ??= performance.now() - t1) });
   const ms = performance.now() - t1;
-  const errs = validatePlan(problem, plan);
-  if (errs.length + firstErrs.length > 0) {
-    invalid++;
-    invalidNotes.push(`shop case: ${[...firstErrs, ...errs].slice(0, 3).join("; ")}`);
-  }
+  check(problem, plan, "shop case");
   const rss = process.resourceUsage().maxRSS / 1024;
   const placed = plan.placements.length;
   const row: Row = {
@@ -329,13 +333,7 @@ async function benchLarge(): Promise<void> {
   const t0 = performance.now();
   const plan = await nest(problem, { seed: SEED, now: () => performance.now() });
   const nestMs = performance.now() - t0;
-  const t1 = performance.now();
-  const errs = validatePlan(problem, plan);
-  const validateMs = performance.now() - t1;
-  if (errs.length > 0) {
-    invalid++;
-    invalidNotes.push(`large order: ${errs.slice(0, 3).join("; ")}`);
-  }
+  const validateMs = check(problem, plan, "large order");
   const t2 = performance.now();
   let cuts = 0;
   for (const b of problem.blocks) {

@@ -405,7 +405,7 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
 }
 
 /** The table search numbers sets of pieces up to this many (20 different pieces, or more alike ones). */
-export const MAX_TABLE_STATES = 2 ** 20;
+const MAX_TABLE_STATES = 2 ** 20;
 
 /** At most this many sets that fill some box are kept (about 200 bytes each). */
 const MAX_TABLE_SETS = 200_000;

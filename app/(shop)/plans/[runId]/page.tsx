@@ -12,8 +12,7 @@ import { RunActions } from "@/components/plans/run-actions";
 import { PlanView } from "@/components/plans/plan-view";
 import { RunStatusBadge } from "@/components/plans/run-status";
 import { HotWireCaution } from "@/components/shell/safety-note";
-import { cutEstimate } from "@/lib/planning/gcode";
-import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
+import { stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
 
@@ -35,9 +34,9 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   const plan = run.plan;
   const used = plan ? run.problem.blocks.filter((b) => plan.placements.some((p) => p.block === b.id)) : [];
   const uncuttable = run.stuckBlocks;
-  const estimates = used.map((b) => cutEstimate(b.size, plan!.cuts[b.id] ?? [], settings.feedMmPerMin, 10, { trim: b.trim, kerf: run.settings.kerf, pieces: piecesOf(plan!, b.id) }));
-  const totalMinutes = estimates.reduce((s, e) => s + e.minutes, 0);
-  const totalLength = estimates.reduce((s, e) => s + e.lengthMm, 0);
+  // Wire travel was worked out once, when the run finished (the run's figures); time follows from the feed.
+  const totalLength = run.cutLengthMm ?? 0;
+  const totalMinutes = settings.feedMmPerMin > 0 ? totalLength / settings.feedMmPerMin : 0;
   const owes = [...owed.values()].some((n) => n > 0);
 
   return (
