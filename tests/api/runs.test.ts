@@ -286,5 +286,9 @@ describe("outputs", () => {
     expect(g.text).toMatch(/DRY-RUN/);
     expect(g.text.trim().split("\n").at(-1)).toBe("M2");
     expect((await cutter.get(`/api/runs/${runId}/gcode?block=NOPE`)).status).toBe(404);
+    // Without a block: a 400 that says what to send.
+    const none = await cutter.get(`/api/runs/${runId}/gcode`);
+    expect(none.status).toBe(400);
+    expect(none.body.fields).toEqual({ block: "Name the block, e.g. block=HF-1001." });
   });
 });

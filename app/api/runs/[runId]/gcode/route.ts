@@ -7,7 +7,8 @@ import { idParam } from "@/lib/params";
 import { gcode } from "@/lib/planning/gcode";
 
 type P = { runId: string };
-const query = z.object({ block: z.string().min(1, "Name the block, e.g. block=HF-1001.").max(40) });
+const NAME_BLOCK = "Name the block, e.g. block=HF-1001.";
+const query = z.object({ block: z.string({ error: NAME_BLOCK }).min(1, NAME_BLOCK).max(40, NAME_BLOCK) });
 
 /** Straight through cuts of one block of the plan as G-code (ISO 6983 subset). Dry-run first. */
 export const GET = api<P>("GET /api/runs/[runId]/gcode", async ({ req, params }) => {
