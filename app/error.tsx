@@ -9,8 +9,8 @@ export default function ErrorPage({ error, reset }: { error: Error & { digest?: 
       <LogoMark size={56} />
       <h1>Something snagged</h1>
       <p className="text-ink-soft">
-        Blockyard could not finish showing this page. Nothing you saved was lost. If the database is
-        restarting, try again in a moment.
+        Blockyard could not finish showing this page. Nothing you saved was lost. If the database is restarting, try
+        again in a moment.
       </p>
       {error.digest && <p className="text-xs text-ink-faint">Reference: {error.digest}</p>}
       <Button onClick={reset}>Try again</Button>

@@ -38,7 +38,9 @@ export interface CsvProblem {
 /** The one-line `error` of a refused import (its 422 answer is `{ error, problems, … }` like every 4xx). */
 export function problemSummary(problems: CsvProblem[]): string {
   const first = problems[0];
-  const where = first ? ` First: row ${first.row}${first.column ? `, column “${first.column}”` : ""}: ${first.message}` : "";
+  const where = first
+    ? ` First: row ${first.row}${first.column ? `, column “${first.column}”` : ""}: ${first.message}`
+    : "";
   return `The file has ${problems.length} problem${problems.length === 1 ? "" : "s"}; nothing was imported.${where}`;
 }
 
@@ -52,12 +54,21 @@ export interface ParsedCsv {
  * CSV in: bytes must be UTF-8 (a BOM is fine); headers are trimmed and lower-cased; every missing
  * required header and every unknown header is a problem on row 1.
  */
-export function parseCsv(bytes: Uint8Array, spec: { required: string[]; optional: string[]; maxRows: number }): ParsedCsv {
+export function parseCsv(
+  bytes: Uint8Array,
+  spec: { required: string[]; optional: string[]; maxRows: number },
+): ParsedCsv {
   let text: string;
   try {
     text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
   } catch {
-    return { headers: [], rows: [], problems: [{ row: 1, message: "The file is not UTF-8 text. Save it from your spreadsheet as “CSV UTF-8” and try again." }] };
+    return {
+      headers: [],
+      rows: [],
+      problems: [
+        { row: 1, message: "The file is not UTF-8 text. Save it from your spreadsheet as “CSV UTF-8” and try again." },
+      ],
+    };
   }
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   if (!text.trim()) return { headers: [], rows: [], problems: [{ row: 1, message: "The file is empty." }] };
@@ -69,9 +80,12 @@ export function parseCsv(bytes: Uint8Array, spec: { required: string[]; optional
   });
   const headers = parsed.meta.fields ?? [];
   const problems: CsvProblem[] = [];
-  for (const h of spec.required) if (!headers.includes(h)) problems.push({ row: 1, column: h, message: `The column “${h}” is missing.` });
+  for (const h of spec.required)
+    if (!headers.includes(h)) problems.push({ row: 1, column: h, message: `The column “${h}” is missing.` });
   const known = new Set([...spec.required, ...spec.optional]);
-  for (const h of headers) if (!known.has(h)) problems.push({ row: 1, column: h, message: `The column “${h || "(blank)"}” is not one Blockyard reads.` });
+  for (const h of headers)
+    if (!known.has(h))
+      problems.push({ row: 1, column: h, message: `The column “${h || "(blank)"}” is not one Blockyard reads.` });
   const seen = new Set<string>();
   for (const h of headers) {
     if (seen.has(h)) problems.push({ row: 1, column: h, message: `The column “${h}” appears twice.` });
@@ -79,12 +93,19 @@ export function parseCsv(bytes: Uint8Array, spec: { required: string[]; optional
   }
   for (const e of parsed.errors) {
     if (e.code === "TooFewFields" || e.code === "TooManyFields") {
-      problems.push({ row: (e.row ?? 0) + 2, message: e.code === "TooFewFields" ? "This row has fewer cells than the header." : "This row has more cells than the header." });
+      problems.push({
+        row: (e.row ?? 0) + 2,
+        message:
+          e.code === "TooFewFields"
+            ? "This row has fewer cells than the header."
+            : "This row has more cells than the header.",
+      });
     } else if (e.code !== "UndetectableDelimiter") {
       problems.push({ row: (e.row ?? 0) + 2, message: e.message });
     }
   }
-  if (parsed.data.length > spec.maxRows) problems.push({ row: spec.maxRows + 2, message: `At most ${spec.maxRows} rows per file.` });
+  if (parsed.data.length > spec.maxRows)
+    problems.push({ row: spec.maxRows + 2, message: `At most ${spec.maxRows} rows per file.` });
   return { headers, rows: parsed.data, problems };
 }
 
@@ -101,7 +122,10 @@ export function cellReader(problems: CsvProblem[], row: number, r: Record<string
       if (v.length > (opts.max ?? 200)) add(column, `At most ${opts.max ?? 200} characters.`);
       return v;
     },
-    number(column: string, opts: { required?: boolean; positive?: boolean; min?: number; max?: number } = {}): number | null {
+    number(
+      column: string,
+      opts: { required?: boolean; positive?: boolean; min?: number; max?: number } = {},
+    ): number | null {
       const v = r[column] ?? "";
       if (!v) {
         if (opts.required) add(column, "Required.");
@@ -123,7 +147,11 @@ export function cellReader(problems: CsvProblem[], row: number, r: Record<string
         if (opts.required) add(column, "Required.");
         return null;
       }
-      if (!/^\d{4}-\d{2}-\d{2}$/.test(v) || Number.isNaN(Date.parse(`${v}T00:00:00Z`)) || new Date(`${v}T00:00:00Z`).toISOString().slice(0, 10) !== v) {
+      if (
+        !/^\d{4}-\d{2}-\d{2}$/.test(v) ||
+        Number.isNaN(Date.parse(`${v}T00:00:00Z`)) ||
+        new Date(`${v}T00:00:00Z`).toISOString().slice(0, 10) !== v
+      ) {
         add(column, `“${v.slice(0, 20)}” is not a date (YYYY-MM-DD).`);
         return null;
       }

@@ -19,7 +19,10 @@ export const notFound = (what = "That record") => new HttpError(404, `${what} wa
 export function isDatabaseDown(e: unknown): boolean {
   const err = e as { code?: string; message?: string; name?: string } | undefined;
   if (!err) return false;
-  if (err.code && ["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "57P01", "57P03", "08006", "08001", "08003"].includes(err.code)) {
+  if (
+    err.code &&
+    ["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "57P01", "57P03", "08006", "08001", "08003"].includes(err.code)
+  ) {
     return true;
   }
   return /Knex: Timeout acquiring a connection|Connection terminated|connect ECONNREFUSED/i.test(err.message ?? "");

@@ -31,7 +31,20 @@ export const ROTATE_LABELS: Record<RotateRule, string> = {
 /** Columns of a part-list CSV, in the order the template lists them. */
 export const PART_CSV_COLUMNS = {
   required: ["name", "quantity"],
-  optional: ["length_mm", "width_mm", "height_mm", "grade", "rotate", "naca", "chord_mm", "tip_chord_mm", "span_mm", "sweep_mm", "polygon", "extrude_mm"],
+  optional: [
+    "length_mm",
+    "width_mm",
+    "height_mm",
+    "grade",
+    "rotate",
+    "naca",
+    "chord_mm",
+    "tip_chord_mm",
+    "span_mm",
+    "sweep_mm",
+    "polygon",
+    "extrude_mm",
+  ],
   maxRows: 5_000,
 };
 

@@ -41,7 +41,22 @@ export interface BlockList {
 }
 
 /** What a row of the stock table shows; the stock page sends only these fields to the browser. */
-const STOCK_ROW_FIELDS = ["id", "code", "gradeCode", "colour", "neverHotWire", "size", "volumeM3", "shown", "cutNotBefore", "fifo", "location", "lot", "defectCount", "isOffcut"] as const;
+const STOCK_ROW_FIELDS = [
+  "id",
+  "code",
+  "gradeCode",
+  "colour",
+  "neverHotWire",
+  "size",
+  "volumeM3",
+  "shown",
+  "cutNotBefore",
+  "fifo",
+  "location",
+  "lot",
+  "defectCount",
+  "isOffcut",
+] as const;
 export type StockRow = Pick<BlockSummary, (typeof STOCK_ROW_FIELDS)[number]>;
 
 /** A stock list page as the stock table needs it (`GET /api/blocks` answers a superset). */

@@ -34,7 +34,15 @@ export const DEFECT_LABELS: Record<DefectKind, string> = {
 export const MATERIALS = ["EPS", "XPS", "EPP", "PU"] as const;
 export type Material = (typeof MATERIALS)[number];
 
-export const LEDGER_KINDS = ["received", "reserved", "released", "consumed", "offcut_created", "scrapped", "adjusted"] as const;
+export const LEDGER_KINDS = [
+  "received",
+  "reserved",
+  "released",
+  "consumed",
+  "offcut_created",
+  "scrapped",
+  "adjusted",
+] as const;
 export type LedgerKind = (typeof LEDGER_KINDS)[number];
 export const LEDGER_LABELS: Record<LedgerKind, string> = {
   received: "Received",

@@ -8,7 +8,7 @@ export type LengthUnit = "mm" | "in";
 export const MM_PER_INCH = 25.4; // exact, by the 1959 international yard and pound agreement
 export const CM3_PER_BOARD_FOOT = 144 * 2.54 ** 3; // 144 in³ = 2,359.737216 cm³
 export const BOARD_FEET_PER_M3 = 1e6 / CM3_PER_BOARD_FOOT; // ≈ 423.776
-export const KG_M3_PER_LB_FT3 = 0.45359237 / (0.3048 ** 3); // ≈ 16.0185
+export const KG_M3_PER_LB_FT3 = 0.45359237 / 0.3048 ** 3; // ≈ 16.0185
 
 export const mmToIn = (mm: number) => mm / MM_PER_INCH;
 /** Inches to mm, to the micrometre (so 24 in is stored as 609.6 mm, not 609.5999999999999). */
@@ -16,7 +16,8 @@ export const inToMm = (inch: number) => Math.round(inch * MM_PER_INCH * 1000) / 
 /** A length given in `unit`, in mm. */
 export const lengthToMm = (n: number, unit: LengthUnit) => (unit === "in" ? inToMm(n) : n);
 /** A length in mm as a number in `unit` (inches rounded to `places` decimals), e.g. for a form field. */
-export const lengthInUnit = (mm: number, unit: LengthUnit, places = 3) => (unit === "in" ? Math.round(mmToIn(mm) * 10 ** places) / 10 ** places : mm);
+export const lengthInUnit = (mm: number, unit: LengthUnit, places = 3) =>
+  unit === "in" ? Math.round(mmToIn(mm) * 10 ** places) / 10 ** places : mm;
 
 /** Cubic metres from a size in mm. */
 export const cubicMetres = (x: number, y: number, z: number) => (x * y * z) / 1e9;

@@ -65,7 +65,9 @@ export async function tableCount(url: string): Promise<number> {
     throw e;
   }
   try {
-    const r = await c.query("SELECT count(*)::int AS n FROM pg_tables WHERE schemaname NOT IN ('pg_catalog', 'information_schema')");
+    const r = await c.query(
+      "SELECT count(*)::int AS n FROM pg_tables WHERE schemaname NOT IN ('pg_catalog', 'information_schema')",
+    );
     return r.rows[0].n as number;
   } finally {
     await c.end();
@@ -76,25 +78,46 @@ export async function tableCount(url: string): Promise<number> {
  * Restores `file` into database `database` on the server of `serverUrl`. Refuses a database that
  * already has tables unless `force` (then it is dropped and re-created). Returns the target's URL.
  */
-export async function restoreDatabase(file: string, serverUrl: string, database: string, opts: { force?: boolean } = {}): Promise<string> {
+export async function restoreDatabase(
+  file: string,
+  serverUrl: string,
+  database: string,
+  opts: { force?: boolean } = {},
+): Promise<string> {
   if (!fs.existsSync(file)) throw new Error(`no backup file ${file}`);
-  if (!/^[A-Za-z0-9_-]{1,63}$/.test(database)) throw new Error(`"${database}" is not a database name this tool will touch (letters, digits, _ and - only)`);
+  if (!/^[A-Za-z0-9_-]{1,63}$/.test(database))
+    throw new Error(`"${database}" is not a database name this tool will touch (letters, digits, _ and - only)`);
   const target = withDatabase(serverUrl, database);
   const tables = await tableCount(target);
   if (tables > 0 && !opts.force) {
-    throw new Error(`database ${database} is not empty (${tables} tables). Restore into another name, or add --force to replace it.`);
+    throw new Error(
+      `database ${database} is not empty (${tables} tables). Restore into another name, or add --force to replace it.`,
+    );
   }
   await admin(serverUrl, async (c) => {
     if (opts.force) await c.query(`DROP DATABASE IF EXISTS "${database}" WITH (FORCE)`);
     const exists = await c.query("SELECT 1 FROM pg_database WHERE datname = $1", [database]);
     if (!exists.rowCount) await c.query(`CREATE DATABASE "${database}"`);
   });
-  run(tool("pg_restore"), ["--no-owner", "--no-privileges", "--exit-on-error", "--single-transaction", "-d", target, file]);
+  run(tool("pg_restore"), [
+    "--no-owner",
+    "--no-privileges",
+    "--exit-on-error",
+    "--single-transaction",
+    "-d",
+    target,
+    file,
+  ]);
   return target;
 }
 
 function newestBackup(): string {
-  const files = fs.existsSync(BACKUP_DIR) ? fs.readdirSync(BACKUP_DIR).filter((f) => f.endsWith(".dump")).sort() : [];
+  const files = fs.existsSync(BACKUP_DIR)
+    ? fs
+        .readdirSync(BACKUP_DIR)
+        .filter((f) => f.endsWith(".dump"))
+        .sort()
+    : [];
   if (!files.length) throw new Error(`no backups in ${BACKUP_DIR}; run npm run db:backup first`);
   return path.join(BACKUP_DIR, files.at(-1)!);
 }
@@ -112,7 +135,9 @@ async function main() {
   if (cmd === "backup") {
     const t = Date.now();
     const file = backupDatabase(await serverUrl(), flag("out"));
-    console.log(`[backup] ${file} (${(fs.statSync(file).size / 1024).toFixed(0)} KB, ${((Date.now() - t) / 1000).toFixed(1)} s)`);
+    console.log(
+      `[backup] ${file} (${(fs.statSync(file).size / 1024).toFixed(0)} KB, ${((Date.now() - t) / 1000).toFixed(1)} s)`,
+    );
   } else if (cmd === "restore") {
     const file = rest.find((a, i) => !a.startsWith("--") && !(i > 0 && rest[i - 1] === "--db")) ?? newestBackup();
     const url = await serverUrl();

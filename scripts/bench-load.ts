@@ -83,14 +83,28 @@ async function alone(url: string, cookie: string): Promise<number> {
     await fetch(url, { headers: { cookie } }).then((r) => r.arrayBuffer());
     times.push(performance.now() - t);
   }
-  return percentile(times.sort((a, b) => a - b), 50);
+  return percentile(
+    times.sort((a, b) => a - b),
+    50,
+  );
 }
 
 const client = (i: number) => `10.60.0.${i % 250}`;
 
-function summarise(times: number[], seconds: number, counts: { non2xx: number; errors: number; timeouts: number }): Run {
+function summarise(
+  times: number[],
+  seconds: number,
+  counts: { non2xx: number; errors: number; timeouts: number },
+): Run {
   times.sort((a, b) => a - b);
-  return { requests: times.length, rps: times.length / seconds, p50: percentile(times, 50), p95: percentile(times, 95), p99: percentile(times, 99), ...counts };
+  return {
+    requests: times.length,
+    rps: times.length / seconds,
+    p50: percentile(times, 50),
+    p95: percentile(times, 95),
+    p99: percentile(times, 99),
+    ...counts,
+  };
 }
 
 /** No think time: CONNECTIONS connections, each sending its next request as soon as one returns. */
@@ -108,7 +122,9 @@ async function saturation(url: string, cookies: string[], duration = DURATION): 
       c.setHeaders({ cookie: cookies[i % cookies.length]!, "x-forwarded-for": client(i) });
     },
   });
-  instance.on("response", (_c: unknown, _status: number, _bytes: number, responseTime: number) => times.push(responseTime));
+  instance.on("response", (_c: unknown, _status: number, _bytes: number, responseTime: number) =>
+    times.push(responseTime),
+  );
   const r = await instance;
   return summarise(times, duration, { non2xx: r.non2xx, errors: r.errors, timeouts: r.timeouts });
 }
@@ -125,16 +141,28 @@ async function withThinkTime(url: string, cookies: string[]): Promise<Run> {
     cookies.map(
       (cookie, i) =>
         new Promise<void>((resolve, reject) => {
-          setTimeout(() => {
-            const instance = autocannon({ url, connections: 1, connectionRate: RATE, duration: DURATION, timeout: 10, headers: { cookie, "x-forwarded-for": client(i) } });
-            instance.on("response", (_c: unknown, _status: number, _bytes: number, responseTime: number) => times.push(responseTime));
-            instance.then((r) => {
-              counts.non2xx += r.non2xx;
-              counts.errors += r.errors;
-              counts.timeouts += r.timeouts;
-              resolve();
-            }, reject);
-          }, (i * 1000) / cookies.length);
+          setTimeout(
+            () => {
+              const instance = autocannon({
+                url,
+                connections: 1,
+                connectionRate: RATE,
+                duration: DURATION,
+                timeout: 10,
+                headers: { cookie, "x-forwarded-for": client(i) },
+              });
+              instance.on("response", (_c: unknown, _status: number, _bytes: number, responseTime: number) =>
+                times.push(responseTime),
+              );
+              instance.then((r) => {
+                counts.non2xx += r.non2xx;
+                counts.errors += r.errors;
+                counts.timeouts += r.timeouts;
+                resolve();
+              }, reject);
+            },
+            (i * 1000) / cookies.length,
+          );
         }),
     ),
   );
@@ -152,8 +180,11 @@ async function main() {
     const f = fixtures!;
     const t = performance.now();
     const cookies: string[] = [];
-    for (const [i, email] of f.emails.entries()) cookies.push(await signIn(stack.url, email, f.password, `10.61.${Math.floor(i / 200)}.${i % 200}`));
-    process.stderr.write(`[bench] ${cookies.length} users signed in in ${((performance.now() - t) / 1000).toFixed(1)} s\n`);
+    for (const [i, email] of f.emails.entries())
+      cookies.push(await signIn(stack.url, email, f.password, `10.61.${Math.floor(i / 200)}.${i % 200}`));
+    process.stderr.write(
+      `[bench] ${cookies.length} users signed in in ${((performance.now() - t) / 1000).toFixed(1)} s\n`,
+    );
     const scenarios: [string, string][] = [
       ["stock list API", "/api/blocks?status=available&sort=received"],
       ["stock list page", "/stock"],
@@ -161,7 +192,10 @@ async function main() {
       ["plan view", `/plans/${f.runId}`],
     ];
     const rows: Figures[] = [];
-    const load = os.loadavg().map((l) => l.toFixed(1)).join(" ");
+    const load = os
+      .loadavg()
+      .map((l) => l.toFixed(1))
+      .join(" ");
     for (const [name, path] of scenarios) {
       const url = `${stack.url}${path}`;
       // Warm-up, not counted: the first compile of each route, and enough requests for every app
@@ -179,22 +213,31 @@ async function main() {
     const int = (n: number) => Math.round(n).toLocaleString("en");
     const workers = process.env.WEB_WORKERS ?? String(os.availableParallelism());
     const lines = [
-      `bench:load — ${new Date().toISOString()} — ${cookies.length} signed-in users, ${DURATION} s per run, app processes ${workers}, slot ${BENCH_SLOT}, ${os.cpus().length} cores, load average before ${load}, after ${os.loadavg().map((l) => l.toFixed(1)).join(" ")}`,
+      `bench:load — ${new Date().toISOString()} — ${cookies.length} signed-in users, ${DURATION} s per run, app processes ${workers}, slot ${BENCH_SLOT}, ${os.cpus().length} cores, load average before ${load}, after ${os
+        .loadavg()
+        .map((l) => l.toFixed(1))
+        .join(" ")}`,
       "",
       `Target model — ${cookies.length} users, each one request at a time with ~${(1 / RATE).toFixed(1)} s think time (${RATE} request/s per user, autocannon connectionRate):`,
       "",
       "| scenario | path | alone p50 | requests | req/s | p50 | p95 | p99 | non-2xx | errors | timeouts |",
       "| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |",
-      ...rows.map((r) => `| ${r.name} | \`${r.path}\` | ${ms(r.alone)} | ${int(r.users.requests)} | ${r.users.rps.toFixed(0)} | ${ms(r.users.p50)} | ${ms(r.users.p95)} | ${ms(r.users.p99)} | ${r.users.non2xx} | ${r.users.errors} | ${r.users.timeouts} |`),
+      ...rows.map(
+        (r) =>
+          `| ${r.name} | \`${r.path}\` | ${ms(r.alone)} | ${int(r.users.requests)} | ${r.users.rps.toFixed(0)} | ${ms(r.users.p50)} | ${ms(r.users.p95)} | ${ms(r.users.p99)} | ${r.users.non2xx} | ${r.users.errors} | ${r.users.timeouts} |`,
+      ),
       "",
       `Saturation — ${CONNECTIONS} connections, no think time (capacity: requests/s; latency is queueing, Little's law floor = ${CONNECTIONS} / req/s):`,
       "",
       "| scenario | requests | req/s (capacity) | Little's-law floor | p50 | p95 | p99 | non-2xx | errors | timeouts |",
       "| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |",
-      ...rows.map((r) => `| ${r.name} | ${int(r.saturation.requests)} | ${r.saturation.rps.toFixed(0)} | ${ms((CONNECTIONS / r.saturation.rps) * 1000)} | ${ms(r.saturation.p50)} | ${ms(r.saturation.p95)} | ${ms(r.saturation.p99)} | ${r.saturation.non2xx} | ${r.saturation.errors} | ${r.saturation.timeouts} |`),
+      ...rows.map(
+        (r) =>
+          `| ${r.name} | ${int(r.saturation.requests)} | ${r.saturation.rps.toFixed(0)} | ${ms((CONNECTIONS / r.saturation.rps) * 1000)} | ${ms(r.saturation.p50)} | ${ms(r.saturation.p95)} | ${ms(r.saturation.p99)} | ${r.saturation.non2xx} | ${r.saturation.errors} | ${r.saturation.timeouts} |`,
+      ),
       "",
       "alone p50: one user, one request at a time. With no think time every connection always has a request queued, so",
-      `latency ≈ ${CONNECTIONS} / throughput: a p95 under 150 ms there would need more than ${int((CONNECTIONS / 0.15))} requests/s.`,
+      `latency ≈ ${CONNECTIONS} / throughput: a p95 under 150 ms there would need more than ${int(CONNECTIONS / 0.15)} requests/s.`,
       "",
       `target (judged on the ${cookies.length}-users-with-think-time model): p95 < 150 ms and 0 errors — ${met ? "met" : "NOT met"}; saturation errors: ${rows.every((r) => ok(r.saturation)) ? "none" : "SOME"}`,
     ];

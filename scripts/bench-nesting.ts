@@ -10,7 +10,16 @@ import { performance } from "node:perf_hooks";
 import { MaxRectsPacker } from "maxrects-packer";
 import { pack3D, RotationType } from "binpackingjs/3d";
 import { nest, nestSync, validatePlan, type Plan, type Problem, type Vec3 } from "@/lib/nesting";
-import { benchDataDir, brPart, load2DClass, loadBr, loadMpv, loadZeroWaste, problemOf, readCsv } from "./lib-bench/loaders";
+import {
+  benchDataDir,
+  brPart,
+  load2DClass,
+  loadBr,
+  loadMpv,
+  loadZeroWaste,
+  problemOf,
+  readCsv,
+} from "./lib-bench/loaders";
 import { perfectPacking, shopCase } from "./lib-bench/generate";
 import { cutRegions, piecesOf } from "@/lib/planning/cut-regions";
 
@@ -50,7 +59,8 @@ function check(problem: Problem, plan: Plan, label: string): number {
   const errs = validatePlan(problem, plan);
   const ms = performance.now() - t0;
   // A plan with everything placed in fewer blocks than the lower bound would prove the bound wrong.
-  if (plan.unplaced.length === 0 && plan.stats.blocksUsed < plan.stats.lowerBoundBlocks) errs.push(`${plan.stats.blocksUsed} blocks, below the lower bound ${plan.stats.lowerBoundBlocks}`);
+  if (plan.unplaced.length === 0 && plan.stats.blocksUsed < plan.stats.lowerBoundBlocks)
+    errs.push(`${plan.stats.blocksUsed} blocks, below the lower bound ${plan.stats.lowerBoundBlocks}`);
   if (errs.length > 0) {
     invalid++;
     invalidNotes.push(`${label}: ${errs.slice(0, 3).join("; ")}`);
@@ -73,33 +83,84 @@ const results: Record<string, unknown> = {};
 
 function printRow(r: Row): void {
   console.log(
-    [r.set.padEnd(34), String(r.instances).padStart(4), r.blockyard.padStart(14), r.ratio.padStart(16), r.peer.padStart(22), r.peerRatio.padStart(10), `${r.msPerInstance.toFixed(0)} ms`.padStart(9), r.note].join(" | "),
+    [
+      r.set.padEnd(34),
+      String(r.instances).padStart(4),
+      r.blockyard.padStart(14),
+      r.ratio.padStart(16),
+      r.peer.padStart(22),
+      r.peerRatio.padStart(10),
+      `${r.msPerInstance.toFixed(0)} ms`.padStart(9),
+      r.note,
+    ].join(" | "),
   );
 }
 
-function maxrectsBins(W: number, H: number, items: [number, number][], padding = 0): { bins: number; placedArea: number[] } {
-  const packer = new MaxRectsPacker(W, H, padding, { smart: false, pot: false, square: false, allowRotation: true, border: 0 });
+function maxrectsBins(
+  W: number,
+  H: number,
+  items: [number, number][],
+  padding = 0,
+): { bins: number; placedArea: number[] } {
+  const packer = new MaxRectsPacker(W, H, padding, {
+    smart: false,
+    pot: false,
+    square: false,
+    allowRotation: true,
+    border: 0,
+  });
   packer.addArray(items.map(([w, h]) => ({ width: w, height: h })) as never);
-  return { bins: packer.bins.length, placedArea: packer.bins.map((b) => b.rects.reduce((s, r) => s + r.width * r.height, 0)) };
+  return {
+    bins: packer.bins.length,
+    placedArea: packer.bins.map((b) => b.rects.reduce((s, r) => s + r.width * r.height, 0)),
+  };
 }
 
-function binpackingjs3D(bin: Vec3, items: { dims: Vec3; allowed?: RotationType[] }[], bins: number): { used: number; packedVolume: number; unfit: number } {
+function binpackingjs3D(
+  bin: Vec3,
+  items: { dims: Vec3; allowed?: RotationType[] }[],
+  bins: number,
+): { used: number; packedVolume: number; unfit: number } {
   const res = pack3D({
-    bins: Array.from({ length: bins }, (_, i) => ({ name: `b${i}`, width: bin[0], height: bin[1], depth: bin[2], maxWeight: 1e12 })),
-    items: items.map((it, i) => ({ name: `i${i}`, width: it.dims[0], height: it.dims[1], depth: it.dims[2], weight: 0, ...(it.allowed ? { allowedRotations: it.allowed } : {}) })),
+    bins: Array.from({ length: bins }, (_, i) => ({
+      name: `b${i}`,
+      width: bin[0],
+      height: bin[1],
+      depth: bin[2],
+      maxWeight: 1e12,
+    })),
+    items: items.map((it, i) => ({
+      name: `i${i}`,
+      width: it.dims[0],
+      height: it.dims[1],
+      depth: it.dims[2],
+      weight: 0,
+      ...(it.allowed ? { allowedRotations: it.allowed } : {}),
+    })),
   });
   const used = res.packedBins.filter((b) => b.items.length > 0);
-  const packedVolume = used.reduce((s, b) => s + b.items.reduce((t, it) => t + it.sourceItem.width * it.sourceItem.height * it.sourceItem.depth, 0), 0);
+  const packedVolume = used.reduce(
+    (s, b) => s + b.items.reduce((t, it) => t + it.sourceItem.width * it.sourceItem.height * it.sourceItem.depth, 0),
+    0,
+  );
   return { used: used.length, packedVolume, unfit: res.unfitItems.length };
 }
 
 function bench2D(dir: string): void {
   const all = load2DClass(dir);
-  const lbs = new Map(readCsv(path.join(dir, "2d-bpp-class/lower_bounds_computed.csv")).map((r) => [r.instance!, Number(r.LB_rotation_allowed)]));
+  const lbs = new Map(
+    readCsv(path.join(dir, "2d-bpp-class/lower_bounds_computed.csv")).map((r) => [
+      r.instance!,
+      Number(r.LB_rotation_allowed),
+    ]),
+  );
   const summary = readCsv(path.join(dir, "2d-bpp-class/summary_by_group.csv"));
   const best = new Map(summary.map((r) => [r.group!, Number(r.best_published_total_rotation)]));
   const insts = quick ? all.filter((x) => x.name.endsWith("_01")) : all;
-  const perClass = new Map<number, { ours: number; peer: number; lb: number; bound: number; best: number; ms: number; n: number }>();
+  const perClass = new Map<
+    number,
+    { ours: number; peer: number; lb: number; bound: number; best: number; ms: number; n: number }
+  >();
   for (const inst of insts) {
     const problem = problemOf({
       bins: inst.items.map(() => [inst.W, inst.H, 1] as Vec3),
@@ -125,10 +186,39 @@ function bench2D(dir: string): void {
     for (const g of groupsRun) if (Number(g.slice(5, 7)) === cls) bestSum += (best.get(g) ?? 0) * (quick ? 0.1 : 1);
     c.best = bestSum;
   }
-  const tot = [...perClass.values()].reduce((s, c) => ({ ours: s.ours + c.ours, peer: s.peer + c.peer, lb: s.lb + c.lb, bound: s.bound + c.bound, best: s.best + c.best, ms: s.ms + c.ms, n: s.n + c.n }), { ours: 0, peer: 0, lb: 0, bound: 0, best: 0, ms: 0, n: 0 });
+  const tot = [...perClass.values()].reduce(
+    (s, c) => ({
+      ours: s.ours + c.ours,
+      peer: s.peer + c.peer,
+      lb: s.lb + c.lb,
+      bound: s.bound + c.bound,
+      best: s.best + c.best,
+      ms: s.ms + c.ms,
+      n: s.n + c.n,
+    }),
+    { ours: 0, peer: 0, lb: 0, bound: 0, best: 0, ms: 0, n: 0 },
+  );
   for (const [cls, c] of [...perClass].sort((a, b) => a[0] - b[0]))
-    printRow({ set: `2D class ${cls} (rot, layers)`, instances: c.n, blockyard: `${c.ours} bins`, ratio: `${(c.ours / c.best).toFixed(3)}× best`, peer: `maxrects ${c.peer}`, peerRatio: `${(c.peer / c.best).toFixed(3)}×`, msPerInstance: c.ms / c.n, note: `LB ${c.lb}, bound* ${c.bound}, best ${+c.best.toFixed(1)}` });
-  const row: Row = { set: "2D class set, all (rotation)", instances: tot.n, blockyard: `${tot.ours} bins`, ratio: `${(tot.ours / tot.best).toFixed(3)}× best`, peer: `maxrects ${tot.peer}`, peerRatio: `${(tot.peer / tot.best).toFixed(3)}×`, msPerInstance: tot.ms / tot.n, note: `LB ${tot.lb}, bound* ${tot.bound} (${(tot.ours / tot.bound).toFixed(3)}×), best ${+tot.best.toFixed(1)}; target ≤ 1.03×` };
+    printRow({
+      set: `2D class ${cls} (rot, layers)`,
+      instances: c.n,
+      blockyard: `${c.ours} bins`,
+      ratio: `${(c.ours / c.best).toFixed(3)}× best`,
+      peer: `maxrects ${c.peer}`,
+      peerRatio: `${(c.peer / c.best).toFixed(3)}×`,
+      msPerInstance: c.ms / c.n,
+      note: `LB ${c.lb}, bound* ${c.bound}, best ${+c.best.toFixed(1)}`,
+    });
+  const row: Row = {
+    set: "2D class set, all (rotation)",
+    instances: tot.n,
+    blockyard: `${tot.ours} bins`,
+    ratio: `${(tot.ours / tot.best).toFixed(3)}× best`,
+    peer: `maxrects ${tot.peer}`,
+    peerRatio: `${(tot.peer / tot.best).toFixed(3)}×`,
+    msPerInstance: tot.ms / tot.n,
+    note: `LB ${tot.lb}, bound* ${tot.bound} (${(tot.ours / tot.bound).toFixed(3)}×), best ${+tot.best.toFixed(1)}; target ≤ 1.03×`,
+  };
   rows.push(row);
   printRow(row);
   results["2d-class"] = { perClass: Object.fromEntries(perClass), total: tot };
@@ -160,10 +250,25 @@ function benchZeroWaste(dir: string): void {
     peerFill += (peer.placedArea[0] ?? 0) / (inst.W * inst.H);
     if (peer.bins === 1) peerSolved++;
   }
-  const row: Row = { set: "2D zero-waste (Hopper), 1 bin", instances: insts.length, blockyard: `${solved} at 100%`, ratio: `fill ${((100 * fill) / insts.length).toFixed(1)}%`, peer: `maxrects ${peerSolved} at 100%`, peerRatio: `${((100 * peerFill) / insts.length).toFixed(1)}%`, msPerInstance: ms / insts.length, note: "C7-3 cannot reach 100%" };
+  const row: Row = {
+    set: "2D zero-waste (Hopper), 1 bin",
+    instances: insts.length,
+    blockyard: `${solved} at 100%`,
+    ratio: `fill ${((100 * fill) / insts.length).toFixed(1)}%`,
+    peer: `maxrects ${peerSolved} at 100%`,
+    peerRatio: `${((100 * peerFill) / insts.length).toFixed(1)}%`,
+    msPerInstance: ms / insts.length,
+    note: "C7-3 cannot reach 100%",
+  };
   rows.push(row);
   printRow(row);
-  results["2d-zero-waste"] = { solved, peerSolved, meanFill: fill / insts.length, peerMeanFill: peerFill / insts.length, unsolved };
+  results["2d-zero-waste"] = {
+    solved,
+    peerSolved,
+    meanFill: fill / insts.length,
+    peerMeanFill: peerFill / insts.length,
+    unsolved,
+  };
 }
 
 type MpvLayout = "guillotine" | "free";
@@ -178,13 +283,26 @@ function benchMpv(dir: string): void {
   const all = loadMpv(dir, classes);
   // --mpv-sizes 50,100 keeps a subset of the item counts (the full set takes the longest).
   const sizes = opt("--mpv-sizes")?.split(",").map(Number);
-  const insts = quick ? all.filter((x) => x.no === 1 && x.n <= 100) : sizes ? all.filter((x) => sizes.includes(x.n)) : all;
+  const insts = quick
+    ? all.filter((x) => x.no === 1 && x.n <= 100)
+    : sizes
+      ? all.filter((x) => sizes.includes(x.n))
+      : all;
   type Sums = { ours: number; peer: number; lb: number; bound: number; ms: number; n: number };
   const per = new Map<MpvLayout, Map<number, Sums>>(layouts.map((l) => [l, new Map()]));
   for (const inst of insts) {
     // Enough bins for the peer without making its first-fit scan needlessly long.
-    let peer = binpackingjs3D(inst.bin, inst.items.map((d) => ({ dims: d })), Math.ceil(inst.lb * 1.3) + 2);
-    if (peer.unfit > 0) peer = binpackingjs3D(inst.bin, inst.items.map((d) => ({ dims: d })), inst.lb * 2 + 5);
+    let peer = binpackingjs3D(
+      inst.bin,
+      inst.items.map((d) => ({ dims: d })),
+      Math.ceil(inst.lb * 1.3) + 2,
+    );
+    if (peer.unfit > 0)
+      peer = binpackingjs3D(
+        inst.bin,
+        inst.items.map((d) => ({ dims: d })),
+        inst.lb * 2 + 5,
+      );
     for (const layout of layouts) {
       const problem = problemOf({
         bins: inst.items.map(() => inst.bin),
@@ -208,10 +326,35 @@ function benchMpv(dir: string): void {
   for (const layout of layouts) {
     let tot: Sums = { ours: 0, peer: 0, lb: 0, bound: 0, ms: 0, n: 0 };
     for (const [cls, c] of per.get(layout)!) {
-      printRow({ set: `MPV class ${cls} (rot, ${layout})`, instances: c.n, blockyard: `${c.ours} bins`, ratio: `${(c.ours / c.lb).toFixed(3)}× LB`, peer: `binpackingjs ${c.peer}`, peerRatio: `${(c.peer / c.lb).toFixed(3)}×`, msPerInstance: c.ms / c.n, note: `LB ${c.lb}, bound* ${c.bound} (${(c.ours / c.bound).toFixed(3)}×)${c.ours > c.peer ? " (MORE than peer)" : ""}` });
-      tot = { ours: tot.ours + c.ours, peer: tot.peer + c.peer, lb: tot.lb + c.lb, bound: tot.bound + c.bound, ms: tot.ms + c.ms, n: tot.n + c.n };
+      printRow({
+        set: `MPV class ${cls} (rot, ${layout})`,
+        instances: c.n,
+        blockyard: `${c.ours} bins`,
+        ratio: `${(c.ours / c.lb).toFixed(3)}× LB`,
+        peer: `binpackingjs ${c.peer}`,
+        peerRatio: `${(c.peer / c.lb).toFixed(3)}×`,
+        msPerInstance: c.ms / c.n,
+        note: `LB ${c.lb}, bound* ${c.bound} (${(c.ours / c.bound).toFixed(3)}×)${c.ours > c.peer ? " (MORE than peer)" : ""}`,
+      });
+      tot = {
+        ours: tot.ours + c.ours,
+        peer: tot.peer + c.peer,
+        lb: tot.lb + c.lb,
+        bound: tot.bound + c.bound,
+        ms: tot.ms + c.ms,
+        n: tot.n + c.n,
+      };
     }
-    const row: Row = { set: `MPV 3D classes 1,4,5,6,7,8 (${layout})`, instances: tot.n, blockyard: `${tot.ours} bins`, ratio: `${(tot.ours / tot.lb).toFixed(3)}× LB`, peer: `binpackingjs ${tot.peer}`, peerRatio: `${(tot.peer / tot.lb).toFixed(3)}×`, msPerInstance: tot.ms / tot.n, note: `LB ${tot.lb}, bound* ${tot.bound} (${(tot.ours / tot.bound).toFixed(3)}×); target ≤ 1.05× LB` };
+    const row: Row = {
+      set: `MPV 3D classes 1,4,5,6,7,8 (${layout})`,
+      instances: tot.n,
+      blockyard: `${tot.ours} bins`,
+      ratio: `${(tot.ours / tot.lb).toFixed(3)}× LB`,
+      peer: `binpackingjs ${tot.peer}`,
+      peerRatio: `${(tot.peer / tot.lb).toFixed(3)}×`,
+      msPerInstance: tot.ms / tot.n,
+      note: `LB ${tot.lb}, bound* ${tot.bound} (${(tot.ours / tot.bound).toFixed(3)}×); target ≤ 1.05× LB`,
+    };
     rows.push(row);
     printRow(row);
     out[layout] = { perClass: Object.fromEntries(per.get(layout)!), total: tot };
@@ -223,7 +366,14 @@ function brAllowed(flags: [number, number, number]): RotationType[] {
   // binpackingjs: width = l, height (vertical) = h, depth = w; a rotation's 2nd letter is vertical.
   const may: Record<string, number> = { W: flags[0], H: flags[2], D: flags[1] };
   const names = ["WHD", "HWD", "HDW", "DHW", "DWH", "WDH"];
-  return [RotationType.WHD, RotationType.HWD, RotationType.HDW, RotationType.DHW, RotationType.DWH, RotationType.WDH].filter((r) => may[names[r]![1]!] === 1);
+  return [
+    RotationType.WHD,
+    RotationType.HWD,
+    RotationType.HDW,
+    RotationType.DHW,
+    RotationType.DWH,
+    RotationType.WDH,
+  ].filter((r) => may[names[r]![1]!] === 1);
 }
 
 function benchBr(dir: string): void {
@@ -252,16 +402,34 @@ function benchBr(dir: string): void {
       cls += f;
       const cargo = inst.boxes.reduce((s, b) => s + b.dims[0] * b.dims[1] * b.dims[2] * b.count, 0);
       ceil += Math.min(1, cargo / cv);
-      const items = inst.boxes.flatMap((b) => Array.from({ length: b.count }, () => ({ dims: [b.dims[0], b.dims[2], b.dims[1]] as Vec3, allowed: brAllowed(b.flags) })));
+      const items = inst.boxes.flatMap((b) =>
+        Array.from({ length: b.count }, () => ({
+          dims: [b.dims[0], b.dims[2], b.dims[1]] as Vec3,
+          allowed: brAllowed(b.flags),
+        })),
+      );
       peerSum += binpackingjs3D([inst.container[0], inst.container[2], inst.container[1]], items, 1).packedVolume / cv;
       n++;
     }
     perClass[`BR${k}`] = cls / insts.length;
   }
-  const row: Row = { set: "BR1–BR7 container (free, flags)", instances: n, blockyard: `fill ${((100 * sum) / n).toFixed(1)}%`, ratio: `ceiling ${((100 * ceil) / n).toFixed(1)}%`, peer: `binpackingjs ${((100 * peerSum) / n).toFixed(1)}%`, peerRatio: "", msPerInstance: ms / n, note: `${perSet}/class; target ≥ 90%` };
+  const row: Row = {
+    set: "BR1–BR7 container (free, flags)",
+    instances: n,
+    blockyard: `fill ${((100 * sum) / n).toFixed(1)}%`,
+    ratio: `ceiling ${((100 * ceil) / n).toFixed(1)}%`,
+    peer: `binpackingjs ${((100 * peerSum) / n).toFixed(1)}%`,
+    peerRatio: "",
+    msPerInstance: ms / n,
+    note: `${perSet}/class; target ≥ 90%`,
+  };
   rows.push(row);
   printRow(row);
-  console.log(`  per class: ${Object.entries(perClass).map(([k, v]) => `${k} ${(100 * v).toFixed(1)}%`).join(", ")}`);
+  console.log(
+    `  per class: ${Object.entries(perClass)
+      .map(([k, v]) => `${k} ${(100 * v).toFixed(1)}%`)
+      .join(", ")}`,
+  );
   results.br = { meanFill: sum / n, peerMeanFill: peerSum / n, ceiling: ceil / n, perClass, instancesPerClass: perSet };
 }
 
@@ -277,10 +445,23 @@ function benchPerfect(): void {
     const r = solve(problem, `perfect #${s}`);
     ms += r.ms;
     if (r.plan.stats.blocksUsed === 1 && r.plan.unplaced.length === 0) opt++;
-    const peer = binpackingjs3D([1200 + kerf, 800 + kerf, 600 + kerf], problem.parts.map((p) => ({ dims: p.size.map((v) => v + kerf) as Vec3 })), 2);
+    const peer = binpackingjs3D(
+      [1200 + kerf, 800 + kerf, 600 + kerf],
+      problem.parts.map((p) => ({ dims: p.size.map((v) => v + kerf) as Vec3 })),
+      2,
+    );
     if (peer.used === 1) peerOpt++;
   }
-  const row: Row = { set: "3D perfect packings (guillotine)", instances: count, blockyard: `${opt} at optimum`, ratio: `${((100 * opt) / count).toFixed(0)}%`, peer: `binpackingjs ${peerOpt}`, peerRatio: `${((100 * peerOpt) / count).toFixed(0)}%`, msPerInstance: ms / count, note: "8–32 parts, kerf 2; target ≥ 90%" };
+  const row: Row = {
+    set: "3D perfect packings (guillotine)",
+    instances: count,
+    blockyard: `${opt} at optimum`,
+    ratio: `${((100 * opt) / count).toFixed(0)}%`,
+    peer: `binpackingjs ${peerOpt}`,
+    peerRatio: `${((100 * peerOpt) / count).toFixed(0)}%`,
+    msPerInstance: ms / count,
+    note: "8–32 parts, kerf 2; target ≥ 90%",
+  };
   rows.push(row);
   printRow(row);
   results.perfect = { optimum: opt, peerOptimum: peerOpt, count };
@@ -294,7 +475,11 @@ async function benchShop(): Promise<void> {
   check(problem, first, "shop case, first plan");
   let firstReport: number | undefined;
   const t1 = performance.now();
-  const plan = await nest(problem, { seed: SEED, now: () => performance.now(), onProgress: () => (firstReport ??= performance.now() - t1) });
+  const plan = await nest(problem, {
+    seed: SEED,
+    now: () => performance.now(),
+    onProgress: () => (firstReport ??= performance.now() - t1),
+  });
   const ms = performance.now() - t1;
   check(problem, plan, "shop case");
   const rss = process.resourceUsage().maxRSS / 1024;
@@ -311,7 +496,18 @@ async function benchShop(): Promise<void> {
   };
   rows.push(row);
   printRow(row);
-  results.shop = { firstPlanMs: firstMs, firstProgressMs: firstReport, bestMs: ms, blocksUsed: plan.stats.blocksUsed, firstBlocks: first.stats.blocksUsed, yield: plan.stats.yield, firstYield: first.stats.yield, placed, peakRssMB: rss, lowerBound: plan.stats.lowerBoundBlocks };
+  results.shop = {
+    firstPlanMs: firstMs,
+    firstProgressMs: firstReport,
+    bestMs: ms,
+    blocksUsed: plan.stats.blocksUsed,
+    firstBlocks: first.stats.blocksUsed,
+    yield: plan.stats.yield,
+    firstYield: first.stats.yield,
+    placed,
+    peakRssMB: rss,
+    lowerBound: plan.stats.lowerBoundBlocks,
+  };
 }
 
 /**
@@ -323,8 +519,22 @@ async function benchShop(): Promise<void> {
 async function benchLarge(): Promise<void> {
   const problem: Problem = {
     version: 1,
-    settings: { kerf: 1.5, trim: 5, defectMargin: 10, minOffcut: [100, 100, 20], layout: "guillotine", timeLimitMs: 3000 },
-    blocks: Array.from({ length: 10 }, (_, i) => ({ id: `L${i + 1}`, size: [1200, 600, 500] as Vec3, cost: 90, offcut: false, trim: 5, defects: [] })),
+    settings: {
+      kerf: 1.5,
+      trim: 5,
+      defectMargin: 10,
+      minOffcut: [100, 100, 20],
+      layout: "guillotine",
+      timeLimitMs: 3000,
+    },
+    blocks: Array.from({ length: 10 }, (_, i) => ({
+      id: `L${i + 1}`,
+      size: [1200, 600, 500] as Vec3,
+      cost: 90,
+      offcut: false,
+      trim: 5,
+      defects: [],
+    })),
     parts: [
       { id: "insert", size: [40, 25, 12], quantity: 20_000, rotate: "any" },
       { id: "corner", size: [30, 30, 30], quantity: 2_000, rotate: "any" },
@@ -355,15 +565,37 @@ async function benchLarge(): Promise<void> {
   };
   rows.push(row);
   printRow(row);
-  results.large = { nestMs, validateMs, regionsMs, cuts, blocksUsed: plan.stats.blocksUsed, placed: plan.placements.length, peakRssMB: rss };
+  results.large = {
+    nestMs,
+    validateMs,
+    regionsMs,
+    cuts,
+    blocksUsed: plan.stats.blocksUsed,
+    placed: plan.placements.length,
+    peakRssMB: rss,
+  };
 }
 
 async function main(): Promise<void> {
   const dir = benchDataDir(opt("--data"));
   const t0 = performance.now();
   console.log(`Blockyard nesting benchmark${quick ? " (quick subset)" : ""}`);
-  console.log(["set".padEnd(34), "inst".padStart(4), "Blockyard".padStart(14), "vs bound/best".padStart(16), "peer".padStart(22), "peer ratio".padStart(10), "time/inst".padStart(9), "note"].join(" | "));
-  if (!dir) console.log("Benchmark data is absent (looked in --data, BENCH_DATA and ../shared/benchmarks): public sets skipped.");
+  console.log(
+    [
+      "set".padEnd(34),
+      "inst".padStart(4),
+      "Blockyard".padStart(14),
+      "vs bound/best".padStart(16),
+      "peer".padStart(22),
+      "peer ratio".padStart(10),
+      "time/inst".padStart(9),
+      "note",
+    ].join(" | "),
+  );
+  if (!dir)
+    console.log(
+      "Benchmark data is absent (looked in --data, BENCH_DATA and ../shared/benchmarks): public sets skipped.",
+    );
   else {
     if (want("2d")) bench2D(dir);
     if (want("zero")) benchZeroWaste(dir);
@@ -373,11 +605,18 @@ async function main(): Promise<void> {
   if (want("perfect")) benchPerfect();
   if (want("shop")) await benchShop();
   if (want("large")) await benchLarge();
-  console.log("LB: the simple bound computed beside the data; bound*: Blockyard's own (volume, large-item and conservative-scale bounds, lib/nesting/bounds.ts) — no packing can use fewer blocks");
-  console.log(`invalid plans (or below the bound): ${invalid}${invalidNotes.length ? `\n  ${invalidNotes.slice(0, 10).join("\n  ")}` : ""}`);
+  console.log(
+    "LB: the simple bound computed beside the data; bound*: Blockyard's own (volume, large-item and conservative-scale bounds, lib/nesting/bounds.ts) — no packing can use fewer blocks",
+  );
+  console.log(
+    `invalid plans (or below the bound): ${invalid}${invalidNotes.length ? `\n  ${invalidNotes.slice(0, 10).join("\n  ")}` : ""}`,
+  );
   console.log(`total time ${((performance.now() - t0) / 1000).toFixed(0)} s`);
   mkdirSync("bench-results", { recursive: true });
-  writeFileSync("bench-results/nesting.json", `${JSON.stringify({ quick, rows, results, invalid, invalidNotes }, null, 2)}\n`);
+  writeFileSync(
+    "bench-results/nesting.json",
+    `${JSON.stringify({ quick, rows, results, invalid, invalidNotes }, null, 2)}\n`,
+  );
   if (!dir) return;
 }
 

@@ -23,11 +23,19 @@ export interface BenchStack {
   stop(): Promise<void>;
 }
 
-export async function startBenchStack(name: string, opts: { beforeServe?: (databaseUrl: string) => Promise<void> } = {}): Promise<BenchStack> {
+export async function startBenchStack(
+  name: string,
+  opts: { beforeServe?: (databaseUrl: string) => Promise<void> } = {},
+): Promise<BenchStack> {
   delete process.env.DATABASE_URL; // never the demo data
   process.env.NEXT_DIST_DIR ??= `.next-slot-${BENCH_SLOT}`;
   process.env.SKIP_BUILD_TYPECHECK ??= "1";
-  const cluster: ClusterOptions = { name: `pg-bench-${BENCH_SLOT}`, port: 55020 + BENCH_SLOT, database: "blockyard_bench", fast: true };
+  const cluster: ClusterOptions = {
+    name: `pg-bench-${BENCH_SLOT}`,
+    port: 55020 + BENCH_SLOT,
+    database: "blockyard_bench",
+    fast: true,
+  };
   const port = 3220 + BENCH_SLOT;
   const url = `http://127.0.0.1:${port}`;
   let server: ChildProcess | undefined;
@@ -61,13 +69,20 @@ export async function startBenchStack(name: string, opts: { beforeServe?: (datab
     const log = fs.openSync(`.data/${name}-server-${BENCH_SLOT}.log`, "w");
     // The app as `npm start` serves it: scripts/serve.mjs, one process per core (WEB_WORKERS).
     server = spawn(process.execPath, ["scripts/serve.mjs", "--port", String(port), "--hostname", "127.0.0.1"], {
-      env: { ...process.env, DATABASE_URL: databaseUrl, APP_URL: url, TRUST_PROXY: "true", NEXT_TELEMETRY_DISABLED: "1" },
+      env: {
+        ...process.env,
+        DATABASE_URL: databaseUrl,
+        APP_URL: url,
+        TRUST_PROXY: "true",
+        NEXT_TELEMETRY_DISABLED: "1",
+      },
       detached: true,
       stdio: ["ignore", log, log],
     });
     const deadline = Date.now() + 90_000;
     for (;;) {
-      if (server.exitCode !== null) throw new Error(`the app exited during start-up; see .data/${name}-server-${BENCH_SLOT}.log`);
+      if (server.exitCode !== null)
+        throw new Error(`the app exited during start-up; see .data/${name}-server-${BENCH_SLOT}.log`);
       try {
         if ((await fetch(`${url}/api/health`)).ok) break;
       } catch {

@@ -78,7 +78,12 @@ async function main() {
       ["ready + grade + volume sort", `status=ready&grade=${grade}&sort=volume&dir=desc`],
       ["all statuses, 200 per page", "status=all&pageSize=200"],
     ];
-    out(`bench:stock — ${new Date().toISOString()} — ${BLOCKS.toLocaleString("en")} blocks (+ demo stock), ${RUNS} sequential requests per filter after 5 warm-ups, slot ${BENCH_SLOT}, load average ${os.loadavg().map((l) => l.toFixed(1)).join(" ")}`);
+    out(
+      `bench:stock — ${new Date().toISOString()} — ${BLOCKS.toLocaleString("en")} blocks (+ demo stock), ${RUNS} sequential requests per filter after 5 warm-ups, slot ${BENCH_SLOT}, load average ${os
+        .loadavg()
+        .map((l) => l.toFixed(1))
+        .join(" ")}`,
+    );
     out("");
     out("| filter | p50 | p95 | max | total matched |");
     out("| --- | --- | --- | --- | --- |");
@@ -99,19 +104,35 @@ async function main() {
       times.sort((a, b) => a - b);
       const p95 = percentile(times, 95);
       worst.push({ name, p95 });
-      out(`| ${name} | ${ms(percentile(times, 50))} | ${ms(p95)} | ${ms(times.at(-1)!)} | ${total.toLocaleString("en")} |`);
+      out(
+        `| ${name} | ${ms(percentile(times, 50))} | ${ms(p95)} | ${ms(times.at(-1)!)} | ${total.toLocaleString("en")} |`,
+      );
     }
 
     // A 10,000-row deliveries file, timed from request to committed answer.
     const rows = ["supplier,received_on,lot,grade,length_mm,width_mm,height_mm,cost,location,weight_kg"];
-    for (let i = 0; i < IMPORT_ROWS; i++) rows.push(`Ashcombe Bead & Block,2026-11-30,BENCH-${Math.floor(i / 100)},EPS-II,${2000 + (i % 400)},1000,${500 + (i % 100)},${60 + (i % 40)},Bay Z,${(22 * (2000 + (i % 400)) * (500 + (i % 100))) / 1e6}`);
+    for (let i = 0; i < IMPORT_ROWS; i++)
+      rows.push(
+        `Ashcombe Bead & Block,2026-11-30,BENCH-${Math.floor(i / 100)},EPS-II,${2000 + (i % 400)},1000,${500 + (i % 100)},${60 + (i % 40)},Bay Z,${(22 * (2000 + (i % 400)) * (500 + (i % 100))) / 1e6}`,
+      );
     const csv = rows.join("\n") + "\n";
     const t = performance.now();
-    const res = await fetch(`${stack.url}/api/imports/deliveries?commit=1&name=bench.csv`, { method: "POST", headers: { cookie, origin: stack.url, "content-type": "text/csv" }, body: csv });
+    const res = await fetch(`${stack.url}/api/imports/deliveries?commit=1&name=bench.csv`, {
+      method: "POST",
+      headers: { cookie, origin: stack.url, "content-type": "text/csv" },
+      body: csv,
+    });
     const took = performance.now() - t;
-    const report = (await res.json()) as { committed?: boolean; summary?: Record<string, number>; problemCount?: number; error?: string };
+    const report = (await res.json()) as {
+      committed?: boolean;
+      summary?: Record<string, number>;
+      problemCount?: number;
+      error?: string;
+    };
     out("");
-    out(`10,000-row deliveries import (POST /api/imports/deliveries?commit=1, ${(csv.length / 1024 / 1024).toFixed(2)} MB): ${res.status} ${report.committed ? "committed" : "NOT committed"} ${report.summary?.blocks ?? 0} blocks in ${(took / 1000).toFixed(2)} s (target < 5 s)`);
+    out(
+      `10,000-row deliveries import (POST /api/imports/deliveries?commit=1, ${(csv.length / 1024 / 1024).toFixed(2)} MB): ${res.status} ${report.committed ? "committed" : "NOT committed"} ${report.summary?.blocks ?? 0} blocks in ${(took / 1000).toFixed(2)} s (target < 5 s)`,
+    );
     const slowest = worst.sort((a, b) => b.p95 - a.p95)[0]!;
     out(`slowest filter p95: ${slowest.name} ${ms(slowest.p95)} (target < 150 ms)`);
 

@@ -6,7 +6,19 @@ import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 
-const SOURCES = ["app", "components", "lib", "db", "public", "proxy.ts", "next.config.mjs", "tailwind.config.ts", "postcss.config.mjs", "package-lock.json", "tsconfig.json"];
+const SOURCES = [
+  "app",
+  "components",
+  "lib",
+  "db",
+  "public",
+  "proxy.ts",
+  "next.config.mjs",
+  "tailwind.config.ts",
+  "postcss.config.mjs",
+  "package-lock.json",
+  "tsconfig.json",
+];
 
 function newestMtime(p: string): number {
   if (!fs.existsSync(p)) return 0;
@@ -26,7 +38,10 @@ export function buildIfNeeded(): void {
     return;
   }
   process.stderr.write("[build] building the app (next build)…\n");
-  const r = spawnSync("npx", ["next", "build"], { stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
+  const r = spawnSync("npx", ["next", "build"], {
+    stdio: "inherit",
+    env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" },
+  });
   if (r.status !== 0) {
     process.stderr.write("[build] next build failed\n");
     process.exit(r.status ?? 1);

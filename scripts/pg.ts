@@ -101,7 +101,14 @@ export async function ensureCluster(opts: ClusterOptions): Promise<string> {
     log(`creating cluster in ${dir}`);
     fs.mkdirSync(dir, { recursive: true, mode: 0o700 });
     if (isRoot) execFileSync("chown", ["postgres:", dir]);
-    runPg(path.join(bin, "initdb"), ["-D", dir, "--auth=trust", "--username=postgres", "--encoding=UTF8", "--locale=C"]);
+    runPg(path.join(bin, "initdb"), [
+      "-D",
+      dir,
+      "--auth=trust",
+      "--username=postgres",
+      "--encoding=UTF8",
+      "--locale=C",
+    ]);
   }
   if (clusterStatus(opts) !== "running") {
     const serverOpts = [
@@ -112,7 +119,18 @@ export async function ensureCluster(opts: ClusterOptions): Promise<string> {
       ...(opts.fast ? ["-c fsync=off", "-c synchronous_commit=off", "-c full_page_writes=off"] : []),
     ].join(" ");
     log(`starting on 127.0.0.1:${opts.port}`);
-    runPg(path.join(bin, "pg_ctl"), ["-D", dir, "-l", path.join(dir, "server.log"), "-o", serverOpts, "-w", "-t", "60", "start"]);
+    runPg(path.join(bin, "pg_ctl"), [
+      "-D",
+      dir,
+      "-l",
+      path.join(dir, "server.log"),
+      "-o",
+      serverOpts,
+      "-w",
+      "-t",
+      "60",
+      "start",
+    ]);
   }
   const admin = new pg.Client({ host: "127.0.0.1", port: opts.port, user: "postgres", database: "postgres" });
   await admin.connect();

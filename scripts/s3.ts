@@ -23,7 +23,11 @@ export interface FakeS3Options {
 
 export const DEMO_S3: FakeS3Options = { name: "s3", port: 54340 };
 const SLOT = Number(process.env.TEST_SLOT ?? 0); // see TEST_SLOT in scripts/pg.ts
-export const TEST_S3: FakeS3Options = { name: SLOT ? `s3-test-${SLOT}` : "s3-test", port: SLOT ? 55100 + SLOT : 54349, fresh: true };
+export const TEST_S3: FakeS3Options = {
+  name: SLOT ? `s3-test-${SLOT}` : "s3-test",
+  port: SLOT ? 55100 + SLOT : 54349,
+  fresh: true,
+};
 
 export interface RunningS3 {
   env: Record<string, string>;
@@ -39,17 +43,25 @@ export async function ensureS3(opts: FakeS3Options): Promise<RunningS3> {
   if (opts.fresh) fs.rmSync(directory, { recursive: true, force: true });
   fs.mkdirSync(directory, { recursive: true });
 
-  const child = spawn(process.execPath, ["--import", "tsx", SCRIPT, "--serve", JSON.stringify({ port: opts.port, bucket, directory })], {
-    stdio: ["ignore", "inherit", "inherit", "ipc"],
-  });
+  const child = spawn(
+    process.execPath,
+    ["--import", "tsx", SCRIPT, "--serve", JSON.stringify({ port: opts.port, bucket, directory })],
+    {
+      stdio: ["ignore", "inherit", "inherit", "ipc"],
+    },
+  );
   const port = await new Promise<number>((resolve, reject) => {
-    child.once("message", (m: { port?: number; error?: string }) => (m.port ? resolve(m.port) : reject(new Error(m.error))));
+    child.once("message", (m: { port?: number; error?: string }) =>
+      m.port ? resolve(m.port) : reject(new Error(m.error)),
+    );
     child.once("exit", (code) => reject(new Error(`[s3] the local S3 fake exited during start-up (code ${code})`)));
   });
   // Never keep the caller alive for the fake's sake; it exits when the IPC channel closes.
   child.unref();
   child.channel?.unref();
-  process.stderr.write(`[s3] local S3 fake on http://127.0.0.1:${port} (bucket ${bucket}, data in .data/${opts.name})\n`);
+  process.stderr.write(
+    `[s3] local S3 fake on http://127.0.0.1:${port} (bucket ${bucket}, data in .data/${opts.name})\n`,
+  );
   return {
     env: {
       S3_ENDPOINT: `http://127.0.0.1:${port}`,

@@ -12,8 +12,22 @@ async function main() {
   const base = process.env.SHOT_URL ?? "http://localhost:3000";
   const dir = path.join("test-results", "screenshots");
   fs.mkdirSync(dir, { recursive: true });
-  const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium", args: ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"] });
-  for (const [size, viewport] of [["tablet", { width: 820, height: 1180 }], ["wide", { width: 1366, height: 900 }]] as const) {
+  const browser = await chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+    args: [
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-quic",
+      "--no-first-run",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+    ],
+  });
+  for (const [size, viewport] of [
+    ["tablet", { width: 820, height: 1180 }],
+    ["wide", { width: 1366, height: 900 }],
+  ] as const) {
     const ctx = await browser.newContext({ viewport });
     const page = await ctx.newPage();
     await page.goto(`${base}/sign-in`);

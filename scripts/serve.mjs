@@ -37,7 +37,9 @@ if (cluster.isPrimary && workers > 1) {
   cluster.on("exit", (worker, code, signal) => {
     if (stopping) return;
     if (Date.now() - (born.get(worker.id) ?? 0) < 10_000) {
-      process.stderr.write(`[serve] worker ${worker.process.pid} failed while starting (${signal ?? code}); stopping\n`);
+      process.stderr.write(
+        `[serve] worker ${worker.process.pid} failed while starting (${signal ?? code}); stopping\n`,
+      );
       stopWorkers();
       process.exitCode = 1;
       return;

@@ -24,7 +24,10 @@ function ensureChromium(): void {
   }
   console.error("[test] installing Debian's chromium for the browser tests (first run only)…");
   const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
-  for (const args of [["update", "-qq"], ["install", "-y", "-qq", "chromium", "fonts-dejavu-core"]]) {
+  for (const args of [
+    ["update", "-qq"],
+    ["install", "-y", "-qq", "chromium", "fonts-dejavu-core"],
+  ]) {
     const r = spawnSync("apt-get", args, { stdio: "inherit", env });
     if (r.status !== 0) process.exit(r.status ?? 1);
   }
@@ -48,7 +51,9 @@ async function waitForHealth(url: string, server: ChildProcess): Promise<void> {
 async function main() {
   const vitestArgs = process.argv.slice(2);
   // Only the unit project asked for: no database, no server, no browser needed.
-  const projects = vitestArgs.flatMap((a, i) => (a === "--project" && vitestArgs[i + 1] ? [vitestArgs[i + 1]!] : a.startsWith("--project=") ? [a.slice(10)] : []));
+  const projects = vitestArgs.flatMap((a, i) =>
+    a === "--project" && vitestArgs[i + 1] ? [vitestArgs[i + 1]!] : a.startsWith("--project=") ? [a.slice(10)] : [],
+  );
   const onlyUnit = projects.length > 0 && projects.every((p) => p === "unit");
   delete process.env.DATABASE_URL; // the demo database is never a test database
   if (TEST_SLOT && !process.env.NEXT_DIST_DIR) process.env.NEXT_DIST_DIR = `.next-slot-${TEST_SLOT}`;
@@ -99,12 +104,20 @@ async function main() {
       server = spawn(process.execPath, ["scripts/serve.mjs", "--port", port, "--hostname", "127.0.0.1"], {
         env,
         detached: true,
-        stdio: ["ignore", fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "w"), fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "a")],
+        stdio: [
+          "ignore",
+          fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "w"),
+          fs.openSync(`.data/test-server${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "a"),
+        ],
       });
       await waitForHealth(baseUrl, server);
       // The background worker, as `npm start` runs it (tests of nesting runs and alerts need it).
       const workerLog = fs.openSync(`.data/test-worker${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`, "w");
-      worker = spawn("npm", ["run", "--silent", "worker"], { env, detached: true, stdio: ["ignore", workerLog, workerLog] });
+      worker = spawn("npm", ["run", "--silent", "worker"], {
+        env,
+        detached: true,
+        stdio: ["ignore", workerLog, workerLog],
+      });
       // The faults test pauses this worker while its own takes a run, so the run cannot go elsewhere.
       if (worker.pid) env.TEST_WORKER_PGID = String(worker.pid);
     }

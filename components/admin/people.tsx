@@ -27,7 +27,12 @@ export function People({ initial, selfId }: { initial: UserRow[]; selfId: string
   return (
     <div className="space-y-6">
       {message && <Notice tone={message.tone}>{message.text}</Notice>}
-      <NewPerson onCreated={async (name) => { setMessage({ tone: "success", text: `${name} can now sign in with the temporary password.` }); await mutate(); }} />
+      <NewPerson
+        onCreated={async (name) => {
+          setMessage({ tone: "success", text: `${name} can now sign in with the temporary password.` });
+          await mutate();
+        }}
+      />
       <Card title={`People (${users.length})`}>
         <ul className="divide-y divide-bead">
           {users.map((u) => (
@@ -39,7 +44,15 @@ export function People({ initial, selfId }: { initial: UserRow[]; selfId: string
   );
 }
 
-function PersonRow({ user, isSelf, run }: { user: UserRow; isSelf: boolean; run: (a: () => Promise<unknown>, ok: string) => Promise<void> }) {
+function PersonRow({
+  user,
+  isSelf,
+  run,
+}: {
+  user: UserRow;
+  isSelf: boolean;
+  run: (a: () => Promise<unknown>, ok: string) => Promise<void>;
+}) {
   const [roles, setRoles] = useState<Role[]>(user.roles);
   const [temp, setTemp] = useState("");
   const changed = roles.slice().sort().join() !== user.roles.slice().sort().join();
@@ -47,7 +60,8 @@ function PersonRow({ user, isSelf, run }: { user: UserRow; isSelf: boolean; run:
     <li className="grid gap-3 py-4 md:grid-cols-[1fr_auto]" data-testid={`person-${user.email}`}>
       <div>
         <p className="font-medium">
-          {user.name} {isSelf && <Badge tone="kerf">you</Badge>} {!user.active && <Badge tone="ember">deactivated</Badge>}{" "}
+          {user.name} {isSelf && <Badge tone="kerf">you</Badge>}{" "}
+          {!user.active && <Badge tone="ember">deactivated</Badge>}{" "}
           {user.mustChangePassword && user.active && <Badge tone="wire">temporary password</Badge>}
         </p>
         <p className="text-sm text-ink-soft">{user.email}</p>
@@ -67,7 +81,11 @@ function PersonRow({ user, isSelf, run }: { user: UserRow; isSelf: boolean; run:
       </div>
       <div className="flex flex-wrap items-start gap-2 md:justify-end">
         {changed && (
-          <Button onClick={() => run(() => send(`/api/admin/users/${user.id}`, "PATCH", { roles }), `Roles of ${user.name} saved.`)}>
+          <Button
+            onClick={() =>
+              run(() => send(`/api/admin/users/${user.id}`, "PATCH", { roles }), `Roles of ${user.name} saved.`)
+            }
+          >
             Save roles
           </Button>
         )}
@@ -75,10 +93,15 @@ function PersonRow({ user, isSelf, run }: { user: UserRow; isSelf: boolean; run:
           className="flex gap-2"
           onSubmit={(e) => {
             e.preventDefault();
-            void run(() => send(`/api/admin/users/${user.id}/password`, "POST", { password: temp }), `Temporary password set for ${user.name}; their sessions were ended.`).then(() => setTemp(""));
+            void run(
+              () => send(`/api/admin/users/${user.id}/password`, "POST", { password: temp }),
+              `Temporary password set for ${user.name}; their sessions were ended.`,
+            ).then(() => setTemp(""));
           }}
         >
-          <label className="sr-only" htmlFor={`temp-${user.id}`}>Temporary password for {user.name}</label>
+          <label className="sr-only" htmlFor={`temp-${user.id}`}>
+            Temporary password for {user.name}
+          </label>
           <input
             id={`temp-${user.id}`}
             type="text"
@@ -87,15 +110,33 @@ function PersonRow({ user, isSelf, run }: { user: UserRow; isSelf: boolean; run:
             placeholder="Temporary password"
             className="min-h-11 w-44 rounded-md border border-bead-strong bg-paper-raised px-3 text-sm"
           />
-          <Button tone="secondary" type="submit" disabled={temp.length === 0}>Set</Button>
+          <Button tone="secondary" type="submit" disabled={temp.length === 0}>
+            Set
+          </Button>
         </form>
         {!isSelf &&
           (user.active ? (
-            <Button tone="danger" onClick={() => run(() => send(`/api/admin/users/${user.id}`, "PATCH", { active: false }), `${user.name} was deactivated and signed out everywhere.`)}>
+            <Button
+              tone="danger"
+              onClick={() =>
+                run(
+                  () => send(`/api/admin/users/${user.id}`, "PATCH", { active: false }),
+                  `${user.name} was deactivated and signed out everywhere.`,
+                )
+              }
+            >
               Deactivate
             </Button>
           ) : (
-            <Button tone="secondary" onClick={() => run(() => send(`/api/admin/users/${user.id}`, "PATCH", { active: true }), `${user.name} can sign in again.`)}>
+            <Button
+              tone="secondary"
+              onClick={() =>
+                run(
+                  () => send(`/api/admin/users/${user.id}`, "PATCH", { active: true }),
+                  `${user.name} can sign in again.`,
+                )
+              }
+            >
               Reactivate
             </Button>
           ))}
@@ -141,10 +182,23 @@ function NewPerson({ onCreated }: { onCreated: (name: string) => Promise<void> }
           }
         }}
       >
-        {error && <div className="md:col-span-2"><Notice tone="danger">{error}</Notice></div>}
-        <Field label="Name" name="name" error={fields.name}><Input name="name" error={fields.name} /></Field>
-        <Field label="E-mail" name="email" error={fields.email}><Input name="email" type="email" error={fields.email} /></Field>
-        <Field label="Temporary password" name="password" error={fields.password} hint="At least 10 characters. They choose their own at first sign-in.">
+        {error && (
+          <div className="md:col-span-2">
+            <Notice tone="danger">{error}</Notice>
+          </div>
+        )}
+        <Field label="Name" name="name" error={fields.name}>
+          <Input name="name" error={fields.name} />
+        </Field>
+        <Field label="E-mail" name="email" error={fields.email}>
+          <Input name="email" type="email" error={fields.email} />
+        </Field>
+        <Field
+          label="Temporary password"
+          name="password"
+          error={fields.password}
+          hint="At least 10 characters. They choose their own at first sign-in."
+        >
           <Input name="password" type="text" autoComplete="off" error={fields.password} />
         </Field>
         <fieldset>
@@ -152,15 +206,26 @@ function NewPerson({ onCreated }: { onCreated: (name: string) => Promise<void> }
           <div className="mt-1 flex flex-wrap gap-x-4">
             {ROLES.map((r) => (
               <label key={r} className="flex min-h-11 items-center gap-2 text-sm">
-                <input type="checkbox" className="size-5 accent-kerf" checked={roles.includes(r)} onChange={(e) => setRoles(e.target.checked ? [...roles, r] : roles.filter((x) => x !== r))} />
+                <input
+                  type="checkbox"
+                  className="size-5 accent-kerf"
+                  checked={roles.includes(r)}
+                  onChange={(e) => setRoles(e.target.checked ? [...roles, r] : roles.filter((x) => x !== r))}
+                />
                 {ROLE_LABELS[r]}
               </label>
             ))}
           </div>
-          {fields.roles && <p role="alert" className="text-sm text-ember">{fields.roles}</p>}
+          {fields.roles && (
+            <p role="alert" className="text-sm text-ember">
+              {fields.roles}
+            </p>
+          )}
         </fieldset>
         <div className="md:col-span-2">
-          <Button type="submit" disabled={busy}>{busy ? "Adding…" : "Add person"}</Button>
+          <Button type="submit" disabled={busy}>
+            {busy ? "Adding…" : "Add person"}
+          </Button>
         </div>
       </form>
     </Card>

@@ -19,10 +19,17 @@ export function PasswordForm() {
           setFields({ repeat: "The two new passwords differ." });
           return;
         }
-        const done = await submit(() => send("/api/me/password", "POST", { currentPassword: fd.get("currentPassword"), newPassword: fd.get("newPassword") }), {
-          ok: "Password changed. Your other sessions were signed out.",
-          failed: "The password was not changed.",
-        });
+        const done = await submit(
+          () =>
+            send("/api/me/password", "POST", {
+              currentPassword: fd.get("currentPassword"),
+              newPassword: fd.get("newPassword"),
+            }),
+          {
+            ok: "Password changed. Your other sessions were signed out.",
+            failed: "The password was not changed.",
+          },
+        );
         if (done) form.reset();
       }}
     >
@@ -36,7 +43,9 @@ export function PasswordForm() {
       <Field label="New password again" name="repeat" error={fields.repeat}>
         <Input name="repeat" type="password" autoComplete="new-password" error={fields.repeat} />
       </Field>
-      <Button type="submit" disabled={busy}>{busy ? "Saving…" : "Change password"}</Button>
+      <Button type="submit" disabled={busy}>
+        {busy ? "Saving…" : "Change password"}
+      </Button>
     </form>
   );
 }

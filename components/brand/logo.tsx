@@ -3,8 +3,20 @@ export function LogoMark({ size = 32, className }: { size?: number; className?: 
   return (
     <svg width={size} height={size} viewBox="0 0 64 64" className={className} aria-hidden="true">
       {/* the block */}
-      <path d="M32 22 L54 33 L54 51 L32 62 L10 51 L10 33 Z" fill="#f7f5ef" stroke="#1c2a2e" strokeWidth="3" strokeLinejoin="round" />
-      <path d="M10 33 L32 44 L54 33 M32 44 L32 62" fill="none" stroke="#1c2a2e" strokeWidth="3" strokeLinejoin="round" />
+      <path
+        d="M32 22 L54 33 L54 51 L32 62 L10 51 L10 33 Z"
+        fill="#f7f5ef"
+        stroke="#1c2a2e"
+        strokeWidth="3"
+        strokeLinejoin="round"
+      />
+      <path
+        d="M10 33 L32 44 L54 33 M32 44 L32 62"
+        fill="none"
+        stroke="#1c2a2e"
+        strokeWidth="3"
+        strokeLinejoin="round"
+      />
       {/* the slab lifted off */}
       <path d="M32 4 L54 15 L32 26 L10 15 Z" fill="#d7ecee" stroke="#1f6c75" strokeWidth="3" strokeLinejoin="round" />
       {/* the hot wire */}

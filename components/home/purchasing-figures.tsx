@@ -17,15 +17,22 @@ export async function BuyerFigures() {
         <ul className="space-y-1">
           {due.slice(0, 5).map((g) => (
             <li key={g.gradeId} className="flex justify-between gap-2">
-              <span><span className="mr-1 inline-block size-3 rounded-sm align-middle" style={{ background: g.colour }} />{g.gradeCode}</span>
-              <span className="text-ink-soft tabular-nums">{g.result.position.toFixed(1)} of {g.result.reorderPoint.toFixed(1)} m³</span>
+              <span>
+                <span className="mr-1 inline-block size-3 rounded-sm align-middle" style={{ background: g.colour }} />
+                {g.gradeCode}
+              </span>
+              <span className="text-ink-soft tabular-nums">
+                {g.result.position.toFixed(1)} of {g.result.reorderPoint.toFixed(1)} m³
+              </span>
             </li>
           ))}
         </ul>
       )}
       <div className="flex flex-wrap gap-4">
         <Link href="/purchasing">Reorder list</Link>
-        <Link href="/purchasing/orders?status=open">Open orders{open.draft ? ` (${open.draft} draft${open.draft === 1 ? "" : "s"})` : ""}</Link>
+        <Link href="/purchasing/orders?status=open">
+          Open orders{open.draft ? ` (${open.draft} draft${open.draft === 1 ? "" : "s"})` : ""}
+        </Link>
       </div>
     </div>
   );
@@ -34,7 +41,10 @@ export async function BuyerFigures() {
 /** The manager's home figure: material yield this month against last. */
 export async function ManagerFigures() {
   const { thisMonth, lastMonth } = await yieldThisMonthVsLast();
-  const delta = thisMonth.yieldPct !== null && lastMonth.yieldPct !== null ? Math.round((thisMonth.yieldPct - lastMonth.yieldPct) * 10) / 10 : null;
+  const delta =
+    thisMonth.yieldPct !== null && lastMonth.yieldPct !== null
+      ? Math.round((thisMonth.yieldPct - lastMonth.yieldPct) * 10) / 10
+      : null;
   return (
     <div className="mt-3 space-y-3 text-sm" data-testid="manager-figures">
       <div className="grid grid-cols-2 gap-3">
@@ -42,12 +52,23 @@ export async function ManagerFigures() {
         <Fig label="Last month" value={lastMonth.yieldPct === null ? "–" : `${lastMonth.yieldPct} %`} />
       </div>
       <p className="text-ink-soft">
-        {delta === null
-          ? thisMonth.yieldPct === null ? "No blocks cut yet this month." : "No blocks were cut last month to compare with."
-          : delta === 0
-            ? "The same as last month."
-            : <><span className={delta > 0 ? "font-semibold text-moss" : "font-semibold text-ember"}>{delta > 0 ? "▲" : "▼"} {Math.abs(delta)} points</span> against last month.</>}
-        {" "}Parts ÷ (stock issued − offcuts kept).
+        {delta === null ? (
+          thisMonth.yieldPct === null ? (
+            "No blocks cut yet this month."
+          ) : (
+            "No blocks were cut last month to compare with."
+          )
+        ) : delta === 0 ? (
+          "The same as last month."
+        ) : (
+          <>
+            <span className={delta > 0 ? "font-semibold text-moss" : "font-semibold text-ember"}>
+              {delta > 0 ? "▲" : "▼"} {Math.abs(delta)} points
+            </span>{" "}
+            against last month.
+          </>
+        )}{" "}
+        Parts ÷ (stock issued − offcuts kept).
       </p>
       <Link href="/reports">Reports</Link>
     </div>

@@ -48,8 +48,12 @@ export async function CutterFigures() {
         <ul className="mt-1 space-y-1">
           {plans.map((p) => (
             <li key={p.id} className="flex justify-between gap-2">
-              <Link href={`/plans/${p.id}/cut`}>Plan #{p.id} · {p.jobs.join(", ")}</Link>
-              <span className="text-ink-soft">{p.toCut} block{p.toCut === 1 ? "" : "s"} to cut{p.cut ? `, ${p.cut} done` : ""}</span>
+              <Link href={`/plans/${p.id}/cut`}>
+                Plan #{p.id} · {p.jobs.join(", ")}
+              </Link>
+              <span className="text-ink-soft">
+                {p.toCut} block{p.toCut === 1 ? "" : "s"} to cut{p.cut ? `, ${p.cut} done` : ""}
+              </span>
             </li>
           ))}
         </ul>

@@ -6,7 +6,13 @@ import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 
-export interface LibraryChoice { id: number; kit: string | null; name: string; defaultQuantity: number; sizeText: string }
+export interface LibraryChoice {
+  id: number;
+  kit: string | null;
+  name: string;
+  defaultQuantity: number;
+  sizeText: string;
+}
 
 /** Tick library parts, set how many, add them to the job in one go. */
 export function AddFromLibrary({ jobId, parts }: { jobId: number; parts: LibraryChoice[] }) {
@@ -38,7 +44,8 @@ export function AddFromLibrary({ jobId, parts }: { jobId: number; parts: Library
     }
   }
 
-  if (!parts.length) return <p className="text-sm text-ink-soft">The library is empty. Add reusable parts on the Part library page.</p>;
+  if (!parts.length)
+    return <p className="text-sm text-ink-soft">The library is empty. Add reusable parts on the Part library page.</p>;
   return (
     <div className="space-y-3">
       {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
@@ -47,16 +54,29 @@ export function AddFromLibrary({ jobId, parts }: { jobId: number; parts: Library
         <div key={kit}>
           <h3 className="mb-1 text-sm font-semibold">{kit}</h3>
           <ul className="divide-y divide-bead/60">
-            {parts.filter((p) => (p.kit ?? "No kit") === kit).map((p) => (
-              <li key={p.id} className="flex items-center justify-between gap-3 py-1.5">
-                <span className="text-sm">{p.name} <span className="text-xs text-ink-faint">{p.sizeText}</span></span>
-                <input aria-label={`How many ${p.name}`} inputMode="numeric" placeholder={String(p.defaultQuantity)} value={qty[p.id] ?? ""} onChange={(e) => setQty((s) => ({ ...s, [p.id]: e.target.value }))} className="min-h-11 w-20 rounded-md border border-bead-strong bg-paper-raised px-2 text-right" />
-              </li>
-            ))}
+            {parts
+              .filter((p) => (p.kit ?? "No kit") === kit)
+              .map((p) => (
+                <li key={p.id} className="flex items-center justify-between gap-3 py-1.5">
+                  <span className="text-sm">
+                    {p.name} <span className="text-xs text-ink-faint">{p.sizeText}</span>
+                  </span>
+                  <input
+                    aria-label={`How many ${p.name}`}
+                    inputMode="numeric"
+                    placeholder={String(p.defaultQuantity)}
+                    value={qty[p.id] ?? ""}
+                    onChange={(e) => setQty((s) => ({ ...s, [p.id]: e.target.value }))}
+                    className="min-h-11 w-20 rounded-md border border-bead-strong bg-paper-raised px-2 text-right"
+                  />
+                </li>
+              ))}
           </ul>
         </div>
       ))}
-      <Button onClick={add} disabled={busy || !chosen.length}>Add {chosen.length || ""} from the library</Button>
+      <Button onClick={add} disabled={busy || !chosen.length}>
+        Add {chosen.length || ""} from the library
+      </Button>
     </div>
   );
 }

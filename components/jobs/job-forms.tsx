@@ -39,10 +39,18 @@ export function NewJobForm() {
       }}
     >
       {msg && <Notice tone="danger">{msg}</Notice>}
-      <Field label="Job name" name="name" error={fields.name}><Input name="name" error={fields.name} placeholder="e.g. Kestrel kits, batch 4" /></Field>
-      <Field label="Customer or project" name="customer" error={fields.customer}><Input name="customer" error={fields.customer} /></Field>
-      <Field label="Due" name="dueOn" error={fields.dueOn}><Input name="dueOn" type="date" error={fields.dueOn} /></Field>
-      <Field label="Notes" name="notes" error={fields.notes}><Input name="notes" error={fields.notes} /></Field>
+      <Field label="Job name" name="name" error={fields.name}>
+        <Input name="name" error={fields.name} placeholder="e.g. Kestrel kits, batch 4" />
+      </Field>
+      <Field label="Customer or project" name="customer" error={fields.customer}>
+        <Input name="customer" error={fields.customer} />
+      </Field>
+      <Field label="Due" name="dueOn" error={fields.dueOn}>
+        <Input name="dueOn" type="date" error={fields.dueOn} />
+      </Field>
+      <Field label="Notes" name="notes" error={fields.notes}>
+        <Input name="notes" error={fields.notes} />
+      </Field>
       <Button type="submit">Create the job</Button>
     </form>
   );
@@ -69,7 +77,11 @@ export function JobStatusControl({ jobId, status }: { jobId: number; status: Job
             }
           }}
         >
-          {JOB_STATUSES.map((s) => <option key={s} value={s}>{JOB_STATUS_LABELS[s]}</option>)}
+          {JOB_STATUSES.map((s) => (
+            <option key={s} value={s}>
+              {JOB_STATUS_LABELS[s]}
+            </option>
+          ))}
         </Select>
       </label>
       {error && <p className="text-sm text-ember">{error}</p>}
@@ -85,9 +97,11 @@ export function PartsImport({ jobId }: { jobId: number }) {
       url={`/api/jobs/${jobId}/parts/import`}
       hint={
         <>
-          Columns: <code>name</code>, <code>quantity</code>, then either <code>length_mm</code>, <code>width_mm</code>, <code>height_mm</code> (a box),
-          or <code>naca</code>, <code>chord_mm</code>, <code>span_mm</code> (+ <code>tip_chord_mm</code>, <code>sweep_mm</code>), or <code>polygon</code> (“x y; x y; …”) with <code>extrude_mm</code>.
-          Optional: <code>grade</code>, <code>rotate</code> (any, z, none). Checking changes nothing; the import takes every row or none.
+          Columns: <code>name</code>, <code>quantity</code>, then either <code>length_mm</code>, <code>width_mm</code>,{" "}
+          <code>height_mm</code> (a box), or <code>naca</code>, <code>chord_mm</code>, <code>span_mm</code> (+{" "}
+          <code>tip_chord_mm</code>, <code>sweep_mm</code>), or <code>polygon</code> (“x y; x y; …”) with{" "}
+          <code>extrude_mm</code>. Optional: <code>grade</code>, <code>rotate</code> (any, z, none). Checking changes
+          nothing; the import takes every row or none.
         </>
       }
       summaryLabels={{ parts: "part lines", pieces: "pieces", volumeM3: "m³ of foam" }}

@@ -23,7 +23,6 @@ interface Props {
   unit?: LengthUnit;
 }
 
-
 /**
  * Adds a part by hand: a plain box, a polygon extruded along the wire, or a NACA wing panel (a tip
  * chord different from the root makes it a tapered 4-axis panel). The drawing and the computed box
@@ -33,7 +32,17 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
   const len = (s: string | undefined) => lengthMmOrNull(s ?? "", unit);
   const router = useRouter();
   const [shape, setShape] = useState<Shape>("box");
-  const [v, setV] = useState<Record<string, string>>({ quantity: "1", rotate: "any", code: "2412", chordMm: "", tipChordMm: "", spanMm: "", sweepMm: "", points: "", extrudeMm: "" });
+  const [v, setV] = useState<Record<string, string>>({
+    quantity: "1",
+    rotate: "any",
+    code: "2412",
+    chordMm: "",
+    tipChordMm: "",
+    spanMm: "",
+    sweepMm: "",
+    points: "",
+    extrudeMm: "",
+  });
   const [fields, setFields] = useState<Record<string, string>>({});
   const [msg, setMsg] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
   const [busy, setBusy] = useState(false);
@@ -42,9 +51,30 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
   const profile = useMemo((): { profile: Profile | null; error: string | null } => {
     try {
       if (shape === "naca") {
-        return { profile: { kind: "naca", code: v.code ?? "", chordMm: len(v.chordMm) ?? 0, tipChordMm: len(v.tipChordMm), spanMm: len(v.spanMm) ?? 0, sweepMm: len(v.sweepMm) }, error: null };
+        return {
+          profile: {
+            kind: "naca",
+            code: v.code ?? "",
+            chordMm: len(v.chordMm) ?? 0,
+            tipChordMm: len(v.tipChordMm),
+            spanMm: len(v.spanMm) ?? 0,
+            sweepMm: len(v.sweepMm),
+          },
+          error: null,
+        };
       }
-      if (shape === "polygon") return { profile: { kind: "polygon", points: parsePoints(v.points ?? "").map(([x, y]): [number, number] => [lengthToMm(x, unit), lengthToMm(y, unit)]), extrudeMm: len(v.extrudeMm) ?? 0 }, error: null };
+      if (shape === "polygon")
+        return {
+          profile: {
+            kind: "polygon",
+            points: parsePoints(v.points ?? "").map(([x, y]): [number, number] => [
+              lengthToMm(x, unit),
+              lengthToMm(y, unit),
+            ]),
+            extrudeMm: len(v.extrudeMm) ?? 0,
+          },
+          error: null,
+        };
     } catch (e) {
       return { profile: null, error: (e as Error).message };
     }
@@ -74,7 +104,11 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
       if (target.kind === "job") {
         await send(`/api/jobs/${target.jobId}/parts`, "POST", { ...base, quantity: num(v.quantity ?? "") });
       } else {
-        await send("/api/library", "POST", { ...base, kit: v.kit ?? null, defaultQuantity: num(v.quantity ?? "") ?? 1 });
+        await send("/api/library", "POST", {
+          ...base,
+          kit: v.kit ?? null,
+          defaultQuantity: num(v.quantity ?? "") ?? 1,
+        });
       }
       setMsg({ tone: "success", text: `${base.name} added.` });
       setV((s) => ({ ...s, name: "" }));
@@ -93,28 +127,54 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
   const qtyField = target.kind === "job" ? "quantity" : "defaultQuantity";
 
   return (
-    <form className="space-y-4" onSubmit={(e) => { e.preventDefault(); void submit(); }}>
+    <form
+      className="space-y-4"
+      onSubmit={(e) => {
+        e.preventDefault();
+        void submit();
+      }}
+    >
       {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
       <div className="grid gap-3 sm:grid-cols-2">
         {target.kind === "library" && (
           <Field label="Kit" name="kit" error={err("kit")} hint="Parts of one kit are listed together.">
             <Input name="kit" list="kits" value={v.kit ?? ""} onChange={set("kit")} error={err("kit")} />
-            <datalist id="kits">{kits.map((k) => <option key={k} value={k} />)}</datalist>
+            <datalist id="kits">
+              {kits.map((k) => (
+                <option key={k} value={k} />
+              ))}
+            </datalist>
           </Field>
         )}
-        <Field label="Part name" name="name" error={err("name")}><Input name="name" value={v.name ?? ""} onChange={set("name")} error={err("name")} /></Field>
+        <Field label="Part name" name="name" error={err("name")}>
+          <Input name="name" value={v.name ?? ""} onChange={set("name")} error={err("name")} />
+        </Field>
         <Field label={target.kind === "job" ? "Quantity" : "Usual quantity"} name={qtyField} error={err(qtyField)}>
-          <Input name={qtyField} inputMode="numeric" value={v.quantity ?? ""} onChange={set("quantity")} error={err(qtyField)} />
+          <Input
+            name={qtyField}
+            inputMode="numeric"
+            value={v.quantity ?? ""}
+            onChange={set("quantity")}
+            error={err(qtyField)}
+          />
         </Field>
         <Field label="Grade" name="gradeId" error={err("gradeId")} hint="Empty: any grade will do.">
           <Select name="gradeId" value={v.gradeId ?? ""} onChange={set("gradeId")} error={err("gradeId")}>
             <option value="">Any grade</option>
-            {grades.map((g) => <option key={g.id} value={g.id}>{g.code}</option>)}
+            {grades.map((g) => (
+              <option key={g.id} value={g.id}>
+                {g.code}
+              </option>
+            ))}
           </Select>
         </Field>
         <Field label="Turning in the block" name="rotate" error={err("rotate")}>
           <Select name="rotate" value={v.rotate} onChange={set("rotate")}>
-            {ROTATE_RULES.map((r) => <option key={r} value={r}>{ROTATE_LABELS[r]}</option>)}
+            {ROTATE_RULES.map((r) => (
+              <option key={r} value={r}>
+                {ROTATE_LABELS[r]}
+              </option>
+            ))}
           </Select>
         </Field>
       </div>
@@ -122,9 +182,26 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
       <fieldset>
         <legend className="text-sm font-medium text-ink-soft">Shape</legend>
         <div className="mt-1 flex flex-wrap gap-2" role="radiogroup">
-          {([["box", "Box"], ["polygon", "Polygon profile"], ["naca", "NACA wing panel"]] as const).map(([k, label]) => (
-            <label key={k} className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 text-sm ${shape === k ? "border-kerf bg-kerf-light" : "border-bead-strong bg-paper-raised"}`}>
-              <input type="radio" name="shape" value={k} checked={shape === k} onChange={() => setShape(k)} className="accent-kerf" /> {label}
+          {(
+            [
+              ["box", "Box"],
+              ["polygon", "Polygon profile"],
+              ["naca", "NACA wing panel"],
+            ] as const
+          ).map(([k, label]) => (
+            <label
+              key={k}
+              className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 text-sm ${shape === k ? "border-kerf bg-kerf-light" : "border-bead-strong bg-paper-raised"}`}
+            >
+              <input
+                type="radio"
+                name="shape"
+                value={k}
+                checked={shape === k}
+                onChange={() => setShape(k)}
+                className="accent-kerf"
+              />{" "}
+              {label}
             </label>
           ))}
         </div>
@@ -132,9 +209,33 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
 
       {shape === "box" && (
         <div className="grid grid-cols-3 gap-3">
-          <Field label={`Length ${unit}`} name="length" error={err("size.0", "size")}><Input name="length" inputMode="decimal" value={v.length ?? ""} onChange={set("length")} error={err("size.0", "size")} /></Field>
-          <Field label={`Width ${unit}`} name="width" error={err("size.1")}><Input name="width" inputMode="decimal" value={v.width ?? ""} onChange={set("width")} error={err("size.1")} /></Field>
-          <Field label={`Height ${unit}`} name="height" error={err("size.2")}><Input name="height" inputMode="decimal" value={v.height ?? ""} onChange={set("height")} error={err("size.2")} /></Field>
+          <Field label={`Length ${unit}`} name="length" error={err("size.0", "size")}>
+            <Input
+              name="length"
+              inputMode="decimal"
+              value={v.length ?? ""}
+              onChange={set("length")}
+              error={err("size.0", "size")}
+            />
+          </Field>
+          <Field label={`Width ${unit}`} name="width" error={err("size.1")}>
+            <Input
+              name="width"
+              inputMode="decimal"
+              value={v.width ?? ""}
+              onChange={set("width")}
+              error={err("size.1")}
+            />
+          </Field>
+          <Field label={`Height ${unit}`} name="height" error={err("size.2")}>
+            <Input
+              name="height"
+              inputMode="decimal"
+              value={v.height ?? ""}
+              onChange={set("height")}
+              error={err("size.2")}
+            />
+          </Field>
         </div>
       )}
 
@@ -146,28 +247,90 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
                 <Field label="NACA code" name="code" error={err("profile.code")} hint="Four digits, e.g. 2412 or 0012.">
                   <Input name="code" value={v.code ?? ""} onChange={set("code")} error={err("profile.code")} />
                 </Field>
-                <Field label={`Span ${unit} (along the wire)`} name="spanMm" error={err("profile.spanMm")}><Input name="spanMm" inputMode="decimal" value={v.spanMm ?? ""} onChange={set("spanMm")} error={err("profile.spanMm")} /></Field>
-                <Field label={`Root chord ${unit}`} name="chordMm" error={err("profile.chordMm")}><Input name="chordMm" inputMode="decimal" value={v.chordMm ?? ""} onChange={set("chordMm")} error={err("profile.chordMm")} /></Field>
-                <Field label={`Tip chord ${unit}`} name="tipChordMm" error={err("profile.tipChordMm")} hint="Empty: same as the root (a 2-axis cut).">
-                  <Input name="tipChordMm" inputMode="decimal" value={v.tipChordMm ?? ""} onChange={set("tipChordMm")} error={err("profile.tipChordMm")} />
+                <Field label={`Span ${unit} (along the wire)`} name="spanMm" error={err("profile.spanMm")}>
+                  <Input
+                    name="spanMm"
+                    inputMode="decimal"
+                    value={v.spanMm ?? ""}
+                    onChange={set("spanMm")}
+                    error={err("profile.spanMm")}
+                  />
                 </Field>
-                <Field label={`Sweep ${unit}`} name="sweepMm" error={err("profile.sweepMm")} hint="How far the tip's leading edge sits behind the root's. Empty: straight.">
-                  <Input name="sweepMm" inputMode="decimal" value={v.sweepMm ?? ""} onChange={set("sweepMm")} error={err("profile.sweepMm")} />
+                <Field label={`Root chord ${unit}`} name="chordMm" error={err("profile.chordMm")}>
+                  <Input
+                    name="chordMm"
+                    inputMode="decimal"
+                    value={v.chordMm ?? ""}
+                    onChange={set("chordMm")}
+                    error={err("profile.chordMm")}
+                  />
+                </Field>
+                <Field
+                  label={`Tip chord ${unit}`}
+                  name="tipChordMm"
+                  error={err("profile.tipChordMm")}
+                  hint="Empty: same as the root (a 2-axis cut)."
+                >
+                  <Input
+                    name="tipChordMm"
+                    inputMode="decimal"
+                    value={v.tipChordMm ?? ""}
+                    onChange={set("tipChordMm")}
+                    error={err("profile.tipChordMm")}
+                  />
+                </Field>
+                <Field
+                  label={`Sweep ${unit}`}
+                  name="sweepMm"
+                  error={err("profile.sweepMm")}
+                  hint="How far the tip's leading edge sits behind the root's. Empty: straight."
+                >
+                  <Input
+                    name="sweepMm"
+                    inputMode="decimal"
+                    value={v.sweepMm ?? ""}
+                    onChange={set("sweepMm")}
+                    error={err("profile.sweepMm")}
+                  />
                 </Field>
               </>
             ) : (
               <>
                 <div className="sm:col-span-2">
-                  <Field label={`Outline points (${unit})`} name="points" error={err("profile.points", "profile")} hint="“x y; x y; …” in the cutting plane, in order round the outline.">
-                    <textarea id="points" name="points" rows={3} value={v.points ?? ""} onChange={set("points")} className="block w-full rounded-md border border-bead-strong bg-paper-raised px-3 py-2 font-mono text-sm" placeholder="0 0; 180 0; 180 90; 90 140; 0 90" />
+                  <Field
+                    label={`Outline points (${unit})`}
+                    name="points"
+                    error={err("profile.points", "profile")}
+                    hint="“x y; x y; …” in the cutting plane, in order round the outline."
+                  >
+                    <textarea
+                      id="points"
+                      name="points"
+                      rows={3}
+                      value={v.points ?? ""}
+                      onChange={set("points")}
+                      className="block w-full rounded-md border border-bead-strong bg-paper-raised px-3 py-2 font-mono text-sm"
+                      placeholder="0 0; 180 0; 180 90; 90 140; 0 90"
+                    />
                   </Field>
                 </div>
-                <Field label={`Extrusion ${unit} (along the wire)`} name="extrudeMm" error={err("profile.extrudeMm")}><Input name="extrudeMm" inputMode="decimal" value={v.extrudeMm ?? ""} onChange={set("extrudeMm")} error={err("profile.extrudeMm")} /></Field>
+                <Field label={`Extrusion ${unit} (along the wire)`} name="extrudeMm" error={err("profile.extrudeMm")}>
+                  <Input
+                    name="extrudeMm"
+                    inputMode="decimal"
+                    value={v.extrudeMm ?? ""}
+                    onChange={set("extrudeMm")}
+                    error={err("profile.extrudeMm")}
+                  />
+                </Field>
               </>
             )}
           </div>
           <div className="space-y-2">
-            <SectionPreview profile={profile.profile} label={shape === "naca" ? `NACA ${v.code} section` : "Polygon outline"} />
+            <SectionPreview
+              profile={profile.profile}
+              label={shape === "naca" ? `NACA ${v.code} section` : "Polygon outline"}
+            />
             <div className="text-xs text-ink-soft" data-testid="computed-box">
               {profile.error ? (
                 <span className="text-ember">{profile.error}</span>
@@ -181,11 +344,17 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
                 <span className="text-ember">{computed.error}</span>
               ) : null}
             </div>
-            {shape === "naca" && fields.profile && <p className="text-sm text-ember" role="alert">{fields.profile}</p>}
+            {shape === "naca" && fields.profile && (
+              <p className="text-sm text-ember" role="alert">
+                {fields.profile}
+              </p>
+            )}
           </div>
         </div>
       )}
-      <Button type="submit" disabled={busy}>{target.kind === "job" ? "Add the part" : "Add to the library"}</Button>
+      <Button type="submit" disabled={busy}>
+        {target.kind === "job" ? "Add the part" : "Add to the library"}
+      </Button>
     </form>
   );
 }

@@ -10,14 +10,39 @@ import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import type { RunSettings } from "@/lib/validations/runs";
 
-interface Candidate { id: number; code: string; gradeCode: string; size: [number, number, number]; volumeM3: number; cost: number; isOffcut: boolean; location: string; defectCount: number; since: string }
+interface Candidate {
+  id: number;
+  code: string;
+  gradeCode: string;
+  size: [number, number, number];
+  volumeM3: number;
+  cost: number;
+  isOffcut: boolean;
+  location: string;
+  defectCount: number;
+  since: string;
+}
 
 /** Choose the stock (proposed: ready, right grade, oldest first) and the settings, then start. */
-export function NewRunForm({ jobIds, candidates, defaults }: { jobIds: number[]; candidates: Candidate[]; defaults: RunSettings }) {
+export function NewRunForm({
+  jobIds,
+  candidates,
+  defaults,
+}: {
+  jobIds: number[];
+  candidates: Candidate[];
+  defaults: RunSettings;
+}) {
   const router = useRouter();
   const [chosen, setChosen] = useState<Set<number>>(new Set(candidates.map((c) => c.id)));
   const { busy, fields, message, submit } = useSubmit();
-  const toggle = (id: number) => setChosen((s) => { const n = new Set(s); if (n.has(id)) n.delete(id); else n.add(id); return n; });
+  const toggle = (id: number) =>
+    setChosen((s) => {
+      const n = new Set(s);
+      if (n.has(id)) n.delete(id);
+      else n.add(id);
+      return n;
+    });
   const volume = candidates.filter((c) => chosen.has(c.id)).reduce((s, c) => s + c.volumeM3, 0);
   return (
     <form
@@ -31,8 +56,12 @@ export function NewRunForm({ jobIds, candidates, defaults }: { jobIds: number[];
               jobIds,
               blockIds: [...chosen],
               settings: {
-                kerf: num(fd.get("kerf")), trim: num(fd.get("trim")), defectMargin: num(fd.get("defectMargin")),
-                minOffcut: [num(fd.get("mo0")), num(fd.get("mo1")), num(fd.get("mo2"))], layout: fd.get("layout"), timeLimitMs: num(fd.get("timeLimitMs")),
+                kerf: num(fd.get("kerf")),
+                trim: num(fd.get("trim")),
+                defectMargin: num(fd.get("defectMargin")),
+                minOffcut: [num(fd.get("mo0")), num(fd.get("mo1")), num(fd.get("mo2"))],
+                layout: fd.get("layout"),
+                timeLimitMs: num(fd.get("timeLimitMs")),
               },
             }),
           { failed: "The run was not started." },
@@ -41,19 +70,48 @@ export function NewRunForm({ jobIds, candidates, defaults }: { jobIds: number[];
       }}
     >
       {message && <Notice tone={message.tone}>{message.text}</Notice>}
-      <Card title={`Stock to plan into (${chosen.size} of ${candidates.length}, ${volume.toFixed(2)} m³)`} action={<span className="text-sm text-ink-faint">ready, right grade, oldest first</span>}>
+      <Card
+        title={`Stock to plan into (${chosen.size} of ${candidates.length}, ${volume.toFixed(2)} m³)`}
+        action={<span className="text-sm text-ink-faint">ready, right grade, oldest first</span>}
+      >
         {fields.blockIds && <p className="mb-2 text-sm text-ember">{fields.blockIds}</p>}
         {candidates.length === 0 ? (
-          <p className="text-sm text-ink-soft">No ready stock of the grades these parts need. Receive some, or wait for settling blocks.</p>
+          <p className="text-sm text-ink-soft">
+            No ready stock of the grades these parts need. Receive some, or wait for settling blocks.
+          </p>
         ) : (
           <div className="max-h-96 overflow-y-auto">
             <table>
-              <thead><tr><th className="py-1"><span className="sr-only">Use</span></th><th>Code</th><th>Grade</th><th>Size (mm)</th><th className="text-right">m³</th><th>Since</th><th>Location</th><th className="text-right">Defects</th></tr></thead>
+              <thead>
+                <tr>
+                  <th className="py-1">
+                    <span className="sr-only">Use</span>
+                  </th>
+                  <th>Code</th>
+                  <th>Grade</th>
+                  <th>Size (mm)</th>
+                  <th className="text-right">m³</th>
+                  <th>Since</th>
+                  <th>Location</th>
+                  <th className="text-right">Defects</th>
+                </tr>
+              </thead>
               <tbody>
                 {candidates.map((c) => (
                   <tr key={c.id} className="border-t border-bead/60">
-                    <td className="py-1"><input type="checkbox" className="size-5 accent-kerf" aria-label={`Use ${c.code}`} checked={chosen.has(c.id)} onChange={() => toggle(c.id)} /></td>
-                    <td className="font-medium">{c.code}{c.isOffcut && <span className="ml-1 text-xs text-ink-faint">offcut</span>}</td>
+                    <td className="py-1">
+                      <input
+                        type="checkbox"
+                        className="size-5 accent-kerf"
+                        aria-label={`Use ${c.code}`}
+                        checked={chosen.has(c.id)}
+                        onChange={() => toggle(c.id)}
+                      />
+                    </td>
+                    <td className="font-medium">
+                      {c.code}
+                      {c.isOffcut && <span className="ml-1 text-xs text-ink-faint">offcut</span>}
+                    </td>
                     <td>{c.gradeCode}</td>
                     <td className="whitespace-nowrap">{c.size.join(" × ")}</td>
                     <td className="text-right tabular-nums">{c.volumeM3.toFixed(3)}</td>
@@ -67,16 +125,32 @@ export function NewRunForm({ jobIds, candidates, defaults }: { jobIds: number[];
           </div>
         )}
         <div className="mt-2 flex gap-3 text-sm">
-          <button type="button" className="text-kerf" onClick={() => setChosen(new Set(candidates.map((c) => c.id)))}>Use all</button>
-          <button type="button" className="text-kerf" onClick={() => setChosen(new Set(candidates.filter((c) => c.isOffcut).map((c) => c.id)))}>Offcuts only</button>
-          <button type="button" className="text-kerf" onClick={() => setChosen(new Set())}>None</button>
+          <button type="button" className="text-kerf" onClick={() => setChosen(new Set(candidates.map((c) => c.id)))}>
+            Use all
+          </button>
+          <button
+            type="button"
+            className="text-kerf"
+            onClick={() => setChosen(new Set(candidates.filter((c) => c.isOffcut).map((c) => c.id)))}
+          >
+            Offcuts only
+          </button>
+          <button type="button" className="text-kerf" onClick={() => setChosen(new Set())}>
+            None
+          </button>
         </div>
       </Card>
       <Card title="Settings for this run (from the shop defaults)">
         <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-          <Field label="Kerf (mm)" name="kerf" error={fields["settings.kerf"]}><Input name="kerf" inputMode="decimal" defaultValue={defaults.kerf} /></Field>
-          <Field label="Face trim (mm)" name="trim" error={fields["settings.trim"]}><Input name="trim" inputMode="decimal" defaultValue={defaults.trim} /></Field>
-          <Field label="Defect margin (mm)" name="defectMargin" error={fields["settings.defectMargin"]}><Input name="defectMargin" inputMode="decimal" defaultValue={defaults.defectMargin} /></Field>
+          <Field label="Kerf (mm)" name="kerf" error={fields["settings.kerf"]}>
+            <Input name="kerf" inputMode="decimal" defaultValue={defaults.kerf} />
+          </Field>
+          <Field label="Face trim (mm)" name="trim" error={fields["settings.trim"]}>
+            <Input name="trim" inputMode="decimal" defaultValue={defaults.trim} />
+          </Field>
+          <Field label="Defect margin (mm)" name="defectMargin" error={fields["settings.defectMargin"]}>
+            <Input name="defectMargin" inputMode="decimal" defaultValue={defaults.defectMargin} />
+          </Field>
           <Field label="Layout" name="layout" error={fields["settings.layout"]}>
             <Select name="layout" defaultValue={defaults.layout}>
               <option value="guillotine">guillotine (through cuts only)</option>
@@ -84,13 +158,23 @@ export function NewRunForm({ jobIds, candidates, defaults }: { jobIds: number[];
               <option value="free">free (comparison only: may not be cuttable, cannot be approved then)</option>
             </Select>
           </Field>
-          <Field label="Smallest offcut kept: length" name="mo0" error={fields["settings.minOffcut.0"]}><Input name="mo0" inputMode="decimal" defaultValue={defaults.minOffcut[0]} /></Field>
-          <Field label="… width" name="mo1" error={fields["settings.minOffcut.1"]}><Input name="mo1" inputMode="decimal" defaultValue={defaults.minOffcut[1]} /></Field>
-          <Field label="… height" name="mo2" error={fields["settings.minOffcut.2"]}><Input name="mo2" inputMode="decimal" defaultValue={defaults.minOffcut[2]} /></Field>
-          <Field label="Time budget (ms)" name="timeLimitMs" error={fields["settings.timeLimitMs"]}><Input name="timeLimitMs" inputMode="numeric" defaultValue={defaults.timeLimitMs} /></Field>
+          <Field label="Smallest offcut kept: length" name="mo0" error={fields["settings.minOffcut.0"]}>
+            <Input name="mo0" inputMode="decimal" defaultValue={defaults.minOffcut[0]} />
+          </Field>
+          <Field label="… width" name="mo1" error={fields["settings.minOffcut.1"]}>
+            <Input name="mo1" inputMode="decimal" defaultValue={defaults.minOffcut[1]} />
+          </Field>
+          <Field label="… height" name="mo2" error={fields["settings.minOffcut.2"]}>
+            <Input name="mo2" inputMode="decimal" defaultValue={defaults.minOffcut[2]} />
+          </Field>
+          <Field label="Time budget (ms)" name="timeLimitMs" error={fields["settings.timeLimitMs"]}>
+            <Input name="timeLimitMs" inputMode="numeric" defaultValue={defaults.timeLimitMs} />
+          </Field>
         </div>
       </Card>
-      <Button type="submit" disabled={busy || chosen.size === 0}>{busy ? "Starting…" : "Start nesting"}</Button>
+      <Button type="submit" disabled={busy || chosen.size === 0}>
+        {busy ? "Starting…" : "Start nesting"}
+      </Button>
     </form>
   );
 }

@@ -4,8 +4,9 @@ import { Notice } from "@/components/ui/card";
 export function NotCuttable({ count }: { count: number }) {
   return (
     <Notice tone="danger" title="Do not cut this block from this plan">
-      {count} pieces of this block cannot be freed by through cuts, nor cut out of one layer with a profile cutter. The plan was made with the
-      free layout rule, which is for comparison with box-packing figures only. Plan the job again with the guillotine or layers rule before cutting.
+      {count} pieces of this block cannot be freed by through cuts, nor cut out of one layer with a profile cutter. The
+      plan was made with the free layout rule, which is for comparison with box-packing figures only. Plan the job again
+      with the guillotine or layers rule before cutting.
     </Notice>
   );
 }

@@ -29,7 +29,27 @@ const LONG_VIEW = 2.5;
 /** Drawing coordinates to a tenth of a pixel: the same picture, far shorter markup for big plans. */
 const px1 = (v: number): number => Math.round(v * 10) / 10;
 
-function View({ title, a, b, props, regions, only, zRange, width = 360, className = "" }: { title: string; a: 0 | 1 | 2; b: 0 | 1 | 2; props: PlanViewProps; regions: RegionCut[]; only?: PlanViewProps["placements"]; zRange?: [number, number]; width?: number; className?: string }) {
+function View({
+  title,
+  a,
+  b,
+  props,
+  regions,
+  only,
+  zRange,
+  width = 360,
+  className = "",
+}: {
+  title: string;
+  a: 0 | 1 | 2;
+  b: 0 | 1 | 2;
+  props: PlanViewProps;
+  regions: RegionCut[];
+  only?: PlanViewProps["placements"];
+  zRange?: [number, number];
+  width?: number;
+  className?: string;
+}) {
   const { block } = props;
   const W = block.size[a];
   const H = block.size[b];
@@ -65,10 +85,27 @@ function View({ title, a, b, props, regions, only, zRange, width = 360, classNam
   return (
     <figure className={`space-y-1 ${className}`}>
       <figcaption className="text-xs font-medium uppercase tracking-wide text-ink-faint">{title}</figcaption>
-      <svg viewBox={`0 0 ${w + pad * 2} ${h + pad * 2}`} className="w-full" style={{ maxWidth: w + pad * 2 }} role="img" aria-label={`${title} of ${block.id}`}>
+      <svg
+        viewBox={`0 0 ${w + pad * 2} ${h + pad * 2}`}
+        className="w-full"
+        style={{ maxWidth: w + pad * 2 }}
+        role="img"
+        aria-label={`${title} of ${block.id}`}
+      >
         <rect x={X(0)} y={Y(H)} width={w} height={h} fill="#f7f5ef" stroke="#1c2a2e" strokeWidth={1.5} />
         {props.offcuts.map((o, i) => (
-          <rect key={`o${i}`} x={X(o.origin[a])} y={Y(o.origin[b] + o.size[b])} width={px1(o.size[a] * scale)} height={px1(o.size[b] * scale)} fill="#e0efe3" fillOpacity={0.5} stroke="#3b7a4a" strokeDasharray="5 3" strokeWidth={1.2} />
+          <rect
+            key={`o${i}`}
+            x={X(o.origin[a])}
+            y={Y(o.origin[b] + o.size[b])}
+            width={px1(o.size[a] * scale)}
+            height={px1(o.size[b] * scale)}
+            fill="#e0efe3"
+            fillOpacity={0.5}
+            stroke="#3b7a4a"
+            strokeDasharray="5 3"
+            strokeWidth={1.2}
+          />
         ))}
         {placements.map((p, i) => {
           const px = X(p.origin[a]);
@@ -78,9 +115,25 @@ function View({ title, a, b, props, regions, only, zRange, width = 360, classNam
           const label = props.partName(p.part);
           return (
             <g key={`p${i}`}>
-              <rect x={px} y={py} width={pw} height={ph} fill={PALETTE[(nameIndex.get(p.part) ?? 0) % PALETTE.length]} fillOpacity={0.85} stroke="#1f6c75" strokeWidth={0.8} />
+              <rect
+                x={px}
+                y={py}
+                width={pw}
+                height={ph}
+                fill={PALETTE[(nameIndex.get(p.part) ?? 0) % PALETTE.length]}
+                fillOpacity={0.85}
+                stroke="#1f6c75"
+                strokeWidth={0.8}
+              />
               {pw > 34 && ph > 11 && (
-                <text x={px1(px + pw / 2)} y={px1(py + ph / 2)} fontSize={px1(Math.min(10, ph * 0.6))} textAnchor="middle" dominantBaseline="middle" fill="#16525a">
+                <text
+                  x={px1(px + pw / 2)}
+                  y={px1(py + ph / 2)}
+                  fontSize={px1(Math.min(10, ph * 0.6))}
+                  textAnchor="middle"
+                  dominantBaseline="middle"
+                  fill="#16525a"
+                >
                   {label.length > pw / 6 ? label.slice(0, Math.max(2, Math.floor(pw / 6))) + "…" : label}
                 </text>
               )}
@@ -88,7 +141,17 @@ function View({ title, a, b, props, regions, only, zRange, width = 360, classNam
           );
         })}
         {block.defects.map((d, i) => (
-          <rect key={`d${i}`} x={X(d.min[a])} y={Y(d.max[b])} width={px1((d.max[a] - d.min[a]) * scale)} height={px1((d.max[b] - d.min[b]) * scale)} fill="#a8322a" fillOpacity={0.35} stroke="#a8322a" strokeWidth={1} />
+          <rect
+            key={`d${i}`}
+            x={X(d.min[a])}
+            y={Y(d.max[b])}
+            width={px1((d.max[a] - d.min[a]) * scale)}
+            height={px1((d.max[b] - d.min[b]) * scale)}
+            fill="#a8322a"
+            fillOpacity={0.35}
+            stroke="#a8322a"
+            strokeWidth={1}
+          />
         ))}
         {cutAxes.map((c) => {
           const pos = c.at + props.kerf / 2;
@@ -98,17 +161,43 @@ function View({ title, a, b, props, regions, only, zRange, width = 360, classNam
           return vertical ? (
             <g key={`c${c.n}`}>
               <line x1={X(pos)} x2={X(pos)} y1={Y(span[0]!)} y2={Y(span[1]!)} stroke="#d2571f" strokeWidth={1.1} />
-              {labelled && <text x={X(pos)} y={Y(span[1]!) - 3} fontSize={8} textAnchor="middle" fill="#d2571f" fontWeight={600}>{c.n}</text>}
+              {labelled && (
+                <text x={X(pos)} y={Y(span[1]!) - 3} fontSize={8} textAnchor="middle" fill="#d2571f" fontWeight={600}>
+                  {c.n}
+                </text>
+              )}
             </g>
           ) : (
             <g key={`c${c.n}`}>
               <line x1={X(span[0]!)} x2={X(span[1]!)} y1={Y(pos)} y2={Y(pos)} stroke="#d2571f" strokeWidth={1.1} />
-              {labelled && <text x={X(span[1]!) + 3} y={Y(pos)} fontSize={8} dominantBaseline="middle" fill="#d2571f" fontWeight={600}>{c.n}</text>}
+              {labelled && (
+                <text
+                  x={X(span[1]!) + 3}
+                  y={Y(pos)}
+                  fontSize={8}
+                  dominantBaseline="middle"
+                  fill="#d2571f"
+                  fontWeight={600}
+                >
+                  {c.n}
+                </text>
+              )}
             </g>
           );
         })}
-        <text x={X(W / 2)} y={Y(0) + 15} fontSize={10} textAnchor="middle" fill="#3d4f54">{Math.round(W)} mm</text>
-        <text x={X(0) - 8} y={Y(H / 2)} fontSize={10} textAnchor="middle" fill="#3d4f54" transform={`rotate(-90 ${X(0) - 8} ${Y(H / 2)})`}>{Math.round(H)} mm</text>
+        <text x={X(W / 2)} y={Y(0) + 15} fontSize={10} textAnchor="middle" fill="#3d4f54">
+          {Math.round(W)} mm
+        </text>
+        <text
+          x={X(0) - 8}
+          y={Y(H / 2)}
+          fontSize={10}
+          textAnchor="middle"
+          fill="#3d4f54"
+          transform={`rotate(-90 ${X(0) - 8} ${Y(H / 2)})`}
+        >
+          {Math.round(H)} mm
+        </text>
       </svg>
     </figure>
   );
@@ -122,7 +211,10 @@ const VIEWS: [string, 0 | 1 | 2, 0 | 1 | 2][] = [
 
 export function PlanView(props: PlanViewProps) {
   // Which piece of foam each cut crosses: worked out once for all the views of the block.
-  const pieces = [...props.placements, ...props.offcuts].map((p) => ({ min: p.origin, max: p.origin.map((v, i) => v + p.size[i]!) as V3 }));
+  const pieces = [...props.placements, ...props.offcuts].map((p) => ({
+    min: p.origin,
+    max: p.origin.map((v, i) => v + p.size[i]!) as V3,
+  }));
   const regions = cutRegions(props.block.size, props.cuts, props.trim ?? 0, props.kerf, pieces);
   const layers = new Map<string, PlanViewProps["placements"]>();
   for (const p of props.placements) {
@@ -137,7 +229,18 @@ export function PlanView(props: PlanViewProps) {
       <div className="grid gap-4 sm:grid-cols-2">
         {VIEWS.map(([title, a, b]) => {
           const long = props.block.size[a] >= LONG_VIEW * props.block.size[b];
-          return <View key={title} title={title} a={a} b={b} props={props} regions={regions} width={long ? 960 : 420} className={long ? "sm:col-span-2" : ""} />;
+          return (
+            <View
+              key={title}
+              title={title}
+              a={a}
+              b={b}
+              props={props}
+              regions={regions}
+              width={long ? 960 : 420}
+              className={long ? "sm:col-span-2" : ""}
+            />
+          );
         })}
       </div>
       {props.showLayers !== false && sorted.length > 1 && (
@@ -146,16 +249,40 @@ export function PlanView(props: PlanViewProps) {
           <div className="mt-3 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
             {sorted.map(([key, ps], i) => {
               const [lo, hi] = key.split("|").map(Number);
-              return <View key={key} title={`Layer ${i + 1}: z ${Math.round(lo!)}–${Math.round(hi!)} mm`} a={0} b={1} props={props} regions={regions} only={ps} zRange={[lo!, hi!]} width={300} />;
+              return (
+                <View
+                  key={key}
+                  title={`Layer ${i + 1}: z ${Math.round(lo!)}–${Math.round(hi!)} mm`}
+                  a={0}
+                  b={1}
+                  props={props}
+                  regions={regions}
+                  only={ps}
+                  zRange={[lo!, hi!]}
+                  width={300}
+                />
+              );
             })}
           </div>
         </details>
       )}
       <p className="flex flex-wrap gap-4 text-xs text-ink-soft">
-        <span><span className="mr-1 inline-block size-3 border border-kerf bg-kerf-light align-middle" />parts</span>
-        <span><span className="mr-1 inline-block size-3 border border-dashed border-moss bg-moss-light align-middle" />offcuts kept</span>
-        <span><span className="mr-1 inline-block size-3 bg-ember/40 align-middle" />defect zones</span>
-        <span><span className="mr-1 inline-block h-0.5 w-4 bg-wire align-middle" />through cuts, numbered in order</span>
+        <span>
+          <span className="mr-1 inline-block size-3 border border-kerf bg-kerf-light align-middle" />
+          parts
+        </span>
+        <span>
+          <span className="mr-1 inline-block size-3 border border-dashed border-moss bg-moss-light align-middle" />
+          offcuts kept
+        </span>
+        <span>
+          <span className="mr-1 inline-block size-3 bg-ember/40 align-middle" />
+          defect zones
+        </span>
+        <span>
+          <span className="mr-1 inline-block h-0.5 w-4 bg-wire align-middle" />
+          through cuts, numbered in order
+        </span>
       </p>
     </div>
   );

@@ -7,7 +7,17 @@ import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 
 /** Approve (reserves the stock), release (gives it back) and re-plan what is still owed. */
-export function RunActions({ runId, status, owes, canApprove = true }: { runId: number; status: string; owes: boolean; canApprove?: boolean }) {
+export function RunActions({
+  runId,
+  status,
+  owes,
+  canApprove = true,
+}: {
+  runId: number;
+  status: string;
+  owes: boolean;
+  canApprove?: boolean;
+}) {
   const router = useRouter();
   const [msg, setMsg] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
   const [busy, setBusy] = useState(false);
@@ -29,14 +39,29 @@ export function RunActions({ runId, status, owes, canApprove = true }: { runId: 
     <div className="space-y-3">
       {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
       <div className="flex flex-wrap gap-2">
-        {status === "done" && canApprove && <Button disabled={busy} onClick={() => act("approve", "Approved: the blocks are earmarked for this plan.")}>Approve and earmark the stock</Button>}
+        {status === "done" && canApprove && (
+          <Button disabled={busy} onClick={() => act("approve", "Approved: the blocks are earmarked for this plan.")}>
+            Approve and earmark the stock
+          </Button>
+        )}
         {status === "approved" && (
-          <Button tone="secondary" disabled={busy} onClick={() => window.confirm("Release the blocks not cut yet and cancel this plan?") && act("release", "Released: the blocks are free again.")}>
+          <Button
+            tone="secondary"
+            disabled={busy}
+            onClick={() =>
+              window.confirm("Release the blocks not cut yet and cancel this plan?") &&
+              act("release", "Released: the blocks are free again.")
+            }
+          >
             Release the stock
           </Button>
         )}
         {owes && ["done", "approved", "closed"].includes(status) && (
-          <Button tone="secondary" disabled={busy} onClick={() => act("replan", "A new plan for the parts still owed is on its way.", (b) => `/plans/${b.id}`)}>
+          <Button
+            tone="secondary"
+            disabled={busy}
+            onClick={() => act("replan", "A new plan for the parts still owed is on its way.", (b) => `/plans/${b.id}`)}
+          >
             Re-plan the parts still owed
           </Button>
         )}

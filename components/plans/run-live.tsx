@@ -23,7 +23,9 @@ export function RunLive({ initial, canCancel }: { initial: RunLiveData; canCance
   return (
     <div className="space-y-3 rounded-card border border-kerf bg-kerf-light/40 p-5" aria-live="polite">
       <div className="flex items-center justify-between gap-3">
-        <p className="font-medium">{run.status === "queued" ? "Waiting for a worker…" : `Searching for the best plan… ${pct} %`}</p>
+        <p className="font-medium">
+          {run.status === "queued" ? "Waiting for a worker…" : `Searching for the best plan… ${pct} %`}
+        </p>
         {canCancel && (
           <Button
             tone="secondary"
@@ -40,15 +42,40 @@ export function RunLive({ initial, canCancel }: { initial: RunLiveData; canCance
           </Button>
         )}
       </div>
-      <div className="h-3 overflow-hidden rounded-full bg-paper-raised" role="progressbar" aria-label="Nesting progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct}>
-        <div className={`h-full bg-kerf transition-all ${run.status === "queued" ? "animate-pulse" : ""}`} style={{ width: `${Math.max(3, pct)}%` }} />
+      <div
+        className="h-3 overflow-hidden rounded-full bg-paper-raised"
+        role="progressbar"
+        aria-label="Nesting progress"
+        aria-valuemin={0}
+        aria-valuemax={100}
+        aria-valuenow={pct}
+      >
+        <div
+          className={`h-full bg-kerf transition-all ${run.status === "queued" ? "animate-pulse" : ""}`}
+          style={{ width: `${Math.max(3, pct)}%` }}
+        />
       </div>
       {run.best && (
         <dl className="grid grid-cols-2 gap-3 text-sm sm:grid-cols-4" data-testid="run-best">
-          <div><dt className="text-xs text-ink-faint">Blocks so far</dt><dd className="font-semibold">{run.best.blocksUsed} <span className="font-normal text-ink-faint">(at least {run.best.lowerBoundBlocks})</span></dd></div>
-          <div><dt className="text-xs text-ink-faint">Yield</dt><dd className="font-semibold">{(run.best.yield * 100).toFixed(1)} %</dd></div>
-          <div><dt className="text-xs text-ink-faint">Parts placed</dt><dd className="font-semibold">{(run.best.placedVolume / 1e9).toFixed(3)} m³</dd></div>
-          <div><dt className="text-xs text-ink-faint">Not yet placed</dt><dd className="font-semibold">{run.best.unplacedCount}</dd></div>
+          <div>
+            <dt className="text-xs text-ink-faint">Blocks so far</dt>
+            <dd className="font-semibold">
+              {run.best.blocksUsed}{" "}
+              <span className="font-normal text-ink-faint">(at least {run.best.lowerBoundBlocks})</span>
+            </dd>
+          </div>
+          <div>
+            <dt className="text-xs text-ink-faint">Yield</dt>
+            <dd className="font-semibold">{(run.best.yield * 100).toFixed(1)} %</dd>
+          </div>
+          <div>
+            <dt className="text-xs text-ink-faint">Parts placed</dt>
+            <dd className="font-semibold">{(run.best.placedVolume / 1e9).toFixed(3)} m³</dd>
+          </div>
+          <div>
+            <dt className="text-xs text-ink-faint">Not yet placed</dt>
+            <dd className="font-semibold">{run.best.unplacedCount}</dd>
+          </div>
         </dl>
       )}
       {error && <Notice tone="danger">{error}</Notice>}

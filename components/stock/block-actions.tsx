@@ -41,7 +41,11 @@ export function BlockActions({ blockId, code, location, size, canMove, canCorrec
   const input = "min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3";
   return (
     <Card title="Change this block" className="no-print">
-      {msg && <div className="mb-3"><Notice tone={msg.tone}>{msg.text}</Notice></div>}
+      {msg && (
+        <div className="mb-3">
+          <Notice tone={msg.tone}>{msg.text}</Notice>
+        </div>
+      )}
       <div className="grid gap-5 lg:grid-cols-3">
         {canMove && (
           <form
@@ -52,10 +56,14 @@ export function BlockActions({ blockId, code, location, size, canMove, canCorrec
               void run(() => send(`/api/blocks/${blockId}`, "PATCH", { location: loc }), `${code} moved to ${loc}.`);
             }}
           >
-            <label className="block text-sm font-medium text-ink-soft" htmlFor="location">Move to</label>
+            <label className="block text-sm font-medium text-ink-soft" htmlFor="location">
+              Move to
+            </label>
             <input id="location" name="location" defaultValue={location} className={input} />
             {fields.location && <p className="text-sm text-ember">{fields.location}</p>}
-            <Button type="submit" tone="secondary">Move</Button>
+            <Button type="submit" tone="secondary">
+              Move
+            </Button>
           </form>
         )}
         {canCorrect && (
@@ -65,19 +73,43 @@ export function BlockActions({ blockId, code, location, size, canMove, canCorrec
               e.preventDefault();
               const fd = new FormData(e.currentTarget);
               const s = ["x", "y", "z"].map((a) => Number(fd.get(a)));
-              void run(() => send(`/api/blocks/${blockId}/adjust`, "POST", { size: s, reason: fd.get("reason") }), `${code} re-measured; the ledger records the change.`);
+              void run(
+                () => send(`/api/blocks/${blockId}/adjust`, "POST", { size: s, reason: fd.get("reason") }),
+                `${code} re-measured; the ledger records the change.`,
+              );
             }}
           >
             <p className="text-sm font-medium text-ink-soft">Re-measure (mm)</p>
             <div className="grid grid-cols-3 gap-2">
               {(["x", "y", "z"] as const).map((a, i) => (
-                <input key={a} name={a} aria-label={["Length", "Width", "Height"][i]} inputMode="decimal" defaultValue={size[i]} className={input} />
+                <input
+                  key={a}
+                  name={a}
+                  aria-label={["Length", "Width", "Height"][i]}
+                  inputMode="decimal"
+                  defaultValue={size[i]}
+                  className={input}
+                />
               ))}
             </div>
-            {["size.0", "size.1", "size.2"].map((k) => fields[k] && <p key={k} className="text-sm text-ember">{fields[k]}</p>)}
-            <input name="reason" placeholder="Why (e.g. shrank after curing)" aria-label="Reason for re-measuring" className={input} />
+            {["size.0", "size.1", "size.2"].map(
+              (k) =>
+                fields[k] && (
+                  <p key={k} className="text-sm text-ember">
+                    {fields[k]}
+                  </p>
+                ),
+            )}
+            <input
+              name="reason"
+              placeholder="Why (e.g. shrank after curing)"
+              aria-label="Reason for re-measuring"
+              className={input}
+            />
             {fields.reason && <p className="text-sm text-ember">{fields.reason}</p>}
-            <Button type="submit" tone="secondary">Save measurement</Button>
+            <Button type="submit" tone="secondary">
+              Save measurement
+            </Button>
           </form>
         )}
         {canCorrect && (
@@ -90,10 +122,14 @@ export function BlockActions({ blockId, code, location, size, canMove, canCorrec
               void run(() => send(`/api/blocks/${blockId}/scrap`, "POST", { reason }), `${code} written off.`);
             }}
           >
-            <label className="block text-sm font-medium text-ink-soft" htmlFor="scrapReason">Write off</label>
+            <label className="block text-sm font-medium text-ink-soft" htmlFor="scrapReason">
+              Write off
+            </label>
             <input id="scrapReason" name="scrapReason" placeholder="Why (e.g. water damage)" className={input} />
             {fields.reason && <p className="text-sm text-ember">{fields.reason}</p>}
-            <Button type="submit" tone="danger">Write off</Button>
+            <Button type="submit" tone="danger">
+              Write off
+            </Button>
           </form>
         )}
       </div>

@@ -16,7 +16,11 @@ export function CsvImport() {
       controls={
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">What it holds</span>
-          <select value={kind} onChange={(e) => setKind(e.target.value as Kind)} className="mt-1 min-h-11 rounded-md border border-bead-strong bg-paper-raised px-3">
+          <select
+            value={kind}
+            onChange={(e) => setKind(e.target.value as Kind)}
+            className="mt-1 min-h-11 rounded-md border border-bead-strong bg-paper-raised px-3"
+          >
             <option value="deliveries">Deliveries (one row per block received)</option>
             <option value="stock-counts">Stock count (one row per block counted)</option>
           </select>
@@ -26,7 +30,11 @@ export function CsvImport() {
       imported={(report) => (
         <>
           {report.rows} rows imported and written to the stock ledger. <Link href="/stock">See the stock list</Link>.
-          <span className="mt-3 block"><Link className={buttonClass("secondary")} href="/stock">Go to stock</Link></span>
+          <span className="mt-3 block">
+            <Link className={buttonClass("secondary")} href="/stock">
+              Go to stock
+            </Link>
+          </span>
         </>
       )}
     />

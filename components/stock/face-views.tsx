@@ -87,7 +87,10 @@ function geometry(size: Vec3, axes: [Axis, Axis], s: number): Geometry {
 
 /** A round grid step (mm) giving four to ten lines along the block's longest side in this unit. */
 function gridStep(longest: number, unit: LengthUnit): number {
-  const steps = unit === "in" ? [1, 2, 3, 6, 12, 24, 48, 96].map((i) => i * 25.4) : [10, 20, 25, 50, 100, 200, 250, 500, 1000, 2000];
+  const steps =
+    unit === "in"
+      ? [1, 2, 3, 6, 12, 24, 48, 96].map((i) => i * 25.4)
+      : [10, 20, 25, 50, 100, 200, 250, 500, 1000, 2000];
   return steps.find((st) => longest / st <= 10) ?? steps[steps.length - 1]!;
 }
 
@@ -211,10 +214,15 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
   for (let v = step; v < g.V - step * 0.15; v += step) gridV.push(v);
 
   const boxOf = (min: Vec3, max: Vec3) => {
-    const x0 = X(min[a]), x1 = X(max[a]), y0 = Y(max[b]), y1 = Y(min[b]);
+    const x0 = X(min[a]),
+      x1 = X(max[a]),
+      y0 = Y(max[b]),
+      y1 = Y(min[b]);
     // Tiny zones stay visible (at least 3 units across).
-    const cx = (x0 + x1) / 2, cy = (y0 + y1) / 2;
-    const w = Math.max(x1 - x0, 3), h = Math.max(y1 - y0, 3);
+    const cx = (x0 + x1) / 2,
+      cy = (y0 + y1) / 2;
+    const w = Math.max(x1 - x0, 3),
+      h = Math.max(y1 - y0, 3);
     return { x: cx - w / 2, y: cy - h / 2, w, h };
   };
 
@@ -231,7 +239,15 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
   const hatch = (kind: string) => `hatch-${uid}-${kind}`;
 
   return (
-    <figure className={view.name === "top" ? "@4xl:col-start-1 @4xl:row-start-1" : view.name === "front" ? "@4xl:col-start-1 @4xl:row-start-2" : "@4xl:col-start-2 @4xl:row-start-2"}>
+    <figure
+      className={
+        view.name === "top"
+          ? "@4xl:col-start-1 @4xl:row-start-1"
+          : view.name === "front"
+            ? "@4xl:col-start-1 @4xl:row-start-2"
+            : "@4xl:col-start-2 @4xl:row-start-2"
+      }
+    >
       <figcaption className="mb-1 flex items-baseline gap-2 text-sm">
         <span className="font-semibold text-ink">{view.title}</span>
         <span className="text-xs text-ink-faint">
@@ -257,11 +273,26 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
             <circle cx="7.5" cy="6.5" r="2.3" fill="none" stroke={BEAD} strokeWidth="0.7" />
           </pattern>
           {[...new Set(defects.map((d) => d.kind))].map((k) => (
-            <pattern key={k} id={hatch(k)} patternUnits="userSpaceOnUse" width="6" height="6" patternTransform="rotate(45)">
+            <pattern
+              key={k}
+              id={hatch(k)}
+              patternUnits="userSpaceOnUse"
+              width="6"
+              height="6"
+              patternTransform="rotate(45)"
+            >
               <line x1="0" y1="0" x2="0" y2="6" stroke={colourOf(k)} strokeWidth="1.4" strokeOpacity="0.55" />
             </pattern>
           ))}
-          <marker id={`arrow-${uid}`} viewBox="0 0 8 8" refX="7.5" refY="4" markerWidth="7" markerHeight="7" orient="auto-start-reverse">
+          <marker
+            id={`arrow-${uid}`}
+            viewBox="0 0 8 8"
+            refX="7.5"
+            refY="4"
+            markerWidth="7"
+            markerHeight="7"
+            orient="auto-start-reverse"
+          >
             <path d="M0,0.8 L8,4 L0,7.2 z" fill={INK_FAINT} />
           </marker>
         </defs>
@@ -271,8 +302,12 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
         <rect x={M.left} y={M.top} width={g.w} height={g.h} fill={FOAM} />
         <rect x={M.left} y={M.top} width={g.w} height={g.h} fill={`url(#beads-${uid}-${view.name})`} />
         <g stroke={BEAD_STRONG} strokeWidth="0.6" strokeDasharray="2 3">
-          {gridU.map((u) => <line key={`u${u}`} x1={X(u)} x2={X(u)} y1={M.top} y2={M.top + g.h} />)}
-          {gridV.map((v) => <line key={`v${v}`} x1={M.left} x2={M.left + g.w} y1={Y(v)} y2={Y(v)} />)}
+          {gridU.map((u) => (
+            <line key={`u${u}`} x1={X(u)} x2={X(u)} y1={M.top} y2={M.top + g.h} />
+          ))}
+          {gridV.map((v) => (
+            <line key={`v${v}`} x1={M.left} x2={M.left + g.w} y1={Y(v)} y2={Y(v)} />
+          ))}
         </g>
 
         {defects.map((d) => {
@@ -284,20 +319,54 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
             <g key={d.id} opacity={faded ? 0.35 : 1} data-defect={d.id}>
               <title>{`${labelOf(d.kind)}: ${AXIS[a]} ${formatLength(d.min[a], unit)}–${formatLength(d.max[a], unit)}, ${AXIS[b]} ${formatLength(d.min[b], unit)}–${formatLength(d.max[b], unit)}`}</title>
               <rect x={r.x} y={r.y} width={r.w} height={r.h} fill={c} fillOpacity="0.14" />
-              <rect x={r.x} y={r.y} width={r.w} height={r.h} fill={`url(#${hatch(d.kind)})`} stroke={c} strokeWidth={strong ? 2.2 : 1.3} rx="1.5" />
+              <rect
+                x={r.x}
+                y={r.y}
+                width={r.w}
+                height={r.h}
+                fill={`url(#${hatch(d.kind)})`}
+                stroke={c}
+                strokeWidth={strong ? 2.2 : 1.3}
+                rx="1.5"
+              />
             </g>
           );
         })}
 
-        {draft && validBox(draft) && (() => {
-          const r = boxOf(draft.min, draft.max);
-          return (
-            <g data-draft="">
-              <rect x={r.x} y={r.y} width={r.w} height={r.h} fill={WIRE} fillOpacity="0.16" stroke={WIRE} strokeWidth="1.8" strokeDasharray="5 3" rx="1.5" />
-            </g>
-          );
-        })()}
-        {live && <rect x={live.x} y={live.y} width={live.w} height={live.h} fill={WIRE} fillOpacity="0.12" stroke={WIRE} strokeWidth="1.5" strokeDasharray="3 3" />}
+        {draft &&
+          validBox(draft) &&
+          (() => {
+            const r = boxOf(draft.min, draft.max);
+            return (
+              <g data-draft="">
+                <rect
+                  x={r.x}
+                  y={r.y}
+                  width={r.w}
+                  height={r.h}
+                  fill={WIRE}
+                  fillOpacity="0.16"
+                  stroke={WIRE}
+                  strokeWidth="1.8"
+                  strokeDasharray="5 3"
+                  rx="1.5"
+                />
+              </g>
+            );
+          })()}
+        {live && (
+          <rect
+            x={live.x}
+            y={live.y}
+            width={live.w}
+            height={live.h}
+            fill={WIRE}
+            fillOpacity="0.12"
+            stroke={WIRE}
+            strokeWidth="1.5"
+            strokeDasharray="3 3"
+          />
+        )}
 
         <rect x={M.left} y={M.top} width={g.w} height={g.h} fill="none" stroke={INK_SOFT} strokeWidth="1.4" />
         {/* The origin corner, where x, y and z are measured from. */}
@@ -306,18 +375,65 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
         {/* Labels last, with a paper halo, placed so they do not sit on each other. */}
         {placeLabels(
           [
-            ...defects.map((d) => ({ key: `l${d.id}`, box: boxOf(d.min, d.max), text: labelOf(d.kind), colour: colourOf(d.kind), weight: 600, faded: highlight !== null && highlight !== d.id })),
-            ...(draft && validBox(draft) ? [{ key: "draft", box: boxOf(draft.min, draft.max), text: "New zone", colour: WIRE, weight: 700, faded: false }] : []),
+            ...defects.map((d) => ({
+              key: `l${d.id}`,
+              box: boxOf(d.min, d.max),
+              text: labelOf(d.kind),
+              colour: colourOf(d.kind),
+              weight: 600,
+              faded: highlight !== null && highlight !== d.id,
+            })),
+            ...(draft && validBox(draft)
+              ? [
+                  {
+                    key: "draft",
+                    box: boxOf(draft.min, draft.max),
+                    text: "New zone",
+                    colour: WIRE,
+                    weight: 700,
+                    faded: false,
+                  },
+                ]
+              : []),
           ],
           { left: M.left, top: M.top, right: M.left + g.w, bottom: M.top + g.h },
         ).map((l) => (
-          <text key={l.key} x={l.x} y={l.y} fontSize={FONT - 1} fontWeight={l.weight} fill={l.colour} opacity={l.faded ? 0.35 : 1} stroke="#fff" strokeWidth="3" strokeLinejoin="round" paintOrder="stroke">
+          <text
+            key={l.key}
+            x={l.x}
+            y={l.y}
+            fontSize={FONT - 1}
+            fontWeight={l.weight}
+            fill={l.colour}
+            opacity={l.faded ? 0.35 : 1}
+            stroke="#fff"
+            strokeWidth="3"
+            strokeLinejoin="round"
+            paintOrder="stroke"
+          >
             {l.text}
           </text>
         ))}
 
-        <Dimension x1={M.left} y1={M.top + g.h} x2={M.left + g.w} y2={M.top + g.h} offset={14} label={`${AXIS[a]} ${formatLength(g.U, unit)}`} uid={uid} />
-        <Dimension x1={M.left} y1={M.top + g.h} x2={M.left} y2={M.top} offset={-14} label={`${AXIS[b]} ${formatLength(g.V, unit)}`} uid={uid} vertical />
+        <Dimension
+          x1={M.left}
+          y1={M.top + g.h}
+          x2={M.left + g.w}
+          y2={M.top + g.h}
+          offset={14}
+          label={`${AXIS[a]} ${formatLength(g.U, unit)}`}
+          uid={uid}
+        />
+        <Dimension
+          x1={M.left}
+          y1={M.top + g.h}
+          x2={M.left}
+          y2={M.top}
+          offset={-14}
+          label={`${AXIS[b]} ${formatLength(g.V, unit)}`}
+          uid={uid}
+          vertical
+        />
       </svg>
     </figure>
   );
@@ -352,7 +468,8 @@ function placeLabels(items: LabelIn[], area: { left: number; top: number; right:
       { x: clampX(b.x + b.w - tw), base: b.y + b.h + lh + 1 },
       { x: clampX(b.x + 3), base: b.y + lh + 2 },
     ].map((c) => ({ ...c, rect: { x: c.x, y: c.base - lh + 2, w: tw, h: lh } }));
-    const inside = (c: (typeof candidates)[number]) => c.rect.y >= area.top - 2 && c.rect.y + c.rect.h <= area.bottom - 1;
+    const inside = (c: (typeof candidates)[number]) =>
+      c.rect.y >= area.top - 2 && c.rect.y + c.rect.h <= area.bottom - 1;
     const pick = candidates.find((c) => inside(c) && !overlaps(c.rect)) ?? candidates.find(inside) ?? candidates[0]!;
     placed.push(pick.rect);
     return { ...it, x: pick.x, y: pick.base };
@@ -364,7 +481,25 @@ function validBox(d: { min: Vec3; max: Vec3 }) {
 }
 
 /** A dimension line with extension lines, arrowheads and its figure, outside the drawing. */
-function Dimension({ x1, y1, x2, y2, offset, label, uid, vertical = false }: { x1: number; y1: number; x2: number; y2: number; offset: number; label: string; uid: string; vertical?: boolean }) {
+function Dimension({
+  x1,
+  y1,
+  x2,
+  y2,
+  offset,
+  label,
+  uid,
+  vertical = false,
+}: {
+  x1: number;
+  y1: number;
+  x2: number;
+  y2: number;
+  offset: number;
+  label: string;
+  uid: string;
+  vertical?: boolean;
+}) {
   if (!vertical) {
     const y = y1 + offset;
     const mid = (x1 + x2) / 2;
@@ -372,8 +507,23 @@ function Dimension({ x1, y1, x2, y2, offset, label, uid, vertical = false }: { x
       <g stroke={INK_FAINT} strokeWidth="0.8">
         <line x1={x1} y1={y1 + 3} x2={x1} y2={y + 4} />
         <line x1={x2} y1={y2 + 3} x2={x2} y2={y + 4} />
-        <line x1={x1 + 1} y1={y} x2={x2 - 1} y2={y} markerStart={`url(#arrow-${uid})`} markerEnd={`url(#arrow-${uid})`} />
-        <text x={mid} y={y + FONT + 3} textAnchor="middle" fontSize={FONT} fill={INK_SOFT} stroke="none" style={{ fontVariantNumeric: "tabular-nums" }}>
+        <line
+          x1={x1 + 1}
+          y1={y}
+          x2={x2 - 1}
+          y2={y}
+          markerStart={`url(#arrow-${uid})`}
+          markerEnd={`url(#arrow-${uid})`}
+        />
+        <text
+          x={mid}
+          y={y + FONT + 3}
+          textAnchor="middle"
+          fontSize={FONT}
+          fill={INK_SOFT}
+          stroke="none"
+          style={{ fontVariantNumeric: "tabular-nums" }}
+        >
           {label}
         </text>
       </g>
@@ -386,14 +536,35 @@ function Dimension({ x1, y1, x2, y2, offset, label, uid, vertical = false }: { x
       <line x1={x1 - 3} y1={y1} x2={x - 4} y2={y1} />
       <line x1={x2 - 3} y1={y2} x2={x - 4} y2={y2} />
       <line x1={x} y1={y1 - 1} x2={x} y2={y2 + 1} markerStart={`url(#arrow-${uid})`} markerEnd={`url(#arrow-${uid})`} />
-      <text x={x - 6} y={mid} textAnchor="middle" fontSize={FONT} fill={INK_SOFT} stroke="none" transform={`rotate(-90 ${x - 6} ${mid})`} style={{ fontVariantNumeric: "tabular-nums" }}>
+      <text
+        x={x - 6}
+        y={mid}
+        textAnchor="middle"
+        fontSize={FONT}
+        fill={INK_SOFT}
+        stroke="none"
+        transform={`rotate(-90 ${x - 6} ${mid})`}
+        style={{ fontVariantNumeric: "tabular-nums" }}
+      >
         {label}
       </text>
     </g>
   );
 }
 
-function Legend({ kinds, count, size, unit, drawing }: { kinds: string[]; count: number; size: Vec3; unit: LengthUnit; drawing: boolean }) {
+function Legend({
+  kinds,
+  count,
+  size,
+  unit,
+  drawing,
+}: {
+  kinds: string[];
+  count: number;
+  size: Vec3;
+  unit: LengthUnit;
+  drawing: boolean;
+}) {
   return (
     <div className="space-y-3 text-sm @4xl:col-start-2 @4xl:row-start-1 @4xl:self-end">
       <p className="text-ink-soft">
@@ -410,7 +581,11 @@ function Legend({ kinds, count, size, unit, drawing }: { kinds: string[]; count:
         <ul className="flex flex-wrap gap-x-4 gap-y-1.5" aria-label="Defect kinds shown">
           {kinds.map((k) => (
             <li key={k} className="flex items-center gap-1.5">
-              <span aria-hidden className="inline-block h-3 w-3 rounded-sm border" style={{ borderColor: colourOf(k), background: `${colourOf(k)}33` }} />
+              <span
+                aria-hidden
+                className="inline-block h-3 w-3 rounded-sm border"
+                style={{ borderColor: colourOf(k), background: `${colourOf(k)}33` }}
+              />
               <span className="text-ink-soft">{labelOf(k)}</span>
             </li>
           ))}
@@ -418,7 +593,11 @@ function Legend({ kinds, count, size, unit, drawing }: { kinds: string[]; count:
       ) : (
         <p className="text-xs text-ink-faint">No defect zones recorded.</p>
       )}
-      {drawing && <p className="rounded-md bg-wire-light px-3 py-2 text-xs text-ink">Drag across a face to mark a zone. The face gives two sides of the box; type the depth.</p>}
+      {drawing && (
+        <p className="rounded-md bg-wire-light px-3 py-2 text-xs text-ink">
+          Drag across a face to mark a zone. The face gives two sides of the box; type the depth.
+        </p>
+      )}
     </div>
   );
 }

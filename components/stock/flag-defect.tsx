@@ -58,8 +58,10 @@ const num = (s: string) => (s.trim() === "" ? null : Number(s));
 function checkPhotos(files: File[]): string | null {
   if (files.length > MAX_PHOTOS) return `At most ${MAX_PHOTOS} photos at a time; you chose ${files.length}.`;
   for (const f of files) {
-    if (f.size > MAX_PHOTO_BYTES) return `"${f.name}" is ${(f.size / 1024 / 1024).toFixed(1)} MB; a photo may be at most 10 MB.`;
-    if (f.type && !["image/jpeg", "image/png", "image/webp"].includes(f.type)) return `"${f.name}" is not a JPEG, PNG or WebP photo.`;
+    if (f.size > MAX_PHOTO_BYTES)
+      return `"${f.name}" is ${(f.size / 1024 / 1024).toFixed(1)} MB; a photo may be at most 10 MB.`;
+    if (f.type && !["image/jpeg", "image/png", "image/webp"].includes(f.type))
+      return `"${f.name}" is not a JPEG, PNG or WebP photo.`;
   }
   return null;
 }
@@ -67,7 +69,11 @@ function checkPhotos(files: File[]): string | null {
 async function uploadPhotos(defectId: number, files: File[]): Promise<void> {
   const form = new FormData();
   for (const f of files) form.append("photos", f);
-  const res = await fetch(`/api/defects/${defectId}/photos`, { method: "POST", body: form, headers: { accept: "application/json" } });
+  const res = await fetch(`/api/defects/${defectId}/photos`, {
+    method: "POST",
+    body: form,
+    headers: { accept: "application/json" },
+  });
   await readResponse(res);
 }
 
@@ -86,13 +92,17 @@ export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: 
     if (!q) return setFindError("Type the block code from its label, e.g. HF-1001.");
     setFinding(true);
     try {
-      const { items } = await fetcher<{ items: FoundBlock[] }>(`/api/blocks?q=${encodeURIComponent(q)}&status=all&sort=code&pageSize=8`);
+      const { items } = await fetcher<{ items: FoundBlock[] }>(
+        `/api/blocks?q=${encodeURIComponent(q)}&status=all&sort=code&pageSize=8`,
+      );
       const exact = items.find((b) => b.code.toUpperCase() === q.toUpperCase());
       if (exact) await open(exact.id);
       else if (items.length === 0) setFindError(`No block has a code starting with ${q.toUpperCase()}.`);
       else setChoices(items);
     } catch (e) {
-      setFindError(e instanceof ApiError ? e.message : "The block could not be looked up. Check the connection and try again.");
+      setFindError(
+        e instanceof ApiError ? e.message : "The block could not be looked up. Check the connection and try again.",
+      );
     } finally {
       setFinding(false);
     }
@@ -137,7 +147,15 @@ export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: 
             </label>
             <div className="flex flex-wrap gap-3">
               <div className="min-w-48 flex-1">
-                <Input name="code" value={code} onChange={(e) => setCode(e.target.value)} autoComplete="off" autoCapitalize="characters" spellCheck={false} error={findError ?? undefined} />
+                <Input
+                  name="code"
+                  value={code}
+                  onChange={(e) => setCode(e.target.value)}
+                  autoComplete="off"
+                  autoCapitalize="characters"
+                  spellCheck={false}
+                  error={findError ?? undefined}
+                />
               </div>
               <Button type="submit" disabled={finding}>
                 {finding ? "Looking…" : "Find block"}
@@ -148,12 +166,16 @@ export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: 
                 {findError}
               </p>
             ) : (
-              <p className="text-xs text-ink-faint">Printed in large type on the label, e.g. HF-1001, or HF-1001.2 for an offcut.</p>
+              <p className="text-xs text-ink-faint">
+                Printed in large type on the label, e.g. HF-1001, or HF-1001.2 for an offcut.
+              </p>
             )}
           </div>
           {choices.length > 0 && (
             <div>
-              <p className="mb-2 text-sm text-ink-soft">Several blocks start with {code.trim().toUpperCase()}. Which one?</p>
+              <p className="mb-2 text-sm text-ink-soft">
+                Several blocks start with {code.trim().toUpperCase()}. Which one?
+              </p>
               <ul className="flex flex-wrap gap-2">
                 {choices.map((b) => (
                   <li key={b.id}>
@@ -175,13 +197,20 @@ export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: 
 
   return (
     <div className="space-y-5">
-      <section className="flex flex-wrap items-center justify-between gap-3 rounded-card border border-bead bg-paper-raised px-5 py-3 shadow-card" aria-label="Block">
+      <section
+        className="flex flex-wrap items-center justify-between gap-3 rounded-card border border-bead bg-paper-raised px-5 py-3 shadow-card"
+        aria-label="Block"
+      >
         <div className="flex flex-wrap items-baseline gap-x-4 gap-y-1">
           <h2 className="text-xl font-semibold tracking-tight">
             <Link href={`/stock/${encodeURIComponent(block.code)}`}>{block.code}</Link>
           </h2>
           <span className="inline-flex items-center gap-1.5 text-sm">
-            <span aria-hidden className="inline-block size-3 rounded-sm border border-ink/20" style={{ background: block.colour }} />
+            <span
+              aria-hidden
+              className="inline-block size-3 rounded-sm border border-ink/20"
+              style={{ background: block.colour }}
+            />
             {block.gradeCode}
           </span>
           <span className="text-sm text-ink-soft">{formatSize(block.size, unit)}</span>
@@ -204,7 +233,17 @@ export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: 
   );
 }
 
-function ZoneForm({ block, zones, unit, onSaved }: { block: FoundBlock; zones: Zone[]; unit: LengthUnit; onSaved: () => Promise<void> }) {
+function ZoneForm({
+  block,
+  zones,
+  unit,
+  onSaved,
+}: {
+  block: FoundBlock;
+  zones: Zone[];
+  unit: LengthUnit;
+  onSaved: () => Promise<void>;
+}) {
   const [kind, setKind] = useState<string>("");
   const [coords, setCoords] = useState<Coords>(EMPTY);
   const [note, setNote] = useState("");
@@ -218,7 +257,8 @@ function ZoneForm({ block, zones, unit, onSaved }: { block: FoundBlock; zones: Z
 
   const parsed = { min: coords.min.map(num), max: coords.max.map(num) };
   const draft =
-    parsed.min.every((v) => v !== null && Number.isFinite(v)) && parsed.max.every((v) => v !== null && Number.isFinite(v))
+    parsed.min.every((v) => v !== null && Number.isFinite(v)) &&
+    parsed.max.every((v) => v !== null && Number.isFinite(v))
       ? { min: parsed.min as Vec3, max: parsed.max as Vec3 }
       : null;
 
@@ -333,8 +373,9 @@ function ZoneForm({ block, zones, unit, onSaved }: { block: FoundBlock; zones: Z
               <legend className="mb-1 text-sm font-medium text-ink-soft">Where, in mm from the origin corner</legend>
               {drawnOn && depthAxis !== null ? (
                 <p className="mb-2 text-xs text-ink-faint" data-testid="drawn-hint">
-                  Drawn on the {VIEW_NAMES[drawnOn.view]} face: {AXES[drawnOn.axes[0]].key} and {AXES[drawnOn.axes[1]].key} come from your drawing.{" "}
-                  {AXES[depthAxis].key} ({AXES[depthAxis].name}) is the depth you could not draw: it starts as the whole block, so narrow it if you know.
+                  Drawn on the {VIEW_NAMES[drawnOn.view]} face: {AXES[drawnOn.axes[0]].key} and{" "}
+                  {AXES[drawnOn.axes[1]].key} come from your drawing. {AXES[depthAxis].key} ({AXES[depthAxis].name}) is
+                  the depth you could not draw: it starts as the whole block, so narrow it if you know.
                 </p>
               ) : (
                 <p className="mb-2 text-xs text-ink-faint">Drag on a face above, or type the box here.</p>
@@ -344,16 +385,35 @@ function ZoneForm({ block, zones, unit, onSaved }: { block: FoundBlock; zones: Z
                 <span className="text-xs font-medium text-ink-faint">from</span>
                 <span className="text-xs font-medium text-ink-faint">to</span>
                 {AXES.map((ax, i) => (
-                  <AxisRow key={ax.key} i={i} label={`${ax.key} · ${ax.name}`} limit={block.size[i]!} coords={coords} fields={fields} onChange={setCoord} />
+                  <AxisRow
+                    key={ax.key}
+                    i={i}
+                    label={`${ax.key} · ${ax.name}`}
+                    limit={block.size[i]!}
+                    coords={coords}
+                    fields={fields}
+                    onChange={setCoord}
+                  />
                 ))}
               </div>
             </fieldset>
 
             <Field label="Note" name="note" error={fields.note} hint="Optional: how it was found, how deep it seemed.">
-              <Input name="note" value={note} onChange={(e) => setNote(e.target.value)} maxLength={500} error={fields.note} />
+              <Input
+                name="note"
+                value={note}
+                onChange={(e) => setNote(e.target.value)}
+                maxLength={500}
+                error={fields.note}
+              />
             </Field>
 
-            <Field label="Photos" name="photos" error={fields.photos} hint="JPEG, PNG or WebP, up to 10 MB each, at most 6.">
+            <Field
+              label="Photos"
+              name="photos"
+              error={fields.photos}
+              hint="JPEG, PNG or WebP, up to 10 MB each, at most 6."
+            >
               <input
                 ref={fileInput}
                 id="photos"
@@ -389,7 +449,21 @@ function ZoneForm({ block, zones, unit, onSaved }: { block: FoundBlock; zones: Z
   );
 }
 
-function AxisRow({ i, label, limit, coords, fields, onChange }: { i: number; label: string; limit: number; coords: Coords; fields: Record<string, string>; onChange: (end: "min" | "max", axis: number, v: string) => void }) {
+function AxisRow({
+  i,
+  label,
+  limit,
+  coords,
+  fields,
+  onChange,
+}: {
+  i: number;
+  label: string;
+  limit: number;
+  coords: Coords;
+  fields: Record<string, string>;
+  onChange: (end: "min" | "max", axis: number, v: string) => void;
+}) {
   const errMin = fields[`min.${i}`];
   const errMax = fields[`max.${i}`];
   const control = (end: "min" | "max", err?: string) => (
@@ -443,7 +517,19 @@ function PhotoPreviews({ files }: { files: File[] }) {
   );
 }
 
-function ZoneList({ zones, unit, highlight, onHover, onPhotos }: { zones: Zone[]; unit: LengthUnit; highlight: number | null; onHover: (id: number | null) => void; onPhotos: () => Promise<void> }) {
+function ZoneList({
+  zones,
+  unit,
+  highlight,
+  onHover,
+  onPhotos,
+}: {
+  zones: Zone[];
+  unit: LengthUnit;
+  highlight: number | null;
+  onHover: (id: number | null) => void;
+  onPhotos: () => Promise<void>;
+}) {
   if (!zones.length) return <p className="text-sm text-ink-faint">No zones flagged on this block yet.</p>;
   return (
     <ul className="divide-y divide-bead">
@@ -463,13 +549,22 @@ function ZoneList({ zones, unit, highlight, onHover, onPhotos }: { zones: Zone[]
           </div>
           <p className="text-sm text-ink-soft" style={{ fontVariantNumeric: "tabular-nums" }}>
             x {z.min[0]}–{z.max[0]} · y {z.min[1]}–{z.max[1]} · z {z.min[2]}–{z.max[2]} mm
-            {unit === "in" && <span className="block text-xs text-ink-faint">{formatSize([z.max[0] - z.min[0], z.max[1] - z.min[1], z.max[2] - z.min[2]], "in")} box</span>}
+            {unit === "in" && (
+              <span className="block text-xs text-ink-faint">
+                {formatSize([z.max[0] - z.min[0], z.max[1] - z.min[1], z.max[2] - z.min[2]], "in")} box
+              </span>
+            )}
           </p>
           {z.note && <p className="text-sm text-ink-faint">{z.note}</p>}
           <div className="mt-2 flex flex-wrap items-center gap-2">
             {z.photos.map((p) => (
               <a key={p.id} href={`/api/photos/${p.id}`} target="_blank" rel="noreferrer" className="block">
-                <img src={`/api/photos/${p.id}?size=thumb`} alt={`Photo of the ${DEFECT_LABELS[z.kind] ?? "defect"} zone`} className="h-16 w-20 rounded-md border border-bead object-cover" loading="lazy" />
+                <img
+                  src={`/api/photos/${p.id}?size=thumb`}
+                  alt={`Photo of the ${DEFECT_LABELS[z.kind] ?? "defect"} zone`}
+                  className="h-16 w-20 rounded-md border border-bead object-cover"
+                  loading="lazy"
+                />
               </a>
             ))}
             <AddPhotos defectId={z.id} onDone={onPhotos} />

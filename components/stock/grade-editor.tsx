@@ -10,12 +10,33 @@ import { Field, Input, Select } from "@/components/ui/field";
 import { MATERIALS, type Material } from "@/lib/stock";
 
 export interface GradeView {
-  id: number; code: string; material: Material; gradeSystem: string; grade: string;
-  nominalDensity: number | null; minDensity: number | null; cureDays: number; neverHotWire: boolean;
-  colour: string; priceUnit: "m3" | "bf"; notes: string | null;
+  id: number;
+  code: string;
+  material: Material;
+  gradeSystem: string;
+  grade: string;
+  nominalDensity: number | null;
+  minDensity: number | null;
+  cureDays: number;
+  neverHotWire: boolean;
+  colour: string;
+  priceUnit: "m3" | "bf";
+  notes: string | null;
 }
 
-const EMPTY: Omit<GradeView, "id"> = { code: "", material: "EPS", gradeSystem: "ASTM C578", grade: "", nominalDensity: null, minDensity: null, cureDays: 14, neverHotWire: false, colour: "#7fb0b6", priceUnit: "bf", notes: null };
+const EMPTY: Omit<GradeView, "id"> = {
+  code: "",
+  material: "EPS",
+  gradeSystem: "ASTM C578",
+  grade: "",
+  nominalDensity: null,
+  minDensity: null,
+  cureDays: 14,
+  neverHotWire: false,
+  colour: "#7fb0b6",
+  priceUnit: "bf",
+  notes: null,
+};
 
 export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit: boolean }) {
   const router = useRouter();
@@ -29,23 +50,53 @@ export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit:
     <div className="grid gap-5 lg:grid-cols-[1fr_24rem]">
       <Card title="Grades">
         <table>
-          <thead><tr><th className="py-2">Code</th><th>Material</th><th>Grade</th><th className="text-right">Min kg/m³</th><th className="text-right">Cure days</th><th /></tr></thead>
+          <thead>
+            <tr>
+              <th className="py-2">Code</th>
+              <th>Material</th>
+              <th>Grade</th>
+              <th className="text-right">Min kg/m³</th>
+              <th className="text-right">Cure days</th>
+              <th />
+            </tr>
+          </thead>
           <tbody>
             {grades.map((x) => (
               <tr key={x.id} className="border-t border-bead/60">
-                <td className="py-2"><span className="mr-2 inline-block size-3 rounded-sm align-middle" style={{ background: x.colour }} />{x.code}</td>
-                <td>{x.material} {x.neverHotWire && <Badge tone="ember">never hot-wire</Badge>}</td>
-                <td>{x.gradeSystem} {x.grade}</td>
+                <td className="py-2">
+                  <span className="mr-2 inline-block size-3 rounded-sm align-middle" style={{ background: x.colour }} />
+                  {x.code}
+                </td>
+                <td>
+                  {x.material} {x.neverHotWire && <Badge tone="ember">never hot-wire</Badge>}
+                </td>
+                <td>
+                  {x.gradeSystem} {x.grade}
+                </td>
                 <td className="text-right tabular-nums">{x.minDensity ?? "–"}</td>
                 <td className="text-right tabular-nums">{x.cureDays}</td>
-                <td className="text-right">{canEdit && <Button tone="quiet" onClick={() => { setEditing(x); setMaterial(x.material); setFields({}); setMsg(null); }}>Edit</Button>}</td>
+                <td className="text-right">
+                  {canEdit && (
+                    <Button
+                      tone="quiet"
+                      onClick={() => {
+                        setEditing(x);
+                        setMaterial(x.material);
+                        setFields({});
+                        setMsg(null);
+                      }}
+                    >
+                      Edit
+                    </Button>
+                  )}
+                </td>
               </tr>
             ))}
           </tbody>
         </table>
         <p className="mt-3 text-xs text-ink-faint">
-          ASTM C578 sets minimum densities by type; EN 13163 classes (EPS 100, 150…) are compressive-stress classes, not densities.
-          Grade cannot be seen on a block: weigh it.
+          ASTM C578 sets minimum densities by type; EN 13163 classes (EPS 100, 150…) are compressive-stress classes, not
+          densities. Grade cannot be seen on a block: weigh it.
         </p>
       </Card>
       {canEdit && (
@@ -57,9 +108,17 @@ export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit:
               e.preventDefault();
               const fd = new FormData(e.currentTarget);
               const body = {
-                code: fd.get("code"), material: fd.get("material"), gradeSystem: fd.get("gradeSystem"), grade: fd.get("grade"),
-                nominalDensity: num(fd.get("nominalDensity")), minDensity: num(fd.get("minDensity")), cureDays: num(fd.get("cureDays")),
-                neverHotWire: fd.get("neverHotWire") === "on", colour: fd.get("colour"), priceUnit: fd.get("priceUnit"), notes: fd.get("notes"),
+                code: fd.get("code"),
+                material: fd.get("material"),
+                gradeSystem: fd.get("gradeSystem"),
+                grade: fd.get("grade"),
+                nominalDensity: num(fd.get("nominalDensity")),
+                minDensity: num(fd.get("minDensity")),
+                cureDays: num(fd.get("cureDays")),
+                neverHotWire: fd.get("neverHotWire") === "on",
+                colour: fd.get("colour"),
+                priceUnit: fd.get("priceUnit"),
+                notes: fd.get("notes"),
               };
               setFields({});
               try {
@@ -69,35 +128,87 @@ export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit:
                 setEditing(null);
                 router.refresh();
               } catch (err) {
-                if (err instanceof ApiError) { setFields(err.fields ?? {}); setMsg({ tone: "danger", text: err.message }); }
+                if (err instanceof ApiError) {
+                  setFields(err.fields ?? {});
+                  setMsg({ tone: "danger", text: err.message });
+                }
               }
             }}
           >
             {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
-            <Field label="Code" name="code" error={fields.code}><Input name="code" defaultValue={g.code} error={fields.code} /></Field>
-            <Field label="Material" name="material" error={fields.material}>
-              <Select name="material" value={material} onChange={(e) => setMaterial(e.target.value as Material)}>{MATERIALS.map((m) => <option key={m}>{m}</option>)}</Select>
+            <Field label="Code" name="code" error={fields.code}>
+              <Input name="code" defaultValue={g.code} error={fields.code} />
             </Field>
-            {material === "PU" && <Notice tone="danger">Polyurethane is never hot-wired: it gives off isocyanates and hydrogen cyanide. Blockyard keeps the “never hot-wire” flag on.</Notice>}
+            <Field label="Material" name="material" error={fields.material}>
+              <Select name="material" value={material} onChange={(e) => setMaterial(e.target.value as Material)}>
+                {MATERIALS.map((m) => (
+                  <option key={m}>{m}</option>
+                ))}
+              </Select>
+            </Field>
+            {material === "PU" && (
+              <Notice tone="danger">
+                Polyurethane is never hot-wired: it gives off isocyanates and hydrogen cyanide. Blockyard keeps the
+                “never hot-wire” flag on.
+              </Notice>
+            )}
             <div className="grid grid-cols-2 gap-3">
-              <Field label="Grade system" name="gradeSystem" error={fields.gradeSystem}><Input name="gradeSystem" defaultValue={g.gradeSystem} error={fields.gradeSystem} /></Field>
-              <Field label="Grade" name="grade" error={fields.grade}><Input name="grade" defaultValue={g.grade} error={fields.grade} /></Field>
-              <Field label="Nominal kg/m³" name="nominalDensity" error={fields.nominalDensity}><Input name="nominalDensity" inputMode="decimal" defaultValue={g.nominalDensity ?? ""} error={fields.nominalDensity} /></Field>
-              <Field label="Minimum kg/m³" name="minDensity" error={fields.minDensity}><Input name="minDensity" inputMode="decimal" defaultValue={g.minDensity ?? ""} error={fields.minDensity} /></Field>
-              <Field label="Cure days" name="cureDays" error={fields.cureDays}><Input name="cureDays" inputMode="numeric" defaultValue={g.cureDays} error={fields.cureDays} /></Field>
-              <Field label="Priced per" name="priceUnit" error={fields.priceUnit}>
-                <Select name="priceUnit" defaultValue={g.priceUnit}><option value="bf">board foot</option><option value="m3">m³</option></Select>
+              <Field label="Grade system" name="gradeSystem" error={fields.gradeSystem}>
+                <Input name="gradeSystem" defaultValue={g.gradeSystem} error={fields.gradeSystem} />
               </Field>
-              <Field label="Colour" name="colour" error={fields.colour}><Input name="colour" type="color" defaultValue={g.colour} error={fields.colour} /></Field>
+              <Field label="Grade" name="grade" error={fields.grade}>
+                <Input name="grade" defaultValue={g.grade} error={fields.grade} />
+              </Field>
+              <Field label="Nominal kg/m³" name="nominalDensity" error={fields.nominalDensity}>
+                <Input
+                  name="nominalDensity"
+                  inputMode="decimal"
+                  defaultValue={g.nominalDensity ?? ""}
+                  error={fields.nominalDensity}
+                />
+              </Field>
+              <Field label="Minimum kg/m³" name="minDensity" error={fields.minDensity}>
+                <Input
+                  name="minDensity"
+                  inputMode="decimal"
+                  defaultValue={g.minDensity ?? ""}
+                  error={fields.minDensity}
+                />
+              </Field>
+              <Field label="Cure days" name="cureDays" error={fields.cureDays}>
+                <Input name="cureDays" inputMode="numeric" defaultValue={g.cureDays} error={fields.cureDays} />
+              </Field>
+              <Field label="Priced per" name="priceUnit" error={fields.priceUnit}>
+                <Select name="priceUnit" defaultValue={g.priceUnit}>
+                  <option value="bf">board foot</option>
+                  <option value="m3">m³</option>
+                </Select>
+              </Field>
+              <Field label="Colour" name="colour" error={fields.colour}>
+                <Input name="colour" type="color" defaultValue={g.colour} error={fields.colour} />
+              </Field>
             </div>
             <label className="flex min-h-11 items-center gap-2 text-sm">
-              <input type="checkbox" name="neverHotWire" className="size-5 accent-ember" defaultChecked={g.neverHotWire || material === "PU"} key={material} /> Never hot-wire
+              <input
+                type="checkbox"
+                name="neverHotWire"
+                className="size-5 accent-ember"
+                defaultChecked={g.neverHotWire || material === "PU"}
+                key={material}
+              />{" "}
+              Never hot-wire
             </label>
             {fields.neverHotWire && <p className="text-sm text-ember">{fields.neverHotWire}</p>}
-            <Field label="Notes" name="notes" error={fields.notes}><Input name="notes" defaultValue={g.notes ?? ""} /></Field>
+            <Field label="Notes" name="notes" error={fields.notes}>
+              <Input name="notes" defaultValue={g.notes ?? ""} />
+            </Field>
             <div className="flex gap-2">
               <Button type="submit">{editing ? "Save grade" : "Add grade"}</Button>
-              {editing && <Button tone="quiet" onClick={() => setEditing(null)}>Cancel</Button>}
+              {editing && (
+                <Button tone="quiet" onClick={() => setEditing(null)}>
+                  Cancel
+                </Button>
+              )}
             </div>
           </form>
         </Card>

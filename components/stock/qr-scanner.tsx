@@ -54,7 +54,10 @@ export function QrScanner({ onCode }: { onCode: (code: string) => void }) {
     let timer: ReturnType<typeof setTimeout> | undefined;
     (async () => {
       try {
-        const stream = await navigator.mediaDevices.getUserMedia({ video: { facingMode: { ideal: "environment" } }, audio: false });
+        const stream = await navigator.mediaDevices.getUserMedia({
+          video: { facingMode: { ideal: "environment" } },
+          audio: false,
+        });
         if (cancelled) return stream.getTracks().forEach((t) => t.stop());
         streamRef.current = stream;
         const video = videoRef.current!;
@@ -83,7 +86,11 @@ export function QrScanner({ onCode }: { onCode: (code: string) => void }) {
         void tick();
       } catch (e) {
         const denied = (e as { name?: string }).name === "NotAllowedError";
-        setMessage(denied ? "The camera was not allowed. Type the code from the label instead." : "The camera could not be started. Type the code from the label instead.");
+        setMessage(
+          denied
+            ? "The camera was not allowed. Type the code from the label instead."
+            : "The camera could not be started. Type the code from the label instead.",
+        );
         stop();
       }
     })();
@@ -117,17 +124,32 @@ export function QrScanner({ onCode }: { onCode: (code: string) => void }) {
             <div aria-hidden className="pointer-events-none absolute inset-[18%] rounded-lg border-2 border-white/80" />
           </div>
           <p className="text-sm text-ink-soft">Hold the label&apos;s QR code inside the frame.</p>
-          <Button tone="quiet" onClick={stop}>Stop the camera</Button>
+          <Button tone="quiet" onClick={stop}>
+            Stop the camera
+          </Button>
         </div>
       )}
-      {message && <p className="text-sm text-ember" role="alert">{message}</p>}
+      {message && (
+        <p className="text-sm text-ember" role="alert">
+          {message}
+        </p>
+      )}
     </div>
   );
 }
 
 function CameraIcon() {
   return (
-    <svg aria-hidden viewBox="0 0 24 24" className="size-5" fill="none" stroke="currentColor" strokeWidth="1.8" strokeLinecap="round" strokeLinejoin="round">
+    <svg
+      aria-hidden
+      viewBox="0 0 24 24"
+      className="size-5"
+      fill="none"
+      stroke="currentColor"
+      strokeWidth="1.8"
+      strokeLinecap="round"
+      strokeLinejoin="round"
+    >
       <path d="M4 8h3l1.5-2h7L17 8h3v11H4z" />
       <circle cx="12" cy="13" r="3.5" />
     </svg>

@@ -11,34 +11,90 @@ import { addDays, isoDate } from "@/lib/stock";
 import type { LengthUnit } from "@/lib/units";
 import { lengthMmOrNull } from "@/lib/forms";
 
-interface GradeOption { id: number; code: string; minDensity: number | null; cureDays: number; neverHotWire: boolean }
-interface Row { key: number; code: string; gradeId: string; x: string; y: string; z: string; weight: string; cost: string; location: string; mouldedOn: string }
+interface GradeOption {
+  id: number;
+  code: string;
+  minDensity: number | null;
+  cureDays: number;
+  neverHotWire: boolean;
+}
+interface Row {
+  key: number;
+  code: string;
+  gradeId: string;
+  x: string;
+  y: string;
+  z: string;
+  weight: string;
+  cost: string;
+  location: string;
+  mouldedOn: string;
+}
 
 let nextKey = 1;
-const blank = (from?: Partial<Row>): Row => ({ key: nextKey++, code: "", gradeId: "", x: "", y: "", z: "", weight: "", cost: "", location: "Curing room", mouldedOn: "", ...from });
+const blank = (from?: Partial<Row>): Row => ({
+  key: nextKey++,
+  code: "",
+  gradeId: "",
+  x: "",
+  y: "",
+  z: "",
+  weight: "",
+  cost: "",
+  location: "Curing room",
+  mouldedOn: "",
+  ...from,
+});
 
 /** One delivery, many blocks: tab through measured sizes, copy a row for the next block of the same kind. */
-export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: number; name: string }[]; grades: GradeOption[]; unit: LengthUnit }) {
+export function ReceiveForm({
+  suppliers,
+  grades,
+  unit,
+}: {
+  suppliers: { id: number; name: string }[];
+  grades: GradeOption[];
+  unit: LengthUnit;
+}) {
   const [rows, setRows] = useState<Row[]>([blank()]);
   const { busy, fields, message, submit } = useSubmit();
   const [done, setDone] = useState<{ codes: string[]; warnings: { index: number; message: string }[] } | null>(null);
   const [receivedOn, setReceivedOn] = useState(isoDate());
   const toMm = (s: string) => lengthMmOrNull(s, unit);
-  const update = (key: number, patch: Partial<Row>) => setRows((rs) => rs.map((r) => (r.key === key ? { ...r, ...patch } : r)));
+  const update = (key: number, patch: Partial<Row>) =>
+    setRows((rs) => rs.map((r) => (r.key === key ? { ...r, ...patch } : r)));
   const cell = "min-h-11 w-full rounded-md border bg-paper-raised px-2 text-sm";
   const bad = (k: string) => (fields[k] ? "border-ember" : "border-bead-strong");
 
   if (done) {
     return (
       <Card title="Delivery received">
-        <p className="mb-3">{done.codes.length} blocks are in stock: {done.codes.join(", ")}.</p>
+        <p className="mb-3">
+          {done.codes.length} blocks are in stock: {done.codes.join(", ")}.
+        </p>
         {done.warnings.map((w) => (
-          <div key={w.index} className="mb-2"><Notice tone="caution">Row {w.index + 1}: {w.message}</Notice></div>
+          <div key={w.index} className="mb-2">
+            <Notice tone="caution">
+              Row {w.index + 1}: {w.message}
+            </Notice>
+          </div>
         ))}
         <div className="flex flex-wrap gap-3">
-          <Link className={buttonClass("primary")} href={`/labels?codes=${encodeURIComponent(done.codes.join(","))}`}>Print their labels</Link>
-          <Link className={buttonClass("secondary")} href="/stock">See the stock list</Link>
-          <Button tone="quiet" onClick={() => { setDone(null); setRows([blank()]); }}>Receive another</Button>
+          <Link className={buttonClass("primary")} href={`/labels?codes=${encodeURIComponent(done.codes.join(","))}`}>
+            Print their labels
+          </Link>
+          <Link className={buttonClass("secondary")} href="/stock">
+            See the stock list
+          </Link>
+          <Button
+            tone="quiet"
+            onClick={() => {
+              setDone(null);
+              setRows([blank()]);
+            }}
+          >
+            Receive another
+          </Button>
         </div>
       </Card>
     );
@@ -78,21 +134,42 @@ export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: numb
         <div className="grid gap-4 md:grid-cols-2 lg:grid-cols-4">
           <Field label="Supplier" name="supplierId" error={fields.supplierId}>
             <Select name="supplierId" defaultValue="" error={fields.supplierId}>
-              <option value="" disabled>Choose…</option>
-              {suppliers.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
+              <option value="" disabled>
+                Choose…
+              </option>
+              {suppliers.map((s) => (
+                <option key={s.id} value={s.id}>
+                  {s.name}
+                </option>
+              ))}
             </Select>
           </Field>
           <Field label="Received on" name="receivedOn" error={fields.receivedOn}>
-            <Input name="receivedOn" type="date" value={receivedOn} onChange={(e) => setReceivedOn(e.target.value)} error={fields.receivedOn} />
+            <Input
+              name="receivedOn"
+              type="date"
+              value={receivedOn}
+              onChange={(e) => setReceivedOn(e.target.value)}
+              error={fields.receivedOn}
+            />
           </Field>
-          <Field label="Lot" name="lot" error={fields.lot}><Input name="lot" error={fields.lot} /></Field>
-          <Field label="PO reference" name="poRef" error={fields.poRef}><Input name="poRef" error={fields.poRef} /></Field>
+          <Field label="Lot" name="lot" error={fields.lot}>
+            <Input name="lot" error={fields.lot} />
+          </Field>
+          <Field label="PO reference" name="poRef" error={fields.poRef}>
+            <Input name="poRef" error={fields.poRef} />
+          </Field>
           <div className="md:col-span-2 lg:col-span-4">
-            <Field label="Notes" name="notes" error={fields.notes}><Input name="notes" error={fields.notes} /></Field>
+            <Field label="Notes" name="notes" error={fields.notes}>
+              <Input name="notes" error={fields.notes} />
+            </Field>
           </div>
         </div>
       </Card>
-      <Card title={`Blocks (${rows.length})`} action={<span className="text-sm text-ink-faint">sizes in {unit}, weight in kg</span>}>
+      <Card
+        title={`Blocks (${rows.length})`}
+        action={<span className="text-sm text-ink-faint">sizes in {unit}, weight in kg</span>}
+      >
         {fields.blocks && <p className="mb-2 text-sm text-ember">{fields.blocks}</p>}
         <div className="space-y-3">
           {rows.map((r, i) => {
@@ -109,56 +186,148 @@ export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: numb
               <fieldset key={r.key} className="rounded-md border border-bead p-3" aria-label={`Block ${i + 1}`}>
                 <div className="grid grid-cols-2 gap-2 sm:grid-cols-4 lg:grid-cols-[7rem_9rem_repeat(3,5.5rem)_5.5rem_6rem_1fr_9rem]">
                   <Captioned caption="Code" className={caption}>
-                    <input aria-label={`Block ${i + 1} code (blank: Blockyard numbers it)`} placeholder="code (auto)" value={r.code} onChange={(e) => update(r.key, { code: e.target.value })} className={`${cell} ${bad(p("code"))}`} />
+                    <input
+                      aria-label={`Block ${i + 1} code (blank: Blockyard numbers it)`}
+                      placeholder="code (auto)"
+                      value={r.code}
+                      onChange={(e) => update(r.key, { code: e.target.value })}
+                      className={`${cell} ${bad(p("code"))}`}
+                    />
                   </Captioned>
                   <Captioned caption="Grade" className={caption}>
-                    <select aria-label={`Block ${i + 1} grade`} value={r.gradeId} onChange={(e) => update(r.key, { gradeId: e.target.value })} className={`${cell} ${bad(p("gradeId"))}`}>
+                    <select
+                      aria-label={`Block ${i + 1} grade`}
+                      value={r.gradeId}
+                      onChange={(e) => update(r.key, { gradeId: e.target.value })}
+                      className={`${cell} ${bad(p("gradeId"))}`}
+                    >
                       <option value="">grade…</option>
-                      {grades.map((g) => <option key={g.id} value={g.id}>{g.code}</option>)}
+                      {grades.map((g) => (
+                        <option key={g.id} value={g.id}>
+                          {g.code}
+                        </option>
+                      ))}
                     </select>
                   </Captioned>
                   <Captioned caption={`Length (${unit})`} className={caption}>
-                    <input aria-label={`Block ${i + 1} length`} placeholder="length" inputMode="decimal" value={r.x} onChange={(e) => update(r.key, { x: e.target.value })} className={`${cell} ${bad(p("size.0"))}`} />
+                    <input
+                      aria-label={`Block ${i + 1} length`}
+                      placeholder="length"
+                      inputMode="decimal"
+                      value={r.x}
+                      onChange={(e) => update(r.key, { x: e.target.value })}
+                      className={`${cell} ${bad(p("size.0"))}`}
+                    />
                   </Captioned>
                   <Captioned caption={`Width (${unit})`} className={caption}>
-                    <input aria-label={`Block ${i + 1} width`} placeholder="width" inputMode="decimal" value={r.y} onChange={(e) => update(r.key, { y: e.target.value })} className={`${cell} ${bad(p("size.1"))}`} />
+                    <input
+                      aria-label={`Block ${i + 1} width`}
+                      placeholder="width"
+                      inputMode="decimal"
+                      value={r.y}
+                      onChange={(e) => update(r.key, { y: e.target.value })}
+                      className={`${cell} ${bad(p("size.1"))}`}
+                    />
                   </Captioned>
                   <Captioned caption={`Height (${unit})`} className={caption}>
-                    <input aria-label={`Block ${i + 1} height`} placeholder="height" inputMode="decimal" value={r.z} onChange={(e) => update(r.key, { z: e.target.value })} className={`${cell} ${bad(p("size.2"))}`} />
+                    <input
+                      aria-label={`Block ${i + 1} height`}
+                      placeholder="height"
+                      inputMode="decimal"
+                      value={r.z}
+                      onChange={(e) => update(r.key, { z: e.target.value })}
+                      className={`${cell} ${bad(p("size.2"))}`}
+                    />
                   </Captioned>
                   <Captioned caption="Weight (kg)" className={caption}>
-                    <input aria-label={`Block ${i + 1} weight kg`} placeholder="kg" inputMode="decimal" value={r.weight} onChange={(e) => update(r.key, { weight: e.target.value })} className={`${cell} ${bad(p("weightKg"))}`} />
+                    <input
+                      aria-label={`Block ${i + 1} weight kg`}
+                      placeholder="kg"
+                      inputMode="decimal"
+                      value={r.weight}
+                      onChange={(e) => update(r.key, { weight: e.target.value })}
+                      className={`${cell} ${bad(p("weightKg"))}`}
+                    />
                   </Captioned>
                   <Captioned caption="Cost" className={caption}>
-                    <input aria-label={`Block ${i + 1} cost`} placeholder="cost" inputMode="decimal" value={r.cost} onChange={(e) => update(r.key, { cost: e.target.value })} className={`${cell} ${bad(p("cost"))}`} />
+                    <input
+                      aria-label={`Block ${i + 1} cost`}
+                      placeholder="cost"
+                      inputMode="decimal"
+                      value={r.cost}
+                      onChange={(e) => update(r.key, { cost: e.target.value })}
+                      className={`${cell} ${bad(p("cost"))}`}
+                    />
                   </Captioned>
                   <Captioned caption="Location" className={caption}>
-                    <input aria-label={`Block ${i + 1} location`} placeholder="location" value={r.location} onChange={(e) => update(r.key, { location: e.target.value })} className={`${cell} ${bad(p("location"))}`} />
+                    <input
+                      aria-label={`Block ${i + 1} location`}
+                      placeholder="location"
+                      value={r.location}
+                      onChange={(e) => update(r.key, { location: e.target.value })}
+                      className={`${cell} ${bad(p("location"))}`}
+                    />
                   </Captioned>
                   <Captioned caption="Moulded on" className={caption}>
-                    <input aria-label={`Block ${i + 1} moulding date`} type="date" value={r.mouldedOn} onChange={(e) => update(r.key, { mouldedOn: e.target.value })} className={`${cell} ${bad(p("mouldedOn"))}`} />
+                    <input
+                      aria-label={`Block ${i + 1} moulding date`}
+                      type="date"
+                      value={r.mouldedOn}
+                      onChange={(e) => update(r.key, { mouldedOn: e.target.value })}
+                      className={`${cell} ${bad(p("mouldedOn"))}`}
+                    />
                   </Captioned>
                 </div>
                 <div className="mt-2 flex flex-wrap items-center justify-between gap-2 text-xs">
                   <span className="text-ink-soft">
                     {vol !== null && <>{vol.toFixed(3)} m³ · </>}
-                    {density !== null && <span className={low ? "font-semibold text-ember" : ""}>{density.toFixed(1)} kg/m³{low && ` — below the ${grade!.code} minimum ${grade!.minDensity}`} · </span>}
+                    {density !== null && (
+                      <span className={low ? "font-semibold text-ember" : ""}>
+                        {density.toFixed(1)} kg/m³{low && ` — below the ${grade!.code} minimum ${grade!.minDensity}`} ·{" "}
+                      </span>
+                    )}
                     {grade && <>cut not before {addDays(r.mouldedOn || receivedOn, grade.cureDays)}</>}
                     {grade?.neverHotWire && <span className="ml-1 font-semibold text-ember">· never hot-wire</span>}
                   </span>
                   <span className="flex gap-2">
-                    <button type="button" className="min-h-9 px-2 text-kerf" onClick={() => setRows((rs) => [...rs.slice(0, i + 1), blank({ ...r, code: "" }), ...rs.slice(i + 1)])}>Copy row</button>
-                    {rows.length > 1 && <button type="button" className="min-h-9 px-2 text-ember" onClick={() => setRows((rs) => rs.filter((x) => x.key !== r.key))}>Remove</button>}
+                    <button
+                      type="button"
+                      className="min-h-9 px-2 text-kerf"
+                      onClick={() =>
+                        setRows((rs) => [...rs.slice(0, i + 1), blank({ ...r, code: "" }), ...rs.slice(i + 1)])
+                      }
+                    >
+                      Copy row
+                    </button>
+                    {rows.length > 1 && (
+                      <button
+                        type="button"
+                        className="min-h-9 px-2 text-ember"
+                        onClick={() => setRows((rs) => rs.filter((x) => x.key !== r.key))}
+                      >
+                        Remove
+                      </button>
+                    )}
                   </span>
                 </div>
-                {rowErrors.map(([k, m]) => <p key={k} role="alert" className="text-sm text-ember">{m}</p>)}
+                {rowErrors.map(([k, m]) => (
+                  <p key={k} role="alert" className="text-sm text-ember">
+                    {m}
+                  </p>
+                ))}
               </fieldset>
             );
           })}
         </div>
-        <div className="mt-3"><Button tone="secondary" onClick={() => setRows((rs) => [...rs, blank()])}>Add a block</Button></div>
+        <div className="mt-3">
+          <Button tone="secondary" onClick={() => setRows((rs) => [...rs, blank()])}>
+            Add a block
+          </Button>
+        </div>
       </Card>
-      <Button type="submit" disabled={busy}>{busy ? "Saving…" : `Receive ${rows.length} block${rows.length === 1 ? "" : "s"}`}</Button>
+      <Button type="submit" disabled={busy}>
+        {busy ? "Saving…" : `Receive ${rows.length} block${rows.length === 1 ? "" : "s"}`}
+      </Button>
     </form>
   );
 }
@@ -167,7 +336,9 @@ export function ReceiveForm({ suppliers, grades, unit }: { suppliers: { id: numb
 function Captioned({ caption, className, children }: { caption: string; className: string; children: ReactNode }) {
   return (
     <label className="block">
-      <span aria-hidden="true" className={className}>{caption}</span>
+      <span aria-hidden="true" className={className}>
+        {caption}
+      </span>
       {children}
     </label>
   );

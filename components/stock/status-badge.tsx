@@ -16,7 +16,11 @@ export function StatusBadge({ status }: { status: ShownStatus }) {
 export function GradeChip({ code, colour, noWire }: { code: string; colour: string; noWire?: boolean }) {
   return (
     <span className="inline-flex items-center gap-1.5 whitespace-nowrap">
-      <span className="inline-block size-3 rounded-sm border border-ink/20" style={{ background: colour }} aria-hidden="true" />
+      <span
+        className="inline-block size-3 rounded-sm border border-ink/20"
+        style={{ background: colour }}
+        aria-hidden="true"
+      />
       <span>{code}</span>
       {noWire && <Badge tone="ember">no hot wire</Badge>}
     </span>

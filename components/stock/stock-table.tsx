@@ -69,47 +69,86 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
       >
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">Code starts with</span>
-          <input name="q" defaultValue={v("q")} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3" placeholder="HF-10" />
+          <input
+            name="q"
+            defaultValue={v("q")}
+            className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
+            placeholder="HF-10"
+          />
         </label>
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">Status</span>
-          <select value={v("status") || "available"} onChange={(e) => set({ status: e.target.value === "available" ? null : e.target.value })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+          <select
+            value={v("status") || "available"}
+            onChange={(e) => set({ status: e.target.value === "available" ? null : e.target.value })}
+            className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
+          >
             <option value="available">In stock (all)</option>
             {SHOWN_STATUSES.map((s) => (
-              <option key={s} value={s}>{STATUS_LABELS[s]}</option>
+              <option key={s} value={s}>
+                {STATUS_LABELS[s]}
+              </option>
             ))}
             <option value="all">Everything, ever</option>
           </select>
         </label>
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">Grade</span>
-          <select value={v("grade")} onChange={(e) => set({ grade: e.target.value })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+          <select
+            value={v("grade")}
+            onChange={(e) => set({ grade: e.target.value })}
+            className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
+          >
             <option value="">Any grade</option>
             {grades.map((g) => (
-              <option key={g.id} value={g.id}>{g.code}</option>
+              <option key={g.id} value={g.id}>
+                {g.code}
+              </option>
             ))}
           </select>
         </label>
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">Location</span>
-          <select value={v("location")} onChange={(e) => set({ location: e.target.value })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+          <select
+            value={v("location")}
+            onChange={(e) => set({ location: e.target.value })}
+            className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
+          >
             <option value="">Anywhere</option>
             {locations.map((l) => (
-              <option key={l} value={l}>{l}</option>
+              <option key={l} value={l}>
+                {l}
+              </option>
             ))}
           </select>
         </label>
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">Longest side at least ({lenLabel})</span>
-          <input type="number" min={0} defaultValue={fromMm(v("minLength"))} onBlur={(e) => set({ minLength: toMm(e.target.value) })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3" />
+          <input
+            type="number"
+            min={0}
+            defaultValue={fromMm(v("minLength"))}
+            onBlur={(e) => set({ minLength: toMm(e.target.value) })}
+            className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
+          />
         </label>
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">Longest side at most ({lenLabel})</span>
-          <input type="number" min={0} defaultValue={fromMm(v("maxLength"))} onBlur={(e) => set({ maxLength: toMm(e.target.value) })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3" />
+          <input
+            type="number"
+            min={0}
+            defaultValue={fromMm(v("maxLength"))}
+            onBlur={(e) => set({ maxLength: toMm(e.target.value) })}
+            className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
+          />
         </label>
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">Blocks or offcuts</span>
-          <select value={v("offcuts")} onChange={(e) => set({ offcuts: e.target.value })} className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+          <select
+            value={v("offcuts")}
+            onChange={(e) => set({ offcuts: e.target.value })}
+            className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
+          >
             <option value="">Both</option>
             <option value="exclude">Whole blocks only</option>
             <option value="only">Offcuts only</option>
@@ -118,12 +157,23 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">Sort</span>
           <div className="mt-1 flex gap-2">
-            <select value={v("sort") || "received"} onChange={(e) => set({ sort: e.target.value })} className="min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3">
+            <select
+              value={v("sort") || "received"}
+              onChange={(e) => set({ sort: e.target.value })}
+              className="min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
+            >
               {SORTS.map(([k, label]) => (
-                <option key={k} value={k}>{label}</option>
+                <option key={k} value={k}>
+                  {label}
+                </option>
               ))}
             </select>
-            <button type="button" className={buttonClass("secondary", "px-3")} onClick={() => set({ dir: v("dir") === "desc" ? "asc" : "desc" })} aria-label="Reverse the order">
+            <button
+              type="button"
+              className={buttonClass("secondary", "px-3")}
+              onClick={() => set({ dir: v("dir") === "desc" ? "asc" : "desc" })}
+              aria-label="Reverse the order"
+            >
               {v("dir") === "desc" ? "↓" : "↑"}
             </button>
           </div>
@@ -154,7 +204,9 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
               <th className="px-3 py-2">Size</th>
               <th className="px-3 py-2 text-right">m³</th>
               <th className="px-3 py-2">Status</th>
-              <th className="px-3 py-2" title="First in, first out: the order ready blocks of a grade should be used">FIFO</th>
+              <th className="px-3 py-2" title="First in, first out: the order ready blocks of a grade should be used">
+                FIFO
+              </th>
               <th className="px-3 py-2">Location</th>
               <th className="px-3 py-2">Lot</th>
               <th className="px-3 py-2 text-right">Defects</th>
@@ -164,25 +216,35 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
             {list.items.map((b) => (
               <tr key={b.id} className="border-b border-bead/60 last:border-0 hover:bg-paper">
                 <td className="px-3 py-2 font-medium">
-                  <Link href={`/stock/${encodeURIComponent(b.code)}`} prefetch={false}>{b.code}</Link>
+                  <Link href={`/stock/${encodeURIComponent(b.code)}`} prefetch={false}>
+                    {b.code}
+                  </Link>
                   {b.isOffcut && <span className="ml-1 text-xs text-ink-faint">offcut</span>}
                 </td>
-                <td className="px-3 py-2"><GradeChip code={b.gradeCode} colour={b.colour} noWire={b.neverHotWire} /></td>
+                <td className="px-3 py-2">
+                  <GradeChip code={b.gradeCode} colour={b.colour} noWire={b.neverHotWire} />
+                </td>
                 <td className="whitespace-nowrap px-3 py-2">{formatSize(b.size, unit)}</td>
                 <td className="px-3 py-2 text-right tabular-nums">{b.volumeM3.toFixed(3)}</td>
                 <td className="whitespace-nowrap px-3 py-2">
                   <StatusBadge status={b.shown} />
-                  {b.shown === "settling" && <span className="ml-1 text-xs text-ink-faint">until {b.cutNotBefore}</span>}
+                  {b.shown === "settling" && (
+                    <span className="ml-1 text-xs text-ink-faint">until {b.cutNotBefore}</span>
+                  )}
                 </td>
                 <td className="px-3 py-2 tabular-nums">{b.fifo ?? "–"}</td>
                 <td className="whitespace-nowrap px-3 py-2">{b.location}</td>
                 <td className="whitespace-nowrap px-3 py-2">{b.lot}</td>
-                <td className="px-3 py-2 text-right">{b.defectCount ? <span className="font-medium text-ember">{b.defectCount}</span> : "–"}</td>
+                <td className="px-3 py-2 text-right">
+                  {b.defectCount ? <span className="font-medium text-ember">{b.defectCount}</span> : "–"}
+                </td>
               </tr>
             ))}
             {!list.items.length && (
               <tr>
-                <td colSpan={9} className="px-3 py-10 text-center text-ink-soft">No stock matches these filters.</td>
+                <td colSpan={9} className="px-3 py-10 text-center text-ink-soft">
+                  No stock matches these filters.
+                </td>
               </tr>
             )}
           </tbody>
@@ -190,11 +252,21 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
       </div>
 
       <nav className="flex items-center justify-between gap-3" aria-label="Pages">
-        <button className={buttonClass("secondary")} disabled={list.page <= 1} onClick={() => set({ page: String(list.page - 1) })}>
+        <button
+          className={buttonClass("secondary")}
+          disabled={list.page <= 1}
+          onClick={() => set({ page: String(list.page - 1) })}
+        >
           Previous
         </button>
-        <span className="text-sm text-ink-soft">Page {list.page} of {pages}</span>
-        <button className={buttonClass("secondary")} disabled={list.page >= pages} onClick={() => set({ page: String(list.page + 1) })}>
+        <span className="text-sm text-ink-soft">
+          Page {list.page} of {pages}
+        </span>
+        <button
+          className={buttonClass("secondary")}
+          disabled={list.page >= pages}
+          onClick={() => set({ page: String(list.page + 1) })}
+        >
           Next
         </button>
       </nav>

@@ -7,14 +7,32 @@ import { Button } from "@/components/ui/button";
 import { Badge, Card, Notice } from "@/components/ui/card";
 import { Field, Input } from "@/components/ui/field";
 
-export interface SupplierView { id: number; name: string; contact: string | null; email: string | null; phone: string | null; leadTimeDays: number; notes: string | null; active: boolean }
+export interface SupplierView {
+  id: number;
+  name: string;
+  contact: string | null;
+  email: string | null;
+  phone: string | null;
+  leadTimeDays: number;
+  notes: string | null;
+  active: boolean;
+}
 
 export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
   const router = useRouter();
   const [editing, setEditing] = useState<SupplierView | null>(null);
   const [fields, setFields] = useState<Record<string, string>>({});
   const [msg, setMsg] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
-  const s = editing ?? { id: 0, name: "", contact: "", email: "", phone: "", leadTimeDays: 14, notes: "", active: true };
+  const s = editing ?? {
+    id: 0,
+    name: "",
+    contact: "",
+    email: "",
+    phone: "",
+    leadTimeDays: 14,
+    notes: "",
+    active: true,
+  };
   return (
     <div className="grid gap-5 lg:grid-cols-[1fr_24rem]">
       <Card title="Suppliers">
@@ -22,11 +40,24 @@ export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
           {suppliers.map((x) => (
             <li key={x.id} className="flex flex-wrap items-center justify-between gap-3 py-3 text-sm">
               <div>
-                <p className="font-medium">{x.name} {!x.active && <Badge tone="ember">not used</Badge>}</p>
-                <p className="text-ink-soft">{[x.contact, x.email, x.phone].filter(Boolean).join(" · ") || "no contact yet"}</p>
+                <p className="font-medium">
+                  {x.name} {!x.active && <Badge tone="ember">not used</Badge>}
+                </p>
+                <p className="text-ink-soft">
+                  {[x.contact, x.email, x.phone].filter(Boolean).join(" · ") || "no contact yet"}
+                </p>
                 <p className="text-ink-faint">Lead time {x.leadTimeDays} days</p>
               </div>
-              <Button tone="quiet" onClick={() => { setEditing(x); setFields({}); setMsg(null); }}>Edit</Button>
+              <Button
+                tone="quiet"
+                onClick={() => {
+                  setEditing(x);
+                  setFields({});
+                  setMsg(null);
+                }}
+              >
+                Edit
+              </Button>
             </li>
           ))}
         </ul>
@@ -39,8 +70,13 @@ export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
             e.preventDefault();
             const fd = new FormData(e.currentTarget);
             const body = {
-              name: fd.get("name"), contact: fd.get("contact"), email: fd.get("email"), phone: fd.get("phone"),
-              leadTimeDays: fd.get("leadTimeDays") === "" ? null : Number(fd.get("leadTimeDays")), notes: fd.get("notes"), active: fd.get("active") === "on",
+              name: fd.get("name"),
+              contact: fd.get("contact"),
+              email: fd.get("email"),
+              phone: fd.get("phone"),
+              leadTimeDays: fd.get("leadTimeDays") === "" ? null : Number(fd.get("leadTimeDays")),
+              notes: fd.get("notes"),
+              active: fd.get("active") === "on",
             };
             setFields({});
             try {
@@ -50,21 +86,43 @@ export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
               setEditing(null);
               router.refresh();
             } catch (err) {
-              if (err instanceof ApiError) { setFields(err.fields ?? {}); setMsg({ tone: "danger", text: err.message }); }
+              if (err instanceof ApiError) {
+                setFields(err.fields ?? {});
+                setMsg({ tone: "danger", text: err.message });
+              }
             }
           }}
         >
           {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
-          <Field label="Name" name="name" error={fields.name}><Input name="name" defaultValue={s.name} error={fields.name} /></Field>
-          <Field label="Contact" name="contact" error={fields.contact}><Input name="contact" defaultValue={s.contact ?? ""} /></Field>
-          <Field label="E-mail for orders" name="email" error={fields.email}><Input name="email" type="email" defaultValue={s.email ?? ""} error={fields.email} /></Field>
-          <Field label="Phone" name="phone" error={fields.phone}><Input name="phone" defaultValue={s.phone ?? ""} /></Field>
-          <Field label="Lead time (days)" name="leadTimeDays" error={fields.leadTimeDays}><Input name="leadTimeDays" inputMode="numeric" defaultValue={s.leadTimeDays} error={fields.leadTimeDays} /></Field>
-          <Field label="Notes" name="notes"><Input name="notes" defaultValue={s.notes ?? ""} /></Field>
-          <label className="flex min-h-11 items-center gap-2 text-sm"><input type="checkbox" name="active" defaultChecked={s.active} className="size-5 accent-kerf" /> We still buy from them</label>
+          <Field label="Name" name="name" error={fields.name}>
+            <Input name="name" defaultValue={s.name} error={fields.name} />
+          </Field>
+          <Field label="Contact" name="contact" error={fields.contact}>
+            <Input name="contact" defaultValue={s.contact ?? ""} />
+          </Field>
+          <Field label="E-mail for orders" name="email" error={fields.email}>
+            <Input name="email" type="email" defaultValue={s.email ?? ""} error={fields.email} />
+          </Field>
+          <Field label="Phone" name="phone" error={fields.phone}>
+            <Input name="phone" defaultValue={s.phone ?? ""} />
+          </Field>
+          <Field label="Lead time (days)" name="leadTimeDays" error={fields.leadTimeDays}>
+            <Input name="leadTimeDays" inputMode="numeric" defaultValue={s.leadTimeDays} error={fields.leadTimeDays} />
+          </Field>
+          <Field label="Notes" name="notes">
+            <Input name="notes" defaultValue={s.notes ?? ""} />
+          </Field>
+          <label className="flex min-h-11 items-center gap-2 text-sm">
+            <input type="checkbox" name="active" defaultChecked={s.active} className="size-5 accent-kerf" /> We still
+            buy from them
+          </label>
           <div className="flex gap-2">
             <Button type="submit">{editing ? "Save supplier" : "Add supplier"}</Button>
-            {editing && <Button tone="quiet" onClick={() => setEditing(null)}>Cancel</Button>}
+            {editing && (
+              <Button tone="quiet" onClick={() => setEditing(null)}>
+                Cancel
+              </Button>
+            )}
           </div>
         </form>
       </Card>

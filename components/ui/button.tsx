@@ -13,6 +13,10 @@ export function buttonClass(tone: Tone = "primary", extra = "") {
   return `inline-flex min-h-11 items-center justify-center gap-2 rounded-md px-4 text-sm font-medium transition-colors disabled:cursor-not-allowed disabled:opacity-70 ${TONES[tone]} ${extra}`;
 }
 
-export function Button({ tone = "primary", className = "", ...rest }: ButtonHTMLAttributes<HTMLButtonElement> & { tone?: Tone }) {
+export function Button({
+  tone = "primary",
+  className = "",
+  ...rest
+}: ButtonHTMLAttributes<HTMLButtonElement> & { tone?: Tone }) {
   return <button type="button" className={buttonClass(tone, className)} {...rest} />;
 }

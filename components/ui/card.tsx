@@ -1,6 +1,16 @@
 import type { ReactNode } from "react";
 
-export function Card({ title, action, children, className = "" }: { title?: ReactNode; action?: ReactNode; children: ReactNode; className?: string }) {
+export function Card({
+  title,
+  action,
+  children,
+  className = "",
+}: {
+  title?: ReactNode;
+  action?: ReactNode;
+  children: ReactNode;
+  className?: string;
+}) {
   return (
     <section className={`rounded-card border border-bead bg-paper-raised p-5 shadow-card ${className}`}>
       {(title || action) && (
@@ -36,14 +46,23 @@ const NOTICE: Record<NoticeTone, string> = {
 
 export function Notice({ tone = "info", title, children }: { tone?: NoticeTone; title?: string; children: ReactNode }) {
   return (
-    <div role={tone === "danger" ? "alert" : "status"} className={`rounded-md border-l-4 px-4 py-3 text-sm ${NOTICE[tone]}`}>
+    <div
+      role={tone === "danger" ? "alert" : "status"}
+      className={`rounded-md border-l-4 px-4 py-3 text-sm ${NOTICE[tone]}`}
+    >
       {title && <p className="font-semibold">{title}</p>}
       <div>{children}</div>
     </div>
   );
 }
 
-export function Badge({ children, tone = "plain" }: { children: ReactNode; tone?: "plain" | "kerf" | "wire" | "moss" | "ember" }) {
+export function Badge({
+  children,
+  tone = "plain",
+}: {
+  children: ReactNode;
+  tone?: "plain" | "kerf" | "wire" | "moss" | "ember";
+}) {
   const tones = {
     plain: "bg-paper-sunk text-ink-soft",
     kerf: "bg-kerf-light text-kerf-dark",
@@ -51,5 +70,9 @@ export function Badge({ children, tone = "plain" }: { children: ReactNode; tone?
     moss: "bg-moss-light text-moss",
     ember: "bg-ember-light text-ember",
   };
-  return <span className={`inline-flex items-center rounded px-2 py-0.5 text-xs font-medium ${tones[tone]}`}>{children}</span>;
+  return (
+    <span className={`inline-flex items-center rounded px-2 py-0.5 text-xs font-medium ${tones[tone]}`}>
+      {children}
+    </span>
+  );
 }

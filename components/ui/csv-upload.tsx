@@ -4,14 +4,34 @@ import { useState, type ReactNode } from "react";
 import { Button } from "./button";
 import { Card, Notice } from "./card";
 
-export interface CsvProblem { row: number; column?: string; message: string }
-export interface CsvReport { committed: boolean; rows: number; problems: CsvProblem[]; problemCount: number; warnings: CsvProblem[]; summary: Record<string, number>; error?: string }
+export interface CsvProblem {
+  row: number;
+  column?: string;
+  message: string;
+}
+export interface CsvReport {
+  committed: boolean;
+  rows: number;
+  problems: CsvProblem[];
+  problemCount: number;
+  warnings: CsvProblem[];
+  summary: Record<string, number>;
+  error?: string;
+}
 
 /** Sends the file with XHR so the bar can show upload progress, then the server's check. */
-function upload(url: string, file: File, commit: boolean, onProgress: (f: number) => void): Promise<{ status: number; body: CsvReport }> {
+function upload(
+  url: string,
+  file: File,
+  commit: boolean,
+  onProgress: (f: number) => void,
+): Promise<{ status: number; body: CsvReport }> {
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();
-    xhr.open("POST", `${url}${url.includes("?") ? "&" : "?"}commit=${commit ? 1 : 0}&name=${encodeURIComponent(file.name)}`);
+    xhr.open(
+      "POST",
+      `${url}${url.includes("?") ? "&" : "?"}commit=${commit ? 1 : 0}&name=${encodeURIComponent(file.name)}`,
+    );
     xhr.setRequestHeader("content-type", "text/csv");
     xhr.upload.onprogress = (e) => e.lengthComputable && onProgress(e.loaded / e.total);
     xhr.onload = () => {
@@ -86,20 +106,44 @@ export function CsvUpload({ url, controls, hint, imported, onImported, summaryLa
           {controls}
           <label className="text-sm">
             <span className="block font-medium text-ink-soft">CSV file (UTF-8)</span>
-            <input type="file" accept=".csv,text/csv" onChange={(e) => { setFile(e.target.files?.[0] ?? null); setReport(null); }} className="mt-1 block min-h-11 text-sm" />
+            <input
+              type="file"
+              accept=".csv,text/csv"
+              onChange={(e) => {
+                setFile(e.target.files?.[0] ?? null);
+                setReport(null);
+              }}
+              className="mt-1 block min-h-11 text-sm"
+            />
           </label>
-          <Button onClick={() => go(false)} disabled={!file || busy}>Check the file</Button>
+          <Button onClick={() => go(false)} disabled={!file || busy}>
+            Check the file
+          </Button>
         </div>
         {hint && <p className="mt-3 text-xs text-ink-faint">{hint}</p>}
       </Card>
 
       {busy && (
         <div className="space-y-1" aria-live="polite">
-          <div className="h-3 overflow-hidden rounded-full bg-paper-sunk" role="progressbar" aria-label="Import progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(progress * 100)}>
-            <div className={`h-full bg-kerf transition-all ${phase !== "uploading" ? "animate-pulse" : ""}`} style={{ width: `${Math.max(4, progress * 100)}%` }} />
+          <div
+            className="h-3 overflow-hidden rounded-full bg-paper-sunk"
+            role="progressbar"
+            aria-label="Import progress"
+            aria-valuemin={0}
+            aria-valuemax={100}
+            aria-valuenow={Math.round(progress * 100)}
+          >
+            <div
+              className={`h-full bg-kerf transition-all ${phase !== "uploading" ? "animate-pulse" : ""}`}
+              style={{ width: `${Math.max(4, progress * 100)}%` }}
+            />
           </div>
           <p className="text-sm text-ink-soft">
-            {phase === "uploading" ? `Sending… ${Math.round(progress * 100)} %` : phase === "checking" ? "Checking every row…" : "Saving every row in one go…"}
+            {phase === "uploading"
+              ? `Sending… ${Math.round(progress * 100)} %`
+              : phase === "checking"
+                ? "Checking every row…"
+                : "Saving every row in one go…"}
           </p>
         </div>
       )}
@@ -110,32 +154,57 @@ export function CsvUpload({ url, controls, hint, imported, onImported, summaryLa
           {shown.committed ? (
             <Notice tone="success">{imported(shown)}</Notice>
           ) : shown.problemCount ? (
-            <Notice tone="danger" title={`${shown.problemCount} problem${shown.problemCount === 1 ? "" : "s"} in ${shown.rows} rows — nothing will be imported until they are fixed`}>
+            <Notice
+              tone="danger"
+              title={`${shown.problemCount} problem${shown.problemCount === 1 ? "" : "s"} in ${shown.rows} rows — nothing will be imported until they are fixed`}
+            >
               Fix them in your spreadsheet and check the file again.
             </Notice>
           ) : (
             <Notice tone="success" title={`All ${shown.rows} rows are fine`}>
-              {Object.entries(shown.summary).map(([k, v]) => `${summaryLabels[k] ?? k}: ${fmt(v)}`).join(" · ")}
+              {Object.entries(shown.summary)
+                .map(([k, v]) => `${summaryLabels[k] ?? k}: ${fmt(v)}`)
+                .join(" · ")}
             </Notice>
           )}
           {shown.problems.length > 0 && (
             <table className="mt-4" data-testid="import-problems">
-              <thead><tr><th className="py-1">Row</th><th>Column</th><th>Problem</th></tr></thead>
+              <thead>
+                <tr>
+                  <th className="py-1">Row</th>
+                  <th>Column</th>
+                  <th>Problem</th>
+                </tr>
+              </thead>
               <tbody>
                 {shown.problems.map((p, i) => (
-                  <tr key={i} className="border-t border-bead/60"><td className="py-1 pr-3 tabular-nums">{p.row}</td><td className="pr-3">{p.column ?? "–"}</td><td>{p.message}</td></tr>
+                  <tr key={i} className="border-t border-bead/60">
+                    <td className="py-1 pr-3 tabular-nums">{p.row}</td>
+                    <td className="pr-3">{p.column ?? "–"}</td>
+                    <td>{p.message}</td>
+                  </tr>
                 ))}
               </tbody>
             </table>
           )}
-          {shown.problemCount > shown.problems.length && <p className="mt-2 text-sm text-ink-faint">…and {shown.problemCount - shown.problems.length} more.</p>}
+          {shown.problemCount > shown.problems.length && (
+            <p className="mt-2 text-sm text-ink-faint">…and {shown.problemCount - shown.problems.length} more.</p>
+          )}
           {shown.warnings.length > 0 && (
             <div className="mt-4 space-y-1">
-              {shown.warnings.map((w, i) => <p key={i} className="text-sm text-wire">Row {w.row}: {w.message}</p>)}
+              {shown.warnings.map((w, i) => (
+                <p key={i} className="text-sm text-wire">
+                  Row {w.row}: {w.message}
+                </p>
+              ))}
             </div>
           )}
           {!shown.committed && !shown.problemCount && (
-            <div className="mt-4"><Button onClick={() => go(true)} disabled={busy}>Import {shown.rows} rows</Button></div>
+            <div className="mt-4">
+              <Button onClick={() => go(true)} disabled={busy}>
+                Import {shown.rows} rows
+              </Button>
+            </div>
           )}
         </Card>
       )}

@@ -74,10 +74,16 @@ export async function up(knex: Knex): Promise<void> {
   });
   await knex.raw(`CREATE UNIQUE INDEX blocks_code_upper ON blocks (upper(code))`);
   await knex.raw(`CREATE SEQUENCE block_code_seq START 1001`);
-  await knex.raw(`ALTER TABLE blocks ADD CONSTRAINT blocks_status CHECK (status IN ('in_stock','earmarked','cut','written_off'))`);
-  await knex.raw(`ALTER TABLE blocks ADD CONSTRAINT blocks_positive CHECK (size_x > 0 AND size_y > 0 AND size_z > 0 AND nominal_x > 0 AND nominal_y > 0 AND nominal_z > 0 AND cost >= 0 AND (weight_kg IS NULL OR weight_kg > 0))`);
+  await knex.raw(
+    `ALTER TABLE blocks ADD CONSTRAINT blocks_status CHECK (status IN ('in_stock','earmarked','cut','written_off'))`,
+  );
+  await knex.raw(
+    `ALTER TABLE blocks ADD CONSTRAINT blocks_positive CHECK (size_x > 0 AND size_y > 0 AND size_z > 0 AND nominal_x > 0 AND nominal_y > 0 AND nominal_z > 0 AND cost >= 0 AND (weight_kg IS NULL OR weight_kg > 0))`,
+  );
   // Volume in m³, kept by Postgres so sorting, filtering and totals never disagree with the sizes.
-  await knex.raw(`ALTER TABLE blocks ADD COLUMN volume_m3 numeric GENERATED ALWAYS AS (size_x * size_y * size_z / 1e9) STORED`);
+  await knex.raw(
+    `ALTER TABLE blocks ADD COLUMN volume_m3 numeric GENERATED ALWAYS AS (size_x * size_y * size_z / 1e9) STORED`,
+  );
   await knex.raw(`CREATE INDEX blocks_list ON blocks (status, grade_id, cut_not_before, id)`);
   await knex.raw(`CREATE INDEX blocks_location ON blocks (location)`);
   await knex.raw(`CREATE INDEX blocks_parent ON blocks (parent_id)`);
@@ -104,7 +110,9 @@ export async function up(knex: Knex): Promise<void> {
   await knex.raw(
     `ALTER TABLE defect_zones ADD CONSTRAINT defect_kind CHECK (kind IN ('void','poor_fusion','crush','wet_core','inclusion','off_density','other'))`,
   );
-  await knex.raw(`ALTER TABLE defect_zones ADD CONSTRAINT defect_box CHECK (min_x >= 0 AND min_y >= 0 AND min_z >= 0 AND max_x > min_x AND max_y > min_y AND max_z > min_z)`);
+  await knex.raw(
+    `ALTER TABLE defect_zones ADD CONSTRAINT defect_box CHECK (min_x >= 0 AND min_y >= 0 AND min_z >= 0 AND max_x > min_x AND max_y > min_y AND max_z > min_z)`,
+  );
 
   await knex.schema.createTable("defect_photos", (t) => {
     t.increments("id");

@@ -31,7 +31,9 @@ export async function up(knex: Knex): Promise<void> {
     t.text("created_by").nullable().references("users.id");
     t.timestamp("created_at", { useTz: true }).notNullable().defaultTo(knex.fn.now());
   });
-  await knex.raw(`ALTER TABLE jobs ADD CONSTRAINT jobs_status CHECK (status IN ('open','planned','cutting','done','cancelled'))`);
+  await knex.raw(
+    `ALTER TABLE jobs ADD CONSTRAINT jobs_status CHECK (status IN ('open','planned','cutting','done','cancelled'))`,
+  );
 
   await knex.schema.createTable("job_parts", (t) => {
     t.increments("id");
@@ -49,7 +51,9 @@ export async function up(knex: Knex): Promise<void> {
     t.index(["job_id"]);
   });
   await knex.raw(`ALTER TABLE job_parts ADD CONSTRAINT job_parts_rotate CHECK (rotate IN ('any','z','none'))`);
-  await knex.raw(`ALTER TABLE job_parts ADD CONSTRAINT job_parts_positive CHECK (quantity > 0 AND size_x > 0 AND size_y > 0 AND size_z > 0)`);
+  await knex.raw(
+    `ALTER TABLE job_parts ADD CONSTRAINT job_parts_positive CHECK (quantity > 0 AND size_x > 0 AND size_y > 0 AND size_z > 0)`,
+  );
 
   await knex.schema.createTable("nesting_runs", (t) => {
     t.increments("id");
@@ -94,7 +98,9 @@ export async function up(knex: Knex): Promise<void> {
     t.text("volume_basis").nullable(); // profile | box | mixed
     t.index(["run_id"]);
   });
-  await knex.raw(`ALTER TABLE plan_blocks ADD CONSTRAINT plan_blocks_status CHECK (status IN ('reserved','cut','released'))`);
+  await knex.raw(
+    `ALTER TABLE plan_blocks ADD CONSTRAINT plan_blocks_status CHECK (status IN ('reserved','cut','released'))`,
+  );
   // A block can be held by one approved plan at a time: the database says no to a second.
   await knex.raw(`CREATE UNIQUE INDEX plan_blocks_one_reservation ON plan_blocks (block_id) WHERE status = 'reserved'`);
 

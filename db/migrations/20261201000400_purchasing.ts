@@ -71,9 +71,13 @@ export async function up(knex: Knex): Promise<void> {
     t.text("note").nullable();
     t.index(["purchase_order_id"]);
   });
-  await knex.raw(`ALTER TABLE purchase_order_lines ADD CONSTRAINT po_lines_positive CHECK (quantity > 0 AND size_x > 0 AND size_y > 0 AND size_z > 0 AND price >= 0)`);
+  await knex.raw(
+    `ALTER TABLE purchase_order_lines ADD CONSTRAINT po_lines_positive CHECK (quantity > 0 AND size_x > 0 AND size_y > 0 AND size_z > 0 AND price >= 0)`,
+  );
   await knex.raw(`ALTER TABLE purchase_order_lines ADD CONSTRAINT po_lines_unit CHECK (price_unit IN ('m3','bf'))`);
-  await knex.raw(`ALTER TABLE purchase_order_lines ADD COLUMN volume_m3 numeric GENERATED ALWAYS AS (quantity * size_x * size_y * size_z / 1e9) STORED`);
+  await knex.raw(
+    `ALTER TABLE purchase_order_lines ADD COLUMN volume_m3 numeric GENERATED ALWAYS AS (quantity * size_x * size_y * size_z / 1e9) STORED`,
+  );
 
   await knex.schema.alterTable("deliveries", (t) => {
     t.integer("purchase_order_id").nullable().references("purchase_orders.id");

@@ -12,9 +12,15 @@ import type { Knex } from "knex";
  */
 export async function up(knex: Knex): Promise<void> {
   await knex.raw(`CREATE INDEX blocks_totals ON blocks (status, grade_id, cut_not_before) INCLUDE (volume_m3, cost)`);
-  await knex.raw(`CREATE INDEX blocks_longest ON blocks ((GREATEST(size_x, size_y, size_z))) INCLUDE (status, volume_m3, cost)`);
-  await knex.raw(`ALTER TABLE blocks ADD COLUMN fifo_on date GENERATED ALWAYS AS (coalesce(moulded_on, (created_at AT TIME ZONE 'UTC')::date)) STORED`);
-  await knex.raw(`CREATE INDEX blocks_fifo ON blocks (grade_id, fifo_on, id) INCLUDE (cut_not_before) WHERE status = 'in_stock'`);
+  await knex.raw(
+    `CREATE INDEX blocks_longest ON blocks ((GREATEST(size_x, size_y, size_z))) INCLUDE (status, volume_m3, cost)`,
+  );
+  await knex.raw(
+    `ALTER TABLE blocks ADD COLUMN fifo_on date GENERATED ALWAYS AS (coalesce(moulded_on, (created_at AT TIME ZONE 'UTC')::date)) STORED`,
+  );
+  await knex.raw(
+    `CREATE INDEX blocks_fifo ON blocks (grade_id, fifo_on, id) INCLUDE (cut_not_before) WHERE status = 'in_stock'`,
+  );
 }
 
 export async function down(knex: Knex): Promise<void> {

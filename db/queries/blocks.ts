@@ -48,7 +48,8 @@ interface Row {
   supplier_name: string | null;
 }
 
-const day = (v: Date | string | null): string | null => (v === null ? null : typeof v === "string" ? v.slice(0, 10) : isoDate(v));
+const day = (v: Date | string | null): string | null =>
+  v === null ? null : typeof v === "string" ? v.slice(0, 10) : isoDate(v);
 
 function toSummary(r: Row, today: string): BlockSummary {
   const size: Size = [Number(r.size_x), Number(r.size_y), Number(r.size_z)];
@@ -157,7 +158,11 @@ export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<Bloc
   const filtered = applyFilters(k("blocks as b"), f, today);
   // The page's ids first, from the narrow index, so a deep page does not build (and count the
   // defects of) every row it skips; then the full rows of those ids only.
-  const pageIds = applyFilters(f.sort === "grade" ? k("blocks as b").join("grades as g", "g.id", "b.grade_id") : k("blocks as b"), f, today)
+  const pageIds = applyFilters(
+    f.sort === "grade" ? k("blocks as b").join("grades as g", "g.id", "b.grade_id") : k("blocks as b"),
+    f,
+    today,
+  )
     .select("b.id")
     .orderBy(SORT_COLUMNS[f.sort], f.dir)
     .orderBy("b.id", f.dir)
@@ -192,7 +197,10 @@ async function attachFifo(items: BlockSummary[], today: string) {
   if (!ready.length) return;
   const ids = ready.map((b) => b.id);
   const rows = await db()
-    .with("upto", db()("blocks").whereIn("id", ids).groupBy("grade_id").select("grade_id", db().raw("max(fifo_on) AS fifo_on")))
+    .with(
+      "upto",
+      db()("blocks").whereIn("id", ids).groupBy("grade_id").select("grade_id", db().raw("max(fifo_on) AS fifo_on")),
+    )
     .with(
       "ranked",
       db()("upto as u")
@@ -231,7 +239,9 @@ export async function getBlock(idOrCode: number | string, today = isoDate()): Pr
   };
 }
 
-export async function listChildren(parentId: number): Promise<{ id: number; code: string; size: Size; status: BlockStatus }[]> {
+export async function listChildren(
+  parentId: number,
+): Promise<{ id: number; code: string; size: Size; status: BlockStatus }[]> {
   const rows = await db()("blocks").where({ parent_id: parentId }).orderBy("id");
   return rows.map((r: Record<string, unknown>) => ({
     id: r.id as number,
@@ -242,13 +252,18 @@ export async function listChildren(parentId: number): Promise<{ id: number; code
 }
 
 export async function listLocations(): Promise<string[]> {
-  const rows = await db()("blocks").distinct("location").whereIn("status", ["in_stock", "earmarked"]).orderBy("location");
+  const rows = await db()("blocks")
+    .distinct("location")
+    .whereIn("status", ["in_stock", "earmarked"])
+    .orderBy("location");
   return rows.map((r: { location: string }) => r.location);
 }
 
 export async function updateBlock(id: number, patch: { location?: string; notes?: string | null }, actorId: string) {
   return db().transaction(async (trx) => {
-    const n = await trx("blocks").where({ id }).update({ ...patch, updated_at: trx.fn.now() });
+    const n = await trx("blocks")
+      .where({ id })
+      .update({ ...patch, updated_at: trx.fn.now() });
     if (!n) throw new HttpError(404, "That block was not found.");
     await trx("audit_log").insert({ actor_id: actorId, action: "block.update", subject: `block:${id}`, detail: patch });
   });
@@ -257,9 +272,18 @@ export async function updateBlock(id: number, patch: { location?: string; notes?
 async function lockAvailable(trx: Knex.Transaction, id: number) {
   const b = await trx("blocks").where({ id }).forUpdate().first();
   if (!b) throw new HttpError(404, "That block was not found.");
-  if (b.status === "cut" || b.status === "written_off") throw new HttpError(409, `Block ${b.code} is no longer in stock.`);
+  if (b.status === "cut" || b.status === "written_off")
+    throw new HttpError(409, `Block ${b.code} is no longer in stock.`);
   if (b.status === "earmarked") throw new HttpError(409, `Block ${b.code} is earmarked for a plan; release it first.`);
-  return b as { id: number; code: string; volume_m3: string; cost: string; size_x: string; size_y: string; size_z: string };
+  return b as {
+    id: number;
+    code: string;
+    volume_m3: string;
+    cost: string;
+    size_x: string;
+    size_y: string;
+    size_z: string;
+  };
 }
 
 /** Writes a block off (damaged, lost): no hard deletes, the ledger keeps the reason. */
@@ -267,7 +291,9 @@ export async function scrapBlock(id: number, reason: string, actorId: string) {
   await db().transaction(async (trx) => {
     const b = await lockAvailable(trx, id);
     await trx("blocks").where({ id }).update({ status: "written_off", updated_at: trx.fn.now() });
-    await appendLedger(trx, [{ blockId: id, kind: "scrapped", volumeM3: Number(b.volume_m3), value: Number(b.cost), userId: actorId, reason }]);
+    await appendLedger(trx, [
+      { blockId: id, kind: "scrapped", volumeM3: Number(b.volume_m3), value: Number(b.cost), userId: actorId, reason },
+    ]);
   });
 }
 
@@ -292,7 +318,11 @@ export async function nextBlockCodes(trx: Knex | Knex.Transaction, n: number, pr
     const want = n - codes.length;
     const rows = await trx.raw("SELECT nextval('block_code_seq') AS v FROM generate_series(1, ?)", [want]);
     const fresh = (rows.rows as { v: string }[]).map((r) => `${prefix}-${r.v}`);
-    const taken = new Set(((await trx("blocks").whereRaw("upper(code) = ANY(?)", [fresh]).pluck("code")) as string[]).map((c) => c.toUpperCase()));
+    const taken = new Set(
+      ((await trx("blocks").whereRaw("upper(code) = ANY(?)", [fresh]).pluck("code")) as string[]).map((c) =>
+        c.toUpperCase(),
+      ),
+    );
     codes.push(...fresh.filter((c) => !taken.has(c)));
   }
   return codes;

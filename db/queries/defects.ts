@@ -31,8 +31,12 @@ interface Row {
   id: number;
   block_id: number;
   kind: DefectKind;
-  min_x: string; min_y: string; min_z: string;
-  max_x: string; max_y: string; max_z: string;
+  min_x: string;
+  min_y: string;
+  min_z: string;
+  max_x: string;
+  max_y: string;
+  max_z: string;
   found_by_name: string | null;
   found_at: Date;
   note: string | null;
@@ -49,7 +53,12 @@ export async function listDefects(blockId: number): Promise<Defect[]> {
     .orderBy("z.id")
     .select("z.*", "u.name as found_by_name")) as Row[];
   const photos = rows.length
-    ? await db()("defect_photos").whereIn("defect_id", rows.map((r) => r.id)).orderBy("id")
+    ? await db()("defect_photos")
+        .whereIn(
+          "defect_id",
+          rows.map((r) => r.id),
+        )
+        .orderBy("id")
     : [];
   return rows.map((r) => ({
     id: r.id,
@@ -63,14 +72,23 @@ export async function listDefects(blockId: number): Promise<Defect[]> {
     inheritedFrom: r.inherited_from,
     photos: photos
       .filter((p: { defect_id: number }) => p.defect_id === r.id)
-      .map((p: { id: number; content_type: string; bytes: number; width: number | null; height: number | null; uploaded_at: Date }) => ({
-        id: p.id,
-        contentType: p.content_type,
-        bytes: p.bytes,
-        width: p.width,
-        height: p.height,
-        uploadedAt: p.uploaded_at.toISOString(),
-      })),
+      .map(
+        (p: {
+          id: number;
+          content_type: string;
+          bytes: number;
+          width: number | null;
+          height: number | null;
+          uploaded_at: Date;
+        }) => ({
+          id: p.id,
+          contentType: p.content_type,
+          bytes: p.bytes,
+          width: p.width,
+          height: p.height,
+          uploadedAt: p.uploaded_at.toISOString(),
+        }),
+      ),
   }));
 }
 
@@ -91,13 +109,22 @@ export async function createDefect(blockId: number, d: DefectInput, actorId: str
       .insert({
         block_id: blockId,
         kind: d.kind,
-        min_x: d.min[0], min_y: d.min[1], min_z: d.min[2],
-        max_x: d.max[0], max_y: d.max[1], max_z: d.max[2],
+        min_x: d.min[0],
+        min_y: d.min[1],
+        min_z: d.min[2],
+        max_x: d.max[0],
+        max_y: d.max[1],
+        max_z: d.max[2],
         found_by: actorId,
         note: d.note ?? null,
       })
       .returning("id");
-    await trx("audit_log").insert({ actor_id: actorId, action: "defect.create", subject: `block:${blockId}`, detail: { defect: row.id, ...d } });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "defect.create",
+      subject: `block:${blockId}`,
+      detail: { defect: row.id, ...d },
+    });
     return row.id as number;
   });
 }

@@ -39,13 +39,23 @@ interface GradeFacts {
  * cut-not-before date from the grade's cure days, and a "received" ledger row per block.
  * Field errors name the block row: `blocks.3.code`.
  */
-export async function receiveDelivery(trx: Knex.Transaction, input: DeliveryInput, actorId: string, ref?: string): Promise<ReceiveResult> {
+export async function receiveDelivery(
+  trx: Knex.Transaction,
+  input: DeliveryInput,
+  actorId: string,
+  ref?: string,
+): Promise<ReceiveResult> {
   const supplier = await trx("suppliers").where({ id: input.supplierId }).first("id");
-  if (!supplier) throw new HttpError(400, "Some fields need attention.", { supplierId: "That supplier does not exist." });
+  if (!supplier)
+    throw new HttpError(400, "Some fields need attention.", { supplierId: "That supplier does not exist." });
 
   const gradeIds = [...new Set(input.blocks.map((b) => b.gradeId))];
   const grades = new Map<number, GradeFacts>(
-    ((await trx("grades").whereIn("id", gradeIds).select("id", "code", "cure_days", "min_density_kg_m3")) as GradeFacts[]).map((g) => [g.id, g]),
+    (
+      (await trx("grades")
+        .whereIn("id", gradeIds)
+        .select("id", "code", "cure_days", "min_density_kg_m3")) as GradeFacts[]
+    ).map((g) => [g.id, g]),
   );
   const fields: Record<string, string> = {};
   input.blocks.forEach((b, i) => {
@@ -61,12 +71,20 @@ export async function receiveDelivery(trx: Knex.Transaction, input: DeliveryInpu
   });
   if (given.length) {
     const taken = (await trx("blocks").whereRaw("upper(code) = ANY(?)", [given]).pluck("code")) as string[];
-    for (const code of taken) fields[`blocks.${seen.get(code.toUpperCase())}.code`] = `Code ${code} is already in stock.`;
+    for (const code of taken)
+      fields[`blocks.${seen.get(code.toUpperCase())}.code`] = `Code ${code} is already in stock.`;
   }
   if (Object.keys(fields).length) throw new HttpError(400, "Some blocks need attention.", fields);
 
   const [delivery] = await trx("deliveries")
-    .insert({ supplier_id: input.supplierId, received_on: input.receivedOn, po_ref: input.poRef ?? null, lot: input.lot, received_by: actorId, notes: input.notes ?? null })
+    .insert({
+      supplier_id: input.supplierId,
+      received_on: input.receivedOn,
+      po_ref: input.poRef ?? null,
+      lot: input.lot,
+      received_by: actorId,
+      notes: input.notes ?? null,
+    })
     .returning("id");
   const generated = await nextBlockCodes(trx, input.blocks.filter((b) => !b.code).length);
   const warnings: ReceiveResult["warnings"] = [];
@@ -77,7 +95,10 @@ export async function receiveDelivery(trx: Knex.Transaction, input: DeliveryInpu
     if (b.weightKg && grade.min_density_kg_m3 !== null) {
       const density = b.weightKg / volume;
       if (density < Number(grade.min_density_kg_m3)) {
-        warnings.push({ index: i, message: `Density ${density.toFixed(1)} kg/m³ is below the ${grade.code} minimum of ${Number(grade.min_density_kg_m3)} kg/m³.` });
+        warnings.push({
+          index: i,
+          message: `Density ${density.toFixed(1)} kg/m³ is below the ${grade.code} minimum of ${Number(grade.min_density_kg_m3)} kg/m³.`,
+        });
       }
     }
     return {
@@ -101,11 +122,23 @@ export async function receiveDelivery(trx: Knex.Transaction, input: DeliveryInpu
   });
   const inserted: { id: number; code: string; volume_m3: string; cost: string }[] = [];
   for (let i = 0; i < rows.length; i += 1000) {
-    inserted.push(...(await trx("blocks").insert(rows.slice(i, i + 1000)).returning(["id", "code", "volume_m3", "cost"])));
+    inserted.push(
+      ...(await trx("blocks")
+        .insert(rows.slice(i, i + 1000))
+        .returning(["id", "code", "volume_m3", "cost"])),
+    );
   }
   await appendLedger(
     trx,
-    inserted.map((b) => ({ blockId: b.id, kind: "received" as const, volumeM3: Number(b.volume_m3), value: Number(b.cost), userId: actorId, reason: `Delivery ${delivery.id}, lot ${input.lot}`, ref: ref ?? `delivery:${delivery.id}` })),
+    inserted.map((b) => ({
+      blockId: b.id,
+      kind: "received" as const,
+      volumeM3: Number(b.volume_m3),
+      value: Number(b.cost),
+      userId: actorId,
+      reason: `Delivery ${delivery.id}, lot ${input.lot}`,
+      ref: ref ?? `delivery:${delivery.id}`,
+    })),
   );
   return { deliveryId: delivery.id, codes: inserted.map((b) => b.code), warnings };
 }
@@ -121,10 +154,29 @@ function deliveriesQuery() {
     .leftJoin("users as u", "u.id", "d.received_by")
     .leftJoin("blocks as b", "b.delivery_id", "d.id")
     .groupBy("d.id", "s.name", "u.name")
-    .select("d.*", "s.name as supplier_name", "u.name as received_by_name", k.raw("count(b.id) AS n"), k.raw("coalesce(sum(b.volume_m3),0) AS v"), k.raw("coalesce(sum(b.cost),0) AS c"));
+    .select(
+      "d.*",
+      "s.name as supplier_name",
+      "u.name as received_by_name",
+      k.raw("count(b.id) AS n"),
+      k.raw("coalesce(sum(b.volume_m3),0) AS v"),
+      k.raw("coalesce(sum(b.cost),0) AS c"),
+    );
 }
 
-type DeliveryRow = { id: number; supplier_id: number; supplier_name: string; received_on: Date | string; po_ref: string | null; lot: string; received_by_name: string | null; notes: string | null; n: string; v: string; c: string };
+type DeliveryRow = {
+  id: number;
+  supplier_id: number;
+  supplier_name: string;
+  received_on: Date | string;
+  po_ref: string | null;
+  lot: string;
+  received_by_name: string | null;
+  notes: string | null;
+  n: string;
+  v: string;
+  c: string;
+};
 
 const toDelivery = (r: DeliveryRow): DeliverySummary => ({
   id: r.id,
@@ -140,15 +192,23 @@ const toDelivery = (r: DeliveryRow): DeliverySummary => ({
   cost: Number(r.c),
 });
 
-export async function listDeliveries(opts: { page?: number; pageSize?: number; supplierId?: number } = {}): Promise<{ items: DeliverySummary[]; total: number }> {
+export async function listDeliveries(
+  opts: { page?: number; pageSize?: number; supplierId?: number } = {},
+): Promise<{ items: DeliverySummary[]; total: number }> {
   const pageSize = opts.pageSize ?? 50;
-  const q = deliveriesQuery().orderBy([{ column: "d.received_on", order: "desc" }, { column: "d.id", order: "desc" }]);
+  const q = deliveriesQuery().orderBy([
+    { column: "d.received_on", order: "desc" },
+    { column: "d.id", order: "desc" },
+  ]);
   const c = db()("deliveries");
   if (opts.supplierId) {
     q.where("d.supplier_id", opts.supplierId);
     c.where("supplier_id", opts.supplierId);
   }
-  const [rows, count] = await Promise.all([q.limit(pageSize).offset(((opts.page ?? 1) - 1) * pageSize), c.count<{ n: string }[]>({ n: "*" }).first()]);
+  const [rows, count] = await Promise.all([
+    q.limit(pageSize).offset(((opts.page ?? 1) - 1) * pageSize),
+    c.count<{ n: string }[]>({ n: "*" }).first(),
+  ]);
   return { items: (rows as DeliveryRow[]).map(toDelivery), total: Number(count?.n ?? 0) };
 }
 

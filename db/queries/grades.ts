@@ -89,7 +89,8 @@ export async function getGrade(id: number): Promise<Grade | undefined> {
 async function assertCodeFree(code: string, exceptId?: number) {
   const q = db()("grades").whereRaw("lower(code) = lower(?)", [code]);
   if (exceptId) q.whereNot("id", exceptId);
-  if (await q.first("id")) throw new HttpError(409, "Some fields need attention.", { code: "A grade with that code already exists." });
+  if (await q.first("id"))
+    throw new HttpError(409, "Some fields need attention.", { code: "A grade with that code already exists." });
 }
 
 export async function createGrade(g: GradeInput, actorId: string): Promise<Grade> {

@@ -7,7 +7,16 @@ import type { DeliveryInput } from "@/lib/validations/stock";
 
 export const DELIVERY_COLUMNS = {
   required: ["supplier", "received_on", "lot", "grade", "length_mm", "width_mm", "height_mm", "cost", "location"],
-  optional: ["code", "po_ref", "weight_kg", "moulded_on", "nominal_length_mm", "nominal_width_mm", "nominal_height_mm", "notes"],
+  optional: [
+    "code",
+    "po_ref",
+    "weight_kg",
+    "moulded_on",
+    "nominal_length_mm",
+    "nominal_width_mm",
+    "nominal_height_mm",
+    "notes",
+  ],
   maxRows: 20_000,
 };
 
@@ -30,16 +39,35 @@ export interface ImportReport {
 
 const MAX_REPORTED = 500;
 
-function report(committed: boolean, rows: number, problems: CsvProblem[], warnings: CsvProblem[], summary: Record<string, number>): ImportReport {
+function report(
+  committed: boolean,
+  rows: number,
+  problems: CsvProblem[],
+  warnings: CsvProblem[],
+  summary: Record<string, number>,
+): ImportReport {
   problems.sort((a, b) => a.row - b.row);
-  return { ...(problems.length ? { error: problemSummary(problems) } : {}), committed, rows, problems: problems.slice(0, MAX_REPORTED), problemCount: problems.length, warnings: warnings.slice(0, MAX_REPORTED), summary };
+  return {
+    ...(problems.length ? { error: problemSummary(problems) } : {}),
+    committed,
+    rows,
+    problems: problems.slice(0, MAX_REPORTED),
+    problemCount: problems.length,
+    warnings: warnings.slice(0, MAX_REPORTED),
+    summary,
+  };
 }
 
 /**
  * Deliveries CSV: one row per block; rows with the same supplier, date, PO and lot form one
  * delivery. Preview (commit = false) changes nothing; commit imports every row or none.
  */
-export async function importDeliveries(bytes: Uint8Array, fileName: string | null, actorId: string, commit: boolean): Promise<ImportReport> {
+export async function importDeliveries(
+  bytes: Uint8Array,
+  fileName: string | null,
+  actorId: string,
+  commit: boolean,
+): Promise<ImportReport> {
   const { rows, problems } = parseCsv(bytes, DELIVERY_COLUMNS);
   const warnings: CsvProblem[] = [];
   if (problems.some((p) => p.row === 1) || !rows.length) {
@@ -47,12 +75,19 @@ export async function importDeliveries(bytes: Uint8Array, fileName: string | nul
     return report(false, rows.length, problems, warnings, {});
   }
   const grades = new Map<string, { id: number; min: number | null }>(
-    (await db()("grades").select("id", "code", "min_density_kg_m3")).map((g: { id: number; code: string; min_density_kg_m3: string | null }) => [
-      g.code.toLowerCase(),
-      { id: g.id, min: g.min_density_kg_m3 === null ? null : Number(g.min_density_kg_m3) },
+    (await db()("grades").select("id", "code", "min_density_kg_m3")).map(
+      (g: { id: number; code: string; min_density_kg_m3: string | null }) => [
+        g.code.toLowerCase(),
+        { id: g.id, min: g.min_density_kg_m3 === null ? null : Number(g.min_density_kg_m3) },
+      ],
+    ),
+  );
+  const suppliers = new Map<string, number>(
+    (await db()("suppliers").select("id", "name")).map((s: { id: number; name: string }) => [
+      s.name.toLowerCase(),
+      s.id,
     ]),
   );
-  const suppliers = new Map<string, number>((await db()("suppliers").select("id", "name")).map((s: { id: number; name: string }) => [s.name.toLowerCase(), s.id]));
   const codesInFile = new Map<string, number>();
   const groups = new Map<string, DeliveryInput>();
   let volume = 0;
@@ -64,15 +99,29 @@ export async function importDeliveries(bytes: Uint8Array, fileName: string | nul
     const c = cellReader(problems, row, r);
     const supplierName = c.text("supplier", { required: true, max: 120 });
     const supplierId = supplierName ? suppliers.get(supplierName.toLowerCase()) : undefined;
-    if (supplierName && !supplierId) problems.push({ row, column: "supplier", message: `Unknown supplier “${supplierName.slice(0, 60)}”. Add it on the Suppliers page first.` });
+    if (supplierName && !supplierId)
+      problems.push({
+        row,
+        column: "supplier",
+        message: `Unknown supplier “${supplierName.slice(0, 60)}”. Add it on the Suppliers page first.`,
+      });
     const gradeCode = c.text("grade", { required: true, max: 40 });
     const grade = gradeCode ? grades.get(gradeCode.toLowerCase()) : undefined;
-    if (gradeCode && !grade) problems.push({ row, column: "grade", message: `Unknown grade “${gradeCode.slice(0, 40)}”.` });
+    if (gradeCode && !grade)
+      problems.push({ row, column: "grade", message: `Unknown grade “${gradeCode.slice(0, 40)}”.` });
     const receivedOn = c.date("received_on", { required: true });
     const lot = c.text("lot", { required: true, max: 60 });
     const poRef = c.text("po_ref", { max: 60 });
-    const size = [c.number("length_mm", { required: true, positive: true, max: 30_000 }), c.number("width_mm", { required: true, positive: true, max: 30_000 }), c.number("height_mm", { required: true, positive: true, max: 30_000 })];
-    const nominalCells = [c.number("nominal_length_mm", { positive: true, max: 30_000 }), c.number("nominal_width_mm", { positive: true, max: 30_000 }), c.number("nominal_height_mm", { positive: true, max: 30_000 })];
+    const size = [
+      c.number("length_mm", { required: true, positive: true, max: 30_000 }),
+      c.number("width_mm", { required: true, positive: true, max: 30_000 }),
+      c.number("height_mm", { required: true, positive: true, max: 30_000 }),
+    ];
+    const nominalCells = [
+      c.number("nominal_length_mm", { positive: true, max: 30_000 }),
+      c.number("nominal_width_mm", { positive: true, max: 30_000 }),
+      c.number("nominal_height_mm", { positive: true, max: 30_000 }),
+    ];
     const weight = c.number("weight_kg", { positive: true, max: 10_000 });
     const price = c.number("cost", { required: true, min: 0, max: 10_000_000 });
     const location = c.text("location", { required: true, max: 60 });
@@ -80,7 +129,8 @@ export async function importDeliveries(bytes: Uint8Array, fileName: string | nul
     const notes = c.text("notes", { max: 500 });
     const code = c.text("code", { max: 40 })?.toUpperCase() ?? null;
     if (code) {
-      if (codesInFile.has(code)) problems.push({ row, column: "code", message: `Code ${code} is also on row ${codesInFile.get(code)}.` });
+      if (codesInFile.has(code))
+        problems.push({ row, column: "code", message: `Code ${code} is also on row ${codesInFile.get(code)}.` });
       else codesInFile.set(code, row);
     }
     if (nominalCells.some((v) => v !== null) && nominalCells.some((v) => v === null)) {
@@ -90,7 +140,11 @@ export async function importDeliveries(bytes: Uint8Array, fileName: string | nul
     const s = size as [number, number, number];
     const v = (s[0] * s[1] * s[2]) / 1e9;
     if (weight && grade!.min !== null && weight / v < grade!.min) {
-      warnings.push({ row, column: "weight_kg", message: `Density ${(weight / v).toFixed(1)} kg/m³ is below the grade's minimum ${grade!.min} kg/m³.` });
+      warnings.push({
+        row,
+        column: "weight_kg",
+        message: `Density ${(weight / v).toFixed(1)} kg/m³ is below the grade's minimum ${grade!.min} kg/m³.`,
+      });
     }
     volume += v;
     cost += price!;
@@ -114,14 +168,23 @@ export async function importDeliveries(bytes: Uint8Array, fileName: string | nul
   });
 
   if (codesInFile.size) {
-    const taken = (await db()("blocks").whereRaw("upper(code) = ANY(?)", [[...codesInFile.keys()]]).pluck("code")) as string[];
-    for (const t of taken) problems.push({ row: codesInFile.get(t.toUpperCase())!, column: "code", message: `Code ${t} is already in stock.` });
+    const taken = (await db()("blocks")
+      .whereRaw("upper(code) = ANY(?)", [[...codesInFile.keys()]])
+      .pluck("code")) as string[];
+    for (const t of taken)
+      problems.push({
+        row: codesInFile.get(t.toUpperCase())!,
+        column: "code",
+        message: `Code ${t} is already in stock.`,
+      });
   }
   const summary = { deliveries: groups.size, blocks: problems.length ? 0 : rows.length, volumeM3: volume, cost };
   if (problems.length || !commit) return report(false, rows.length, problems, warnings, summary);
 
   await db().transaction(async (trx) => {
-    const [imp] = await trx("csv_imports").insert({ kind: "deliveries", file_name: fileName, rows: rows.length, imported_by: actorId }).returning("id");
+    const [imp] = await trx("csv_imports")
+      .insert({ kind: "deliveries", file_name: fileName, rows: rows.length, imported_by: actorId })
+      .returning("id");
     for (const g of groups.values()) await receiveDelivery(trx, g, actorId, `import:${imp.id}`);
   });
   return report(true, rows.length, problems, warnings, summary);
@@ -131,7 +194,12 @@ export async function importDeliveries(bytes: Uint8Array, fileName: string | nul
  * Stock count CSV: each row confirms a block's location (and optionally its measured size);
  * `present = no` writes the block off. All rows or none.
  */
-export async function importStockCount(bytes: Uint8Array, fileName: string | null, actorId: string, commit: boolean): Promise<ImportReport> {
+export async function importStockCount(
+  bytes: Uint8Array,
+  fileName: string | null,
+  actorId: string,
+  commit: boolean,
+): Promise<ImportReport> {
   const { rows, problems } = parseCsv(bytes, STOCK_COUNT_COLUMNS);
   const warnings: CsvProblem[] = [];
   if (problems.some((p) => p.row === 1) || !rows.length) {
@@ -139,15 +207,34 @@ export async function importStockCount(bytes: Uint8Array, fileName: string | nul
     return report(false, rows.length, problems, warnings, {});
   }
   const codes = rows.map((r) => (r.code ?? "").toUpperCase()).filter(Boolean);
-  const blocks = new Map<string, { id: number; code: string; status: string; location: string; size: number[]; volume: number; cost: number }>(
-    (await db()("blocks").whereRaw("upper(code) = ANY(?)", [codes]).select("id", "code", "status", "location", "size_x", "size_y", "size_z", "volume_m3", "cost")).map(
-      (b: Record<string, string | number>) => [
-        String(b.code).toUpperCase(),
-        { id: Number(b.id), code: String(b.code), status: String(b.status), location: String(b.location), size: [Number(b.size_x), Number(b.size_y), Number(b.size_z)], volume: Number(b.volume_m3), cost: Number(b.cost) },
-      ],
-    ),
+  const blocks = new Map<
+    string,
+    { id: number; code: string; status: string; location: string; size: number[]; volume: number; cost: number }
+  >(
+    (
+      await db()("blocks")
+        .whereRaw("upper(code) = ANY(?)", [codes])
+        .select("id", "code", "status", "location", "size_x", "size_y", "size_z", "volume_m3", "cost")
+    ).map((b: Record<string, string | number>) => [
+      String(b.code).toUpperCase(),
+      {
+        id: Number(b.id),
+        code: String(b.code),
+        status: String(b.status),
+        location: String(b.location),
+        size: [Number(b.size_x), Number(b.size_y), Number(b.size_z)],
+        volume: Number(b.volume_m3),
+        cost: Number(b.cost),
+      },
+    ]),
   );
-  type Change = { block: NonNullable<ReturnType<typeof blocks.get>>; location: string; present: boolean; size: [number, number, number] | null; note: string | null };
+  type Change = {
+    block: NonNullable<ReturnType<typeof blocks.get>>;
+    location: string;
+    present: boolean;
+    size: [number, number, number] | null;
+    note: string | null;
+  };
   const changes: Change[] = [];
   const seen = new Map<string, number>();
   rows.forEach((r, i) => {
@@ -157,18 +244,40 @@ export async function importStockCount(bytes: Uint8Array, fileName: string | nul
     const code = c.text("code", { required: true, max: 40 })?.toUpperCase();
     const location = c.text("location", { required: true, max: 60 });
     const present = c.bool("present", true);
-    const dims = [c.number("length_mm", { positive: true, max: 30_000 }), c.number("width_mm", { positive: true, max: 30_000 }), c.number("height_mm", { positive: true, max: 30_000 })];
+    const dims = [
+      c.number("length_mm", { positive: true, max: 30_000 }),
+      c.number("width_mm", { positive: true, max: 30_000 }),
+      c.number("height_mm", { positive: true, max: 30_000 }),
+    ];
     const note = c.text("note", { max: 300 });
-    if (dims.some((d) => d !== null) && dims.some((d) => d === null)) problems.push({ row, column: "length_mm", message: "Give all three measured sizes, or none." });
+    if (dims.some((d) => d !== null) && dims.some((d) => d === null))
+      problems.push({ row, column: "length_mm", message: "Give all three measured sizes, or none." });
     if (!code) return;
-    if (seen.has(code)) problems.push({ row, column: "code", message: `Block ${code} is also on row ${seen.get(code)}.` });
+    if (seen.has(code))
+      problems.push({ row, column: "code", message: `Block ${code} is also on row ${seen.get(code)}.` });
     seen.set(code, row);
     const block = blocks.get(code);
     if (!block) problems.push({ row, column: "code", message: `No block ${code} in the register.` });
-    else if (block.status === "cut" || block.status === "written_off") problems.push({ row, column: "code", message: `Block ${code} is no longer in stock (${block.status === "cut" ? "cut up" : "written off"}).` });
-    else if (!present && block.status === "earmarked") problems.push({ row, column: "present", message: `Block ${code} is earmarked for a plan; release it before writing it off.` });
+    else if (block.status === "cut" || block.status === "written_off")
+      problems.push({
+        row,
+        column: "code",
+        message: `Block ${code} is no longer in stock (${block.status === "cut" ? "cut up" : "written off"}).`,
+      });
+    else if (!present && block.status === "earmarked")
+      problems.push({
+        row,
+        column: "present",
+        message: `Block ${code} is earmarked for a plan; release it before writing it off.`,
+      });
     if (problems.length > before || !block) return;
-    changes.push({ block, location: location!, present, size: dims.every((d) => d !== null) ? (dims as [number, number, number]) : null, note });
+    changes.push({
+      block,
+      location: location!,
+      present,
+      size: dims.every((d) => d !== null) ? (dims as [number, number, number]) : null,
+      note,
+    });
   });
   const summary = {
     confirmed: changes.filter((c) => c.present).length,
@@ -179,13 +288,25 @@ export async function importStockCount(bytes: Uint8Array, fileName: string | nul
   if (problems.length || !commit) return report(false, rows.length, problems, warnings, summary);
 
   await db().transaction(async (trx) => {
-    const [imp] = await trx("csv_imports").insert({ kind: "stock_count", file_name: fileName, rows: rows.length, imported_by: actorId }).returning("id");
+    const [imp] = await trx("csv_imports")
+      .insert({ kind: "stock_count", file_name: fileName, rows: rows.length, imported_by: actorId })
+      .returning("id");
     const ref = `count:${imp.id}`;
     for (const ch of changes) {
       const b = ch.block;
       if (!ch.present) {
         await trx("blocks").where({ id: b.id }).update({ status: "written_off", updated_at: trx.fn.now() });
-        await appendLedger(trx, [{ blockId: b.id, kind: "scrapped", volumeM3: b.volume, value: b.cost, userId: actorId, reason: ch.note ?? "Not found at stock count", ref }]);
+        await appendLedger(trx, [
+          {
+            blockId: b.id,
+            kind: "scrapped",
+            volumeM3: b.volume,
+            value: b.cost,
+            userId: actorId,
+            reason: ch.note ?? "Not found at stock count",
+            ref,
+          },
+        ]);
         continue;
       }
       const patch: Record<string, unknown> = {};
@@ -196,10 +317,23 @@ export async function importStockCount(bytes: Uint8Array, fileName: string | nul
         patch.size_z = ch.size[2];
       }
       if (!Object.keys(patch).length) continue;
-      const [after] = await trx("blocks").where({ id: b.id }).update({ ...patch, updated_at: trx.fn.now() }).returning("volume_m3");
+      const [after] = await trx("blocks")
+        .where({ id: b.id })
+        .update({ ...patch, updated_at: trx.fn.now() })
+        .returning("volume_m3");
       const delta = Number(after.volume_m3) - b.volume;
       if (Math.abs(delta) > 0) {
-        await appendLedger(trx, [{ blockId: b.id, kind: "adjusted", volumeM3: delta, value: 0, userId: actorId, reason: ch.note ?? "Re-measured at stock count", ref }]);
+        await appendLedger(trx, [
+          {
+            blockId: b.id,
+            kind: "adjusted",
+            volumeM3: delta,
+            value: 0,
+            userId: actorId,
+            reason: ch.note ?? "Re-measured at stock count",
+            ref,
+          },
+        ]);
       }
     }
   });

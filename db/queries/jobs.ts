@@ -73,7 +73,12 @@ interface PartRow {
 
 const pad = (n: number) => String(n).padStart(2, "0");
 // A DATE column comes back as local midnight: read it back as the calendar day it was.
-const day = (v: Date | string | null) => (v === null ? null : typeof v === "string" ? v.slice(0, 10) : `${v.getFullYear()}-${pad(v.getMonth() + 1)}-${pad(v.getDate())}`);
+const day = (v: Date | string | null) =>
+  v === null
+    ? null
+    : typeof v === "string"
+      ? v.slice(0, 10)
+      : `${v.getFullYear()}-${pad(v.getMonth() + 1)}-${pad(v.getDate())}`;
 
 function toJob(r: JobRow): Job {
   return {
@@ -112,7 +117,9 @@ function selectJobs(k: Knex) {
     "j.*",
     k.raw("(SELECT count(*) FROM job_parts p WHERE p.job_id = j.id) AS line_count"),
     k.raw("(SELECT sum(p.quantity) FROM job_parts p WHERE p.job_id = j.id) AS piece_count"),
-    k.raw("(SELECT sum(p.quantity * COALESCE(p.true_volume_mm3, p.size_x * p.size_y * p.size_z)) FROM job_parts p WHERE p.job_id = j.id) AS part_volume_mm3"),
+    k.raw(
+      "(SELECT sum(p.quantity * COALESCE(p.true_volume_mm3, p.size_x * p.size_y * p.size_z)) FROM job_parts p WHERE p.job_id = j.id) AS part_volume_mm3",
+    ),
   );
 }
 
@@ -163,7 +170,10 @@ export async function listJobParts(jobIds: number[], k: Knex = db()): Promise<Jo
  * The nesting box and true volume of a part: from its profile when it has one (a size sent with a
  * profile is ignored), else the size given. A bad profile is a 400 naming the profile field.
  */
-export function resolveGeometry(p: { size?: Size3 | null; profile?: Profile | null }): { size: Size3; trueVolumeMm3: number | null } {
+export function resolveGeometry(p: { size?: Size3 | null; profile?: Profile | null }): {
+  size: Size3;
+  trueVolumeMm3: number | null;
+} {
   if (p.profile) {
     try {
       const g = partGeometry(p.profile);
@@ -175,7 +185,8 @@ export function resolveGeometry(p: { size?: Size3 | null; profile?: Profile | nu
       throw e;
     }
   }
-  if (!p.size) throw new HttpError(400, "Some fields need attention.", { size: "Give a size, or a profile to compute it from." });
+  if (!p.size)
+    throw new HttpError(400, "Some fields need attention.", { size: "Give a size, or a profile to compute it from." });
   return { size: p.size, trueVolumeMm3: null };
 }
 
@@ -184,20 +195,30 @@ export async function assertGrade(gradeId: number | null, field = "gradeId"): Pr
   if (gradeId === null) return;
   const g = await db()("grades").where({ id: gradeId }).first("code", "never_hot_wire");
   if (!g) throw new HttpError(400, "Some fields need attention.", { [field]: "No such grade." });
-  if (g.never_hot_wire) throw new HttpError(400, "Some fields need attention.", { [field]: `${g.code} must never be hot-wired; Blockyard plans hot-wire cuts only.` });
+  if (g.never_hot_wire)
+    throw new HttpError(400, "Some fields need attention.", {
+      [field]: `${g.code} must never be hot-wired; Blockyard plans hot-wire cuts only.`,
+    });
 }
 
 async function openJob(trx: Knex, jobId: number): Promise<{ id: number; status: JobStatus }> {
   const job = await trx("jobs").where({ id: jobId }).forUpdate().first("id", "status");
   if (!job) throw new HttpError(404, "That job was not found.");
-  if (job.status !== "open") throw new HttpError(409, "Parts can change only while the job is still taking parts. Set it back to open first.");
+  if (job.status !== "open")
+    throw new HttpError(409, "Parts can change only while the job is still taking parts. Set it back to open first.");
   return job;
 }
 
 export async function createJob(input: JobInput, actorId: string): Promise<Job> {
   return db().transaction(async (trx) => {
     const [row] = await trx("jobs")
-      .insert({ name: input.name, customer: input.customer, due_on: input.dueOn ?? null, notes: input.notes, created_by: actorId })
+      .insert({
+        name: input.name,
+        customer: input.customer,
+        due_on: input.dueOn ?? null,
+        notes: input.notes,
+        created_by: actorId,
+      })
       .returning("id");
     await trx("audit_log").insert({ actor_id: actorId, action: "job.create", subject: `job:${row.id}`, detail: input });
     return (await getJob(row.id, trx))!;
@@ -215,12 +236,28 @@ export async function updateJob(id: number, patch: JobPatch, actorId: string): P
     if (patch.notes !== undefined) changes.notes = patch.notes;
     if (patch.status !== undefined) changes.status = patch.status;
     if (Object.keys(changes).length) await trx("jobs").where({ id }).update(changes);
-    await trx("audit_log").insert({ actor_id: actorId, action: "job.update", subject: `job:${id}`, detail: { ...patch, from: job.status } });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "job.update",
+      subject: `job:${id}`,
+      detail: { ...patch, from: job.status },
+    });
     return (await getJob(id, trx))!;
   });
 }
 
-function partRow(jobId: number, p: { name: string; quantity: number; gradeId: number | null; rotate: RotateRule; profile: Profile | null; libraryPartId?: number | null }, g: { size: Size3; trueVolumeMm3: number | null }) {
+function partRow(
+  jobId: number,
+  p: {
+    name: string;
+    quantity: number;
+    gradeId: number | null;
+    rotate: RotateRule;
+    profile: Profile | null;
+    libraryPartId?: number | null;
+  },
+  g: { size: Size3; trueVolumeMm3: number | null },
+) {
   return {
     job_id: jobId,
     library_part_id: p.libraryPartId ?? null,
@@ -242,18 +279,34 @@ export async function addJobPart(jobId: number, input: PartInput, actorId: strin
   await assertGrade(input.gradeId ?? null);
   return db().transaction(async (trx) => {
     await openJob(trx, jobId);
-    const [row] = await trx("job_parts").insert(partRow(jobId, { ...input, gradeId: input.gradeId ?? null, profile: input.profile ?? null }, g)).returning("id");
-    await trx("audit_log").insert({ actor_id: actorId, action: "job_part.add", subject: `job:${jobId}`, detail: { partId: row.id, ...input } });
+    const [row] = await trx("job_parts")
+      .insert(partRow(jobId, { ...input, gradeId: input.gradeId ?? null, profile: input.profile ?? null }, g))
+      .returning("id");
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "job_part.add",
+      subject: `job:${jobId}`,
+      detail: { partId: row.id, ...input },
+    });
     return (await listJobParts([jobId], trx)).find((p) => p.id === row.id)!;
   });
 }
 
 /** Copies library parts onto a job, each with its own quantity; a retired or unknown part is refused by index. */
-export async function addLibraryParts(jobId: number, items: { libraryPartId: number; quantity: number }[], actorId: string): Promise<JobPart[]> {
+export async function addLibraryParts(
+  jobId: number,
+  items: { libraryPartId: number; quantity: number }[],
+  actorId: string,
+): Promise<JobPart[]> {
   return db().transaction(async (trx) => {
     await openJob(trx, jobId);
     const lib = new Map<number, Record<string, unknown>>(
-      (await trx("library_parts").whereIn("id", items.map((i) => i.libraryPartId))).map((r: { id: number }) => [r.id, r]),
+      (
+        await trx("library_parts").whereIn(
+          "id",
+          items.map((i) => i.libraryPartId),
+        )
+      ).map((r: { id: number }) => [r.id, r]),
     );
     const fields: Record<string, string> = {};
     items.forEach((it, i) => {
@@ -263,20 +316,50 @@ export async function addLibraryParts(jobId: number, items: { libraryPartId: num
     });
     if (Object.keys(fields).length) throw new HttpError(400, "Some fields need attention.", fields);
     const rows = items.map((it) => {
-      const l = lib.get(it.libraryPartId)! as { id: number; name: string; size_x: string; size_y: string; size_z: string; grade_id: number | null; rotate: RotateRule; profile: Profile | null; true_volume_mm3: string | null };
+      const l = lib.get(it.libraryPartId)! as {
+        id: number;
+        name: string;
+        size_x: string;
+        size_y: string;
+        size_z: string;
+        grade_id: number | null;
+        rotate: RotateRule;
+        profile: Profile | null;
+        true_volume_mm3: string | null;
+      };
       return partRow(
         jobId,
-        { name: l.name, quantity: it.quantity, gradeId: l.grade_id, rotate: l.rotate, profile: l.profile, libraryPartId: l.id },
-        { size: [Number(l.size_x), Number(l.size_y), Number(l.size_z)], trueVolumeMm3: l.true_volume_mm3 === null ? null : Number(l.true_volume_mm3) },
+        {
+          name: l.name,
+          quantity: it.quantity,
+          gradeId: l.grade_id,
+          rotate: l.rotate,
+          profile: l.profile,
+          libraryPartId: l.id,
+        },
+        {
+          size: [Number(l.size_x), Number(l.size_y), Number(l.size_z)],
+          trueVolumeMm3: l.true_volume_mm3 === null ? null : Number(l.true_volume_mm3),
+        },
       );
     });
     const ids = (await trx("job_parts").insert(rows).returning("id")).map((r: { id: number }) => r.id);
-    await trx("audit_log").insert({ actor_id: actorId, action: "job_part.add_from_library", subject: `job:${jobId}`, detail: { items } });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "job_part.add_from_library",
+      subject: `job:${jobId}`,
+      detail: { items },
+    });
     return (await listJobParts([jobId], trx)).filter((p) => ids.includes(p.id));
   });
 }
 
-export async function updateJobPart(jobId: number, partId: number, patch: JobPartPatch, actorId: string): Promise<JobPart> {
+export async function updateJobPart(
+  jobId: number,
+  partId: number,
+  patch: JobPartPatch,
+  actorId: string,
+): Promise<JobPart> {
   if (patch.gradeId !== undefined) await assertGrade(patch.gradeId);
   return db().transaction(async (trx) => {
     await openJob(trx, jobId);
@@ -288,7 +371,12 @@ export async function updateJobPart(jobId: number, partId: number, patch: JobPar
     const q = trx("job_parts").where({ id: partId, job_id: jobId });
     const n = Object.keys(changes).length ? await q.update(changes) : (await q.clone().first("id")) ? 1 : 0;
     if (!n) throw new HttpError(404, "That part is not on this job.");
-    await trx("audit_log").insert({ actor_id: actorId, action: "job_part.update", subject: `job:${jobId}`, detail: { partId, ...patch } });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "job_part.update",
+      subject: `job:${jobId}`,
+      detail: { partId, ...patch },
+    });
     return (await listJobParts([jobId], trx)).find((p) => p.id === partId)!;
   });
 }
@@ -296,9 +384,17 @@ export async function updateJobPart(jobId: number, partId: number, patch: JobPar
 export async function removeJobPart(jobId: number, partId: number, actorId: string): Promise<void> {
   await db().transaction(async (trx) => {
     await openJob(trx, jobId);
-    const [gone] = await trx("job_parts").where({ id: partId, job_id: jobId }).delete().returning(["id", "name", "quantity"]);
+    const [gone] = await trx("job_parts")
+      .where({ id: partId, job_id: jobId })
+      .delete()
+      .returning(["id", "name", "quantity"]);
     if (!gone) throw new HttpError(404, "That part is not on this job.");
-    await trx("audit_log").insert({ actor_id: actorId, action: "job_part.remove", subject: `job:${jobId}`, detail: gone });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "job_part.remove",
+      subject: `job:${jobId}`,
+      detail: gone,
+    });
   });
 }
 
@@ -310,21 +406,41 @@ const MAX_REPORTED = 500;
  * A row is a box (length_mm, width_mm, height_mm), a NACA panel (naca, chord_mm, span_mm, optional
  * tip_chord_mm and sweep_mm) or a polygon extrusion (polygon "x y; x y; …", extrude_mm).
  */
-export async function importJobParts(jobId: number, bytes: Uint8Array, fileName: string | null, actorId: string, commit: boolean): Promise<ImportReport> {
+export async function importJobParts(
+  jobId: number,
+  bytes: Uint8Array,
+  fileName: string | null,
+  actorId: string,
+  commit: boolean,
+): Promise<ImportReport> {
   const job = await db()("jobs").where({ id: jobId }).first("id", "status");
   if (!job) throw new HttpError(404, "That job was not found.");
-  if (job.status !== "open") throw new HttpError(409, "Parts can change only while the job is still taking parts. Set it back to open first.");
+  if (job.status !== "open")
+    throw new HttpError(409, "Parts can change only while the job is still taking parts. Set it back to open first.");
   const { rows, problems } = parseCsv(bytes, PART_CSV_COLUMNS);
   const done = (committed: boolean, summary: Record<string, number>): ImportReport => {
     problems.sort((a, b) => a.row - b.row);
-    return { ...(problems.length ? { error: problemSummary(problems) } : {}), committed, rows: rows.length, problems: problems.slice(0, MAX_REPORTED), problemCount: problems.length, warnings: [], summary };
+    return {
+      ...(problems.length ? { error: problemSummary(problems) } : {}),
+      committed,
+      rows: rows.length,
+      problems: problems.slice(0, MAX_REPORTED),
+      problemCount: problems.length,
+      warnings: [],
+      summary,
+    };
   };
   if (problems.some((p) => p.row === 1) || !rows.length) {
     if (!rows.length && !problems.length) problems.push({ row: 2, message: "The file has a header but no rows." });
     return done(false, {});
   }
   const grades = new Map<string, { id: number; code: string; never: boolean }>(
-    (await db()("grades").select("id", "code", "never_hot_wire")).map((g: { id: number; code: string; never_hot_wire: boolean }) => [g.code.toLowerCase(), { id: g.id, code: g.code, never: g.never_hot_wire }]),
+    (await db()("grades").select("id", "code", "never_hot_wire")).map(
+      (g: { id: number; code: string; never_hot_wire: boolean }) => [
+        g.code.toLowerCase(),
+        { id: g.id, code: g.code, never: g.never_hot_wire },
+      ],
+    ),
   );
   const parts: ReturnType<typeof partRow>[] = [];
   let pieces = 0;
@@ -342,11 +458,16 @@ export async function importJobParts(jobId: number, bytes: Uint8Array, fileName:
     if (gradeCode && !grade) add("grade", `Unknown grade “${gradeCode.slice(0, 40)}”.`);
     else if (grade?.never) add("grade", `${grade.code} must never be hot-wired; Blockyard plans hot-wire cuts only.`);
     const rotate = (r.rotate ?? "").toLowerCase() || "any";
-    if (!(ROTATE_RULES as readonly string[]).includes(rotate)) add("rotate", `“${rotate.slice(0, 20)}” is not any, z or none.`);
+    if (!(ROTATE_RULES as readonly string[]).includes(rotate))
+      add("rotate", `“${rotate.slice(0, 20)}” is not any, z or none.`);
 
     const naca = c.text("naca", { max: 20 });
     const polygon = c.text("polygon", { max: 20_000 });
-    const box = [c.number("length_mm", { positive: true, max: 30_000 }), c.number("width_mm", { positive: true, max: 30_000 }), c.number("height_mm", { positive: true, max: 30_000 })];
+    const box = [
+      c.number("length_mm", { positive: true, max: 30_000 }),
+      c.number("width_mm", { positive: true, max: 30_000 }),
+      c.number("height_mm", { positive: true, max: 30_000 }),
+    ];
     const chord = c.number("chord_mm", { positive: true, max: 10_000 });
     const tip = c.number("tip_chord_mm", { positive: true, max: 10_000 });
     const span = c.number("span_mm", { positive: true, max: 30_000 });
@@ -354,7 +475,10 @@ export async function importJobParts(jobId: number, bytes: Uint8Array, fileName:
     const extrude = c.number("extrude_mm", { positive: true, max: 30_000 });
     const hasBox = box.some((v) => v !== null);
     if ([naca, polygon, hasBox ? "box" : null].filter(Boolean).length > 1) {
-      add(naca ? "naca" : "polygon", "Give one shape per row: a size (length, width, height), a NACA section or a polygon.");
+      add(
+        naca ? "naca" : "polygon",
+        "Give one shape per row: a size (length, width, height), a NACA section or a polygon.",
+      );
       return;
     }
 
@@ -369,7 +493,14 @@ export async function importJobParts(jobId: number, bytes: Uint8Array, fileName:
       if (chord === null) add("chord_mm", "Required with a NACA section.");
       if (span === null) add("span_mm", "Required with a NACA section.");
       if (problems.length > before) return;
-      profile = { kind: "naca", code: parseNaca(naca).code, chordMm: chord!, tipChordMm: tip, spanMm: span!, sweepMm: sweep };
+      profile = {
+        kind: "naca",
+        code: parseNaca(naca).code,
+        chordMm: chord!,
+        tipChordMm: tip,
+        spanMm: span!,
+        sweepMm: sweep,
+      };
     } else if (polygon) {
       try {
         profile = { kind: "polygon", points: parsePoints(polygon), extrudeMm: extrude ?? 0 };
@@ -380,11 +511,18 @@ export async function importJobParts(jobId: number, bytes: Uint8Array, fileName:
       if (problems.length > before) return;
     } else {
       const names = ["length_mm", "width_mm", "height_mm"];
-      box.forEach((v, k) => v === null && add(names[k]!, "Required for a plain part (or give a NACA section or a polygon)."));
+      box.forEach(
+        (v, k) => v === null && add(names[k]!, "Required for a plain part (or give a NACA section or a polygon)."),
+      );
       if (problems.length > before) return;
       size = box as Size3;
     }
-    for (const [col, v] of [["tip_chord_mm", tip], ["span_mm", span], ["chord_mm", chord], ["sweep_mm", sweep]] as const) {
+    for (const [col, v] of [
+      ["tip_chord_mm", tip],
+      ["span_mm", span],
+      ["chord_mm", chord],
+      ["sweep_mm", sweep],
+    ] as const) {
       if (v !== null && !naca) add(col, "Only used with a NACA section; leave it empty.");
     }
     if (extrude !== null && !polygon) add("extrude_mm", "Only used with a polygon; leave it empty.");
@@ -402,16 +540,29 @@ export async function importJobParts(jobId: number, bytes: Uint8Array, fileName:
     }
     pieces += quantity!;
     volume += quantity! * (g.trueVolumeMm3 ?? g.size[0] * g.size[1] * g.size[2]);
-    parts.push(partRow(jobId, { name: name!, quantity: quantity!, gradeId: grade?.id ?? null, rotate: rotate as RotateRule, profile }, g));
+    parts.push(
+      partRow(
+        jobId,
+        { name: name!, quantity: quantity!, gradeId: grade?.id ?? null, rotate: rotate as RotateRule, profile },
+        g,
+      ),
+    );
   });
   const summary = { parts: problems.length ? 0 : parts.length, pieces, volumeM3: volume / 1e9 };
   if (problems.length || !commit) return done(false, summary);
 
   await db().transaction(async (trx) => {
     await openJob(trx, jobId);
-    const [imp] = await trx("csv_imports").insert({ kind: "job_parts", file_name: fileName, rows: rows.length, imported_by: actorId }).returning("id");
+    const [imp] = await trx("csv_imports")
+      .insert({ kind: "job_parts", file_name: fileName, rows: rows.length, imported_by: actorId })
+      .returning("id");
     for (let i = 0; i < parts.length; i += 500) await trx("job_parts").insert(parts.slice(i, i + 500));
-    await trx("audit_log").insert({ actor_id: actorId, action: "job_parts.import", subject: `job:${jobId}`, detail: { import: imp.id, rows: parts.length, fileName } });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "job_parts.import",
+      subject: `job:${jobId}`,
+      detail: { import: imp.id, rows: parts.length, fileName },
+    });
   });
   return done(true, summary);
 }

@@ -107,7 +107,10 @@ function ledgerBase(q: LedgerQuery) {
 }
 
 export async function listLedger(q: LedgerQuery): Promise<{ items: LedgerEntry[]; total: number }> {
-  const [items, count] = await Promise.all([listLedgerEntries(q), ledgerBase(q).count<{ n: string }[]>({ n: "*" }).first()]);
+  const [items, count] = await Promise.all([
+    listLedgerEntries(q),
+    ledgerBase(q).count<{ n: string }[]>({ n: "*" }).first(),
+  ]);
   return { items, total: Number(count?.n ?? 0) };
 }
 
@@ -118,7 +121,10 @@ export async function listLedgerEntries(q: LedgerQuery): Promise<LedgerEntry[]> 
   const rows = await ledgerBase(q)
     .leftJoin("users as u", "u.id", "l.user_id")
     .select("l.*", "b.code", "u.name as user_name")
-    .orderBy([{ column: "l.at", order: "desc" }, { column: "l.id", order: "desc" }])
+    .orderBy([
+      { column: "l.at", order: "desc" },
+      { column: "l.id", order: "desc" },
+    ])
     .limit(pageSize)
     .offset((page - 1) * pageSize);
   return (rows as Row[]).map(toEntry);

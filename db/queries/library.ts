@@ -43,7 +43,8 @@ function toPart(r: Row): LibraryPart {
   };
 }
 
-const select = (k: Knex) => k("library_parts as l").leftJoin("grades as g", "g.id", "l.grade_id").select("l.*", "g.code as grade_code");
+const select = (k: Knex) =>
+  k("library_parts as l").leftJoin("grades as g", "g.id", "l.grade_id").select("l.*", "g.code as grade_code");
 
 /**
  *   listLibraryParts({ kit: "Kestrel 1.6 m glider" })
@@ -87,7 +88,12 @@ export async function createLibraryPart(input: LibraryPartInput, actorId: string
         active: input.active ?? true,
       })
       .returning("id");
-    await trx("audit_log").insert({ actor_id: actorId, action: "library_part.create", subject: `library_part:${row.id}`, detail: input });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "library_part.create",
+      subject: `library_part:${row.id}`,
+      detail: input,
+    });
     return toPart(await select(trx).where("l.id", row.id).first());
   });
 }
@@ -110,11 +116,22 @@ export async function updateLibraryPart(id: number, patch: LibraryPatch, actorId
     const profile = patch.profile !== undefined ? patch.profile : current.profile;
     const size = patch.size !== undefined ? patch.size : current.size;
     const g = resolveGeometry({ profile, size });
-    Object.assign(changes, { size_x: g.size[0], size_y: g.size[1], size_z: g.size[2], profile: profile ? JSON.stringify(profile) : null, true_volume_mm3: g.trueVolumeMm3 });
+    Object.assign(changes, {
+      size_x: g.size[0],
+      size_y: g.size[1],
+      size_z: g.size[2],
+      profile: profile ? JSON.stringify(profile) : null,
+      true_volume_mm3: g.trueVolumeMm3,
+    });
   }
   return db().transaction(async (trx) => {
     if (Object.keys(changes).length) await trx("library_parts").where({ id }).update(changes);
-    await trx("audit_log").insert({ actor_id: actorId, action: "library_part.update", subject: `library_part:${id}`, detail: patch });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "library_part.update",
+      subject: `library_part:${id}`,
+      detail: patch,
+    });
     return toPart(await select(trx).where("l.id", id).first());
   });
 }

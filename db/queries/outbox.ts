@@ -17,11 +17,21 @@ export interface OutboxEntry {
   at: string;
 }
 
-export async function listOutbox(opts: { page?: number; pageSize?: number } = {}): Promise<{ items: OutboxEntry[]; total: number }> {
+export async function listOutbox(
+  opts: { page?: number; pageSize?: number } = {},
+): Promise<{ items: OutboxEntry[]; total: number }> {
   const pageSize = opts.pageSize ?? 50;
   const k = db();
   const [rows, count] = await Promise.all([
-    k("mail_outbox as m").leftJoin("users as u", "u.id", "m.sent_by").select("m.*", "u.name as sent_by_name").orderBy([{ column: "m.at", order: "desc" }, { column: "m.id", order: "desc" }]).limit(pageSize).offset(((opts.page ?? 1) - 1) * pageSize),
+    k("mail_outbox as m")
+      .leftJoin("users as u", "u.id", "m.sent_by")
+      .select("m.*", "u.name as sent_by_name")
+      .orderBy([
+        { column: "m.at", order: "desc" },
+        { column: "m.id", order: "desc" },
+      ])
+      .limit(pageSize)
+      .offset(((opts.page ?? 1) - 1) * pageSize),
     k("mail_outbox").count<{ n: string }[]>({ n: "*" }).first(),
   ]);
   return {
@@ -46,5 +56,11 @@ export async function listOutbox(opts: { page?: number; pageSize?: number } = {}
 
 /** Active people holding the buyer role (the low-stock alert goes to them). */
 export async function listBuyerAddresses(): Promise<string[]> {
-  return (await db()("users as u").join("user_roles as r", "r.user_id", "u.id").where({ "r.role": "buyer", "u.active": true }).distinct("u.email").orderBy("u.email")).map((r: { email: string }) => r.email);
+  return (
+    await db()("users as u")
+      .join("user_roles as r", "r.user_id", "u.id")
+      .where({ "r.role": "buyer", "u.active": true })
+      .distinct("u.email")
+      .orderBy("u.email")
+  ).map((r: { email: string }) => r.email);
 }

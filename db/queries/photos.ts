@@ -22,9 +22,18 @@ export interface NewPhoto {
 
 /** Where a photo's bytes live; the route streams them from there. */
 export async function getPhoto(id: number): Promise<StoredPhoto | undefined> {
-  const r = await db()("defect_photos").where({ id }).first("id", "defect_id", "object_key", "thumb_key", "content_type", "bytes");
+  const r = await db()("defect_photos")
+    .where({ id })
+    .first("id", "defect_id", "object_key", "thumb_key", "content_type", "bytes");
   return r
-    ? { id: r.id, defectId: r.defect_id, objectKey: r.object_key, thumbKey: r.thumb_key, contentType: r.content_type, bytes: r.bytes }
+    ? {
+        id: r.id,
+        defectId: r.defect_id,
+        objectKey: r.object_key,
+        thumbKey: r.thumb_key,
+        contentType: r.content_type,
+        bytes: r.bytes,
+      }
     : undefined;
 }
 
@@ -54,13 +63,22 @@ export async function addPhotos(defectId: number, photos: NewPhoto[], actorId: s
       subject: `defect:${defectId}`,
       detail: { photos: rows.map((r: { id: number }) => r.id) },
     });
-    return rows.map((r: { id: number; content_type: string; bytes: number; width: number | null; height: number | null; uploaded_at: Date }) => ({
-      id: r.id,
-      contentType: r.content_type,
-      bytes: r.bytes,
-      width: r.width,
-      height: r.height,
-      uploadedAt: r.uploaded_at.toISOString(),
-    }));
+    return rows.map(
+      (r: {
+        id: number;
+        content_type: string;
+        bytes: number;
+        width: number | null;
+        height: number | null;
+        uploaded_at: Date;
+      }) => ({
+        id: r.id,
+        contentType: r.content_type,
+        bytes: r.bytes,
+        width: r.width,
+        height: r.height,
+        uploadedAt: r.uploaded_at.toISOString(),
+      }),
+    );
   });
 }

@@ -4,7 +4,13 @@ import { db } from "@/db";
 import { receiveDelivery } from "./deliveries";
 import { listReorder } from "./reorder";
 import { HttpError, notFound } from "@/lib/errors";
-import { poActionRefusal, type PoAction, type PoLine, type PoStatus, type PurchaseOrder } from "@/lib/purchasing/orders";
+import {
+  poActionRefusal,
+  type PoAction,
+  type PoLine,
+  type PoStatus,
+  type PurchaseOrder,
+} from "@/lib/purchasing/orders";
 import { priceFor, type PriceUnit } from "@/lib/purchasing/pricing";
 import { receivingCheck } from "@/lib/purchasing/reorder";
 import { addDays, isoDate } from "@/lib/stock";
@@ -14,13 +20,38 @@ import type { DeliveryInput } from "@/lib/validations/stock";
 type Db = Knex | Knex.Transaction;
 
 interface PoRow {
-  id: number; number: string; supplier_id: number; supplier_name: string; supplier_email: string | null; status: PoStatus;
-  expected_on: Date | string | null; notes: string | null; created_by_name: string | null; created_at: Date; sent_at: Date | null; closed_at: Date | null; cancel_reason: string | null;
+  id: number;
+  number: string;
+  supplier_id: number;
+  supplier_name: string;
+  supplier_email: string | null;
+  status: PoStatus;
+  expected_on: Date | string | null;
+  notes: string | null;
+  created_by_name: string | null;
+  created_at: Date;
+  sent_at: Date | null;
+  closed_at: Date | null;
+  cancel_reason: string | null;
 }
 interface LineRow {
-  id: number; purchase_order_id: number; grade_id: number; grade_code: string; grade_system: string; grade: string;
-  size_x: string; size_y: string; size_z: string; quantity: number; price: string; price_unit: PriceUnit; volume_m3: string; note: string | null;
-  got_blocks: string | null; got_m3: string | null; over: boolean | null;
+  id: number;
+  purchase_order_id: number;
+  grade_id: number;
+  grade_code: string;
+  grade_system: string;
+  grade: string;
+  size_x: string;
+  size_y: string;
+  size_z: string;
+  quantity: number;
+  price: string;
+  price_unit: PriceUnit;
+  volume_m3: string;
+  note: string | null;
+  got_blocks: string | null;
+  got_m3: string | null;
+  over: boolean | null;
 }
 
 const day = (v: Date | string | null) => (v === null ? null : typeof v === "string" ? v.slice(0, 10) : isoDate(v));
@@ -78,16 +109,34 @@ async function linesFor(k: Db, ids: number[]): Promise<LineRow[]> {
   return (await k("purchase_order_lines as l")
     .join("grades as g", "g.id", "l.grade_id")
     .leftJoin(
-      k("purchase_order_receipts").groupBy("line_id").select("line_id", k.raw("sum(blocks) AS got_blocks"), k.raw("sum(volume_m3) AS got_m3"), k.raw("bool_or(over_tolerance) AS over")).as("r"),
+      k("purchase_order_receipts")
+        .groupBy("line_id")
+        .select(
+          "line_id",
+          k.raw("sum(blocks) AS got_blocks"),
+          k.raw("sum(volume_m3) AS got_m3"),
+          k.raw("bool_or(over_tolerance) AS over"),
+        )
+        .as("r"),
       "r.line_id",
       "l.id",
     )
     .whereIn("l.purchase_order_id", ids)
     .orderBy("l.id")
-    .select("l.*", "g.code as grade_code", "g.grade_system", "g.grade", "r.got_blocks", "r.got_m3", "r.over")) as LineRow[];
+    .select(
+      "l.*",
+      "g.code as grade_code",
+      "g.grade_system",
+      "g.grade",
+      "r.got_blocks",
+      "r.got_m3",
+      "r.over",
+    )) as LineRow[];
 }
 
-export async function listPurchaseOrders(opts: { status?: PoStatus | "open"; page?: number; pageSize?: number } = {}): Promise<{ items: PurchaseOrder[]; total: number }> {
+export async function listPurchaseOrders(
+  opts: { status?: PoStatus | "open"; page?: number; pageSize?: number } = {},
+): Promise<{ items: PurchaseOrder[]; total: number }> {
   const k = db();
   const pageSize = opts.pageSize ?? 50;
   const filter = (q: Knex.QueryBuilder) => {
@@ -96,11 +145,28 @@ export async function listPurchaseOrders(opts: { status?: PoStatus | "open"; pag
     return q;
   };
   const [rows, count] = await Promise.all([
-    filter(ordersQuery(k)).orderBy([{ column: "p.created_at", order: "desc" }, { column: "p.id", order: "desc" }]).limit(pageSize).offset(((opts.page ?? 1) - 1) * pageSize),
+    filter(ordersQuery(k))
+      .orderBy([
+        { column: "p.created_at", order: "desc" },
+        { column: "p.id", order: "desc" },
+      ])
+      .limit(pageSize)
+      .offset(((opts.page ?? 1) - 1) * pageSize),
     filter(k("purchase_orders as p")).count<{ n: string }[]>({ n: "*" }).first(),
   ]);
-  const lines = await linesFor(k, (rows as PoRow[]).map((r) => r.id));
-  return { items: (rows as PoRow[]).map((r) => toOrder(r, lines.filter((l) => l.purchase_order_id === r.id))), total: Number(count?.n ?? 0) };
+  const lines = await linesFor(
+    k,
+    (rows as PoRow[]).map((r) => r.id),
+  );
+  return {
+    items: (rows as PoRow[]).map((r) =>
+      toOrder(
+        r,
+        lines.filter((l) => l.purchase_order_id === r.id),
+      ),
+    ),
+    total: Number(count?.n ?? 0),
+  };
 }
 
 export async function getPurchaseOrder(id: number, k: Db = db()): Promise<PurchaseOrder | undefined> {
@@ -109,11 +175,20 @@ export async function getPurchaseOrder(id: number, k: Db = db()): Promise<Purcha
 }
 
 /** Open orders at a glance, for the buyer's home page. */
-export async function countOpenOrders(): Promise<{ draft: number; sent: number; partReceived: number; overdue: number }> {
+export async function countOpenOrders(): Promise<{
+  draft: number;
+  sent: number;
+  partReceived: number;
+  overdue: number;
+}> {
   const rows = (await db()("purchase_orders")
     .whereIn("status", ["draft", "sent", "part_received"])
     .groupBy("status")
-    .select("status", db().raw("count(*) AS n"), db().raw("count(*) FILTER (WHERE expected_on < current_date) AS late"))) as { status: PoStatus; n: string; late: string }[];
+    .select(
+      "status",
+      db().raw("count(*) AS n"),
+      db().raw("count(*) FILTER (WHERE expected_on < current_date) AS late"),
+    )) as { status: PoStatus; n: string; late: string }[];
   const get = (s: PoStatus) => rows.find((r) => r.status === s);
   return {
     draft: Number(get("draft")?.n ?? 0),
@@ -123,7 +198,11 @@ export async function countOpenOrders(): Promise<{ draft: number; sent: number; 
   };
 }
 
-async function lockOrder(trx: Knex.Transaction, id: number, action: PoAction): Promise<{ id: number; status: PoStatus; supplier_id: number; number: string }> {
+async function lockOrder(
+  trx: Knex.Transaction,
+  id: number,
+  action: PoAction,
+): Promise<{ id: number; status: PoStatus; supplier_id: number; number: string }> {
   const po = await trx("purchase_orders").where({ id }).forUpdate().first("id", "status", "supplier_id", "number");
   if (!po) throw notFound("That purchase order");
   const refusal = poActionRefusal(po.status, action);
@@ -136,7 +215,11 @@ async function checkRefs(trx: Knex.Transaction, input: PurchaseOrderInput): Prom
   const supplier = await trx("suppliers").where({ id: input.supplierId }).first("id", "active");
   if (!supplier) fields.supplierId = "That supplier does not exist.";
   const grades = new Map<number, PriceUnit>(
-    ((await trx("grades").whereIn("id", [...new Set(input.lines.map((l) => l.gradeId))]).select("id", "price_unit")) as { id: number; price_unit: PriceUnit }[]).map((g) => [g.id, g.price_unit]),
+    (
+      (await trx("grades")
+        .whereIn("id", [...new Set(input.lines.map((l) => l.gradeId))])
+        .select("id", "price_unit")) as { id: number; price_unit: PriceUnit }[]
+    ).map((g) => [g.id, g.price_unit]),
   );
   input.lines.forEach((l, i) => {
     if (!grades.has(l.gradeId)) fields[`lines.${i}.gradeId`] = "That grade does not exist.";
@@ -159,15 +242,32 @@ function lineRows(poId: number, input: PurchaseOrderInput, units: Map<number, Pr
   }));
 }
 
-async function insertOrder(trx: Knex.Transaction, input: PurchaseOrderInput, actorId: string, how: string): Promise<number> {
+async function insertOrder(
+  trx: Knex.Transaction,
+  input: PurchaseOrderInput,
+  actorId: string,
+  how: string,
+): Promise<number> {
   const units = await checkRefs(trx, input);
   const { rows } = await trx.raw("SELECT nextval('purchase_order_seq') AS n");
   const number = `PO-${isoDate().slice(0, 4)}-${String(rows[0].n).padStart(4, "0")}`;
   const [po] = await trx("purchase_orders")
-    .insert({ number, supplier_id: input.supplierId, status: "draft", expected_on: input.expectedOn ?? null, notes: input.notes ?? null, created_by: actorId })
+    .insert({
+      number,
+      supplier_id: input.supplierId,
+      status: "draft",
+      expected_on: input.expectedOn ?? null,
+      notes: input.notes ?? null,
+      created_by: actorId,
+    })
     .returning("id");
   await trx("purchase_order_lines").insert(lineRows(po.id, input, units));
-  await trx("audit_log").insert({ actor_id: actorId, action: "po.create", subject: `po:${po.id}`, detail: { number, how, ...input } });
+  await trx("audit_log").insert({
+    actor_id: actorId,
+    action: "po.create",
+    subject: `po:${po.id}`,
+    detail: { number, how, ...input },
+  });
   return po.id as number;
 }
 
@@ -178,11 +278,17 @@ export async function createPurchaseOrder(input: PurchaseOrderInput, actorId: st
 }
 
 /** Replaces a draft's supplier, date, notes and lines. */
-export async function updatePurchaseOrder(id: number, input: PurchaseOrderInput, actorId: string): Promise<PurchaseOrder> {
+export async function updatePurchaseOrder(
+  id: number,
+  input: PurchaseOrderInput,
+  actorId: string,
+): Promise<PurchaseOrder> {
   await db().transaction(async (trx) => {
     await lockOrder(trx, id, "edit");
     const units = await checkRefs(trx, input);
-    await trx("purchase_orders").where({ id }).update({ supplier_id: input.supplierId, expected_on: input.expectedOn ?? null, notes: input.notes ?? null });
+    await trx("purchase_orders")
+      .where({ id })
+      .update({ supplier_id: input.supplierId, expected_on: input.expectedOn ?? null, notes: input.notes ?? null });
     await trx("purchase_order_lines").where({ purchase_order_id: id }).delete();
     await trx("purchase_order_lines").insert(lineRows(id, input, units));
     await trx("audit_log").insert({ actor_id: actorId, action: "po.update", subject: `po:${id}`, detail: input });
@@ -195,14 +301,21 @@ export async function updatePurchaseOrder(id: number, input: PurchaseOrderInput,
  * of blocks at the usual block size and the last price paid. Grades without a supplier or a
  * known block size are refused by name.
  */
-export async function draftFromReorder(gradeIds: number[], expectedOn: string | null | undefined, actorId: string): Promise<PurchaseOrder[]> {
+export async function draftFromReorder(
+  gradeIds: number[],
+  expectedOn: string | null | undefined,
+  actorId: string,
+): Promise<PurchaseOrder[]> {
   const rows = await listReorder({ gradeIds });
   const fields: Record<string, string> = {};
   gradeIds.forEach((g, i) => {
     const r = rows.find((x) => x.gradeId === g);
     if (!r) fields[`gradeIds.${i}`] = "That grade does not exist or is no longer used.";
-    else if (!r.supplier) fields[`gradeIds.${i}`] = `${r.gradeCode} has no usual supplier: choose one in its reorder settings.`;
-    else if (!r.blockSize) fields[`gradeIds.${i}`] = `${r.gradeCode} has never been delivered, so its block size is unknown: write the order by hand.`;
+    else if (!r.supplier)
+      fields[`gradeIds.${i}`] = `${r.gradeCode} has no usual supplier: choose one in its reorder settings.`;
+    else if (!r.blockSize)
+      fields[`gradeIds.${i}`] =
+        `${r.gradeCode} has never been delivered, so its block size is unknown: write the order by hand.`;
   });
   if (Object.keys(fields).length) throw new HttpError(400, "Some grades cannot be drafted.", fields);
   const bySupplier = new Map<number, typeof rows>();
@@ -234,8 +347,14 @@ export async function draftFromReorder(gradeIds: number[], expectedOn: string | 
 export async function markSent(id: number, actorId: string, how: "email" | "other"): Promise<void> {
   await db().transaction(async (trx) => {
     const po = await lockOrder(trx, id, "send");
-    if (po.status === "draft") await trx("purchase_orders").where({ id }).update({ status: "sent", sent_at: trx.fn.now() });
-    await trx("audit_log").insert({ actor_id: actorId, action: "po.send", subject: `po:${id}`, detail: { how, from: po.status } });
+    if (po.status === "draft")
+      await trx("purchase_orders").where({ id }).update({ status: "sent", sent_at: trx.fn.now() });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "po.send",
+      subject: `po:${id}`,
+      detail: { how, from: po.status },
+    });
   });
 }
 
@@ -251,8 +370,15 @@ export async function assertCanSend(id: number): Promise<PurchaseOrder> {
 export async function cancelPurchaseOrder(id: number, reason: string, actorId: string): Promise<void> {
   await db().transaction(async (trx) => {
     const po = await lockOrder(trx, id, "cancel");
-    await trx("purchase_orders").where({ id }).update({ status: "cancelled", cancel_reason: reason, closed_at: trx.fn.now() });
-    await trx("audit_log").insert({ actor_id: actorId, action: "po.cancel", subject: `po:${id}`, detail: { reason, from: po.status } });
+    await trx("purchase_orders")
+      .where({ id })
+      .update({ status: "cancelled", cancel_reason: reason, closed_at: trx.fn.now() });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "po.cancel",
+      subject: `po:${id}`,
+      detail: { reason, from: po.status },
+    });
   });
 }
 
@@ -260,7 +386,12 @@ export async function closePurchaseOrder(id: number, reason: string, actorId: st
   await db().transaction(async (trx) => {
     await lockOrder(trx, id, "close");
     await trx("purchase_orders").where({ id }).update({ status: "closed", closed_at: trx.fn.now() });
-    await trx("audit_log").insert({ actor_id: actorId, action: "po.close", subject: `po:${id}`, detail: { reason, short: true } });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "po.close",
+      subject: `po:${id}`,
+      detail: { reason, short: true },
+    });
   });
 }
 
@@ -280,7 +411,11 @@ export interface PoReceiveResult {
  *  - a receipt taking a line past 110 % is refused (409, naming the line) unless the buyer
  *    accepts it with a reason — then it is received and flagged on the order.
  */
-export async function receiveAgainstOrder(id: number, input: ReceivePoInput, actorId: string): Promise<PoReceiveResult> {
+export async function receiveAgainstOrder(
+  id: number,
+  input: ReceivePoInput,
+  actorId: string,
+): Promise<PoReceiveResult> {
   return db().transaction(async (trx) => {
     const po = await lockOrder(trx, id, "receive");
     const lines = await linesFor(trx, [id]);
@@ -306,9 +441,14 @@ export async function receiveAgainstOrder(id: number, input: ReceivePoInput, act
       const overFields: Record<string, string> = {};
       for (const c of overs) {
         const no = lines.indexOf(c.line) + 1;
-        overFields[`lines.${c.line.id}`] = `Line ${no} (${c.line.grade_code}): ${c.total.toFixed(2)} m³ would be ${Math.round(c.ratio * 100)} % of the ${Number(c.line.volume_m3).toFixed(2)} m³ ordered, more than the +10 % the terms allow.`;
+        overFields[`lines.${c.line.id}`] =
+          `Line ${no} (${c.line.grade_code}): ${c.total.toFixed(2)} m³ would be ${Math.round(c.ratio * 100)} % of the ${Number(c.line.volume_m3).toFixed(2)} m³ ordered, more than the +10 % the terms allow.`;
       }
-      throw new HttpError(409, "More than the order allows (+10 %). Take it only if you mean to: tick “accept over the terms” and give a reason.", overFields);
+      throw new HttpError(
+        409,
+        "More than the order allows (+10 %). Take it only if you mean to: tick “accept over the terms” and give a reason.",
+        overFields,
+      );
     }
 
     const delivery: DeliveryInput = {
@@ -337,34 +477,71 @@ export async function receiveAgainstOrder(id: number, input: ReceivePoInput, act
     await trx("purchase_order_receipts").insert(
       checks
         .filter((c) => c.got)
-        .map((c) => ({ purchase_order_id: id, line_id: c.line.id, delivery_id: received.deliveryId, blocks: c.got!.blocks, volume_m3: c.got!.m3, over_tolerance: c.over, over_reason: c.over ? input.overReason : null, received_by: actorId })),
+        .map((c) => ({
+          purchase_order_id: id,
+          line_id: c.line.id,
+          delivery_id: received.deliveryId,
+          blocks: c.got!.blocks,
+          volume_m3: c.got!.m3,
+          over_tolerance: c.over,
+          over_reason: c.over ? input.overReason : null,
+          received_by: actorId,
+        })),
     );
     const status: PoStatus = checks.every((c) => c.filled) ? "closed" : "part_received";
-    await trx("purchase_orders").where({ id }).update({ status, ...(status === "closed" ? { closed_at: trx.fn.now() } : {}) });
+    await trx("purchase_orders")
+      .where({ id })
+      .update({ status, ...(status === "closed" ? { closed_at: trx.fn.now() } : {}) });
     await trx("audit_log").insert({
       actor_id: actorId,
       action: "po.receive",
       subject: `po:${id}`,
-      detail: { deliveryId: received.deliveryId, status, over: overs.map((c) => c.line.id), overReason: input.overReason ?? null },
+      detail: {
+        deliveryId: received.deliveryId,
+        status,
+        over: overs.map((c) => c.line.id),
+        overReason: input.overReason ?? null,
+      },
     });
     return {
       deliveryId: received.deliveryId,
       codes: received.codes,
       warnings: received.warnings,
       status,
-      lines: checks.map((c) => ({ lineId: c.line.id, ordered: Number(c.line.volume_m3), received: c.total, percent: Math.round(c.ratio * 1000) / 10, filled: c.filled, over: c.over })),
+      lines: checks.map((c) => ({
+        lineId: c.line.id,
+        ordered: Number(c.line.volume_m3),
+        received: c.total,
+        percent: Math.round(c.ratio * 1000) / 10,
+        filled: c.filled,
+        over: c.over,
+      })),
     };
   });
 }
 
 /** Deliveries received against an order. */
-export async function listOrderDeliveries(id: number): Promise<{ id: number; receivedOn: string; lot: string; blocks: number; volumeM3: number }[]> {
+export async function listOrderDeliveries(
+  id: number,
+): Promise<{ id: number; receivedOn: string; lot: string; blocks: number; volumeM3: number }[]> {
   const k = db();
   const rows = (await k("deliveries as d")
     .leftJoin("blocks as b", "b.delivery_id", "d.id")
     .where("d.purchase_order_id", id)
     .groupBy("d.id")
     .orderBy("d.id")
-    .select("d.id", "d.received_on", "d.lot", k.raw("count(b.id) AS n"), k.raw("coalesce(sum(b.volume_m3), 0) AS v"))) as { id: number; received_on: Date | string; lot: string; n: string; v: string }[];
-  return rows.map((r) => ({ id: r.id, receivedOn: day(r.received_on)!, lot: r.lot, blocks: Number(r.n), volumeM3: Number(r.v) }));
+    .select(
+      "d.id",
+      "d.received_on",
+      "d.lot",
+      k.raw("count(b.id) AS n"),
+      k.raw("coalesce(sum(b.volume_m3), 0) AS v"),
+    )) as { id: number; received_on: Date | string; lot: string; n: string; v: string }[];
+  return rows.map((r) => ({
+    id: r.id,
+    receivedOn: day(r.received_on)!,
+    lot: r.lot,
+    blocks: Number(r.n),
+    volumeM3: Number(r.v),
+  }));
 }

@@ -7,18 +7,36 @@ import { addDays, isoDate } from "@/lib/stock";
 import { m3ToBoardFeet } from "@/lib/units";
 import type { GradeReorderInput, ReorderSettings } from "@/lib/validations/purchasing";
 
-export const DEFAULT_REORDER_SETTINGS: ReorderSettings = { serviceLevel: 0.95, historyDays: 90, orderCost: 75, holdingCost: 18 };
+export const DEFAULT_REORDER_SETTINGS: ReorderSettings = {
+  serviceLevel: 0.95,
+  historyDays: 90,
+  orderCost: 75,
+  holdingCost: 18,
+};
 
 export async function getReorderSettings(k: Knex | Knex.Transaction = db()): Promise<ReorderSettings> {
   const r = await k("reorder_settings").where({ id: 1 }).first();
   if (!r) return DEFAULT_REORDER_SETTINGS;
-  return { serviceLevel: Number(r.service_level), historyDays: r.history_days, orderCost: Number(r.order_cost), holdingCost: Number(r.holding_cost_m3_year) };
+  return {
+    serviceLevel: Number(r.service_level),
+    historyDays: r.history_days,
+    orderCost: Number(r.order_cost),
+    holdingCost: Number(r.holding_cost_m3_year),
+  };
 }
 
 export async function saveReorderSettings(s: ReorderSettings, actorId: string): Promise<ReorderSettings> {
   await db().transaction(async (trx) => {
     await trx("reorder_settings")
-      .insert({ id: 1, service_level: s.serviceLevel, history_days: s.historyDays, order_cost: s.orderCost, holding_cost_m3_year: s.holdingCost, updated_by: actorId, updated_at: trx.fn.now() })
+      .insert({
+        id: 1,
+        service_level: s.serviceLevel,
+        history_days: s.historyDays,
+        order_cost: s.orderCost,
+        holding_cost_m3_year: s.holdingCost,
+        updated_by: actorId,
+        updated_at: trx.fn.now(),
+      })
       .onConflict("id")
       .merge();
     await trx("audit_log").insert({ actor_id: actorId, action: "reorder.settings", subject: "shop", detail: s });
@@ -28,7 +46,8 @@ export async function saveReorderSettings(s: ReorderSettings, actorId: string): 
 
 export async function saveGradeReorder(gradeId: number, o: GradeReorderInput, actorId: string): Promise<void> {
   await db().transaction(async (trx) => {
-    if (!(await trx("grades").where({ id: gradeId }).first("id"))) throw new HttpError(404, "That grade was not found.");
+    if (!(await trx("grades").where({ id: gradeId }).first("id")))
+      throw new HttpError(404, "That grade was not found.");
     if (o.supplierId && !(await trx("suppliers").where({ id: o.supplierId }).first("id"))) {
       throw new HttpError(400, "Some fields need attention.", { supplierId: "That supplier does not exist." });
     }
@@ -48,7 +67,12 @@ export async function saveGradeReorder(gradeId: number, o: GradeReorderInput, ac
       updated_at: trx.fn.now(),
     };
     await trx("grade_reorder").insert(row).onConflict("grade_id").merge();
-    await trx("audit_log").insert({ actor_id: actorId, action: "reorder.grade", subject: `grade:${gradeId}`, detail: o });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "reorder.grade",
+      subject: `grade:${gradeId}`,
+      detail: o,
+    });
   });
 }
 
@@ -105,21 +129,42 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
 
   const gradesQ = k("grades").where({ active: true }).orderBy(["material", "code"]);
   if (opts.gradeIds) gradesQ.whereIn("id", opts.gradeIds);
-  const grades = (await gradesQ) as { id: number; code: string; grade_system: string; grade: string; colour: string; price_unit: "m3" | "bf"; never_hot_wire: boolean }[];
+  const grades = (await gradesQ) as {
+    id: number;
+    code: string;
+    grade_system: string;
+    grade: string;
+    colour: string;
+    price_unit: "m3" | "bf";
+    never_hot_wire: boolean;
+  }[];
   if (!grades.length) return [];
   const ids = grades.map((g) => g.id);
 
   const [overrides, onHand, onOrder, inDraft, usage, committed, usual, lastBlocks, suppliers] = await Promise.all([
     k("grade_reorder").whereIn("grade_id", ids),
-    k("blocks").whereIn("grade_id", ids).whereIn("status", ["in_stock", "earmarked"]).groupBy("grade_id").select("grade_id", k.raw("sum(volume_m3) AS m3")),
+    k("blocks")
+      .whereIn("grade_id", ids)
+      .whereIn("status", ["in_stock", "earmarked"])
+      .groupBy("grade_id")
+      .select("grade_id", k.raw("sum(volume_m3) AS m3")),
     k("purchase_order_lines as l")
       .join("purchase_orders as p", "p.id", "l.purchase_order_id")
-      .leftJoin(k("purchase_order_receipts").groupBy("line_id").select("line_id", k.raw("sum(volume_m3) AS got")).as("r"), "r.line_id", "l.id")
+      .leftJoin(
+        k("purchase_order_receipts").groupBy("line_id").select("line_id", k.raw("sum(volume_m3) AS got")).as("r"),
+        "r.line_id",
+        "l.id",
+      )
       .whereIn("p.status", ["sent", "part_received"])
       .whereIn("l.grade_id", ids)
       .groupBy("l.grade_id")
       .select("l.grade_id", k.raw("sum(greatest(l.volume_m3 - coalesce(r.got, 0), 0)) AS m3")),
-    k("purchase_order_lines as l").join("purchase_orders as p", "p.id", "l.purchase_order_id").where("p.status", "draft").whereIn("l.grade_id", ids).groupBy("l.grade_id").select("l.grade_id", k.raw("sum(l.volume_m3) AS m3")),
+    k("purchase_order_lines as l")
+      .join("purchase_orders as p", "p.id", "l.purchase_order_id")
+      .where("p.status", "draft")
+      .whereIn("l.grade_id", ids)
+      .groupBy("l.grade_id")
+      .select("l.grade_id", k.raw("sum(l.volume_m3) AS m3")),
     k("stock_ledger as s")
       .join("blocks as b", "b.id", "s.block_id")
       .whereIn("b.grade_id", ids)
@@ -127,20 +172,32 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
       .where("s.at", ">=", since)
       .where("s.at", "<", k.raw("?::date + 1", [today]))
       .groupBy("b.grade_id", k.raw("s.at::date"))
-      .select("b.grade_id", k.raw("s.at::date::text AS day"), k.raw("sum(CASE WHEN s.kind = 'consumed' THEN s.volume_m3 ELSE -s.volume_m3 END) AS m3")),
+      .select(
+        "b.grade_id",
+        k.raw("s.at::date::text AS day"),
+        k.raw("sum(CASE WHEN s.kind = 'consumed' THEN s.volume_m3 ELSE -s.volume_m3 END) AS m3"),
+      ),
     openJobDemand(k, ids),
     k
       .select(k.raw("DISTINCT ON (b.grade_id) b.grade_id, d.supplier_id"))
       .from("blocks as b")
       .join("deliveries as d", "d.id", "b.delivery_id")
       .whereIn("b.grade_id", ids)
-      .orderBy([{ column: "b.grade_id" }, { column: "d.received_on", order: "desc" }, { column: "d.id", order: "desc" }]),
+      .orderBy([
+        { column: "b.grade_id" },
+        { column: "d.received_on", order: "desc" },
+        { column: "d.id", order: "desc" },
+      ]),
     k
       .select(k.raw("DISTINCT ON (b.grade_id) b.grade_id, b.nominal_x, b.nominal_y, b.nominal_z, b.cost, b.volume_m3"))
       .from("blocks as b")
       .whereIn("b.grade_id", ids)
       .whereNull("b.parent_id")
-      .orderBy([{ column: "b.grade_id" }, { column: "b.created_at", order: "desc" }, { column: "b.id", order: "desc" }]),
+      .orderBy([
+        { column: "b.grade_id" },
+        { column: "b.created_at", order: "desc" },
+        { column: "b.id", order: "desc" },
+      ]),
     k("suppliers").select("id", "name", "email", "lead_time_days"),
   ]);
 
@@ -150,24 +207,42 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
   const order = by(onOrder as { grade_id: number; m3: string }[]);
   const draft = by(inDraft as { grade_id: number; m3: string }[]);
   const usualSupplier = by(usual as { grade_id: number; supplier_id: number }[]);
-  const last = by(lastBlocks as { grade_id: number; nominal_x: string; nominal_y: string; nominal_z: string; cost: string; volume_m3: string }[]);
-  const supplierById = new Map((suppliers as { id: number; name: string; email: string | null; lead_time_days: number }[]).map((s) => [s.id, s]));
+  const last = by(
+    lastBlocks as {
+      grade_id: number;
+      nominal_x: string;
+      nominal_y: string;
+      nominal_z: string;
+      cost: string;
+      volume_m3: string;
+    }[],
+  );
+  const supplierById = new Map(
+    (suppliers as { id: number; name: string; email: string | null; lead_time_days: number }[]).map((s) => [s.id, s]),
+  );
   const days: string[] = [];
   for (let d = since; d <= today; d = addDays(d, 1)) days.push(d);
 
   return grades.map((g) => {
     const o: Record<string, unknown> = ov.get(g.id) ?? {};
     const series = new Map<string, number>();
-    for (const u of usage as { grade_id: number; day: string; m3: string }[]) if (u.grade_id === g.id) series.set(u.day, Number(u.m3));
+    for (const u of usage as { grade_id: number; day: string; m3: string }[])
+      if (u.grade_id === g.id) series.set(u.day, Number(u.m3));
     const stats = dailyStats(days.map((d) => Math.max(0, series.get(d) ?? 0)));
     const overSupplier = n(o.supplier_id);
     const supplierId = overSupplier ?? usualSupplier.get(g.id)?.supplier_id ?? null;
-    const supplier = supplierId ? supplierById.get(supplierId) ?? null : null;
-    const pick = (override: unknown, computed: number, source: Source): ReorderInput<number> => (n(override) !== null ? { value: n(override)!, source: "override" } : { value: computed, source });
+    const supplier = supplierId ? (supplierById.get(supplierId) ?? null) : null;
+    const pick = (override: unknown, computed: number, source: Source): ReorderInput<number> =>
+      n(override) !== null ? { value: n(override)!, source: "override" } : { value: computed, source };
     const lb = last.get(g.id);
-    const blockSize = lb ? ([Number(lb.nominal_x), Number(lb.nominal_y), Number(lb.nominal_z)] as [number, number, number]) : null;
+    const blockSize = lb
+      ? ([Number(lb.nominal_x), Number(lb.nominal_y), Number(lb.nominal_z)] as [number, number, number])
+      : null;
     const blockVolume = blockSize ? (blockSize[0] * blockSize[1] * blockSize[2]) / 1e9 : 0;
-    const lastPrice = lb && Number(lb.volume_m3) > 0 ? Number(lb.cost) / (g.price_unit === "bf" ? m3ToBoardFeet(Number(lb.volume_m3)) : Number(lb.volume_m3)) : null;
+    const lastPrice =
+      lb && Number(lb.volume_m3) > 0
+        ? Number(lb.cost) / (g.price_unit === "bf" ? m3ToBoardFeet(Number(lb.volume_m3)) : Number(lb.volume_m3))
+        : null;
     const row = {
       dailyDemand: pick(o.daily_demand_m3, stats.mean, "ledger"),
       demandSd: pick(o.demand_sd_m3, stats.sd, "ledger"),
@@ -222,13 +297,19 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
 async function openJobDemand(k: Knex, gradeIds: number[]): Promise<Map<number, number>> {
   const rows = (await k("job_parts as p")
     .join("jobs as j", "j.id", "p.job_id")
-    .leftJoin(k("cut_parts").groupBy("job_part_id").select("job_part_id", k.raw("sum(good_count) AS good")).as("c"), "c.job_part_id", "p.id")
+    .leftJoin(
+      k("cut_parts").groupBy("job_part_id").select("job_part_id", k.raw("sum(good_count) AS good")).as("c"),
+      "c.job_part_id",
+      "p.id",
+    )
     .whereNotIn("j.status", ["done", "cancelled"])
     .whereIn("p.grade_id", gradeIds)
     .groupBy("p.grade_id")
     .select(
       "p.grade_id",
-      k.raw("sum(greatest(p.quantity - coalesce(c.good, 0), 0) * coalesce(p.true_volume_mm3, p.size_x * p.size_y * p.size_z) / 1e9) AS m3"),
+      k.raw(
+        "sum(greatest(p.quantity - coalesce(c.good, 0), 0) * coalesce(p.true_volume_mm3, p.size_x * p.size_y * p.size_z) / 1e9) AS m3",
+      ),
     )) as { grade_id: number; m3: string }[];
   return new Map(rows.map((r) => [r.grade_id, Number(r.m3)]));
 }

@@ -19,7 +19,8 @@ export function defaultPeriod(today = isoDate()): Period {
   return { from: addDays(today, -90), to: today };
 }
 
-const inPeriod = (k: Knex, column: string, p: Period) => k.raw(`${column} >= ?::date AND ${column} < ?::date + 1`, [p.from, p.to]);
+const inPeriod = (k: Knex, column: string, p: Period) =>
+  k.raw(`${column} >= ?::date AND ${column} < ?::date + 1`, [p.from, p.to]);
 const r4 = (v: number) => Math.round(v * 10000) / 10000;
 const pct = (v: number | null) => (v === null ? null : Math.round(v * 1000) / 10);
 
@@ -34,8 +35,23 @@ export interface YieldRow {
   basis: VolumeBasis | null;
 }
 
-function yieldRow(key: string, label: string, part: number, issued: number, offcut: number, bases: (string | null)[]): YieldRow {
-  return { key, label, partM3: r4(part), issuedM3: r4(issued), offcutM3: r4(offcut), yieldPct: pct(materialYield(part, issued, offcut)), basis: combineBasis(bases) };
+function yieldRow(
+  key: string,
+  label: string,
+  part: number,
+  issued: number,
+  offcut: number,
+  bases: (string | null)[],
+): YieldRow {
+  return {
+    key,
+    label,
+    partM3: r4(part),
+    issuedM3: r4(issued),
+    offcutM3: r4(offcut),
+    yieldPct: pct(materialYield(part, issued, offcut)),
+    basis: combineBasis(bases),
+  };
 }
 
 export interface YieldReport {
@@ -60,12 +76,33 @@ export async function yieldReport(p: Period): Promise<YieldReport> {
     .where("pb.status", "cut")
     .whereRaw(inPeriod(k, "pb.cut_at", p))
     .select(
-      "pb.id", "pb.run_id", "pb.block_id", "g.code as grade_code", "g.id as grade_id", "pb.volume_basis",
+      "pb.id",
+      "pb.run_id",
+      "pb.block_id",
+      "g.code as grade_code",
+      "g.id as grade_id",
+      "pb.volume_basis",
       k.raw("to_char(date_trunc('week', pb.cut_at), 'YYYY-MM-DD') AS week"),
-      k.raw("coalesce(pb.part_volume_m3, 0) AS part"), k.raw("coalesce(pb.block_volume_m3, b.volume_m3) AS issued"), k.raw("coalesce(pb.offcut_volume_m3, 0) AS offcut"),
-    )) as { id: number; run_id: number; block_id: number; grade_code: string; grade_id: number; volume_basis: string | null; week: string; part: string; issued: string; offcut: string }[];
+      k.raw("coalesce(pb.part_volume_m3, 0) AS part"),
+      k.raw("coalesce(pb.block_volume_m3, b.volume_m3) AS issued"),
+      k.raw("coalesce(pb.offcut_volume_m3, 0) AS offcut"),
+    )) as {
+    id: number;
+    run_id: number;
+    block_id: number;
+    grade_code: string;
+    grade_id: number;
+    volume_basis: string | null;
+    week: string;
+    part: string;
+    issued: string;
+    offcut: string;
+  }[];
 
-  const group = <K extends string>(keyOf: (b: (typeof blocks)[number]) => K, labelOf: (b: (typeof blocks)[number]) => string) => {
+  const group = <K extends string>(
+    keyOf: (b: (typeof blocks)[number]) => K,
+    labelOf: (b: (typeof blocks)[number]) => string,
+  ) => {
     const m = new Map<K, { label: string; part: number; issued: number; offcut: number; bases: (string | null)[] }>();
     for (const b of blocks) {
       const key = keyOf(b);
@@ -78,9 +115,23 @@ export async function yieldReport(p: Period): Promise<YieldReport> {
     }
     return [...m.entries()].map(([key, v]) => yieldRow(key, v.label, v.part, v.issued, v.offcut, v.bases));
   };
-  const weekly = group((b) => b.week, (b) => `Week of ${b.week}`).sort((a, b) => a.key.localeCompare(b.key));
-  const byGrade = group((b) => b.grade_code, (b) => b.grade_code).sort((a, b) => a.key.localeCompare(b.key));
-  const total = yieldRow("total", "All blocks cut", ...blocks.reduce<[number, number, number]>((s, b) => [s[0] + Number(b.part), s[1] + Number(b.issued), s[2] + Number(b.offcut)], [0, 0, 0]), blocks.map((b) => b.volume_basis));
+  const weekly = group(
+    (b) => b.week,
+    (b) => `Week of ${b.week}`,
+  ).sort((a, b) => a.key.localeCompare(b.key));
+  const byGrade = group(
+    (b) => b.grade_code,
+    (b) => b.grade_code,
+  ).sort((a, b) => a.key.localeCompare(b.key));
+  const total = yieldRow(
+    "total",
+    "All blocks cut",
+    ...blocks.reduce<[number, number, number]>(
+      (s, b) => [s[0] + Number(b.part), s[1] + Number(b.issued), s[2] + Number(b.offcut)],
+      [0, 0, 0],
+    ),
+    blocks.map((b) => b.volume_basis),
+  );
 
   // By job: each job's good parts, and its share of each block's net stock.
   const parts = blocks.length
@@ -90,8 +141,25 @@ export async function yieldReport(p: Period): Promise<YieldReport> {
         .join("plan_blocks as pb", function () {
           this.on("pb.run_id", "c.run_id").andOn("pb.block_id", "c.block_id");
         })
-        .whereIn("pb.id", blocks.map((b) => b.id))
-        .select("j.id as job_id", "j.name as job_name", "j.customer", "pb.id as pb_id", "c.part_volume_m3", "c.volume_basis")) as { job_id: number; job_name: string; customer: string | null; pb_id: number; part_volume_m3: string; volume_basis: string }[])
+        .whereIn(
+          "pb.id",
+          blocks.map((b) => b.id),
+        )
+        .select(
+          "j.id as job_id",
+          "j.name as job_name",
+          "j.customer",
+          "pb.id as pb_id",
+          "c.part_volume_m3",
+          "c.volume_basis",
+        )) as {
+        job_id: number;
+        job_name: string;
+        customer: string | null;
+        pb_id: number;
+        part_volume_m3: string;
+        volume_basis: string;
+      }[])
     : [];
   const partByBlock = new Map<number, number>();
   for (const c of parts) partByBlock.set(c.pb_id, (partByBlock.get(c.pb_id) ?? 0) + Number(c.part_volume_m3));
@@ -114,7 +182,13 @@ export async function yieldReport(p: Period): Promise<YieldReport> {
 
 export const LOSS_KINDS = ["trim", "kerf", "defect", "unusable", "reject"] as const;
 export type LossKind = (typeof LOSS_KINDS)[number];
-export const LOSS_LABELS: Record<LossKind, string> = { trim: "Face trim", kerf: "Kerf", defect: "Defect cut-outs", unusable: "Unusable offcut", reject: "Rejected parts" };
+export const LOSS_LABELS: Record<LossKind, string> = {
+  trim: "Face trim",
+  kerf: "Kerf",
+  defect: "Defect cut-outs",
+  unusable: "Unusable offcut",
+  reject: "Rejected parts",
+};
 
 export interface LossRow {
   key: string;
@@ -147,11 +221,30 @@ export async function lossReport(p: Period): Promise<{ period: Period; total: Lo
     )) as ({ code: string; issued: string } & Record<LossKind, string>)[];
   const toRow = (key: string, label: string, issued: number, l: Record<LossKind, number>): LossRow => {
     const total = LOSS_KINDS.reduce((s, x) => s + l[x], 0);
-    return { key, label, issuedM3: r4(issued), losses: Object.fromEntries(LOSS_KINDS.map((x) => [x, r4(l[x])])) as Record<LossKind, number>, totalM3: r4(total), lossPct: issued > 0 ? pct(total / issued) : null };
+    return {
+      key,
+      label,
+      issuedM3: r4(issued),
+      losses: Object.fromEntries(LOSS_KINDS.map((x) => [x, r4(l[x])])) as Record<LossKind, number>,
+      totalM3: r4(total),
+      lossPct: issued > 0 ? pct(total / issued) : null,
+    };
   };
-  const byGrade = rows.map((r) => toRow(r.code, r.code, Number(r.issued), Object.fromEntries(LOSS_KINDS.map((x) => [x, Number(r[x])])) as Record<LossKind, number>));
+  const byGrade = rows.map((r) =>
+    toRow(
+      r.code,
+      r.code,
+      Number(r.issued),
+      Object.fromEntries(LOSS_KINDS.map((x) => [x, Number(r[x])])) as Record<LossKind, number>,
+    ),
+  );
   const sum = (f: (r: LossRow) => number) => byGrade.reduce((s, r) => s + f(r), 0);
-  const total = toRow("total", "All grades", sum((r) => r.issuedM3), Object.fromEntries(LOSS_KINDS.map((x) => [x, sum((r) => r.losses[x])])) as Record<LossKind, number>);
+  const total = toRow(
+    "total",
+    "All grades",
+    sum((r) => r.issuedM3),
+    Object.fromEntries(LOSS_KINDS.map((x) => [x, sum((r) => r.losses[x])])) as Record<LossKind, number>,
+  );
   return { period: p, total, byGrade };
 }
 
@@ -177,18 +270,35 @@ export async function offcutReport(p: Period, today = isoDate()): Promise<Offcut
   const stock = (await k("blocks")
     .whereNotNull("parent_id")
     .whereIn("status", ["in_stock", "earmarked"])
-    .select(k.raw("(?::date - created_at::date) AS age", [today]), "volume_m3", "cost")) as { age: number; volume_m3: string; cost: string }[];
+    .select(k.raw("(?::date - created_at::date) AS age", [today]), "volume_m3", "cost")) as {
+    age: number;
+    volume_m3: string;
+    cost: string;
+  }[];
   const byAge = AGE_BUCKETS.map((b, i) => {
     const lo = i === 0 ? -Infinity : AGE_BUCKETS[i - 1]!.max;
     const xs = stock.filter((s) => Number(s.age) > lo && Number(s.age) <= b.max);
-    return { key: b.key, label: b.label, count: xs.length, m3: r4(xs.reduce((s, x) => s + Number(x.volume_m3), 0)), value: Math.round(xs.reduce((s, x) => s + Number(x.cost), 0) * 100) / 100 };
+    return {
+      key: b.key,
+      label: b.label,
+      count: xs.length,
+      m3: r4(xs.reduce((s, x) => s + Number(x.volume_m3), 0)),
+      value: Math.round(xs.reduce((s, x) => s + Number(x.cost), 0) * 100) / 100,
+    };
   });
   const made = (await k("blocks")
     .whereNotNull("parent_id")
     .whereRaw(inPeriod(k, "created_at", p))
     .groupBy("status")
-    .select("status", k.raw("count(*) AS n"), k.raw("sum(volume_m3) AS m3"))) as { status: string; n: string; m3: string }[];
-  const get = (...s: string[]) => made.filter((m) => s.includes(m.status)).reduce((a, m) => ({ count: a.count + Number(m.n), m3: a.m3 + Number(m.m3) }), { count: 0, m3: 0 });
+    .select("status", k.raw("count(*) AS n"), k.raw("sum(volume_m3) AS m3"))) as {
+    status: string;
+    n: string;
+    m3: string;
+  }[];
+  const get = (...s: string[]) =>
+    made
+      .filter((m) => s.includes(m.status))
+      .reduce((a, m) => ({ count: a.count + Number(m.n), m3: a.m3 + Number(m.m3) }), { count: 0, m3: 0 });
   const fate = [
     { key: "used" as const, label: "Used (cut up)", ...get("cut") },
     { key: "in_stock" as const, label: "Still in stock", ...get("in_stock", "earmarked") },
@@ -214,7 +324,14 @@ export interface SupplierQualityRow {
  * Incoming quality of the blocks delivered in the period (offcuts excluded; defects found on
  * their parent count once): defect zones per m³, and measured density below the grade minimum.
  */
-export async function supplierQualityReport(p: Period): Promise<{ period: Period; bySupplier: SupplierQualityRow[]; byLot: SupplierQualityRow[]; lowDensity: { code: string; supplier: string; lot: string; grade: string; density: number; minDensity: number }[] }> {
+export async function supplierQualityReport(
+  p: Period,
+): Promise<{
+  period: Period;
+  bySupplier: SupplierQualityRow[];
+  byLot: SupplierQualityRow[];
+  lowDensity: { code: string; supplier: string; lot: string; grade: string; density: number; minDensity: number }[];
+}> {
   const k = db();
   const base = () =>
     k("blocks as b")
@@ -228,9 +345,20 @@ export async function supplierQualityReport(p: Period): Promise<{ period: Period
     k.raw("sum(b.volume_m3) AS m3"),
     k.raw("sum((SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id AND z.inherited_from IS NULL)) AS defects"),
     k.raw("count(b.weight_kg) AS weighed"),
-    k.raw("count(*) FILTER (WHERE b.weight_kg IS NOT NULL AND g.min_density_kg_m3 IS NOT NULL AND b.weight_kg / b.volume_m3 < g.min_density_kg_m3) AS low"),
+    k.raw(
+      "count(*) FILTER (WHERE b.weight_kg IS NOT NULL AND g.min_density_kg_m3 IS NOT NULL AND b.weight_kg / b.volume_m3 < g.min_density_kg_m3) AS low",
+    ),
   ];
-  type Raw = { supplier_id: number; name: string; lot?: string; blocks: string; m3: string; defects: string; weighed: string; low: string };
+  type Raw = {
+    supplier_id: number;
+    name: string;
+    lot?: string;
+    blocks: string;
+    m3: string;
+    defects: string;
+    weighed: string;
+    low: string;
+  };
   const toRow = (r: Raw): SupplierQualityRow => ({
     supplierId: r.supplier_id,
     supplier: r.name,
@@ -243,20 +371,42 @@ export async function supplierQualityReport(p: Period): Promise<{ period: Period
     belowMinDensity: Number(r.low),
   });
   const [bySupplier, byLot, low] = await Promise.all([
-    base().groupBy("s.id", "s.name").orderBy("s.name").select("s.id as supplier_id", "s.name", ...cols),
-    base().groupBy("s.id", "s.name", "b.lot").orderBy(["s.name", "b.lot"]).select("s.id as supplier_id", "s.name", "b.lot", ...cols),
+    base()
+      .groupBy("s.id", "s.name")
+      .orderBy("s.name")
+      .select("s.id as supplier_id", "s.name", ...cols),
+    base()
+      .groupBy("s.id", "s.name", "b.lot")
+      .orderBy(["s.name", "b.lot"])
+      .select("s.id as supplier_id", "s.name", "b.lot", ...cols),
     base()
       .whereNotNull("b.weight_kg")
       .whereNotNull("g.min_density_kg_m3")
       .whereRaw("b.weight_kg / b.volume_m3 < g.min_density_kg_m3")
       .orderBy("b.code")
-      .select("b.code", "s.name", "b.lot", "g.code as grade", k.raw("b.weight_kg / b.volume_m3 AS density"), "g.min_density_kg_m3"),
+      .select(
+        "b.code",
+        "s.name",
+        "b.lot",
+        "g.code as grade",
+        k.raw("b.weight_kg / b.volume_m3 AS density"),
+        "g.min_density_kg_m3",
+      ),
   ]);
   return {
     period: p,
     bySupplier: (bySupplier as Raw[]).map(toRow),
     byLot: (byLot as Raw[]).map(toRow),
-    lowDensity: (low as { code: string; name: string; lot: string; grade: string; density: string; min_density_kg_m3: string }[]).map((r) => ({ code: r.code, supplier: r.name, lot: r.lot, grade: r.grade, density: Math.round(Number(r.density) * 10) / 10, minDensity: Number(r.min_density_kg_m3) })),
+    lowDensity: (
+      low as { code: string; name: string; lot: string; grade: string; density: string; min_density_kg_m3: string }[]
+    ).map((r) => ({
+      code: r.code,
+      supplier: r.name,
+      lot: r.lot,
+      grade: r.grade,
+      density: Math.round(Number(r.density) * 10) / 10,
+      minDensity: Number(r.min_density_kg_m3),
+    })),
   };
 }
 
@@ -274,18 +424,48 @@ export interface StockValueRow {
  * reconciles with it by construction): each block's movements up to `to`, summed, kept where the
  * block still holds volume. Location is where the block is now.
  */
-export async function stockValueReport(p: Period): Promise<{ period: Period; rows: StockValueRow[]; byGrade: StockValueRow[]; byLocation: StockValueRow[]; total: StockValueRow }> {
+export async function stockValueReport(
+  p: Period,
+): Promise<{
+  period: Period;
+  rows: StockValueRow[];
+  byGrade: StockValueRow[];
+  byLocation: StockValueRow[];
+  total: StockValueRow;
+}> {
   const k = db();
-  const perBlock = k("stock_ledger").where("at", "<", k.raw("?::date + 1", [p.to])).groupBy("block_id").select("block_id", k.raw("sum(delta_m3) AS m3"), k.raw("sum(delta_value) AS value"));
+  const perBlock = k("stock_ledger")
+    .where("at", "<", k.raw("?::date + 1", [p.to]))
+    .groupBy("block_id")
+    .select("block_id", k.raw("sum(delta_m3) AS m3"), k.raw("sum(delta_value) AS value"));
   const rows = (await k
     .from(perBlock.as("l"))
     .join("blocks as b", "b.id", "l.block_id")
     .join("grades as g", "g.id", "b.grade_id")
     .groupBy("g.code", "b.location")
     .orderBy(["g.code", "b.location"])
-    .select("g.code as grade", "b.location", k.raw("count(*) FILTER (WHERE l.m3 > 0.0000001) AS blocks"), k.raw("sum(l.m3) AS m3"), k.raw("sum(l.value) AS value"))
-    .havingRaw("abs(sum(l.m3)) > 0.0000001 OR abs(sum(l.value)) > 0.001")) as { grade: string; location: string; blocks: string; m3: string; value: string }[];
-  const toRow = (grade: string, location: string, blocks: number, m3: number, value: number): StockValueRow => ({ grade, location, blocks, m3: r4(m3), boardFeet: Math.round(m3ToBoardFeet(m3)), value: Math.round(value * 100) / 100 });
+    .select(
+      "g.code as grade",
+      "b.location",
+      k.raw("count(*) FILTER (WHERE l.m3 > 0.0000001) AS blocks"),
+      k.raw("sum(l.m3) AS m3"),
+      k.raw("sum(l.value) AS value"),
+    )
+    .havingRaw("abs(sum(l.m3)) > 0.0000001 OR abs(sum(l.value)) > 0.001")) as {
+    grade: string;
+    location: string;
+    blocks: string;
+    m3: string;
+    value: string;
+  }[];
+  const toRow = (grade: string, location: string, blocks: number, m3: number, value: number): StockValueRow => ({
+    grade,
+    location,
+    blocks,
+    m3: r4(m3),
+    boardFeet: Math.round(m3ToBoardFeet(m3)),
+    value: Math.round(value * 100) / 100,
+  });
   const out = rows.map((r) => toRow(r.grade, r.location, Number(r.blocks), Number(r.m3), Number(r.value)));
   const roll = (keyOf: (r: StockValueRow) => [string, string]) => {
     const m = new Map<string, { g: string; l: string; blocks: number; m3: number; value: number }>();
@@ -309,6 +489,9 @@ export async function stockValueReport(p: Period): Promise<{ period: Period; row
 export async function yieldThisMonthVsLast(today = isoDate()): Promise<{ thisMonth: YieldRow; lastMonth: YieldRow }> {
   const first = `${today.slice(0, 7)}-01`;
   const lastFirst = addDays(first, -1).slice(0, 7) + "-01";
-  const [a, b] = await Promise.all([yieldReport({ from: first, to: today }), yieldReport({ from: lastFirst, to: addDays(first, -1) })]);
+  const [a, b] = await Promise.all([
+    yieldReport({ from: first, to: today }),
+    yieldReport({ from: lastFirst, to: addDays(first, -1) }),
+  ]);
   return { thisMonth: a.total, lastMonth: b.total };
 }

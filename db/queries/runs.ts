@@ -93,7 +93,11 @@ function planCutLength(problem: Problem, plan: Plan | null): number | null {
   return problem.blocks.reduce((sum, b) => {
     const cuts = plan.cuts[b.id];
     if (!cuts?.length) return sum;
-    return sum + cutEstimate(b.size, cuts, 1, 10, { trim: b.trim, kerf: problem.settings.kerf, pieces: piecesOf(plan, b.id) }).lengthMm;
+    return (
+      sum +
+      cutEstimate(b.size, cuts, 1, 10, { trim: b.trim, kerf: problem.settings.kerf, pieces: piecesOf(plan, b.id) })
+        .lengthMm
+    );
   }, 0);
 }
 
@@ -109,7 +113,12 @@ function stuckBlocks(problem: Problem, plan: Plan): string[] {
 }
 
 function planFigures(problem: Problem, plan: Plan): PlanFigures {
-  return { stats: plan.stats, cost: planCost(problem, plan), cutLengthMm: planCutLength(problem, plan), stuckBlocks: stuckBlocks(problem, plan) };
+  return {
+    stats: plan.stats,
+    cost: planCost(problem, plan),
+    cutLengthMm: planCutLength(problem, plan),
+    stuckBlocks: stuckBlocks(problem, plan),
+  };
 }
 
 function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
@@ -138,7 +147,10 @@ function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
 }
 
 /** Parts of jobs with how many are still owed (ordered minus good parts already cut). */
-async function owedParts(trx: Knex | Knex.Transaction, jobIds: number[]): Promise<(PartForPlan & { trueVolumeMm3: number | null; jobId: number })[]> {
+async function owedParts(
+  trx: Knex | Knex.Transaction,
+  jobIds: number[],
+): Promise<(PartForPlan & { trueVolumeMm3: number | null; jobId: number })[]> {
   const rows = await trx("job_parts as p")
     .leftJoin("grades as g", "g.id", "p.grade_id")
     .whereIn("p.job_id", jobIds)
@@ -172,7 +184,11 @@ async function owedParts(trx: Knex | Knex.Transaction, jobIds: number[]): Promis
  * Parts that approved plans already hold: placed in blocks they have reserved and not yet cut,
  * per job part (and which plans), optionally leaving one plan out.
  */
-async function heldByApprovedPlans(trx: Knex | Knex.Transaction, partIds: number[], exceptRunId?: number): Promise<Map<number, { count: number; runs: number[] }>> {
+async function heldByApprovedPlans(
+  trx: Knex | Knex.Transaction,
+  partIds: number[],
+  exceptRunId?: number,
+): Promise<Map<number, { count: number; runs: number[] }>> {
   const held = new Map<number, { count: number; runs: number[] }>();
   if (!partIds.length) return held;
   const { rows } = await trx.raw(
@@ -197,9 +213,13 @@ async function heldByApprovedPlans(trx: Knex | Knex.Transaction, partIds: number
 }
 
 /** "plan #3" or "plans #3, #5", for messages. */
-const plansNamed = (runs: number[]): string => `${runs.length === 1 ? "plan" : "plans"} ${runs.map((r) => `#${r}`).join(", ")}`;
+const plansNamed = (runs: number[]): string =>
+  `${runs.length === 1 ? "plan" : "plans"} ${runs.map((r) => `#${r}`).join(", ")}`;
 
-async function stockForPlan(trx: Knex | Knex.Transaction, blockIds: number[]): Promise<(StockForPlan & { status: string; cutNotBefore: string; neverHotWire: boolean })[]> {
+async function stockForPlan(
+  trx: Knex | Knex.Transaction,
+  blockIds: number[],
+): Promise<(StockForPlan & { status: string; cutNotBefore: string; neverHotWire: boolean })[]> {
   const rows = await trx("blocks as b")
     .join("grades as g", "g.id", "b.grade_id")
     .whereIn("b.id", blockIds)
@@ -251,10 +271,27 @@ export async function candidateStock(jobIds: number[], today = isoDate()): Promi
     .where("b.status", "in_stock")
     .where("b.cut_not_before", "<=", today)
     .where("g.never_hot_wire", false)
-    .select("b.id", "b.code", "b.size_x", "b.size_y", "b.size_z", "b.volume_m3", "b.cost", "b.parent_id", "b.location", "g.code as grade_code", db().raw("coalesce(b.moulded_on, b.created_at::date) AS since"), db().raw("(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id) AS defect_count"))
+    .select(
+      "b.id",
+      "b.code",
+      "b.size_x",
+      "b.size_y",
+      "b.size_z",
+      "b.volume_m3",
+      "b.cost",
+      "b.parent_id",
+      "b.location",
+      "g.code as grade_code",
+      db().raw("coalesce(b.moulded_on, b.created_at::date) AS since"),
+      db().raw("(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id) AS defect_count"),
+    )
     .orderByRaw("coalesce(b.moulded_on, b.created_at::date), b.id")
     .limit(500);
-  if (!anyGrade) q.whereIn("b.grade_id", grades.filter((g): g is number => g !== null));
+  if (!anyGrade)
+    q.whereIn(
+      "b.grade_id",
+      grades.filter((g): g is number => g !== null),
+    );
   const rows = await q;
   return rows.map((r: Record<string, unknown>) => ({
     id: r.id as number,
@@ -272,18 +309,28 @@ export async function candidateStock(jobIds: number[], today = isoDate()): Promi
 
 /** Creates a queued run for the jobs' owed parts (or the given part quantities) in the chosen stock. */
 export async function createRun(
-  input: { jobIds: number[]; blockIds: number[]; settings: RunSettings; quantities?: Map<number, number>; parentRunId?: number },
+  input: {
+    jobIds: number[];
+    blockIds: number[];
+    settings: RunSettings;
+    quantities?: Map<number, number>;
+    parentRunId?: number;
+  },
   actorId: string,
 ): Promise<number> {
   return db().transaction(async (trx) => {
     const jobs = await trx("jobs").whereIn("id", input.jobIds).select("id", "status");
-    if (jobs.length !== new Set(input.jobIds).size) throw new HttpError(400, "Some fields need attention.", { jobIds: "One of those jobs does not exist." });
+    if (jobs.length !== new Set(input.jobIds).size)
+      throw new HttpError(400, "Some fields need attention.", { jobIds: "One of those jobs does not exist." });
     let parts = await owedParts(trx, input.jobIds);
     let heldRuns: number[] = [];
     if (input.quantities) parts = parts.map((p) => ({ ...p, quantity: input.quantities!.get(p.id) ?? 0 }));
     else {
       // Parts an approved plan already holds in reserved blocks are on their way: not planned twice.
-      const held = await heldByApprovedPlans(trx, parts.map((p) => p.id));
+      const held = await heldByApprovedPlans(
+        trx,
+        parts.map((p) => p.id),
+      );
       heldRuns = [...new Set([...held.values()].flatMap((h) => h.runs))];
       parts = parts.map((p) => ({ ...p, quantity: Math.max(0, p.quantity - (held.get(p.id)?.count ?? 0)) }));
     }
@@ -300,14 +347,17 @@ export async function createRun(
     if (stock.length !== new Set(input.blockIds).size) fields.blockIds = "Some of that stock does not exist.";
     const today = isoDate();
     for (const b of stock) {
-      if (b.neverHotWire) fields.blockIds = `${b.code} is a no-hot-wire grade (polyurethane): it cannot go into a hot-wire plan.`;
-      else if (b.status !== "in_stock") fields.blockIds = `${b.code} is not free (${b.status === "earmarked" ? "earmarked for another plan" : "no longer in stock"}).`;
+      if (b.neverHotWire)
+        fields.blockIds = `${b.code} is a no-hot-wire grade (polyurethane): it cannot go into a hot-wire plan.`;
+      else if (b.status !== "in_stock")
+        fields.blockIds = `${b.code} is not free (${b.status === "earmarked" ? "earmarked for another plan" : "no longer in stock"}).`;
       else if (b.cutNotBefore > today) fields.blockIds = `${b.code} is still settling until ${b.cutNotBefore}.`;
     }
     if (Object.keys(fields).length) throw new HttpError(409, fields.blockIds ?? "That stock cannot be used.", fields);
     const problem = buildProblem(parts, stock, input.settings);
     const parsed = parseProblem(problem);
-    if (!parsed.ok) throw new HttpError(400, `The nesting problem is not valid: ${parsed.errors.slice(0, 3).join("; ")}`);
+    if (!parsed.ok)
+      throw new HttpError(400, `The nesting problem is not valid: ${parsed.errors.slice(0, 3).join("; ")}`);
     const [run] = await trx("nesting_runs")
       .insert({
         status: "queued",
@@ -319,7 +369,12 @@ export async function createRun(
         created_by: actorId,
       })
       .returning("id");
-    await trx("audit_log").insert({ actor_id: actorId, action: "run.create", subject: `run:${run.id}`, detail: { jobIds: input.jobIds, blocks: stock.length } });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "run.create",
+      subject: `run:${run.id}`,
+      detail: { jobIds: input.jobIds, blocks: stock.length },
+    });
     return run.id as number;
   });
 }
@@ -329,10 +384,26 @@ const runsWithAuthor = () => db()("nesting_runs as r").leftJoin("users as u", "u
 const runSelect = () => runsWithAuthor().select("r.*", "u.name as created_by_name");
 
 /** Every column but the (large) problem and plan. */
-const LIGHT_COLUMNS = ["id", "status", "job_ids", "block_ids", "settings", "best", "progress", "error", "created_at", "finished_at", "approved_at", "parent_run_id", "summary"].map((c) => `r.${c}`);
+const LIGHT_COLUMNS = [
+  "id",
+  "status",
+  "job_ids",
+  "block_ids",
+  "settings",
+  "best",
+  "progress",
+  "error",
+  "created_at",
+  "finished_at",
+  "approved_at",
+  "parent_run_id",
+  "summary",
+].map((c) => `r.${c}`);
 
 /** Newest first; `beforeId` pages back through older runs (keyset: `id < beforeId`). */
-export async function listRuns(opts: { jobId?: number; statuses?: RunStatus[]; limit?: number; beforeId?: number } = {}): Promise<RunSummary[]> {
+export async function listRuns(
+  opts: { jobId?: number; statuses?: RunStatus[]; limit?: number; beforeId?: number } = {},
+): Promise<RunSummary[]> {
   const q = runsWithAuthor()
     .select(...LIGHT_COLUMNS, "u.name as created_by_name", db().raw("r.plan IS NOT NULL AS has_plan"))
     .orderBy("r.id", "desc")
@@ -349,16 +420,26 @@ export async function listRuns(opts: { jobId?: number; statuses?: RunStatus[]; l
 /** Runs planned before figures were stored with the plan: work them out once and keep them. */
 async function fillMissingFigures(rows: RunRow[]): Promise<void> {
   if (!rows.length) return;
-  const full = (await db()("nesting_runs").whereIn("id", rows.map((r) => r.id)).select("id", "problem", "plan")) as { id: number; problem: Problem; plan: Plan }[];
+  const full = (await db()("nesting_runs")
+    .whereIn(
+      "id",
+      rows.map((r) => r.id),
+    )
+    .select("id", "problem", "plan")) as { id: number; problem: Problem; plan: Plan }[];
   for (const f of full) {
     const row = rows.find((r) => r.id === f.id)!;
     row.summary = planFigures(f.problem, f.plan);
-    await db()("nesting_runs").where({ id: f.id }).whereNull("summary").update({ summary: JSON.stringify(row.summary) });
+    await db()("nesting_runs")
+      .where({ id: f.id })
+      .whereNull("summary")
+      .update({ summary: JSON.stringify(row.summary) });
   }
 }
 
 export async function getRun(id: number): Promise<RunDetail | undefined> {
-  const r = (await runSelect().where("r.id", id).first()) as (RunRow & { problem: Problem; plan: Plan | null }) | undefined;
+  const r = (await runSelect().where("r.id", id).first()) as
+    | (RunRow & { problem: Problem; plan: Plan | null })
+    | undefined;
   if (!r) return undefined;
   const names = await jobNames(r.job_ids);
   const blocks = await db()("blocks as b")
@@ -372,13 +453,24 @@ export async function getRun(id: number): Promise<RunDetail | undefined> {
   r.problem.parts ??= [];
   r.problem.blocks ??= [];
   const partIds = r.problem.parts.map((p) => partIdFromKey(p.id));
-  const parts = partIds.length ? await db()("job_parts").whereIn("id", partIds).select("id", "name", "job_id", "true_volume_mm3") : [];
+  const parts = partIds.length
+    ? await db()("job_parts").whereIn("id", partIds).select("id", "name", "job_id", "true_volume_mm3")
+    : [];
   return {
     ...toSummary(r, names),
     problem: r.problem,
     plan: r.plan,
-    blocks: blocks.map((b: { id: number; code: string; plan_status: "reserved" | "cut" | "released" | null }) => ({ id: b.id, code: b.code, planStatus: b.plan_status })),
-    parts: parts.map((p: { id: number; name: string; job_id: number; true_volume_mm3: string | null }) => ({ id: p.id, name: p.name, jobId: p.job_id, trueVolumeMm3: p.true_volume_mm3 === null ? null : Number(p.true_volume_mm3) })),
+    blocks: blocks.map((b: { id: number; code: string; plan_status: "reserved" | "cut" | "released" | null }) => ({
+      id: b.id,
+      code: b.code,
+      planStatus: b.plan_status,
+    })),
+    parts: parts.map((p: { id: number; name: string; job_id: number; true_volume_mm3: string | null }) => ({
+      id: p.id,
+      name: p.name,
+      jobId: p.job_id,
+      trueVolumeMm3: p.true_volume_mm3 === null ? null : Number(p.true_volume_mm3),
+    })),
   };
 }
 
@@ -389,13 +481,22 @@ export async function claimRun(id: number): Promise<Problem | null> {
   const [row] = await db()("nesting_runs")
     .where({ id })
     .whereIn("status", ["queued", "running"])
-    .update({ status: "running", started_at: db().fn.now(), heartbeat_at: db().fn.now(), attempts: db().raw("attempts + 1"), progress: 0 })
+    .update({
+      status: "running",
+      started_at: db().fn.now(),
+      heartbeat_at: db().fn.now(),
+      attempts: db().raw("attempts + 1"),
+      progress: 0,
+    })
     .returning(["problem"]);
   return row ? (row.problem as Problem) : null;
 }
 
 export async function saveProgress(id: number, progress: number, best: RunFigures): Promise<RunStatus | undefined> {
-  const [row] = await db()("nesting_runs").where({ id }).update({ progress, best, heartbeat_at: db().fn.now() }).returning("status");
+  const [row] = await db()("nesting_runs")
+    .where({ id })
+    .update({ progress, best, heartbeat_at: db().fn.now() })
+    .returning("status");
   return row?.status;
 }
 
@@ -411,12 +512,21 @@ export async function finishRun(id: number, problem: Problem, plan: Plan): Promi
       summary: JSON.stringify(planFigures(problem, plan)),
       progress: 1,
       finished_at: db().fn.now(),
-      best: { placedVolume: plan.stats.partVolume, blocksUsed: plan.stats.blocksUsed, yield: plan.stats.yield, unplacedCount: plan.unplaced.reduce((s, u) => s + u.count, 0), lowerBoundBlocks: plan.stats.lowerBoundBlocks },
+      best: {
+        placedVolume: plan.stats.partVolume,
+        blocksUsed: plan.stats.blocksUsed,
+        yield: plan.stats.yield,
+        unplacedCount: plan.unplaced.reduce((s, u) => s + u.count, 0),
+        lowerBoundBlocks: plan.stats.lowerBoundBlocks,
+      },
     });
 }
 
 export async function failRun(id: number, message: string): Promise<void> {
-  await db()("nesting_runs").where({ id }).whereIn("status", ["queued", "running"]).update({ status: "failed", error: message.slice(0, 500), finished_at: db().fn.now() });
+  await db()("nesting_runs")
+    .where({ id })
+    .whereIn("status", ["queued", "running"])
+    .update({ status: "failed", error: message.slice(0, 500), finished_at: db().fn.now() });
 }
 
 /** Runs whose worker died (no heartbeat for `staleSeconds`): marked failed so nobody waits for ever. */
@@ -424,11 +534,18 @@ export async function failStaleRuns(staleSeconds = 90): Promise<number> {
   return db()("nesting_runs")
     .where("status", "running")
     .where("heartbeat_at", "<", db().raw("now() - make_interval(secs => ?)", [Math.max(5, Math.floor(staleSeconds))]))
-    .update({ status: "failed", error: "The worker stopped while planning. Start the run again.", finished_at: db().fn.now() });
+    .update({
+      status: "failed",
+      error: "The worker stopped while planning. Start the run again.",
+      finished_at: db().fn.now(),
+    });
 }
 
 export async function cancelRun(id: number, actorId: string): Promise<void> {
-  const n = await db()("nesting_runs").where({ id }).whereIn("status", ["queued", "running"]).update({ status: "cancelled", finished_at: db().fn.now() });
+  const n = await db()("nesting_runs")
+    .where({ id })
+    .whereIn("status", ["queued", "running"])
+    .update({ status: "cancelled", finished_at: db().fn.now() });
   if (!n) throw new HttpError(409, "Only a queued or running plan can be stopped.");
   await db()("audit_log").insert({ actor_id: actorId, action: "run.cancel", subject: `run:${id}` });
 }
@@ -448,19 +565,34 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
     await db().transaction(async (trx) => {
       const run = await trx("nesting_runs").where({ id }).forUpdate().first();
       if (!run) throw new HttpError(404, "That plan was not found.");
-      if (run.status !== "done") throw new HttpError(409, run.status === "approved" ? "This plan is already approved." : "Only a finished plan can be approved.");
+      if (run.status !== "done")
+        throw new HttpError(
+          409,
+          run.status === "approved" ? "This plan is already approved." : "Only a finished plan can be approved.",
+        );
       const plan = run.plan as Plan;
       const codes = blocksInPlan(plan);
       if (!codes.length) throw new HttpError(409, "This plan places nothing: there is nothing to reserve.");
       // A free-layout plan may hold pieces no cutter can free: never reserve stock for it.
       const stuck = stuckBlocks(run.problem as Problem, plan);
       if (stuck.length)
-        throw new HttpError(409, `${stuck.length === 1 ? "Block" : "Blocks"} ${stuck.join(", ")}: some pieces cannot be freed by through cuts nor cut out of one layer (free layout, for comparison only). Plan again with the guillotine or layers rule.`);
-      const blocks = await trx("blocks").whereIn("code", codes).forUpdate().select("id", "code", "status", "volume_m3", "cost");
+        throw new HttpError(
+          409,
+          `${stuck.length === 1 ? "Block" : "Blocks"} ${stuck.join(", ")}: some pieces cannot be freed by through cuts nor cut out of one layer (free layout, for comparison only). Plan again with the guillotine or layers rule.`,
+        );
+      const blocks = await trx("blocks")
+        .whereIn("code", codes)
+        .forUpdate()
+        .select("id", "code", "status", "volume_m3", "cost");
       for (const b of blocks) {
         if (b.status !== "in_stock") {
           const other = await trx("plan_blocks").where({ block_id: b.id, status: "reserved" }).first("run_id");
-          throw new HttpError(409, other ? `Block ${b.code} is already earmarked by plan #${other.run_id}. Re-plan without it, or release that plan first.` : `Block ${b.code} is no longer in stock.`);
+          throw new HttpError(
+            409,
+            other
+              ? `Block ${b.code} is already earmarked by plan #${other.run_id}. Re-plan without it, or release that plan first.`
+              : `Block ${b.code} is no longer in stock.`,
+          );
         }
       }
       // One approval per job at a time, so two plans cannot both claim the same owed parts.
@@ -482,16 +614,42 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
             `"${part?.name ?? "A part"}": this plan cuts ${n}, but only ${free} ${free === 1 ? "is" : "are"} still owed${h ? ` once approved ${plansNamed(h.runs)} ${h.runs.length === 1 ? "is" : "are"} counted` : ""}. Release that plan first, or plan again.`,
           );
       }
-      await trx("plan_blocks").insert(blocks.map((b: { id: number }) => ({ run_id: id, block_id: b.id, status: "reserved" })));
-      await trx("blocks").whereIn("id", blocks.map((b: { id: number }) => b.id)).update({ status: "earmarked", updated_at: trx.fn.now() });
-      await appendLedger(trx, blocks.map((b: { id: number; volume_m3: string; cost: string }) => ({ blockId: b.id, kind: "reserved" as const, volumeM3: Number(b.volume_m3), value: Number(b.cost), userId: actorId, reason: `Plan #${id}`, ref: `run:${id}` })));
-      await trx("nesting_runs").where({ id }).update({ status: "approved", approved_by: actorId, approved_at: trx.fn.now() });
+      await trx("plan_blocks").insert(
+        blocks.map((b: { id: number }) => ({ run_id: id, block_id: b.id, status: "reserved" })),
+      );
+      await trx("blocks")
+        .whereIn(
+          "id",
+          blocks.map((b: { id: number }) => b.id),
+        )
+        .update({ status: "earmarked", updated_at: trx.fn.now() });
+      await appendLedger(
+        trx,
+        blocks.map((b: { id: number; volume_m3: string; cost: string }) => ({
+          blockId: b.id,
+          kind: "reserved" as const,
+          volumeM3: Number(b.volume_m3),
+          value: Number(b.cost),
+          userId: actorId,
+          reason: `Plan #${id}`,
+          ref: `run:${id}`,
+        })),
+      );
+      await trx("nesting_runs")
+        .where({ id })
+        .update({ status: "approved", approved_by: actorId, approved_at: trx.fn.now() });
       await trx("jobs").whereIn("id", run.job_ids).where("status", "open").update({ status: "planned" });
-      await trx("audit_log").insert({ actor_id: actorId, action: "run.approve", subject: `run:${id}`, detail: { blocks: codes } });
+      await trx("audit_log").insert({
+        actor_id: actorId,
+        action: "run.approve",
+        subject: `run:${id}`,
+        detail: { blocks: codes },
+      });
     });
   } catch (e) {
     // Two approvals racing for one block: the unique reservation index refuses the second.
-    if ((e as { code?: string }).code === "23505") throw new HttpError(409, "Another plan earmarked one of these blocks a moment ago. Re-plan without it.");
+    if ((e as { code?: string }).code === "23505")
+      throw new HttpError(409, "Another plan earmarked one of these blocks a moment ago. Re-plan without it.");
     throw e;
   }
 }
@@ -502,11 +660,30 @@ export async function releaseRun(id: number, actorId: string): Promise<void> {
     const run = await trx("nesting_runs").where({ id }).forUpdate().first();
     if (!run) throw new HttpError(404, "That plan was not found.");
     if (run.status !== "approved") throw new HttpError(409, "Only an approved plan can be released.");
-    const held = await trx("plan_blocks as pb").join("blocks as b", "b.id", "pb.block_id").where({ "pb.run_id": id, "pb.status": "reserved" }).select("b.id", "b.volume_m3", "b.cost");
+    const held = await trx("plan_blocks as pb")
+      .join("blocks as b", "b.id", "pb.block_id")
+      .where({ "pb.run_id": id, "pb.status": "reserved" })
+      .select("b.id", "b.volume_m3", "b.cost");
     await trx("plan_blocks").where({ run_id: id, status: "reserved" }).update({ status: "released" });
     if (held.length) {
-      await trx("blocks").whereIn("id", held.map((b: { id: number }) => b.id)).update({ status: "in_stock", updated_at: trx.fn.now() });
-      await appendLedger(trx, held.map((b: { id: number; volume_m3: string; cost: string }) => ({ blockId: b.id, kind: "released" as const, volumeM3: Number(b.volume_m3), value: Number(b.cost), userId: actorId, reason: `Plan #${id} released`, ref: `run:${id}` })));
+      await trx("blocks")
+        .whereIn(
+          "id",
+          held.map((b: { id: number }) => b.id),
+        )
+        .update({ status: "in_stock", updated_at: trx.fn.now() });
+      await appendLedger(
+        trx,
+        held.map((b: { id: number; volume_m3: string; cost: string }) => ({
+          blockId: b.id,
+          kind: "released" as const,
+          volumeM3: Number(b.volume_m3),
+          value: Number(b.cost),
+          userId: actorId,
+          reason: `Plan #${id} released`,
+          ref: `run:${id}`,
+        })),
+      );
     }
     await trx("nesting_runs").where({ id }).update({ status: "cancelled" });
     await trx("audit_log").insert({ actor_id: actorId, action: "run.release", subject: `run:${id}` });
@@ -525,14 +702,23 @@ export interface CutResult {
  * with the defect zones that fall inside them), rejects are recorded, and the loss breakdown is
  * kept. Block volume = good blanks + rejects + offcuts + trim + kerf + defect cut-outs + unusable.
  */
-export async function recordCut(runId: number, blockId: number, input: RecordCutInput, actorId: string): Promise<CutResult> {
+export async function recordCut(
+  runId: number,
+  blockId: number,
+  input: RecordCutInput,
+  actorId: string,
+): Promise<CutResult> {
   return db().transaction(async (trx) => {
     const run = await trx("nesting_runs").where({ id: runId }).forUpdate().first();
     if (!run) throw new HttpError(404, "That plan was not found.");
     if (run.status !== "approved") throw new HttpError(409, "Only an approved plan is cut.");
     const pb = await trx("plan_blocks").where({ run_id: runId, block_id: blockId }).forUpdate().first();
     if (!pb) throw new HttpError(404, "That block is not in this plan.");
-    if (pb.status !== "reserved") throw new HttpError(409, pb.status === "cut" ? "That block is already marked cut." : "That block was released from this plan.");
+    if (pb.status !== "reserved")
+      throw new HttpError(
+        409,
+        pb.status === "cut" ? "That block is already marked cut." : "That block was released from this plan.",
+      );
     const block = await trx("blocks").where({ id: blockId }).forUpdate().first();
     const plan = run.plan as Plan;
     const problem = run.problem as Problem;
@@ -546,7 +732,8 @@ export async function recordCut(runId: number, blockId: number, input: RecordCut
       const placed = placedCount.get(r.jobPartId) ?? 0;
       const already = rejectCount.get(r.jobPartId)?.count ?? 0;
       if (!placed) fields[`rejects.${i}.jobPartId`] = "That part is not cut from this block.";
-      else if (already + r.count > placed) fields[`rejects.${i}.count`] = `Only ${placed} of that part come from this block.`;
+      else if (already + r.count > placed)
+        fields[`rejects.${i}.count`] = `Only ${placed} of that part come from this block.`;
       else rejectCount.set(r.jobPartId, { count: already + r.count, reason: r.reason });
     });
     if (Object.keys(fields).length) throw new HttpError(400, "Some rejects need attention.", fields);
@@ -556,8 +743,16 @@ export async function recordCut(runId: number, blockId: number, input: RecordCut
     const trim = problemBlock?.trim ?? (block.parent_id ? 0 : settings.trim);
     const defects = await trx("defect_zones").where({ block_id: blockId }).orderBy("id");
     const grown = defects.map((d: Record<string, string>) => ({
-      min: [Number(d.min_x) - settings.defectMargin, Number(d.min_y) - settings.defectMargin, Number(d.min_z) - settings.defectMargin] as [number, number, number],
-      max: [Number(d.max_x) + settings.defectMargin, Number(d.max_y) + settings.defectMargin, Number(d.max_z) + settings.defectMargin] as [number, number, number],
+      min: [
+        Number(d.min_x) - settings.defectMargin,
+        Number(d.min_y) - settings.defectMargin,
+        Number(d.min_z) - settings.defectMargin,
+      ] as [number, number, number],
+      max: [
+        Number(d.max_x) + settings.defectMargin,
+        Number(d.max_y) + settings.defectMargin,
+        Number(d.max_z) + settings.defectMargin,
+      ] as [number, number, number],
     }));
     const rejectedSizes: [number, number, number][] = [];
     const remaining = new Map([...rejectCount].map(([k, v]) => [k, v.count]));
@@ -569,15 +764,36 @@ export async function recordCut(runId: number, blockId: number, input: RecordCut
       }
     }
     const offcuts = plan.offcuts.filter((o) => o.block === block.code);
-    const losses = lossBreakdown({ size, trim, kerf: settings.kerf, cuts: plan.cuts[block.code] ?? [], blanks: onBlock.map((p) => p.size), rejected: rejectedSizes, offcuts, defects: grown });
+    const losses = lossBreakdown({
+      size,
+      trim,
+      kerf: settings.kerf,
+      cuts: plan.cuts[block.code] ?? [],
+      blanks: onBlock.map((p) => p.size),
+      rejected: rejectedSizes,
+      offcuts,
+      defects: grown,
+    });
 
     // The block leaves stock.
     const blockValue = Number(block.cost);
     await trx("blocks").where({ id: blockId }).update({ status: "cut", updated_at: trx.fn.now() });
-    await appendLedger(trx, [{ blockId, kind: "consumed", volumeM3: Number(block.volume_m3), value: blockValue, userId: actorId, reason: `Cut to plan #${runId}`, ref: `run:${runId}` }]);
+    await appendLedger(trx, [
+      {
+        blockId,
+        kind: "consumed",
+        volumeM3: Number(block.volume_m3),
+        value: blockValue,
+        userId: actorId,
+        reason: `Cut to plan #${runId}`,
+        ref: `run:${runId}`,
+      },
+    ]);
 
     // Its offcuts come back as stock, with the defect zones that fall inside them.
-    const existing = Number((await trx("blocks").where({ parent_id: blockId }).count<{ n: string }[]>({ n: "*" }).first())?.n ?? 0);
+    const existing = Number(
+      (await trx("blocks").where({ parent_id: blockId }).count<{ n: string }[]>({ n: "*" }).first())?.n ?? 0,
+    );
     const offcutCodes: string[] = [];
     const blockVol = losses.block;
     for (const [i, o] of offcuts.entries()) {
@@ -592,8 +808,12 @@ export async function recordCut(runId: number, blockId: number, input: RecordCut
           delivery_id: block.delivery_id,
           parent_id: blockId,
           origin_in_parent: trx.raw("?::numeric[]", [`{${o.origin.join(",")}}`]),
-          nominal_x: o.size[0], nominal_y: o.size[1], nominal_z: o.size[2],
-          size_x: o.size[0], size_y: o.size[1], size_z: o.size[2],
+          nominal_x: o.size[0],
+          nominal_y: o.size[1],
+          nominal_z: o.size[2],
+          size_x: o.size[0],
+          size_y: o.size[1],
+          size_z: o.size[2],
           weight_kg: null,
           cost: value,
           location: block.location,
@@ -604,18 +824,47 @@ export async function recordCut(runId: number, blockId: number, input: RecordCut
         })
         .returning(["id", "volume_m3"]);
       offcutCodes.push(code);
-      await appendLedger(trx, [{ blockId: child.id, kind: "offcut_created", volumeM3: Number(child.volume_m3), value, userId: actorId, reason: `Offcut of ${block.code}`, ref: `run:${runId}` }]);
+      await appendLedger(trx, [
+        {
+          blockId: child.id,
+          kind: "offcut_created",
+          volumeM3: Number(child.volume_m3),
+          value,
+          userId: actorId,
+          reason: `Offcut of ${block.code}`,
+          ref: `run:${runId}`,
+        },
+      ]);
       for (const d of defects) {
-        const min = [Number(d.min_x), Number(d.min_y), Number(d.min_z)].map((v, k) => Math.max(v, o.origin[k]!) - o.origin[k]!);
-        const max = [Number(d.max_x), Number(d.max_y), Number(d.max_z)].map((v, k) => Math.min(v, o.origin[k]! + o.size[k]!) - o.origin[k]!);
+        const min = [Number(d.min_x), Number(d.min_y), Number(d.min_z)].map(
+          (v, k) => Math.max(v, o.origin[k]!) - o.origin[k]!,
+        );
+        const max = [Number(d.max_x), Number(d.max_y), Number(d.max_z)].map(
+          (v, k) => Math.min(v, o.origin[k]! + o.size[k]!) - o.origin[k]!,
+        );
         if (max.every((v, k) => v > min[k]!)) {
-          await trx("defect_zones").insert({ block_id: child.id, kind: d.kind, min_x: min[0], min_y: min[1], min_z: min[2], max_x: max[0], max_y: max[1], max_z: max[2], found_by: d.found_by, found_at: d.found_at, note: d.note, inherited_from: d.id });
+          await trx("defect_zones").insert({
+            block_id: child.id,
+            kind: d.kind,
+            min_x: min[0],
+            min_y: min[1],
+            min_z: min[2],
+            max_x: max[0],
+            max_y: max[1],
+            max_z: max[2],
+            found_by: d.found_by,
+            found_at: d.found_at,
+            note: d.note,
+            inherited_from: d.id,
+          });
         }
       }
     }
 
     // What was cut, part by part; yield counts the true volume where a profile exists.
-    const partRows = await trx("job_parts").whereIn("id", [...placedCount.keys()]).select("id", "size_x", "size_y", "size_z", "true_volume_mm3");
+    const partRows = await trx("job_parts")
+      .whereIn("id", [...placedCount.keys()])
+      .select("id", "size_x", "size_y", "size_z", "true_volume_mm3");
     let partVolume = 0;
     const bases = new Set<string>();
     for (const p of partRows as Record<string, string | number | null>[]) {
@@ -624,32 +873,59 @@ export async function recordCut(runId: number, blockId: number, input: RecordCut
       const good = (placedCount.get(id) ?? 0) - rejected;
       const basis = p.true_volume_mm3 !== null ? "profile" : "box";
       bases.add(basis);
-      const each = basis === "profile" ? Number(p.true_volume_mm3) / 1e9 : (Number(p.size_x) * Number(p.size_y) * Number(p.size_z)) / 1e9;
+      const each =
+        basis === "profile"
+          ? Number(p.true_volume_mm3) / 1e9
+          : (Number(p.size_x) * Number(p.size_y) * Number(p.size_z)) / 1e9;
       partVolume += each * good;
-      await trx("cut_parts").insert({ run_id: runId, block_id: blockId, job_part_id: id, good_count: good, rejected_count: rejected, reject_reason: rejectCount.get(id)?.reason ?? null, part_volume_m3: each * good, volume_basis: basis, recorded_by: actorId });
+      await trx("cut_parts").insert({
+        run_id: runId,
+        block_id: blockId,
+        job_part_id: id,
+        good_count: good,
+        rejected_count: rejected,
+        reject_reason: rejectCount.get(id)?.reason ?? null,
+        part_volume_m3: each * good,
+        volume_basis: basis,
+        recorded_by: actorId,
+      });
     }
-    await trx("plan_blocks").where({ id: pb.id }).update({
-      status: "cut",
-      cut_at: trx.fn.now(),
-      cut_by: actorId,
-      block_volume_m3: losses.block,
-      part_volume_m3: partVolume,
-      offcut_volume_m3: losses.offcuts,
-      loss_trim_m3: losses.trim,
-      loss_kerf_m3: losses.kerf,
-      loss_defect_m3: losses.defect,
-      loss_unusable_m3: losses.unusable,
-      loss_reject_m3: losses.rejects,
-      volume_basis: bases.size > 1 ? "mixed" : ([...bases][0] ?? "box"),
-    });
-    if (input.note) await trx("audit_log").insert({ actor_id: actorId, action: "run.cut_note", subject: `block:${blockId}`, detail: { note: input.note } });
+    await trx("plan_blocks")
+      .where({ id: pb.id })
+      .update({
+        status: "cut",
+        cut_at: trx.fn.now(),
+        cut_by: actorId,
+        block_volume_m3: losses.block,
+        part_volume_m3: partVolume,
+        offcut_volume_m3: losses.offcuts,
+        loss_trim_m3: losses.trim,
+        loss_kerf_m3: losses.kerf,
+        loss_defect_m3: losses.defect,
+        loss_unusable_m3: losses.unusable,
+        loss_reject_m3: losses.rejects,
+        volume_basis: bases.size > 1 ? "mixed" : ([...bases][0] ?? "box"),
+      });
+    if (input.note)
+      await trx("audit_log").insert({
+        actor_id: actorId,
+        action: "run.cut_note",
+        subject: `block:${blockId}`,
+        detail: { note: input.note },
+      });
 
     // The plan closes when its last block is cut; a job is done when nothing is owed.
-    const open = await trx("plan_blocks").where({ run_id: runId, status: "reserved" }).count<{ n: string }[]>({ n: "*" }).first();
+    const open = await trx("plan_blocks")
+      .where({ run_id: runId, status: "reserved" })
+      .count<{ n: string }[]>({ n: "*" })
+      .first();
     if (Number(open?.n) === 0) await trx("nesting_runs").where({ id: runId }).update({ status: "closed" });
     for (const jobId of run.job_ids as number[]) {
       const owed = (await owedParts(trx, [jobId])).reduce((s, p) => s + p.quantity, 0);
-      await trx("jobs").where({ id: jobId }).whereNotIn("status", ["cancelled"]).update({ status: owed === 0 ? "done" : "cutting" });
+      await trx("jobs")
+        .where({ id: jobId })
+        .whereNotIn("status", ["cancelled"])
+        .update({ status: owed === 0 ? "done" : "cutting" });
     }
     return { offcutCodes, losses };
   });
@@ -661,11 +937,19 @@ export async function recordCut(runId: number, blockId: number, input: RecordCut
  * reading and parsing it again.
  */
 export async function owedByRun(runId: number, knownPlan?: Plan | null): Promise<Map<number, number>> {
-  const plan = knownPlan !== undefined ? knownPlan : ((await db()("nesting_runs").where({ id: runId }).first("plan"))?.plan as Plan | null | undefined);
+  const plan =
+    knownPlan !== undefined
+      ? knownPlan
+      : ((await db()("nesting_runs").where({ id: runId }).first("plan"))?.plan as Plan | null | undefined);
   const owed = new Map<number, number>();
-  for (const u of plan?.unplaced ?? []) owed.set(partIdFromKey(u.part), (owed.get(partIdFromKey(u.part)) ?? 0) + u.count);
-  const rejects = await db()("cut_parts").where({ run_id: runId }).where("rejected_count", ">", 0).select("job_part_id", "rejected_count");
-  for (const r of rejects as { job_part_id: number; rejected_count: number }[]) owed.set(r.job_part_id, (owed.get(r.job_part_id) ?? 0) + r.rejected_count);
+  for (const u of plan?.unplaced ?? [])
+    owed.set(partIdFromKey(u.part), (owed.get(partIdFromKey(u.part)) ?? 0) + u.count);
+  const rejects = await db()("cut_parts")
+    .where({ run_id: runId })
+    .where("rejected_count", ">", 0)
+    .select("job_part_id", "rejected_count");
+  for (const r of rejects as { job_part_id: number; rejected_count: number }[])
+    owed.set(r.job_part_id, (owed.get(r.job_part_id) ?? 0) + r.rejected_count);
   return owed;
 }
 
@@ -674,7 +958,8 @@ export async function replanRun(runId: number, actorId: string): Promise<number>
   const run = await db()("nesting_runs").where({ id: runId }).first();
   if (!run) throw new HttpError(404, "That plan was not found.");
   const owed = await owedByRun(runId);
-  if (![...owed.values()].some((n) => n > 0)) throw new HttpError(409, "This plan owes no parts: nothing was rejected or left unplaced.");
+  if (![...owed.values()].some((n) => n > 0))
+    throw new HttpError(409, "This plan owes no parts: nothing was rejected or left unplaced.");
   const stock = await candidateStock(run.job_ids);
   if (!stock.length) throw new HttpError(409, "No ready stock of the needed grades is free to plan into.");
   // Runs recorded before planning moved into Blockyard (demo history) kept no settings: re-plan
@@ -684,7 +969,17 @@ export async function replanRun(runId: number, actorId: string): Promise<number>
   if (own.success) settings = own.data;
   else {
     const shop = await getShopSettings();
-    settings = { kerf: shop.kerf, trim: shop.trim, defectMargin: shop.defectMargin, minOffcut: shop.minOffcut, layout: shop.layout, timeLimitMs: shop.nestingTimeLimitMs };
+    settings = {
+      kerf: shop.kerf,
+      trim: shop.trim,
+      defectMargin: shop.defectMargin,
+      minOffcut: shop.minOffcut,
+      layout: shop.layout,
+      timeLimitMs: shop.nestingTimeLimitMs,
+    };
   }
-  return createRun({ jobIds: run.job_ids, blockIds: stock.map((s) => s.id), settings, quantities: owed, parentRunId: runId }, actorId);
+  return createRun(
+    { jobIds: run.job_ids, blockIds: stock.map((s) => s.id), settings, quantities: owed, parentRunId: runId },
+    actorId,
+  );
 }

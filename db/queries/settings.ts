@@ -63,7 +63,10 @@ export async function saveShopSettings(s: ShopSettings, actorId: string): Promis
     updated_by: actorId,
   };
   await db().transaction(async (trx) => {
-    await trx("shop_settings").insert({ ...row, updated_at: trx.fn.now() }).onConflict("id").merge();
+    await trx("shop_settings")
+      .insert({ ...row, updated_at: trx.fn.now() })
+      .onConflict("id")
+      .merge();
     await trx("audit_log").insert({ actor_id: actorId, action: "settings.update", subject: "shop", detail: s });
   });
 }

@@ -58,14 +58,20 @@ export async function getSupplier(id: number): Promise<Supplier | undefined> {
 async function assertNameFree(name: string, exceptId?: number) {
   const q = db()("suppliers").whereRaw("lower(name) = lower(?)", [name]);
   if (exceptId) q.whereNot("id", exceptId);
-  if (await q.first("id")) throw new HttpError(409, "Some fields need attention.", { name: "A supplier with that name already exists." });
+  if (await q.first("id"))
+    throw new HttpError(409, "Some fields need attention.", { name: "A supplier with that name already exists." });
 }
 
 export async function createSupplier(s: SupplierInput, actorId: string): Promise<Supplier> {
   await assertNameFree(s.name);
   return db().transaction(async (trx) => {
     const [row] = await trx("suppliers").insert(toRow(s)).returning("*");
-    await trx("audit_log").insert({ actor_id: actorId, action: "supplier.create", subject: `supplier:${row.id}`, detail: s });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "supplier.create",
+      subject: `supplier:${row.id}`,
+      detail: s,
+    });
     return toSupplier(row);
   });
 }
@@ -75,7 +81,12 @@ export async function updateSupplier(id: number, s: SupplierInput, actorId: stri
   return db().transaction(async (trx) => {
     const [row] = await trx("suppliers").where({ id }).update(toRow(s)).returning("*");
     if (!row) throw new HttpError(404, "That supplier was not found.");
-    await trx("audit_log").insert({ actor_id: actorId, action: "supplier.update", subject: `supplier:${id}`, detail: s });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "supplier.update",
+      subject: `supplier:${id}`,
+      detail: s,
+    });
     return toSupplier(row);
   });
 }

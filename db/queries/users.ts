@@ -86,7 +86,12 @@ export async function createUser(
       must_change_password: true,
     });
     await trx("user_roles").insert(input.roles.map((role) => ({ user_id: id, role })));
-    await trx("audit_log").insert({ actor_id: actorId, action: "user.create", subject: id, detail: { email: input.email, roles: input.roles } });
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "user.create",
+      subject: id,
+      detail: { email: input.email, roles: input.roles },
+    });
   });
   return id;
 }
@@ -100,7 +105,10 @@ export async function updateUser(
     const fields: Record<string, unknown> = {};
     if (patch.name !== undefined) fields.name = patch.name;
     if (patch.active !== undefined) fields.active = patch.active;
-    if (Object.keys(fields).length) await trx("users").where({ id }).update({ ...fields, updated_at: trx.fn.now() });
+    if (Object.keys(fields).length)
+      await trx("users")
+        .where({ id })
+        .update({ ...fields, updated_at: trx.fn.now() });
     if (patch.roles) {
       await trx("user_roles").where({ user_id: id }).delete();
       await trx("user_roles").insert(patch.roles.map((role) => ({ user_id: id, role })));
@@ -130,7 +138,9 @@ export async function setPassword(
 }
 
 export async function countActiveAdmins(exceptId?: string): Promise<number> {
-  const q = db()("users as u").join("user_roles as r", "r.user_id", "u.id").where({ "u.active": true, "r.role": "admin" });
+  const q = db()("users as u")
+    .join("user_roles as r", "r.user_id", "u.id")
+    .where({ "u.active": true, "r.role": "admin" });
   if (exceptId) q.whereNot("u.id", exceptId);
   const row = await q.countDistinct<{ n: string }[]>({ n: "u.id" }).first();
   return Number(row?.n ?? 0);

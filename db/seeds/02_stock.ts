@@ -24,22 +24,101 @@ const day = (offset: number) => {
   d.setDate(d.getDate() + offset);
   return d;
 };
-const iso = (d: Date) => `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, "0")}-${String(d.getDate()).padStart(2, "0")}`;
+const iso = (d: Date) =>
+  `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, "0")}-${String(d.getDate()).padStart(2, "0")}`;
 
 // Minimum densities: ASTM C578 table (see ../shared/domain-brief.md §1). The shop's own codes.
 export const GRADES = [
-  { code: "EPS-I", material: "EPS", grade_system: "ASTM C578", grade: "Type I", nominal: 15.5, min: 14.4, cure: 14, colour: "#9fc3c8", unit: "bf" },
-  { code: "EPS-VIII", material: "EPS", grade_system: "ASTM C578", grade: "Type VIII", nominal: 19.5, min: 18.4, cure: 14, colour: "#6fa8b0", unit: "bf" },
-  { code: "EPS-II", material: "EPS", grade_system: "ASTM C578", grade: "Type II", nominal: 23, min: 21.6, cure: 14, colour: "#3f8791", unit: "bf" },
-  { code: "EPS-IX", material: "EPS", grade_system: "ASTM C578", grade: "Type IX", nominal: 30, min: 28.8, cure: 21, colour: "#1f5f68", unit: "bf" },
-  { code: "XPS-IV", material: "XPS", grade_system: "ASTM C578", grade: "Type IV", nominal: 26, min: 24.8, cure: 0, colour: "#c9a5d6", unit: "m3" },
-  { code: "PU-SIGN-15", material: "PU", grade_system: "shop", grade: "Sign foam 15 lb", nominal: 240, min: null, cure: 0, colour: "#d8b26e", unit: "m3" },
+  {
+    code: "EPS-I",
+    material: "EPS",
+    grade_system: "ASTM C578",
+    grade: "Type I",
+    nominal: 15.5,
+    min: 14.4,
+    cure: 14,
+    colour: "#9fc3c8",
+    unit: "bf",
+  },
+  {
+    code: "EPS-VIII",
+    material: "EPS",
+    grade_system: "ASTM C578",
+    grade: "Type VIII",
+    nominal: 19.5,
+    min: 18.4,
+    cure: 14,
+    colour: "#6fa8b0",
+    unit: "bf",
+  },
+  {
+    code: "EPS-II",
+    material: "EPS",
+    grade_system: "ASTM C578",
+    grade: "Type II",
+    nominal: 23,
+    min: 21.6,
+    cure: 14,
+    colour: "#3f8791",
+    unit: "bf",
+  },
+  {
+    code: "EPS-IX",
+    material: "EPS",
+    grade_system: "ASTM C578",
+    grade: "Type IX",
+    nominal: 30,
+    min: 28.8,
+    cure: 21,
+    colour: "#1f5f68",
+    unit: "bf",
+  },
+  {
+    code: "XPS-IV",
+    material: "XPS",
+    grade_system: "ASTM C578",
+    grade: "Type IV",
+    nominal: 26,
+    min: 24.8,
+    cure: 0,
+    colour: "#c9a5d6",
+    unit: "m3",
+  },
+  {
+    code: "PU-SIGN-15",
+    material: "PU",
+    grade_system: "shop",
+    grade: "Sign foam 15 lb",
+    nominal: 240,
+    min: null,
+    cure: 0,
+    colour: "#d8b26e",
+    unit: "m3",
+  },
 ] as const;
 
 const SUPPLIERS = [
-  { name: "Ashcombe Bead & Block", contact: "Marta Ilves", email: "orders@ashcombe-bead.test", phone: "+1 555 0142", lead_time_days: 12 },
-  { name: "Northgate Moulders", contact: "Femi Adeyemi", email: "sales@northgate-moulders.test", phone: "+1 555 0178", lead_time_days: 18 },
-  { name: "Tallow Creek Foams", contact: "June Haverly", email: "desk@tallowcreek.test", phone: "+1 555 0199", lead_time_days: 21 },
+  {
+    name: "Ashcombe Bead & Block",
+    contact: "Marta Ilves",
+    email: "orders@ashcombe-bead.test",
+    phone: "+1 555 0142",
+    lead_time_days: 12,
+  },
+  {
+    name: "Northgate Moulders",
+    contact: "Femi Adeyemi",
+    email: "sales@northgate-moulders.test",
+    phone: "+1 555 0178",
+    lead_time_days: 18,
+  },
+  {
+    name: "Tallow Creek Foams",
+    contact: "June Haverly",
+    email: "desk@tallowcreek.test",
+    phone: "+1 555 0199",
+    lead_time_days: 21,
+  },
 ];
 
 const LOCATIONS = ["Bay A – rack 1", "Bay A – rack 2", "Bay B – floor", "Bay C – offcut shelves", "Curing room"];
@@ -52,13 +131,28 @@ const SIZES: [number, number, number][] = [
 const KINDS = ["void", "poor_fusion", "crush", "wet_core", "inclusion"] as const;
 
 export async function seed(knex: Knex): Promise<void> {
-  await knex.raw("TRUNCATE defect_photos, defect_zones, stock_ledger, blocks, deliveries, suppliers, grades, csv_imports RESTART IDENTITY CASCADE");
+  await knex.raw(
+    "TRUNCATE defect_photos, defect_zones, stock_ledger, blocks, deliveries, suppliers, grades, csv_imports RESTART IDENTITY CASCADE",
+  );
   await knex.raw("ALTER SEQUENCE block_code_seq RESTART WITH 1001");
   const r = rng(20261201);
-  const pick = <T,>(xs: readonly T[]) => xs[Math.floor(r() * xs.length)]!;
+  const pick = <T>(xs: readonly T[]) => xs[Math.floor(r() * xs.length)]!;
 
   const grades = await knex("grades")
-    .insert(GRADES.map((g) => ({ code: g.code, material: g.material, grade_system: g.grade_system, grade: g.grade, nominal_density_kg_m3: g.nominal, min_density_kg_m3: g.min, cure_days: g.cure, never_hot_wire: g.material === "PU", colour: g.colour, price_unit: g.unit })))
+    .insert(
+      GRADES.map((g) => ({
+        code: g.code,
+        material: g.material,
+        grade_system: g.grade_system,
+        grade: g.grade,
+        nominal_density_kg_m3: g.nominal,
+        min_density_kg_m3: g.min,
+        cure_days: g.cure,
+        never_hot_wire: g.material === "PU",
+        colour: g.colour,
+        price_unit: g.unit,
+      })),
+    )
     .returning(["id", "code", "cure_days", "min_density_kg_m3", "nominal_density_kg_m3", "material"]);
   const suppliers = await knex("suppliers").insert(SUPPLIERS).returning(["id", "name"]);
   const users = { buyer: "u-buyer", cutter: "u-cutter", planner: "u-planner" };
@@ -67,7 +161,15 @@ export async function seed(knex: Knex): Promise<void> {
   const offsets = [-95, -88, -80, -71, -63, -55, -47, -38, -29, -20, -9, -3];
   let blockNo = 1001;
   const ledger: Record<string, unknown>[] = [];
-  const consumedParents: { id: number; code: string; size: [number, number, number]; cost: number; grade_id: number; lot: string; at: Date }[] = [];
+  const consumedParents: {
+    id: number;
+    code: string;
+    size: [number, number, number];
+    cost: number;
+    grade_id: number;
+    lot: string;
+    at: Date;
+  }[] = [];
 
   for (const [i, off] of offsets.entries()) {
     const supplier = suppliers[i % suppliers.length]!;
@@ -75,11 +177,24 @@ export async function seed(knex: Knex): Promise<void> {
     const receivedOn = day(off);
     const lot = `L${iso(receivedOn).replace(/-/g, "").slice(2)}-${String.fromCharCode(65 + (i % 26))}`;
     const [delivery] = await knex("deliveries")
-      .insert({ supplier_id: supplier.id, received_on: iso(receivedOn), po_ref: `PO-${2400 + i}`, lot, received_by: users.buyer, notes: i === 5 ? "Two blocks had crushed corners from the forklift." : null, created_at: receivedOn })
+      .insert({
+        supplier_id: supplier.id,
+        received_on: iso(receivedOn),
+        po_ref: `PO-${2400 + i}`,
+        lot,
+        received_by: users.buyer,
+        notes: i === 5 ? "Two blocks had crushed corners from the forklift." : null,
+        created_at: receivedOn,
+      })
       .returning("id");
     const count = grade.material === "PU" ? 2 : 4 + Math.floor(r() * 3);
     for (let j = 0; j < count; j++) {
-      const size = grade.material === "XPS" ? ([2440, 1220, 100] as [number, number, number]) : grade.material === "PU" ? ([1220, 610, 150] as [number, number, number]) : pick(SIZES);
+      const size =
+        grade.material === "XPS"
+          ? ([2440, 1220, 100] as [number, number, number])
+          : grade.material === "PU"
+            ? ([1220, 610, 150] as [number, number, number])
+            : pick(SIZES);
       const measured = size.map((s) => Math.round(s * (0.997 + r() * 0.004))) as [number, number, number];
       const vol = (measured[0] * measured[1] * measured[2]) / 1e9;
       const density = Number(grade.nominal_density_kg_m3) * (0.93 + r() * 0.12);
@@ -97,8 +212,12 @@ export async function seed(knex: Knex): Promise<void> {
           grade_id: grade.id,
           lot,
           delivery_id: delivery.id,
-          nominal_x: size[0], nominal_y: size[1], nominal_z: size[2],
-          size_x: measured[0], size_y: measured[1], size_z: measured[2],
+          nominal_x: size[0],
+          nominal_y: size[1],
+          nominal_z: size[2],
+          size_x: measured[0],
+          size_y: measured[1],
+          size_z: measured[2],
           weight_kg: Math.round(vol * density * 100) / 100,
           cost,
           location: off > -16 && grade.cure_days > 0 ? "Curing room" : pick(LOCATIONS.slice(0, 3)),
@@ -108,24 +227,65 @@ export async function seed(knex: Knex): Promise<void> {
           created_at: receivedOn,
         })
         .returning(["id", "volume_m3"]);
-      ledger.push({ block_id: block.id, kind: "received", volume_m3: block.volume_m3, delta_m3: block.volume_m3, value: cost, delta_value: cost, user_id: users.buyer, at: receivedOn, reason: `Delivery ${delivery.id}, lot ${lot}`, ref: `delivery:${delivery.id}` });
+      ledger.push({
+        block_id: block.id,
+        kind: "received",
+        volume_m3: block.volume_m3,
+        delta_m3: block.volume_m3,
+        value: cost,
+        delta_value: cost,
+        user_id: users.buyer,
+        at: receivedOn,
+        reason: `Delivery ${delivery.id}, lot ${lot}`,
+        ref: `delivery:${delivery.id}`,
+      });
       if (status === "cut") {
         const at = day(Math.min(-2, off + grade.cure_days + 3 + Math.floor(r() * 20)));
-        ledger.push({ block_id: block.id, kind: "consumed", volume_m3: block.volume_m3, delta_m3: `-${block.volume_m3}`, value: cost, delta_value: -cost, user_id: users.cutter, at, reason: "Cut to plan", ref: null });
+        ledger.push({
+          block_id: block.id,
+          kind: "consumed",
+          volume_m3: block.volume_m3,
+          delta_m3: `-${block.volume_m3}`,
+          value: cost,
+          delta_value: -cost,
+          user_id: users.cutter,
+          at,
+          reason: "Cut to plan",
+          ref: null,
+        });
         consumedParents.push({ id: block.id, code, size: measured, cost, grade_id: grade.id, lot, at });
       } else if (status === "written_off") {
         const at = day(off + 10);
-        ledger.push({ block_id: block.id, kind: "scrapped", volume_m3: block.volume_m3, delta_m3: `-${block.volume_m3}`, value: cost, delta_value: -cost, user_id: users.buyer, at, reason: "Water damage: stored against the bay door", ref: null });
+        ledger.push({
+          block_id: block.id,
+          kind: "scrapped",
+          volume_m3: block.volume_m3,
+          delta_m3: `-${block.volume_m3}`,
+          value: cost,
+          delta_value: -cost,
+          user_id: users.buyer,
+          at,
+          reason: "Water damage: stored against the bay door",
+          ref: null,
+        });
       }
       // About one block in four has a defect zone found on receipt or at a cut face.
       if (r() < 0.27 && status !== "written_off") {
-        const w = 60 + r() * 160, h = 40 + r() * 120, d = 40 + r() * 120;
-        const x = 200 + r() * (measured[0] - 600), y = 80 + r() * (measured[1] - 320), z = 60 + r() * (measured[2] - 240);
+        const w = 60 + r() * 160,
+          h = 40 + r() * 120,
+          d = 40 + r() * 120;
+        const x = 200 + r() * (measured[0] - 600),
+          y = 80 + r() * (measured[1] - 320),
+          z = 60 + r() * (measured[2] - 240);
         await knex("defect_zones").insert({
           block_id: block.id,
           kind: pick(KINDS),
-          min_x: x.toFixed(0), min_y: y.toFixed(0), min_z: z.toFixed(0),
-          max_x: Math.min(measured[0], x + w).toFixed(0), max_y: Math.min(measured[1], y + h).toFixed(0), max_z: Math.min(measured[2], z + d).toFixed(0),
+          min_x: x.toFixed(0),
+          min_y: y.toFixed(0),
+          min_z: z.toFixed(0),
+          max_x: Math.min(measured[0], x + w).toFixed(0),
+          max_y: Math.min(measured[1], y + h).toFixed(0),
+          max_z: Math.min(measured[2], z + d).toFixed(0),
           found_by: users.cutter,
           found_at: day(off + 2),
           note: "Seen on the end face after squaring.",
@@ -143,7 +303,7 @@ export async function seed(knex: Knex): Promise<void> {
     const parentVol = (p.size[0] * p.size[1] * p.size[2]) / 1e9;
     for (const [k, piece] of pieces.entries()) {
       const vol = (piece.size[0]! * piece.size[1]! * piece.size[2]!) / 1e9;
-      const value = Math.round((p.cost * vol) / parentVol * 100) / 100;
+      const value = Math.round(((p.cost * vol) / parentVol) * 100) / 100;
       const [child] = await knex("blocks")
         .insert({
           code: `${p.code}.${k + 1}`,
@@ -151,8 +311,12 @@ export async function seed(knex: Knex): Promise<void> {
           lot: p.lot,
           parent_id: p.id,
           origin_in_parent: knex.raw("?::numeric[]", [`{${piece.origin.join(",")}}`]),
-          nominal_x: piece.size[0], nominal_y: piece.size[1], nominal_z: piece.size[2],
-          size_x: piece.size[0], size_y: piece.size[1], size_z: piece.size[2],
+          nominal_x: piece.size[0],
+          nominal_y: piece.size[1],
+          nominal_z: piece.size[2],
+          size_x: piece.size[0],
+          size_y: piece.size[1],
+          size_z: piece.size[2],
           cost: value,
           location: "Bay C – offcut shelves",
           cut_not_before: iso(p.at),
@@ -160,10 +324,32 @@ export async function seed(knex: Knex): Promise<void> {
           created_at: p.at,
         })
         .returning(["id", "volume_m3", "status"]);
-      ledger.push({ block_id: child.id, kind: "offcut_created", volume_m3: child.volume_m3, delta_m3: child.volume_m3, value, delta_value: value, user_id: users.cutter, at: p.at, reason: `Offcut of ${p.code}`, ref: null });
+      ledger.push({
+        block_id: child.id,
+        kind: "offcut_created",
+        volume_m3: child.volume_m3,
+        delta_m3: child.volume_m3,
+        value,
+        delta_value: value,
+        user_id: users.cutter,
+        at: p.at,
+        reason: `Offcut of ${p.code}`,
+        ref: null,
+      });
       if (child.status === "cut") {
         const at = new Date(p.at.getTime() + 5 * 86400_000);
-        ledger.push({ block_id: child.id, kind: "consumed", volume_m3: child.volume_m3, delta_m3: `-${child.volume_m3}`, value, delta_value: -value, user_id: users.cutter, at, reason: "Cut to plan", ref: null });
+        ledger.push({
+          block_id: child.id,
+          kind: "consumed",
+          volume_m3: child.volume_m3,
+          delta_m3: `-${child.volume_m3}`,
+          value,
+          delta_value: -value,
+          user_id: users.cutter,
+          at,
+          reason: "Cut to plan",
+          ref: null,
+        });
       }
     }
   }

@@ -33,17 +33,24 @@ function rng(seed: number) {
 
 /** A 640 × 480 JPEG of foam with a blotch; the same defect id gives the same picture. */
 export async function demoPhoto(defectId: number, kind: string): Promise<Buffer> {
-  const W = 640, H = 480;
+  const W = 640,
+    H = 480;
   const r = rng(defectId * 7919 + 17);
   const look = LOOK[kind] ?? LOOK.other!;
   const beads: string[] = [];
   for (let i = 0; i < 900; i++) {
-    const x = r() * W, y = r() * H, rad = 7 + r() * 9;
+    const x = r() * W,
+      y = r() * H,
+      rad = 7 + r() * 9;
     const shade = Math.round(214 + r() * 22);
-    beads.push(`<circle cx="${x.toFixed(1)}" cy="${y.toFixed(1)}" r="${rad.toFixed(1)}" fill="rgb(${shade},${shade - 2},${shade - 7})" stroke="#c9c4b8" stroke-width="0.8"/>`);
+    beads.push(
+      `<circle cx="${x.toFixed(1)}" cy="${y.toFixed(1)}" r="${rad.toFixed(1)}" fill="rgb(${shade},${shade - 2},${shade - 7})" stroke="#c9c4b8" stroke-width="0.8"/>`,
+    );
   }
-  const cx = W * (0.35 + r() * 0.3), cy = H * (0.35 + r() * 0.3);
-  const rx = W * look.r * (0.8 + r() * 0.4), ry = H * look.r * (0.6 + r() * 0.5);
+  const cx = W * (0.35 + r() * 0.3),
+    cy = H * (0.35 + r() * 0.3);
+  const rx = W * look.r * (0.8 + r() * 0.4),
+    ry = H * look.r * (0.6 + r() * 0.5);
   const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}">
     <defs><filter id="soft"><feGaussianBlur stdDeviation="${look.blur}"/></filter>
     <linearGradient id="light" x1="0" y1="0" x2="1" y2="1"><stop offset="0" stop-color="#fff" stop-opacity="0.18"/><stop offset="1" stop-color="#000" stop-opacity="0.12"/></linearGradient></defs>
@@ -70,7 +77,12 @@ export async function seed(knex: Knex): Promise<void> {
       .leftJoin("defect_photos as p", "p.defect_id", "z.id")
       .whereNull("p.id")
       .orderBy("z.id")
-      .select("z.id", "z.kind", "z.found_by", "z.found_at")) as { id: number; kind: string; found_by: string | null; found_at: Date }[];
+      .select("z.id", "z.kind", "z.found_by", "z.found_at")) as {
+      id: number;
+      kind: string;
+      found_by: string | null;
+      found_at: Date;
+    }[];
     for (const z of zones) {
       const bytes = new Uint8Array(await demoPhoto(z.id, z.kind));
       const photo = await preparePhoto(bytes, sniffImage(bytes)!);

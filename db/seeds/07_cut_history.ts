@@ -16,7 +16,13 @@ function rng(seed: number) {
   };
 }
 
-const CUSTOMERS = ["Larkspur Model Flyers", "Copperleaf Signs", "Meridian Stage Co.", "Brackwater Museum", "Fennick Architectural"];
+const CUSTOMERS = [
+  "Larkspur Model Flyers",
+  "Copperleaf Signs",
+  "Meridian Stage Co.",
+  "Brackwater Museum",
+  "Fennick Architectural",
+];
 const PARTS: { name: string; size: [number, number, number]; profiled: boolean }[] = [
   { name: "Wing core", size: [420, 230, 40], profiled: true },
   { name: "Letter blank", size: [600, 400, 100], profiled: true },
@@ -35,8 +41,20 @@ export async function seed(knex: Knex): Promise<void> {
     .whereNull("b.parent_id")
     .where("b.status", "cut")
     .orderBy("l.at")
-    .select("b.id", "b.grade_id", "b.volume_m3", "l.at", knex.raw("(SELECT coalesce(sum(c.volume_m3), 0) FROM blocks c WHERE c.parent_id = b.id) AS offcut"), knex.raw("(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id) AS defects"))) as {
-    id: number; grade_id: number; volume_m3: string; at: Date; offcut: string; defects: string;
+    .select(
+      "b.id",
+      "b.grade_id",
+      "b.volume_m3",
+      "l.at",
+      knex.raw("(SELECT coalesce(sum(c.volume_m3), 0) FROM blocks c WHERE c.parent_id = b.id) AS offcut"),
+      knex.raw("(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id) AS defects"),
+    )) as {
+    id: number;
+    grade_id: number;
+    volume_m3: string;
+    at: Date;
+    offcut: string;
+    defects: string;
   }[];
   if (!cut.length) return;
 
@@ -49,13 +67,30 @@ export async function seed(knex: Knex): Promise<void> {
   let n = 0;
   for (const [month, blocks] of months) {
     const customer = CUSTOMERS[n++ % CUSTOMERS.length]!;
-    const [job] = await knex("jobs").insert({ name: `${customer.split(" ")[0]} order ${month}`, customer, due_on: `${month}-28`, status: "done", created_by: "u-planner", created_at: blocks[0]!.at }).returning("id");
+    const [job] = await knex("jobs")
+      .insert({
+        name: `${customer.split(" ")[0]} order ${month}`,
+        customer,
+        due_on: `${month}-28`,
+        status: "done",
+        created_by: "u-planner",
+        created_at: blocks[0]!.at,
+      })
+      .returning("id");
     const chosen = [PARTS[n % PARTS.length]!, PARTS[(n + 2) % PARTS.length]!];
     const parts = await knex("job_parts")
-      .insert(chosen.map((p) => ({
-        job_id: job.id, name: p.name, quantity: 40, size_x: p.size[0], size_y: p.size[1], size_z: p.size[2], grade_id: blocks[0]!.grade_id,
-        true_volume_mm3: p.profiled ? Math.round(p.size[0] * p.size[1] * p.size[2] * (0.62 + r() * 0.2)) : null,
-      })))
+      .insert(
+        chosen.map((p) => ({
+          job_id: job.id,
+          name: p.name,
+          quantity: 40,
+          size_x: p.size[0],
+          size_y: p.size[1],
+          size_z: p.size[2],
+          grade_id: blocks[0]!.grade_id,
+          true_volume_mm3: p.profiled ? Math.round(p.size[0] * p.size[1] * p.size[2] * (0.62 + r() * 0.2)) : null,
+        })),
+      )
       .returning(["id", "true_volume_mm3", "size_x", "size_y", "size_z"]);
     for (const b of blocks) {
       const block = Number(b.volume_m3);
@@ -66,24 +101,66 @@ export async function seed(knex: Knex): Promise<void> {
       const reject = block * r() * 0.015;
       const part = Math.max(0, (block - offcut) * (0.58 + r() * 0.2));
       const unusable = Math.max(0, block - offcut - part - trim - kerf - defect - reject);
-      const bases = parts.map((p: { true_volume_mm3: string | null }) => (p.true_volume_mm3 === null ? "box" : "profile"));
+      const bases = parts.map((p: { true_volume_mm3: string | null }) =>
+        p.true_volume_mm3 === null ? "box" : "profile",
+      );
       const [run] = await knex("nesting_runs")
         .insert({
-          status: "closed", job_ids: [job.id], block_ids: [b.id], settings: JSON.stringify({ seeded: true }), problem: JSON.stringify({ seeded: true }), progress: 1,
-          created_by: "u-planner", created_at: new Date(b.at.getTime() - 2 * 86400_000), finished_at: new Date(b.at.getTime() - 2 * 86400_000), approved_by: "u-planner", approved_at: new Date(b.at.getTime() - 86400_000),
+          status: "closed",
+          job_ids: [job.id],
+          block_ids: [b.id],
+          settings: JSON.stringify({ seeded: true }),
+          problem: JSON.stringify({ seeded: true }),
+          progress: 1,
+          created_by: "u-planner",
+          created_at: new Date(b.at.getTime() - 2 * 86400_000),
+          finished_at: new Date(b.at.getTime() - 2 * 86400_000),
+          approved_by: "u-planner",
+          approved_at: new Date(b.at.getTime() - 86400_000),
         })
         .returning("id");
       await knex("plan_blocks").insert({
-        run_id: run.id, block_id: b.id, status: "cut", cut_at: b.at, cut_by: "u-cutter", block_volume_m3: block, part_volume_m3: part, offcut_volume_m3: offcut,
-        loss_trim_m3: trim, loss_kerf_m3: kerf, loss_defect_m3: defect, loss_unusable_m3: unusable, loss_reject_m3: reject, volume_basis: new Set(bases).size > 1 ? "mixed" : bases[0],
+        run_id: run.id,
+        block_id: b.id,
+        status: "cut",
+        cut_at: b.at,
+        cut_by: "u-cutter",
+        block_volume_m3: block,
+        part_volume_m3: part,
+        offcut_volume_m3: offcut,
+        loss_trim_m3: trim,
+        loss_kerf_m3: kerf,
+        loss_defect_m3: defect,
+        loss_unusable_m3: unusable,
+        loss_reject_m3: reject,
+        volume_basis: new Set(bases).size > 1 ? "mixed" : bases[0],
       });
       const share = 0.4 + r() * 0.3;
       await knex("cut_parts").insert(
-        parts.map((p: { id: number; true_volume_mm3: string | null; size_x: string; size_y: string; size_z: string }, i: number) => {
-          const each = (p.true_volume_mm3 === null ? Number(p.size_x) * Number(p.size_y) * Number(p.size_z) : Number(p.true_volume_mm3)) / 1e9;
-          const v = part * (i === 0 ? share : 1 - share);
-          return { run_id: run.id, block_id: b.id, job_part_id: p.id, good_count: Math.max(1, Math.round(v / each)), rejected_count: reject > 0.01 && i === 0 ? 1 : 0, reject_reason: reject > 0.01 && i === 0 ? "Wire wander on the trailing edge" : null, part_volume_m3: v, volume_basis: p.true_volume_mm3 === null ? "box" : "profile", recorded_by: "u-cutter", recorded_at: b.at };
-        }),
+        parts.map(
+          (
+            p: { id: number; true_volume_mm3: string | null; size_x: string; size_y: string; size_z: string },
+            i: number,
+          ) => {
+            const each =
+              (p.true_volume_mm3 === null
+                ? Number(p.size_x) * Number(p.size_y) * Number(p.size_z)
+                : Number(p.true_volume_mm3)) / 1e9;
+            const v = part * (i === 0 ? share : 1 - share);
+            return {
+              run_id: run.id,
+              block_id: b.id,
+              job_part_id: p.id,
+              good_count: Math.max(1, Math.round(v / each)),
+              rejected_count: reject > 0.01 && i === 0 ? 1 : 0,
+              reject_reason: reject > 0.01 && i === 0 ? "Wire wander on the trailing edge" : null,
+              part_volume_m3: v,
+              volume_basis: p.true_volume_mm3 === null ? "box" : "profile",
+              recorded_by: "u-cutter",
+              recorded_at: b.at,
+            };
+          },
+        ),
       );
     }
   }

@@ -11,7 +11,9 @@ export async function changeOwnPassword(user: CurrentUser, current: string, next
     throw new HttpError(400, "Some fields need attention.", { currentPassword: "That is not your current password." });
   }
   if (current === next) {
-    throw new HttpError(400, "Some fields need attention.", { newPassword: "Choose a password different from the current one." });
+    throw new HttpError(400, "Some fields need attention.", {
+      newPassword: "Choose a password different from the current one.",
+    });
   }
   await setPassword(user.id, await hashPassword(next), { temporary: false, actorId: user.id });
   await startSession(user.id);

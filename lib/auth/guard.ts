@@ -72,11 +72,20 @@ export function errorResponse(e: unknown): NextResponse {
   const pgCode = (e as { code?: unknown } | null)?.code;
   if (typeof pgCode === "string" && (/^22[0-9A-Z]{3}$/.test(pgCode) || pgCode === "23514")) {
     console.warn("[api] refused by the database (data exception)", pgCode, (e as Error).message?.slice(-200));
-    return NextResponse.json({ error: "A value cannot be stored: it is out of range or holds characters that are not allowed (such as NUL). Nothing was changed." }, { status: 400 });
+    return NextResponse.json(
+      {
+        error:
+          "A value cannot be stored: it is out of range or holds characters that are not allowed (such as NUL). Nothing was changed.",
+      },
+      { status: 400 },
+    );
   }
   if (pgCode === "23505") {
     console.warn("[api] refused by the database (unique)", (e as { constraint?: string }).constraint);
-    return NextResponse.json({ error: "Another request saved the same code or name a moment ago. Nothing was changed; check and try again." }, { status: 409 });
+    return NextResponse.json(
+      { error: "Another request saved the same code or name a moment ago. Nothing was changed; check and try again." },
+      { status: 409 },
+    );
   }
   if (isDatabaseDown(e)) {
     return NextResponse.json(

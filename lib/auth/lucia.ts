@@ -37,7 +37,9 @@ class SessionStore implements Adapter {
   }
 
   async getUserSessions(userId: string): Promise<DatabaseSession[]> {
-    const rows: { id: string; user_id: string; expires_at: Date }[] = await db()("user_sessions").where({ user_id: userId }).select("id", "user_id", "expires_at");
+    const rows: { id: string; user_id: string; expires_at: Date }[] = await db()("user_sessions")
+      .where({ user_id: userId })
+      .select("id", "user_id", "expires_at");
     return rows.map((r) => ({ id: r.id, userId: r.user_id, expiresAt: r.expires_at, attributes: {} }));
   }
 

@@ -26,7 +26,9 @@ export async function signIn(emailRaw: string, password: string): Promise<string
   const client = await clientAddress();
   await checkThrottle(account, client);
   const user = account ? await findUserForSignIn(account) : undefined;
-  const ok = user ? await verifyPassword(user.password_hash, password) : (await verifyPassword(await dummyHash(), password), false);
+  const ok = user
+    ? await verifyPassword(user.password_hash, password)
+    : (await verifyPassword(await dummyHash(), password), false);
   if (!user || !ok || !user.active) {
     await recordFailure(account, client);
     throw new HttpError(401, SIGN_IN_FAILED);

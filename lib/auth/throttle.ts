@@ -10,16 +10,34 @@ export const MAX_PER_CLIENT = 30;
 export async function checkThrottle(account: string, client: string): Promise<void> {
   const since = new Date(Date.now() - WINDOW_MS);
   const [acc, cli] = await Promise.all([
-    db()("sign_in_failures").where("account", account).where("at", ">", since).count<{ n: string }[]>({ n: "*" }).min({ first: "at" }).first(),
-    db()("sign_in_failures").where("client", client).where("at", ">", since).count<{ n: string }[]>({ n: "*" }).min({ first: "at" }).first(),
+    db()("sign_in_failures")
+      .where("account", account)
+      .where("at", ">", since)
+      .count<{ n: string }[]>({ n: "*" })
+      .min({ first: "at" })
+      .first(),
+    db()("sign_in_failures")
+      .where("client", client)
+      .where("at", ">", since)
+      .count<{ n: string }[]>({ n: "*" })
+      .min({ first: "at" })
+      .first(),
   ]);
-  for (const [row, max] of [[acc, MAX_PER_ACCOUNT], [cli, MAX_PER_CLIENT]] as const) {
+  for (const [row, max] of [
+    [acc, MAX_PER_ACCOUNT],
+    [cli, MAX_PER_CLIENT],
+  ] as const) {
     const r = row as unknown as { n: string; first: Date | null } | undefined;
     if (r && Number(r.n) >= max && r.first) {
       const retry = Math.max(1, Math.ceil((new Date(r.first).getTime() + WINDOW_MS - Date.now()) / 1000));
-      throw new HttpError(429, `Too many failed sign-ins. Try again in ${Math.ceil(retry / 60)} minute(s).`, undefined, {
-        "Retry-After": String(retry),
-      });
+      throw new HttpError(
+        429,
+        `Too many failed sign-ins. Try again in ${Math.ceil(retry / 60)} minute(s).`,
+        undefined,
+        {
+          "Retry-After": String(retry),
+        },
+      );
     }
   }
 }

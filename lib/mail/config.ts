@@ -9,11 +9,24 @@ import { z } from "zod";
  *   development, tests and the demo.
  */
 export type MailConfig =
-  | { kind: "smtp"; from: string; url?: string; host?: string; port?: number; secure?: boolean; user?: string; pass?: string }
+  | {
+      kind: "smtp";
+      from: string;
+      url?: string;
+      host?: string;
+      port?: number;
+      secure?: boolean;
+      user?: string;
+      pass?: string;
+    }
   | { kind: "outbox"; from: string; dir: string };
 
 const schema = z.object({
-  SMTP_URL: z.string().trim().regex(/^smtps?:\/\//, "SMTP_URL must start with smtp:// or smtps://").optional(),
+  SMTP_URL: z
+    .string()
+    .trim()
+    .regex(/^smtps?:\/\//, "SMTP_URL must start with smtp:// or smtps://")
+    .optional(),
   SMTP_HOST: z.string().trim().min(1).optional(),
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).optional(),
   SMTP_USER: z.string().optional(),
@@ -25,11 +38,20 @@ const schema = z.object({
 
 export function mailConfig(env: Record<string, string | undefined> = process.env): MailConfig {
   const e = schema.safeParse(Object.fromEntries(Object.entries(env).filter(([, v]) => v !== "")));
-  if (!e.success) throw new Error(`Mail settings: ${e.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`);
+  if (!e.success)
+    throw new Error(`Mail settings: ${e.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`);
   const v = e.data;
   if (v.SMTP_URL) return { kind: "smtp", from: v.MAIL_FROM, url: v.SMTP_URL };
   if (v.SMTP_HOST) {
-    return { kind: "smtp", from: v.MAIL_FROM, host: v.SMTP_HOST, port: v.SMTP_PORT ?? 587, secure: v.SMTP_SECURE === "true", user: v.SMTP_USER, pass: v.SMTP_PASS };
+    return {
+      kind: "smtp",
+      from: v.MAIL_FROM,
+      host: v.SMTP_HOST,
+      port: v.SMTP_PORT ?? 587,
+      secure: v.SMTP_SECURE === "true",
+      user: v.SMTP_USER,
+      pass: v.SMTP_PASS,
+    };
   }
   return { kind: "outbox", from: v.MAIL_FROM, dir: path.resolve(v.MAIL_OUTBOX_DIR ?? path.join(".data", "outbox")) };
 }

@@ -27,7 +27,9 @@ export function purchaseOrderMail(po: PurchaseOrder, shopName: string): Outgoing
     "",
     "Quantities within ±10 % of each line are accepted on delivery. Please quote the order number on the delivery note and give each block's lot and moulding date.",
     "The order is attached as a CSV file.",
-  ].filter((l, i, all) => l !== "" || all[i - 1] !== "").join("\n");
+  ]
+    .filter((l, i, all) => l !== "" || all[i - 1] !== "")
+    .join("\n");
   const html = `<p>Purchase order <strong>${esc(po.number)}</strong> from ${esc(shopName)}</p><ol>${lines.map((l) => `<li>${esc(l.replace(/^\d+\. /, ""))}</li>`).join("")}</ol><p>Total: ${po.volumeM3.toFixed(3)} m³, ${money(po.value)}<br>${po.expectedOn ? `Wanted by: ${esc(po.expectedOn)}` : "Wanted by: please tell us your date."}</p>${po.notes ? `<p>${esc(po.notes)}</p>` : ""}<p>Quantities within ±10 % of each line are accepted on delivery. Please quote the order number on the delivery note and give each block's lot and moulding date.</p>`;
   return {
     to: po.supplierEmail,
@@ -50,11 +52,18 @@ export interface LowStockLine {
 /** The buyers' alert: the grades at or under their reorder point, with what to order. */
 export function lowStockMail(to: string, items: LowStockLine[], shopName: string, appUrl: string | null): OutgoingMail {
   const lines = items.map(
-    (g) => `- ${g.gradeCode}: ${g.position.toFixed(2)} m³ on hand and on order, reorder point ${g.reorderPoint.toFixed(2)} m³; suggest ${g.suggestedBlocks !== null ? `${g.suggestedBlocks} blocks (${g.suggestedM3.toFixed(2)} m³)` : `${g.suggestedM3.toFixed(2)} m³`}${g.supplier ? ` from ${g.supplier}` : ""}`,
+    (g) =>
+      `- ${g.gradeCode}: ${g.position.toFixed(2)} m³ on hand and on order, reorder point ${g.reorderPoint.toFixed(2)} m³; suggest ${g.suggestedBlocks !== null ? `${g.suggestedBlocks} blocks (${g.suggestedM3.toFixed(2)} m³)` : `${g.suggestedM3.toFixed(2)} m³`}${g.supplier ? ` from ${g.supplier}` : ""}`,
   );
   return {
     to,
     subject: `${items.length} grade${items.length === 1 ? "" : "s"} at or under the reorder point — ${shopName}`,
-    text: [`These grades are at or under their reorder point:`, "", ...lines, "", appUrl ? `Reorder list: ${appUrl}/purchasing` : "Open the reorder list in Blockyard to draft orders."].join("\n"),
+    text: [
+      `These grades are at or under their reorder point:`,
+      "",
+      ...lines,
+      "",
+      appUrl ? `Reorder list: ${appUrl}/purchasing` : "Open the reorder list in Blockyard to draft orders.",
+    ].join("\n"),
   };
 }

@@ -12,7 +12,10 @@ export type MailKind = "purchase_order" | "low_stock" | "other";
  * failed, so the admin's outbox page shows every attempt. A failure is answered with 502 naming
  * the mail server's reason; nothing else is rolled back by it.
  */
-export async function sendMail(mail: OutgoingMail, meta: { kind: MailKind; ref?: string | null; sentBy?: string | null }): Promise<Delivered> {
+export async function sendMail(
+  mail: OutgoingMail,
+  meta: { kind: MailKind; ref?: string | null; sentBy?: string | null },
+): Promise<Delivered> {
   const config = mailConfig();
   const row = {
     kind: meta.kind,
@@ -25,7 +28,12 @@ export async function sendMail(mail: OutgoingMail, meta: { kind: MailKind; ref?:
   };
   try {
     const sent = await deliver(config, mail);
-    await db()("mail_outbox").insert({ ...row, status: "sent", message_id: sent.messageId, file: sent.file ? path.relative(process.cwd(), sent.file) : null });
+    await db()("mail_outbox").insert({
+      ...row,
+      status: "sent",
+      message_id: sent.messageId,
+      file: sent.file ? path.relative(process.cwd(), sent.file) : null,
+    });
     return sent;
   } catch (e) {
     const reason = e instanceof Error ? e.message : String(e);

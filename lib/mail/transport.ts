@@ -25,7 +25,14 @@ export interface Delivered {
  * with nodemailer's streamTransport and keeps it as an .eml file a mail client can open.
  */
 export async function deliver(config: MailConfig, mail: OutgoingMail): Promise<Delivered> {
-  const message = { from: config.from, to: mail.to, subject: mail.subject, text: mail.text, html: mail.html, attachments: mail.attachments };
+  const message = {
+    from: config.from,
+    to: mail.to,
+    subject: mail.subject,
+    text: mail.text,
+    html: mail.html,
+    attachments: mail.attachments,
+  };
   if (config.kind === "outbox") {
     const t = nodemailer.createTransport({ streamTransport: true, buffer: true, newline: "unix" });
     const info = await t.sendMail(message);
@@ -37,8 +44,18 @@ export async function deliver(config: MailConfig, mail: OutgoingMail): Promise<D
   }
   const options: SMTPTransport.Options = config.url
     ? { url: config.url }
-    : { host: config.host, port: config.port, secure: config.secure, auth: config.user ? { user: config.user, pass: config.pass ?? "" } : undefined };
-  const t = nodemailer.createTransport({ ...options, connectionTimeout: 10_000, greetingTimeout: 10_000, socketTimeout: 20_000 });
+    : {
+        host: config.host,
+        port: config.port,
+        secure: config.secure,
+        auth: config.user ? { user: config.user, pass: config.pass ?? "" } : undefined,
+      };
+  const t = nodemailer.createTransport({
+    ...options,
+    connectionTimeout: 10_000,
+    greetingTimeout: 10_000,
+    socketTimeout: 20_000,
+  });
   try {
     const info = await t.sendMail(message);
     return { transport: "smtp", messageId: info.messageId, file: null };

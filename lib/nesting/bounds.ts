@@ -190,7 +190,11 @@ export function lowerBoundBlocks(problem: Problem): number {
     if (items.length === 0 || blocks.length === 0) return 0;
     const first = usable(blocks[0]!);
     const identical = blocks.every((b) => usable(b).every((v, a) => Math.abs(v - first[a]!) < 1e-9));
-    if (identical) return Math.min(blocks.length, Math.max(volumeBound(first, items, kerf), largeItemBound(first, items, kerf), scaleBound(first, items, kerf)));
+    if (identical)
+      return Math.min(
+        blocks.length,
+        Math.max(volumeBound(first, items, kerf), largeItemBound(first, items, kerf), scaleBound(first, items, kerf)),
+      );
     const total = prepare(items, kerf).reduce((s, it) => s + it.vol * it.count, 0);
     const caps = blocks.map((b) => usable(b).reduce((s, v) => s * (v + kerf), 1)).sort((a, b) => b - a);
     let sum = 0;
@@ -202,7 +206,17 @@ export function lowerBoundBlocks(problem: Problem): number {
   };
   const grades = new Set(problem.parts.map((p) => p.grade).filter((g): g is string => g !== undefined));
   let byGrade = 0;
-  for (const g of grades) byGrade += boundFor(problem.blocks.filter((b) => b.grade === g), problem.parts.filter((p) => p.grade === g));
+  for (const g of grades)
+    byGrade += boundFor(
+      problem.blocks.filter((b) => b.grade === g),
+      problem.parts.filter((p) => p.grade === g),
+    );
   const compatibleAll = problem.blocks;
-  return Math.max(byGrade, boundFor(compatibleAll, problem.parts.filter((p) => p.grade === undefined || compatibleAll.some((b) => b.grade === p.grade))));
+  return Math.max(
+    byGrade,
+    boundFor(
+      compatibleAll,
+      problem.parts.filter((p) => p.grade === undefined || compatibleAll.some((b) => b.grade === p.grade)),
+    ),
+  );
 }

@@ -20,8 +20,18 @@ export function orientations(size: Vec3, rotate: Rotate): Vec3[] {
     rotate === "none"
       ? [[a, b, c]]
       : rotate === "z"
-        ? [[a, b, c], [b, a, c]]
-        : [[a, b, c], [b, a, c], [a, c, b], [c, a, b], [b, c, a], [c, b, a]];
+        ? [
+            [a, b, c],
+            [b, a, c],
+          ]
+        : [
+            [a, b, c],
+            [b, a, c],
+            [a, c, b],
+            [c, a, b],
+            [b, c, a],
+            [c, b, a],
+          ];
   const out: Vec3[] = [];
   for (const o of all) if (!out.some((p) => sameVec(p, o))) out.push(o);
   return out;
@@ -60,7 +70,8 @@ export function overlappingPairs(boxes: readonly Box[], eps = EPS): [number, num
   const n = boxes.length;
   const out: [number, number][] = [];
   if (n <= PAIRS_BY_HAND) {
-    for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) if (overlaps(boxes[i]!, boxes[j]!, eps)) out.push([i, j]);
+    for (let i = 0; i < n; i++)
+      for (let j = i + 1; j < n; j++) if (overlaps(boxes[i]!, boxes[j]!, eps)) out.push([i, j]);
     return out;
   }
   const lo: number[] = [Infinity, Infinity, Infinity];
@@ -77,7 +88,8 @@ export function overlappingPairs(boxes: readonly Box[], eps = EPS): [number, num
     const sides = boxes.map((b) => b.size[a]!).sort((p, q) => p - q);
     cell.push(Math.max((hi[a]! - lo[a]!) / perAxis, sides[sides.length >> 1]!, 1e-9));
   }
-  const at = (v: number, a: number): number => Math.min(cells[a]! - 1, Math.max(0, Math.floor((v - lo[a]!) / cell[a]!)));
+  const at = (v: number, a: number): number =>
+    Math.min(cells[a]! - 1, Math.max(0, Math.floor((v - lo[a]!) / cell[a]!)));
   // Many large boxes among small ones would each sit in thousands of cells: coarsen the grid until
   // the boxes take at most ~32 cells each on average (at worst one cell, every pair compared).
   for (;;) {
@@ -146,7 +158,12 @@ export function atLeastSorted(size: Vec3, min: Vec3, eps = EPS): boolean {
  * piece begins at least `kerf` past the end of everything before it. Returns the groups (indices)
  * and the cut positions (where each kerf starts).
  */
-export function splitAlong(boxes: readonly Box[], idx: readonly number[], axis: number, kerf: number): { groups: number[][]; cuts: number[] } {
+export function splitAlong(
+  boxes: readonly Box[],
+  idx: readonly number[],
+  axis: number,
+  kerf: number,
+): { groups: number[][]; cuts: number[] } {
   const order = [...idx].sort((i, j) => boxes[i]!.origin[axis]! - boxes[j]!.origin[axis]!);
   const groups: number[][] = [];
   const cuts: number[] = [];
@@ -215,14 +232,26 @@ export function separate(
 export function isLayer(boxes: readonly Box[], idx: readonly number[]): boolean {
   const first = boxes[idx[0]!]!;
   for (let a = 0; a < 3; a++) {
-    if (idx.every((i) => Math.abs(boxes[i]!.origin[a]! - first.origin[a]!) <= EPS && Math.abs(boxes[i]!.size[a]! - first.size[a]!) <= EPS)) return true;
+    if (
+      idx.every(
+        (i) =>
+          Math.abs(boxes[i]!.origin[a]! - first.origin[a]!) <= EPS &&
+          Math.abs(boxes[i]!.size[a]! - first.size[a]!) <= EPS,
+      )
+    )
+      return true;
   }
   return false;
 }
 
 /** The six orders three through cuts can be made in: x-y-z, x-z-y, y-x-z, y-z-x, z-x-y, z-y-x. */
 export const CUT_ORDERS: readonly (readonly [number, number, number])[] = [
-  [0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0],
+  [0, 1, 2],
+  [0, 2, 1],
+  [1, 0, 2],
+  [1, 2, 0],
+  [2, 0, 1],
+  [2, 1, 0],
 ];
 
 /** The leftover boxes when a piece `d` at the lower corner of box `f` is freed by cuts in `order`. */

@@ -9,7 +9,16 @@ import type { NestOptions, Plan, Problem } from "./types";
 export type * from "./types";
 export { parseProblem, parseProblemText, type ParseResult };
 export { validatePlan } from "./validate";
-export { lowerBoundBlocks, volumeBound, largeItemBound, scaleBound, dffRound, dffLarge, type BoundItem, type Dff } from "./bounds";
+export {
+  lowerBoundBlocks,
+  volumeBound,
+  largeItemBound,
+  scaleBound,
+  dffRound,
+  dffLarge,
+  type BoundItem,
+  type Dff,
+} from "./bounds";
 export { comparePlans, compareScores, scorePlan, type Score } from "./objective";
 
 const DEFAULT_ITERATIONS = 200;
@@ -25,7 +34,10 @@ function makeSearch(problem: Problem, options: NestOptions): Search {
 }
 
 function report(search: Search, options: NestOptions): void {
-  options.onProgress?.({ fraction: search.fraction(), best: { ...search.bestSummary(), lowerBoundBlocks: search.lowerBound } });
+  options.onProgress?.({
+    fraction: search.fraction(),
+    best: { ...search.bestSummary(), lowerBoundBlocks: search.lowerBound },
+  });
 }
 
 /**

@@ -55,7 +55,8 @@ export function scorePlan(problem: Problem, plan: Plan): Score {
  * @example compareScores(scorePlan(p, a), scorePlan(p, b)) < 0 // a is better
  */
 export function compareScores(a: Score, b: Score): number {
-  const rel = (x: number, y: number): number => (Math.abs(x - y) <= 1e-9 * Math.max(1, Math.abs(x), Math.abs(y)) ? 0 : x - y);
+  const rel = (x: number, y: number): number =>
+    Math.abs(x - y) <= 1e-9 * Math.max(1, Math.abs(x), Math.abs(y)) ? 0 : x - y;
   return (
     rel(b.placedVolume, a.placedVolume) ||
     rel(a.consumed, b.consumed) ||

@@ -19,21 +19,21 @@ class Reader {
     const v = o[key];
     const p = path ? `${path}.${key}` : key;
     if (v === undefined && dflt !== undefined) return dflt;
-    if (v === undefined) return this.err(p, "is required"), NaN;
+    if (v === undefined) return (this.err(p, "is required"), NaN);
     return this.checkNum(v, p, rule);
   }
   checkNum(v: unknown, p: string, rule: "pos" | "nonneg"): number {
-    if (!isNum(v)) return this.err(p, "must be a number"), NaN;
-    if (rule === "pos" && !(v > 0)) return this.err(p, "must be > 0"), NaN;
-    if (rule === "nonneg" && v < 0) return this.err(p, "must be >= 0"), NaN;
+    if (!isNum(v)) return (this.err(p, "must be a number"), NaN);
+    if (rule === "pos" && !(v > 0)) return (this.err(p, "must be > 0"), NaN);
+    if (rule === "nonneg" && v < 0) return (this.err(p, "must be >= 0"), NaN);
     return v;
   }
   vec3(o: Obj, key: string, path: string, rule: "pos" | "nonneg", dflt?: Vec3): Vec3 {
     const v = o[key];
     const p = `${path}.${key}`;
     if (v === undefined && dflt) return dflt;
-    if (v === undefined) return this.err(p, "is required"), [NaN, NaN, NaN];
-    if (!Array.isArray(v) || v.length !== 3) return this.err(p, "must be an array of 3 numbers"), [NaN, NaN, NaN];
+    if (v === undefined) return (this.err(p, "is required"), [NaN, NaN, NaN]);
+    if (!Array.isArray(v) || v.length !== 3) return (this.err(p, "must be an array of 3 numbers"), [NaN, NaN, NaN]);
     return [0, 1, 2].map((i) => this.checkNum(v[i], `${p}[${i}]`, rule)) as Vec3;
   }
   str(o: Obj, key: string, path: string, required: boolean): string | undefined {
@@ -43,8 +43,8 @@ class Reader {
       if (required) this.err(p, "is required");
       return undefined;
     }
-    if (typeof v !== "string") return this.err(p, "must be a string"), undefined;
-    if (required && v.trim() === "") return this.err(p, "must not be empty"), undefined;
+    if (typeof v !== "string") return (this.err(p, "must be a string"), undefined);
+    if (required && v.trim() === "") return (this.err(p, "must not be empty"), undefined);
     return v;
   }
   oneOf<T extends string>(o: Obj, key: string, path: string, allowed: readonly T[], dflt: T): T {
@@ -71,7 +71,7 @@ function readSettings(r: Reader, raw: unknown): Settings {
 }
 
 function readDefect(r: Reader, raw: unknown, path: string, size: Vec3): Defect | undefined {
-  if (!isObj(raw)) return r.err(path, "must be an object"), undefined;
+  if (!isObj(raw)) return (r.err(path, "must be an object"), undefined);
   const id = r.str(raw, "id", path, false);
   const min = r.vec3(raw, "min", path, "nonneg");
   const max = r.vec3(raw, "max", path, "nonneg");
@@ -89,7 +89,7 @@ function readDefect(r: Reader, raw: unknown, path: string, size: Vec3): Defect |
 
 function readBlock(r: Reader, raw: unknown, i: number, settings: Settings): Block | undefined {
   const path = `blocks[${i}]`;
-  if (!isObj(raw)) return r.err(path, "must be an object"), undefined;
+  if (!isObj(raw)) return (r.err(path, "must be an object"), undefined);
   const id = r.str(raw, "id", path, true) ?? "";
   const size = r.vec3(raw, "size", path, "pos");
   const grade = r.str(raw, "grade", path, false);
@@ -103,7 +103,10 @@ function readBlock(r: Reader, raw: unknown, i: number, settings: Settings): Bloc
   const trim = r.num(raw, "trim", path, "nonneg", offcut ? 0 : settings.trim);
   for (let a = 0; a < 3; a++) {
     if (Number.isFinite(size[a]!) && Number.isFinite(trim) && 2 * trim >= size[a]!) {
-      r.err(raw.trim === undefined ? "settings.trim" : `${path}.trim`, `leaves no usable material in ${path} (size[${a}] = ${size[a]})`);
+      r.err(
+        raw.trim === undefined ? "settings.trim" : `${path}.trim`,
+        `leaves no usable material in ${path} (size[${a}] = ${size[a]})`,
+      );
       break;
     }
   }
@@ -121,13 +124,14 @@ function readBlock(r: Reader, raw: unknown, i: number, settings: Settings): Bloc
 
 function readPart(r: Reader, raw: unknown, i: number): Part | undefined {
   const path = `parts[${i}]`;
-  if (!isObj(raw)) return r.err(path, "must be an object"), undefined;
+  if (!isObj(raw)) return (r.err(path, "must be an object"), undefined);
   const id = r.str(raw, "id", path, true) ?? "";
   const size = r.vec3(raw, "size", path, "pos");
   let quantity = 1;
   if (raw.quantity !== undefined) {
     if (!isNum(raw.quantity)) r.err(`${path}.quantity`, "must be a number");
-    else if (!Number.isInteger(raw.quantity) || raw.quantity < 1) r.err(`${path}.quantity`, "must be a whole number >= 1");
+    else if (!Number.isInteger(raw.quantity) || raw.quantity < 1)
+      r.err(`${path}.quantity`, "must be a whole number >= 1");
     else quantity = raw.quantity;
   }
   const grade = r.str(raw, "grade", path, false);
@@ -173,8 +177,18 @@ export function parseProblem(json: unknown): ParseResult {
       const part = readPart(r, p, i);
       if (part) parts.push(part);
     });
-  if (Array.isArray(json.blocks)) checkUnique(r, json.blocks.map((b) => (isObj(b) && typeof b.id === "string" ? b.id : undefined)), "blocks");
-  if (Array.isArray(json.parts)) checkUnique(r, json.parts.map((p) => (isObj(p) && typeof p.id === "string" ? p.id : undefined)), "parts");
+  if (Array.isArray(json.blocks))
+    checkUnique(
+      r,
+      json.blocks.map((b) => (isObj(b) && typeof b.id === "string" ? b.id : undefined)),
+      "blocks",
+    );
+  if (Array.isArray(json.parts))
+    checkUnique(
+      r,
+      json.parts.map((p) => (isObj(p) && typeof p.id === "string" ? p.id : undefined)),
+      "parts",
+    );
   if (r.errors.length > 0) return { ok: false, errors: r.errors };
   return { ok: true, problem: { version: 1, settings, blocks, parts } };
 }

@@ -1,8 +1,19 @@
-import { EPS, atLeastSorted, fromMinMax, grow, orientations, overlappingPairs, overlaps, separate, type Box } from "./geometry";
+import {
+  EPS,
+  atLeastSorted,
+  fromMinMax,
+  grow,
+  orientations,
+  overlappingPairs,
+  overlaps,
+  separate,
+  type Box,
+} from "./geometry";
 import type { Block, Part, Plan, Problem, Vec3 } from "./types";
 
 const fmt = (v: readonly number[]): string => `[${v.map((x) => +x.toFixed(4)).join(", ")}]`;
-const finiteVec = (v: unknown): v is Vec3 => Array.isArray(v) && v.length === 3 && v.every((x) => typeof x === "number" && Number.isFinite(x));
+const finiteVec = (v: unknown): v is Vec3 =>
+  Array.isArray(v) && v.length === 3 && v.every((x) => typeof x === "number" && Number.isFinite(x));
 
 interface Piece extends Box {
   name: string;
@@ -37,15 +48,20 @@ export function validatePlan(problem: Problem, plan: Plan): string[] {
     if (!part || !block) return;
     const key = `${pl.part}|${pl.block}|${fmt(pl.origin)}`;
     const dup = seen.get(key);
-    if (dup !== undefined) errors.push(`${name}: places part ${pl.part} in block ${pl.block} twice (same as placements[${dup}])`);
+    if (dup !== undefined)
+      errors.push(`${name}: places part ${pl.part} in block ${pl.block} twice (same as placements[${dup}])`);
     seen.set(key, i);
     placedCount.set(part.id, (placedCount.get(part.id) ?? 0) + 1);
     partVolume += part.size[0] * part.size[1] * part.size[2];
 
     if (part.grade !== undefined && part.grade !== block.grade)
-      errors.push(`${name}: part ${part.id} of grade ${part.grade} placed in block ${block.id} of grade ${block.grade ?? "(none)"}`);
+      errors.push(
+        `${name}: part ${part.id} of grade ${part.grade} placed in block ${block.id} of grade ${block.grade ?? "(none)"}`,
+      );
     if (!orientations(part.size, part.rotate).some((o) => o.every((v, a) => Math.abs(v - pl.size[a]!) <= EPS)))
-      errors.push(`${name}: size ${fmt(pl.size)} is not an orientation of part ${part.id} ${fmt(part.size)} allowed by rotate "${part.rotate}"`);
+      errors.push(
+        `${name}: size ${fmt(pl.size)} is not an orientation of part ${part.id} ${fmt(part.size)} allowed by rotate "${part.rotate}"`,
+      );
     for (let a = 0; a < 3; a++) {
       if (pl.origin[a]! < block.trim - EPS || pl.origin[a]! + pl.size[a]! > block.size[a]! - block.trim + EPS) {
         errors.push(`${name}: outside the usable box of block ${block.id} on ${"xyz"[a]} (trim ${block.trim})`);
@@ -54,7 +70,10 @@ export function validatePlan(problem: Problem, plan: Plan): string[] {
     }
     for (const [j, d] of block.defects.entries()) {
       const zone = grow(fromMinMax(d.min, d.max), defectMargin);
-      if (overlaps(pl, zone)) errors.push(`${name}: meets defect ${d.id ?? `#${j}`} of block ${block.id} grown by the margin ${defectMargin}`);
+      if (overlaps(pl, zone))
+        errors.push(
+          `${name}: meets defect ${d.id ?? `#${j}`} of block ${block.id} grown by the margin ${defectMargin}`,
+        );
     }
     const list = pieces.get(block.id) ?? [];
     list.push({ origin: pl.origin, size: pl.size, name });
@@ -65,9 +84,11 @@ export function validatePlan(problem: Problem, plan: Plan): string[] {
     const name = `offcuts[${i}]`;
     const block = blocks.get(oc.block);
     if (!block) return void errors.push(`${name}: unknown block "${oc.block}"`);
-    if (!finiteVec(oc.origin) || !finiteVec(oc.size)) return void errors.push(`${name}: origin and size must be 3 finite numbers`);
+    if (!finiteVec(oc.origin) || !finiteVec(oc.size))
+      return void errors.push(`${name}: origin and size must be 3 finite numbers`);
     if (oc.size.some((v) => v <= 0)) errors.push(`${name}: size must be > 0`);
-    if (!atLeastSorted(oc.size, minOffcut)) errors.push(`${name}: size ${fmt(oc.size)} is smaller than minOffcut ${fmt(minOffcut)} (sorted comparison)`);
+    if (!atLeastSorted(oc.size, minOffcut))
+      errors.push(`${name}: size ${fmt(oc.size)} is smaller than minOffcut ${fmt(minOffcut)} (sorted comparison)`);
     for (let a = 0; a < 3; a++) {
       if (oc.origin[a]! < -EPS || oc.origin[a]! + oc.size[a]! > block.size[a]! + EPS) {
         errors.push(`${name}: outside block ${block.id} on ${"xyz"[a]}`);
@@ -87,7 +108,9 @@ export function validatePlan(problem: Problem, plan: Plan): string[] {
     if (layout === "free") continue;
     const { stuck } = separate(list, kerf, layout);
     for (const idx of stuck)
-      errors.push(`block ${blockId}: ${idx.map((i) => list[i]!.name).join(", ")} cannot be separated by through cuts (layout ${layout})`);
+      errors.push(
+        `block ${blockId}: ${idx.map((i) => list[i]!.name).join(", ")} cannot be separated by through cuts (layout ${layout})`,
+      );
   }
 
   const unplacedCount = new Map<string, number>();
@@ -100,16 +123,19 @@ export function validatePlan(problem: Problem, plan: Plan): string[] {
   for (const p of problem.parts) {
     const placed = placedCount.get(p.id) ?? 0;
     const unplaced = unplacedCount.get(p.id) ?? 0;
-    if (placed + unplaced !== p.quantity) errors.push(`part ${p.id}: placed ${placed} + unplaced ${unplaced} differs from quantity ${p.quantity}`);
+    if (placed + unplaced !== p.quantity)
+      errors.push(`part ${p.id}: placed ${placed} + unplaced ${unplaced} differs from quantity ${p.quantity}`);
   }
-  for (const blockId of Object.keys(plan.cuts ?? {})) if (!blocks.has(blockId)) errors.push(`cuts.${blockId}: unknown block`);
+  for (const blockId of Object.keys(plan.cuts ?? {}))
+    if (!blocks.has(blockId)) errors.push(`cuts.${blockId}: unknown block`);
 
   const s = plan.stats;
   if (!s) errors.push("stats: is required");
   else {
     const used = new Set((plan.placements ?? []).map((p) => p.block)).size;
     if (s.blocksUsed !== used) errors.push(`stats.blocksUsed: ${s.blocksUsed} but the placements use ${used} blocks`);
-    if (Math.abs(s.partVolume - partVolume) > 1e-6 * Math.max(1, partVolume)) errors.push(`stats.partVolume: ${s.partVolume} but the placements hold ${partVolume}`);
+    if (Math.abs(s.partVolume - partVolume) > 1e-6 * Math.max(1, partVolume))
+      errors.push(`stats.partVolume: ${s.partVolume} but the placements hold ${partVolume}`);
   }
   return errors;
 }

@@ -2,8 +2,14 @@ import type { Cut } from "@/lib/nesting";
 import { AXIS_NAMES, separate } from "@/lib/nesting/geometry";
 
 type V3 = [number, number, number];
-export interface Box { min: V3; max: V3 }
-export interface RegionCut extends Cut { n: number; region: Box }
+export interface Box {
+  min: V3;
+  max: V3;
+}
+export interface RegionCut extends Cut {
+  n: number;
+  region: Box;
+}
 
 const AX = { x: 0, y: 1, z: 2 } as const;
 
@@ -47,26 +53,32 @@ function regionsBySeparation(block: Box, cuts: Cut[], kerf: number, pieces: Box[
       regionOf.set(g, sub);
     });
   });
-  const same = out.length === cuts.length && out.every((c, i) => c.axis === cuts[i]!.axis && Math.abs(c.at - cuts[i]!.at) <= 1e-6);
+  const same =
+    out.length === cuts.length && out.every((c, i) => c.axis === cuts[i]!.axis && Math.abs(c.at - cuts[i]!.at) <= 1e-6);
   return same ? out : undefined;
 }
 
 /** Cuts in order, each splitting the first region with pieces on both sides of it (else the first it crosses). */
 function regionsByReplay(block: Box, cuts: Cut[], kerf: number, pieces: Box[]): RegionCut[] {
   const eps = 1e-6;
-  const inside = (p: Box, r: Box) => p.min.every((v, i) => v >= r.min[i]! - eps) && p.max.every((v, i) => v <= r.max[i]! + eps);
+  const inside = (p: Box, r: Box) =>
+    p.min.every((v, i) => v >= r.min[i]! - eps) && p.max.every((v, i) => v <= r.max[i]! + eps);
   // Each region keeps the pieces inside it, so a cut looks only at its own region's pieces.
   let regions: { box: Box; held: Box[] }[] = [{ box: block, held: pieces.filter((p) => inside(p, block)) }];
   return cuts.map((cut, i) => {
     const a = AX[cut.axis];
     const crosses = regions.filter((r) => r.box.min[a]! < cut.at + eps && cut.at < r.box.max[a]! - eps);
-    const splitting = crosses.find((r) => r.held.some((p) => p.max[a]! <= cut.at + eps) && r.held.some((p) => p.min[a]! >= cut.at + kerf - eps));
+    const splitting = crosses.find(
+      (r) => r.held.some((p) => p.max[a]! <= cut.at + eps) && r.held.some((p) => p.min[a]! >= cut.at + kerf - eps),
+    );
     const region = splitting ?? crosses[0] ?? regions[0]!;
     const lower = copy(region.box);
     const upper = copy(region.box);
     lower.max[a] = cut.at;
     upper.min[a] = Math.min(region.box.max[a]!, cut.at + kerf);
-    regions = regions.filter((r) => r !== region).concat([lower, upper].map((box) => ({ box, held: region.held.filter((p) => inside(p, box)) })));
+    regions = regions
+      .filter((r) => r !== region)
+      .concat([lower, upper].map((box) => ({ box, held: region.held.filter((p) => inside(p, box)) })));
     return { ...cut, n: i + 1, region: region.box };
   });
 }
@@ -78,9 +90,13 @@ export function travelAcross(cut: RegionCut): number {
 }
 
 /** The pieces of a plan: placed parts and kept offcuts, each in a block. */
-type PlanPieces = { placements: { block: string; origin: V3; size: V3 }[]; offcuts: { block: string; origin: V3; size: V3 }[] };
+type PlanPieces = {
+  placements: { block: string; origin: V3; size: V3 }[];
+  offcuts: { block: string; origin: V3; size: V3 }[];
+};
 
-const inBlock = (plan: PlanPieces, blockId: string) => [...plan.placements, ...plan.offcuts].filter((p) => p.block === blockId);
+const inBlock = (plan: PlanPieces, blockId: string) =>
+  [...plan.placements, ...plan.offcuts].filter((p) => p.block === blockId);
 
 /** The pieces (placements and offcuts) a plan puts in one block, as boxes. */
 export function piecesOf(plan: PlanPieces, blockId: string): Box[] {

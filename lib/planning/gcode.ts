@@ -10,7 +10,14 @@ import { cutRegions, travelAcross, type Box } from "./cut-regions";
  *
  *   gcode({ code: "HF-1001", size: [2440, 1220, 610], cuts: [{ axis: "z", at: 300 }], kerf: 1.5, feed: 300 })
  */
-export function gcode(input: { code: string; size: [number, number, number]; cuts: Cut[]; kerf: number; feed: number; clearance?: number }): string {
+export function gcode(input: {
+  code: string;
+  size: [number, number, number];
+  cuts: Cut[];
+  kerf: number;
+  feed: number;
+  clearance?: number;
+}): string {
   const c = input.clearance ?? 10;
   const [lx, ly, lz] = input.size;
   const f = (n: number) => (Math.round(n * 1000) / 1000).toFixed(3).replace(/\.?0+$/, "") || "0";
@@ -53,8 +60,17 @@ function sanitize(s: string): string {
  * piece of foam it splits (see cutRegions), plus entry and exit clearance. Without the pieces the
  * whole block is assumed for every cut, which errs high.
  */
-export function cutEstimate(size: [number, number, number], cuts: Cut[], feed: number, clearance = 10, opts: { trim?: number; kerf?: number; pieces?: Box[] } = {}): { lengthMm: number; minutes: number } {
+export function cutEstimate(
+  size: [number, number, number],
+  cuts: Cut[],
+  feed: number,
+  clearance = 10,
+  opts: { trim?: number; kerf?: number; pieces?: Box[] } = {},
+): { lengthMm: number; minutes: number } {
   const regions = cutRegions(size, cuts, opts.trim ?? 0, opts.kerf ?? 0, opts.pieces ?? []);
-  const lengthMm = regions.reduce((s, c) => s + (opts.pieces ? travelAcross(c) : c.axis === "z" ? size[0] : size[2]) + 2 * clearance, 0);
+  const lengthMm = regions.reduce(
+    (s, c) => s + (opts.pieces ? travelAcross(c) : c.axis === "z" ? size[0] : size[2]) + 2 * clearance,
+    0,
+  );
   return { lengthMm, minutes: feed > 0 ? lengthMm / feed : 0 };
 }

@@ -60,7 +60,17 @@ export function lossBreakdown(input: LossInput): LossBreakdown {
     const dMax = d.max.map((v, i) => Math.min(v, hi[i]!)) as V3;
     const inside = overlap(dMin, dMax, lo, hi);
     if (!inside) continue;
-    const inOffcuts = input.offcuts.reduce((s, o) => s + overlap(dMin, dMax, o.origin, o.origin.map((v, i) => v + o.size[i]!)), 0);
+    const inOffcuts = input.offcuts.reduce(
+      (s, o) =>
+        s +
+        overlap(
+          dMin,
+          dMax,
+          o.origin,
+          o.origin.map((v, i) => v + o.size[i]!),
+        ),
+      0,
+    );
     defect += Math.max(0, inside - inOffcuts);
   }
   // The estimates of kerf and defect may not exceed what is left once blanks, offcuts and trim are counted.

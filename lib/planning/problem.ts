@@ -45,6 +45,12 @@ export function buildProblem(parts: PartForPlan[], stock: StockForPlan[], settin
     })),
     parts: parts
       .filter((p) => p.quantity > 0)
-      .map((p) => ({ id: partKey(p.id), size: p.size, quantity: p.quantity, rotate: p.rotate, ...(p.gradeCode ? { grade: p.gradeCode } : {}) })),
+      .map((p) => ({
+        id: partKey(p.id),
+        size: p.size,
+        quantity: p.quantity,
+        rotate: p.rotate,
+        ...(p.gradeCode ? { grade: p.gradeCode } : {}),
+      })),
   };
 }

@@ -56,7 +56,12 @@ export function cutRuns(cuts: readonly Cut[], minRun = 3): CutRun[] {
     let j = i + 1;
     if (j < cuts.length && cuts[j]!.axis === cuts[i]!.axis) {
       const step = cuts[j]!.at - cuts[i]!.at;
-      while (j + 1 < cuts.length && cuts[j + 1]!.axis === cuts[i]!.axis && Math.abs(cuts[j + 1]!.at - cuts[j]!.at - step) <= 0.01) j++;
+      while (
+        j + 1 < cuts.length &&
+        cuts[j + 1]!.axis === cuts[i]!.axis &&
+        Math.abs(cuts[j + 1]!.at - cuts[j]!.at - step) <= 0.01
+      )
+        j++;
       if (step >= 0 && j - i + 1 >= minRun) {
         out.push({ from: i + 1, to: j + 1, axis: cuts[i]!.axis, first: cuts[i]!.at, last: cuts[j]!.at, step });
         i = j + 1;

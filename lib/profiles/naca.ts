@@ -30,16 +30,27 @@ export class ProfileError extends Error {
  *   parseNaca("NACA 2412")  // { code: "2412", m: 0.02, p: 0.4, t: 0.12 }
  */
 export function parseNaca(input: string): Naca4 {
-  const s = String(input ?? "").trim().replace(/^naca[\s-]*/i, "");
+  const s = String(input ?? "")
+    .trim()
+    .replace(/^naca[\s-]*/i, "");
   if (!s) throw new ProfileError("Enter a NACA 4-digit code such as 2412 or 0012.");
-  if (!/^\d+$/.test(s)) throw new ProfileError(`“${String(input).slice(0, 20)}” is not a NACA 4-digit code: use four digits such as 2412.`);
-  if (s.length !== 4) throw new ProfileError(`“${String(input).slice(0, 20)}” has ${s.length} digits; a NACA 4-digit code has exactly four (5-digit and 6-series sections are not supported).`);
+  if (!/^\d+$/.test(s))
+    throw new ProfileError(`“${String(input).slice(0, 20)}” is not a NACA 4-digit code: use four digits such as 2412.`);
+  if (s.length !== 4)
+    throw new ProfileError(
+      `“${String(input).slice(0, 20)}” has ${s.length} digits; a NACA 4-digit code has exactly four (5-digit and 6-series sections are not supported).`,
+    );
   const m = Number(s[0]) / 100;
   const p = Number(s[1]) / 10;
   const t = Number(s.slice(2)) / 100;
-  if (t <= 0) throw new ProfileError(`NACA ${s} has zero thickness: the last two digits give the thickness in % of the chord.`);
-  if (m > 0 && p === 0) throw new ProfileError(`NACA ${s} has camber but no camber position: the second digit must be 1–9 when the first is not 0.`);
-  if (m === 0 && p !== 0) throw new ProfileError(`NACA ${s}: a symmetric section (first digit 0) must have 0 as its second digit.`);
+  if (t <= 0)
+    throw new ProfileError(`NACA ${s} has zero thickness: the last two digits give the thickness in % of the chord.`);
+  if (m > 0 && p === 0)
+    throw new ProfileError(
+      `NACA ${s} has camber but no camber position: the second digit must be 1–9 when the first is not 0.`,
+    );
+  if (m === 0 && p !== 0)
+    throw new ProfileError(`NACA ${s}: a symmetric section (first digit 0) must have 0 as its second digit.`);
   return { code: s, m, p, t };
 }
 
@@ -113,7 +124,10 @@ export function sectionArea(s: Naca4, chord = 1): number {
  *
  *   sectionBox(parseNaca("0012"), 100)  // { length: ≈100, height: ≈12, maxUpper: ≈6, minLower: ≈-6 }
  */
-export function sectionBox(s: Naca4, chord = 1): { length: number; height: number; maxUpper: number; minLower: number; minX: number; maxX: number } {
+export function sectionBox(
+  s: Naca4,
+  chord = 1,
+): { length: number; height: number; maxUpper: number; minLower: number; minX: number; maxX: number } {
   const pts = outline(s, chord, 400);
   let maxUpper = -Infinity;
   let minLower = Infinity;

@@ -27,7 +27,10 @@ export function polygonArea(points: readonly Point[]): number {
  *   polygonBounds([[0, 0], [3, 0], [0, 4]])  // { min: [0, 0], max: [3, 4], size: [3, 4] }
  */
 export function polygonBounds(points: readonly Point[]): { min: Point; max: Point; size: Point } {
-  let minX = Infinity, minY = Infinity, maxX = -Infinity, maxY = -Infinity;
+  let minX = Infinity,
+    minY = Infinity,
+    maxX = -Infinity,
+    maxY = -Infinity;
   for (const [x, y] of points) {
     if (x < minX) minX = x;
     if (y < minY) minY = y;
@@ -42,11 +45,19 @@ function orient(a: Point, b: Point, c: Point): number {
 }
 
 function onSegment(a: Point, b: Point, p: Point): boolean {
-  return Math.min(a[0], b[0]) <= p[0] && p[0] <= Math.max(a[0], b[0]) && Math.min(a[1], b[1]) <= p[1] && p[1] <= Math.max(a[1], b[1]);
+  return (
+    Math.min(a[0], b[0]) <= p[0] &&
+    p[0] <= Math.max(a[0], b[0]) &&
+    Math.min(a[1], b[1]) <= p[1] &&
+    p[1] <= Math.max(a[1], b[1])
+  );
 }
 
 function segmentsMeet(a: Point, b: Point, c: Point, d: Point): boolean {
-  const d1 = orient(c, d, a), d2 = orient(c, d, b), d3 = orient(a, b, c), d4 = orient(a, b, d);
+  const d1 = orient(c, d, a),
+    d2 = orient(c, d, b),
+    d3 = orient(a, b, c),
+    d4 = orient(a, b, d);
   if (((d1 > 0 && d2 < 0) || (d1 < 0 && d2 > 0)) && ((d3 > 0 && d4 < 0) || (d3 < 0 && d4 > 0))) return true;
   if (d1 === 0 && onSegment(c, d, a)) return true;
   if (d2 === 0 && onSegment(c, d, b)) return true;
@@ -68,7 +79,8 @@ export function checkPolygon(points: readonly Point[]): string | null {
   }
   const n = points.length;
   for (let i = 0; i < n; i++) {
-    const a = points[i]!, b = points[(i + 1) % n]!;
+    const a = points[i]!,
+      b = points[(i + 1) % n]!;
     if (a[0] === b[0] && a[1] === b[1]) return `Points ${i + 1} and ${((i + 1) % n) + 1} are the same point.`;
   }
   for (let i = 0; i < n; i++) {
@@ -91,7 +103,10 @@ export function checkPolygon(points: readonly Point[]): string | null {
  */
 export function parsePoints(text: string): Point[] {
   const pts: Point[] = [];
-  const chunks = String(text ?? "").split(";").map((c) => c.trim()).filter(Boolean);
+  const chunks = String(text ?? "")
+    .split(";")
+    .map((c) => c.trim())
+    .filter(Boolean);
   for (const [i, chunk] of chunks.entries()) {
     const nums = chunk.split(/[\s,]+/).filter(Boolean);
     if (nums.length !== 2 || nums.some((v) => !/^-?\d+(\.\d+)?$/.test(v))) {

@@ -44,7 +44,9 @@ export function poActionRefusal(status: PoStatus, action: PoAction): string | nu
     case "send":
       return `This order is ${label}: it cannot be sent.`;
     case "receive":
-      return status === "draft" ? "This order is still a draft: send it before receiving against it." : `This order is ${label}: nothing more can be received against it.`;
+      return status === "draft"
+        ? "This order is still a draft: send it before receiving against it."
+        : `This order is ${label}: nothing more can be received against it.`;
     case "close":
       return `This order is ${label}: only a partly received order can be closed short.`;
     case "cancel":
@@ -90,8 +92,24 @@ export interface PurchaseOrder {
 }
 
 export const PO_CSV_COLUMNS = [
-  "po_number", "supplier", "status", "expected_on", "line", "grade", "grade_name",
-  "length_mm", "width_mm", "height_mm", "quantity", "volume_m3", "board_feet", "price", "price_unit", "line_total", "received_blocks", "note",
+  "po_number",
+  "supplier",
+  "status",
+  "expected_on",
+  "line",
+  "grade",
+  "grade_name",
+  "length_mm",
+  "width_mm",
+  "height_mm",
+  "quantity",
+  "volume_m3",
+  "board_feet",
+  "price",
+  "price_unit",
+  "line_total",
+  "received_blocks",
+  "note",
 ] as const;
 
 /**

@@ -61,13 +61,15 @@ export const SAFETY_SOURCES: SafetySource[] = [
   {
     id: "pentane",
     topic: "Pentane from fresh foam",
-    caution: "Fresh EPS off-gases pentane, which can reach flammable levels in closed storage. Store fresh blocks ventilated, away from ignition sources.",
+    caution:
+      "Fresh EPS off-gases pentane, which can reach flammable levels in closed storage. Store fresh blocks ventilated, away from ignition sources.",
     source: "The material's safety data sheet (SDS)",
   },
   {
     id: "nfpa13",
     topic: "Fire load of stored foam",
-    caution: "Foam burns, even flame-retardant grades. Exposed expanded plastics are Group A, the highest storage hazard class for sprinkler design.",
+    caution:
+      "Foam burns, even flame-retardant grades. Exposed expanded plastics are Group A, the highest storage hazard class for sprinkler design.",
     source: "NFPA 13, Standard for the Installation of Sprinkler Systems (commodity classification)",
   },
   {
@@ -78,4 +80,5 @@ export const SAFETY_SOURCES: SafetySource[] = [
   },
 ];
 
-export const DEFER = "These are cautions, not rules: follow your local codes and fire authority, the material's safety data sheet and licensed practice.";
+export const DEFER =
+  "These are cautions, not rules: follow your local codes and fire authority, the material's safety data sheet and licensed practice.";

@@ -24,7 +24,9 @@ export function s3(): S3Client {
       endpoint: c.S3_ENDPOINT,
       region: c.S3_REGION,
       forcePathStyle: true, // bucket in the path: works with every S3-compatible service and the local fake
-      credentials: c.S3_ACCESS_KEY_ID ? { accessKeyId: c.S3_ACCESS_KEY_ID, secretAccessKey: c.S3_SECRET_ACCESS_KEY! } : undefined,
+      credentials: c.S3_ACCESS_KEY_ID
+        ? { accessKeyId: c.S3_ACCESS_KEY_ID, secretAccessKey: c.S3_SECRET_ACCESS_KEY! }
+        : undefined,
       maxAttempts: 2,
     });
   }
@@ -34,7 +36,15 @@ export function s3(): S3Client {
 const bucket = () => storageConfig().S3_BUCKET;
 
 export async function putObject(key: string, body: Uint8Array, contentType: string): Promise<void> {
-  await s3().send(new PutObjectCommand({ Bucket: bucket(), Key: key, Body: body, ContentType: contentType, ContentLength: body.byteLength }));
+  await s3().send(
+    new PutObjectCommand({
+      Bucket: bucket(),
+      Key: key,
+      Body: body,
+      ContentType: contentType,
+      ContentLength: body.byteLength,
+    }),
+  );
 }
 
 export interface StoredObject {
@@ -58,7 +68,10 @@ export async function getObject(key: string): Promise<StoredObject | null> {
 export async function deleteObjects(keys: string[]): Promise<void> {
   for (let i = 0; i < keys.length; i += 1000) {
     const chunk = keys.slice(i, i + 1000);
-    if (chunk.length) await s3().send(new DeleteObjectsCommand({ Bucket: bucket(), Delete: { Objects: chunk.map((Key) => ({ Key })), Quiet: true } }));
+    if (chunk.length)
+      await s3().send(
+        new DeleteObjectsCommand({ Bucket: bucket(), Delete: { Objects: chunk.map((Key) => ({ Key })), Quiet: true } }),
+      );
   }
 }
 
@@ -67,7 +80,9 @@ export async function listKeys(prefix = ""): Promise<string[]> {
   const keys: string[] = [];
   let token: string | undefined;
   do {
-    const out = await s3().send(new ListObjectsV2Command({ Bucket: bucket(), Prefix: prefix, ContinuationToken: token }));
+    const out = await s3().send(
+      new ListObjectsV2Command({ Bucket: bucket(), Prefix: prefix, ContinuationToken: token }),
+    );
     for (const o of out.Contents ?? []) if (o.Key) keys.push(o.Key);
     token = out.IsTruncated ? out.NextContinuationToken : undefined;
   } while (token);

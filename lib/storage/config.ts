@@ -41,7 +41,8 @@ export function storageConfig(): StorageConfig {
       S3_ACCESS_KEY_ID: blank(process.env.S3_ACCESS_KEY_ID),
       S3_SECRET_ACCESS_KEY: blank(process.env.S3_SECRET_ACCESS_KEY),
     });
-    if (!parsed.success) throw new StorageNotConfigured(parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; "));
+    if (!parsed.success)
+      throw new StorageNotConfigured(parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; "));
     cached = parsed.data;
   }
   return cached;

@@ -4,7 +4,14 @@ import { addPhotos } from "@/db/queries/photos";
 import type { DefectPhoto } from "@/db/queries/defects";
 import { deleteObjects, putObject } from "./client";
 import { StorageNotConfigured, storageConfig } from "./config";
-import { MAX_PHOTO_BYTES, MAX_PHOTOS_PER_UPLOAD, photoKeys, preparePhoto, sniffImage, type PreparedPhoto } from "./images";
+import {
+  MAX_PHOTO_BYTES,
+  MAX_PHOTOS_PER_UPLOAD,
+  photoKeys,
+  preparePhoto,
+  sniffImage,
+  type PreparedPhoto,
+} from "./images";
 
 /** The most a whole upload may carry (Next's proxy buffers request bodies up to its own limit). */
 export const MAX_UPLOAD_BYTES = MAX_PHOTOS_PER_UPLOAD * MAX_PHOTO_BYTES + 1024 * 1024;
@@ -38,9 +45,14 @@ export function requireStorage() {
  */
 export async function saveDefectPhotos(defectId: number, files: File[], actorId: string): Promise<DefectPhoto[]> {
   requireStorage();
-  if (!files.length) throw new HttpError(400, "Attach at least one photo.", { photos: "Attach at least one photo (JPEG, PNG or WebP)." });
+  if (!files.length)
+    throw new HttpError(400, "Attach at least one photo.", {
+      photos: "Attach at least one photo (JPEG, PNG or WebP).",
+    });
   if (files.length > MAX_PHOTOS_PER_UPLOAD) {
-    throw new HttpError(400, `At most ${MAX_PHOTOS_PER_UPLOAD} photos at a time.`, { photos: `At most ${MAX_PHOTOS_PER_UPLOAD} photos at a time; you chose ${files.length}.` });
+    throw new HttpError(400, `At most ${MAX_PHOTOS_PER_UPLOAD} photos at a time.`, {
+      photos: `At most ${MAX_PHOTOS_PER_UPLOAD} photos at a time; you chose ${files.length}.`,
+    });
   }
 
   const fields: Record<string, string> = {};
@@ -91,11 +103,18 @@ export async function saveDefectPhotos(defectId: number, files: File[], actorId:
     }
     return await addPhotos(defectId, rows, actorId);
   } catch (e) {
-    await deleteObjects(uploaded).catch((err) => console.error("[photos] could not remove objects of a failed upload", uploaded, err));
+    await deleteObjects(uploaded).catch((err) =>
+      console.error("[photos] could not remove objects of a failed upload", uploaded, err),
+    );
     if (e instanceof HttpError) throw e;
     if (isStorageDown(e)) {
       console.error("[photos] storage unreachable", e);
-      throw new HttpError(503, "Photo storage cannot be reached. Nothing was stored; try again in a moment.", undefined, { "Retry-After": "5" });
+      throw new HttpError(
+        503,
+        "Photo storage cannot be reached. Nothing was stored; try again in a moment.",
+        undefined,
+        { "Retry-After": "5" },
+      );
     }
     throw e;
   }
@@ -104,5 +123,7 @@ export async function saveDefectPhotos(defectId: number, files: File[], actorId:
 export function isStorageDown(e: unknown): boolean {
   const err = e as { code?: string; name?: string; $metadata?: unknown } | undefined;
   if (!err) return false;
-  return ["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "ENOTFOUND"].includes(err.code ?? "") || err.name === "TimeoutError";
+  return (
+    ["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "ENOTFOUND"].includes(err.code ?? "") || err.name === "TimeoutError"
+  );
 }

@@ -13,14 +13,16 @@ export const THUMB_WIDTH = 320;
 
 export type PhotoType = { contentType: "image/jpeg" | "image/png" | "image/webp"; ext: "jpg" | "png" | "webp" };
 
-const startsWith = (b: Uint8Array, sig: number[], at = 0) => b.length >= at + sig.length && sig.every((v, i) => b[at + i] === v);
+const startsWith = (b: Uint8Array, sig: number[], at = 0) =>
+  b.length >= at + sig.length && sig.every((v, i) => b[at + i] === v);
 
 /** JPEG, PNG or WebP by magic bytes; anything else is null. */
 export function sniffImage(b: Uint8Array): PhotoType | null {
   if (startsWith(b, [0xff, 0xd8, 0xff])) return { contentType: "image/jpeg", ext: "jpg" };
   if (startsWith(b, [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])) return { contentType: "image/png", ext: "png" };
   // RIFF....WEBP
-  if (startsWith(b, [0x52, 0x49, 0x46, 0x46]) && startsWith(b, [0x57, 0x45, 0x42, 0x50], 8)) return { contentType: "image/webp", ext: "webp" };
+  if (startsWith(b, [0x52, 0x49, 0x46, 0x46]) && startsWith(b, [0x57, 0x45, 0x42, 0x50], 8))
+    return { contentType: "image/webp", ext: "webp" };
   return null;
 }
 
@@ -40,14 +42,33 @@ export async function preparePhoto(bytes: Uint8Array, type: PhotoType): Promise<
   const image = sharp(bytes, { limitInputPixels: 80_000_000 });
   try {
     const meta: Metadata = await image.metadata();
-    const declared = meta.format === "jpeg" ? "image/jpeg" : meta.format === "png" ? "image/png" : meta.format === "webp" ? "image/webp" : null;
+    const declared =
+      meta.format === "jpeg"
+        ? "image/jpeg"
+        : meta.format === "png"
+          ? "image/png"
+          : meta.format === "webp"
+            ? "image/webp"
+            : null;
     if (declared !== type.contentType) throw new Error("unreadable");
-    const thumb = new Uint8Array(await image.clone().rotate().resize({ width: THUMB_WIDTH, withoutEnlargement: true }).webp({ quality: 78 }).toBuffer());
+    const thumb = new Uint8Array(
+      await image
+        .clone()
+        .rotate()
+        .resize({ width: THUMB_WIDTH, withoutEnlargement: true })
+        .webp({ quality: 78 })
+        .toBuffer(),
+    );
     // A tablet's photo carries EXIF/XMP/IPTC (often where and when it was taken): the original is
     // stored without it, turned upright as EXIF said; a photo without such metadata is kept byte for byte.
     if (meta.exif || meta.xmp || meta.iptc) {
       const upright = image.clone().rotate();
-      const out = await (type.ext === "jpg" ? upright.jpeg({ quality: 92 }) : type.ext === "png" ? upright.png() : upright.webp({ quality: 92 })).toBuffer({ resolveWithObject: true });
+      const out = await (type.ext === "jpg"
+        ? upright.jpeg({ quality: 92 })
+        : type.ext === "png"
+          ? upright.png()
+          : upright.webp({ quality: 92 })
+      ).toBuffer({ resolveWithObject: true });
       return { ...type, bytes: new Uint8Array(out.data), width: out.info.width, height: out.info.height, thumb };
     }
     const sideways = (meta.orientation ?? 1) >= 5;

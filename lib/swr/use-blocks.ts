@@ -16,7 +16,11 @@ export type BlockListResponse = StockRows;
  */
 export function useBlocks(query: string, fallback?: BlockListResponse) {
   const key = `/api/blocks?${query}`;
-  const swr = useSWR<BlockListResponse>(key, fetcher, { fallbackData: fallback, revalidateOnMount: !fallback, revalidateIfStale: !fallback });
+  const swr = useSWR<BlockListResponse>(key, fetcher, {
+    fallbackData: fallback,
+    revalidateOnMount: !fallback,
+    revalidateIfStale: !fallback,
+  });
   const { mutate } = swr;
   useEffect(() => {
     if (fallback) void mutate(fallback, { revalidate: false });

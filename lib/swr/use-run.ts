@@ -7,7 +7,13 @@ export interface RunLiveData {
   id: number;
   status: "queued" | "running" | "done" | "failed" | "cancelled" | "approved" | "closed";
   progress: number;
-  best: { placedVolume: number; blocksUsed: number; yield: number; unplacedCount: number; lowerBoundBlocks: number } | null;
+  best: {
+    placedVolume: number;
+    blocksUsed: number;
+    yield: number;
+    unplacedCount: number;
+    lowerBoundBlocks: number;
+  } | null;
   error: string | null;
 }
 

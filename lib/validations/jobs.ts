@@ -2,21 +2,48 @@ import { z } from "zod";
 import { JOB_STATUSES, ROTATE_RULES } from "@/lib/job-terms";
 import { checkPolygon, parseNaca } from "@/lib/profiles";
 
-const text = (label: string, max = 200) => z.string({ error: `${label} must be text.` }).trim().max(max, `${label}: at most ${max} characters.`);
+const text = (label: string, max = 200) =>
+  z
+    .string({ error: `${label} must be text.` })
+    .trim()
+    .max(max, `${label}: at most ${max} characters.`);
 const required = (label: string, max = 200) => text(label, max).min(1, `Enter ${label.toLowerCase()}.`);
 const optionalText = (label: string, max = 500) =>
-  text(label, max).optional().nullable().transform((v) => (v ? v : null));
+  text(label, max)
+    .optional()
+    .nullable()
+    .transform((v) => (v ? v : null));
 const mm = (label: string, max = 30_000) =>
-  z.number({ error: `${label} must be a number.` }).finite(`${label} must be a number.`).gt(0, `${label} must be more than 0.`).max(max, `${label} must be at most ${max} mm.`);
-const quantity = z.number({ error: "Quantity must be a number." }).int("Quantity must be a whole number.").min(1, "Quantity must be at least 1.").max(100_000, "Quantity must be at most 100,000.");
-const id = (what: string) => z.number({ error: `Choose ${what}.` }).int().positive(`Choose ${what}.`);
+  z
+    .number({ error: `${label} must be a number.` })
+    .finite(`${label} must be a number.`)
+    .gt(0, `${label} must be more than 0.`)
+    .max(max, `${label} must be at most ${max} mm.`);
+const quantity = z
+  .number({ error: "Quantity must be a number." })
+  .int("Quantity must be a whole number.")
+  .min(1, "Quantity must be at least 1.")
+  .max(100_000, "Quantity must be at most 100,000.");
+const id = (what: string) =>
+  z
+    .number({ error: `Choose ${what}.` })
+    .int()
+    .positive(`Choose ${what}.`);
 
-export const sizeSchema = z.tuple([mm("Length"), mm("Width"), mm("Height")], { error: "Give the size as [length, width, height] in mm." });
+export const sizeSchema = z.tuple([mm("Length"), mm("Width"), mm("Height")], {
+  error: "Give the size as [length, width, height] in mm.",
+});
 
 export const polygonProfileSchema = z.object({
   kind: z.literal("polygon"),
   points: z
-    .array(z.tuple([z.number({ error: "Each coordinate must be a number." }).finite().min(-30_000).max(30_000), z.number({ error: "Each coordinate must be a number." }).finite().min(-30_000).max(30_000)]), { error: "Give the outline as a list of [x, y] points." })
+    .array(
+      z.tuple([
+        z.number({ error: "Each coordinate must be a number." }).finite().min(-30_000).max(30_000),
+        z.number({ error: "Each coordinate must be a number." }).finite().min(-30_000).max(30_000),
+      ]),
+      { error: "Give the outline as a list of [x, y] points." },
+    )
     .max(2_000, "At most 2,000 points.")
     .superRefine((pts, ctx) => {
       const problem = checkPolygon(pts);
@@ -27,20 +54,31 @@ export const polygonProfileSchema = z.object({
 
 export const nacaProfileSchema = z.object({
   kind: z.literal("naca"),
-  code: z.string({ error: "Enter a NACA code." }).superRefine((v, ctx) => {
-    try {
-      parseNaca(v);
-    } catch (e) {
-      ctx.addIssue({ code: "custom", message: (e as Error).message });
-    }
-  }).transform((v) => parseNaca(v).code),
+  code: z
+    .string({ error: "Enter a NACA code." })
+    .superRefine((v, ctx) => {
+      try {
+        parseNaca(v);
+      } catch (e) {
+        ctx.addIssue({ code: "custom", message: (e as Error).message });
+      }
+    })
+    .transform((v) => parseNaca(v).code),
   chordMm: mm("Root chord", 10_000),
   tipChordMm: mm("Tip chord", 10_000).nullable().optional(),
   spanMm: mm("Span"),
-  sweepMm: z.number({ error: "Sweep must be a number." }).finite().min(-10_000, "Sweep must be at least -10,000 mm.").max(10_000, "Sweep must be at most 10,000 mm.").nullable().optional(),
+  sweepMm: z
+    .number({ error: "Sweep must be a number." })
+    .finite()
+    .min(-10_000, "Sweep must be at least -10,000 mm.")
+    .max(10_000, "Sweep must be at most 10,000 mm.")
+    .nullable()
+    .optional(),
 });
 
-export const profileSchema = z.discriminatedUnion("kind", [polygonProfileSchema, nacaProfileSchema], { error: "The profile is a polygon or a NACA section." });
+export const profileSchema = z.discriminatedUnion("kind", [polygonProfileSchema, nacaProfileSchema], {
+  error: "The profile is a polygon or a NACA section.",
+});
 export type ProfileInput = z.infer<typeof profileSchema>;
 
 /** A part as the planner enters it: a plain box (size) or a profile (the box is then computed). */
@@ -54,7 +92,8 @@ export const partSchema = z
     rotate: z.enum(ROTATE_RULES, { error: "Rotation is any, z or none." }).default("any"),
   })
   .superRefine((p, ctx) => {
-    if (!p.profile && !p.size) ctx.addIssue({ code: "custom", path: ["size"], message: "Give a size, or a profile to compute it from." });
+    if (!p.profile && !p.size)
+      ctx.addIssue({ code: "custom", path: ["size"], message: "Give a size, or a profile to compute it from." });
   });
 export type PartInput = z.infer<typeof partSchema>;
 
@@ -71,7 +110,8 @@ export const libraryPartSchema = z
     active: z.boolean({ error: "Must be true or false." }).optional(),
   })
   .superRefine((p, ctx) => {
-    if (!p.profile && !p.size) ctx.addIssue({ code: "custom", path: ["size"], message: "Give a size, or a profile to compute it from." });
+    if (!p.profile && !p.size)
+      ctx.addIssue({ code: "custom", path: ["size"], message: "Give a size, or a profile to compute it from." });
   });
 export type LibraryPartInput = z.infer<typeof libraryPartSchema>;
 
@@ -127,7 +167,11 @@ export const jobPartPatchSchema = z
 export type JobPartPatch = z.infer<typeof jobPartPatchSchema>;
 
 export const jobQuerySchema = z.object({
-  status: z.enum([...JOB_STATUSES, "active", "all"] as const, { error: "Status is open, planned, cutting, done, cancelled, active or all." }).default("active"),
+  status: z
+    .enum([...JOB_STATUSES, "active", "all"] as const, {
+      error: "Status is open, planned, cutting, done, cancelled, active or all.",
+    })
+    .default("active"),
   q: z.string().trim().max(60).optional(),
   page: z.coerce.number().int().min(1).max(100_000).default(1),
   pageSize: z.coerce.number().int().min(1).max(200).default(25),

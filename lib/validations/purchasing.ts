@@ -1,13 +1,27 @@
 import { z } from "zod";
 import { receivedBlockSchema, sizeSchema } from "@/lib/validations/stock";
 
-const text = (label: string, max = 200) => z.string({ error: `${label} must be text.` }).trim().max(max, `${label}: at most ${max} characters.`);
-const optionalText = (label: string, max = 500) => text(label, max).optional().nullable().transform((v) => (v ? v : null));
+const text = (label: string, max = 200) =>
+  z
+    .string({ error: `${label} must be text.` })
+    .trim()
+    .max(max, `${label}: at most ${max} characters.`);
+const optionalText = (label: string, max = 500) =>
+  text(label, max)
+    .optional()
+    .nullable()
+    .transform((v) => (v ? v : null));
 const date = (label: string) => z.iso.date({ error: `${label} must be a date (YYYY-MM-DD).` });
-const id = (what: string) => z.number({ error: `Choose ${what}.` }).int(`Choose ${what}.`).positive(`Choose ${what}.`);
+const id = (what: string) =>
+  z
+    .number({ error: `Choose ${what}.` })
+    .int(`Choose ${what}.`)
+    .positive(`Choose ${what}.`);
 const num = (label: string, min: number, max: number, opts: { gt?: boolean } = {}) => {
   const n = z.number({ error: `${label} must be a number.` }).finite(`${label} must be a number.`);
-  return (opts.gt ? n.gt(min, `${label} must be more than ${min}.`) : n.min(min, `${label} must be at least ${min}.`)).max(max, `${label} must be at most ${max}.`);
+  return (
+    opts.gt ? n.gt(min, `${label} must be more than ${min}.`) : n.min(min, `${label} must be at least ${min}.`)
+  ).max(max, `${label} must be at most ${max}.`);
 };
 
 export const serviceLevel = num("Service level", 0.5, 0.999, { gt: true });
@@ -15,7 +29,11 @@ export const serviceLevel = num("Service level", 0.5, 0.999, { gt: true });
 /** The shop's reorder defaults. */
 export const reorderSettingsSchema = z.object({
   serviceLevel,
-  historyDays: z.number({ error: "History must be a number of days." }).int("History must be whole days.").min(7, "Use at least 7 days of history.").max(730, "At most 730 days."),
+  historyDays: z
+    .number({ error: "History must be a number of days." })
+    .int("History must be whole days.")
+    .min(7, "Use at least 7 days of history.")
+    .max(730, "At most 730 days."),
   orderCost: num("Order cost", 0, 100_000),
   holdingCost: num("Holding cost", 0, 100_000, { gt: true }),
 });
@@ -24,7 +42,13 @@ export type ReorderSettings = z.infer<typeof reorderSettingsSchema>;
 /** A grade's overrides: null (or left out) means "work it out". */
 export const gradeReorderSchema = z.object({
   supplierId: id("a supplier").nullable().optional(),
-  leadTimeDays: z.number({ error: "Lead time must be a number." }).int("Lead time must be whole days.").min(0, "Lead time cannot be negative.").max(365, "At most 365 days.").nullable().optional(),
+  leadTimeDays: z
+    .number({ error: "Lead time must be a number." })
+    .int("Lead time must be whole days.")
+    .min(0, "Lead time cannot be negative.")
+    .max(365, "At most 365 days.")
+    .nullable()
+    .optional(),
   serviceLevel: serviceLevel.nullable().optional(),
   dailyDemandM3: num("Daily demand", 0, 1000).nullable().optional(),
   demandSdM3: num("Daily demand's standard deviation", 0, 1000).nullable().optional(),
@@ -37,14 +61,21 @@ export const gradeReorderSchema = z.object({
 export type GradeReorderInput = z.infer<typeof gradeReorderSchema>;
 
 export const draftFromReorderSchema = z.object({
-  gradeIds: z.array(id("a grade"), { error: "Choose the grades to order." }).min(1, "Tick at least one grade.").max(100),
+  gradeIds: z
+    .array(id("a grade"), { error: "Choose the grades to order." })
+    .min(1, "Tick at least one grade.")
+    .max(100),
   expectedOn: date("Expected date").nullable().optional(),
 });
 
 export const poLineSchema = z.object({
   gradeId: id("a grade"),
   size: sizeSchema,
-  quantity: z.number({ error: "Quantity must be a number of blocks." }).int("Quantity must be whole blocks.").min(1, "Order at least 1 block.").max(10_000, "At most 10,000 blocks per line."),
+  quantity: z
+    .number({ error: "Quantity must be a number of blocks." })
+    .int("Quantity must be whole blocks.")
+    .min(1, "Order at least 1 block.")
+    .max(10_000, "At most 10,000 blocks per line."),
   price: num("Price", 0, 1_000_000),
   note: optionalText("Note"),
 });
@@ -53,7 +84,10 @@ export const purchaseOrderSchema = z.object({
   supplierId: id("a supplier"),
   expectedOn: date("Expected date").nullable().optional(),
   notes: optionalText("Notes", 1000),
-  lines: z.array(poLineSchema, { error: "Add the lines to order." }).min(1, "Add at least one line.").max(100, "At most 100 lines per order."),
+  lines: z
+    .array(poLineSchema, { error: "Add the lines to order." })
+    .min(1, "Add at least one line.")
+    .max(100, "At most 100 lines per order."),
 });
 export type PurchaseOrderInput = z.infer<typeof purchaseOrderSchema>;
 
@@ -83,7 +117,10 @@ export const receivePoSchema = z
       .min(1, "Add at least one block.")
       .max(500, "At most 500 blocks per delivery."),
   })
-  .refine((r) => !r.acceptOver || r.overReason, { path: ["overReason"], message: "Say why the extra quantity is accepted." });
+  .refine((r) => !r.acceptOver || r.overReason, {
+    path: ["overReason"],
+    message: "Say why the extra quantity is accepted.",
+  });
 export type ReceivePoInput = z.infer<typeof receivePoSchema>;
 
 export const periodSchema = z

@@ -1,21 +1,39 @@
 import { z } from "zod";
 
 const mm = (label: string, min: number, max: number) =>
-  z.number({ error: `${label} must be a number (mm).` }).finite().min(min, `${label} must be at least ${min} mm.`).max(max, `${label} must be at most ${max} mm.`);
+  z
+    .number({ error: `${label} must be a number (mm).` })
+    .finite()
+    .min(min, `${label} must be at least ${min} mm.`)
+    .max(max, `${label} must be at most ${max} mm.`);
 
 export const runSettingsSchema = z.object({
   kerf: mm("Kerf", 0, 20),
   trim: mm("Face trim", 0, 100),
   defectMargin: mm("Defect margin", 0, 200),
-  minOffcut: z.tuple([mm("Minimum offcut length", 1, 5000), mm("Minimum offcut width", 1, 5000), mm("Minimum offcut height", 1, 5000)]),
+  minOffcut: z.tuple([
+    mm("Minimum offcut length", 1, 5000),
+    mm("Minimum offcut width", 1, 5000),
+    mm("Minimum offcut height", 1, 5000),
+  ]),
   layout: z.enum(["guillotine", "layers", "free"], { error: "Choose guillotine, layers or free." }),
-  timeLimitMs: z.number({ error: "Time budget must be a number." }).int().min(500, "At least 500 ms.").max(120_000, "At most 120000 ms."),
+  timeLimitMs: z
+    .number({ error: "Time budget must be a number." })
+    .int()
+    .min(500, "At least 500 ms.")
+    .max(120_000, "At most 120000 ms."),
 });
 export type RunSettings = z.infer<typeof runSettingsSchema>;
 
 export const createRunSchema = z.object({
-  jobIds: z.array(z.number().int().positive(), { error: "Choose at least one job." }).min(1, "Choose at least one job.").max(50),
-  blockIds: z.array(z.number().int().positive(), { error: "Choose the stock to plan into." }).min(1, "Choose at least one block or offcut.").max(2000),
+  jobIds: z
+    .array(z.number().int().positive(), { error: "Choose at least one job." })
+    .min(1, "Choose at least one job.")
+    .max(50),
+  blockIds: z
+    .array(z.number().int().positive(), { error: "Choose the stock to plan into." })
+    .min(1, "Choose at least one block or offcut.")
+    .max(2000),
   settings: runSettingsSchema,
 });
 export type CreateRunInput = z.infer<typeof createRunSchema>;

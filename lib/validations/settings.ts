@@ -14,10 +14,22 @@ export const shopSettingsSchema = z.object({
   kerf: mm("Kerf", 0, 20),
   trim: mm("Face trim", 0, 100),
   defectMargin: mm("Defect margin", 0, 200),
-  minOffcut: z.tuple([mm("Minimum offcut length", 1, 5000), mm("Minimum offcut width", 1, 5000), mm("Minimum offcut height", 1, 5000)]),
+  minOffcut: z.tuple([
+    mm("Minimum offcut length", 1, 5000),
+    mm("Minimum offcut width", 1, 5000),
+    mm("Minimum offcut height", 1, 5000),
+  ]),
   layout: z.enum(["guillotine", "layers", "free"], { error: "Choose guillotine, layers or free." }),
-  feedMmPerMin: z.number({ error: "Feed rate must be a number." }).finite().min(10, "Feed rate must be at least 10 mm/min.").max(5000, "Feed rate must be at most 5000 mm/min."),
-  nestingTimeLimitMs: z.number({ error: "Time limit must be a number." }).int("Use whole milliseconds.").min(500, "At least 500 ms.").max(120000, "At most 120000 ms."),
+  feedMmPerMin: z
+    .number({ error: "Feed rate must be a number." })
+    .finite()
+    .min(10, "Feed rate must be at least 10 mm/min.")
+    .max(5000, "Feed rate must be at most 5000 mm/min."),
+  nestingTimeLimitMs: z
+    .number({ error: "Time limit must be a number." })
+    .int("Use whole milliseconds.")
+    .min(500, "At least 500 ms.")
+    .max(120000, "At most 120000 ms."),
 });
 
 export type ShopSettings = z.infer<typeof shopSettingsSchema>;

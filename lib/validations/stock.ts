@@ -1,44 +1,75 @@
 import { z } from "zod";
 import { DEFECT_KINDS, LEDGER_KINDS, MATERIALS, SHOWN_STATUSES } from "@/lib/stock";
 
-const text = (label: string, max = 200) => z.string({ error: `${label} must be text.` }).trim().max(max, `${label}: at most ${max} characters.`);
+const text = (label: string, max = 200) =>
+  z
+    .string({ error: `${label} must be text.` })
+    .trim()
+    .max(max, `${label}: at most ${max} characters.`);
 const required = (label: string, max = 200) => text(label, max).min(1, `Enter ${label.toLowerCase()}.`);
 const optionalText = (label: string, max = 500) =>
-  text(label, max).optional().nullable().transform((v) => (v ? v : null));
+  text(label, max)
+    .optional()
+    .nullable()
+    .transform((v) => (v ? v : null));
 const positive = (label: string, max = 100_000) =>
-  z.number({ error: `${label} must be a number.` }).finite(`${label} must be a number.`).gt(0, `${label} must be more than 0.`).max(max, `${label} must be at most ${max}.`);
+  z
+    .number({ error: `${label} must be a number.` })
+    .finite(`${label} must be a number.`)
+    .gt(0, `${label} must be more than 0.`)
+    .max(max, `${label} must be at most ${max}.`);
 const nonNegative = (label: string, max = 10_000_000) =>
-  z.number({ error: `${label} must be a number.` }).finite(`${label} must be a number.`).min(0, `${label} cannot be negative.`).max(max, `${label} must be at most ${max}.`);
+  z
+    .number({ error: `${label} must be a number.` })
+    .finite(`${label} must be a number.`)
+    .min(0, `${label} cannot be negative.`)
+    .max(max, `${label} must be at most ${max}.`);
 const date = (label: string) => z.iso.date({ error: `${label} must be a date (YYYY-MM-DD).` });
 const colour = z.string().regex(/^#[0-9a-fA-F]{6}$/, "Use a colour like #3a7bd5.");
 
-export const gradeSchema = z.object({
-  code: required("Code", 40),
-  material: z.enum(MATERIALS, { error: "Choose EPS, XPS, EPP or PU." }),
-  gradeSystem: required("Grade system", 40),
-  grade: required("Grade", 60),
-  nominalDensity: positive("Nominal density", 1000).nullable().optional(),
-  minDensity: positive("Minimum density", 1000).nullable().optional(),
-  cureDays: z.number({ error: "Cure days must be a number." }).int("Cure days must be whole days.").min(0, "Cure days cannot be negative.").max(365, "At most 365 days."),
-  neverHotWire: z.boolean({ error: "Must be true or false." }),
-  colour,
-  priceUnit: z.enum(["m3", "bf"], { error: "Price per m³ or per board foot." }),
-  notes: optionalText("Notes"),
-}).refine((g) => g.material !== "PU" || g.neverHotWire, {
-  path: ["neverHotWire"],
-  message: "Polyurethane must never be hot-wired: keep this on.",
-}).refine((g) => g.minDensity == null || g.nominalDensity == null || g.minDensity <= g.nominalDensity, {
-  path: ["minDensity"],
-  message: "The minimum density cannot exceed the nominal density.",
-});
+export const gradeSchema = z
+  .object({
+    code: required("Code", 40),
+    material: z.enum(MATERIALS, { error: "Choose EPS, XPS, EPP or PU." }),
+    gradeSystem: required("Grade system", 40),
+    grade: required("Grade", 60),
+    nominalDensity: positive("Nominal density", 1000).nullable().optional(),
+    minDensity: positive("Minimum density", 1000).nullable().optional(),
+    cureDays: z
+      .number({ error: "Cure days must be a number." })
+      .int("Cure days must be whole days.")
+      .min(0, "Cure days cannot be negative.")
+      .max(365, "At most 365 days."),
+    neverHotWire: z.boolean({ error: "Must be true or false." }),
+    colour,
+    priceUnit: z.enum(["m3", "bf"], { error: "Price per m³ or per board foot." }),
+    notes: optionalText("Notes"),
+  })
+  .refine((g) => g.material !== "PU" || g.neverHotWire, {
+    path: ["neverHotWire"],
+    message: "Polyurethane must never be hot-wired: keep this on.",
+  })
+  .refine((g) => g.minDensity == null || g.nominalDensity == null || g.minDensity <= g.nominalDensity, {
+    path: ["minDensity"],
+    message: "The minimum density cannot exceed the nominal density.",
+  });
 export type GradeInput = z.infer<typeof gradeSchema>;
 
 export const supplierSchema = z.object({
   name: required("Name", 120),
   contact: optionalText("Contact", 120),
-  email: z.email({ error: "Enter a valid e-mail address." }).max(320).nullable().optional().or(z.literal("").transform(() => null)),
+  email: z
+    .email({ error: "Enter a valid e-mail address." })
+    .max(320)
+    .nullable()
+    .optional()
+    .or(z.literal("").transform(() => null)),
   phone: optionalText("Phone", 60),
-  leadTimeDays: z.number({ error: "Lead time must be a number." }).int("Lead time must be whole days.").min(0, "Lead time cannot be negative.").max(365, "At most 365 days."),
+  leadTimeDays: z
+    .number({ error: "Lead time must be a number." })
+    .int("Lead time must be whole days.")
+    .min(0, "Lead time cannot be negative.")
+    .max(365, "At most 365 days."),
   notes: optionalText("Notes"),
   active: z.boolean().optional(),
 });
@@ -47,7 +78,10 @@ export type SupplierInput = z.infer<typeof supplierSchema>;
 export const sizeSchema = z.tuple([positive("Length", 30_000), positive("Width", 30_000), positive("Height", 30_000)]);
 
 export const receivedBlockSchema = z.object({
-  code: text("Code", 40).optional().nullable().transform((v) => (v ? v.toUpperCase() : null)),
+  code: text("Code", 40)
+    .optional()
+    .nullable()
+    .transform((v) => (v ? v.toUpperCase() : null)),
   gradeId: z.number({ error: "Choose a grade." }).int().positive("Choose a grade."),
   size: sizeSchema,
   nominalSize: sizeSchema.nullable().optional(),
@@ -100,16 +134,19 @@ export const adjustSchema = z.object({
   reason: required("Reason", 300),
 });
 
-export const defectSchema = z.object({
-  kind: z.enum(DEFECT_KINDS, { error: "Choose what kind of defect it is." }),
-  min: z.tuple([nonNegative("min x", 30_000), nonNegative("min y", 30_000), nonNegative("min z", 30_000)]),
-  max: z.tuple([positive("max x", 30_000), positive("max y", 30_000), positive("max z", 30_000)]),
-  note: optionalText("Note"),
-}).superRefine((d, ctx) => {
-  (["x", "y", "z"] as const).forEach((axis, i) => {
-    if (d.max[i]! <= d.min[i]!) ctx.addIssue({ code: "custom", path: ["max", i], message: `max ${axis} must be more than min ${axis}.` });
+export const defectSchema = z
+  .object({
+    kind: z.enum(DEFECT_KINDS, { error: "Choose what kind of defect it is." }),
+    min: z.tuple([nonNegative("min x", 30_000), nonNegative("min y", 30_000), nonNegative("min z", 30_000)]),
+    max: z.tuple([positive("max x", 30_000), positive("max y", 30_000), positive("max z", 30_000)]),
+    note: optionalText("Note"),
+  })
+  .superRefine((d, ctx) => {
+    (["x", "y", "z"] as const).forEach((axis, i) => {
+      if (d.max[i]! <= d.min[i]!)
+        ctx.addIssue({ code: "custom", path: ["max", i], message: `max ${axis} must be more than min ${axis}.` });
+    });
   });
-});
 export type DefectInput = z.infer<typeof defectSchema>;
 
 export const ledgerQuery = z.object({

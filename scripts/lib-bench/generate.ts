@@ -56,16 +56,36 @@ export function shopCase(seed: number, timeLimitMs: number): Problem {
     const offcut = i % 5 === 0;
     const size: Vec3 = offcut
       ? [600 + Math.round(r() * 1200), 400 + Math.round(r() * 700), 200 + Math.round(r() * 400)]
-      : r() < 0.5 ? [2440, 1220, 610] : [4880, 1220, 1220];
-    const defects = !offcut && r() < 0.3
-      ? [{ id: `D${i}`, min: [Math.round(r() * (size[0] - 100)), Math.round(r() * (size[1] - 100)), Math.round(r() * (size[2] - 100))] as Vec3 }].map((d) => ({
-          id: d.id,
-          min: d.min,
-          max: d.min.map((v, a) => Math.min(size[a]!, v + 20 + Math.round(r() * 60))) as Vec3,
-        }))
-      : [];
+      : r() < 0.5
+        ? [2440, 1220, 610]
+        : [4880, 1220, 1220];
+    const defects =
+      !offcut && r() < 0.3
+        ? [
+            {
+              id: `D${i}`,
+              min: [
+                Math.round(r() * (size[0] - 100)),
+                Math.round(r() * (size[1] - 100)),
+                Math.round(r() * (size[2] - 100)),
+              ] as Vec3,
+            },
+          ].map((d) => ({
+            id: d.id,
+            min: d.min,
+            max: d.min.map((v, a) => Math.min(size[a]!, v + 20 + Math.round(r() * 60))) as Vec3,
+          }))
+        : [];
     const vol = (size[0] * size[1] * size[2]) / 1e9;
-    blocks.push({ id: `B${i + 1}`, size, grade: grades[i % 2]!, cost: offcut ? vol * 40 : vol * 65, offcut, trim: offcut ? 0 : 6, defects });
+    blocks.push({
+      id: `B${i + 1}`,
+      size,
+      grade: grades[i % 2]!,
+      cost: offcut ? vol * 40 : vol * 65,
+      offcut,
+      trim: offcut ? 0 : 6,
+      defects,
+    });
   }
   const parts: Problem["parts"] = [];
   for (let i = 0; i < 40; i++) {

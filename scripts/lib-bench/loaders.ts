@@ -29,9 +29,21 @@ export function problemOf(opts: {
   }
   return {
     version: 1,
-    settings: { kerf: opts.kerf ?? 0, trim: 0, defectMargin: 0, minOffcut: [1e12, 1e12, 1e12], layout: opts.layout, timeLimitMs: opts.timeLimitMs },
+    settings: {
+      kerf: opts.kerf ?? 0,
+      trim: 0,
+      defectMargin: 0,
+      minOffcut: [1e12, 1e12, 1e12],
+      layout: opts.layout,
+      timeLimitMs: opts.timeLimitMs,
+    },
     blocks: opts.bins.map((size, i) => ({ id: `B${i + 1}`, size, cost: 1, offcut: false, trim: 0, defects: [] })),
-    parts: [...byKey.values()].map((p, i) => ({ id: `P${i + 1}`, size: p.size, quantity: p.quantity, rotate: p.rotate })),
+    parts: [...byKey.values()].map((p, i) => ({
+      id: `P${i + 1}`,
+      size: p.size,
+      quantity: p.quantity,
+      rotate: p.rotate,
+    })),
   };
 }
 
@@ -77,7 +89,12 @@ export interface ZeroWaste {
 export function loadZeroWaste(dir: string): ZeroWaste[] {
   const rows = readCsv(path.join(dir, "2d-zero-waste-hopper/optimal_values.csv"));
   return rows.map((r) => {
-    const t = nums(readFileSync(path.join(dir, "2d-zero-waste-hopper", r.file!.startsWith("instances") ? r.file! : `instances/${r.file}`), "utf8"));
+    const t = nums(
+      readFileSync(
+        path.join(dir, "2d-zero-waste-hopper", r.file!.startsWith("instances") ? r.file! : `instances/${r.file}`),
+        "utf8",
+      ),
+    );
     const n = t[0]!;
     const items: [number, number][] = [];
     for (let i = 0; i < n; i++) items.push([t[3 + 2 * i]!, t[4 + 2 * i]!]);
@@ -99,11 +116,23 @@ export function loadMpv(dir: string, classes: number[]): Mpv[] {
   return lbs
     .filter((r) => classes.includes(Number(r.class)))
     .map((r) => {
-      const t = nums(readFileSync(path.join(dir, "3d-bpp-mpv", r.file!.startsWith("instances") ? r.file! : `instances/${r.file}`), "utf8"));
+      const t = nums(
+        readFileSync(
+          path.join(dir, "3d-bpp-mpv", r.file!.startsWith("instances") ? r.file! : `instances/${r.file}`),
+          "utf8",
+        ),
+      );
       const n = t[3]!;
       const items: Vec3[] = [];
       for (let i = 0; i < n; i++) items.push([t[4 + 3 * i]!, t[5 + 3 * i]!, t[6 + 3 * i]!]);
-      return { cls: Number(r.class), n: Number(r.n), no: Number(r.instance_no), bin: [t[0]!, t[1]!, t[2]!] as Vec3, items, lb: Number(r.LB_rotation_allowed) };
+      return {
+        cls: Number(r.class),
+        n: Number(r.n),
+        no: Number(r.instance_no),
+        bin: [t[0]!, t[1]!, t[2]!] as Vec3,
+        items,
+        lb: Number(r.LB_rotation_allowed),
+      };
     });
 }
 
@@ -121,7 +150,10 @@ export interface BrInstance {
 }
 
 export function loadBr(dir: string, k: number): BrInstance[] {
-  const lines = readFileSync(path.join(dir, `3d-clp-br/instances/BR${k}.txt`), "utf8").split(/\r?\n/).map((l) => l.trim()).filter((l) => l !== "");
+  const lines = readFileSync(path.join(dir, `3d-clp-br/instances/BR${k}.txt`), "utf8")
+    .split(/\r?\n/)
+    .map((l) => l.trim())
+    .filter((l) => l !== "");
   let i = 0;
   const P = Number(lines[i++]);
   const out: BrInstance[] = [];

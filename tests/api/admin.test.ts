@@ -13,9 +13,19 @@ beforeAll(async () => {
 describe("people (admin)", () => {
   it("creates a user with roles who must then choose their own password", async () => {
     const email = `ines-${Date.now()}@test.blockyard.test`;
-    const res = await admin.post("/api/admin/users", { email, name: "Ines Varga", roles: ["planner", "cutter"], password: "first-pass-123" });
+    const res = await admin.post("/api/admin/users", {
+      email,
+      name: "Ines Varga",
+      roles: ["planner", "cutter"],
+      password: "first-pass-123",
+    });
     expect(res.status).toBe(201);
-    expect(res.body.user).toMatchObject({ email, roles: ["cutter", "planner"], active: true, mustChangePassword: true });
+    expect(res.body.user).toMatchObject({
+      email,
+      roles: ["cutter", "planner"],
+      active: true,
+      mustChangePassword: true,
+    });
     const c = client();
     const signIn = await c.signIn(email, "first-pass-123");
     expect(signIn.body.user.mustChangePassword).toBe(true);
@@ -25,7 +35,12 @@ describe("people (admin)", () => {
 
   it("refuses bad fields by name and saves nothing", async () => {
     const before = await tableCounts();
-    const res = await admin.post("/api/admin/users", { email: "not-an-email", name: "", roles: ["wizard"], password: "short" });
+    const res = await admin.post("/api/admin/users", {
+      email: "not-an-email",
+      name: "",
+      roles: ["wizard"],
+      password: "short",
+    });
     expect(res.status).toBe(400);
     expect(Object.keys(res.body.fields).sort()).toEqual(["email", "name", "password", "roles.0"]);
     expect(await tableCounts()).toEqual(before);
@@ -33,7 +48,12 @@ describe("people (admin)", () => {
 
   it("refuses a second user with the same e-mail, whatever its case", async () => {
     const before = await tableCounts();
-    const res = await admin.post("/api/admin/users", { email: demoEmail("buyer").toUpperCase(), name: "Copy", roles: ["buyer"], password: "another-pass-1" });
+    const res = await admin.post("/api/admin/users", {
+      email: demoEmail("buyer").toUpperCase(),
+      name: "Copy",
+      roles: ["buyer"],
+      password: "another-pass-1",
+    });
     expect(res.status).toBe(409);
     expect(res.body.fields.email).toMatch(/already exists/);
     expect(await tableCounts()).toEqual(before);
@@ -50,7 +70,10 @@ describe("people (admin)", () => {
   });
 
   it("keeps at least one active admin", async () => {
-    const admins = await testDb()("user_roles as r").join("users as u", "u.id", "r.user_id").where({ "r.role": "admin", "u.active": true }).select("u.id");
+    const admins = await testDb()("user_roles as r")
+      .join("users as u", "u.id", "r.user_id")
+      .where({ "r.role": "admin", "u.active": true })
+      .select("u.id");
     // Demote every other admin first so the demo admin is the last one.
     const others = admins.map((a: { id: string }) => a.id).filter((id: string) => id !== "u-admin");
     await testDb()("users").whereIn("id", others).update({ active: false });
@@ -115,13 +138,33 @@ describe("shop settings", () => {
     const planner = client();
     await planner.signIn(demoEmail("planner"));
     const res = await planner.get("/api/settings");
-    expect(res.body.settings).toMatchObject({ kerf: 1.2, layout: "layers", minOffcut: [200, 150, 30], displayUnits: "in" });
-    await admin.put("/api/settings", { ...valid, displayUnits: "mm", kerf: 1.5, trim: 6, defectMargin: 10, minOffcut: [150, 150, 25], layout: "guillotine", feedMmPerMin: 300, nestingTimeLimitMs: 3000 });
+    expect(res.body.settings).toMatchObject({
+      kerf: 1.2,
+      layout: "layers",
+      minOffcut: [200, 150, 30],
+      displayUnits: "in",
+    });
+    await admin.put("/api/settings", {
+      ...valid,
+      displayUnits: "mm",
+      kerf: 1.5,
+      trim: 6,
+      defectMargin: 10,
+      minOffcut: [150, 150, 25],
+      layout: "guillotine",
+      feedMmPerMin: 300,
+      nestingTimeLimitMs: 3000,
+    });
   });
 
   it("names each bad setting and changes nothing", async () => {
     const before = await testDb()("shop_settings").first();
-    const res = await admin.put("/api/settings", { ...valid, kerf: -1, minOffcut: [200, "wide", 30], layout: "spiral" });
+    const res = await admin.put("/api/settings", {
+      ...valid,
+      kerf: -1,
+      minOffcut: [200, "wide", 30],
+      layout: "spiral",
+    });
     expect(res.status).toBe(400);
     expect(res.body.fields).toHaveProperty("kerf");
     expect(res.body.fields).toHaveProperty(["minOffcut.1"]);

@@ -5,7 +5,9 @@ import { TEST_PASSWORD, closeTestDb, makeUser, testDb } from "../support/db";
 afterAll(closeTestDb);
 
 const sessionCookie = (res: { headers: Record<string, unknown> }) =>
-  ([] as string[]).concat((res.headers["set-cookie"] as string[] | undefined) ?? []).find((c) => c.startsWith("blockyard_session="));
+  ([] as string[])
+    .concat((res.headers["set-cookie"] as string[] | undefined) ?? [])
+    .find((c) => c.startsWith("blockyard_session="));
 
 describe("sign-in and sign-out", () => {
   it("signs a demo user in, shows who they are, and signs them out", async () => {
@@ -24,14 +26,19 @@ describe("sign-in and sign-out", () => {
 
   it("marks the cookie Secure when the request came over https", async () => {
     const c = client();
-    const res = await c.post("/api/auth/sign-in", { email: demoEmail("buyer"), password: "blockyard-demo" }).set("X-Forwarded-Proto", "https");
+    const res = await c
+      .post("/api/auth/sign-in", { email: demoEmail("buyer"), password: "blockyard-demo" })
+      .set("X-Forwarded-Proto", "https");
     expect(res.status).toBe(200);
     expect(sessionCookie(res)).toMatch(/Secure/i);
   });
 
   it("gives a wrong password and an unknown user the same answer", async () => {
     const wrong = await client().post("/api/auth/sign-in", { email: demoEmail("admin"), password: "not-the-password" });
-    const unknown = await client().post("/api/auth/sign-in", { email: "nobody@nowhere.test", password: "whatever-123" });
+    const unknown = await client().post("/api/auth/sign-in", {
+      email: "nobody@nowhere.test",
+      password: "whatever-123",
+    });
     expect(wrong.status).toBe(401);
     expect(unknown.status).toBe(401);
     expect(wrong.body).toEqual(unknown.body);
@@ -64,11 +71,20 @@ describe("sign-in and sign-out", () => {
     const address = "10.77.0.1";
     let last = 0;
     for (let i = 0; i < 31; i++) {
-      last = (await client({ address }).post("/api/auth/sign-in", { email: `spray-${i}@x.test`, password: "guess-guess" })).status;
+      last = (
+        await client({ address }).post("/api/auth/sign-in", { email: `spray-${i}@x.test`, password: "guess-guess" })
+      ).status;
     }
     expect(last).toBe(429);
     // Another address is not affected.
-    expect((await client({ address: "10.77.0.2" }).post("/api/auth/sign-in", { email: demoEmail("manager"), password: "blockyard-demo" })).status).toBe(200);
+    expect(
+      (
+        await client({ address: "10.77.0.2" }).post("/api/auth/sign-in", {
+          email: demoEmail("manager"),
+          password: "blockyard-demo",
+        })
+      ).status,
+    ).toBe(200);
   });
 
   it("refuses a deactivated user and ends their open sessions at once", async () => {
@@ -96,7 +112,10 @@ describe("sign-in and sign-out", () => {
     const elsewhere = client();
     await here.signIn(email, TEST_PASSWORD);
     await elsewhere.signIn(email, TEST_PASSWORD);
-    const bad = await here.post("/api/me/password", { currentPassword: "wrong-one-here", newPassword: "a-new-password-1" });
+    const bad = await here.post("/api/me/password", {
+      currentPassword: "wrong-one-here",
+      newPassword: "a-new-password-1",
+    });
     expect(bad.status).toBe(400);
     expect(bad.body.fields.currentPassword).toBeTruthy();
     const ok = await here.post("/api/me/password", { currentPassword: TEST_PASSWORD, newPassword: "a-new-password-1" });
@@ -107,17 +126,27 @@ describe("sign-in and sign-out", () => {
   });
 
   it("refuses a mutation that does not come from a Blockyard page", async () => {
-    const noOrigin = await client({ origin: null }).post("/api/auth/sign-in", { email: demoEmail("admin"), password: "blockyard-demo" });
+    const noOrigin = await client({ origin: null }).post("/api/auth/sign-in", {
+      email: demoEmail("admin"),
+      password: "blockyard-demo",
+    });
     expect(noOrigin.status).toBe(403);
-    const foreign = await client({ origin: "https://elsewhere.example" }).post("/api/auth/sign-in", { email: demoEmail("admin"), password: "blockyard-demo" });
+    const foreign = await client({ origin: "https://elsewhere.example" }).post("/api/auth/sign-in", {
+      email: demoEmail("admin"),
+      password: "blockyard-demo",
+    });
     expect(foreign.status).toBe(403);
   });
 
   it("answers bad sign-in bodies with 4xx, never 5xx", async () => {
     const c = client();
-    expect((await c.call("post", "/api/auth/sign-in").set("content-type", "application/json").send("{not json")).status).toBe(400);
+    expect(
+      (await c.call("post", "/api/auth/sign-in").set("content-type", "application/json").send("{not json")).status,
+    ).toBe(400);
     expect((await c.post("/api/auth/sign-in", { email: 42, password: [] })).status).toBe(400);
-    expect((await c.call("post", "/api/auth/sign-in").set("content-type", "text/plain").send("hello")).status).toBe(415);
+    expect((await c.call("post", "/api/auth/sign-in").set("content-type", "text/plain").send("hello")).status).toBe(
+      415,
+    );
   });
 });
 

@@ -32,14 +32,25 @@ afterAll(async () => {
 
 /** Every table's row count (public and pg-boss schemas) and the ledger totals. */
 async function census(k: Knex) {
-  const tables = (await k.select("schemaname", "tablename").from("pg_tables").whereNotIn("schemaname", ["pg_catalog", "information_schema"]).orderBy(["schemaname", "tablename"])) as { schemaname: string; tablename: string }[];
+  const tables = (await k
+    .select("schemaname", "tablename")
+    .from("pg_tables")
+    .whereNotIn("schemaname", ["pg_catalog", "information_schema"])
+    .orderBy(["schemaname", "tablename"])) as { schemaname: string; tablename: string }[];
   const counts: Record<string, number> = {};
   for (const t of tables) {
     const r = await k.withSchema(t.schemaname).from(t.tablename).count<{ n: string }[]>({ n: "*" }).first();
     counts[`${t.schemaname}.${t.tablename}`] = Number(r?.n ?? 0);
   }
-  const ledger = await k("stock_ledger").select(k.raw("coalesce(sum(delta_m3), 0)::text AS m3, coalesce(sum(delta_value), 0)::text AS value, count(*)::int AS n")).first();
-  const stock = await k("blocks").whereIn("status", ["in_stock", "earmarked"]).select(k.raw("coalesce(sum(volume_m3), 0)::text AS m3, coalesce(sum(cost), 0)::text AS value")).first();
+  const ledger = await k("stock_ledger")
+    .select(
+      k.raw("coalesce(sum(delta_m3), 0)::text AS m3, coalesce(sum(delta_value), 0)::text AS value, count(*)::int AS n"),
+    )
+    .first();
+  const stock = await k("blocks")
+    .whereIn("status", ["in_stock", "earmarked"])
+    .select(k.raw("coalesce(sum(volume_m3), 0)::text AS m3, coalesce(sum(cost), 0)::text AS value"))
+    .first();
   return { counts, ledger, stock };
 }
 

@@ -21,17 +21,31 @@ beforeAll(async () => {
   await buyer.signIn(demoEmail("buyer"));
 });
 
-const count = async (table: string, where: Record<string, unknown> = {}) => Number((await testDb()(table).where(where).count<{ n: string }[]>({ n: "*" }).first())?.n ?? 0);
+const count = async (table: string, where: Record<string, unknown> = {}) =>
+  Number((await testDb()(table).where(where).count<{ n: string }[]>({ n: "*" }).first())?.n ?? 0);
 
 describe("approvals racing for one block", () => {
   it("100 parallel approvals of plans using the same block: exactly one wins, 99 get 409, one reservation", async () => {
     const block = await makeBlock({ size: [2000, 1000, 600] });
-    const { jobId } = await makeJobWithParts([{ name: "Panel", quantity: 2, size: [900, 400, 200], gradeCode: "EPS-II" }]);
+    const { jobId } = await makeJobWithParts([
+      { name: "Panel", quantity: 2, size: [900, 400, 200], gradeCode: "EPS-II" },
+    ]);
     const first = await makeDoneRun(jobId, [block]);
     // 99 more finished plans of the same problem and plan (copies: the solver need not run 100 times).
     const row = await testDb()("nesting_runs").where({ id: first.runId }).first();
     const copies = await testDb()("nesting_runs")
-      .insert(Array.from({ length: 99 }, () => ({ status: "done", job_ids: row.job_ids, block_ids: row.block_ids, settings: row.settings, problem: JSON.stringify(row.problem), plan: JSON.stringify(row.plan), progress: 1, finished_at: row.finished_at })))
+      .insert(
+        Array.from({ length: 99 }, () => ({
+          status: "done",
+          job_ids: row.job_ids,
+          block_ids: row.block_ids,
+          settings: row.settings,
+          problem: JSON.stringify(row.problem),
+          plan: JSON.stringify(row.plan),
+          progress: 1,
+          finished_at: row.finished_at,
+        })),
+      )
       .returning("id");
     const runIds = [first.runId, ...copies.map((c: { id: number }) => c.id)];
     const gap = await ledgerGap();
@@ -40,15 +54,22 @@ describe("approvals racing for one block", () => {
     const answers = await Promise.all(runIds.map((id) => planner.post(`/api/runs/${id}/approve`)));
 
     const statuses = answers.map((a) => a.status);
-    expect(statuses.filter((s) => s >= 500), JSON.stringify(answers.filter((a) => a.status >= 500).map((a) => a.body))).toEqual([]);
+    expect(
+      statuses.filter((s) => s >= 500),
+      JSON.stringify(answers.filter((a) => a.status >= 500).map((a) => a.body)),
+    ).toEqual([]);
     expect(statuses.filter((s) => s === 200)).toHaveLength(1);
     expect(statuses.filter((s) => s === 409)).toHaveLength(99);
     for (const a of answers.filter((x) => x.status === 409)) expect(a.body.error).toMatch(/earmarked|Another plan/);
     const winner = runIds[statuses.indexOf(200)]!;
-    expect(await testDb()("plan_blocks").where({ block_id: block.id }).select("run_id", "status")).toEqual([{ run_id: winner, status: "reserved" }]);
+    expect(await testDb()("plan_blocks").where({ block_id: block.id }).select("run_id", "status")).toEqual([
+      { run_id: winner, status: "reserved" },
+    ]);
     expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("earmarked");
     expect(await count("nesting_runs", { status: "approved", id: winner })).toBe(1);
-    expect(await testDb()("nesting_runs").whereIn("id", runIds).where("status", "approved").pluck("id")).toEqual([winner]);
+    expect(await testDb()("nesting_runs").whereIn("id", runIds).where("status", "approved").pluck("id")).toEqual([
+      winner,
+    ]);
     expect(await count("stock_ledger")).toBe(ledgerRows + 1); // the one "reserved" row
     const after = await ledgerGap();
     expect(after.m3).toBeCloseTo(gap.m3, 9);
@@ -59,7 +80,10 @@ describe("approvals racing for one block", () => {
 /** A deliveries CSV of `n` blocks; `codes` names some of them (the rest get generated codes). */
 function deliveriesCsv(lot: string, n: number, codes: string[] = []): string {
   const lines = ["supplier,received_on,lot,grade,length_mm,width_mm,height_mm,cost,location,code"];
-  for (let i = 0; i < n; i++) lines.push(`Ashcombe Bead & Block,2026-11-30,${lot},EPS-II,${1000 + i},500,400,${40 + i},Race bay,${codes[i] ?? ""}`);
+  for (let i = 0; i < n; i++)
+    lines.push(
+      `Ashcombe Bead & Block,2026-11-30,${lot},EPS-II,${1000 + i},500,400,${40 + i},Race bay,${codes[i] ?? ""}`,
+    );
   return lines.join("\n") + "\n";
 }
 
@@ -73,7 +97,11 @@ describe("imports and cuts at the same time", () => {
       if (k === 0 || k === 1) codes[1] = `RACE-${tag}-SHARED-A`;
       if (k === 2 || k === 3) codes[1] = `RACE-${tag}-SHARED-B`;
       if (k === 4) codes[1] = existing.code;
-      return { lot: `RACE-${tag}-${k}`, csv: deliveriesCsv(`RACE-${tag}-${k}`, 30, codes), codes: codes.filter(Boolean) };
+      return {
+        lot: `RACE-${tag}-${k}`,
+        csv: deliveriesCsv(`RACE-${tag}-${k}`, 30, codes),
+        codes: codes.filter(Boolean),
+      };
     });
     const approved = [];
     for (let i = 0; i < 8; i++) approved.push(await makeApprovedRun());
@@ -84,12 +112,22 @@ describe("imports and cuts at the same time", () => {
     const receivedBefore = await count("stock_ledger", { kind: "received" });
 
     const [imports, cuts] = await Promise.all([
-      Promise.all(files.map((f) => buyer.call("post", "/api/imports/deliveries?commit=1").set("Content-Type", "text/csv").send(f.csv))),
+      Promise.all(
+        files.map((f) =>
+          buyer.call("post", "/api/imports/deliveries?commit=1").set("Content-Type", "text/csv").send(f.csv),
+        ),
+      ),
       Promise.all(approved.map((a) => cutter.post(`/api/runs/${a.runId}/blocks/${a.block.id}/cut`, { rejects: [] }))),
     ]);
 
-    expect(imports.map((r) => r.status).filter((s) => s >= 500), JSON.stringify(imports.map((r) => r.body.error))).toEqual([]);
-    expect(cuts.map((r) => r.status), JSON.stringify(cuts.map((r) => r.body))).toEqual(cuts.map(() => 200));
+    expect(
+      imports.map((r) => r.status).filter((s) => s >= 500),
+      JSON.stringify(imports.map((r) => r.body.error)),
+    ).toEqual([]);
+    expect(
+      cuts.map((r) => r.status),
+      JSON.stringify(cuts.map((r) => r.body)),
+    ).toEqual(cuts.map(() => 200));
     const won = imports.map((r) => r.status === 201);
     // Exactly one of each clashing pair; never the file naming a block already in stock.
     expect(Number(won[0]) + Number(won[1])).toBe(1);
@@ -99,7 +137,14 @@ describe("imports and cuts at the same time", () => {
     for (const [k, f] of files.entries()) {
       const rows = await count("blocks", { lot: f.lot });
       expect(rows, `file ${k} answered ${imports[k]!.status}`).toBe(won[k] ? 30 : 0); // all or nothing
-      if (won[k]) expect(await testDb()("blocks").whereIn("code", f.codes).count<{ n: string }[]>({ n: "*" }).first().then((r) => Number(r?.n))).toBe(f.codes.length);
+      if (won[k])
+        expect(
+          await testDb()("blocks")
+            .whereIn("code", f.codes)
+            .count<{ n: string }[]>({ n: "*" })
+            .first()
+            .then((r) => Number(r?.n)),
+        ).toBe(f.codes.length);
       else expect(imports[k]!.body.error ?? imports[k]!.body.problems).toBeTruthy();
     }
     const winners = won.filter(Boolean).length;
@@ -107,9 +152,25 @@ describe("imports and cuts at the same time", () => {
     expect(await count("stock_ledger", { kind: "received" })).toBe(receivedBefore + 30 * winners);
     // Every cut block left stock; its offcuts came in, each with its ledger row.
     for (const a of approved) expect((await testDb()("blocks").where({ id: a.block.id }).first()).status).toBe("cut");
-    const offcuts = await testDb()("blocks").whereIn("parent_id", approved.map((a) => a.block.id)).pluck("id");
+    const offcuts = await testDb()("blocks")
+      .whereIn(
+        "parent_id",
+        approved.map((a) => a.block.id),
+      )
+      .pluck("id");
     expect(await count("blocks")).toBe(blocksBefore + 30 * winners + offcuts.length);
-    if (offcuts.length) expect(Number((await testDb()("stock_ledger").whereIn("block_id", offcuts).where({ kind: "offcut_created" }).count<{ n: string }[]>({ n: "*" }).first())?.n)).toBe(offcuts.length);
+    if (offcuts.length)
+      expect(
+        Number(
+          (
+            await testDb()("stock_ledger")
+              .whereIn("block_id", offcuts)
+              .where({ kind: "offcut_created" })
+              .count<{ n: string }[]>({ n: "*" })
+              .first()
+          )?.n,
+        ),
+      ).toBe(offcuts.length);
     const after = await ledgerGap();
     expect(after.m3).toBeCloseTo(gap.m3, 9);
     expect(after.value).toBeCloseTo(gap.value, 6);
@@ -118,7 +179,9 @@ describe("imports and cuts at the same time", () => {
   it("two cut recordings of the same block at once: one records, the other gets 409, the block is consumed once", async () => {
     const a = await makeApprovedRun();
     const gap = await ledgerGap();
-    const [x, y] = await Promise.all([0, 1].map(() => cutter.post(`/api/runs/${a.runId}/blocks/${a.block.id}/cut`, { rejects: [] })));
+    const [x, y] = await Promise.all(
+      [0, 1].map(() => cutter.post(`/api/runs/${a.runId}/blocks/${a.block.id}/cut`, { rejects: [] })),
+    );
     expect([x!.status, y!.status].sort()).toEqual([200, 409]);
     expect(await count("stock_ledger", { block_id: a.block.id, kind: "consumed" })).toBe(1);
     expect(await count("cut_parts", { block_id: a.block.id })).toBeGreaterThan(0);

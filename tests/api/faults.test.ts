@@ -34,7 +34,12 @@ afterAll(async () => {
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-async function until<T>(what: string, probe: () => Promise<T | undefined | false>, ms = 60_000, every = 200): Promise<T> {
+async function until<T>(
+  what: string,
+  probe: () => Promise<T | undefined | false>,
+  ms = 60_000,
+  every = 200,
+): Promise<T> {
   const end = Date.now() + ms;
   for (;;) {
     const v = await probe().catch(() => undefined);
@@ -62,47 +67,51 @@ describe("Postgres stops while the app is serving", () => {
     await admin.signIn(demoEmail("admin"));
   });
 
-  it.skipIf(!ownsCluster)("answers 503 with a clear message (never 500) while it is down, and recovers when it returns", async () => {
-    expect((await admin.get("/api/blocks")).status).toBe(200);
-    await closeTestDb(); // our own pool would hold dead connections
-    // Requests in flight as it stops: each gets an answer, 200 or 503.
-    const inFlight = Array.from({ length: 20 }, () => admin.get("/api/blocks?status=all&pageSize=200"));
-    await sleep(30);
-    stopCluster(TEST_CLUSTER);
-    try {
-      const during = await Promise.all(inFlight);
-      expect(during.map((r) => r.status).filter((s) => s !== 200 && s !== 503)).toEqual([]);
+  it.skipIf(!ownsCluster)(
+    "answers 503 with a clear message (never 500) while it is down, and recovers when it returns",
+    async () => {
+      expect((await admin.get("/api/blocks")).status).toBe(200);
+      await closeTestDb(); // our own pool would hold dead connections
+      // Requests in flight as it stops: each gets an answer, 200 or 503.
+      const inFlight = Array.from({ length: 20 }, () => admin.get("/api/blocks?status=all&pageSize=200"));
+      await sleep(30);
+      stopCluster(TEST_CLUSTER);
+      try {
+        const during = await Promise.all(inFlight);
+        expect(during.map((r) => r.status).filter((s) => s !== 200 && s !== 503)).toEqual([]);
 
-      const health = await client().get("/api/health");
-      expect(health.status).toBe(503);
-      expect(health.body).toMatchObject({ ok: false, database: "down" });
-      for (const [method, url, body] of [
-        ["get", "/api/blocks", undefined],
-        ["get", "/api/me", undefined],
-        ["get", "/api/runs", undefined],
-        ["post", "/api/grades", { code: "DOWN-1", material: "EPS", gradeSystem: "shop", grade: "x", cureDays: 1 }],
-        ["post", "/api/imports/deliveries?commit=1", "supplier\nx\n"],
-      ] as const) {
-        let req = admin.call(method, url);
-        if (typeof body === "string") req = req.set("Content-Type", "text/csv").send(body);
-        else if (body) req = req.send(body);
-        const res = await req;
-        expect(res.status, `${method} ${url}: ${JSON.stringify(res.body)}`).toBe(503);
-        expect(res.body.error).toMatch(/database cannot be reached/i);
-        expect(res.headers["retry-after"]).toBeTruthy();
+        const health = await client().get("/api/health");
+        expect(health.status).toBe(503);
+        expect(health.body).toMatchObject({ ok: false, database: "down" });
+        for (const [method, url, body] of [
+          ["get", "/api/blocks", undefined],
+          ["get", "/api/me", undefined],
+          ["get", "/api/runs", undefined],
+          ["post", "/api/grades", { code: "DOWN-1", material: "EPS", gradeSystem: "shop", grade: "x", cureDays: 1 }],
+          ["post", "/api/imports/deliveries?commit=1", "supplier\nx\n"],
+        ] as const) {
+          let req = admin.call(method, url);
+          if (typeof body === "string") req = req.set("Content-Type", "text/csv").send(body);
+          else if (body) req = req.send(body);
+          const res = await req;
+          expect(res.status, `${method} ${url}: ${JSON.stringify(res.body)}`).toBe(503);
+          expect(res.body.error).toMatch(/database cannot be reached/i);
+          expect(res.headers["retry-after"]).toBeTruthy();
+        }
+        // Signing in needs the database too: a 503, not "wrong password".
+        const signIn = await client().post("/api/auth/sign-in", { email: demoEmail("buyer"), password: DEMO_PASSWORD });
+        expect(signIn.status).toBe(503);
+      } finally {
+        await startCluster();
       }
-      // Signing in needs the database too: a 503, not "wrong password".
-      const signIn = await client().post("/api/auth/sign-in", { email: demoEmail("buyer"), password: DEMO_PASSWORD });
-      expect(signIn.status).toBe(503);
-    } finally {
-      await startCluster();
-    }
-    await until("health to come back", async () => (await client().get("/api/health")).status === 200, 60_000, 250);
-    // The same session works again: nothing was lost with the connections.
-    const after = await admin.get("/api/blocks");
-    expect(after.status).toBe(200);
-    expect(after.body.total).toBeGreaterThan(0);
-  }, 120_000);
+      await until("health to come back", async () => (await client().get("/api/health")).status === 200, 60_000, 250);
+      // The same session works again: nothing was lost with the connections.
+      const after = await admin.get("/api/blocks");
+      expect(after.status).toBe(200);
+      expect(after.body.total).toBeGreaterThan(0);
+    },
+    120_000,
+  );
 });
 
 // ---- an app server of our own ----
@@ -122,10 +131,15 @@ function startOwnServer(): ChildProcess {
 }
 
 async function waitUp(child: ChildProcess) {
-  await until("our own server to answer", async () => {
-    if (child.exitCode !== null) throw new Error("our own server exited");
-    return (await fetch(`${OWN_URL}/api/health`)).ok;
-  }, 90_000, 250);
+  await until(
+    "our own server to answer",
+    async () => {
+      if (child.exitCode !== null) throw new Error("our own server exited");
+      return (await fetch(`${OWN_URL}/api/health`)).ok;
+    },
+    90_000,
+    250,
+  );
 }
 
 /** Client backends of this database in the middle of a write (ours excluded). */
@@ -140,7 +154,8 @@ async function writesInFlight(): Promise<number> {
 
 function bigDeliveriesCsv(lot: string, n: number): string {
   const lines = ["supplier,received_on,lot,grade,length_mm,width_mm,height_mm,cost,location"];
-  for (let i = 0; i < n; i++) lines.push(`Ashcombe Bead & Block,2026-11-30,${lot},EPS-II,${1000 + (i % 500)},500,400,${40 + (i % 50)},Fault bay`);
+  for (let i = 0; i < n; i++)
+    lines.push(`Ashcombe Bead & Block,2026-11-30,${lot},EPS-II,${1000 + (i % 500)},500,400,${40 + (i % 50)},Fault bay`);
   return lines.join("\n") + "\n";
 }
 
@@ -149,7 +164,11 @@ describe("the app is killed in the middle of an import", () => {
     let server = startOwnServer();
     await waitUp(server);
     const agent = request.agent(OWN_URL);
-    const signIn = await agent.post("/api/auth/sign-in").set("Origin", OWN_URL).set("X-Forwarded-For", "10.66.0.1").send({ email: demoEmail("buyer"), password: DEMO_PASSWORD });
+    const signIn = await agent
+      .post("/api/auth/sign-in")
+      .set("Origin", OWN_URL)
+      .set("X-Forwarded-For", "10.66.0.1")
+      .send({ email: demoEmail("buyer"), password: DEMO_PASSWORD });
     expect(signIn.status).toBe(200);
 
     const lot = `KILL-${Date.now().toString(36)}`.toUpperCase();
@@ -158,17 +177,27 @@ describe("the app is killed in the middle of an import", () => {
     const before = await fingerprint();
     const gap = await ledgerGap();
 
-    const pending = agent.post("/api/imports/deliveries?commit=1").set("Origin", OWN_URL).set("Content-Type", "text/csv").send(csv).then(
-      (r) => ({ status: r.status }),
-      (e: Error) => ({ error: e.message }),
-    );
+    const pending = agent
+      .post("/api/imports/deliveries?commit=1")
+      .set("Origin", OWN_URL)
+      .set("Content-Type", "text/csv")
+      .send(csv)
+      .then(
+        (r) => ({ status: r.status }),
+        (e: Error) => ({ error: e.message }),
+      );
     let finished = false;
     void pending.then(() => (finished = true));
     // Kill the server while its import transaction is open.
-    await until("the import's transaction to be open", async () => {
-      if (finished) throw new Error("the import finished before it could be interrupted");
-      return (await writesInFlight()) > 0;
-    }, 60_000, 10);
+    await until(
+      "the import's transaction to be open",
+      async () => {
+        if (finished) throw new Error("the import finished before it could be interrupted");
+        return (await writesInFlight()) > 0;
+      },
+      60_000,
+      10,
+    );
     killGroup(server, "SIGKILL");
     const outcome = await pending;
     expect(outcome, "the client saw the connection drop").toHaveProperty("error");
@@ -176,16 +205,32 @@ describe("the app is killed in the middle of an import", () => {
     // Postgres rolls the transaction back once it sees the client gone.
     await until("the killed server's transaction to end", async () => (await writesInFlight()) === 0, 30_000, 100);
     expect(diff(before, await fingerprint())).toEqual([]);
-    expect(await testDb()("blocks").where({ lot }).count<{ n: string }[]>({ n: "*" }).first().then((r) => Number(r?.n))).toBe(0);
+    expect(
+      await testDb()("blocks")
+        .where({ lot })
+        .count<{ n: string }[]>({ n: "*" })
+        .first()
+        .then((r) => Number(r?.n)),
+    ).toBe(0);
     const mid = await ledgerGap();
     expect(mid.m3).toBeCloseTo(gap.m3, 9);
 
     // Restarted, the same session and the same file go through whole.
     server = startOwnServer();
     await waitUp(server);
-    const again = await agent.post("/api/imports/deliveries?commit=1").set("Origin", OWN_URL).set("Content-Type", "text/csv").send(csv);
+    const again = await agent
+      .post("/api/imports/deliveries?commit=1")
+      .set("Origin", OWN_URL)
+      .set("Content-Type", "text/csv")
+      .send(csv);
     expect(again.status, JSON.stringify(again.body).slice(0, 300)).toBe(201);
-    expect(await testDb()("blocks").where({ lot }).count<{ n: string }[]>({ n: "*" }).first().then((r) => Number(r?.n))).toBe(rows);
+    expect(
+      await testDb()("blocks")
+        .where({ lot })
+        .count<{ n: string }[]>({ n: "*" })
+        .first()
+        .then((r) => Number(r?.n)),
+    ).toBe(rows);
     const end = await ledgerGap();
     expect(end.m3).toBeCloseTo(gap.m3, 6);
     killGroup(server, "SIGTERM");
@@ -206,10 +251,15 @@ async function startOwnWorker(): Promise<ChildProcess> {
     stdio: ["ignore", log, log],
   });
   children.add(child);
-  const state = await until("the worker to be ready", async () => {
-    if (child.exitCode !== null) return "exited";
-    return fs.readFileSync(workerLog, "utf8").slice(from).includes("[worker] ready") && "ready";
-  }, 120_000, 100);
+  const state = await until(
+    "the worker to be ready",
+    async () => {
+      if (child.exitCode !== null) return "exited";
+      return fs.readFileSync(workerLog, "utf8").slice(from).includes("[worker] ready") && "ready";
+    },
+    120_000,
+    100,
+  );
   if (state === "exited") throw new Error(`the worker exited (${child.exitCode}); see ${workerLog}`);
   return child;
 }
@@ -236,7 +286,14 @@ describe("a worker is killed in the middle of a nesting run", () => {
     await planner.signIn(demoEmail("planner"));
     // More parts than the stock can hold: the search cannot finish early and runs to its time limit.
     const blocks = [await makeBlock({ size: [2440, 1220, 610] }), await makeBlock({ size: [2440, 1220, 610] })];
-    const sizes: [number, number, number][] = [[730, 410, 95], [515, 333, 121], [1210, 287, 64], [377, 377, 377], [905, 150, 45], [640, 480, 210]];
+    const sizes: [number, number, number][] = [
+      [730, 410, 95],
+      [515, 333, 121],
+      [1210, 287, 64],
+      [377, 377, 377],
+      [905, 150, 45],
+      [640, 480, 210],
+    ];
 
     // The shared test worker competes for the job: it is paused (under `npm test`); otherwise
     // repeat until the one we kill had it.
@@ -244,11 +301,28 @@ describe("a worker is killed in the middle of a nesting run", () => {
     const paused = pauseSharedWorker(true);
     for (let attempt = 0; attempt < (paused ? 1 : 6) && !orphan; attempt++) {
       const worker = await startOwnWorker();
-      const { jobId } = await makeJobWithParts(sizes.map((s, i) => ({ name: `Fault part ${i}`, quantity: 30, size: s, gradeCode: "EPS-II" })));
-      const created = await planner.post("/api/runs", { jobIds: [jobId], blockIds: blocks.map((b) => b.id), settings: { kerf: 1.5, trim: 6, defectMargin: 10, minOffcut: [150, 150, 25], layout: "guillotine", timeLimitMs: 120_000 } });
+      const { jobId } = await makeJobWithParts(
+        sizes.map((s, i) => ({ name: `Fault part ${i}`, quantity: 30, size: s, gradeCode: "EPS-II" })),
+      );
+      const created = await planner.post("/api/runs", {
+        jobIds: [jobId],
+        blockIds: blocks.map((b) => b.id),
+        settings: {
+          kerf: 1.5,
+          trim: 6,
+          defectMargin: 10,
+          minOffcut: [150, 150, 25],
+          layout: "guillotine",
+          timeLimitMs: 120_000,
+        },
+      });
       expect(created.status, JSON.stringify(created.body)).toBe(201);
       const runId = created.body.run?.id ?? created.body.id ?? created.body.runId;
-      await until("the run to start", async () => (await testDb()("nesting_runs").where({ id: runId }).first("status")).status === "running", 60_000);
+      await until(
+        "the run to start",
+        async () => (await testDb()("nesting_runs").where({ id: runId }).first("status")).status === "running",
+        60_000,
+      );
       killGroup(worker, "SIGKILL");
       // A progress write the worker sent just before it died may still commit: let it land first.
       await sleep(500);
@@ -263,10 +337,15 @@ describe("a worker is killed in the middle of a nesting run", () => {
 
     // The "restart": a fresh worker sweeps the stalled run.
     const restarted = await startOwnWorker();
-    const failed = await until("the stalled run to be swept", async () => {
-      const r = await testDb()("nesting_runs").where({ id: orphan }).first("status", "error", "finished_at");
-      return r.status !== "running" ? r : undefined;
-    }, 60_000, 250);
+    const failed = await until(
+      "the stalled run to be swept",
+      async () => {
+        const r = await testDb()("nesting_runs").where({ id: orphan }).first("status", "error", "finished_at");
+        return r.status !== "running" ? r : undefined;
+      },
+      60_000,
+      250,
+    );
     expect(failed.status).toBe("failed");
     expect(failed.error).toMatch(/worker stopped/i);
     expect(failed.finished_at).toBeTruthy();

@@ -19,7 +19,11 @@ afterAll(closeTestDb);
 
 const SEED = 20261201;
 const KEYS = Object.keys(API_POLICY) as RouteKey[];
-const CSV_ROUTES = new Set<RouteKey>(["POST /api/imports/deliveries", "POST /api/imports/stock-counts", "POST /api/jobs/[jobId]/parts/import"]);
+const CSV_ROUTES = new Set<RouteKey>([
+  "POST /api/imports/deliveries",
+  "POST /api/imports/stock-counts",
+  "POST /api/jobs/[jobId]/parts/import",
+]);
 // Routes whose success would end or change the caller's own session get a throwaway admin each.
 const OWN_CLIENT = new Set<RouteKey>(["POST /api/auth/sign-in", "POST /api/auth/sign-out", "POST /api/me/password"]);
 
@@ -32,18 +36,54 @@ const deep = (n: number): unknown => {
 };
 
 const HOSTILE: unknown[] = [
-  null, true, false, 0, -0, -1, -1e9, 1.5, 1e308, -1e308, 2 ** 53 + 1, 5e-324,
-  "", " ", "NaN", "Infinity", "-Infinity", "1e999", "-1", "0x1F", "١٢٣", "1,5", "12abc",
+  null,
+  true,
+  false,
+  0,
+  -0,
+  -1,
+  -1e9,
+  1.5,
+  1e308,
+  -1e308,
+  2 ** 53 + 1,
+  5e-324,
+  "",
+  " ",
+  "NaN",
+  "Infinity",
+  "-Infinity",
+  "1e999",
+  "-1",
+  "0x1F",
+  "١٢٣",
+  "1,5",
+  "12abc",
   "x".repeat(100_000),
   "\u202Egpj.exe", // right-to-left override
   "a\u200Bb\uFEFF", // zero-width space, BOM inside
   "a\u0000b", // NUL
-  "\uD800", "\uDFFFx", // lone surrogates
+  "\uD800",
+  "\uDFFFx", // lone surrogates
   "e\u0301\u0301\u0301\u0301", // stacked combining marks
-  "<script>alert(1)</script>", "' OR '1'='1' --", "'; DROP TABLE blocks; --",
-  "=cmd|' /C calc'!A0", "../../../etc/passwd", "%00", "${7*7}", "{{7*7}}",
-  "2026-02-30", "9999-99-99", "0000-00-00",
-  [], {}, [null], [[]], ["a", 1, null], { length: 1e9 }, [1e308, -1e308, 0],
+  "<script>alert(1)</script>",
+  "' OR '1'='1' --",
+  "'; DROP TABLE blocks; --",
+  "=cmd|' /C calc'!A0",
+  "../../../etc/passwd",
+  "%00",
+  "${7*7}",
+  "{{7*7}}",
+  "2026-02-30",
+  "9999-99-99",
+  "0000-00-00",
+  [],
+  {},
+  [null],
+  [[]],
+  ["a", 1, null],
+  { length: 1e9 },
+  [1e308, -1e308, 0],
   deep(200),
 ];
 
@@ -56,13 +96,55 @@ const hostileValue = fc.oneof(
 );
 
 const INVALID_JSON = [
-  "{", "}", "{\"a\":}", "{'a':1}", "[1,]", "{\"a\":1,}", "NaN", "{\"a\":NaN}", "{\"a\":Infinity}", "{\"a\":-Infinity}",
-  "undefined", "", " ", "\uFEFF{}", "{\"a\":\"\\ud800\"", "1".padEnd(400, "0"), "{\"a\":1}{\"b\":2}", "/* */{}", "{\"a\":01}",
+  "{",
+  "}",
+  '{"a":}',
+  "{'a':1}",
+  "[1,]",
+  '{"a":1,}',
+  "NaN",
+  '{"a":NaN}',
+  '{"a":Infinity}',
+  '{"a":-Infinity}',
+  "undefined",
+  "",
+  " ",
+  "\uFEFF{}",
+  '{"a":"\\ud800"',
+  "1".padEnd(400, "0"),
+  '{"a":1}{"b":2}',
+  "/* */{}",
+  '{"a":01}',
 ];
 
-const WRONG_TYPES = ["text/plain", "application/x-www-form-urlencoded", "multipart/form-data; boundary=xyz", "application/xml", "image/png", "application/json; charset=utf-16", "application/jsonx"];
+const WRONG_TYPES = [
+  "text/plain",
+  "application/x-www-form-urlencoded",
+  "multipart/form-data; boundary=xyz",
+  "application/xml",
+  "image/png",
+  "application/json; charset=utf-16",
+  "application/jsonx",
+];
 
-const HOSTILE_PARAMS = ["0", "-1", "1.5", "1e99", "99999999999999999999", "abc", "..%2F..%2Fetc%2Fpasswd", "%00", "1%3BDROP%20TABLE%20blocks", "%E2%80%AE1", "__proto__", "constructor", "NaN", "Infinity", "0x10", "%20%201"];
+const HOSTILE_PARAMS = [
+  "0",
+  "-1",
+  "1.5",
+  "1e99",
+  "99999999999999999999",
+  "abc",
+  "..%2F..%2Fetc%2Fpasswd",
+  "%00",
+  "1%3BDROP%20TABLE%20blocks",
+  "%E2%80%AE1",
+  "__proto__",
+  "constructor",
+  "NaN",
+  "Infinity",
+  "0x10",
+  "%20%201",
+];
 
 // ---- variants ----
 
@@ -101,21 +183,63 @@ function jsonVariants(example: Example, runs: number, seed: number): Variant[] {
   const ps = paths(base);
   const pathArb = ps.length ? fc.constantFrom(...ps) : fc.constant(["field"] as (string | number)[]);
   const variant: fc.Arbitrary<Variant> = fc.oneof(
-    { weight: 8, arbitrary: fc.tuple(pathArb, hostileValue).map(([p, v]) => ({ label: `${p.join(".")} = ${short(v)}`, body: JSON.stringify(setAt(base, p, v)) })) },
-    { weight: 2, arbitrary: pathArb.map((p) => ({ label: `without ${p.join(".")}`, body: JSON.stringify(setAt(base, p, undefined, true)) })) },
+    {
+      weight: 8,
+      arbitrary: fc
+        .tuple(pathArb, hostileValue)
+        .map(([p, v]) => ({ label: `${p.join(".")} = ${short(v)}`, body: JSON.stringify(setAt(base, p, v)) })),
+    },
+    {
+      weight: 2,
+      arbitrary: pathArb.map((p) => ({
+        label: `without ${p.join(".")}`,
+        body: JSON.stringify(setAt(base, p, undefined, true)),
+      })),
+    },
     {
       weight: 2,
       arbitrary: fc.constantFrom("__proto__", "constructor", "prototype", "toString", "hasOwnProperty").map((k) => ({
         label: `extra key ${k}`,
-        body: JSON.stringify(base).replace(/^\{/, `{"${k}":{"isAdmin":true,"roles":["admin"],"polluted":1}${Object.keys(base ?? {}).length ? "," : ""}`),
+        body: JSON.stringify(base).replace(
+          /^\{/,
+          `{"${k}":{"isAdmin":true,"roles":["admin"],"polluted":1}${Object.keys(base ?? {}).length ? "," : ""}`,
+        ),
       })),
     },
-    { weight: 2, arbitrary: hostileValue.map((v) => ({ label: `whole body ${short(v)}`, body: JSON.stringify(v) ?? "null" })) },
-    { weight: 2, arbitrary: fc.constantFrom(...INVALID_JSON).map((t) => ({ label: `invalid JSON ${short(t)}`, body: t })) },
-    { weight: 1, arbitrary: fc.constant({ label: "invalid UTF-8 bytes", body: Buffer.from([0x7b, 0x22, 0x61, 0x22, 0x3a, 0x22, 0xff, 0xfe, 0xc0, 0x22, 0x7d]) }) },
-    { weight: 2, arbitrary: fc.constantFrom(...WRONG_TYPES).map((t) => ({ label: `content-type ${t}`, body: JSON.stringify(base), contentType: t })) },
-    { weight: 1, arbitrary: fc.constant({ label: "no content-type", body: Buffer.from(JSON.stringify(base)), contentType: null }) },
-    { weight: 1, arbitrary: fc.constant({ label: "2 MB string field", body: JSON.stringify(ps.length ? setAt(base, ps[0]!, "y".repeat(2 * 1024 * 1024)) : { field: "y".repeat(2 * 1024 * 1024) }) }) },
+    {
+      weight: 2,
+      arbitrary: hostileValue.map((v) => ({ label: `whole body ${short(v)}`, body: JSON.stringify(v) ?? "null" })),
+    },
+    {
+      weight: 2,
+      arbitrary: fc.constantFrom(...INVALID_JSON).map((t) => ({ label: `invalid JSON ${short(t)}`, body: t })),
+    },
+    {
+      weight: 1,
+      arbitrary: fc.constant({
+        label: "invalid UTF-8 bytes",
+        body: Buffer.from([0x7b, 0x22, 0x61, 0x22, 0x3a, 0x22, 0xff, 0xfe, 0xc0, 0x22, 0x7d]),
+      }),
+    },
+    {
+      weight: 2,
+      arbitrary: fc
+        .constantFrom(...WRONG_TYPES)
+        .map((t) => ({ label: `content-type ${t}`, body: JSON.stringify(base), contentType: t })),
+    },
+    {
+      weight: 1,
+      arbitrary: fc.constant({ label: "no content-type", body: Buffer.from(JSON.stringify(base)), contentType: null }),
+    },
+    {
+      weight: 1,
+      arbitrary: fc.constant({
+        label: "2 MB string field",
+        body: JSON.stringify(
+          ps.length ? setAt(base, ps[0]!, "y".repeat(2 * 1024 * 1024)) : { field: "y".repeat(2 * 1024 * 1024) },
+        ),
+      }),
+    },
   );
   const out = fc.sample(variant, { numRuns: runs, seed }).map((v) => ({ params: example.params, ...v }));
   // Hostile path parameters too, for routes that take them.
@@ -123,22 +247,81 @@ function jsonVariants(example: Example, runs: number, seed: number): Variant[] {
     const names = Object.keys(example.params);
     for (const [i, bad] of fc.sample(fc.constantFrom(...HOSTILE_PARAMS), { numRuns: 3, seed: seed + 1 }).entries()) {
       const name = names[i % names.length]!;
-      out.push({ label: `param ${name}=${bad}`, params: { ...example.params, [name]: bad }, body: JSON.stringify(base) });
+      out.push({
+        label: `param ${name}=${bad}`,
+        params: { ...example.params, [name]: bad },
+        body: JSON.stringify(base),
+      });
     }
   }
   return out;
 }
 
-const QUERY_KEYS = ["page", "pageSize", "sort", "dir", "status", "grade", "q", "minLength", "maxLength", "minVolume", "offcuts", "location", "jobs", "block", "size", "from", "to", "kind", "limit", "commit", "name", "blockId", "jobId", "__proto__", "constructor"];
-const RAW_QUERIES = ["%", "%zz=1", "q=%E0%A4%A", "q=%00", "page=1&page=2&page=-1", "__proto__[polluted]=1", "constructor[prototype][x]=1", "q[]=a&q[]=b", "sort=code;DROP TABLE blocks", "q=%25%5F%5C", "pageSize=1e309", "page=0x10", "=&&=&", "q=" + "%F0%9F%98%80".repeat(300)];
+const QUERY_KEYS = [
+  "page",
+  "pageSize",
+  "sort",
+  "dir",
+  "status",
+  "grade",
+  "q",
+  "minLength",
+  "maxLength",
+  "minVolume",
+  "offcuts",
+  "location",
+  "jobs",
+  "block",
+  "size",
+  "from",
+  "to",
+  "kind",
+  "limit",
+  "commit",
+  "name",
+  "blockId",
+  "jobId",
+  "__proto__",
+  "constructor",
+];
+const RAW_QUERIES = [
+  "%",
+  "%zz=1",
+  "q=%E0%A4%A",
+  "q=%00",
+  "page=1&page=2&page=-1",
+  "__proto__[polluted]=1",
+  "constructor[prototype][x]=1",
+  "q[]=a&q[]=b",
+  "sort=code;DROP TABLE blocks",
+  "q=%25%5F%5C",
+  "pageSize=1e309",
+  "page=0x10",
+  "=&&=&",
+  "q=" + "%F0%9F%98%80".repeat(300),
+];
 
 function queryVariants(example: Example, runs: number, seed: number): Variant[] {
-  const pair = fc.tuple(fc.constantFrom(...QUERY_KEYS), hostileValue.map((v) => (typeof v === "string" ? v.slice(0, 1500) : JSON.stringify(v)?.slice(0, 1500) ?? "")));
+  const pair = fc.tuple(
+    fc.constantFrom(...QUERY_KEYS),
+    hostileValue.map((v) => (typeof v === "string" ? v.slice(0, 1500) : (JSON.stringify(v)?.slice(0, 1500) ?? ""))),
+  );
   const q = fc.oneof(
-    { weight: 4, arbitrary: fc.array(pair, { minLength: 1, maxLength: 4 }).map((ps) => ps.map(([k, v]) => `${enc(k)}=${enc(v)}`).join("&")) },
+    {
+      weight: 4,
+      arbitrary: fc
+        .array(pair, { minLength: 1, maxLength: 4 })
+        .map((ps) => ps.map(([k, v]) => `${enc(k)}=${enc(v)}`).join("&")),
+    },
     { weight: 2, arbitrary: fc.constantFrom(...RAW_QUERIES) },
   );
-  const out: Variant[] = fc.sample(q, { numRuns: runs, seed }).map((s) => ({ label: `?${short(s)}`, params: example.params, query: [example.query, s].filter(Boolean).join("&") }));
+  const out: Variant[] = fc
+    .sample(q, { numRuns: runs, seed })
+    .map((s) => ({
+      label: `?${short(s)}`,
+      params: example.params,
+      query: [example.query, s].filter(Boolean).join("&"),
+    }));
   if (example.params) {
     const names = Object.keys(example.params);
     for (const [i, bad] of HOSTILE_PARAMS.slice(0, 6).entries()) {
@@ -155,16 +338,33 @@ function csvVariants(example: Example, runs: number, seed: number): Variant[] {
   const row = rest[0] ?? "";
   const cells = row.split(",");
   const withCell = (i: number, v: string) => cells.map((c, j) => (j === i ? v : c)).join(",");
-  const formula = ["=cmd|' /C calc'!A0", "+1+1", "-2+3", "@SUM(A1:A9)", "\t=1", "=HYPERLINK(\"http://x\")", "\"=1,2\""];
+  const formula = ["=cmd|' /C calc'!A0", "+1+1", "-2+3", "@SUM(A1:A9)", "\t=1", '=HYPERLINK("http://x")', '"=1,2"'];
   const fixed: Variant[] = [
-    ...formula.flatMap((f, k) => cells.map((_, i) => ({ label: `formula ${short(f)} in cell ${i}`, body: `${header}\n${withCell(i, f)}\n`, query: k % 2 ? "commit=1" : "commit=0" }))).slice(0, 14),
+    ...formula
+      .flatMap((f, k) =>
+        cells.map((_, i) => ({
+          label: `formula ${short(f)} in cell ${i}`,
+          body: `${header}\n${withCell(i, f)}\n`,
+          query: k % 2 ? "commit=1" : "commit=0",
+        })),
+      )
+      .slice(0, 14),
     { label: "BOM", body: `\uFEFF${header}\n${row}\n` },
     { label: "two BOMs", body: `\uFEFF\uFEFF${header}\n${row}\n` },
-    { label: "UTF-16LE with BOM", body: Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(`${header}\n${row}\n`, "utf16le")]) },
-    { label: "invalid UTF-8", body: Buffer.concat([Buffer.from(`${header}\n`), Buffer.from([0xc3, 0x28, 0xff, 0x2c, 0x0a])]) },
+    {
+      label: "UTF-16LE with BOM",
+      body: Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(`${header}\n${row}\n`, "utf16le")]),
+    },
+    {
+      label: "invalid UTF-8",
+      body: Buffer.concat([Buffer.from(`${header}\n`), Buffer.from([0xc3, 0x28, 0xff, 0x2c, 0x0a])]),
+    },
     { label: "NUL in a cell", body: `${header}\n${withCell(0, "a\u0000b")}\n` },
     { label: "NULs only", body: Buffer.alloc(4096) },
-    { label: "20,000 columns in the header", body: `${header},${Array.from({ length: 20_000 }, (_, i) => `c${i}`).join(",")}\n${row}\n` },
+    {
+      label: "20,000 columns in the header",
+      body: `${header},${Array.from({ length: 20_000 }, (_, i) => `c${i}`).join(",")}\n${row}\n`,
+    },
     { label: "20,000 columns in a row", body: `${header}\n${row},${",x".repeat(20_000)}\n` },
     { label: "CRLF", body: `${header}\r\n${row}\r\n` },
     { label: "CR only", body: `${header}\r${row}\r` },
@@ -178,19 +378,33 @@ function csvVariants(example: Example, runs: number, seed: number): Variant[] {
     { label: "semicolons", body: text.replace(/,/g, ";") },
     { label: "1 MB cell", body: `${header}\n${withCell(0, "z".repeat(1024 * 1024))}\n` },
     { label: "duplicate header", body: `${header},${header.split(",")[0]}\n${row},x\n` },
-    { label: "RTL override and zero-width in cells", body: `${header}\n${cells.map((c) => `\u202E${c}\u200B`).join(",")}\n` },
+    {
+      label: "RTL override and zero-width in cells",
+      body: `${header}\n${cells.map((c) => `\u202E${c}\u200B`).join(",")}\n`,
+    },
     { label: "lone surrogate", body: `${header}\n${withCell(0, "\uD800")}\n` },
     { label: "content-type application/json", body: text, contentType: "application/json" },
     { label: "content-type image/png", body: text, contentType: "image/png" },
     { label: "no content-type", body: Buffer.from(text), contentType: null },
   ];
-  const cell = fc.oneof(fc.string({ unit: "binary", maxLength: 30 }), fc.constantFrom("NaN", "Infinity", "-1", "1e999", "0", "١٢٣", "2026-13-01", "=1", "\"", "\"\"", ""));
-  const randomRows = fc.array(fc.array(cell, { minLength: 1, maxLength: cells.length + 2 }), { minLength: 1, maxLength: 5 });
+  const cell = fc.oneof(
+    fc.string({ unit: "binary", maxLength: 30 }),
+    fc.constantFrom("NaN", "Infinity", "-1", "1e999", "0", "١٢٣", "2026-13-01", "=1", '"', '""', ""),
+  );
+  const randomRows = fc.array(fc.array(cell, { minLength: 1, maxLength: cells.length + 2 }), {
+    minLength: 1,
+    maxLength: 5,
+  });
   const generated = fc.sample(randomRows, { numRuns: runs, seed }).map((rows) => ({
     label: `random rows ${short(JSON.stringify(rows))}`,
     body: `${header}\n${rows.map((r) => r.map((c) => (/[",\n\r]/.test(c) ? `"${c.replace(/"/g, '""')}"` : c)).join(",")).join("\n")}\n`,
   }));
-  return [...fixed, ...generated].map((v) => ({ contentType: "text/csv", query: "commit=1", ...v, params: example.params }));
+  return [...fixed, ...generated].map((v) => ({
+    contentType: "text/csv",
+    query: "commit=1",
+    ...v,
+    params: example.params,
+  }));
 }
 
 /** Percent-encoding that survives lone surrogates (sent as U+FFFD, as a browser would). */
@@ -198,7 +412,9 @@ function enc(s: string): string {
   try {
     return encodeURIComponent(s);
   } catch {
-    return encodeURIComponent(s.replace(/[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g, "\uFFFD"));
+    return encodeURIComponent(
+      s.replace(/[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g, "\uFFFD"),
+    );
   }
 }
 
@@ -241,11 +457,14 @@ async function fire(c: Client, key: RouteKey, v: Variant) {
     if (v.contentType === undefined) req = req.set("Content-Type", "application/json");
     req = req.send(typeof v.body === "string" ? v.body : v.body);
   }
-  return req.timeout({ response: 60_000, deadline: 90_000 }).buffer(true).parse((res, done) => {
-    const chunks: Buffer[] = [];
-    res.on("data", (d: Buffer) => chunks.push(d));
-    res.on("end", () => done(null, Buffer.concat(chunks)));
-  });
+  return req
+    .timeout({ response: 60_000, deadline: 90_000 })
+    .buffer(true)
+    .parse((res, done) => {
+      const chunks: Buffer[] = [];
+      res.on("data", (d: Buffer) => chunks.push(d));
+      res.on("end", () => done(null, Buffer.concat(chunks)));
+    });
 }
 
 /** Sends each variant, checking the answer and that a refused one changed nothing. */
@@ -271,12 +490,19 @@ async function attack(key: RouteKey, variants: Variant[], c: Client) {
       } catch {
         body = undefined;
       }
-      if (!/application\/json/.test(String(res.headers["content-type"])) || typeof body?.error !== "string" || !body.error) {
-        failures.push(`${what}: ${res.status} without a JSON { error }: ${String(res.headers["content-type"])} ${raw.slice(0, 120)}`);
+      if (
+        !/application\/json/.test(String(res.headers["content-type"])) ||
+        typeof body?.error !== "string" ||
+        !body.error
+      ) {
+        failures.push(
+          `${what}: ${res.status} without a JSON { error }: ${String(res.headers["content-type"])} ${raw.slice(0, 120)}`,
+        );
       }
       const after = await fingerprint();
       const changed = diff(before, after);
-      if (changed.length) failures.push(`${what}: refused with ${res.status} but the database changed: ${changed.join("; ")}`);
+      if (changed.length)
+        failures.push(`${what}: refused with ${res.status} but the database changed: ${changed.join("; ")}`);
       before = after;
     } else {
       before = await fingerprint(); // accepted: whatever it changed is the new baseline
@@ -327,17 +553,39 @@ describe("hostile input to every route, signed in as admin", () => {
 
   it("refuses bodies larger than the server takes, with 4xx and nothing saved", async () => {
     // fetch, not supertest: superagent stalls sending a 66 MB buffer to a server that answers early.
-    const signIn = await fetch(`${BASE_URL}/api/auth/sign-in`, { method: "POST", headers: { "content-type": "application/json", origin: BASE_URL, "x-forwarded-for": "10.88.0.1" }, body: JSON.stringify({ email: adminEmail, password: TEST_PASSWORD }) });
+    const signIn = await fetch(`${BASE_URL}/api/auth/sign-in`, {
+      method: "POST",
+      headers: { "content-type": "application/json", origin: BASE_URL, "x-forwarded-for": "10.88.0.1" },
+      body: JSON.stringify({ email: adminEmail, password: TEST_PASSWORD }),
+    });
     const cookie = signIn.headers.get("set-cookie")!.split(";")[0]!;
     const big = Buffer.alloc(66 * 1024 * 1024, 0x61);
     const cases: [string, string, Buffer][] = [
       ["/api/grades", "application/json", Buffer.concat([Buffer.from('{"code":"'), big, Buffer.from('"}')])],
-      ["/api/imports/deliveries?commit=1", "text/csv", Buffer.concat([Buffer.from("supplier,received_on,lot\n"), big.subarray(0, 21 * 1024 * 1024)])],
-      ["/api/defects/1/photos", "multipart/form-data; boundary=x", Buffer.concat([Buffer.from('--x\r\nContent-Disposition: form-data; name="photos"; filename="a.jpg"\r\nContent-Type: image/jpeg\r\n\r\n\xff\xd8\xff'), big.subarray(0, 40 * 1024 * 1024), Buffer.from("\r\n--x--\r\n")])],
+      [
+        "/api/imports/deliveries?commit=1",
+        "text/csv",
+        Buffer.concat([Buffer.from("supplier,received_on,lot\n"), big.subarray(0, 21 * 1024 * 1024)]),
+      ],
+      [
+        "/api/defects/1/photos",
+        "multipart/form-data; boundary=x",
+        Buffer.concat([
+          Buffer.from(
+            '--x\r\nContent-Disposition: form-data; name="photos"; filename="a.jpg"\r\nContent-Type: image/jpeg\r\n\r\n\xff\xd8\xff',
+          ),
+          big.subarray(0, 40 * 1024 * 1024),
+          Buffer.from("\r\n--x--\r\n"),
+        ]),
+      ],
     ];
     for (const [url, type, body] of cases) {
       const before = await fingerprint();
-      const res = await fetch(`${BASE_URL}${url}`, { method: "POST", headers: { cookie, origin: BASE_URL, "content-type": type }, body: new Uint8Array(body) });
+      const res = await fetch(`${BASE_URL}${url}`, {
+        method: "POST",
+        headers: { cookie, origin: BASE_URL, "content-type": type },
+        body: new Uint8Array(body),
+      });
       sent++;
       const json = (await res.json().catch(() => ({}))) as { error?: string };
       expect(res.status, `${url}: ${JSON.stringify(json)}`).toBeGreaterThanOrEqual(400);
@@ -355,19 +603,22 @@ describe("hostile input to every route, signed in as admin", () => {
 });
 
 describe("CSV exports defuse formula cells", () => {
-  it.each(["=", "+", "-", "@"])("a block whose location starts with %s comes back with a leading apostrophe", async (p) => {
-    const location = `${p}cmd|' /C calc'!A0`;
-    const b = await makeBlock({ location });
-    const res = await admin.get(`/api/blocks/export?q=${encodeURIComponent(b.code)}&status=all`);
-    expect(res.status).toBe(200);
-    const text = (res.text ?? "").replace(/^\uFEFF/, "");
-    const parsed = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
-    expect(parsed.data).toHaveLength(1);
-    expect(parsed.data[0]!.code).toBe(b.code);
-    expect(parsed.data[0]!.location).toBe(`'${location}`);
-    // No cell of the file starts a formula.
-    for (const cell of parsed.data.flatMap((r) => Object.values(r))) expect(cell).not.toMatch(/^[=+\-@\t\r]/);
-  });
+  it.each(["=", "+", "-", "@"])(
+    "a block whose location starts with %s comes back with a leading apostrophe",
+    async (p) => {
+      const location = `${p}cmd|' /C calc'!A0`;
+      const b = await makeBlock({ location });
+      const res = await admin.get(`/api/blocks/export?q=${encodeURIComponent(b.code)}&status=all`);
+      expect(res.status).toBe(200);
+      const text = (res.text ?? "").replace(/^\uFEFF/, "");
+      const parsed = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
+      expect(parsed.data).toHaveLength(1);
+      expect(parsed.data[0]!.code).toBe(b.code);
+      expect(parsed.data[0]!.location).toBe(`'${location}`);
+      // No cell of the file starts a formula.
+      for (const cell of parsed.data.flatMap((r) => Object.values(r))) expect(cell).not.toMatch(/^[=+\-@\t\r]/);
+    },
+  );
 });
 
 describe("hostile stored data", () => {
@@ -375,12 +626,31 @@ describe("hostile stored data", () => {
     const k = testDb();
     const block = await makeBlock({ size: [2000, 1000, 600] });
     const spare = await makeBlock({ size: [2000, 1000, 600] });
-    const { jobId, partIds } = await makeJobWithParts([{ name: "History rib", quantity: 2, size: [600, 300, 100], gradeCode: "EPS-II" }]);
+    const { jobId, partIds } = await makeJobWithParts([
+      { name: "History rib", quantity: 2, size: [600, 300, 100], gradeCode: "EPS-II" },
+    ]);
     const [run] = await k("nesting_runs")
-      .insert({ status: "closed", job_ids: [jobId], block_ids: [block.id], settings: JSON.stringify({ seeded: true }), problem: JSON.stringify({ seeded: true }), progress: 1 })
+      .insert({
+        status: "closed",
+        job_ids: [jobId],
+        block_ids: [block.id],
+        settings: JSON.stringify({ seeded: true }),
+        problem: JSON.stringify({ seeded: true }),
+        progress: 1,
+      })
       .returning("id");
     const admin = await k("users").where({ email: adminEmail }).first("id");
-    await k("cut_parts").insert({ run_id: run.id, block_id: block.id, job_part_id: partIds[0], good_count: 1, rejected_count: 1, reject_reason: "test", part_volume_m3: 0.018, volume_basis: "box", recorded_by: admin.id });
+    await k("cut_parts").insert({
+      run_id: run.id,
+      block_id: block.id,
+      job_part_id: partIds[0],
+      good_count: 1,
+      rejected_count: 1,
+      reject_reason: "test",
+      part_volume_m3: 0.018,
+      volume_basis: "box",
+      recorded_by: admin.id,
+    });
     const res = await (await freshAdmin()).post(`/api/runs/${run.id}/replan`);
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     const child = await k("nesting_runs").where({ id: res.body.id }).first("settings", "parent_run_id");

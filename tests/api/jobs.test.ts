@@ -22,14 +22,26 @@ beforeAll(async () => {
 });
 
 const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id")).id as number;
-const postCsv = (c: Client, path: string, body: string) => c.call("post", path).set("content-type", "text/csv").send(body);
+const postCsv = (c: Client, path: string, body: string) =>
+  c.call("post", path).set("content-type", "text/csv").send(body);
 
 describe("jobs", () => {
   it("creates, reads, lists and updates a job", async () => {
-    const created = await planner.post("/api/jobs", { name: "Gull kits — batch 1", customer: "Larkspur Model Flyers", dueOn: "2026-12-20", notes: "Rush" });
+    const created = await planner.post("/api/jobs", {
+      name: "Gull kits — batch 1",
+      customer: "Larkspur Model Flyers",
+      dueOn: "2026-12-20",
+      notes: "Rush",
+    });
     expect(created.status).toBe(201);
     const id = created.body.job.id;
-    expect(created.body.job).toMatchObject({ name: "Gull kits — batch 1", customer: "Larkspur Model Flyers", dueOn: "2026-12-20", status: "open", lineCount: 0 });
+    expect(created.body.job).toMatchObject({
+      name: "Gull kits — batch 1",
+      customer: "Larkspur Model Flyers",
+      dueOn: "2026-12-20",
+      status: "open",
+      lineCount: 0,
+    });
 
     const read = await cutter.get(`/api/jobs/${id}`);
     expect(read.status).toBe(200);
@@ -43,7 +55,11 @@ describe("jobs", () => {
     expect(listed.status).toBe(200);
     expect(listed.body.items.map((j: { id: number }) => j.id)).toContain(id);
     for (const j of listed.body.items) expect(j.status).toBe("planned");
-    expect(await testDb()("audit_log").where({ subject: `job:${id}` }).pluck("action")).toEqual(expect.arrayContaining(["job.create", "job.update"]));
+    expect(
+      await testDb()("audit_log")
+        .where({ subject: `job:${id}` })
+        .pluck("action"),
+    ).toEqual(expect.arrayContaining(["job.create", "job.update"]));
   });
 
   it("answers { items, total } with paging, soonest due first", async () => {
@@ -82,9 +98,19 @@ describe("jobs", () => {
     const id = await makeJob();
     expect((await cutter.post("/api/jobs", { name: "Not mine" })).status).toBe(403);
     expect((await manager.patch(`/api/jobs/${id}`, { status: "done" })).status).toBe(403);
-    expect((await cutter.post(`/api/jobs/${id}/parts`, { name: "Rib", quantity: 1, size: [1, 1, 1] })).status).toBe(403);
+    expect((await cutter.post(`/api/jobs/${id}/parts`, { name: "Rib", quantity: 1, size: [1, 1, 1] })).status).toBe(
+      403,
+    );
     expect((await cutter.delete(`/api/jobs/${id}/parts/${await makeJobPart(id)}`)).status).toBe(403);
-    expect((await postCsv(cutter, `/api/jobs/${id}/parts/import?commit=1`, "name,quantity,length_mm,width_mm,height_mm\nA,1,1,1,1\n")).status).toBe(403);
+    expect(
+      (
+        await postCsv(
+          cutter,
+          `/api/jobs/${id}/parts/import?commit=1`,
+          "name,quantity,length_mm,width_mm,height_mm\nA,1,1,1,1\n",
+        )
+      ).status,
+    ).toBe(403);
     expect((await cutter.post("/api/library", { name: "x", size: [1, 1, 1] })).status).toBe(403);
     expect((await buyer.get("/api/jobs")).status).toBe(403);
     expect((await cutter.get(`/api/jobs/${id}`)).status).toBe(200);
@@ -119,10 +145,32 @@ describe("job parts", () => {
 
   it("computes a polygon extrusion's box and volume, and keeps a box part's volume null", async () => {
     const id = await makeJob();
-    const poly = await planner.post(`/api/jobs/${id}/parts`, { name: "Gusset", quantity: 3, profile: { kind: "polygon", points: [[0, 0], [300, 0], [0, 400]], extrudeMm: 50 } });
+    const poly = await planner.post(`/api/jobs/${id}/parts`, {
+      name: "Gusset",
+      quantity: 3,
+      profile: {
+        kind: "polygon",
+        points: [
+          [0, 0],
+          [300, 0],
+          [0, 400],
+        ],
+        extrudeMm: 50,
+      },
+    });
     expect(poly.status).toBe(201);
-    expect(poly.body.part).toMatchObject({ size: [50, 300, 400], trueVolumeMm3: 3_000_000, rotate: "any", gradeId: null });
-    const box = await planner.post(`/api/jobs/${id}/parts`, { name: "Plinth", quantity: 2, size: [600, 400, 300], rotate: "z" });
+    expect(poly.body.part).toMatchObject({
+      size: [50, 300, 400],
+      trueVolumeMm3: 3_000_000,
+      rotate: "any",
+      gradeId: null,
+    });
+    const box = await planner.post(`/api/jobs/${id}/parts`, {
+      name: "Plinth",
+      quantity: 2,
+      size: [600, 400, 300],
+      rotate: "z",
+    });
     expect(box.body.part).toMatchObject({ size: [600, 400, 300], trueVolumeMm3: null, rotate: "z" });
     const job = await planner.get(`/api/jobs/${id}`);
     expect(job.body.job).toMatchObject({ lineCount: 2, pieceCount: 5 });
@@ -132,10 +180,27 @@ describe("job parts", () => {
   it("refuses a self-intersecting polygon, a bad NACA code and a missing size by field, saving nothing", async () => {
     const id = await makeJob();
     const before = await tableCounts();
-    const bow = await planner.post(`/api/jobs/${id}/parts`, { name: "Bow", quantity: 1, profile: { kind: "polygon", points: [[0, 0], [100, 100], [100, 0], [0, 100]], extrudeMm: 10 } });
+    const bow = await planner.post(`/api/jobs/${id}/parts`, {
+      name: "Bow",
+      quantity: 1,
+      profile: {
+        kind: "polygon",
+        points: [
+          [0, 0],
+          [100, 100],
+          [100, 0],
+          [0, 100],
+        ],
+        extrudeMm: 10,
+      },
+    });
     expect(bow.status).toBe(400);
     expect(bow.body.fields["profile.points"]).toMatch(/cross/);
-    const naca = await planner.post(`/api/jobs/${id}/parts`, { name: "Wing", quantity: 1, profile: { kind: "naca", code: "23012", chordMm: 200, spanMm: 500 } });
+    const naca = await planner.post(`/api/jobs/${id}/parts`, {
+      name: "Wing",
+      quantity: 1,
+      profile: { kind: "naca", code: "23012", chordMm: 200, spanMm: 500 },
+    });
     expect(naca.status).toBe(400);
     expect(naca.body.fields["profile.code"]).toMatch(/4-digit/);
     const none = await planner.post(`/api/jobs/${id}/parts`, { name: "", quantity: 0 });
@@ -143,7 +208,12 @@ describe("job parts", () => {
     expect(Object.keys(none.body.fields).sort()).toEqual(["name", "quantity", "size"]);
     const sizeless = await planner.post(`/api/jobs/${id}/parts`, { name: "Block", quantity: 1 });
     expect(sizeless.body.fields.size).toMatch(/Give a size/);
-    const pu = await planner.post(`/api/jobs/${id}/parts`, { name: "Letter", quantity: 1, size: [100, 100, 100], gradeId: await gradeId("PU-SIGN-15") });
+    const pu = await planner.post(`/api/jobs/${id}/parts`, {
+      name: "Letter",
+      quantity: 1,
+      size: [100, 100, 100],
+      gradeId: await gradeId("PU-SIGN-15"),
+    });
     expect(pu.status).toBe(400);
     expect(pu.body.fields.gradeId).toMatch(/never be hot-wired/);
     expect(await tableCounts()).toEqual(before);
@@ -151,14 +221,32 @@ describe("job parts", () => {
 
   it("adds library parts with quantities, refusing a retired one", async () => {
     const id = await makeJob();
-    const lib = await planner.post("/api/library", { kit: "Test glider", name: "Tailplane", profile: { kind: "naca", code: "0009", chordMm: 120, tipChordMm: 90, spanMm: 320 }, defaultQuantity: 1 });
+    const lib = await planner.post("/api/library", {
+      kit: "Test glider",
+      name: "Tailplane",
+      profile: { kind: "naca", code: "0009", chordMm: 120, tipChordMm: 90, spanMm: 320 },
+      defaultQuantity: 1,
+    });
     expect(lib.status).toBe(201);
-    const res = await planner.post(`/api/jobs/${id}/parts`, { items: [{ libraryPartId: lib.body.part.id, quantity: 12 }, { libraryPartId: await makeLibraryPart(), quantity: 3 }] });
+    const res = await planner.post(`/api/jobs/${id}/parts`, {
+      items: [
+        { libraryPartId: lib.body.part.id, quantity: 12 },
+        { libraryPartId: await makeLibraryPart(), quantity: 3 },
+      ],
+    });
     expect(res.status).toBe(201);
     expect(res.body.parts).toHaveLength(2);
-    expect(res.body.parts[0]).toMatchObject({ name: "Tailplane", quantity: 12, libraryPartId: lib.body.part.id, size: lib.body.part.size, trueVolumeMm3: lib.body.part.trueVolumeMm3 });
+    expect(res.body.parts[0]).toMatchObject({
+      name: "Tailplane",
+      quantity: 12,
+      libraryPartId: lib.body.part.id,
+      size: lib.body.part.size,
+      trueVolumeMm3: lib.body.part.trueVolumeMm3,
+    });
     const before = await tableCounts();
-    const retired = await planner.post(`/api/jobs/${id}/parts`, { items: [{ libraryPartId: await makeLibraryPart({ active: false }), quantity: 1 }] });
+    const retired = await planner.post(`/api/jobs/${id}/parts`, {
+      items: [{ libraryPartId: await makeLibraryPart({ active: false }), quantity: 1 }],
+    });
     expect(retired.status).toBe(400);
     expect(retired.body.fields["items.0.libraryPartId"]).toMatch(/retired/);
     expect({ ...(await tableCounts()), library_parts: before.library_parts }).toEqual(before);
@@ -170,7 +258,9 @@ describe("job parts", () => {
     const edited = await planner.patch(`/api/jobs/${id}/parts/${partId}`, { quantity: 9 });
     expect(edited.status).toBe(200);
     expect(edited.body.part.quantity).toBe(9);
-    expect((await planner.patch(`/api/jobs/${id}/parts/${partId}`, { quantity: 1.5 })).body.fields.quantity).toMatch(/whole/);
+    expect((await planner.patch(`/api/jobs/${id}/parts/${partId}`, { quantity: 1.5 })).body.fields.quantity).toMatch(
+      /whole/,
+    );
     const other = await makeJobPart(await makeJob());
     expect((await planner.delete(`/api/jobs/${id}/parts/${other}`)).status).toBe(404);
     expect((await planner.delete(`/api/jobs/${id}/parts/${partId}`)).status).toBe(200);
@@ -180,12 +270,15 @@ describe("job parts", () => {
     const kept = await makeJobPart(planned);
     expect((await planner.patch(`/api/jobs/${planned}/parts/${kept}`, { quantity: 3 })).status).toBe(409);
     expect((await planner.delete(`/api/jobs/${planned}/parts/${kept}`)).status).toBe(409);
-    expect((await planner.post(`/api/jobs/${planned}/parts`, { name: "Late", quantity: 1, size: [1, 1, 1] })).status).toBe(409);
+    expect(
+      (await planner.post(`/api/jobs/${planned}/parts`, { name: "Late", quantity: 1, size: [1, 1, 1] })).status,
+    ).toBe(409);
   });
 });
 
 describe("part-list CSV import", () => {
-  const header = "name,quantity,length_mm,width_mm,height_mm,grade,rotate,naca,chord_mm,tip_chord_mm,span_mm,polygon,extrude_mm";
+  const header =
+    "name,quantity,length_mm,width_mm,height_mm,grade,rotate,naca,chord_mm,tip_chord_mm,span_mm,polygon,extrude_mm";
   const good = [
     "Plinth,2,600,400,300,EPS-II,z,,,,,,",
     "Inner wing,4,,,,EPS-I,none,NACA 2412,230,200,420,,",
@@ -195,12 +288,25 @@ describe("part-list CSV import", () => {
   it("previews without saving, then imports every row with computed boxes", async () => {
     const id = await makeJob();
     const before = await tableCounts();
-    const preview = await postCsv(planner, `/api/jobs/${id}/parts/import?commit=0&name=parts.csv`, [header, ...good].join("\n") + "\n");
+    const preview = await postCsv(
+      planner,
+      `/api/jobs/${id}/parts/import?commit=0&name=parts.csv`,
+      [header, ...good].join("\n") + "\n",
+    );
     expect(preview.status).toBe(200);
-    expect(preview.body).toMatchObject({ committed: false, rows: 3, problemCount: 0, summary: { parts: 3, pieces: 9 } });
+    expect(preview.body).toMatchObject({
+      committed: false,
+      rows: 3,
+      problemCount: 0,
+      summary: { parts: 3, pieces: 9 },
+    });
     expect(await tableCounts()).toEqual(before);
 
-    const done = await postCsv(planner, `/api/jobs/${id}/parts/import?commit=1&name=parts.csv`, [header, ...good].join("\n") + "\n");
+    const done = await postCsv(
+      planner,
+      `/api/jobs/${id}/parts/import?commit=1&name=parts.csv`,
+      [header, ...good].join("\n") + "\n",
+    );
     expect(done.status).toBe(201);
     const parts = (await planner.get(`/api/jobs/${id}`)).body.parts;
     expect(parts.map((p: { name: string }) => p.name)).toEqual(["Plinth", "Inner wing", "Letter L"]);
@@ -242,34 +348,75 @@ describe("part-list CSV import", () => {
       ].join("\n") + "\n",
     );
     expect(res.status).toBe(422);
-    const at = (row: number) => res.body.problems.filter((p: { row: number }) => p.row === row).map((p: { column: string; message: string }) => `${p.column}: ${p.message}`);
+    const at = (row: number) =>
+      res.body.problems
+        .filter((p: { row: number }) => p.row === row)
+        .map((p: { column: string; message: string }) => `${p.column}: ${p.message}`);
     expect(at(2)).toEqual(["name: Required.", "quantity: Must be a whole number."]);
-    expect(at(3)).toEqual(expect.arrayContaining([expect.stringMatching(/^grade: Unknown grade/), expect.stringMatching(/^rotate: /)]));
+    expect(at(3)).toEqual(
+      expect.arrayContaining([expect.stringMatching(/^grade: Unknown grade/), expect.stringMatching(/^rotate: /)]),
+    );
     expect(at(4)).toEqual([expect.stringMatching(/^naca: .*5 digits/)]);
     expect(at(5)).toEqual(["chord_mm: Required with a NACA section.", "span_mm: Required with a NACA section."]);
     expect(at(6)).toEqual([expect.stringMatching(/^polygon: .*cross/)]);
     expect(at(7)).toEqual([expect.stringMatching(/^naca: Give one shape per row/)]);
     expect(at(8)).toEqual(["height_mm: Required for a plain part (or give a NACA section or a polygon)."]);
-    expect(at(9)).toEqual(expect.arrayContaining([expect.stringMatching(/^grade: .*never be hot-wired/), "extrude_mm: Required with a polygon."]));
+    expect(at(9)).toEqual(
+      expect.arrayContaining([
+        expect.stringMatching(/^grade: .*never be hot-wired/),
+        "extrude_mm: Required with a polygon.",
+      ]),
+    );
   });
 
   it("refuses unknown columns on row 1 and an import onto a job that is no longer open", async () => {
     const id = await makeJob();
     const res = await postCsv(planner, `/api/jobs/${id}/parts/import?commit=0`, "name,qty,colour\nA,1,red\n");
     expect(res.status).toBe(422);
-    expect(res.body.problems.map((p: { row: number; column: string }) => `${p.row}:${p.column}`).sort()).toEqual(["1:colour", "1:qty", "1:quantity"]);
+    expect(res.body.problems.map((p: { row: number; column: string }) => `${p.row}:${p.column}`).sort()).toEqual([
+      "1:colour",
+      "1:qty",
+      "1:quantity",
+    ]);
     const done = await makeJob({ status: "done" });
-    expect((await postCsv(planner, `/api/jobs/${done}/parts/import?commit=1`, `${header}\n${good[0]}\n`)).status).toBe(409);
+    expect((await postCsv(planner, `/api/jobs/${done}/parts/import?commit=1`, `${header}\n${good[0]}\n`)).status).toBe(
+      409,
+    );
   });
 });
 
 describe("part library", () => {
   it("lists by kit, edits and retires a part, recomputing its box when the profile changes", async () => {
-    const created = await planner.post("/api/library", { kit: "Test signs", name: "Letter I", profile: { kind: "polygon", points: [[0, 0], [100, 0], [100, 600], [0, 600]], extrudeMm: 100 } });
+    const created = await planner.post("/api/library", {
+      kit: "Test signs",
+      name: "Letter I",
+      profile: {
+        kind: "polygon",
+        points: [
+          [0, 0],
+          [100, 0],
+          [100, 600],
+          [0, 600],
+        ],
+        extrudeMm: 100,
+      },
+    });
     expect(created.status).toBe(201);
     const id = created.body.part.id;
     expect(created.body.part).toMatchObject({ size: [100, 100, 600], trueVolumeMm3: 6_000_000 });
-    const edited = await planner.patch(`/api/library/${id}`, { profile: { kind: "polygon", points: [[0, 0], [100, 0], [100, 600], [0, 600]], extrudeMm: 75 }, defaultQuantity: 4 });
+    const edited = await planner.patch(`/api/library/${id}`, {
+      profile: {
+        kind: "polygon",
+        points: [
+          [0, 0],
+          [100, 0],
+          [100, 600],
+          [0, 600],
+        ],
+        extrudeMm: 75,
+      },
+      defaultQuantity: 4,
+    });
     expect(edited.body.part).toMatchObject({ size: [75, 100, 600], trueVolumeMm3: 4_500_000, defaultQuantity: 4 });
     expect((await planner.patch(`/api/library/${id}`, { active: false })).body.part.active).toBe(false);
     const list = await cutter.get("/api/library?kit=Test%20signs");

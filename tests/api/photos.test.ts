@@ -18,7 +18,8 @@ afterAll(closeTestDb);
 
 const upload = (c: Client, id: number, files: { name: string; content: Buffer; type?: string }[]) => {
   let r = c.call("post", `/api/defects/${id}/photos`);
-  for (const f of files) r = r.attach("photos", f.content, { filename: f.name, contentType: f.type ?? "application/octet-stream" });
+  for (const f of files)
+    r = r.attach("photos", f.content, { filename: f.name, contentType: f.type ?? "application/octet-stream" });
   return r;
 };
 
@@ -37,7 +38,13 @@ describe("defect photos: upload", () => {
     ]);
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.items).toHaveLength(2);
-    const [a, b] = res.body.items as { id: number; contentType: string; width: number; height: number; bytes: number }[];
+    const [a, b] = res.body.items as {
+      id: number;
+      contentType: string;
+      width: number;
+      height: number;
+      bytes: number;
+    }[];
     expect(a).toMatchObject({ contentType: "image/jpeg", width: 800, height: 600, bytes: jpg.length });
     expect(b).toMatchObject({ contentType: "image/png", width: 300, height: 200 });
 
@@ -66,7 +73,10 @@ describe("defect photos: upload", () => {
     // A 400 x 300 picture taken with the tablet turned (EXIF orientation 6: rotate 90° to view).
     const tagged = await sharp({ create: { width: 400, height: 300, channels: 3, background: "#b8b2a4" } })
       .jpeg({ quality: 85 })
-      .withExif({ IFD0: { Make: "Tablet maker", Model: "Shop tablet" }, IFD3: { GPSLatitudeRef: "N", GPSLatitude: "51/1 28/1 40/1", GPSLongitudeRef: "W", GPSLongitude: "0/1 0/1 5/1" } })
+      .withExif({
+        IFD0: { Make: "Tablet maker", Model: "Shop tablet" },
+        IFD3: { GPSLatitudeRef: "N", GPSLatitude: "51/1 28/1 40/1", GPSLongitudeRef: "W", GPSLongitude: "0/1 0/1 5/1" },
+      })
       .withMetadata({ orientation: 6 })
       .toBuffer();
     const before = await sharp(tagged).metadata();
@@ -89,7 +99,11 @@ describe("defect photos: upload", () => {
     const before = await snapshot();
     const res = await upload(cutter, defectId, [
       { name: "fine.jpg", content: await jpegBytes(), type: "image/jpeg" },
-      { name: "notes.jpg", content: Buffer.from("Block HF-1001: void near the top, 40 mm deep.\n"), type: "image/jpeg" },
+      {
+        name: "notes.jpg",
+        content: Buffer.from("Block HF-1001: void near the top, 40 mm deep.\n"),
+        type: "image/jpeg",
+      },
     ]);
     expect(res.status).toBe(415);
     expect(res.body.error).toMatch(/notes\.jpg/);
@@ -118,7 +132,9 @@ describe("defect photos: upload", () => {
   });
 
   it("judges the type by the bytes: JPEG bytes sent as image/png named .png are stored as image/jpeg", async () => {
-    const res = await upload(cutter, defectId, [{ name: "looks-like.png", content: await jpegBytes(320, 240), type: "image/png" }]);
+    const res = await upload(cutter, defectId, [
+      { name: "looks-like.png", content: await jpegBytes(320, 240), type: "image/png" },
+    ]);
     expect(res.status).toBe(201);
     const id = res.body.items[0].id as number;
     const row = await testDb()("defect_photos").where({ id }).first();
@@ -129,7 +145,9 @@ describe("defect photos: upload", () => {
   });
 
   it("makes object keys on the server, never from the uploaded file name", async () => {
-    const res = await upload(cutter, defectId, [{ name: "..%2F..%2Fsecret-name-7731.jpg", content: await jpegBytes(200, 150), type: "image/jpeg" }]);
+    const res = await upload(cutter, defectId, [
+      { name: "..%2F..%2Fsecret-name-7731.jpg", content: await jpegBytes(200, 150), type: "image/jpeg" },
+    ]);
     expect(res.status).toBe(201);
     const row = await testDb()("defect_photos").where({ id: res.body.items[0].id }).first();
     for (const key of [row.object_key, row.thumb_key]) {
@@ -145,9 +163,15 @@ describe("defect photos: upload", () => {
     expect(none.body.fields.photos).toMatch(/Attach at least one photo/);
     const json = await cutter.post(`/api/defects/${defectId}/photos`, { photos: [] });
     expect(json.status).toBe(415);
-    const unknown = await upload(cutter, 999_999_999, [{ name: "a.jpg", content: await jpegBytes(), type: "image/jpeg" }]);
+    const unknown = await upload(cutter, 999_999_999, [
+      { name: "a.jpg", content: await jpegBytes(), type: "image/jpeg" },
+    ]);
     expect(unknown.status).toBe(404);
-    const tooMany = await upload(cutter, defectId, Array.from({ length: 7 }, (_, i) => ({ name: `p${i}.png`, content: Buffer.from([0x89]), type: "image/png" })));
+    const tooMany = await upload(
+      cutter,
+      defectId,
+      Array.from({ length: 7 }, (_, i) => ({ name: `p${i}.png`, content: Buffer.from([0x89]), type: "image/png" })),
+    );
     expect(tooMany.status).toBe(400);
     expect(tooMany.body.fields.photos).toMatch(/At most 6/);
   });
@@ -155,7 +179,14 @@ describe("defect photos: upload", () => {
 
 describe("defect photos: reading", () => {
   it("answers 404 for ids that are not photo ids, including path-traversal lookalikes", async () => {
-    for (const path of ["/api/photos/../x", "/api/photos/..%2Fx", "/api/photos/1%2F..", "/api/photos/abc", "/api/photos/999999999", "/api/photos/1e3"]) {
+    for (const path of [
+      "/api/photos/../x",
+      "/api/photos/..%2Fx",
+      "/api/photos/1%2F..",
+      "/api/photos/abc",
+      "/api/photos/999999999",
+      "/api/photos/1e3",
+    ]) {
       const res = await cutter.get(path);
       expect(res.status, path).toBe(404);
     }

@@ -29,7 +29,12 @@ afterAll(closeTestDb);
 
 const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id")).id as number;
 const supplierId = async (name: string) => (await testDb()("suppliers").where({ name }).first("id")).id as number;
-const block = (lineId: number, size: [number, number, number] = [2000, 1000, 500]) => ({ lineId, size, location: "Test bay", weightKg: 24 });
+const block = (lineId: number, size: [number, number, number] = [2000, 1000, 500]) => ({
+  lineId,
+  size,
+  location: "Test bay",
+  weightKg: 24,
+});
 
 describe("writing purchase orders", () => {
   it("saves a draft by hand with the grade's price unit and a number", async () => {
@@ -37,7 +42,10 @@ describe("writing purchase orders", () => {
       supplierId: await supplierId("Northgate Moulders"),
       expectedOn: "2026-12-22",
       notes: "Test order",
-      lines: [{ gradeId: await gradeId("EPS-II"), size: [4877, 1219, 1219], quantity: 3, price: 0.44 }, { gradeId: await gradeId("XPS-IV"), size: [2440, 1220, 100], quantity: 10, price: 180 }],
+      lines: [
+        { gradeId: await gradeId("EPS-II"), size: [4877, 1219, 1219], quantity: 3, price: 0.44 },
+        { gradeId: await gradeId("XPS-IV"), size: [2440, 1220, 100], quantity: 10, price: 180 },
+      ],
     });
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     const po = res.body.order;
@@ -58,10 +66,18 @@ describe("writing purchase orders", () => {
       lines: [{ gradeId: await gradeId("EPS-II"), size: [4877, -1, 1219], quantity: 0, price: -2 }],
     });
     expect(res.status).toBe(400);
-    expect(Object.keys(res.body.fields)).toEqual(expect.arrayContaining(["expectedOn", "lines.0.size.1", "lines.0.quantity", "lines.0.price"]));
-    const unknown = await buyer.post("/api/purchase-orders", { supplierId: 999999, lines: [{ gradeId: 999999, size: [1, 1, 1], quantity: 1, price: 1 }] });
+    expect(Object.keys(res.body.fields)).toEqual(
+      expect.arrayContaining(["expectedOn", "lines.0.size.1", "lines.0.quantity", "lines.0.price"]),
+    );
+    const unknown = await buyer.post("/api/purchase-orders", {
+      supplierId: 999999,
+      lines: [{ gradeId: 999999, size: [1, 1, 1], quantity: 1, price: 1 }],
+    });
     expect(unknown.status).toBe(400);
-    expect(unknown.body.fields).toMatchObject({ supplierId: "That supplier does not exist.", "lines.0.gradeId": "That grade does not exist." });
+    expect(unknown.body.fields).toMatchObject({
+      supplierId: "That supplier does not exist.",
+      "lines.0.gradeId": "That grade does not exist.",
+    });
     const empty = await buyer.post("/api/purchase-orders", { supplierId: 1, lines: [] });
     expect(empty.body.fields.lines).toMatch(/at least one line/);
     expect(await tableCounts()).toEqual(before);
@@ -83,11 +99,23 @@ describe("sending an order", () => {
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body.order.status).toBe("sent");
     expect(res.body.mail.to).toBe("orders@ashcombe-bead.test");
-    const row = await testDb()("mail_outbox").where({ ref: `po:${po.id}` }).first();
-    expect(row).toMatchObject({ kind: "purchase_order", status: "sent", transport: "outbox", to_address: "orders@ashcombe-bead.test" });
+    const row = await testDb()("mail_outbox")
+      .where({ ref: `po:${po.id}` })
+      .first();
+    expect(row).toMatchObject({
+      kind: "purchase_order",
+      status: "sent",
+      transport: "outbox",
+      to_address: "orders@ashcombe-bead.test",
+    });
     expect(row.attachments).toEqual([`${po.number}.csv`]);
     const eml = parseMime(fs.readFileSync(row.file, "utf8"));
-    const csv = Papa.parse<Record<string, string>>(attachment(eml, `${po.number}.csv`)!.body.toString("utf8").replace(/^\uFEFF/, ""), { header: true, skipEmptyLines: true });
+    const csv = Papa.parse<Record<string, string>>(
+      attachment(eml, `${po.number}.csv`)!
+        .body.toString("utf8")
+        .replace(/^\uFEFF/, ""),
+      { header: true, skipEmptyLines: true },
+    );
     expect(csv.meta.fields).toEqual([...PO_CSV_COLUMNS]);
     expect(csv.data[0]).toMatchObject({ po_number: po.number, grade: "EPS-II", quantity: "4" });
     // The admin's outbox lists it.
@@ -99,7 +127,9 @@ describe("sending an order", () => {
   });
 
   it("says plainly when the supplier has no e-mail address, and leaves the order a draft", async () => {
-    const [s] = await testDb()("suppliers").insert({ name: `No Mail Foams ${Date.now()}` }).returning("id");
+    const [s] = await testDb()("suppliers")
+      .insert({ name: `No Mail Foams ${Date.now()}` })
+      .returning("id");
     const po = await makeOrder();
     await testDb()("purchase_orders").where({ id: po.id }).update({ supplier_id: s.id });
     const res = await buyer.post(`/api/purchase-orders/${po.id}/send`, { email: true });
@@ -110,12 +140,22 @@ describe("sending an order", () => {
 
   it("exports the order as CSV with formula-looking text escaped", async () => {
     const po = await makeOrder();
-    await testDb()("purchase_order_lines").where({ id: po.lineId }).update({ note: "=HYPERLINK(\"x\")" });
-    const res = await buyer.get(`/api/purchase-orders/${po.id}/export`).buffer(true).parse((r, cb) => { let s = ""; r.on("data", (c: Buffer) => (s += c.toString("utf8"))); r.on("end", () => cb(null, s)); });
+    await testDb()("purchase_order_lines").where({ id: po.lineId }).update({ note: '=HYPERLINK("x")' });
+    const res = await buyer
+      .get(`/api/purchase-orders/${po.id}/export`)
+      .buffer(true)
+      .parse((r, cb) => {
+        let s = "";
+        r.on("data", (c: Buffer) => (s += c.toString("utf8")));
+        r.on("end", () => cb(null, s));
+      });
     expect(res.status).toBe(200);
     expect(res.headers["content-type"]).toMatch(/text\/csv/);
-    const rows = Papa.parse<Record<string, string>>((res.body as string).replace(/^\uFEFF/, ""), { header: true, skipEmptyLines: true });
-    expect(rows.data[0]!.note).toBe("'=HYPERLINK(\"x\")");
+    const rows = Papa.parse<Record<string, string>>((res.body as string).replace(/^\uFEFF/, ""), {
+      header: true,
+      skipEmptyLines: true,
+    });
+    expect(rows.data[0]!.note).toBe('\'=HYPERLINK("x")');
   });
 });
 
@@ -123,16 +163,24 @@ describe("order states", () => {
   it("moves draft → sent → part received → closed, and cancels only drafts and sent orders", async () => {
     const po = await makeOrder({ quantity: 10 });
     expect((await buyer.post(`/api/purchase-orders/${po.id}/send`, { email: false })).body.order.status).toBe("sent");
-    const part = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-11-30", lot: "L-STATE-1", blocks: Array.from({ length: 5 }, () => block(po.lineId)) });
+    const part = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-11-30",
+      lot: "L-STATE-1",
+      blocks: Array.from({ length: 5 }, () => block(po.lineId)),
+    });
     expect(part.status, JSON.stringify(part.body)).toBe(201);
     expect(part.body.status).toBe("part_received");
     expect((await buyer.post(`/api/purchase-orders/${po.id}/cancel`, { reason: "too late" })).status).toBe(409);
-    const close = await buyer.post(`/api/purchase-orders/${po.id}/close`, { reason: "Supplier short of beads; the rest is not coming." });
+    const close = await buyer.post(`/api/purchase-orders/${po.id}/close`, {
+      reason: "Supplier short of beads; the rest is not coming.",
+    });
     expect(close.status).toBe(200);
     expect(close.body.order.status).toBe("closed");
 
     const cancel = await makeOrder({ status: "sent" });
-    expect((await buyer.post(`/api/purchase-orders/${cancel.id}/cancel`, { reason: "Bought elsewhere" })).body.order.status).toBe("cancelled");
+    expect(
+      (await buyer.post(`/api/purchase-orders/${cancel.id}/cancel`, { reason: "Bought elsewhere" })).body.order.status,
+    ).toBe("cancelled");
   });
 
   it("refuses illegal moves with 409 and changes nothing", async () => {
@@ -143,9 +191,17 @@ describe("order states", () => {
     const before = await tableCounts();
     const tries: [string, object, RegExp][] = [
       [`/api/purchase-orders/${closed.id}/cancel`, { reason: "x" }, /closed/],
-      [`/api/purchase-orders/${closed.id}/receive`, { receivedOn: "2026-11-30", lot: "L", blocks: [block(closed.lineId)] }, /nothing more can be received/],
+      [
+        `/api/purchase-orders/${closed.id}/receive`,
+        { receivedOn: "2026-11-30", lot: "L", blocks: [block(closed.lineId)] },
+        /nothing more can be received/,
+      ],
       [`/api/purchase-orders/${cancelled.id}/send`, { email: false }, /cannot be sent/],
-      [`/api/purchase-orders/${draft.id}/receive`, { receivedOn: "2026-11-30", lot: "L", blocks: [block(draft.lineId)] }, /still a draft/],
+      [
+        `/api/purchase-orders/${draft.id}/receive`,
+        { receivedOn: "2026-11-30", lot: "L", blocks: [block(draft.lineId)] },
+        /still a draft/,
+      ],
       [`/api/purchase-orders/${draft.id}/close`, { reason: "x" }, /only a partly received order/],
       [`/api/purchase-orders/${sent.id}/close`, { reason: "x" }, /only a partly received order/],
     ];
@@ -154,7 +210,10 @@ describe("order states", () => {
       expect(res.status, url).toBe(409);
       expect(res.body.error).toMatch(message);
     }
-    const edit = await buyer.put(`/api/purchase-orders/${sent.id}`, { supplierId: 1, lines: [{ gradeId: closed.gradeId, size: [1, 1, 1], quantity: 1, price: 1 }] });
+    const edit = await buyer.put(`/api/purchase-orders/${sent.id}`, {
+      supplierId: 1,
+      lines: [{ gradeId: closed.gradeId, size: [1, 1, 1], quantity: 1, price: 1 }],
+    });
     expect(edit.status).toBe(409);
     expect(edit.body.error).toMatch(/only a draft can be changed/);
     expect(await tableCounts()).toEqual(before);
@@ -171,7 +230,11 @@ describe("receiving against an order, ±10 % (domain brief §6, common trade ter
   it("accepts 90 % as filled and closes the order, with stock, ledger and delivery linked", async () => {
     const po = await makeOrder({ status: "sent", quantity: 10 });
     const before = await testDb()("stock_ledger").count<{ n: string }[]>({ n: "*" }).first();
-    const res = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-11-30", lot: "L-TOL-90", blocks: Array.from({ length: 9 }, () => block(po.lineId)) });
+    const res = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-11-30",
+      lot: "L-TOL-90",
+      blocks: Array.from({ length: 9 }, () => block(po.lineId)),
+    });
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.status).toBe("closed");
     expect(res.body.lines[0]).toMatchObject({ percent: 90, filled: true, over: false });
@@ -188,10 +251,18 @@ describe("receiving against an order, ±10 % (domain brief §6, common trade ter
 
   it("keeps an order under 90 % open, then accepts up to 110 % in a second delivery", async () => {
     const po = await makeOrder({ status: "sent", quantity: 10 });
-    const first = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-11-30", lot: "L-TOL-A", blocks: Array.from({ length: 5 }, () => block(po.lineId)) });
+    const first = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-11-30",
+      lot: "L-TOL-A",
+      blocks: Array.from({ length: 5 }, () => block(po.lineId)),
+    });
     expect(first.body.status).toBe("part_received");
     expect(first.body.lines[0]).toMatchObject({ percent: 50, filled: false });
-    const second = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-12-01", lot: "L-TOL-B", blocks: Array.from({ length: 6 }, () => block(po.lineId)) });
+    const second = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-12-01",
+      lot: "L-TOL-B",
+      blocks: Array.from({ length: 6 }, () => block(po.lineId)),
+    });
     expect(second.status, JSON.stringify(second.body)).toBe(201);
     expect(second.body.lines[0]).toMatchObject({ percent: 110, filled: true, over: false });
     expect(second.body.status).toBe("closed");
@@ -200,11 +271,20 @@ describe("receiving against an order, ±10 % (domain brief §6, common trade ter
   it("refuses more than 110 % with 409 naming the line, and receives nothing", async () => {
     const po = await makeOrder({ status: "sent", quantity: 4 });
     const before = await tableCounts();
-    const res = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-11-30", lot: "L-OVER", blocks: Array.from({ length: 5 }, () => block(po.lineId)) });
+    const res = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-11-30",
+      lot: "L-OVER",
+      blocks: Array.from({ length: 5 }, () => block(po.lineId)),
+    });
     expect(res.status).toBe(409);
     expect(res.body.fields[`lines.${po.lineId}`]).toMatch(/125 % of the 4\.00 m³ ordered/);
     expect(await tableCounts()).toEqual(before);
-    const noReason = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-11-30", lot: "L-OVER", acceptOver: true, blocks: Array.from({ length: 5 }, () => block(po.lineId)) });
+    const noReason = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-11-30",
+      lot: "L-OVER",
+      acceptOver: true,
+      blocks: Array.from({ length: 5 }, () => block(po.lineId)),
+    });
     expect(noReason.status).toBe(400);
     expect(noReason.body.fields.overReason).toBeDefined();
     expect(await tableCounts()).toEqual(before);
@@ -212,7 +292,13 @@ describe("receiving against an order, ±10 % (domain brief §6, common trade ter
 
   it("takes the extra when the buyer accepts it with a reason, and flags the line", async () => {
     const po = await makeOrder({ status: "sent", quantity: 4 });
-    const res = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-11-30", lot: "L-OVER-OK", acceptOver: true, overReason: "Supplier sent a fifth block at no charge", blocks: Array.from({ length: 5 }, () => block(po.lineId)) });
+    const res = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-11-30",
+      lot: "L-OVER-OK",
+      acceptOver: true,
+      overReason: "Supplier sent a fifth block at no charge",
+      blocks: Array.from({ length: 5 }, () => block(po.lineId)),
+    });
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.lines[0]).toMatchObject({ over: true, percent: 125 });
     expect(res.body.order.lines[0].overTolerance).toBe(true);
@@ -224,15 +310,27 @@ describe("receiving against an order, ±10 % (domain brief §6, common trade ter
     const po = await makeOrder({ status: "sent", quantity: 4 });
     const other = await makeOrder({ status: "sent" });
     const before = await tableCounts();
-    const bad = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-11-30", lot: "L-BAD", blocks: [block(po.lineId), { ...block(po.lineId), size: [2000, 0, 500], location: "" }] });
+    const bad = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-11-30",
+      lot: "L-BAD",
+      blocks: [block(po.lineId), { ...block(po.lineId), size: [2000, 0, 500], location: "" }],
+    });
     expect(bad.status).toBe(400);
     expect(bad.body.fields).toHaveProperty(["blocks.1.size.1"]);
     expect(bad.body.fields).toHaveProperty(["blocks.1.location"]);
-    const foreign = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-11-30", lot: "L-BAD", blocks: [block(other.lineId)] });
+    const foreign = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-11-30",
+      lot: "L-BAD",
+      blocks: [block(other.lineId)],
+    });
     expect(foreign.status).toBe(400);
     expect(foreign.body.fields["blocks.0.lineId"]).toMatch(/not on this order/);
     const existing = await testDb()("blocks").first("code");
-    const dup = await buyer.post(`/api/purchase-orders/${po.id}/receive`, { receivedOn: "2026-11-30", lot: "L-BAD", blocks: [{ ...block(po.lineId), code: existing.code }] });
+    const dup = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
+      receivedOn: "2026-11-30",
+      lot: "L-BAD",
+      blocks: [{ ...block(po.lineId), code: existing.code }],
+    });
     expect(dup.status).toBe(400);
     expect(dup.body.fields["blocks.0.code"]).toMatch(/already in stock/);
     expect(await tableCounts()).toEqual(before);
@@ -249,8 +347,15 @@ describe("the reorder list", () => {
     expect(eps.committed.source).toBe("jobs");
     const { z, safetyStock, reorderPoint } = eps.result;
     expect(safetyStock).toBeCloseTo(z * eps.demandSd.value * Math.sqrt(eps.leadTimeDays.value), 9);
-    expect(reorderPoint).toBeCloseTo(eps.dailyDemand.value * eps.leadTimeDays.value + safetyStock + eps.committed.value, 9);
-    const onHand = await testDb()("blocks").where({ grade_id: eps.gradeId }).whereIn("status", ["in_stock", "earmarked"]).sum({ m3: "volume_m3" }).first();
+    expect(reorderPoint).toBeCloseTo(
+      eps.dailyDemand.value * eps.leadTimeDays.value + safetyStock + eps.committed.value,
+      9,
+    );
+    const onHand = await testDb()("blocks")
+      .where({ grade_id: eps.gradeId })
+      .whereIn("status", ["in_stock", "earmarked"])
+      .sum({ m3: "volume_m3" })
+      .first();
     expect(eps.onHand).toBeCloseTo(Number(onHand!.m3), 6);
     expect((await cutter.get("/api/reorder")).status).toBe(403);
   });
@@ -260,7 +365,12 @@ describe("the reorder list", () => {
     const bad = await buyer.put(`/api/reorder/${ix}`, { serviceLevel: 1.5, leadTimeDays: -1 });
     expect(bad.status).toBe(400);
     expect(Object.keys(bad.body.fields).sort()).toEqual(["leadTimeDays", "serviceLevel"]);
-    const ok = await buyer.put(`/api/reorder/${ix}`, { reorderPointM3: 500, orderQtyM3: 20, leadTimeDays: 9, note: "test" });
+    const ok = await buyer.put(`/api/reorder/${ix}`, {
+      reorderPointM3: 500,
+      orderQtyM3: 20,
+      leadTimeDays: 9,
+      note: "test",
+    });
     expect(ok.status, JSON.stringify(ok.body)).toBe(200);
     expect(ok.body.item.result.due).toBe(true);
     expect(ok.body.item.leadTimeDays).toEqual({ value: 9, source: "override" });
@@ -279,7 +389,10 @@ describe("the reorder list", () => {
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body.grades).toContain("EPS-VIII");
     expect(res.body.sentTo).toContain("buyer@demo.blockyard.test");
-    const row = await testDb()("mail_outbox").where({ kind: "low_stock", to_address: "buyer@demo.blockyard.test" }).orderBy("id", "desc").first();
+    const row = await testDb()("mail_outbox")
+      .where({ kind: "low_stock", to_address: "buyer@demo.blockyard.test" })
+      .orderBy("id", "desc")
+      .first();
     expect(row.subject).toMatch(/reorder point/);
     await buyer.put(`/api/reorder/${viii}`, {});
   });
@@ -305,4 +418,3 @@ describe("the reorder list", () => {
     }
   });
 });
-

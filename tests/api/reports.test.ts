@@ -13,8 +13,21 @@ beforeAll(async () => {
 afterAll(closeTestDb);
 
 const csvOf = async (c: Client, url: string) => {
-  const res = await c.get(url).buffer(true).parse((r, cb) => { let s = ""; r.on("data", (x: Buffer) => (s += x.toString("utf8"))); r.on("end", () => cb(null, s)); });
-  return { res, csv: Papa.parse<Record<string, string>>((res.body as string).replace(/^\uFEFF/, ""), { header: true, skipEmptyLines: true }) };
+  const res = await c
+    .get(url)
+    .buffer(true)
+    .parse((r, cb) => {
+      let s = "";
+      r.on("data", (x: Buffer) => (s += x.toString("utf8")));
+      r.on("end", () => cb(null, s));
+    });
+  return {
+    res,
+    csv: Papa.parse<Record<string, string>>((res.body as string).replace(/^\uFEFF/, ""), {
+      header: true,
+      skipEmptyLines: true,
+    }),
+  };
 };
 
 describe("stock value reconciles with the ledger", () => {
@@ -27,9 +40,20 @@ describe("stock value reconciles with the ledger", () => {
     expect(res.body.total.value).toBeCloseTo(Number(ledger!.v), 1);
     expect((await ledgerGap()).m3).toBeCloseTo(0, 6);
     // Each grade × location against the blocks on hand there.
-    const blocks = (await testDb()("blocks as b").join("grades as g", "g.id", "b.grade_id").whereIn("b.status", ["in_stock", "earmarked"]).groupBy("g.code", "b.location").select("g.code", "b.location", testDb().raw("sum(b.volume_m3) AS m3"), testDb().raw("sum(b.cost) AS v"))) as { code: string; location: string; m3: string; v: string }[];
+    const blocks = (await testDb()("blocks as b")
+      .join("grades as g", "g.id", "b.grade_id")
+      .whereIn("b.status", ["in_stock", "earmarked"])
+      .groupBy("g.code", "b.location")
+      .select("g.code", "b.location", testDb().raw("sum(b.volume_m3) AS m3"), testDb().raw("sum(b.cost) AS v"))) as {
+      code: string;
+      location: string;
+      m3: string;
+      v: string;
+    }[];
     for (const b of blocks) {
-      const row = res.body.rows.find((r: { grade: string; location: string }) => r.grade === b.code && r.location === b.location);
+      const row = res.body.rows.find(
+        (r: { grade: string; location: string }) => r.grade === b.code && r.location === b.location,
+      );
       expect(row, `${b.code} at ${b.location}`).toBeDefined();
       expect(row.m3).toBeCloseTo(Number(b.m3), 3);
       expect(row.value).toBeCloseTo(Number(b.v), 1);
@@ -57,9 +81,25 @@ describe("yield and losses", () => {
     // A 4×4×16 ft block (3,072 BF) cut on a day no other record uses (brief §2, check value 10).
     const b = await makeBlock({ size: [4876.8, 1219.2, 1219.2] });
     const k = testDb();
-    const [run] = await k("nesting_runs").insert({ status: "closed", job_ids: [], block_ids: [b.id], settings: "{}", problem: "{}" }).returning("id");
+    const [run] = await k("nesting_runs")
+      .insert({ status: "closed", job_ids: [], block_ids: [b.id], settings: "{}", problem: "{}" })
+      .returning("id");
     const bf = 1e6 / (144 * 2.54 ** 3); // board feet per m³
-    await k("plan_blocks").insert({ run_id: run.id, block_id: b.id, status: "cut", cut_at: "2019-03-06T10:00:00Z", block_volume_m3: 3072 / bf, part_volume_m3: 2000 / bf, offcut_volume_m3: 0, loss_trim_m3: 0.2, loss_kerf_m3: 0.05, loss_defect_m3: 0, loss_unusable_m3: 2.1, loss_reject_m3: 0.12, volume_basis: "box" });
+    await k("plan_blocks").insert({
+      run_id: run.id,
+      block_id: b.id,
+      status: "cut",
+      cut_at: "2019-03-06T10:00:00Z",
+      block_volume_m3: 3072 / bf,
+      part_volume_m3: 2000 / bf,
+      offcut_volume_m3: 0,
+      loss_trim_m3: 0.2,
+      loss_kerf_m3: 0.05,
+      loss_defect_m3: 0,
+      loss_unusable_m3: 2.1,
+      loss_reject_m3: 0.12,
+      volume_basis: "box",
+    });
     const res = await manager.get("/api/reports/yield?from=2019-03-04&to=2019-03-10");
     expect(res.status).toBe(200);
     expect(res.body.total.yieldPct).toBe(65.1);
@@ -75,14 +115,28 @@ describe("yield and losses", () => {
     const from = "2000-01-01";
     const res = await manager.get(`/api/reports/yield?from=${from}&to=${today}`);
     const k = testDb();
-    const sql = await k("plan_blocks").where({ status: "cut" }).where("cut_at", ">=", from).select(k.raw("sum(part_volume_m3) AS p"), k.raw("sum(block_volume_m3 - offcut_volume_m3) AS n")).first();
+    const sql = await k("plan_blocks")
+      .where({ status: "cut" })
+      .where("cut_at", ">=", from)
+      .select(k.raw("sum(part_volume_m3) AS p"), k.raw("sum(block_volume_m3 - offcut_volume_m3) AS n"))
+      .first();
     expect(res.body.total.yieldPct).toBeCloseTo((Number(sql.p) / Number(sql.n)) * 100, 1);
     const grades = res.body.byGrade.reduce((s: number, r: { partM3: number }) => s + r.partM3, 0);
     expect(grades).toBeCloseTo(res.body.total.partM3, 3);
     expect(res.body.byJob.length).toBeGreaterThan(0);
     expect(res.body.byJob.every((j: { basis: string }) => ["profile", "box", "mixed"].includes(j.basis))).toBe(true);
     const { csv } = await csvOf(manager, `/api/reports/yield?from=${from}&to=${today}&format=csv`);
-    expect(csv.meta.fields).toEqual(["breakdown", "key", "label", "part_m3", "issued_m3", "offcut_m3", "net_m3", "yield_pct", "volume_basis"]);
+    expect(csv.meta.fields).toEqual([
+      "breakdown",
+      "key",
+      "label",
+      "part_m3",
+      "issued_m3",
+      "offcut_m3",
+      "net_m3",
+      "yield_pct",
+      "volume_basis",
+    ]);
     expect(new Set(csv.data.map((r) => r.breakdown))).toEqual(new Set(["week", "grade", "job", "total"]));
   });
 });
@@ -91,9 +145,17 @@ describe("offcuts and supplier quality", () => {
   it("counts offcuts in stock by age and used ones as cut", async () => {
     const res = await manager.get(`/api/reports/offcuts?from=2000-01-01&to=${today}`);
     expect(res.status).toBe(200);
-    const inStock = await testDb()("blocks").whereNotNull("parent_id").whereIn("status", ["in_stock", "earmarked"]).count<{ n: string }[]>({ n: "*" }).first();
+    const inStock = await testDb()("blocks")
+      .whereNotNull("parent_id")
+      .whereIn("status", ["in_stock", "earmarked"])
+      .count<{ n: string }[]>({ n: "*" })
+      .first();
     expect(res.body.byAge.reduce((s: number, a: { count: number }) => s + a.count, 0)).toBe(Number(inStock!.n));
-    const used = await testDb()("blocks").whereNotNull("parent_id").where({ status: "cut" }).count<{ n: string }[]>({ n: "*" }).first();
+    const used = await testDb()("blocks")
+      .whereNotNull("parent_id")
+      .where({ status: "cut" })
+      .count<{ n: string }[]>({ n: "*" })
+      .first();
     expect(res.body.fate.find((f: { key: string }) => f.key === "used").count).toBe(Number(used!.n));
   });
 

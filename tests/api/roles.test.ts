@@ -20,7 +20,8 @@ function discoverRoutes(): { file: string; route: string; method: string; key: s
       const full = path.join(dir, entry.name);
       if (entry.isDirectory()) walk(full);
       else if (/^route\.(ts|tsx|js)$/.test(entry.name)) {
-        const route = "/" + path.relative(path.join(process.cwd(), "app"), path.dirname(full)).split(path.sep).join("/");
+        const route =
+          "/" + path.relative(path.join(process.cwd(), "app"), path.dirname(full)).split(path.sep).join("/");
         const text = fs.readFileSync(full, "utf8");
         for (const method of METHODS) {
           const exported = new RegExp(`export\\s+(const|async\\s+function|function)\\s+${method}\\b`).test(text);
@@ -42,10 +43,15 @@ describe("route discovery", () => {
     expect(routes.length).toBeGreaterThanOrEqual(Object.keys(API_POLICY).length);
   });
 
-  it.each(routes.map((r) => [`${r.method} ${r.route}`, r] as const))("%s goes through the guarded api() wrapper with its own key", (_name, r) => {
-    expect(r.key, `${r.file}: export const ${r.method} = api("${r.method} ${r.route}", …)`).toBe(`${r.method} ${r.route}`);
-    expect(API_POLICY).toHaveProperty([r.key!]);
-  });
+  it.each(routes.map((r) => [`${r.method} ${r.route}`, r] as const))(
+    "%s goes through the guarded api() wrapper with its own key",
+    (_name, r) => {
+      expect(r.key, `${r.file}: export const ${r.method} = api("${r.method} ${r.route}", …)`).toBe(
+        `${r.method} ${r.route}`,
+      );
+      expect(API_POLICY).toHaveProperty([r.key!]);
+    },
+  );
 
   it("has no policy entry without a route", () => {
     const found = new Set(routes.map((r) => r.key));
@@ -53,7 +59,9 @@ describe("route discovery", () => {
   });
 
   it("has a worked example for every route that changes data or takes a parameter", () => {
-    const missing = routes.filter((r) => (r.method !== "GET" || r.route.includes("[")) && !EXAMPLES[r.key as RouteKey]).map((r) => r.key);
+    const missing = routes
+      .filter((r) => (r.method !== "GET" || r.route.includes("[")) && !EXAMPLES[r.key as RouteKey])
+      .map((r) => r.key);
     expect(missing).toEqual([]);
   });
 });
@@ -61,7 +69,9 @@ describe("route discovery", () => {
 async function callAs(key: RouteKey, caller: Role | "anonymous") {
   const [method, pattern] = key.split(" ") as [string, string];
   const example = (await EXAMPLES[key]?.({ makeUser, password: TEST_PASSWORD })) ?? {};
-  const url = pattern.replace(/\[(\w+)\]/g, (_, p: string) => encodeURIComponent(example.params?.[p] ?? "missing")) + (example.query ? `?${example.query}` : "");
+  const url =
+    pattern.replace(/\[(\w+)\]/g, (_, p: string) => encodeURIComponent(example.params?.[p] ?? "missing")) +
+    (example.query ? `?${example.query}` : "");
   const c = client();
   if (caller !== "anonymous") {
     const u = await makeUser([caller]);
@@ -69,7 +79,8 @@ async function callAs(key: RouteKey, caller: Role | "anonymous") {
   }
   let req = c.call(method.toLowerCase() as "get", url);
   if (example.contentType) req = req.set("content-type", example.contentType);
-  for (const f of example.files ?? []) req = req.attach(f.field, f.content, { filename: f.name, contentType: f.contentType });
+  for (const f of example.files ?? [])
+    req = req.attach(f.field, f.content, { filename: f.name, contentType: f.contentType });
   const res = example.body !== undefined ? await req.send(example.body as object) : await req;
   return { res, example };
 }

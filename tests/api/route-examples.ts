@@ -39,7 +39,9 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     return { body: { email: u.email, password: ctx.password } };
   },
   "POST /api/auth/sign-out": async () => ({}),
-  "POST /api/me/password": async (ctx) => ({ body: { currentPassword: ctx.password, newPassword: `changed-${unique()}` } }),
+  "POST /api/me/password": async (ctx) => ({
+    body: { currentPassword: ctx.password, newPassword: `changed-${unique()}` },
+  }),
   "PUT /api/settings": async () => ({
     body: {
       shopName: "Hollowfield Foamworks",
@@ -54,11 +56,19 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     },
   }),
   "POST /api/admin/users": async () => ({
-    body: { email: `new-${unique()}@test.blockyard.test`, name: "New Person", roles: ["cutter"], password: "temporary-pass-1" },
+    body: {
+      email: `new-${unique()}@test.blockyard.test`,
+      name: "New Person",
+      roles: ["cutter"],
+      password: "temporary-pass-1",
+    },
     expect: 201,
   }),
   "GET /api/admin/users/[userId]": async (ctx) => ({ params: { userId: (await ctx.makeUser(["buyer"])).id } }),
-  "PATCH /api/admin/users/[userId]": async (ctx) => ({ params: { userId: (await ctx.makeUser(["buyer"])).id }, body: { roles: ["buyer", "planner"] } }),
+  "PATCH /api/admin/users/[userId]": async (ctx) => ({
+    params: { userId: (await ctx.makeUser(["buyer"])).id },
+    body: { roles: ["buyer", "planner"] },
+  }),
   "POST /api/admin/users/[userId]/password": async (ctx) => ({
     params: { userId: (await ctx.makeUser(["buyer"])).id },
     body: { password: "temporary-pass-2" },
@@ -66,13 +76,17 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
   "POST /api/grades": async () => ({ body: gradeBody(`G-${unique()}`), expect: 201 }),
   "GET /api/grades/[gradeId]": async () => ({ params: { gradeId: String(await firstId("grades")) } }),
   "PUT /api/grades/[gradeId]": async () => {
-    const [g] = await testDb()("grades").insert({ code: `G-${unique()}`, material: "EPS", grade_system: "shop", grade: "test", cure_days: 1 }).returning("id");
+    const [g] = await testDb()("grades")
+      .insert({ code: `G-${unique()}`, material: "EPS", grade_system: "shop", grade: "test", cure_days: 1 })
+      .returning("id");
     return { params: { gradeId: String(g.id) }, body: gradeBody(`G-${unique()}`) };
   },
   "POST /api/suppliers": async () => ({ body: { name: `Supplier ${unique()}`, leadTimeDays: 10 }, expect: 201 }),
   "GET /api/suppliers/[supplierId]": async () => ({ params: { supplierId: String(await firstId("suppliers")) } }),
   "PUT /api/suppliers/[supplierId]": async () => {
-    const [s] = await testDb()("suppliers").insert({ name: `Supplier ${unique()}` }).returning("id");
+    const [s] = await testDb()("suppliers")
+      .insert({ name: `Supplier ${unique()}` })
+      .returning("id");
     return { params: { supplierId: String(s.id) }, body: { name: `Supplier ${unique()}`, leadTimeDays: 7 } };
   },
   "POST /api/deliveries": async () => ({
@@ -86,9 +100,18 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
   }),
   "GET /api/deliveries/[deliveryId]": async () => ({ params: { deliveryId: String(await firstId("deliveries")) } }),
   "GET /api/blocks/[blockId]": async () => ({ params: { blockId: String((await makeBlock()).id) } }),
-  "PATCH /api/blocks/[blockId]": async () => ({ params: { blockId: String((await makeBlock()).id) }, body: { location: "Bay B – floor" } }),
-  "POST /api/blocks/[blockId]/scrap": async () => ({ params: { blockId: String((await makeBlock()).id) }, body: { reason: "Crushed by a forklift" } }),
-  "POST /api/blocks/[blockId]/adjust": async () => ({ params: { blockId: String((await makeBlock()).id) }, body: { size: [1990, 1000, 500], reason: "Re-measured" } }),
+  "PATCH /api/blocks/[blockId]": async () => ({
+    params: { blockId: String((await makeBlock()).id) },
+    body: { location: "Bay B – floor" },
+  }),
+  "POST /api/blocks/[blockId]/scrap": async () => ({
+    params: { blockId: String((await makeBlock()).id) },
+    body: { reason: "Crushed by a forklift" },
+  }),
+  "POST /api/blocks/[blockId]/adjust": async () => ({
+    params: { blockId: String((await makeBlock()).id) },
+    body: { size: [1990, 1000, 500], reason: "Re-measured" },
+  }),
   "GET /api/blocks/[blockId]/defects": async () => ({ params: { blockId: String((await makeBlock()).id) } }),
   "POST /api/blocks/[blockId]/defects": async () => ({
     params: { blockId: String((await makeBlock()).id) },
@@ -106,10 +129,17 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
   },
   "POST /api/runs": async () => {
     const block = await makeBlock();
-    const { jobId } = await makeJobWithParts([{ name: "Rib", quantity: 2, size: [300, 200, 100], gradeCode: "EPS-II" }]);
-    return { body: { jobIds: [jobId], blockIds: [block.id], settings: { ...SETTINGS, timeLimitMs: 500 } }, expect: 201 };
+    const { jobId } = await makeJobWithParts([
+      { name: "Rib", quantity: 2, size: [300, 200, 100], gradeCode: "EPS-II" },
+    ]);
+    return {
+      body: { jobIds: [jobId], blockIds: [block.id], settings: { ...SETTINGS, timeLimitMs: 500 } },
+      expect: 201,
+    };
   },
-  "GET /api/runs/candidates": async () => ({ query: `jobs=${(await makeJobWithParts([{ name: "Rib", quantity: 1, size: [300, 200, 100], gradeCode: "EPS-II" }])).jobId}` }),
+  "GET /api/runs/candidates": async () => ({
+    query: `jobs=${(await makeJobWithParts([{ name: "Rib", quantity: 1, size: [300, 200, 100], gradeCode: "EPS-II" }])).jobId}`,
+  }),
   "GET /api/runs/[runId]": async () => ({ params: { runId: String((await makePlannedBlock()).runId) } }),
   "POST /api/runs/[runId]/cancel": async () => {
     const { runId } = await makePlannedBlock();
@@ -123,7 +153,9 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     const run = await testDb()("nesting_runs").where({ id: runId }).first("plan");
     const plan = run.plan;
     plan.unplaced = [{ part: `jp-${partIds[0]}`, count: 1, reason: "test" }];
-    await testDb()("nesting_runs").where({ id: runId }).update({ plan: JSON.stringify(plan) });
+    await testDb()("nesting_runs")
+      .where({ id: runId })
+      .update({ plan: JSON.stringify(plan) });
     return { params: { runId: String(runId) }, expect: 201 };
   },
   "POST /api/runs/[runId]/blocks/[blockId]/cut": async () => {
@@ -139,7 +171,9 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     const block = await makeBlock();
     return {
       params: { defectId: String(await makeDefect(block.id)) },
-      files: [{ field: "photos", name: "void-face.jpg", content: await jpegBytes(320, 240), contentType: "image/jpeg" }],
+      files: [
+        { field: "photos", name: "void-face.jpg", content: await jpegBytes(320, 240), contentType: "image/jpeg" },
+      ],
       expect: 201,
     };
   },
@@ -148,10 +182,20 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     return { params: { photoId: String((await makePhoto(await makeDefect(block.id))).id) } };
   },
   // Jobs and the part library.
-  "POST /api/jobs": async () => ({ body: { name: `Job ${unique()}`, customer: "Test customer", dueOn: "2026-12-24" }, expect: 201 }),
+  "POST /api/jobs": async () => ({
+    body: { name: `Job ${unique()}`, customer: "Test customer", dueOn: "2026-12-24" },
+    expect: 201,
+  }),
   "GET /api/jobs/[jobId]": async () => ({ params: { jobId: String(await makeJob()) } }),
-  "PATCH /api/jobs/[jobId]": async () => ({ params: { jobId: String(await makeJob()) }, body: { dueOn: "2026-12-31" } }),
-  "POST /api/jobs/[jobId]/parts": async () => ({ params: { jobId: String(await makeJob()) }, body: { name: "Rib", quantity: 4, size: [400, 120, 20] }, expect: 201 }),
+  "PATCH /api/jobs/[jobId]": async () => ({
+    params: { jobId: String(await makeJob()) },
+    body: { dueOn: "2026-12-31" },
+  }),
+  "POST /api/jobs/[jobId]/parts": async () => ({
+    params: { jobId: String(await makeJob()) },
+    body: { name: "Rib", quantity: 4, size: [400, 120, 20] },
+    expect: 201,
+  }),
   "PATCH /api/jobs/[jobId]/parts/[partId]": async () => {
     const jobId = await makeJob();
     return { params: { jobId: String(jobId), partId: String(await makeJobPart(jobId)) }, body: { quantity: 6 } };
@@ -166,34 +210,86 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     contentType: "text/csv",
     body: "name,quantity,length_mm,width_mm,height_mm\nRib,4,400,120,20\n",
   }),
-  "POST /api/library": async () => ({ body: { kit: "Test kit", name: `Former ${unique()}`, size: [200, 150, 10] }, expect: 201 }),
-  "PATCH /api/library/[partId]": async () => ({ params: { partId: String(await makeLibraryPart()) }, body: { defaultQuantity: 3 } }),
-  "PUT /api/reorder/settings": async () => ({ body: { serviceLevel: 0.95, historyDays: 90, orderCost: 75, holdingCost: 18 } }),
-  "PUT /api/reorder/[gradeId]": async () => ({ params: { gradeId: String(await firstId("grades")) }, body: { leadTimeDays: null, note: "role check" } }),
-  "POST /api/reorder/draft": async () => ({ body: { gradeIds: [(await testDb()("grades").where({ code: "EPS-II" }).first("id")).id] }, expect: 201 }),
+  "POST /api/library": async () => ({
+    body: { kit: "Test kit", name: `Former ${unique()}`, size: [200, 150, 10] },
+    expect: 201,
+  }),
+  "PATCH /api/library/[partId]": async () => ({
+    params: { partId: String(await makeLibraryPart()) },
+    body: { defaultQuantity: 3 },
+  }),
+  "PUT /api/reorder/settings": async () => ({
+    body: { serviceLevel: 0.95, historyDays: 90, orderCost: 75, holdingCost: 18 },
+  }),
+  "PUT /api/reorder/[gradeId]": async () => ({
+    params: { gradeId: String(await firstId("grades")) },
+    body: { leadTimeDays: null, note: "role check" },
+  }),
+  "POST /api/reorder/draft": async () => ({
+    body: { gradeIds: [(await testDb()("grades").where({ code: "EPS-II" }).first("id")).id] },
+    expect: 201,
+  }),
   "POST /api/reorder/alert": async () => ({}),
   "POST /api/purchase-orders": async () => ({
-    body: { supplierId: await firstId("suppliers"), expectedOn: "2026-12-20", lines: [{ gradeId: await firstId("grades"), size: [2000, 1000, 500], quantity: 4, price: 0.4 }] },
+    body: {
+      supplierId: await firstId("suppliers"),
+      expectedOn: "2026-12-20",
+      lines: [{ gradeId: await firstId("grades"), size: [2000, 1000, 500], quantity: 4, price: 0.4 }],
+    },
     expect: 201,
   }),
   "GET /api/purchase-orders/[poId]": async () => ({ params: { poId: String((await makeOrder()).id) } }),
   "PUT /api/purchase-orders/[poId]": async () => ({
     params: { poId: String((await makeOrder()).id) },
-    body: { supplierId: await firstId("suppliers"), lines: [{ gradeId: await firstId("grades"), size: [2000, 1000, 500], quantity: 5, price: 0.4 }] },
+    body: {
+      supplierId: await firstId("suppliers"),
+      lines: [{ gradeId: await firstId("grades"), size: [2000, 1000, 500], quantity: 5, price: 0.4 }],
+    },
   }),
-  "POST /api/purchase-orders/[poId]/send": async () => ({ params: { poId: String((await makeOrder()).id) }, body: { email: false } }),
-  "POST /api/purchase-orders/[poId]/cancel": async () => ({ params: { poId: String((await makeOrder({ status: "sent" })).id) }, body: { reason: "Role check" } }),
-  "POST /api/purchase-orders/[poId]/close": async () => ({ params: { poId: String((await makeOrder({ status: "part_received", receivedM3: 1 })).id) }, body: { reason: "Role check" } }),
+  "POST /api/purchase-orders/[poId]/send": async () => ({
+    params: { poId: String((await makeOrder()).id) },
+    body: { email: false },
+  }),
+  "POST /api/purchase-orders/[poId]/cancel": async () => ({
+    params: { poId: String((await makeOrder({ status: "sent" })).id) },
+    body: { reason: "Role check" },
+  }),
+  "POST /api/purchase-orders/[poId]/close": async () => ({
+    params: { poId: String((await makeOrder({ status: "part_received", receivedM3: 1 })).id) },
+    body: { reason: "Role check" },
+  }),
   "POST /api/purchase-orders/[poId]/receive": async () => {
     const po = await makeOrder({ status: "sent", quantity: 1 });
-    return { params: { poId: String(po.id) }, body: { receivedOn: "2026-11-30", lot: `LOT-${unique()}`, blocks: [{ lineId: po.lineId, size: [2000, 1000, 500], location: "Test bay" }] }, expect: 201 };
+    return {
+      params: { poId: String(po.id) },
+      body: {
+        receivedOn: "2026-11-30",
+        lot: `LOT-${unique()}`,
+        blocks: [{ lineId: po.lineId, size: [2000, 1000, 500], location: "Test bay" }],
+      },
+      expect: 201,
+    };
   },
   "GET /api/purchase-orders/[poId]/export": async () => ({ params: { poId: String((await makeOrder()).id) } }),
-  "GET /api/reports/[report]": async () => ({ params: { report: "stock-value" }, query: "from=2026-09-01&to=2026-12-01" }),
+  "GET /api/reports/[report]": async () => ({
+    params: { report: "stock-value" },
+    query: "from=2026-09-01&to=2026-12-01",
+  }),
 };
 
 function gradeBody(code: string) {
-  return { code, material: "EPS", gradeSystem: "ASTM C578", grade: "Type II", nominalDensity: 23, minDensity: 21.6, cureDays: 14, neverHotWire: false, colour: "#3f8791", priceUnit: "bf" };
+  return {
+    code,
+    material: "EPS",
+    gradeSystem: "ASTM C578",
+    grade: "Type II",
+    nominalDensity: 23,
+    minDensity: 21.6,
+    cureDays: 14,
+    neverHotWire: false,
+    colour: "#3f8791",
+    priceUnit: "bf",
+  };
 }
 
 async function firstId(table: string): Promise<number> {

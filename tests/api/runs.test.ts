@@ -1,7 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, makeBlock, tableCounts, testDb } from "../support/db";
-import { SETTINGS, makeApprovedRun, makeDoneRun, makeJobWithParts, makePinwheelRun, makePlannedBlock } from "../support/planning-fixtures";
+import {
+  SETTINGS,
+  makeApprovedRun,
+  makeDoneRun,
+  makeJobWithParts,
+  makePinwheelRun,
+  makePlannedBlock,
+} from "../support/planning-fixtures";
 import { validatePlan, type Plan, type Problem } from "@/lib/nesting";
 
 afterAll(closeTestDb);
@@ -35,7 +42,11 @@ describe("nesting runs in the background worker", () => {
       { name: "Wing core", quantity: 6, size: [1100, 300, 60], gradeCode: "EPS-II" },
       { name: "Letter B", quantity: 4, size: [600, 450, 100], gradeCode: "EPS-II" },
     ]);
-    const res = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [a.id, b.id], settings: { ...SETTINGS, timeLimitMs: 1500 } });
+    const res = await planner.post("/api/runs", {
+      jobIds: [jobId],
+      blockIds: [a.id, b.id],
+      settings: { ...SETTINGS, timeLimitMs: 1500 },
+    });
     expect(res.status).toBe(201);
     const { run } = await waitFor(res.body.id, ["done", "failed"]);
     expect(run.status).toBe("done");
@@ -90,8 +101,14 @@ describe("nesting runs in the background worker", () => {
     // Stock runs short (ten big parts, two blocks), so the search uses its whole budget unless stopped.
     const a = await makeBlock({ size: [2000, 1000, 1000] });
     const b = await makeBlock({ size: [2000, 1000, 1000] });
-    const { jobId } = await makeJobWithParts([{ name: "Column", quantity: 10, size: [1300, 700, 700], gradeCode: "EPS-II" }]);
-    const res = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [a.id, b.id], settings: { ...SETTINGS, timeLimitMs: 30_000 } });
+    const { jobId } = await makeJobWithParts([
+      { name: "Column", quantity: 10, size: [1300, 700, 700], gradeCode: "EPS-II" },
+    ]);
+    const res = await planner.post("/api/runs", {
+      jobIds: [jobId],
+      blockIds: [a.id, b.id],
+      settings: { ...SETTINGS, timeLimitMs: 30_000 },
+    });
     await waitFor(res.body.id, ["running"]);
     expect((await planner.post(`/api/runs/${res.body.id}/cancel`)).status).toBe(200);
     const { run } = await waitFor(res.body.id, ["cancelled"]);
@@ -111,7 +128,13 @@ describe("nesting runs in the background worker", () => {
     const res = await planner.get(`/api/runs/candidates?jobs=${jobId}`);
     expect(res.status).toBe(200);
     const today = new Date().toISOString().slice(0, 10);
-    const rows = await testDb()("blocks as b").join("grades as g", "g.id", "b.grade_id").whereIn("b.id", res.body.items.map((c: { id: number }) => c.id)).select("g.code", "b.status", "b.cut_not_before");
+    const rows = await testDb()("blocks as b")
+      .join("grades as g", "g.id", "b.grade_id")
+      .whereIn(
+        "b.id",
+        res.body.items.map((c: { id: number }) => c.id),
+      )
+      .select("g.code", "b.status", "b.cut_not_before");
     expect(rows.length).toBeGreaterThan(0);
     for (const r of rows) {
       expect(r.code).toBe("EPS-I");
@@ -119,7 +142,14 @@ describe("nesting runs in the background worker", () => {
     }
     const anyGrade = await makeJobWithParts([{ name: "Anything", quantity: 1, size: [100, 100, 100] }]);
     const all = await planner.get(`/api/runs/candidates?jobs=${anyGrade.jobId}`);
-    const codes = await testDb()("blocks as b").join("grades as g", "g.id", "b.grade_id").whereIn("b.id", all.body.items.map((c: { id: number }) => c.id)).distinct("g.material").pluck("material");
+    const codes = await testDb()("blocks as b")
+      .join("grades as g", "g.id", "b.grade_id")
+      .whereIn(
+        "b.id",
+        all.body.items.map((c: { id: number }) => c.id),
+      )
+      .distinct("g.material")
+      .pluck("material");
     expect(codes).not.toContain("PU");
     expect(all.body.items.every((c: { since: string }) => c.since <= today)).toBe(true);
   });
@@ -135,7 +165,11 @@ describe("nesting runs in the background worker", () => {
     const r2 = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [pu.id], settings: SETTINGS });
     expect(r2.status).toBe(409);
     expect(r2.body.error).toMatch(/polyurethane/);
-    const r3 = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [settling.id], settings: { ...SETTINGS, kerf: -2, layout: "spiral" } });
+    const r3 = await planner.post("/api/runs", {
+      jobIds: [jobId],
+      blockIds: [settling.id],
+      settings: { ...SETTINGS, kerf: -2, layout: "spiral" },
+    });
     expect(r3.status).toBe(400);
     expect(Object.keys(r3.body.fields).sort()).toEqual(["settings.kerf", "settings.layout"]);
     const after = await tableCounts();
@@ -151,11 +185,16 @@ describe("nesting runs in the background worker", () => {
 describe("approval", () => {
   it("reserves the plan's blocks; two approvals of the same block at once: exactly one wins", async () => {
     const block = await makeBlock({ size: [2000, 1000, 600] });
-    const { jobId } = await makeJobWithParts([{ name: "Panel", quantity: 2, size: [900, 400, 200], gradeCode: "EPS-II" }]);
+    const { jobId } = await makeJobWithParts([
+      { name: "Panel", quantity: 2, size: [900, 400, 200], gradeCode: "EPS-II" },
+    ]);
     const one = await makeDoneRun(jobId, [block]);
     const two = await makeDoneRun(jobId, [block]);
     const gap = await ledgerGap();
-    const [a, b] = await Promise.all([planner.post(`/api/runs/${one.runId}/approve`), planner.post(`/api/runs/${two.runId}/approve`)]);
+    const [a, b] = await Promise.all([
+      planner.post(`/api/runs/${one.runId}/approve`),
+      planner.post(`/api/runs/${two.runId}/approve`),
+    ]);
     expect([a.status, b.status].sort()).toEqual([200, 409]);
     const loser = a.status === 409 ? a : b;
     expect(loser.body.error).toMatch(/earmarked|Another plan/);
@@ -228,10 +267,24 @@ describe("at the machine", () => {
     // A void near the far end, inside where the plan keeps an offcut.
     const off = plan.offcuts.find((o) => o.block === block.code)!;
     expect(off).toBeTruthy();
-    const d = { min: off.origin.map((v, i) => v + Math.min(20, off.size[i]! / 4)), max: off.origin.map((v, i) => v + Math.min(60, off.size[i]! / 2)) };
-    await testDb()("defect_zones").insert({ block_id: block.id, kind: "void", min_x: d.min[0], min_y: d.min[1], min_z: d.min[2], max_x: d.max[0], max_y: d.max[1], max_z: d.max[2] });
+    const d = {
+      min: off.origin.map((v, i) => v + Math.min(20, off.size[i]! / 4)),
+      max: off.origin.map((v, i) => v + Math.min(60, off.size[i]! / 2)),
+    };
+    await testDb()("defect_zones").insert({
+      block_id: block.id,
+      kind: "void",
+      min_x: d.min[0],
+      min_y: d.min[1],
+      min_z: d.min[2],
+      max_x: d.max[0],
+      max_y: d.max[1],
+      max_z: d.max[2],
+    });
     const gap = await ledgerGap();
-    const res = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [{ jobPartId: partIds[0], count: 1, reason: "void in the cut face" }] });
+    const res = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, {
+      rejects: [{ jobPartId: partIds[0], count: 1, reason: "void in the cut face" }],
+    });
     expect(res.status).toBe(200);
     const l = res.body.losses;
     expect(l.goodBlanks + l.rejects + l.offcuts + l.trim + l.kerf + l.defect + l.unusable).toBeCloseTo(l.block, 9);
@@ -239,7 +292,10 @@ describe("at the machine", () => {
     expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("cut");
     const children = await testDb()("blocks").where({ parent_id: block.id });
     expect(children.map((c: { code: string }) => c.code).sort()).toEqual(res.body.offcutCodes.sort());
-    const inherited = await testDb()("defect_zones").whereIn("block_id", children.map((c: { id: number }) => c.id));
+    const inherited = await testDb()("defect_zones").whereIn(
+      "block_id",
+      children.map((c: { id: number }) => c.id),
+    );
     expect(inherited.length).toBeGreaterThan(0);
     expect(inherited[0].inherited_from).toBeTruthy();
     const kinds = await testDb()("stock_ledger").where({ block_id: block.id }).orderBy("id").pluck("kind");
@@ -256,7 +312,9 @@ describe("at the machine", () => {
   it("refuses more rejects than the block gives, changing nothing", async () => {
     const { runId, block, partIds } = await makeApprovedRun();
     const before = await tableCounts();
-    const res = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [{ jobPartId: partIds[0], count: 5, reason: "x" }] });
+    const res = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, {
+      rejects: [{ jobPartId: partIds[0], count: 5, reason: "x" }],
+    });
     expect(res.status).toBe(400);
     expect(res.body.fields["rejects.0.count"]).toMatch(/Only 2/);
     expect(await tableCounts()).toEqual(before);
@@ -265,7 +323,9 @@ describe("at the machine", () => {
   it("re-plans the rejected parts in one step", async () => {
     const { runId, block, partIds } = await makeApprovedRun();
     await makeBlock({ size: [2000, 1000, 600] });
-    await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [{ jobPartId: partIds[0], count: 2, reason: "wet core" }] });
+    await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, {
+      rejects: [{ jobPartId: partIds[0], count: 2, reason: "wet core" }],
+    });
     const res = await planner.post(`/api/runs/${runId}/replan`);
     expect(res.status).toBe(201);
     const next = await testDb()("nesting_runs").where({ id: res.body.id }).first();

@@ -27,16 +27,19 @@ beforeAll(async () => {
 const MUTATING = (Object.keys(API_POLICY) as RouteKey[]).filter((k) => !k.startsWith("GET "));
 
 describe("security headers", () => {
-  it.each(["/sign-in", "/", "/stock", "/api/health", "/api/me", "/api/blocks?page=abc", "/no-such-page"])("%s carries CSP with frame-ancestors, a referrer policy and nosniff", async (url) => {
-    const res = await client().get(url).redirects(0);
-    expect(res.headers["content-security-policy"]).toMatch(/frame-ancestors 'none'/);
-    expect(res.headers["content-security-policy"]).toMatch(/default-src 'self'/);
-    expect(res.headers["content-security-policy"]).toMatch(/object-src 'none'/);
-    expect(res.headers["referrer-policy"]).toBe("same-origin");
-    expect(res.headers["x-content-type-options"]).toBe("nosniff");
-    expect(res.headers["x-frame-options"]).toBe("DENY");
-    expect(res.headers["x-powered-by"]).toBeUndefined();
-  });
+  it.each(["/sign-in", "/", "/stock", "/api/health", "/api/me", "/api/blocks?page=abc", "/no-such-page"])(
+    "%s carries CSP with frame-ancestors, a referrer policy and nosniff",
+    async (url) => {
+      const res = await client().get(url).redirects(0);
+      expect(res.headers["content-security-policy"]).toMatch(/frame-ancestors 'none'/);
+      expect(res.headers["content-security-policy"]).toMatch(/default-src 'self'/);
+      expect(res.headers["content-security-policy"]).toMatch(/object-src 'none'/);
+      expect(res.headers["referrer-policy"]).toBe("same-origin");
+      expect(res.headers["x-content-type-options"]).toBe("nosniff");
+      expect(res.headers["x-frame-options"]).toBe("DENY");
+      expect(res.headers["x-powered-by"]).toBeUndefined();
+    },
+  );
 
   it("sends the headers on a signed-in page too", async () => {
     const res = await admin.get("/stock").redirects(0);
@@ -96,7 +99,12 @@ describe("no path traversal when serving files", () => {
   });
 
   it("static paths do not climb out either", async () => {
-    for (const url of ["/_next/static/..%2F..%2F..%2Fpackage.json", "/_next/static/%2e%2e/%2e%2e/%2e%2e/package.json", "/..%2F..%2Fpackage.json", "/public/..%2Fpackage.json"]) {
+    for (const url of [
+      "/_next/static/..%2F..%2F..%2Fpackage.json",
+      "/_next/static/%2e%2e/%2e%2e/%2e%2e/package.json",
+      "/..%2F..%2Fpackage.json",
+      "/public/..%2Fpackage.json",
+    ]) {
       const res = await client().get(url);
       expect(res.status, url).toBeGreaterThanOrEqual(400);
       expect(res.text, url).not.toMatch(/"name":\s*"blockyard"/);
@@ -145,11 +153,23 @@ function firstArgument(text: string, start: number): string {
  * fragment from a constant in the same file, never a value from a request.
  */
 const ALLOWED_DYNAMIC_SQL: { file: string; sql: string; why: string }[] = [
-  { file: "db/migrations/20261201000100_foundation.ts", sql: "`ALTER TABLE user_roles ADD CONSTRAINT user_roles_role CHECK (role IN (${ROLES.map((r) => `", why: "DDL from the constant role list" },
-  { file: "db/queries/reports.ts", sql: "`${column} >= ?::date AND ${column} < ?::date + 1`", why: "column names are constants of that file; the dates are bound" },
-  { file: "db/queries/reports.ts", sql: "inPeriod(k, \"pb.cut_at\", p)", why: "a Knex.Raw built with bindings above" },
-  { file: "db/queries/reports.ts", sql: "inPeriod(k, \"created_at\", p)", why: "a Knex.Raw built with bindings above" },
-  { file: "db/queries/reports.ts", sql: "inPeriod(k, \"d.received_on\", p)", why: "a Knex.Raw built with bindings above" },
+  {
+    file: "db/migrations/20261201000100_foundation.ts",
+    sql: "`ALTER TABLE user_roles ADD CONSTRAINT user_roles_role CHECK (role IN (${ROLES.map((r) => `",
+    why: "DDL from the constant role list",
+  },
+  {
+    file: "db/queries/reports.ts",
+    sql: "`${column} >= ?::date AND ${column} < ?::date + 1`",
+    why: "column names are constants of that file; the dates are bound",
+  },
+  { file: "db/queries/reports.ts", sql: 'inPeriod(k, "pb.cut_at", p)', why: "a Knex.Raw built with bindings above" },
+  { file: "db/queries/reports.ts", sql: 'inPeriod(k, "created_at", p)', why: "a Knex.Raw built with bindings above" },
+  {
+    file: "db/queries/reports.ts",
+    sql: 'inPeriod(k, "d.received_on", p)',
+    why: "a Knex.Raw built with bindings above",
+  },
 ];
 
 describe("SQL only through Knex bindings", () => {
@@ -158,7 +178,8 @@ describe("SQL only through Knex bindings", () => {
     for (const file of sourceFiles(["app", "lib", "db", "components"])) {
       const rel = path.relative(ROOT, file).split(path.sep).join("/");
       const text = fs.readFileSync(file, "utf8");
-      const re = /\.(raw|whereRaw|orWhereRaw|andWhereRaw|havingRaw|orHavingRaw|orderByRaw|groupByRaw|joinRaw|fromRaw|onRaw|andOnRaw|orOnRaw|selectRaw)\s*\(/g;
+      const re =
+        /\.(raw|whereRaw|orWhereRaw|andWhereRaw|havingRaw|orHavingRaw|orderByRaw|groupByRaw|joinRaw|fromRaw|onRaw|andOnRaw|orOnRaw|selectRaw)\s*\(/g;
       for (let m; (m = re.exec(text)); ) {
         const arg = firstArgument(text, m.index + m[0].length);
         const dynamic = (arg.startsWith("`") && arg.includes("${")) || arg.endsWith("+") || !/^[`"']/.test(arg);
@@ -172,23 +193,44 @@ describe("SQL only through Knex bindings", () => {
   });
 
   it("the check itself catches interpolation, concatenation and variables", () => {
-    const sample = 'db().raw(`now() - ${x}`); k.whereRaw("a = " + b); k.raw(sql); k.raw("select 1"); k.whereRaw(`x = ?`, [1]);';
-    const found = [...sample.matchAll(/\.(raw|whereRaw)\s*\(/g)].map((m) => firstArgument(sample, m.index! + m[0].length));
-    const dynamic = found.filter((arg) => (arg.startsWith("`") && arg.includes("${")) || arg.endsWith("+") || !/^[`"']/.test(arg));
+    const sample =
+      'db().raw(`now() - ${x}`); k.whereRaw("a = " + b); k.raw(sql); k.raw("select 1"); k.whereRaw(`x = ?`, [1]);';
+    const found = [...sample.matchAll(/\.(raw|whereRaw)\s*\(/g)].map((m) =>
+      firstArgument(sample, m.index! + m[0].length),
+    );
+    const dynamic = found.filter(
+      (arg) => (arg.startsWith("`") && arg.includes("${")) || arg.endsWith("+") || !/^[`"']/.test(arg),
+    );
     expect(dynamic).toEqual(["`now() - ${x}`", '"a = " +', "sql"]);
   });
 });
 
 describe("no secrets in the repository", () => {
   // Files git would commit: tracked, plus untracked ones not ignored.
-  const files = execFileSync("git", ["ls-files", "--cached", "--others", "--exclude-standard"], { cwd: ROOT, encoding: "utf8" })
+  const files = execFileSync("git", ["ls-files", "--cached", "--others", "--exclude-standard"], {
+    cwd: ROOT,
+    encoding: "utf8",
+  })
     .split("\n")
-    .filter((f) => f && fs.existsSync(path.join(ROOT, f)) && !/\.(png|jpe?g|webp|gif|ico|woff2?|pdf|lock)$/i.test(f) && fs.statSync(path.join(ROOT, f)).size < 2_000_000);
+    .filter(
+      (f) =>
+        f &&
+        fs.existsSync(path.join(ROOT, f)) &&
+        !/\.(png|jpe?g|webp|gif|ico|woff2?|pdf|lock)$/i.test(f) &&
+        fs.statSync(path.join(ROOT, f)).size < 2_000_000,
+    );
 
   // The documented throwaway values: demo users (README), test users, the local S3 fake's fixed keys.
   const DOCUMENTED = ["blockyard-demo", "test-password-123", "S3RVER", "secret", "pass"];
 
-  const patterns = [/-----BEGIN [A-Z ]*PRIVATE KEY-----/, /\bAKIA[0-9A-Z]{16}\b/, /\baws_secret_access_key\s*[=:]\s*[A-Za-z0-9/+]{30,}/i, /\bgh[pousr]_[A-Za-z0-9]{30,}\b/, /\bxox[abpr]-[A-Za-z0-9-]{10,}/, /\bsk_live_[A-Za-z0-9]{16,}/];
+  const patterns = [
+    /-----BEGIN [A-Z ]*PRIVATE KEY-----/,
+    /\bAKIA[0-9A-Z]{16}\b/,
+    /\baws_secret_access_key\s*[=:]\s*[A-Za-z0-9/+]{30,}/i,
+    /\bgh[pousr]_[A-Za-z0-9]{30,}\b/,
+    /\bxox[abpr]-[A-Za-z0-9-]{10,}/,
+    /\bsk_live_[A-Za-z0-9]{16,}/,
+  ];
 
   it("the patterns catch planted keys", () => {
     const planted = ["-----BEGIN RSA PRIVATE " + "KEY-----", "AKIA" + "ABCDEFGHIJKLMNOP", "gh" + "p_" + "a".repeat(36)];
@@ -208,7 +250,9 @@ describe("no secrets in the repository", () => {
     for (const f of files.filter((x) => !x.startsWith("tests/") && !x.endsWith(".md"))) {
       const text = fs.readFileSync(path.join(ROOT, f), "utf8");
       // A key named like a secret and assigned a literal (not `"/api/me/password": …` or `"user.password_change"`).
-      for (const m of text.matchAll(/(?<![\w./-])(password|passwd|secret|api[_-]?key|token)["']?\s*[:=]\s*["'`]([^"'`\s]{4,})["'`]/gi)) {
+      for (const m of text.matchAll(
+        /(?<![\w./-])(password|passwd|secret|api[_-]?key|token)["']?\s*[:=]\s*["'`]([^"'`\s]{4,})["'`]/gi,
+      )) {
         if (!DOCUMENTED.includes(m[2]!) && !/^(process\.env|env\.)/.test(m[2]!)) hits.push(`${f}: ${m[0]}`);
       }
       for (const m of text.matchAll(/\b(postgres(?:ql)?|mysql|smtps?|redis|amqp):\/\/([^:@/\s]+):([^@\s]+)@/gi)) {
@@ -229,19 +273,36 @@ describe("who changed what", () => {
     if (subject) q.where({ subject });
     return q.first();
   };
-  const userId = async (role: string) => (await testDb()("users").where({ email: demoEmail(role) }).first("id")).id as string;
+  const userId = async (role: string) =>
+    (
+      await testDb()("users")
+        .where({ email: demoEmail(role) })
+        .first("id")
+    ).id as string;
 
   it("records the actor of settings, grade, supplier and block changes in the audit log", async () => {
     const adminId = await userId("admin");
     const buyerId = await userId("buyer");
 
     const settings = (await admin.get("/api/settings")).body;
-    const put = await admin.put("/api/settings", { ...(settings.settings ?? settings), shopName: "Hollowfield Foamworks" });
+    const put = await admin.put("/api/settings", {
+      ...(settings.settings ?? settings),
+      shopName: "Hollowfield Foamworks",
+    });
     expect(put.status, JSON.stringify(put.body)).toBe(200);
     expect(await lastAudit("settings.update")).toMatchObject({ actor_id: adminId, subject: "shop" });
 
     const code = `AUD-${Date.now().toString(36)}`.toUpperCase();
-    const grade = await buyer.post("/api/grades", { code, material: "EPS", gradeSystem: "shop", grade: "audit", cureDays: 1, neverHotWire: false, colour: "#336699", priceUnit: "m3" });
+    const grade = await buyer.post("/api/grades", {
+      code,
+      material: "EPS",
+      gradeSystem: "shop",
+      grade: "audit",
+      cureDays: 1,
+      neverHotWire: false,
+      colour: "#336699",
+      priceUnit: "m3",
+    });
     expect(grade.status, JSON.stringify(grade.body)).toBe(201);
     expect(await lastAudit("grade.create")).toMatchObject({ actor_id: buyerId });
 
@@ -251,16 +312,28 @@ describe("who changed what", () => {
 
     const b = await makeBlock();
     expect((await buyer.patch(`/api/blocks/${b.id}`, { location: "Audit bay" })).status).toBe(200);
-    expect(await lastAudit("block.update", `block:${b.id}`)).toMatchObject({ actor_id: buyerId, detail: { location: "Audit bay" } });
+    expect(await lastAudit("block.update", `block:${b.id}`)).toMatchObject({
+      actor_id: buyerId,
+      detail: { location: "Audit bay" },
+    });
   });
 
   it("records who moved stock, with the reason, in the ledger", async () => {
     const buyerId = await userId("buyer");
     const a = await makeBlock();
     const c = await makeBlock();
-    expect((await buyer.post(`/api/blocks/${a.id}/adjust`, { size: [1990, 1000, 500], reason: "Re-measured for audit" })).status).toBe(200);
+    expect(
+      (await buyer.post(`/api/blocks/${a.id}/adjust`, { size: [1990, 1000, 500], reason: "Re-measured for audit" }))
+        .status,
+    ).toBe(200);
     expect((await buyer.post(`/api/blocks/${c.id}/scrap`, { reason: "Forklift, audit test" })).status).toBe(200);
-    expect(await testDb()("stock_ledger").where({ block_id: a.id, kind: "adjusted" }).first()).toMatchObject({ user_id: buyerId, reason: "Re-measured for audit" });
-    expect(await testDb()("stock_ledger").where({ block_id: c.id, kind: "scrapped" }).first()).toMatchObject({ user_id: buyerId, reason: "Forklift, audit test" });
+    expect(await testDb()("stock_ledger").where({ block_id: a.id, kind: "adjusted" }).first()).toMatchObject({
+      user_id: buyerId,
+      reason: "Re-measured for audit",
+    });
+    expect(await testDb()("stock_ledger").where({ block_id: c.id, kind: "scrapped" }).first()).toMatchObject({
+      user_id: buyerId,
+      reason: "Forklift, audit test",
+    });
   });
 });

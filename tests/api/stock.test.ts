@@ -22,7 +22,8 @@ function csv(lines: string[]): string {
   return lines.join("\n") + "\n";
 }
 
-const postCsv = (c: Client, path: string, body: string | Buffer) => c.call("post", path).set("content-type", "text/csv").send(body);
+const postCsv = (c: Client, path: string, body: string | Buffer) =>
+  c.call("post", path).set("content-type", "text/csv").send(body);
 
 describe("stock list API", () => {
   it("answers { items, total } with server-side paging", async () => {
@@ -100,7 +101,14 @@ describe("receiving a delivery", () => {
       lot: "LOT-RECV-1",
       poRef: "PO-9001",
       blocks: [
-        { gradeId: grade.id, size: [4877, 1219, 1219], weightKg: 210, cost: 640, location: "Curing room", mouldedOn: "2026-11-18" },
+        {
+          gradeId: grade.id,
+          size: [4877, 1219, 1219],
+          weightKg: 210,
+          cost: 640,
+          location: "Curing room",
+          mouldedOn: "2026-11-18",
+        },
         { gradeId: grade.id, size: [4877, 1219, 1219], weightKg: 160, cost: 640, location: "Curing room" },
       ],
     });
@@ -111,10 +119,14 @@ describe("receiving a delivery", () => {
     expect(res.body.warnings[0].index).toBe(1);
     const blocks = await testDb()("blocks").whereIn("code", res.body.codes).orderBy("id");
     expect(blocks[0].cut_not_before.toISOString?.().slice(0, 10) ?? blocks[0].cut_not_before).toBeTruthy();
-    const cnb = (b: { cut_not_before: Date }) => `${b.cut_not_before.getFullYear()}-${String(b.cut_not_before.getMonth() + 1).padStart(2, "0")}-${String(b.cut_not_before.getDate()).padStart(2, "0")}`;
+    const cnb = (b: { cut_not_before: Date }) =>
+      `${b.cut_not_before.getFullYear()}-${String(b.cut_not_before.getMonth() + 1).padStart(2, "0")}-${String(b.cut_not_before.getDate()).padStart(2, "0")}`;
     expect(cnb(blocks[0])).toBe(addDays("2026-11-18", grade.cure_days));
     expect(cnb(blocks[1])).toBe(addDays("2026-11-20", grade.cure_days));
-    const ledger = await testDb()("stock_ledger").whereIn("block_id", blocks.map((b: { id: number }) => b.id));
+    const ledger = await testDb()("stock_ledger").whereIn(
+      "block_id",
+      blocks.map((b: { id: number }) => b.id),
+    );
     expect(ledger.map((l: { kind: string }) => l.kind)).toEqual(["received", "received"]);
     const after = await ledgerGap();
     expect(after.m3).toBeCloseTo(before.m3, 9);
@@ -167,7 +179,10 @@ describe("corrections keep the ledger whole", () => {
   it("re-measures and writes off with ledger rows, never deleting stock", async () => {
     const before = await ledgerGap();
     const b = await makeBlock({ size: [2000, 1000, 500] });
-    const adj = await buyer.post(`/api/blocks/${b.id}/adjust`, { size: [1990, 995, 500], reason: "Shrank while settling" });
+    const adj = await buyer.post(`/api/blocks/${b.id}/adjust`, {
+      size: [1990, 995, 500],
+      reason: "Shrank while settling",
+    });
     expect(adj.status).toBe(200);
     expect(adj.body.block.volumeM3).toBeCloseTo((1990 * 995 * 500) / 1e9, 9);
     const scrap = await buyer.post(`/api/blocks/${b.id}/scrap`, { reason: "Forklift damage" });
@@ -182,13 +197,17 @@ describe("corrections keep the ledger whole", () => {
   });
 
   it("refuses to change or delete a ledger row (append-only)", async () => {
-    await expect(testDb()("stock_ledger").update({ reason: "edited" }).where("id", ">", 0)).rejects.toThrow(/append-only/);
+    await expect(testDb()("stock_ledger").update({ reason: "edited" }).where("id", ">", 0)).rejects.toThrow(
+      /append-only/,
+    );
     await expect(testDb()("stock_ledger").delete().where("id", ">", 0)).rejects.toThrow(/append-only/);
   });
 
   it("lets a cutter move a block but not write it off", async () => {
     const b = await makeBlock();
-    expect((await cutter.patch(`/api/blocks/${b.id}`, { location: "Bay B – floor" })).body.block.location).toBe("Bay B – floor");
+    expect((await cutter.patch(`/api/blocks/${b.id}`, { location: "Bay B – floor" })).body.block.location).toBe(
+      "Bay B – floor",
+    );
     expect((await cutter.post(`/api/blocks/${b.id}/scrap`, { reason: "no" })).status).toBe(403);
   });
 });
@@ -196,13 +215,26 @@ describe("corrections keep the ledger whole", () => {
 describe("defect zones", () => {
   it("records a zone inside the block and refuses one outside, naming the axis", async () => {
     const b = await makeBlock({ size: [2000, 1000, 500] });
-    const bad = await cutter.post(`/api/blocks/${b.id}/defects`, { kind: "void", min: [100, 100, 100], max: [2100, 200, 200] });
+    const bad = await cutter.post(`/api/blocks/${b.id}/defects`, {
+      kind: "void",
+      min: [100, 100, 100],
+      max: [2100, 200, 200],
+    });
     expect(bad.status).toBe(400);
     expect(bad.body.fields["max.0"]).toMatch(/length/);
-    const inverted = await cutter.post(`/api/blocks/${b.id}/defects`, { kind: "void", min: [300, 100, 100], max: [200, 200, 200] });
+    const inverted = await cutter.post(`/api/blocks/${b.id}/defects`, {
+      kind: "void",
+      min: [300, 100, 100],
+      max: [200, 200, 200],
+    });
     expect(inverted.status).toBe(400);
     expect(inverted.body.fields["max.0"]).toBeTruthy();
-    const ok = await cutter.post(`/api/blocks/${b.id}/defects`, { kind: "wet_core", min: [100, 100, 100], max: [300, 200, 200], note: "found at a cut face" });
+    const ok = await cutter.post(`/api/blocks/${b.id}/defects`, {
+      kind: "wet_core",
+      min: [100, 100, 100],
+      max: [300, 200, 200],
+      note: "found at a cut face",
+    });
     expect(ok.status).toBe(201);
     expect(ok.body.items).toHaveLength(1);
     expect(ok.body.items[0]).toMatchObject({ kind: "wet_core", min: [100, 100, 100], max: [300, 200, 200] });
@@ -212,19 +244,30 @@ describe("defect zones", () => {
 describe("CSV import and export", () => {
   const header = "supplier,received_on,lot,grade,code,length_mm,width_mm,height_mm,weight_kg,cost,location";
   const good = (n: number, prefix: string) =>
-    Array.from({ length: n }, (_, i) => `Northgate Moulders,2026-11-25,LOT-${prefix},EPS-I,${prefix}-${i + 1},2440,1220,610,28,95.5,Bay A – rack 1`);
+    Array.from(
+      { length: n },
+      (_, i) =>
+        `Northgate Moulders,2026-11-25,LOT-${prefix},EPS-I,${prefix}-${i + 1},2440,1220,610,28,95.5,Bay A – rack 1`,
+    );
 
   it("previews a good file without changing anything, then imports every row in one go", async () => {
     const file = csv([header, ...good(40, "CSVOK")]);
     const before = await tableCounts();
     const preview = await postCsv(buyer, "/api/imports/deliveries?commit=0&name=ok.csv", file);
     expect(preview.status).toBe(200);
-    expect(preview.body).toMatchObject({ committed: false, rows: 40, problemCount: 0, summary: { deliveries: 1, blocks: 40 } });
+    expect(preview.body).toMatchObject({
+      committed: false,
+      rows: 40,
+      problemCount: 0,
+      summary: { deliveries: 1, blocks: 40 },
+    });
     expect(await tableCounts()).toEqual(before);
     const gapBefore = await ledgerGap();
     const commit = await postCsv(buyer, "/api/imports/deliveries?commit=1&name=ok.csv", file);
     expect(commit.status).toBe(201);
-    expect(await testDb()("blocks").where("code", "like", "CSVOK-%").count<{ n: string }[]>({ n: "*" }).first()).toEqual({ n: "40" });
+    expect(
+      await testDb()("blocks").where("code", "like", "CSVOK-%").count<{ n: string }[]>({ n: "*" }).first(),
+    ).toEqual({ n: "40" });
     expect((await ledgerGap()).m3).toBeCloseTo(gapBefore.m3, 9);
   });
 
@@ -244,13 +287,28 @@ describe("CSV import and export", () => {
   });
 
   it("names missing and extra headers, duplicate codes, bad numbers and non-UTF-8 files", async () => {
-    const headers = await postCsv(buyer, "/api/imports/deliveries", csv(["supplier,received_on,lot,grade,length_mm,width_mm,cost,location,colour", "x,2026-11-25,L,EPS-I,1,1,1,A,red"]));
+    const headers = await postCsv(
+      buyer,
+      "/api/imports/deliveries",
+      csv([
+        "supplier,received_on,lot,grade,length_mm,width_mm,cost,location,colour",
+        "x,2026-11-25,L,EPS-I,1,1,1,A,red",
+      ]),
+    );
     expect(headers.status).toBe(422);
     const msgs = headers.body.problems.map((p: { message: string }) => p.message);
     expect(msgs).toContain("The column “height_mm” is missing.");
     expect(msgs).toContain("The column “colour” is not one Blockyard reads.");
 
-    const dup = await postCsv(buyer, "/api/imports/deliveries", csv([header, ...good(2, "CSVDUP").map((r) => r.replace(/CSVDUP-\d/, "CSVDUP-X")), "Northgate Moulders,2026-11-25,L,EPS-I,CSVDUP-Y,abc,1220,610,,95,A"]));
+    const dup = await postCsv(
+      buyer,
+      "/api/imports/deliveries",
+      csv([
+        header,
+        ...good(2, "CSVDUP").map((r) => r.replace(/CSVDUP-\d/, "CSVDUP-X")),
+        "Northgate Moulders,2026-11-25,L,EPS-I,CSVDUP-Y,abc,1220,610,,95,A",
+      ]),
+    );
     expect(dup.body.problems).toEqual(
       expect.arrayContaining([
         { row: 3, column: "code", message: "Code CSVDUP-X is also on row 2." },
@@ -258,7 +316,11 @@ describe("CSV import and export", () => {
       ]),
     );
 
-    const latin1 = Buffer.concat([Buffer.from(header + "\n"), Buffer.from("Northgate Moulders,2026-11-25,L,EPS-I,X,2440,1220,610,28,95,Bay "), Buffer.from([0xc9, 0x0a])]);
+    const latin1 = Buffer.concat([
+      Buffer.from(header + "\n"),
+      Buffer.from("Northgate Moulders,2026-11-25,L,EPS-I,X,2440,1220,610,28,95,Bay "),
+      Buffer.from([0xc9, 0x0a]),
+    ]);
     const enc = await postCsv(buyer, "/api/imports/deliveries", latin1);
     expect(enc.status).toBe(422);
     expect(enc.body.problems[0].message).toMatch(/not UTF-8/);
@@ -269,12 +331,25 @@ describe("CSV import and export", () => {
     const b = await makeBlock({ size: [1000, 1000, 1000] });
     const c = await makeBlock({ size: [1000, 1000, 1000] });
     const gapBefore = await ledgerGap();
-    const bad = await postCsv(buyer, "/api/imports/stock-counts?commit=1", csv(["code,location,present,length_mm,width_mm,height_mm", `${a.code},Bay C,yes,,,`, "NOPE-1,Bay C,yes,,,"]));
+    const bad = await postCsv(
+      buyer,
+      "/api/imports/stock-counts?commit=1",
+      csv(["code,location,present,length_mm,width_mm,height_mm", `${a.code},Bay C,yes,,,`, "NOPE-1,Bay C,yes,,,"]),
+    );
     expect(bad.status).toBe(422);
     expect(bad.body.problems).toEqual([{ row: 3, column: "code", message: "No block NOPE-1 in the register." }]);
     expect((await testDb()("blocks").where({ id: a.id }).first()).location).toBe("Test bay");
 
-    const ok = await postCsv(buyer, "/api/imports/stock-counts?commit=1", csv(["code,location,present,length_mm,width_mm,height_mm", `${a.code},Bay C,yes,,,`, `${b.code},Test bay,yes,990,1000,1000`, `${c.code},Test bay,no,,,`]));
+    const ok = await postCsv(
+      buyer,
+      "/api/imports/stock-counts?commit=1",
+      csv([
+        "code,location,present,length_mm,width_mm,height_mm",
+        `${a.code},Bay C,yes,,,`,
+        `${b.code},Test bay,yes,990,1000,1000`,
+        `${c.code},Test bay,no,,,`,
+      ]),
+    );
     expect(ok.status).toBe(201);
     expect(ok.body.summary).toEqual({ confirmed: 2, moved: 1, remeasured: 1, missing: 1 });
     expect((await testDb()("blocks").where({ id: a.id }).first()).location).toBe("Bay C");
@@ -283,11 +358,14 @@ describe("CSV import and export", () => {
   });
 
   it("exports the stock list with formula-looking cells defused", async () => {
-    const b = await makeBlock({ location: "=HYPERLINK(\"http://x\")" });
+    const b = await makeBlock({ location: '=HYPERLINK("http://x")' });
     const res = await planner.get(`/api/blocks/export?q=${b.code}&status=all`);
     expect(res.status).toBe(200);
     expect(res.headers["content-type"]).toMatch(/text\/csv/);
-    const lines = res.text.replace(/^\uFEFF/, "").trim().split(/\r\n/);
+    const lines = res.text
+      .replace(/^\uFEFF/, "")
+      .trim()
+      .split(/\r\n/);
     expect(lines[0]).toMatch(/^code,grade,material,lot,status,length_mm/);
     expect(lines).toHaveLength(2);
     expect(lines[1]).toContain(`'=HYPERLINK(`);

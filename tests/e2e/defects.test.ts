@@ -16,7 +16,10 @@ afterAll(async () => {
   await closeTestDb();
 });
 
-async function signedIn(role: string, viewport: { width: number; height: number }): Promise<{ context: BrowserContext; page: Page }> {
+async function signedIn(
+  role: string,
+  viewport: { width: number; height: number },
+): Promise<{ context: BrowserContext; page: Page }> {
   const page = await signedInPage(browser, role, viewport);
   return { context: page.context(), page };
 }
@@ -25,7 +28,17 @@ describe("flag a defect", () => {
   it("the cutter finds a block by code, draws a zone on the top face, names it, saves it with a photo and sees it listed", async () => {
     const block = await makeBlock({ size: [2440, 1220, 610] });
     // An older zone, so the drawing shows how zones sit together.
-    await testDb()("defect_zones").insert({ block_id: block.id, kind: "wet_core", min_x: 1800, min_y: 700, min_z: 0, max_x: 2200, max_y: 1100, max_z: 200, note: "Damp at the base." });
+    await testDb()("defect_zones").insert({
+      block_id: block.id,
+      kind: "wet_core",
+      min_x: 1800,
+      min_y: 700,
+      min_z: 0,
+      max_x: 2200,
+      max_y: 1100,
+      max_z: 200,
+      note: "Damp at the base.",
+    });
     const { context, page } = await signedIn("cutter", VIEWPORTS.tablet);
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Flag a defect" }).click();
     await page.waitForURL(`${BASE_URL}/defects/new`);
@@ -62,12 +75,17 @@ describe("flag a defect", () => {
     expect(await newest.textContent()).toContain("z 0–180 mm");
     const thumb = newest.locator("img").first();
     await thumb.waitFor();
-    await page.waitForFunction((el) => (el as HTMLImageElement).complete && (el as HTMLImageElement).naturalWidth > 0, await thumb.elementHandle());
+    await page.waitForFunction(
+      (el) => (el as HTMLImageElement).complete && (el as HTMLImageElement).naturalWidth > 0,
+      await thumb.elementHandle(),
+    );
 
     const rows = await testDb()("defect_zones").where({ block_id: block.id, kind: "void" });
     expect(rows).toHaveLength(1);
     expect(Number(rows[0].max_z)).toBe(180);
-    expect(await testDb()("defect_photos").where({ defect_id: rows[0].id }).count<{ n: string }[]>({ n: "*" }).first()).toEqual({ n: "1" });
+    expect(
+      await testDb()("defect_photos").where({ defect_id: rows[0].id }).count<{ n: string }[]>({ n: "*" }).first(),
+    ).toEqual({ n: "1" });
 
     await page.mouse.move(0, 0);
     const file = await screenshot(page, "flag-defect-tablet");
@@ -105,7 +123,10 @@ describe("face views on a block page", () => {
     }
     const img = page.locator(`img[src="/api/photos/${row.photo_id}?size=thumb"]`);
     await img.waitFor();
-    await page.waitForFunction((el) => (el as HTMLImageElement).complete && (el as HTMLImageElement).naturalWidth === 320, await img.elementHandle());
+    await page.waitForFunction(
+      (el) => (el as HTMLImageElement).complete && (el as HTMLImageElement).naturalWidth === 320,
+      await img.elementHandle(),
+    );
     await screenshot(page, "block-faces-wide");
     await context.close();
   });
@@ -116,7 +137,9 @@ describe("labels", () => {
     const parent = await makeBlock({ size: [4877, 1219, 610] });
     const offcut = await makeBlock({ size: [600, 1219, 458], code: `${parent.code}.1`, parentId: parent.id });
     const { context, page } = await signedIn("cutter", VIEWPORTS.wide);
-    await page.goto(`${BASE_URL}/labels?codes=${encodeURIComponent(`${parent.code},${offcut.code.toLowerCase()},NOPE-1`)}`);
+    await page.goto(
+      `${BASE_URL}/labels?codes=${encodeURIComponent(`${parent.code},${offcut.code.toLowerCase()},NOPE-1`)}`,
+    );
     await page.getByRole("button", { name: "Print labels" }).waitFor();
     expect(await page.getByTestId("label").count()).toBe(2);
     expect(await page.getByTestId("label-qr").count()).toBe(2);
@@ -141,7 +164,13 @@ describe("labels", () => {
     await page.getByRole("button", { name: "Print labels" }).waitFor();
     expect(await page.getByTestId("label").filter({ hasText: offcut.code }).count()).toBe(1);
     // Only offcuts: the block it was cut from is not in this batch (its label is under "received").
-    expect(await page.getByTestId("label").filter({ hasText: new RegExp(`${parent.code}(?!\\.)`) }).filter({ hasNotText: "Offcut of" }).count()).toBe(0);
+    expect(
+      await page
+        .getByTestId("label")
+        .filter({ hasText: new RegExp(`${parent.code}(?!\\.)`) })
+        .filter({ hasNotText: "Offcut of" })
+        .count(),
+    ).toBe(0);
     await screenshot(page, "labels-recent-offcuts-tablet");
     await context.close();
   });

@@ -19,7 +19,8 @@ async function signedIn(role: string, viewport: { width: number; height: number 
   return signedInPage(browser, role, viewport);
 }
 
-const HEADER = "name,quantity,length_mm,width_mm,height_mm,grade,rotate,naca,chord_mm,tip_chord_mm,span_mm,polygon,extrude_mm";
+const HEADER =
+  "name,quantity,length_mm,width_mm,height_mm,grade,rotate,naca,chord_mm,tip_chord_mm,span_mm,polygon,extrude_mm";
 const GOOD = [
   HEADER,
   "Inner wing panel,8,,,,EPS-I,none,2412,230,200,420,,",
@@ -47,11 +48,15 @@ describe("a planner imports a part list into a job", () => {
     expect(text).toMatch(/NACA 2412, chord 230→200 mm, span 420 mm \(4-axis\)/);
     expect(text).toMatch(/Polygon, 5 points × 12 mm/);
     await expect(page.getByTestId("job-totals").textContent()).resolves.toMatch(/4 lines · 24 pieces/);
-    expect(await page.locator("#runs").getByRole("link", { name: "Plan this job" }).getAttribute("href")).toBe(`/plans/new?jobs=${jobId}`);
+    expect(await page.locator("#runs").getByRole("link", { name: "Plan this job" }).getAttribute("href")).toBe(
+      `/plans/new?jobs=${jobId}`,
+    );
 
     // A tapered NACA panel by hand: the preview draws root and tip, and shows the computed box.
     await jobs.addNacaPart("Tailplane", 4, "0009", 120, 90, 320);
-    await expect.poll(async () => (await page.getByTestId("computed-box").textContent()) ?? "").toMatch(/Box 320 × 120(\.\d)? × 10\.8 mm/);
+    await expect
+      .poll(async () => (await page.getByTestId("computed-box").textContent()) ?? "")
+      .toMatch(/Box 320 × 120(\.\d)? × 10\.8 mm/);
     expect(await jobs.preview().locator("path").count()).toBe(2);
     await screenshot(page, "job-part-form-naca-wide");
     await jobs.submitPart();
@@ -83,14 +88,24 @@ describe("a planner imports a part list into a job", () => {
     expect(await page.getByTestId("job-parts").textContent()).toMatch(/24 × 18 × 2 in/);
     // A wing panel typed in inches: the computed box is shown in inches too.
     await jobs.addNacaPart("Stabiliser", 2, "0012", 6, 6, 16, "in");
-    await expect.poll(async () => (await page.getByTestId("computed-box").textContent()) ?? "").toMatch(/Box 16 × 6 × 0\.72 in/);
+    await expect
+      .poll(async () => (await page.getByTestId("computed-box").textContent()) ?? "")
+      .toMatch(/Box 16 × 6 × 0\.72 in/);
     await screenshot(page, "job-part-form-inches-tablet");
     await page.context().close();
   });
 
   it("a planner edits a library part in place; a bad size is named and nothing changes", async () => {
     const [made] = await testDb()("library_parts")
-      .insert({ kit: "Test kit", name: "Plinth blank", size_x: 600, size_y: 400, size_z: 300, rotate: "any", default_quantity: 1 })
+      .insert({
+        kit: "Test kit",
+        name: "Plinth blank",
+        size_x: 600,
+        size_y: 400,
+        size_z: 300,
+        rotate: "any",
+        default_quantity: 1,
+      })
       .returning("id");
     const page = await signedIn("planner", VIEWPORTS.wide);
     await page.goto(`${BASE_URL}/library`);
@@ -98,7 +113,10 @@ describe("a planner imports a part list into a job", () => {
     const form = page.getByRole("form", { name: "Edit Plinth blank" });
     await form.getByLabel("Length mm").fill("-5");
     await form.getByRole("button", { name: "Save the part" }).click();
-    await form.getByText(/must be more than 0/).first().waitFor();
+    await form
+      .getByText(/must be more than 0/)
+      .first()
+      .waitFor();
     await screenshot(page, "library-edit-refused-wide");
     expect(Number((await testDb()("library_parts").where({ id: made.id }).first("size_x")).size_x)).toBe(600);
 

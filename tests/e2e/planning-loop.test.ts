@@ -28,7 +28,12 @@ describe("the planner's and the cutter's loop", () => {
     const jobId = await jobs.createJob(`Foyer letters ${Date.now().toString(36)}`, "Copperleaf Signs", "2026-12-20");
     await jobs.importCsv(
       "letters.csv",
-      ["name,quantity,length_mm,width_mm,height_mm,grade,rotate", "Letter O,5,1000,1000,300,EPS-II,z", "Letter K,2,600,480,100,EPS-II,z", "Backing strip,4,1200,80,40,EPS-II,any"].join("\n") + "\n",
+      [
+        "name,quantity,length_mm,width_mm,height_mm,grade,rotate",
+        "Letter O,5,1000,1000,300,EPS-II,z",
+        "Letter K,2,600,480,100,EPS-II,z",
+        "Backing strip,4,1200,80,40,EPS-II,any",
+      ].join("\n") + "\n",
     );
     await jobs.confirmImport();
     await expect.poll(() => jobs.partRows().count(), { timeout: 10_000 }).toBe(3);
@@ -63,15 +68,23 @@ describe("the planner's and the cutter's loop", () => {
     await cutter.goto(`${BASE_URL}/plans/${runId}/cut`);
     // The page streams in after its loading skeleton: wait for it before counting.
     await cutter.getByRole("heading", { name: `At the machine · plan #${runId}` }).waitFor();
-    await cutter.getByRole("button", { name: /^Mark .+ cut$/ }).first().waitFor();
+    await cutter
+      .getByRole("button", { name: /^Mark .+ cut$/ })
+      .first()
+      .waitFor();
     await screenshot(cutter, "at-the-machine-tablet");
     const buttons = cutter.getByRole("button", { name: /^Mark .+ cut$/ });
     const n = await buttons.count();
     expect(n).toBeGreaterThan(0);
     let offcutCodes: string[] = [];
     for (let i = 0; i < n; i++) {
-      await cutter.getByRole("button", { name: /^Mark .+ cut$/ }).first().click();
-      await expect.poll(() => cutter.getByRole("button", { name: /^Mark .+ cut$/ }).count(), { timeout: 15_000 }).toBe(n - i - 1);
+      await cutter
+        .getByRole("button", { name: /^Mark .+ cut$/ })
+        .first()
+        .click();
+      await expect
+        .poll(() => cutter.getByRole("button", { name: /^Mark .+ cut$/ }).count(), { timeout: 15_000 })
+        .toBe(n - i - 1);
     }
     await expect.poll(() => cutter.getByText(/ is cut$/).count(), { timeout: 15_000 }).toBe(n);
     const notes = await cutter.getByText(/Offcuts now in stock: /).allTextContents();
@@ -89,7 +102,9 @@ describe("the planner's and the cutter's loop", () => {
   });
 
   it("chooses two jobs on the new-plan page and plans them together", async () => {
-    const a = await makeJobWithParts([{ name: "Arch segment", quantity: 2, size: [900, 300, 200], gradeCode: "EPS-II" }]);
+    const a = await makeJobWithParts([
+      { name: "Arch segment", quantity: 2, size: [900, 300, 200], gradeCode: "EPS-II" },
+    ]);
     const b = await makeJobWithParts([{ name: "Plinth", quantity: 1, size: [600, 600, 300], gradeCode: "EPS-II" }]);
     const names = await testDb()("jobs").whereIn("id", [a.jobId, b.jobId]).orderBy("id").pluck("name");
     for (const viewport of [VIEWPORTS.tablet, VIEWPORTS.wide]) {

@@ -68,7 +68,10 @@ describe("the buyer's reorder list", () => {
       await reorder.dueHeading().waitFor();
       const dueCount = Number((await reorder.dueHeading().textContent())!.match(/\((\d+)\)/)![1]);
       expect(dueCount).toBeGreaterThan(0);
-      const first = (await page.locator('[data-testid^="reorder-"]').first().getAttribute("data-testid"))!.replace("reorder-", "");
+      const first = (await page.locator('[data-testid^="reorder-"]').first().getAttribute("data-testid"))!.replace(
+        "reorder-",
+        "",
+      );
       const why = await reorder.explain(first);
       expect(await why.getByText(/SS += z·σd·√L/).count()).toBe(1);
       expect(await why.getByText(/EOQ = √\(2DS\/H\)|set by the buyer/).count()).toBeGreaterThan(0);
@@ -84,7 +87,10 @@ describe("the buyer's reorder list", () => {
     const reorder = new ReorderPage(page);
     await reorder.open();
     await reorder.draftOrders();
-    await page.getByRole("link", { name: /^PO-\d{4}-\d{4}/ }).first().click();
+    await page
+      .getByRole("link", { name: /^PO-\d{4}-\d{4}/ })
+      .first()
+      .click();
     await page.getByRole("heading", { level: 1, name: /^PO-/ }).waitFor();
     expect(await page.getByText("Draft", { exact: true }).count()).toBeGreaterThan(0);
     await screenshot(page, "po-draft-tablet");

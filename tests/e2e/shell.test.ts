@@ -33,8 +33,10 @@ describe("each demo role signs in and sees its own home page", () => {
         await page.waitForURL(`${BASE_URL}/`);
         await expect(page.getByRole("heading", { level: 1 }).textContent()).resolves.toMatch(/Good to see you/);
         const nav = page.getByRole("navigation", { name: "Main" });
-        for (const label of NAV_EXPECTED[role]!.sees) expect(await nav.getByRole("link", { name: label, exact: true }).count()).toBe(1);
-        for (const label of NAV_EXPECTED[role]!.doesNotSee) expect(await nav.getByRole("link", { name: label, exact: true }).count()).toBe(0);
+        for (const label of NAV_EXPECTED[role]!.sees)
+          expect(await nav.getByRole("link", { name: label, exact: true }).count()).toBe(1);
+        for (const label of NAV_EXPECTED[role]!.doesNotSee)
+          expect(await nav.getByRole("link", { name: label, exact: true }).count()).toBe(0);
         if (role === "cutter") expect(await page.getByText("Never leave a hot wire unattended").count()).toBe(1);
         const file = await screenshot(page, `home-${role}-${size}`);
         expect(fs.statSync(file).size).toBeGreaterThan(10_000);

@@ -33,13 +33,21 @@ describe("the buyer receives a delivery", () => {
     await page.getByRole("button", { name: "Copy row" }).click();
     // 120 kg in 7.25 m³ is 16.6 kg/m³: under the Type II minimum of 21.6, warned as the buyer types.
     await page.getByLabel("Block 2 weight kg").fill("120");
-    await page.getByText(/below the EPS-II minimum 21.6/).first().waitFor();
+    await page
+      .getByText(/below the EPS-II minimum 21.6/)
+      .first()
+      .waitFor();
     await screenshot(page, "receive-delivery-tablet");
     await page.getByRole("button", { name: "Receive 2 blocks" }).click();
     await page.getByText("Delivery received").waitFor();
     const codes = await testDb()("blocks").where({ lot }).orderBy("id").pluck("code");
     expect(codes).toHaveLength(2);
-    expect(await page.getByRole("status").filter({ hasText: /^Row 2: Density [\d.]+ kg\/m³ is below the EPS-II minimum/ }).count()).toBe(1);
+    expect(
+      await page
+        .getByRole("status")
+        .filter({ hasText: /^Row 2: Density [\d.]+ kg\/m³ is below the EPS-II minimum/ })
+        .count(),
+    ).toBe(1);
 
     await page.goto(`${BASE_URL}/stock?q=${encodeURIComponent(codes[0]!)}&status=all`);
     await page.getByRole("link", { name: codes[0]!, exact: true }).click();
@@ -56,7 +64,13 @@ describe("the buyer receives a delivery", () => {
     await page.getByLabel("Lot").fill("DUP-LOT");
     await page.getByLabel("Block 1 code (blank: Blockyard numbers it)").fill(existing);
     await page.getByLabel("Block 1 grade").selectOption({ label: "EPS-I" });
-    for (const [f, v] of [["length", "2440"], ["width", "1220"], ["height", "610"], ["cost", "90"]]) await page.getByLabel(`Block 1 ${f}`).fill(v!);
+    for (const [f, v] of [
+      ["length", "2440"],
+      ["width", "1220"],
+      ["height", "610"],
+      ["cost", "90"],
+    ])
+      await page.getByLabel(`Block 1 ${f}`).fill(v!);
     await page.getByRole("button", { name: "Receive 1 block" }).click();
     await page.getByText(`Code ${existing} is already in stock.`).waitFor();
     expect(Number((await testDb()("blocks").count<{ n: string }[]>({ n: "*" }).first())?.n)).toBe(before);
@@ -71,8 +85,13 @@ describe("stock list and block page", () => {
       const totals = await page.getByTestId("stock-totals").textContent();
       expect(totals).toMatch(/\d+ pieces · [\d.,]+ m³ · [\d,]+ BF/);
       await screenshot(page, `stock-list-${size}`);
-      const withDefect = await testDb()("defect_zones as z").join("blocks as b", "b.id", "z.block_id").whereNotNull("b.parent_id").first("b.code");
-      const code = withDefect?.code ?? (await testDb()("defect_zones as z").join("blocks as b", "b.id", "z.block_id").first("b.code")).code;
+      const withDefect = await testDb()("defect_zones as z")
+        .join("blocks as b", "b.id", "z.block_id")
+        .whereNotNull("b.parent_id")
+        .first("b.code");
+      const code =
+        withDefect?.code ??
+        (await testDb()("defect_zones as z").join("blocks as b", "b.id", "z.block_id").first("b.code")).code;
       await page.goto(`${BASE_URL}/stock/${encodeURIComponent(code)}`);
       await page.getByRole("heading", { name: code, level: 1 }).waitFor();
       expect(await page.getByText(/Defect zones \(\d+\)/).count()).toBe(1);
@@ -94,7 +113,9 @@ describe("stock list and block page", () => {
     // The figures shown are the server's for the new filter (polled: other suites may add blocks).
     await expect
       .poll(async () => {
-        const shown = Number((await page.getByTestId("stock-totals").textContent())!.match(/([\d,]+) pieces?/)![1]!.replace(/,/g, ""));
+        const shown = Number(
+          (await page.getByTestId("stock-totals").textContent())!.match(/([\d,]+) pieces?/)![1]!.replace(/,/g, ""),
+        );
         const api = (await (await page.request.get(`${BASE_URL}/api/blocks?status=all`)).json()) as { total: number };
         return shown === api.total;
       })

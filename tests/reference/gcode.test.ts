@@ -10,7 +10,17 @@ const WORD = /^[A-Z]-?\d+(\.\d+)?$/;
 const ALLOWED = new Set(["G0", "G1", "G21", "G90", "M0", "M2"]);
 
 describe("G-code for straight through cuts (ISO 6983 subset)", () => {
-  const program = gcode({ code: "HF-1001", size: [2440, 1220, 610], cuts: [{ axis: "z", at: 300 }, { axis: "x", at: 1200 }, { axis: "y", at: 600 }], kerf: 1.5, feed: 300 });
+  const program = gcode({
+    code: "HF-1001",
+    size: [2440, 1220, 610],
+    cuts: [
+      { axis: "z", at: 300 },
+      { axis: "x", at: 1200 },
+      { axis: "y", at: 600 },
+    ],
+    kerf: 1.5,
+    feed: 300,
+  });
   const lines = program.trim().split("\n");
 
   it("is made only of comments and address-letter words", () => {

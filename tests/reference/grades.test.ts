@@ -5,7 +5,12 @@ import { gradeSchema } from "@/lib/validations/stock";
 
 // ASTM C578 (2010 table) minimum densities for EPS types, as given in ../shared/domain-brief.md §1
 // (confidence high): pcf and kg/m³.
-const ASTM_C578_EPS_MIN = { "Type I": [0.9, 14.4], "Type VIII": [1.15, 18.4], "Type II": [1.35, 21.6], "Type IX": [1.8, 28.8] } as const;
+const ASTM_C578_EPS_MIN = {
+  "Type I": [0.9, 14.4],
+  "Type VIII": [1.15, 18.4],
+  "Type II": [1.35, 21.6],
+  "Type IX": [1.8, 28.8],
+} as const;
 
 describe("grade catalogue against ASTM C578", () => {
   it.each(Object.entries(ASTM_C578_EPS_MIN))("EPS %s: minimum density %j (pcf, kg/m³)", (type, [pcf, kgm3]) => {
@@ -18,7 +23,15 @@ describe("grade catalogue against ASTM C578", () => {
   });
 
   it("marks every polyurethane grade never-hot-wire (American Chemistry Council thermal degradation guidance, via the domain brief §5)", () => {
-    const pu = { code: "PU-X", material: "PU", gradeSystem: "shop", grade: "15 lb", cureDays: 0, colour: "#d8b26e", priceUnit: "m3" };
+    const pu = {
+      code: "PU-X",
+      material: "PU",
+      gradeSystem: "shop",
+      grade: "15 lb",
+      cureDays: 0,
+      colour: "#d8b26e",
+      priceUnit: "m3",
+    };
     const refused = gradeSchema.safeParse({ ...pu, neverHotWire: false });
     expect(refused.success).toBe(false);
     expect(refused.error?.issues[0]?.path).toEqual(["neverHotWire"]);

@@ -1,5 +1,15 @@
 import { describe, expect, it } from "vitest";
-import { camber, parseNaca, partGeometry, polygonArea, sectionArea, sectionBox, surfaceAt, taperedVolume, thickness } from "@/lib/profiles";
+import {
+  camber,
+  parseNaca,
+  partGeometry,
+  polygonArea,
+  sectionArea,
+  sectionBox,
+  surfaceAt,
+  taperedVolume,
+  thickness,
+} from "@/lib/profiles";
 
 // NACA 0012 ordinates, y/c in % of chord (upper surface; the lower is its mirror image).
 // Source: NACA Report 824 (Abbott, von Doenhoff & Stivers, 1945), table of basic thickness forms;
@@ -28,12 +38,15 @@ const NACA_0012: [number, number][] = [
 ];
 
 describe("NACA 4-digit thickness distribution against NACA Report 824", () => {
-  it.each(NACA_0012)("NACA 0012 at x = %s percent c: y = ±%s percent c (Report 824 table, from memory)", (xPct, yPct) => {
-    const s = parseNaca("0012");
-    const { upper, lower } = surfaceAt(s, xPct / 100);
-    expect(Math.abs(upper[1] * 100 - yPct)).toBeLessThan(0.005);
-    expect(Math.abs(lower[1] * 100 + yPct)).toBeLessThan(0.005);
-  });
+  it.each(NACA_0012)(
+    "NACA 0012 at x = %s percent c: y = ±%s percent c (Report 824 table, from memory)",
+    (xPct, yPct) => {
+      const s = parseNaca("0012");
+      const { upper, lower } = surfaceAt(s, xPct / 100);
+      expect(Math.abs(upper[1] * 100 - yPct)).toBeLessThan(0.005);
+      expect(Math.abs(lower[1] * 100 + yPct)).toBeLessThan(0.005);
+    },
+  );
 
   it("the three ordinates the brief names: 0.30c ±6.002 %, 0.10c ±4.683 %, 0.0125c ±1.894 % (Report 824)", () => {
     expect(thickness(0.12, 0.3) * 100).toBeCloseTo(6.002, 2);
@@ -65,7 +78,14 @@ describe("NACA 4-digit section area", () => {
   // Laying the thickness off perpendicular to the camber line changes the area by a second-order
   // amount in the camber slope: nothing for symmetric sections, under 0.5 percent up to 4 percent
   // camber, about 0.8 percent for a 6 percent camber.
-  it.each([["0012", 1e-4], ["0009", 1e-4], ["0015", 1e-4], ["2412", 0.005], ["4415", 0.005], ["6409", 0.01]] as const)("NACA %s: the outline's area matches 0.685·t·c² within a fraction %s (c = 250 mm)", (code, tol) => {
+  it.each([
+    ["0012", 1e-4],
+    ["0009", 1e-4],
+    ["0015", 1e-4],
+    ["2412", 0.005],
+    ["4415", 0.005],
+    ["6409", 0.01],
+  ] as const)("NACA %s: the outline's area matches 0.685·t·c² within a fraction %s (c = 250 mm)", (code, tol) => {
     const s = parseNaca(code);
     const c = 250;
     const expected = closedForm(s.t) * c * c;
@@ -123,15 +143,47 @@ describe("tapered panels (volume = A(1)·span·(cr² + cr·ct + ct²)/3; calculu
 
 describe("polygon areas against hand-computed shapes (common practice, no source)", () => {
   it("a unit square has area 1, either way round", () => {
-    expect(polygonArea([[0, 0], [1, 0], [1, 1], [0, 1]])).toBe(1);
-    expect(polygonArea([[0, 0], [0, 1], [1, 1], [1, 0]])).toBe(-1);
+    expect(
+      polygonArea([
+        [0, 0],
+        [1, 0],
+        [1, 1],
+        [0, 1],
+      ]),
+    ).toBe(1);
+    expect(
+      polygonArea([
+        [0, 0],
+        [0, 1],
+        [1, 1],
+        [1, 0],
+      ]),
+    ).toBe(-1);
   });
 
   it("a 3-4-5 right triangle has area 6", () => {
-    expect(Math.abs(polygonArea([[0, 0], [3, 0], [0, 4]]))).toBe(6);
+    expect(
+      Math.abs(
+        polygonArea([
+          [0, 0],
+          [3, 0],
+          [0, 4],
+        ]),
+      ),
+    ).toBe(6);
   });
 
   it("a 3-4-5 triangle extruded 10 gives a box [10, 3, 4] and a volume of 60", () => {
-    expect(partGeometry({ kind: "polygon", points: [[0, 0], [3, 0], [0, 4]], extrudeMm: 10 })).toEqual({ size: [10, 3, 4], trueVolumeMm3: 60 });
+    expect(
+      partGeometry({
+        kind: "polygon",
+        points: [
+          [0, 0],
+          [3, 0],
+          [0, 4],
+        ],
+        extrudeMm: 10,
+      }),
+    ).toEqual({ size: [10, 3, 4], trueVolumeMm3: 60 });
   });
 });

@@ -1,5 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { economicOrderQuantity, planReorder, reorderPoint, safetyStock, zForServiceLevel } from "@/lib/purchasing/reorder";
+import {
+  economicOrderQuantity,
+  planReorder,
+  reorderPoint,
+  safetyStock,
+  zForServiceLevel,
+} from "@/lib/purchasing/reorder";
 import { materialYield } from "@/lib/reports/yield";
 import { HIGH_PILED, STYRENE } from "@/lib/safety/limits";
 import { boardFeet, m3ToBoardFeet } from "@/lib/units";
@@ -40,7 +46,18 @@ describe("safety stock and reorder point", () => {
   });
 
   it("plans the worked example end to end when the buyer overrides nothing", () => {
-    const r = planReorder({ dailyDemand: 200 / 7, demandSd: 30 / 7, leadTimeDays: 7, serviceLevel: 0.9406, committed: 0, orderCost: 10, holdingCost: 0.5, onHand: 150, onOrder: 50, blockVolume: 0 });
+    const r = planReorder({
+      dailyDemand: 200 / 7,
+      demandSd: 30 / 7,
+      leadTimeDays: 7,
+      serviceLevel: 0.9406,
+      committed: 0,
+      orderCost: 10,
+      holdingCost: 0.5,
+      onHand: 150,
+      onOrder: 50,
+      blockVolume: 0,
+    });
     expect(r.z).toBeCloseTo(1.56, 2);
     expect(r.reorderPoint).toBeCloseTo(217.7, 0);
     expect(r.due).toBe(true);

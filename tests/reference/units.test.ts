@@ -1,5 +1,15 @@
 import { describe, expect, it } from "vitest";
-import { BOARD_FEET_PER_M3, CM3_PER_BOARD_FOOT, KG_M3_PER_LB_FT3, boardFeet, cubicMetres, formatLength, formatSize, inToMm, kgM3ToLbFt3 } from "@/lib/units";
+import {
+  BOARD_FEET_PER_M3,
+  CM3_PER_BOARD_FOOT,
+  KG_M3_PER_LB_FT3,
+  boardFeet,
+  cubicMetres,
+  formatLength,
+  formatSize,
+  inToMm,
+  kgM3ToLbFt3,
+} from "@/lib/units";
 
 // Check values from ../shared/domain-brief.md "Check values for tests" (arithmetic on exact unit definitions).
 const ft = (n: number) => inToMm(12 * n);

@@ -24,7 +24,13 @@ export async function makeUser(roles: Role[], opts: { active?: boolean } = {}) {
   hashed ??= hashPassword(TEST_PASSWORD);
   const id = `u-test-${crypto.randomUUID()}`;
   const email = `${id}@test.blockyard.test`;
-  await testDb()("users").insert({ id, email, name: `Test ${roles.join("+") || "nobody"}`, password_hash: await hashed, active: opts.active ?? true });
+  await testDb()("users").insert({
+    id,
+    email,
+    name: `Test ${roles.join("+") || "nobody"}`,
+    password_hash: await hashed,
+    active: opts.active ?? true,
+  });
   if (roles.length) await testDb()("user_roles").insert(roles.map((role) => ({ user_id: id, role })));
   return { id, email };
 }
@@ -47,9 +53,19 @@ export async function tableCounts(): Promise<Record<string, number>> {
 let blockSeq = 0;
 
 /** A block in stock (with its "received" ledger row, so ledger totals still reconcile). */
-export async function makeBlock(opts: { size?: [number, number, number]; gradeCode?: string; location?: string; cutNotBefore?: string; cost?: number } = {}) {
+export async function makeBlock(
+  opts: {
+    size?: [number, number, number];
+    gradeCode?: string;
+    location?: string;
+    cutNotBefore?: string;
+    cost?: number;
+  } = {},
+) {
   const k = testDb();
-  const grade = await k("grades").where({ code: opts.gradeCode ?? "EPS-II" }).first("id");
+  const grade = await k("grades")
+    .where({ code: opts.gradeCode ?? "EPS-II" })
+    .first("id");
   const size = opts.size ?? [2000, 1000, 500];
   const code = `T-${process.pid}-${Date.now().toString(36)}-${++blockSeq}`.toUpperCase();
   const [b] = await k("blocks")
@@ -57,15 +73,27 @@ export async function makeBlock(opts: { size?: [number, number, number]; gradeCo
       code,
       grade_id: grade.id,
       lot: "TEST-LOT",
-      nominal_x: size[0], nominal_y: size[1], nominal_z: size[2],
-      size_x: size[0], size_y: size[1], size_z: size[2],
+      nominal_x: size[0],
+      nominal_y: size[1],
+      nominal_z: size[2],
+      size_x: size[0],
+      size_y: size[1],
+      size_z: size[2],
       cost: opts.cost ?? 100,
       location: opts.location ?? "Test bay",
       cut_not_before: opts.cutNotBefore ?? "2020-01-01",
       status: "in_stock",
     })
     .returning(["id", "code", "volume_m3"]);
-  await k("stock_ledger").insert({ block_id: b.id, kind: "received", volume_m3: b.volume_m3, delta_m3: b.volume_m3, value: opts.cost ?? 100, delta_value: opts.cost ?? 100, reason: "test fixture" });
+  await k("stock_ledger").insert({
+    block_id: b.id,
+    kind: "received",
+    volume_m3: b.volume_m3,
+    delta_m3: b.volume_m3,
+    value: opts.cost ?? 100,
+    delta_value: opts.cost ?? 100,
+    reason: "test fixture",
+  });
   return { id: b.id as number, code: b.code as string };
 }
 

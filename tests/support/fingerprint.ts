@@ -33,7 +33,9 @@ export async function fingerprint(): Promise<Record<string, string>> {
         parts.push(`(SELECT coalesce(max(updated_at)::text, '') FROM ${id}) AS "${t}.updated_at"`);
       }
     }
-    parts.push(`(SELECT coalesce(sum(delta_m3), 0)::text || '/' || coalesce(sum(delta_value), 0)::text FROM stock_ledger) AS "ledger.totals"`);
+    parts.push(
+      `(SELECT coalesce(sum(delta_m3), 0)::text || '/' || coalesce(sum(delta_value), 0)::text FROM stock_ledger) AS "ledger.totals"`,
+    );
     return `SELECT ${parts.join(", ")}`;
   })();
   const r = await testDb().raw(await query);
@@ -42,5 +44,7 @@ export async function fingerprint(): Promise<Record<string, string>> {
 
 /** The keys whose values differ, for a readable failure message. */
 export function diff(a: Record<string, string>, b: Record<string, string>): string[] {
-  return Object.keys({ ...a, ...b }).filter((k) => a[k] !== b[k]).map((k) => `${k}: ${a[k]} → ${b[k]}`);
+  return Object.keys({ ...a, ...b })
+    .filter((k) => a[k] !== b[k])
+    .map((k) => `${k}: ${a[k]} → ${b[k]}`);
 }

@@ -42,7 +42,12 @@ export function parseMime(raw: string): MimePart {
     return { headers, body: Buffer.alloc(0), parts };
   }
   const enc = (headers["content-transfer-encoding"] ?? "7bit").toLowerCase();
-  const body = enc === "base64" ? Buffer.from(rest.replace(/\s+/g, ""), "base64") : enc === "quoted-printable" ? decodeQp(rest) : Buffer.from(rest.replace(/\r?\n$/, ""), "utf8");
+  const body =
+    enc === "base64"
+      ? Buffer.from(rest.replace(/\s+/g, ""), "base64")
+      : enc === "quoted-printable"
+        ? decodeQp(rest)
+        : Buffer.from(rest.replace(/\r?\n$/, ""), "utf8");
   return { headers, body, parts: [] };
 }
 

@@ -4,10 +4,21 @@ import { describe, expect, it } from "vitest";
 import { FaceViews } from "@/components/stock/face-views";
 
 const render = (props: Parameters<typeof FaceViews>[0]) => renderToStaticMarkup(createElement(FaceViews, props));
-const viewBox = (html: string, view: string) => html.match(new RegExp(`viewBox="0 0 ([\\d.]+) ([\\d.]+)"[^>]*data-view="${view}"`))!.slice(1).map(Number);
+const viewBox = (html: string, view: string) =>
+  html
+    .match(new RegExp(`viewBox="0 0 ([\\d.]+) ([\\d.]+)"[^>]*data-view="${view}"`))!
+    .slice(1)
+    .map(Number);
 
 describe("face views", () => {
-  const defects = [{ id: 7, kind: "void", min: [400, 300, 100] as [number, number, number], max: [460, 380, 150] as [number, number, number] }];
+  const defects = [
+    {
+      id: 7,
+      kind: "void",
+      min: [400, 300, 100] as [number, number, number],
+      max: [460, 380, 150] as [number, number, number],
+    },
+  ];
 
   it("draws the top, front and right-end faces, each zone once per face, labelled by kind", () => {
     const html = render({ size: [2440, 1220, 610], defects, unit: "mm" });
@@ -36,10 +47,20 @@ describe("face views", () => {
   });
 
   it("shows a zone being entered on every face, and nothing for a box that is not one yet", () => {
-    const drafted = render({ size: [2440, 1220, 610], defects: [], unit: "mm", draft: { min: [10, 10, 0], max: [200, 300, 610] } });
+    const drafted = render({
+      size: [2440, 1220, 610],
+      defects: [],
+      unit: "mm",
+      draft: { min: [10, 10, 0], max: [200, 300, 610] },
+    });
     expect(drafted.match(/data-draft=""/g)).toHaveLength(3);
     expect(drafted).toContain("New zone");
-    const unfinished = render({ size: [2440, 1220, 610], defects: [], unit: "mm", draft: { min: [10, 10, 0], max: [5, 300, 610] } });
+    const unfinished = render({
+      size: [2440, 1220, 610],
+      defects: [],
+      unit: "mm",
+      draft: { min: [10, 10, 0], max: [5, 300, 610] },
+    });
     expect(unfinished).not.toContain("data-draft");
   });
 });

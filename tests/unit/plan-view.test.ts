@@ -19,7 +19,11 @@ const render = (size: [number, number, number]) => {
 
 /** Each view's figure: whether it takes a whole row, and the drawing's width in its own units. */
 function views(html: string) {
-  return [...html.matchAll(/<figure class="([^"]*)"><figcaption[^>]*>([^<]+)<\/figcaption><svg viewBox="0 0 ([\d.]+) ([\d.]+)"/g)].map((m) => ({
+  return [
+    ...html.matchAll(
+      /<figure class="([^"]*)"><figcaption[^>]*>([^<]+)<\/figcaption><svg viewBox="0 0 ([\d.]+) ([\d.]+)"/g,
+    ),
+  ].map((m) => ({
     title: m[2]!,
     wholeRow: m[1]!.includes("col-span-2"),
     width: Number(m[3]),
@@ -46,11 +50,24 @@ describe("plan views", () => {
   it("draws pieces stacked along the line of sight once per view, and every piece of each layer", () => {
     // 10 × 10 × 4 cubes of 50 mm, a kerf apart: 100 columns seen from the top, 40 from the front and the side.
     const placements: PlanViewProps["placements"] = [];
-    for (let x = 0; x < 10; x++) for (let y = 0; y < 10; y++) for (let z = 0; z < 4; z++) placements.push({ part: "c", origin: [x * 52, y * 52, z * 52], size: [50, 50, 50] });
+    for (let x = 0; x < 10; x++)
+      for (let y = 0; y < 10; y++)
+        for (let z = 0; z < 4; z++)
+          placements.push({ part: "c", origin: [x * 52, y * 52, z * 52], size: [50, 50, 50] });
     const html = renderToStaticMarkup(
-      createElement(PlanView, { block: { id: "G", size: [520, 520, 210], defects: [] }, placements, offcuts: [], cuts: [], kerf: 2, partName: () => "Cube", showLayers: true }),
+      createElement(PlanView, {
+        block: { id: "G", size: [520, 520, 210], defects: [] },
+        placements,
+        offcuts: [],
+        cuts: [],
+        kerf: 2,
+        partName: () => "Cube",
+        showLayers: true,
+      }),
     );
-    const figures = [...html.matchAll(/<figure[^>]*><figcaption[^>]*>([^<]+)<\/figcaption>(.*?)<\/figure>/g)].map((m) => ({ title: m[1]!, rects: (m[2]!.match(/<rect /g) ?? []).length - 1 }));
+    const figures = [...html.matchAll(/<figure[^>]*><figcaption[^>]*>([^<]+)<\/figcaption>(.*?)<\/figure>/g)].map(
+      (m) => ({ title: m[1]!, rects: (m[2]!.match(/<rect /g) ?? []).length - 1 }),
+    );
     expect(figures.map((f) => f.rects)).toEqual([100, 40, 40, 100, 100, 100, 100]);
     expect(figures[3]!.title).toBe("Layer 1: z 0–50 mm");
   });
@@ -59,14 +76,27 @@ describe("plan views", () => {
     // Four layers of 10 × 10 cubes, each layer shifted 5 mm: the block is first cut into layers
     // (no x or y cut runs through all of them), then each layer into columns and cubes.
     const placements: PlanViewProps["placements"] = [];
-    for (let z = 0; z < 4; z++) for (let x = 0; x < 10; x++) for (let y = 0; y < 10; y++) placements.push({ part: "c", origin: [x * 52 + 5 * z, y * 52 + 5 * z, z * 52], size: [50, 50, 50] });
+    for (let z = 0; z < 4; z++)
+      for (let x = 0; x < 10; x++)
+        for (let y = 0; y < 10; y++)
+          placements.push({ part: "c", origin: [x * 52 + 5 * z, y * 52 + 5 * z, z * 52], size: [50, 50, 50] });
     const { cuts, stuck } = separate(placements, 2, "guillotine");
     expect(stuck).toEqual([]);
     expect(cuts.slice(0, 3).map((c) => c.axis)).toEqual(["z", "z", "z"]);
     const html = renderToStaticMarkup(
-      createElement(PlanView, { block: { id: "L", size: [540, 540, 210], defects: [] }, placements, offcuts: [], cuts, kerf: 2, partName: () => "Cube", showLayers: true }),
+      createElement(PlanView, {
+        block: { id: "L", size: [540, 540, 210], defects: [] },
+        placements,
+        offcuts: [],
+        cuts,
+        kerf: 2,
+        partName: () => "Cube",
+        showLayers: true,
+      }),
     );
-    const lines = [...html.matchAll(/<figure[^>]*><figcaption[^>]*>[^<]+<\/figcaption>(.*?)<\/figure>/g)].map((m) => (m[1]!.match(/<line /g) ?? []).length);
+    const lines = [...html.matchAll(/<figure[^>]*><figcaption[^>]*>[^<]+<\/figcaption>(.*?)<\/figure>/g)].map(
+      (m) => (m[1]!.match(/<line /g) ?? []).length,
+    );
     // Each layer: 9 cuts across x, then 9 across y in each of its 10 slabs.
     expect(lines.slice(3)).toEqual([99, 99, 99, 99]);
     // The top view shows the x and y cuts of all four layers (they lie 5 mm apart).

@@ -20,8 +20,14 @@ export default async function DeliveriesPage({ searchParams }: { searchParams: P
         lead={`${total} deliveries received.`}
         actions={
           <>
-            <a className={buttonClass("secondary")} href="/api/deliveries/export" download>Export CSV</a>
-            {canReceive && <Link className={buttonClass("primary")} href="/deliveries/new">Receive a delivery</Link>}
+            <a className={buttonClass("secondary")} href="/api/deliveries/export" download>
+              Export CSV
+            </a>
+            {canReceive && (
+              <Link className={buttonClass("primary")} href="/deliveries/new">
+                Receive a delivery
+              </Link>
+            )}
           </>
         }
       />
@@ -29,8 +35,14 @@ export default async function DeliveriesPage({ searchParams }: { searchParams: P
         <table>
           <thead className="border-b border-bead bg-paper-sunk">
             <tr>
-              <th className="px-3 py-2">Received</th><th className="px-3 py-2">Supplier</th><th className="px-3 py-2">Lot</th><th className="px-3 py-2">PO</th>
-              <th className="px-3 py-2 text-right">Blocks</th><th className="px-3 py-2 text-right">m³</th><th className="px-3 py-2 text-right">Cost</th><th className="px-3 py-2">By</th>
+              <th className="px-3 py-2">Received</th>
+              <th className="px-3 py-2">Supplier</th>
+              <th className="px-3 py-2">Lot</th>
+              <th className="px-3 py-2">PO</th>
+              <th className="px-3 py-2 text-right">Blocks</th>
+              <th className="px-3 py-2 text-right">m³</th>
+              <th className="px-3 py-2 text-right">Cost</th>
+              <th className="px-3 py-2">By</th>
             </tr>
           </thead>
           <tbody>
@@ -42,7 +54,9 @@ export default async function DeliveriesPage({ searchParams }: { searchParams: P
                 <td className="px-3 py-2">{d.poRef ?? "–"}</td>
                 <td className="px-3 py-2 text-right tabular-nums">{d.blocks}</td>
                 <td className="px-3 py-2 text-right tabular-nums">{d.volumeM3.toFixed(2)}</td>
-                <td className="px-3 py-2 text-right tabular-nums">{d.cost.toLocaleString("en", { style: "currency", currency: "USD" })}</td>
+                <td className="px-3 py-2 text-right tabular-nums">
+                  {d.cost.toLocaleString("en", { style: "currency", currency: "USD" })}
+                </td>
                 <td className="px-3 py-2">{d.receivedBy ?? "–"}</td>
               </tr>
             ))}

@@ -11,7 +11,10 @@ export default async function GradesPage() {
   const grades = await listGrades();
   return (
     <>
-      <PageHeader title="Grades" lead="The foam grades the shop buys, with the density a block must reach and how long it settles before cutting." />
+      <PageHeader
+        title="Grades"
+        lead="The foam grades the shop buys, with the density a block must reach and how long it settles before cutting."
+      />
       <GradeEditor grades={grades} canEdit />
     </>
   );

@@ -20,15 +20,30 @@ const RECENT_DAYS = 7;
 /** "HF-1001, hf-1002 HF-1001" → ["HF-1001", "HF-1002"] */
 function parseCodes(raw: string | string[] | undefined): string[] {
   const text = Array.isArray(raw) ? raw.join(",") : (raw ?? "");
-  return [...new Set(text.split(/[\s,;]+/).map((c) => c.trim().toUpperCase()).filter((c) => c && c.length <= 40))];
+  return [
+    ...new Set(
+      text
+        .split(/[\s,;]+/)
+        .map((c) => c.trim().toUpperCase())
+        .filter((c) => c && c.length <= 40),
+    ),
+  ];
 }
 
 const escapeAttr = (s: string) => s.replace(/&/g, "&amp;").replace(/"/g, "&quot;").replace(/</g, "&lt;");
 
 /** The QR code as inline SVG, drawn on the server in the ink colour (never a remote image). */
 async function qrSvg(code: string): Promise<string> {
-  const svg = await QRCode.toString(labelPayload(code), { type: "svg", errorCorrectionLevel: "M", margin: 0, color: { dark: "#1c2a2eff", light: "#ffffffff" } });
-  return svg.replace("<svg ", `<svg role="img" aria-label="QR code for ${escapeAttr(code)}" data-testid="label-qr" class="block size-full" `);
+  const svg = await QRCode.toString(labelPayload(code), {
+    type: "svg",
+    errorCorrectionLevel: "M",
+    margin: 0,
+    color: { dark: "#1c2a2eff", light: "#ffffffff" },
+  });
+  return svg.replace(
+    "<svg ",
+    `<svg role="img" aria-label="QR code for ${escapeAttr(code)}" data-testid="label-qr" class="block size-full" `,
+  );
 }
 
 // Eight labels of 90 × 60 mm on a sheet: two columns of four fit both A4 and US Letter with
@@ -55,7 +70,12 @@ export default async function LabelsPage({ searchParams }: { searchParams: Promi
   const missing = found.filter((f) => !f.block).map((f) => f.code);
   const qrs = await Promise.all(blocks.map((b) => qrSvg(b.code)));
   const shop = (await getShopSettings()).shopName;
-  const [recentOffcuts, recentBlocks] = asked.length ? [[], []] : await Promise.all([recentCodes("offcuts", RECENT_DAYS, MAX_LABELS), recentCodes("received", RECENT_DAYS, MAX_LABELS)]);
+  const [recentOffcuts, recentBlocks] = asked.length
+    ? [[], []]
+    : await Promise.all([
+        recentCodes("offcuts", RECENT_DAYS, MAX_LABELS),
+        recentCodes("received", RECENT_DAYS, MAX_LABELS),
+      ]);
   const pick = (codes: string[]) => `/labels?codes=${encodeURIComponent(codes.join(","))}`;
 
   return (
@@ -74,7 +94,9 @@ export default async function LabelsPage({ searchParams }: { searchParams: Promi
             </Notice>
           )}
           {asked.length > MAX_LABELS && (
-            <Notice tone="caution">Only the first {MAX_LABELS} labels are shown; print the rest in another batch.</Notice>
+            <Notice tone="caution">
+              Only the first {MAX_LABELS} labels are shown; print the rest in another batch.
+            </Notice>
           )}
           <Card>
             <form method="get" action="/labels" className="flex flex-wrap items-end gap-3">
@@ -114,13 +136,18 @@ export default async function LabelsPage({ searchParams }: { searchParams: Promi
       </div>
 
       {blocks.length > 0 ? (
-        <section aria-label="Labels to print" className="label-sheet grid justify-center gap-4 rounded-card border border-bead bg-paper-sunk p-4 [grid-template-columns:repeat(auto-fill,90mm)] print:[grid-template-columns:repeat(2,90mm)]">
+        <section
+          aria-label="Labels to print"
+          className="label-sheet grid justify-center gap-4 rounded-card border border-bead bg-paper-sunk p-4 [grid-template-columns:repeat(auto-fill,90mm)] print:[grid-template-columns:repeat(2,90mm)]"
+        >
           {blocks.map((b, i) => (
             <Label key={b.id} block={b} qr={qrs[i]!} unit={unit} shop={shop} />
           ))}
         </section>
       ) : (
-        <p className="no-print text-ink-faint">Type the codes of the blocks to label, or use “Print label” on a block page.</p>
+        <p className="no-print text-ink-faint">
+          Type the codes of the blocks to label, or use “Print label” on a block page.
+        </p>
       )}
     </>
   );
@@ -147,7 +174,10 @@ function Label({ block: b, qr, unit, shop }: { block: BlockDetail; qr: string; u
         <p className="w-[29mm] truncate text-center text-[6.5pt] leading-none text-ink-faint">{shop}</p>
       </div>
       <div className="flex min-w-0 flex-1 flex-col py-[4mm] pr-[3.5mm] pl-[2.5mm]">
-        <p className="leading-[1.05] font-bold tracking-tight break-all" style={{ fontSize: codeSize(b.code), fontVariantNumeric: "tabular-nums" }}>
+        <p
+          className="leading-[1.05] font-bold tracking-tight break-all"
+          style={{ fontSize: codeSize(b.code), fontVariantNumeric: "tabular-nums" }}
+        >
           {b.code}
         </p>
         <p className="mt-[1.5mm] truncate text-[11pt] leading-tight font-semibold">{b.gradeCode}</p>
@@ -156,7 +186,9 @@ function Label({ block: b, qr, unit, shop }: { block: BlockDetail; qr: string; u
           {formatSize(b.size, unit)}
         </p>
         <p className="truncate text-[9pt] leading-tight text-ink-soft">Lot {b.lot}</p>
-        {b.parentCode && <p className="truncate text-[9pt] leading-tight font-medium text-ink-soft">Offcut of {b.parentCode}</p>}
+        {b.parentCode && (
+          <p className="truncate text-[9pt] leading-tight font-medium text-ink-soft">Offcut of {b.parentCode}</p>
+        )}
         {b.neverHotWire && <p className="mt-[1mm] text-[8.5pt] font-bold text-ember uppercase">Never hot-wire</p>}
         <p className="mt-auto truncate pt-[1mm] text-[7.5pt] text-ink-faint">Ready to cut from {b.cutNotBefore}</p>
       </div>

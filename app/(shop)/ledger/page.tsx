@@ -19,39 +19,85 @@ export default async function LedgerPage({ searchParams }: { searchParams: Promi
     listLedger({ kind: q.kind, from: q.from, to: q.to, page: q.page, pageSize: 100 }),
     ledgerOnHand(),
   ]);
-  const qs = new URLSearchParams(Object.entries({ kind: q.kind, from: q.from, to: q.to }).filter((e): e is [string, string] => Boolean(e[1]))).toString();
+  const qs = new URLSearchParams(
+    Object.entries({ kind: q.kind, from: q.from, to: q.to }).filter((e): e is [string, string] => Boolean(e[1])),
+  ).toString();
   return (
     <>
       <PageHeader
         title="Stock ledger"
         lead={`Every movement of stock, never edited. On hand by the ledger: ${onHand.m3.toFixed(2)} m³ (${Math.round(m3ToBoardFeet(onHand.m3)).toLocaleString("en")} BF), value ${onHand.value.toLocaleString("en", { style: "currency", currency: "USD" })}.`}
-        actions={<a className={buttonClass("secondary")} href={`/api/ledger/export?${qs}`} download>Export CSV</a>}
+        actions={
+          <a className={buttonClass("secondary")} href={`/api/ledger/export?${qs}`} download>
+            Export CSV
+          </a>
+        }
       />
       <form className="mb-4 flex flex-wrap items-end gap-3 text-sm" method="get">
         <label>
           <span className="block text-ink-soft">Kind</span>
-          <select name="kind" defaultValue={q.kind ?? ""} className="min-h-11 rounded-md border border-bead-strong bg-paper-raised px-3">
+          <select
+            name="kind"
+            defaultValue={q.kind ?? ""}
+            className="min-h-11 rounded-md border border-bead-strong bg-paper-raised px-3"
+          >
             <option value="">All movements</option>
-            {LEDGER_KINDS.map((k) => <option key={k} value={k}>{LEDGER_LABELS[k]}</option>)}
+            {LEDGER_KINDS.map((k) => (
+              <option key={k} value={k}>
+                {LEDGER_LABELS[k]}
+              </option>
+            ))}
           </select>
         </label>
-        <label><span className="block text-ink-soft">From</span><input type="date" name="from" defaultValue={q.from} className="min-h-11 rounded-md border border-bead-strong bg-paper-raised px-3" /></label>
-        <label><span className="block text-ink-soft">To</span><input type="date" name="to" defaultValue={q.to} className="min-h-11 rounded-md border border-bead-strong bg-paper-raised px-3" /></label>
-        <button className={buttonClass("secondary")} type="submit">Show</button>
+        <label>
+          <span className="block text-ink-soft">From</span>
+          <input
+            type="date"
+            name="from"
+            defaultValue={q.from}
+            className="min-h-11 rounded-md border border-bead-strong bg-paper-raised px-3"
+          />
+        </label>
+        <label>
+          <span className="block text-ink-soft">To</span>
+          <input
+            type="date"
+            name="to"
+            defaultValue={q.to}
+            className="min-h-11 rounded-md border border-bead-strong bg-paper-raised px-3"
+          />
+        </label>
+        <button className={buttonClass("secondary")} type="submit">
+          Show
+        </button>
       </form>
       <div className="overflow-x-auto rounded-card border border-bead bg-paper-raised shadow-card">
         <table>
           <thead className="border-b border-bead bg-paper-sunk">
-            <tr><th className="px-3 py-2">When</th><th className="px-3 py-2">Block</th><th className="px-3 py-2">Movement</th><th className="px-3 py-2 text-right">Change m³</th><th className="px-3 py-2 text-right">Change value</th><th className="px-3 py-2">Who</th><th className="px-3 py-2">Why</th></tr>
+            <tr>
+              <th className="px-3 py-2">When</th>
+              <th className="px-3 py-2">Block</th>
+              <th className="px-3 py-2">Movement</th>
+              <th className="px-3 py-2 text-right">Change m³</th>
+              <th className="px-3 py-2 text-right">Change value</th>
+              <th className="px-3 py-2">Who</th>
+              <th className="px-3 py-2">Why</th>
+            </tr>
           </thead>
           <tbody>
             {items.map((e) => (
               <tr key={e.id} className="border-b border-bead/60 last:border-0">
                 <td className="whitespace-nowrap px-3 py-2">{e.at.slice(0, 16).replace("T", " ")}</td>
-                <td className="px-3 py-2"><Link href={`/stock/${encodeURIComponent(e.blockCode)}`}>{e.blockCode}</Link></td>
+                <td className="px-3 py-2">
+                  <Link href={`/stock/${encodeURIComponent(e.blockCode)}`}>{e.blockCode}</Link>
+                </td>
                 <td className="px-3 py-2">{LEDGER_LABELS[e.kind]}</td>
-                <td className={`px-3 py-2 text-right tabular-nums ${e.deltaM3 < 0 ? "text-ember" : ""}`}>{e.deltaM3 === 0 ? "–" : e.deltaM3.toFixed(3)}</td>
-                <td className="px-3 py-2 text-right tabular-nums">{e.deltaValue === 0 ? "–" : e.deltaValue.toFixed(2)}</td>
+                <td className={`px-3 py-2 text-right tabular-nums ${e.deltaM3 < 0 ? "text-ember" : ""}`}>
+                  {e.deltaM3 === 0 ? "–" : e.deltaM3.toFixed(3)}
+                </td>
+                <td className="px-3 py-2 text-right tabular-nums">
+                  {e.deltaValue === 0 ? "–" : e.deltaValue.toFixed(2)}
+                </td>
                 <td className="px-3 py-2">{e.user ?? "–"}</td>
                 <td className="px-3 py-2 text-ink-soft">{e.reason}</td>
               </tr>
@@ -59,7 +105,9 @@ export default async function LedgerPage({ searchParams }: { searchParams: Promi
           </tbody>
         </table>
       </div>
-      <p className="mt-3 text-sm text-ink-faint">{total} movements{total > 100 && " (newest 100 shown; filter or export for more)"}.</p>
+      <p className="mt-3 text-sm text-ink-faint">
+        {total} movements{total > 100 && " (newest 100 shown; filter or export for more)"}.
+      </p>
     </>
   );
 }

@@ -13,12 +13,19 @@ export const metadata: Metadata = { title: "Part library" };
 export default async function LibraryPage() {
   const user = await requireRole("planner", "cutter", "manager");
   const canEdit = allows(["planner"], user.roles);
-  const [parts, grades, unit] = await Promise.all([listLibraryParts({ includeRetired: canEdit }), listGrades(), displayUnit(user)]);
+  const [parts, grades, unit] = await Promise.all([
+    listLibraryParts({ includeRetired: canEdit }),
+    listGrades(),
+    displayUnit(user),
+  ]);
   const kits = [...new Set(parts.map((p) => p.kit).filter((k): k is string => !!k))];
   const gradeOptions = partGradeChoices(grades);
   return (
     <>
-      <PageHeader title="Part library" lead="Parts the shop cuts again and again, grouped by kit. Add them to a job with a quantity." />
+      <PageHeader
+        title="Part library"
+        lead="Parts the shop cuts again and again, grouped by kit. Add them to a job with a quantity."
+      />
       <div className={`grid gap-5 ${canEdit ? "xl:grid-cols-[1fr_26rem]" : ""}`}>
         <LibraryList parts={JSON.parse(JSON.stringify(parts))} unit={unit} canEdit={canEdit} grades={gradeOptions} />
         {canEdit && (

@@ -20,10 +20,21 @@ export default async function ReorderPage() {
       <PageHeader
         title="Reorder list"
         lead="Grades at or under their reorder point, with every figure behind it. On hand counts blocks in stock and earmarked; on order counts sent orders not yet received."
-        actions={<Link className={buttonClass("secondary")} href="/purchasing/orders">Purchase orders</Link>}
+        actions={
+          <Link className={buttonClass("secondary")} href="/purchasing/orders">
+            Purchase orders
+          </Link>
+        }
       />
-      <ReorderBoard rows={JSON.parse(JSON.stringify(rows))} settings={settings} suppliers={suppliers.filter((s) => s.active).map((s) => ({ id: s.id, name: s.name }))} canEdit={canEdit} />
-      <div className="mt-6"><StorageCaution /></div>
+      <ReorderBoard
+        rows={JSON.parse(JSON.stringify(rows))}
+        settings={settings}
+        suppliers={suppliers.filter((s) => s.active).map((s) => ({ id: s.id, name: s.name }))}
+        canEdit={canEdit}
+      />
+      <div className="mt-6">
+        <StorageCaution />
+      </div>
     </>
   );
 }

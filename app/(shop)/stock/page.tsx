@@ -14,12 +14,23 @@ import { StorageCaution } from "@/components/safety/storage-caution";
 
 export const metadata: Metadata = { title: "Stock" };
 
-export default async function StockPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+export default async function StockPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const user = await requireRole();
-  const raw = Object.fromEntries(Object.entries(await searchParams).filter((e): e is [string, string] => typeof e[1] === "string" && e[1] !== ""));
+  const raw = Object.fromEntries(
+    Object.entries(await searchParams).filter((e): e is [string, string] => typeof e[1] === "string" && e[1] !== ""),
+  );
   const parsed = blockQuerySchema.safeParse(raw);
   const query = parsed.success ? parsed.data : blockQuerySchema.parse({});
-  const [list, grades, locations, unit] = await Promise.all([listBlocks(query), listGrades(), listLocations(), displayUnit(user)]);
+  const [list, grades, locations, unit] = await Promise.all([
+    listBlocks(query),
+    listGrades(),
+    listLocations(),
+    displayUnit(user),
+  ]);
   const qs = new URLSearchParams(raw).toString();
   const canExport = allows(["buyer", "planner", "manager"], user.roles);
   const canReceive = allows(["buyer"], user.roles);
@@ -28,14 +39,27 @@ export default async function StockPage({ searchParams }: { searchParams: Promis
       <PageHeader
         title="Stock"
         lead="Every block and offcut the shop holds. Settling blocks are still shrinking: cut them after their cut-not-before date."
-        actions={canReceive && <Link className={buttonClass("primary")} href="/deliveries/new">Receive a delivery</Link>}
+        actions={
+          canReceive && (
+            <Link className={buttonClass("primary")} href="/deliveries/new">
+              Receive a delivery
+            </Link>
+          )
+        }
       />
       {!parsed.success && (
         <div className="mb-4">
           <Notice tone="caution">Some filters in the address were not understood and were ignored.</Notice>
         </div>
       )}
-      <StockTable initial={toStockRows(list)} query={qs} unit={unit} grades={grades.map((g) => ({ id: g.id, code: g.code }))} locations={locations} canExport={canExport} />
+      <StockTable
+        initial={toStockRows(list)}
+        query={qs}
+        unit={unit}
+        grades={grades.map((g) => ({ id: g.id, code: g.code }))}
+        locations={locations}
+        canExport={canExport}
+      />
       <div className="mt-6">
         <StorageCaution compact />
       </div>

@@ -7,8 +7,5 @@ export const dynamic = "force-dynamic";
 
 export const GET = api("GET /api/health", async () => {
   const up = await pingDatabase();
-  return NextResponse.json(
-    { ok: up, version: APP_VERSION, database: up ? "up" : "down" },
-    { status: up ? 200 : 503 },
-  );
+  return NextResponse.json({ ok: up, version: APP_VERSION, database: up ? "up" : "down" }, { status: up ? 200 : 503 });
 });

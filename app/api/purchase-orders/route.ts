@@ -6,7 +6,11 @@ import { purchaseOrderSchema } from "@/lib/validations/purchasing";
 import { PO_STATUSES } from "@/lib/purchasing/orders";
 
 const query = z.object({
-  status: z.enum([...PO_STATUSES, "open"] as const, { error: "status is one of draft, sent, part_received, closed, cancelled or open." }).optional(),
+  status: z
+    .enum([...PO_STATUSES, "open"] as const, {
+      error: "status is one of draft, sent, part_received, closed, cancelled or open.",
+    })
+    .optional(),
   page: z.coerce.number().int().min(1).max(100_000).default(1),
   pageSize: z.coerce.number().int().min(1).max(200).default(50),
 });

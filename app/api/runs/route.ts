@@ -16,7 +16,14 @@ const query = z.object({
 export const GET = api("GET /api/runs", async ({ req }) => {
   const q = parseWith(query, Object.fromEntries(req.nextUrl.searchParams));
   // Newest first, 50 unless `limit`; `before=<plan number>` pages back to older runs.
-  return { items: await listRuns({ jobId: q.job, statuses: q.status ? [q.status as RunStatus] : undefined, limit: q.limit, beforeId: q.before }) };
+  return {
+    items: await listRuns({
+      jobId: q.job,
+      statuses: q.status ? [q.status as RunStatus] : undefined,
+      limit: q.limit,
+      beforeId: q.before,
+    }),
+  };
 });
 
 /** Starts a nesting run: stored as queued, then picked up by a background worker. */

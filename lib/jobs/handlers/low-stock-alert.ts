@@ -20,9 +20,20 @@ export async function sendLowStockAlerts(actorId: string | null = null): Promise
   const due = await listDueGrades();
   if (!due.length) return { grades: [], sentTo: [] };
   const [buyers, shop] = await Promise.all([listBuyerAddresses(), getShopSettings()]);
-  const items = due.map((r) => ({ gradeCode: r.gradeCode, position: r.result.position, reorderPoint: r.result.reorderPoint, suggestedBlocks: r.result.suggestedBlocks, suggestedM3: r.result.suggestedM3, supplier: r.supplier?.name ?? null }));
+  const items = due.map((r) => ({
+    gradeCode: r.gradeCode,
+    position: r.result.position,
+    reorderPoint: r.result.reorderPoint,
+    suggestedBlocks: r.result.suggestedBlocks,
+    suggestedM3: r.result.suggestedM3,
+    supplier: r.supplier?.name ?? null,
+  }));
   for (const to of buyers) {
-    await sendMail(lowStockMail(to, items, shop.shopName, process.env.APP_URL ?? null), { kind: "low_stock", ref: `grades:${due.map((d) => d.gradeId).join(",")}`, sentBy: actorId });
+    await sendMail(lowStockMail(to, items, shop.shopName, process.env.APP_URL ?? null), {
+      kind: "low_stock",
+      ref: `grades:${due.map((d) => d.gradeId).join(",")}`,
+      sentBy: actorId,
+    });
   }
   return { grades: due.map((d) => d.gradeCode), sentTo: buyers };
 }

@@ -20,13 +20,20 @@ function unplacedReason(model: Model, type: number): string {
   const gradeText = t.grade === undefined ? "" : ` of grade ${t.grade}`;
   const blocks = model.blocks.filter((b) => t.grade === undefined || b.grade === t.grade);
   if (blocks.length === 0) return `no block${gradeText}`;
-  const anyFits = blocks.some((b) => orientations(part.size, part.rotate).some((o) => fitsIn(o.map((v) => v + model.kerf) as Vec3, b.usable.size)));
+  const anyFits = blocks.some((b) =>
+    orientations(part.size, part.rotate).some((o) => fitsIn(o.map((v) => v + model.kerf) as Vec3, b.usable.size)),
+  );
   if (!anyFits) return `larger than the usable box of every block${gradeText}`;
   return `not enough room left in the blocks${gradeText}`;
 }
 
 /** Turns the packer's fills into a plan in the format's frame (real sizes, ordered cuts). */
-export function assemblePlan(model: Model, fills: readonly BlockFill[], elapsedMs: number, lowerBoundBlocks: number): Plan {
+export function assemblePlan(
+  model: Model,
+  fills: readonly BlockFill[],
+  elapsedMs: number,
+  lowerBoundBlocks: number,
+): Plan {
   const k = model.kerf;
   const placements: Placement[] = [];
   const offcuts: Offcut[] = [];

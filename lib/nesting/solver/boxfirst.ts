@@ -44,7 +44,11 @@ function lowest(free: readonly Box[]): number {
   for (let i = 1; i < free.length; i++) {
     const a = free[i]!.origin;
     const b = free[fi]!.origin;
-    if (a[2] < b[2] - 1e-9 || (Math.abs(a[2] - b[2]) <= 1e-9 && (a[1] < b[1] - 1e-9 || (Math.abs(a[1] - b[1]) <= 1e-9 && a[0] < b[0])))) fi = i;
+    if (
+      a[2] < b[2] - 1e-9 ||
+      (Math.abs(a[2] - b[2]) <= 1e-9 && (a[1] < b[1] - 1e-9 || (Math.abs(a[1] - b[1]) <= 1e-9 && a[0] < b[0])))
+    )
+      fi = i;
   }
   return fi;
 }
@@ -56,7 +60,15 @@ export function minSide(types: readonly ItemType[], order: readonly number[], re
 }
 
 /** The `k` best placements (a part or a grid of copies) for box `f`, best first. */
-export function moves(f: Box, types: readonly ItemType[], order: readonly number[], remaining: readonly number[], grid: boolean, mMin: number, k: number): Move[] {
+export function moves(
+  f: Box,
+  types: readonly ItemType[],
+  order: readonly number[],
+  remaining: readonly number[],
+  grid: boolean,
+  mMin: number,
+  k: number,
+): Move[] {
   const out: Move[] = [];
   const fs = f.size;
   const fv = vol(fs);
@@ -130,7 +142,11 @@ function bestByCompletion<M extends object>(ms: readonly M[], complete: (m: M) =
  * says the time is up it takes the first move and reports `stopped`, and the fill goes on plainly
  * greedy (both fills, cut tree and maximal boxes, step this way).
  */
-export function pickMove<M extends object>(ms: readonly M[], complete: (m: M) => number, stop?: () => boolean): { move: M; stopped: boolean } {
+export function pickMove<M extends object>(
+  ms: readonly M[],
+  complete: (m: M) => number,
+  stop?: () => boolean,
+): { move: M; stopped: boolean } {
   if (ms.length === 1) return { move: ms[0]!, stopped: false };
   if (stop?.()) return { move: ms[0]!, stopped: true };
   return { move: bestByCompletion(ms, complete, stop), stopped: false };
@@ -152,7 +168,13 @@ function prune(s: State, mMin: number): void {
   s.free = keep;
 }
 
-function run(s: State, types: readonly ItemType[], order: readonly number[], p: BoxFirstParams, lookaheadAtStart: number): void {
+function run(
+  s: State,
+  types: readonly ItemType[],
+  order: readonly number[],
+  p: BoxFirstParams,
+  lookaheadAtStart: number,
+): void {
   let lookahead = lookaheadAtStart;
   let mMin = minSide(types, order, s.remaining);
   prune(s, mMin);
@@ -168,7 +190,13 @@ function run(s: State, types: readonly ItemType[], order: readonly number[], p: 
     const { move: chosen, stopped } = pickMove(
       ms,
       (m) => {
-        const sim: State = { free: [...s.free], remaining: [...s.remaining], packedVolume: s.packedVolume, leftovers: [], items: undefined };
+        const sim: State = {
+          free: [...s.free],
+          remaining: [...s.remaining],
+          packedVolume: s.packedVolume,
+          leftovers: [],
+          items: undefined,
+        };
         apply(sim, fi, m, types, p);
         run(sim, types, order, p, 0);
         return sim.packedVolume;
@@ -187,7 +215,13 @@ function run(s: State, types: readonly ItemType[], order: readonly number[], p: 
  * that fits it best; with `lookahead` > 1 the best few moves are judged by a greedy completion.
  * `remaining` is decremented in place.
  */
-export function fillBoxFirst(free: Box[], types: readonly ItemType[], remaining: number[], order: readonly number[], p: BoxFirstParams): { items: PackedItem[]; leftovers: Box[]; packedVolume: number } {
+export function fillBoxFirst(
+  free: Box[],
+  types: readonly ItemType[],
+  remaining: number[],
+  order: readonly number[],
+  p: BoxFirstParams,
+): { items: PackedItem[]; leftovers: Box[]; packedVolume: number } {
   const s: State = { free: [...free], remaining, packedVolume: 0, leftovers: [], items: [] };
   // Lookahead costs a greedy completion per move, and a completion scans every part line at every
   // step: the number of moves judged shrinks as part lines x pieces grows.

@@ -4,19 +4,22 @@ import type { Vec3 } from "../types";
 import { carveObstacles } from "./guillotine3d";
 import { fitsIn, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
-
 /** The distinct three-box guillotine splits of `f` around a piece `d` at its corner. */
 function splits(f: Box, d: Vec3): Box[][] {
   const seen = new Set<string>();
   return guillotineSplits(f, d).filter((boxes) => {
-    const key = boxes.map((b) => `${b.origin.join(",")}:${b.size.join(",")}`).sort().join("|");
+    const key = boxes
+      .map((b) => `${b.origin.join(",")}:${b.size.join(",")}`)
+      .sort()
+      .join("|");
     if (seen.has(key)) return false;
     seen.add(key);
     return true;
   });
 }
 
-const lowerCorner = (a: Box, b: Box): number => a.origin[2] - b.origin[2] || a.origin[1] - b.origin[1] || a.origin[0] - b.origin[0];
+const lowerCorner = (a: Box, b: Box): number =>
+  a.origin[2] - b.origin[2] || a.origin[1] - b.origin[1] || a.origin[0] - b.origin[0];
 
 /**
  * Depth-first search for a guillotine packing of ALL the given pieces into one block. It fills
@@ -24,7 +27,14 @@ const lowerCorner = (a: Box, b: Box): number => a.origin[2] - b.origin[2] || a.o
  * exceeds the block's slack (usable volume minus part volume). Bounded by `nodeLimit`.
  * Returns the fill, or undefined when it gives up.
  */
-export function packAllInBlock(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, r: Rng, stop: () => boolean = () => false): BlockFill | undefined {
+export function packAllInBlock(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  counts: readonly number[],
+  nodeLimit: number,
+  r: Rng,
+  stop: () => boolean = () => false,
+): BlockFill | undefined {
   const { free: initial } = carveObstacles(block.usable, block.obstacles, true, r);
   const capacity = initial.reduce((s, b) => s + vol(b.size), 0);
   const live = counts.map((c, t) => (c > 0 ? t : -1)).filter((t) => t >= 0);
@@ -72,7 +82,7 @@ export function packAllInBlock(block: BlockInfo, types: readonly ItemType[], cou
         const m2 = left > 0 ? minSide() : Infinity;
         let w = wasted;
         const keep: Box[] = [];
-        for (const b of parts) (b.size.some((v) => v < m2 - 1e-9) ? (w += vol(b.size)) : keep.push(b));
+        for (const b of parts) b.size.some((v) => v < m2 - 1e-9) ? (w += vol(b.size)) : keep.push(b);
         if (w <= slack + 1e-6) {
           items.push({ type: c.t, origin: [...f.origin] as Vec3, dims: c.d });
           if (dfs([...rest, ...keep], w)) return true;
@@ -100,7 +110,14 @@ export function packAllInBlock(block: BlockInfo, types: readonly ItemType[], cou
  * or is left as waste while the slack allows. Complete for cut trees whose cuts fall at part
  * lengths, which is how a cutter usually works; bounded by `nodeLimit`.
  */
-export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, r: Rng, stop: () => boolean = () => false): BlockFill | undefined {
+export function packAllByCuts(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  counts: readonly number[],
+  nodeLimit: number,
+  r: Rng,
+  stop: () => boolean = () => false,
+): BlockFill | undefined {
   const { free: initial } = carveObstacles(block.usable, block.obstacles, true, r);
   const capacity = initial.reduce((s, b) => s + vol(b.size), 0);
   const live = counts.map((c, t) => (c > 0 ? t : -1)).filter((t) => t >= 0);
@@ -114,7 +131,8 @@ export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], coun
   const order = [...live].sort((a, b) => vol(types[b]!.dims[0]!) - vol(types[a]!.dims[0]!) + (r() - 0.5) * 1e-9);
   const fittingVolume = (size: Vec3): number => {
     let v = 0;
-    for (const t of order) if (rem[t]! > 0 && types[t]!.dims.some((d) => fitsIn(d, size))) v += rem[t]! * vol(types[t]!.dims[0]!);
+    for (const t of order)
+      if (rem[t]! > 0 && types[t]!.dims.some((d) => fitsIn(d, size))) v += rem[t]! * vol(types[t]!.dims[0]!);
     return v;
   };
 
@@ -137,7 +155,8 @@ export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], coun
 
   const dfs = (regions: Box[], wasted: number): boolean => {
     if (left === 0) return true;
-    if (++nodes > nodeLimit || ((nodes & 127) === 0 && stop() && (nodes = Infinity)) || regions.length === 0) return false;
+    if (++nodes > nodeLimit || ((nodes & 127) === 0 && stop() && (nodes = Infinity)) || regions.length === 0)
+      return false;
     // Most constrained region first: dead ends show up early.
     const spare0 = slack - wasted + 1e-6;
     let ri = regions.length - 1;
@@ -193,7 +212,11 @@ export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], coun
         second.size[a] = R.size[a]! - c;
         // A region needs enough fitting parts to fill it, up to the slack still unspent.
         const spare = slack - wasted + 1e-6;
-        if (fittingVolume(first.size) < vol(first.size) - spare || fittingVolume(second.size) < vol(second.size) - spare) continue;
+        if (
+          fittingVolume(first.size) < vol(first.size) - spare ||
+          fittingVolume(second.size) < vol(second.size) - spare
+        )
+          continue;
         if (dfs([...rest, second, first], wasted)) return true;
         if (nodes > nodeLimit) return false;
       }
@@ -208,7 +231,14 @@ export function packAllByCuts(block: BlockInfo, types: readonly ItemType[], coun
 }
 
 /** The six axis permutations: oriented size = [d[p[0]], d[p[1]], d[p[2]]]. */
-const PERMS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [0, 2, 1], [2, 0, 1], [1, 2, 0], [2, 1, 0]];
+const PERMS: readonly (readonly [number, number, number])[] = [
+  [0, 1, 2],
+  [1, 0, 2],
+  [0, 2, 1],
+  [2, 0, 1],
+  [1, 2, 0],
+  [2, 1, 0],
+];
 const permute = (p: number, d: Vec3): Vec3 => {
   const q = PERMS[p]!;
   return [d[q[0]]!, d[q[1]]!, d[q[2]]!];
@@ -240,7 +270,13 @@ interface MergeNode {
 
 function mergeNode(dims: Vec3, mask: number, extra: Pick<MergeNode, "type" | "kids">): MergeNode {
   const sizes = new Set<string>();
-  for (let p = 0; p < PERMS.length; p++) if (mask & (1 << p)) sizes.add(permute(p, dims).map((v) => v.toFixed(4)).join(","));
+  for (let p = 0; p < PERMS.length; p++)
+    if (mask & (1 << p))
+      sizes.add(
+        permute(p, dims)
+          .map((v) => v.toFixed(4))
+          .join(","),
+      );
   const key = [...sizes].sort().join(";");
   return { dims, mask, key, hash: fnv(key, 0x811c9dc5), sorted: ascending(dims), volume: vol(dims), ...extra };
 }
@@ -293,7 +329,14 @@ function shareTwoSides(a: Vec3, b: Vec3): boolean {
  * The first call should go without `r` (a fixed order); calls again with `r` shuffle the order
  * among equally good moves, since a wrong early glue can cost the whole budget.
  */
-export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, stop: () => boolean = () => false, r?: Rng): BlockFill | undefined {
+export function packAllByMerging(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  counts: readonly number[],
+  nodeLimit: number,
+  stop: () => boolean = () => false,
+  r?: Rng,
+): BlockFill | undefined {
   if (block.obstacles.length > 0) return undefined;
   const target = block.usable.size;
   const targetSorted = ascending(target);
@@ -310,7 +353,8 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
   });
   // Each level of the search holds its candidate glues: beyond a few dozen pieces that costs more
   // memory and time than it is worth.
-  if (leaves.length === 0 || leaves.length > MAX_MERGE_PIECES || Math.abs(need - vol(target)) > 1e-6 * vol(target)) return undefined;
+  if (leaves.length === 0 || leaves.length > MAX_MERGE_PIECES || Math.abs(need - vol(target)) > 1e-6 * vol(target))
+    return undefined;
   const rootPerm = (n: MergeNode): number => {
     for (let p = 0; p < PERMS.length; p++) if (n.mask & (1 << p) && sameVec(permute(p, n.dims), target)) return p;
     return -1;
@@ -333,10 +377,16 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
           dims[ax] = da[ax]! + db[ax]!;
           if (!atLeastSorted(target, dims)) continue;
           let mask = 0;
-          for (let q = 0; q < PERMS.length; q++) if (a.mask & (1 << AFTER[q]![pa]!) && b.mask & (1 << AFTER[q]![pb]!)) mask |= 1 << q;
+          for (let q = 0; q < PERMS.length; q++)
+            if (a.mask & (1 << AFTER[q]![pa]!) && b.mask & (1 << AFTER[q]![pb]!)) mask |= 1 << q;
           const at: Vec3 = [0, 0, 0];
           at[ax] = da[ax]!;
-          const node = mergeNode(dims, mask, { kids: [{ node: a, perm: pa, at: [0, 0, 0] }, { node: b, perm: pb, at }] });
+          const node = mergeNode(dims, mask, {
+            kids: [
+              { node: a, perm: pa, at: [0, 0, 0] },
+              { node: b, perm: pb, at },
+            ],
+          });
           if (!out.has(node.key)) out.set(node.key, node);
         }
       }
@@ -360,7 +410,9 @@ export function packAllByMerging(block: BlockInfo, types: readonly ItemType[], c
     const moves: { i: number; j: number; node: MergeNode; score: number }[] = [];
     const pairs = new Set<string>();
     const sharing: [number, number][] = [];
-    for (let i = 0; i < boxes.length; i++) for (let j = i + 1; j < boxes.length; j++) if (shareTwoSides(boxes[i]!.sorted, boxes[j]!.sorted)) sharing.push([i, j]);
+    for (let i = 0; i < boxes.length; i++)
+      for (let j = i + 1; j < boxes.length; j++)
+        if (shareTwoSides(boxes[i]!.sorted, boxes[j]!.sorted)) sharing.push([i, j]);
     for (const [i, j] of sharing) {
       const a = boxes[i]!;
       const b = boxes[j]!;
@@ -433,7 +485,13 @@ interface TileSet {
  * `MAX_TABLE_STATES` (the product over part lines of quantity + 1).
  * @example packAllByTable(block, types, counts, 1e6) // → BlockFill | null | undefined
  */
-export function packAllByTable(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], pairLimit: number, stop: () => boolean = () => false): BlockFill | null | undefined {
+export function packAllByTable(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  counts: readonly number[],
+  pairLimit: number,
+  stop: () => boolean = () => false,
+): BlockFill | null | undefined {
   if (block.obstacles.length > 0) return undefined;
   // A local copy for the face test of the hot loop: imported bindings are read through accessors
   // in some module systems.
@@ -543,5 +601,10 @@ export function packAllByTable(block: BlockInfo, types: readonly ItemType[], cou
     place(way.b, way.ib, next);
   };
   place(all, at, [...block.usable.origin] as Vec3);
-  return { block: block.index, items, leftovers: [], packedVolume: items.reduce((s, it) => s + types[it.type]!.volume, 0) };
+  return {
+    block: block.index,
+    items,
+    leftovers: [],
+    packedVolume: items.reduce((s, it) => s + types[it.type]!.volume, 0),
+  };
 }

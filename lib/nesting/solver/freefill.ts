@@ -169,7 +169,10 @@ function nextSpace(spaces: readonly Box[], u: Box, corners: boolean): Anchor {
       k2 = s.origin[0];
     }
     const k3 = -(s.size[0] * s.size[1] * s.size[2]);
-    if (k0 < b0 - E || (k0 <= b0 + E && (k1 < b1 - E || (k1 <= b1 + E && (k2 < b2 - E || (k2 <= b2 + E && k3 < b3 - E)))))) {
+    if (
+      k0 < b0 - E ||
+      (k0 <= b0 + E && (k1 < b1 - E || (k1 <= b1 + E && (k2 < b2 - E || (k2 <= b2 + E && k3 < b3 - E)))))
+    ) {
       best = i;
       b0 = k0;
       b1 = k1;
@@ -180,7 +183,8 @@ function nextSpace(spaces: readonly Box[], u: Box, corners: boolean): Anchor {
   const far: [boolean, boolean, boolean] = [false, false, false];
   if (corners) {
     const s = spaces[best]!;
-    for (let a = 0; a < 3; a++) far[a] = u.origin[a]! + u.size[a]! - s.origin[a]! - s.size[a]! < s.origin[a]! - u.origin[a]! - E;
+    for (let a = 0; a < 3; a++)
+      far[a] = u.origin[a]! + u.size[a]! - s.origin[a]! - s.size[a]! < s.origin[a]! - u.origin[a]! - E;
   }
   return { index: best, far };
 }
@@ -198,7 +202,14 @@ function apply(s: State, at: Anchor, m: Move, types: readonly ItemType[], order:
   s.spaces = subtractBox(s.spaces, { origin, size: g }, s.mMin);
 }
 
-function run(s: State, u: Box, types: readonly ItemType[], order: readonly number[], p: FreeFillParams, lookaheadAtStart: number): void {
+function run(
+  s: State,
+  u: Box,
+  types: readonly ItemType[],
+  order: readonly number[],
+  p: FreeFillParams,
+  lookaheadAtStart: number,
+): void {
   let lookahead = lookaheadAtStart;
   while (s.spaces.length > 0) {
     const at = nextSpace(s.spaces, u, p.corners);
@@ -212,7 +223,13 @@ function run(s: State, u: Box, types: readonly ItemType[], order: readonly numbe
       ms,
       (m) => {
         // apply() replaces sim.spaces before anything changes it, so the list itself is shared.
-        const sim: State = { spaces: s.spaces, remaining: [...s.remaining], packedVolume: s.packedVolume, items: undefined, mMin: s.mMin };
+        const sim: State = {
+          spaces: s.spaces,
+          remaining: [...s.remaining],
+          packedVolume: s.packedVolume,
+          items: undefined,
+          mMin: s.mMin,
+        };
         apply(sim, at, m, types, order);
         run(sim, u, types, order, p, 0);
         return sim.packedVolume;
@@ -230,10 +247,21 @@ function run(s: State, u: Box, types: readonly ItemType[], order: readonly numbe
  * greedy completion. `remaining` is decremented in place. The leftovers returned are disjoint
  * empty boxes (the largest first), so they can be kept as offcuts or filled later.
  */
-export function fillBlockFree(block: BlockInfo, types: readonly ItemType[], remaining: number[], p: FreeFillParams): BlockFill {
+export function fillBlockFree(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  remaining: number[],
+  p: FreeFillParams,
+): BlockFill {
   const live = p.order.filter((t) => remaining[t]! > 0);
   const smallest = minSide(types, live, remaining);
-  const s: State = { spaces: emptySpaces(block.usable, block.obstacles, smallest), remaining, packedVolume: 0, items: [], mMin: smallest };
+  const s: State = {
+    spaces: emptySpaces(block.usable, block.obstacles, smallest),
+    remaining,
+    packedVolume: 0,
+    items: [],
+    mMin: smallest,
+  };
   const pieces = live.reduce((n, t) => n + remaining[t]!, 0);
   // A completion here costs about twice a cut-tree one (more, overlapping boxes): half the moves.
   run(s, block.usable, types, live, p, Math.min(p.lookahead, Math.floor(lookaheadCap(live.length, pieces) / 2)));

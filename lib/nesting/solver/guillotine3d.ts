@@ -23,12 +23,16 @@ export interface FillParams {
   stop?: () => boolean;
 }
 
-
 /**
  * Cuts the defect obstacles out of the usable box with through cuts: first a slab across the
  * obstacle's thinnest axis, then strips inside that slab, so only a small cell is lost.
  */
-export function carveObstacles(usable: Box, obstacles: readonly Box[], thinSlabs: boolean, r: Rng): { free: Box[]; lost: Box[] } {
+export function carveObstacles(
+  usable: Box,
+  obstacles: readonly Box[],
+  thinSlabs: boolean,
+  r: Rng,
+): { free: Box[]; lost: Box[] } {
   let free: Box[] = [usable];
   const lost: Box[] = [];
   for (const ob of obstacles) {
@@ -104,7 +108,14 @@ export function split(f: Box, g: Vec3, rule: SplitRule, r: Rng): Box[] {
 }
 
 /** Axis orders for growing a grid of identical copies (first axis filled first). */
-export const GRID_ORDERS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [1, 0, 2], [2, 0, 1], [0, 2, 1], [1, 2, 0], [2, 1, 0]];
+export const GRID_ORDERS: readonly (readonly [number, number, number])[] = [
+  [0, 1, 2],
+  [1, 0, 2],
+  [2, 0, 1],
+  [0, 2, 1],
+  [1, 2, 0],
+  [2, 1, 0],
+];
 
 /** Slack on axes too thin for any remaining part costs much; other slack a little. */
 function wasteScore(f: Vec3, g0: number, g1: number, g2: number, mMin: number): number {
@@ -130,7 +141,12 @@ interface Candidate {
  * box where it wastes least, the rest of that box split into three boxes by through cuts.
  * `remaining` is decremented in place.
  */
-export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[], remaining: number[], p: FillParams): BlockFill {
+export function fillBlockGuillotine(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  remaining: number[],
+  p: FillParams,
+): BlockFill {
   const { free: initial, lost } = carveObstacles(block.usable, block.obstacles, p.thinSlabs, p.rng);
   let free = initial;
   const leftovers: Box[] = [...lost.filter(() => false)];
@@ -150,8 +166,19 @@ export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[]
   };
   prune();
   if (p.boxFirst) {
-    const r = fillBoxFirst(free, types, remaining, p.order, { grid: p.grid, split: p.split, lookahead: p.lookahead, rng: p.rng, ...(p.stop ? { stop: p.stop } : {}) });
-    return { block: block.index, items: r.items, leftovers: [...leftovers, ...r.leftovers], packedVolume: r.packedVolume };
+    const r = fillBoxFirst(free, types, remaining, p.order, {
+      grid: p.grid,
+      split: p.split,
+      lookahead: p.lookahead,
+      rng: p.rng,
+      ...(p.stop ? { stop: p.stop } : {}),
+    });
+    return {
+      block: block.index,
+      items: r.items,
+      leftovers: [...leftovers, ...r.leftovers],
+      packedVolume: r.packedVolume,
+    };
   }
   for (const t of p.order) {
     const type = types[t]!;
@@ -168,7 +195,11 @@ export function fillBlockGuillotine(block: BlockInfo, types: readonly ItemType[]
             continue;
           }
           const rem = remaining[t]!;
-          const cap: Vec3 = [Math.floor(fs[0] / d[0] + 1e-9), Math.floor(fs[1] / d[1] + 1e-9), Math.floor(fs[2] / d[2] + 1e-9)];
+          const cap: Vec3 = [
+            Math.floor(fs[0] / d[0] + 1e-9),
+            Math.floor(fs[1] / d[1] + 1e-9),
+            Math.floor(fs[2] / d[2] + 1e-9),
+          ];
           for (const [a1, a2, a3] of GRID_ORDERS) {
             const n: Vec3 = [1, 1, 1];
             n[a1] = Math.min(cap[a1]!, rem);

@@ -33,9 +33,14 @@ export function eliminateBlocks(model: Model, fills: readonly BlockFill[]): Bloc
       // Piece by piece into the smallest leftover that takes it is slow for thousands of pieces, and
       // hopeless when the leftovers of the others hold less room than the weak block's parts.
       if (weak.items.length > MAX_PIECES_MOVED) continue;
-      const room = current.reduce((sum, f) => (f === weak ? sum : f.leftovers.reduce((s, l) => s + l.size[0] * l.size[1] * l.size[2], sum)), 0);
+      const room = current.reduce(
+        (sum, f) => (f === weak ? sum : f.leftovers.reduce((s, l) => s + l.size[0] * l.size[1] * l.size[2], sum)),
+        0,
+      );
       if (room < weak.packedVolume) continue;
-      const others = current.filter((f) => f !== weak).map((f) => ({ ...f, items: [...f.items], leftovers: [...f.leftovers] }));
+      const others = current
+        .filter((f) => f !== weak)
+        .map((f) => ({ ...f, items: [...f.items], leftovers: [...f.leftovers] }));
       const pieces = [...weak.items].sort((a, b) => model.types[b.type]!.volume - model.types[a.type]!.volume);
       let ok = true;
       for (const piece of pieces) {
@@ -46,7 +51,8 @@ export function eliminateBlocks(model: Model, fills: readonly BlockFill[]): Bloc
           let best: { i: number; d: Vec3; vol: number } | undefined;
           o.leftovers.forEach((l, i) => {
             const v = l.size[0] * l.size[1] * l.size[2];
-            for (const d of model.types[piece.type]!.dims) if (fitsIn(d, l.size) && (!best || v < best.vol)) best = { i, d, vol: v };
+            for (const d of model.types[piece.type]!.dims)
+              if (fitsIn(d, l.size) && (!best || v < best.vol)) best = { i, d, vol: v };
           });
           if (!best) continue;
           const l = o.leftovers[best.i]!;

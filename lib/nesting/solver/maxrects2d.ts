@@ -24,20 +24,28 @@ export function layerDims(type: ItemType, block: BlockInfo): Vec3[] {
   return type.dims.filter((d) => Math.abs(d[2] - h) <= 1e-9);
 }
 
-const contains = (a: Rect, b: Rect): boolean => b.x >= a.x - E && b.y >= a.y - E && b.x + b.w <= a.x + a.w + E && b.y + b.h <= a.y + a.h + E;
+const contains = (a: Rect, b: Rect): boolean =>
+  b.x >= a.x - E && b.y >= a.y - E && b.x + b.w <= a.x + a.w + E && b.y + b.h <= a.y + a.h + E;
 
 /** Removes `used` from the free rectangles, MaxRects style (maximal, overlapping free rects). */
 function occupy(free: Rect[], used: Rect): Rect[] {
   const out: Rect[] = [];
   for (const f of free) {
-    if (used.x >= f.x + f.w - E || used.x + used.w <= f.x + E || used.y >= f.y + f.h - E || used.y + used.h <= f.y + E) {
+    if (
+      used.x >= f.x + f.w - E ||
+      used.x + used.w <= f.x + E ||
+      used.y >= f.y + f.h - E ||
+      used.y + used.h <= f.y + E
+    ) {
       out.push(f);
       continue;
     }
     if (used.x > f.x + E) out.push({ x: f.x, y: f.y, w: used.x - f.x, h: f.h });
-    if (used.x + used.w < f.x + f.w - E) out.push({ x: used.x + used.w, y: f.y, w: f.x + f.w - used.x - used.w, h: f.h });
+    if (used.x + used.w < f.x + f.w - E)
+      out.push({ x: used.x + used.w, y: f.y, w: f.x + f.w - used.x - used.w, h: f.h });
     if (used.y > f.y + E) out.push({ x: f.x, y: f.y, w: f.w, h: used.y - f.y });
-    if (used.y + used.h < f.y + f.h - E) out.push({ x: f.x, y: used.y + used.h, w: f.w, h: f.y + f.h - used.y - used.h });
+    if (used.y + used.h < f.y + f.h - E)
+      out.push({ x: f.x, y: used.y + used.h, w: f.w, h: f.y + f.h - used.y - used.h });
   }
   return out.filter((r, i) => !out.some((o, j) => j !== i && contains(o, r) && (!contains(r, o) || j < i)));
 }
@@ -47,7 +55,13 @@ function occupy(free: Rect[], used: Rect): Rect[] {
  * by `rule` (best short side fit, best area fit, bottom-left). The leftover kept is the larger
  * clean strip beside all pieces (it is separated by one through cut).
  */
-export function fillBlockMaxRects(block: BlockInfo, types: readonly ItemType[], remaining: number[], order: readonly number[], rule: RectRule): BlockFill {
+export function fillBlockMaxRects(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  remaining: number[],
+  order: readonly number[],
+  rule: RectRule,
+): BlockFill {
   const u = block.usable;
   let free: Rect[] = [{ x: u.origin[0], y: u.origin[1], w: u.size[0], h: u.size[1] }];
   for (const ob of block.obstacles) {
@@ -67,8 +81,13 @@ export function fillBlockMaxRects(block: BlockInfo, types: readonly ItemType[], 
           const lw = f.w - d[0];
           const lh = f.h - d[1];
           const [s1, s2] =
-            rule === "bssf" ? [Math.min(lw, lh), Math.max(lw, lh)] : rule === "baf" ? [f.w * f.h - d[0] * d[1], Math.min(lw, lh)] : [f.y + d[1], f.x];
-          if (!best || s1 < best.s1 - E || (s1 <= best.s1 + E && s2 < best.s2)) best = { r: { x: f.x, y: f.y, w: d[0], h: d[1] }, d, s1, s2 };
+            rule === "bssf"
+              ? [Math.min(lw, lh), Math.max(lw, lh)]
+              : rule === "baf"
+                ? [f.w * f.h - d[0] * d[1], Math.min(lw, lh)]
+                : [f.y + d[1], f.x];
+          if (!best || s1 < best.s1 - E || (s1 <= best.s1 + E && s2 < best.s2))
+            best = { r: { x: f.x, y: f.y, w: d[0], h: d[1] }, d, s1, s2 };
         }
       if (!best) break;
       items.push({ type: t, origin: [best.r.x, best.r.y, u.origin[2]], dims: best.d });
@@ -89,7 +108,8 @@ export function edgeStrip(u: Box, items: readonly PackedItem[]): Box {
     size[a] = u.origin[a]! + u.size[a]! - end;
     const origin = [...u.origin] as Vec3;
     origin[a] = end;
-    if (size[a]! > 1e-9 && size[0] * size[1] * size[2] > best.size[0] * best.size[1] * best.size[2]) best = { origin, size };
+    if (size[a]! > 1e-9 && size[0] * size[1] * size[2] > best.size[0] * best.size[1] * best.size[2])
+      best = { origin, size };
   }
   return best;
 }
@@ -99,9 +119,20 @@ export function edgeStrip(u: Box, items: readonly PackedItem[]): Box {
  * rule). Pieces that spill into its second bin stay unplaced here. Blocks with defects are left to
  * `fillBlockMaxRects`, which can route around them.
  */
-export function fillBlockMaxRectsPackage(block: BlockInfo, types: readonly ItemType[], remaining: number[], order: readonly number[]): BlockFill {
+export function fillBlockMaxRectsPackage(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  remaining: number[],
+  order: readonly number[],
+): BlockFill {
   const u = block.usable;
-  const packer = new MaxRectsPacker(u.size[0], u.size[1], 0, { smart: false, pot: false, square: false, allowRotation: true, border: 0 });
+  const packer = new MaxRectsPacker(u.size[0], u.size[1], 0, {
+    smart: false,
+    pot: false,
+    square: false,
+    allowRotation: true,
+    border: 0,
+  });
   for (const t of order) {
     const dims = layerDims(types[t]!, block).filter((d) => d[0] <= u.size[0] + E && d[1] <= u.size[1] + E);
     const d = dims[0];

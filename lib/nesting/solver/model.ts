@@ -69,7 +69,14 @@ export function buildModel(problem: Problem): Model {
       const hi = d.max.map((v) => v + m + k) as Vec3;
       return { origin: lo, size: [hi[0] - lo[0], hi[1] - lo[1], hi[2] - lo[2]] };
     });
-    const classKey = JSON.stringify([b.size, t, b.grade ?? null, b.cost, b.offcut, b.defects.map((d) => [d.min, d.max])]);
+    const classKey = JSON.stringify([
+      b.size,
+      t,
+      b.grade ?? null,
+      b.cost,
+      b.offcut,
+      b.defects.map((d) => [d.min, d.max]),
+    ]);
     return {
       index,
       id: b.id,
@@ -82,7 +89,9 @@ export function buildModel(problem: Problem): Model {
       classKey,
     };
   });
-  const compatible = blocks.map((b) => types.filter((t) => t.grade === undefined || t.grade === b.grade).map((t) => t.index));
+  const compatible = blocks.map((b) =>
+    types.filter((t) => t.grade === undefined || t.grade === b.grade).map((t) => t.index),
+  );
   return { problem, kerf: k, types, blocks, compatible };
 }
 
@@ -100,7 +109,8 @@ export function gridItems(type: number, origin: Vec3, d: Vec3, n: Vec3): PackedI
   const out: PackedItem[] = [];
   for (let i = 0; i < n[0]; i++)
     for (let j = 0; j < n[1]; j++)
-      for (let l = 0; l < n[2]; l++) out.push({ type, origin: [origin[0] + i * d[0], origin[1] + j * d[1], origin[2] + l * d[2]], dims: d });
+      for (let l = 0; l < n[2]; l++)
+        out.push({ type, origin: [origin[0] + i * d[0], origin[1] + j * d[1], origin[2] + l * d[2]], dims: d });
   return out;
 }
 

@@ -37,7 +37,13 @@ function raise(sky: readonly Segment[], i: number, w: number, h: number): Segmen
  * was found within the limit.
  * @example packLayerPerfect(block, model.types, counts, 100_000) // → BlockFill with every piece
  */
-export function packLayerPerfect(block: BlockInfo, types: readonly ItemType[], counts: readonly number[], nodeLimit: number, stop: () => boolean = () => false): BlockFill | undefined {
+export function packLayerPerfect(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  counts: readonly number[],
+  nodeLimit: number,
+  stop: () => boolean = () => false,
+): BlockFill | undefined {
   if (block.obstacles.length > 0) return undefined;
   const [W, H] = block.usable.size;
   const live: { type: number; dims: Vec3[]; minSide: number }[] = [];
@@ -47,7 +53,9 @@ export function packLayerPerfect(block: BlockInfo, types: readonly ItemType[], c
     const all = layerDims(types[t]!, block);
     if (all.length === 0) return undefined;
     // One footprint per distinct size (a square turned is the same square).
-    const dims = all.filter((d, i) => all.findIndex((e) => Math.abs(e[0] - d[0]) <= E && Math.abs(e[1] - d[1]) <= E) === i);
+    const dims = all.filter(
+      (d, i) => all.findIndex((e) => Math.abs(e[0] - d[0]) <= E && Math.abs(e[1] - d[1]) <= E) === i,
+    );
     live.push({ type: t, dims, minSide: Math.min(...dims.map((d) => Math.min(d[0], d[1]))) });
     need += counts[t]! * dims[0]![0] * dims[0]![1];
   }
@@ -68,7 +76,8 @@ export function packLayerPerfect(block: BlockInfo, types: readonly ItemType[], c
   };
 
   // Whole-number sizes (the usual case) allow the gap check below.
-  const whole = Number.isInteger(W) && live.every((l) => l.dims.every((d) => Number.isInteger(d[0]) && Number.isInteger(d[1])));
+  const whole =
+    Number.isInteger(W) && live.every((l) => l.dims.every((d) => Number.isInteger(d[0]) && Number.isInteger(d[1])));
   /**
    * Whether widths of parts still to place can add up to `g` exactly, each part used once and
    * turned either way, and each standing no higher than `room` (the lowest gap's walls are
@@ -145,7 +154,11 @@ export function packLayerPerfect(block: BlockInfo, types: readonly ItemType[], c
   const total = left.reduce((s, c) => s + c, 0);
   if (!dfs([{ x: 0, w: W, y: 0 }], total)) return undefined;
   const o = block.usable.origin;
-  const items: PackedItem[] = placed.map((p) => ({ type: live[p.k]!.type, origin: [o[0] + p.x, o[1] + p.y, o[2]] as Vec3, dims: p.d }));
+  const items: PackedItem[] = placed.map((p) => ({
+    type: live[p.k]!.type,
+    origin: [o[0] + p.x, o[1] + p.y, o[2]] as Vec3,
+    dims: p.d,
+  }));
   const packedVolume = items.reduce((s, it) => s + types[it.type]!.volume, 0);
   return { block: block.index, items, leftovers: [], packedVolume };
 }

@@ -105,7 +105,9 @@ export class Search {
     this.start = opts.now?.() ?? 0;
     this.lowerBound = lowerBoundBlocks(problem);
     this.typeFitsSomewhere = this.model.types.map((t) =>
-      this.model.blocks.some((b) => this.model.compatible[b.index]!.includes(t.index) && t.dims.some((d) => fitsIn(d, b.usable.size))),
+      this.model.blocks.some(
+        (b) => this.model.compatible[b.index]!.includes(t.index) && t.dims.some((d) => fitsIn(d, b.usable.size)),
+      ),
     );
     this.pool = new ColumnPool(this.model, 250);
     const sorted = this.model.types.map((t) => [...t.dims[0]!].sort((a, b) => b - a));
@@ -119,7 +121,9 @@ export class Search {
     const capacity = this.model.blocks.reduce((s, b) => s + volume(b.usable.size), 0);
     const cargo = this.model.types.reduce((s, t) => s + volume(t.dims[0]!) * t.count, 0);
     // One layer of parts (a 2D problem) is left to the rectangle packers and the glue search.
-    const oneLayer = problem.settings.layout !== "guillotine" && this.model.blocks.every((b) => this.model.types.every((t) => layerDims(t, b).length > 0));
+    const oneLayer =
+      problem.settings.layout !== "guillotine" &&
+      this.model.blocks.every((b) => this.model.types.every((t) => layerDims(t, b).length > 0));
     // Judging moves by greedy completions is allowed for modest orders only.
     const pieces = this.model.types.reduce((s, t) => s + t.count, 0);
     const modest = lookaheadCap(this.model.types.length, pieces) > 0;
@@ -128,7 +132,12 @@ export class Search {
     this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
     if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
       const w = opts.warmStart;
-      this.best = { score: scorePlan(problem, w), plan: w, yield: w.stats.yield, unplaced: w.unplaced.reduce((n, u) => n + u.count, 0) };
+      this.best = {
+        score: scorePlan(problem, w),
+        plan: w,
+        yield: w.stats.yield,
+        unplaced: w.unplaced.reduce((n, u) => n + u.count, 0),
+      };
     }
   }
 
@@ -171,7 +180,12 @@ export class Search {
     const fills = this.pass(p);
     if (!fills) return;
     this.offer(fills);
-    if (fills.length > 1 && !this.outOfTime() && this.model.blocks.every((b) => b.classKey === this.model.blocks[0]!.classKey)) this.offer(eliminateBlocks(this.model, fills));
+    if (
+      fills.length > 1 &&
+      !this.outOfTime() &&
+      this.model.blocks.every((b) => b.classKey === this.model.blocks[0]!.classKey)
+    )
+      this.offer(eliminateBlocks(this.model, fills));
     if (this.iteration >= this.nextCover) {
       this.nextCover = Math.ceil(this.iteration * 1.6) + 2;
       this.cover();
@@ -184,14 +198,18 @@ export class Search {
    */
   private reusable(): boolean {
     const s = this.best?.score;
-    if (!s || this.iteration < 4 || this.pool.size < 4 || this.atBound() || s.placedVolume < this.placeable - 1e-6) return false;
+    if (!s || this.iteration < 4 || this.pool.size < 4 || this.atBound() || s.placedVolume < this.placeable - 1e-6)
+      return false;
     return this.model.blocks.every((b) => b.classKey === this.model.blocks[0]!.classKey) && s.blocksUsed > 1;
   }
 
   /** The dense fillings a pass starts from (see `denseDisjoint`), each given a block of its own. */
   private reuseFills(share: number, remaining: number[], unused: number[]): BlockFill[] {
     const want = Math.min(unused.length, Math.floor(share * (this.best?.score.blocksUsed ?? 0)));
-    return denseDisjoint(this.pool.columns(), remaining, want, this.r).map((c) => ({ ...c.fill, block: unused.shift()! }));
+    return denseDisjoint(this.pool.columns(), remaining, want, this.r).map((c) => ({
+      ...c.fill,
+      block: unused.shift()!,
+    }));
   }
 
   /** Recombines remembered fillings by set cover when everything fits but above the bound. */
@@ -209,11 +227,14 @@ export class Search {
 
   private offer(fills: BlockFill[]): void {
     for (const f of fills) this.pool.add(f);
-    const offcuts = fills.flatMap((f) => keptOffcuts(this.model, f).map((o) => ({ block: f.block, volume: o.size[0] * o.size[1] * o.size[2] })));
+    const offcuts = fills.flatMap((f) =>
+      keptOffcuts(this.model, f).map((o) => ({ block: f.block, volume: o.size[0] * o.size[1] * o.size[2] })),
+    );
     const placedVolume = fills.reduce((s, f) => s + f.packedVolume, 0);
     const score = scoreOf(this.model.problem, { placedVolume, usedBlocks: fills.map((f) => f.block), offcuts });
     if (this.best && compareScores(score, this.best.score) >= 0) return;
-    const net = fills.reduce((s, f) => s + this.model.blocks[f.block]!.volume, 0) - offcuts.reduce((s, o) => s + o.volume, 0);
+    const net =
+      fills.reduce((s, f) => s + this.model.blocks[f.block]!.volume, 0) - offcuts.reduce((s, o) => s + o.volume, 0);
     const placed = fills.reduce((s, f) => s + f.items.length, 0);
     const demand = this.model.types.reduce((s, t) => s + t.count, 0);
     this.best = { score, fills, yield: net > 0 ? placedVolume / net : 0, unplaced: demand - placed };
@@ -222,19 +243,29 @@ export class Search {
   /** Figures of the best plan so far, for progress reports. */
   bestSummary(): { placedVolume: number; blocksUsed: number; yield: number; unplacedCount: number } {
     const b = this.best;
-    return { placedVolume: b?.score.placedVolume ?? 0, blocksUsed: b?.score.blocksUsed ?? 0, yield: b?.yield ?? 0, unplacedCount: b?.unplaced ?? 0 };
+    return {
+      placedVolume: b?.score.placedVolume ?? 0,
+      blocksUsed: b?.score.blocksUsed ?? 0,
+      yield: b?.yield ?? 0,
+      unplacedCount: b?.unplaced ?? 0,
+    };
   }
 
   result(): Plan {
     const elapsed = Math.round(this.elapsed());
-    if (this.best?.plan) return { ...this.best.plan, stats: { ...this.best.plan.stats, elapsedMs: elapsed, lowerBoundBlocks: this.lowerBound } };
+    if (this.best?.plan)
+      return {
+        ...this.best.plan,
+        stats: { ...this.best.plan.stats, elapsedMs: elapsed, lowerBoundBlocks: this.lowerBound },
+      };
     return assemblePlan(this.model, this.best?.fills ?? [], elapsed, this.lowerBound);
   }
 
   private randomParams(): PassParams {
     const r = this.r;
     // The second pass of a fill-most search: the setting that fills single blocks best on average.
-    if (this.fillMost && this.iteration === 1) return { ...DEFAULT, boxFirst: true, lookahead: 96, free: this.freeShare > 0, corners: true };
+    if (this.fillMost && this.iteration === 1)
+      return { ...DEFAULT, boxFirst: true, lookahead: 96, free: this.freeShare > 0, corners: true };
     if (this.fillMost && r() < 0.85)
       // Stock is short (or there is one block): the fullest block wins, and box-first fills judged
       // by many greedy completions (a pilot method) fill a single block best.
@@ -288,7 +319,11 @@ export class Search {
     if (p.blockOrder === "large") return idx.sort((a, b) => bl[b]!.volume - bl[a]!.volume || perVol(a) - perVol(b));
     const jitter = new Map(idx.map((i) => [i, p.blockOrder === "shuffle" ? this.r() : 0]));
     return idx.sort(
-      (a, b) => Number(bl[b]!.offcut) - Number(bl[a]!.offcut) || perVol(a) - perVol(b) || jitter.get(a)! - jitter.get(b)! || bl[b]!.volume - bl[a]!.volume,
+      (a, b) =>
+        Number(bl[b]!.offcut) - Number(bl[a]!.offcut) ||
+        perVol(a) - perVol(b) ||
+        jitter.get(a)! - jitter.get(b)! ||
+        bl[b]!.volume - bl[a]!.volume,
     );
   }
 
@@ -296,7 +331,8 @@ export class Search {
     let best: { fill: BlockFill; rem: number[] } | undefined;
     for (let i = 0; i < p.tries; i++) {
       if (i > 0 && this.outOfTime()) break;
-      const q = i === 0 ? p : { ...this.randomParams(), candidates: p.candidates, tries: p.tries, blockOrder: p.blockOrder };
+      const q =
+        i === 0 ? p : { ...this.randomParams(), candidates: p.candidates, tries: p.tries, blockOrder: p.blockOrder };
       const rem = [...remaining];
       const fill = this.fillWith(block, rem, q);
       if (!best || fill.packedVolume > best.fill.packedVolume + 1e-9) best = { fill, rem };
@@ -310,12 +346,33 @@ export class Search {
     const info = m.blocks[block]!;
     const live = m.compatible[block]!.filter((t) => remaining[t]! > 0);
     const order = this.typeOrder(p, live);
-    const planar = m.problem.settings.layout !== "guillotine" && p.planarMaxRects && live.every((t) => layerDims(m.types[t]!, info).length > 0);
-    if (planar && p.rectRule === "package" && info.obstacles.length === 0) return fillBlockMaxRectsPackage(info, m.types, remaining, order);
-    if (planar) return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule === "package" ? "bssf" : p.rectRule);
+    const planar =
+      m.problem.settings.layout !== "guillotine" &&
+      p.planarMaxRects &&
+      live.every((t) => layerDims(m.types[t]!, info).length > 0);
+    if (planar && p.rectRule === "package" && info.obstacles.length === 0)
+      return fillBlockMaxRectsPackage(info, m.types, remaining, order);
+    if (planar)
+      return fillBlockMaxRects(info, m.types, remaining, order, p.rectRule === "package" ? "bssf" : p.rectRule);
     // Piece by piece, free fills leave many small empty boxes: no moves judged then (too slow).
-    if (p.free) return fillBlockFree(info, m.types, remaining, { order, grid: p.grid, lookahead: p.boxFirst && p.grid ? p.lookahead : 0, corners: p.corners, stop: () => this.outOfTime() });
-    return fillBlockGuillotine(info, m.types, remaining, { order, grid: p.grid, split: p.split, thinSlabs: p.thinSlabs, boxFirst: p.boxFirst, lookahead: p.lookahead, rng: this.r, stop: () => this.outOfTime() });
+    if (p.free)
+      return fillBlockFree(info, m.types, remaining, {
+        order,
+        grid: p.grid,
+        lookahead: p.boxFirst && p.grid ? p.lookahead : 0,
+        corners: p.corners,
+        stop: () => this.outOfTime(),
+      });
+    return fillBlockGuillotine(info, m.types, remaining, {
+      order,
+      grid: p.grid,
+      split: p.split,
+      thinSlabs: p.thinSlabs,
+      boxFirst: p.boxFirst,
+      lookahead: p.lookahead,
+      rng: this.r,
+      stop: () => this.outOfTime(),
+    });
   }
 
   /**
@@ -348,9 +405,16 @@ export class Search {
       const table = zeroWaste ? packAllByTable(info, m.types, counts, 100_000 * budget, stop) : undefined;
       const exact =
         table ??
-        (zeroWaste && table === undefined ? packAllByMerging(info, m.types, counts, 200 + budget * 4, stop, budget > 50 ? this.r : undefined) : undefined) ??
-        (zeroWaste && m.problem.settings.layout !== "guillotine" && left <= MAX_PERFECT_PIECES ? packLayerPerfect(info, m.types, counts, 4000 + budget * 40, stop) : undefined);
-      const fill = exact ?? packAllByCuts(info, m.types, counts, budget, this.r, stop) ?? packAllInBlock(info, m.types, counts, budget / 2, this.r, stop);
+        (zeroWaste && table === undefined
+          ? packAllByMerging(info, m.types, counts, 200 + budget * 4, stop, budget > 50 ? this.r : undefined)
+          : undefined) ??
+        (zeroWaste && m.problem.settings.layout !== "guillotine" && left <= MAX_PERFECT_PIECES
+          ? packLayerPerfect(info, m.types, counts, 4000 + budget * 40, stop)
+          : undefined);
+      const fill =
+        exact ??
+        packAllByCuts(info, m.types, counts, budget, this.r, stop) ??
+        packAllInBlock(info, m.types, counts, budget / 2, this.r, stop);
       if (fill) return fill;
     }
     return undefined;
@@ -392,7 +456,8 @@ export class Search {
         const finishes = rem.every((v) => v === 0);
         // Finishing fills compete on net cost; others on part volume per unit of net cost.
         const value = finishes ? -net : fill.packedVolume / net;
-        if (!chosen || (finishes && !chosen.finishes) || (finishes === chosen.finishes && value > chosen.value)) chosen = { fill, rem, finishes, value };
+        if (!chosen || (finishes && !chosen.finishes) || (finishes === chosen.finishes && value > chosen.value))
+          chosen = { fill, rem, finishes, value };
       }
       unused = unused.filter((b) => !useless.has(b));
       if (!chosen?.finishes) {

@@ -51,7 +51,12 @@ export class ColumnPool {
  * only the rest afresh, so the densest blocks of earlier passes are combined.
  * @example denseDisjoint(pool.columns(), remaining, 3, rng) // → the 3 densest compatible columns
  */
-export function denseDisjoint(columns: readonly Column[], remaining: number[], want: number, rng: () => number): Column[] {
+export function denseDisjoint(
+  columns: readonly Column[],
+  remaining: number[],
+  want: number,
+  rng: () => number,
+): Column[] {
   const keyed = columns.map((c) => ({ c, key: c.density * (1 + 0.1 * (rng() - 0.5)) }));
   keyed.sort((a, b) => b.key - a.key);
   const out: Column[] = [];
@@ -72,7 +77,11 @@ export function denseDisjoint(columns: readonly Column[], remaining: number[], w
  * fillings are mapped onto real blocks of their class. Undefined when no cover is found.
  * @example coverDemand(model, pool.columns(), demand) // → BlockFill[] | undefined
  */
-export function coverDemand(model: Model, columns: readonly Column[], demand: readonly number[]): BlockFill[] | undefined {
+export function coverDemand(
+  model: Model,
+  columns: readonly Column[],
+  demand: readonly number[],
+): BlockFill[] | undefined {
   if (columns.length === 0) return undefined;
   const classBlocks = new Map<string, number[]>();
   for (const b of model.blocks) classBlocks.set(b.classKey, [...(classBlocks.get(b.classKey) ?? []), b.index]);
@@ -91,7 +100,10 @@ export function coverDemand(model: Model, columns: readonly Column[], demand: re
   });
   let res: Record<string, unknown>;
   try {
-    res = solver.Solve({ optimize: "cost", opType: "min", constraints, variables }) as unknown as Record<string, unknown>;
+    res = solver.Solve({ optimize: "cost", opType: "min", constraints, variables }) as unknown as Record<
+      string,
+      unknown
+    >;
   } catch {
     return undefined;
   }

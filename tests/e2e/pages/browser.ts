@@ -6,10 +6,22 @@ export const BASE_URL = process.env.APP_URL ?? "http://127.0.0.1:3199";
 export const SHOTS = path.join(process.cwd(), "test-results", "screenshots");
 
 // Flags that work on this kind of machine (see ../shared/toolchain.md); Playwright makes its own profile.
-const ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
+const ARGS = [
+  "--no-sandbox",
+  "--disable-gpu",
+  "--disable-quic",
+  "--no-first-run",
+  "--disable-background-networking",
+  "--disable-component-update",
+  "--disable-sync",
+];
 
 export async function launch(): Promise<Browser> {
-  return chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium", headless: true, args: ARGS });
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+    headless: true,
+    args: ARGS,
+  });
 }
 
 export const VIEWPORTS = {

@@ -25,7 +25,9 @@ export class JobsPage {
 
   /** Chooses a part-list file, checks it, then imports it. */
   async importCsv(name: string, csv: string) {
-    await this.page.locator('input[type="file"]').setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(csv) });
+    await this.page
+      .locator('input[type="file"]')
+      .setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(csv) });
     await this.page.getByRole("button", { name: "Check the file" }).click();
     await this.page.getByText(/rows are fine|nothing will be imported/).waitFor();
   }

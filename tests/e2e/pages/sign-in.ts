@@ -17,12 +17,21 @@ export class SignInPage {
 }
 
 /** A fresh browser context at `viewport`, signed in as the demo user of `role`, on its home page. */
-export async function signedInPage(browser: Browser, role: string, viewport: { width: number; height: number }): Promise<Page> {
+export async function signedInPage(
+  browser: Browser,
+  role: string,
+  viewport: { width: number; height: number },
+): Promise<Page> {
   return signedInAs(browser, `${role}@demo.blockyard.test`, "blockyard-demo", viewport);
 }
 
 /** A fresh browser context at `viewport`, signed in with these credentials, on its home page. */
-export async function signedInAs(browser: Browser, email: string, password: string, viewport: { width: number; height: number }): Promise<Page> {
+export async function signedInAs(
+  browser: Browser,
+  email: string,
+  password: string,
+  viewport: { width: number; height: number },
+): Promise<Page> {
   const page = await (await browser.newContext({ viewport })).newPage();
   const signIn = new SignInPage(page);
   await signIn.open();

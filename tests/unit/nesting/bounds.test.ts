@@ -1,6 +1,17 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { dffLarge, dffRound, largeItemBound, lowerBoundBlocks, scaleBound, volumeBound, type BoundItem, type Dff, type Rotate, type Vec3 } from "@/lib/nesting";
+import {
+  dffLarge,
+  dffRound,
+  largeItemBound,
+  lowerBoundBlocks,
+  scaleBound,
+  volumeBound,
+  type BoundItem,
+  type Dff,
+  type Rotate,
+  type Vec3,
+} from "@/lib/nesting";
 import { problem } from "./helpers";
 
 describe("lower bounds", () => {
@@ -85,7 +96,10 @@ describe("conservative scales (dual feasible functions, Fekete & Schepers — fr
           expect(maxSum(U, C), `U${e}, C=${C}`).toBeLessThanOrEqual(1 + 1e-9);
           for (let k = 1; k <= 10; k++) {
             const u = dffRound(k);
-            expect(maxSum((x) => u(U(x)), C), `u${k}∘U${e}, C=${C}`).toBeLessThanOrEqual(1 + 1e-9);
+            expect(
+              maxSum((x) => u(U(x)), C),
+              `u${k}∘U${e}, C=${C}`,
+            ).toBeLessThanOrEqual(1 + 1e-9);
           }
         }
     }
@@ -104,7 +118,13 @@ describe("conservative scales (dual feasible functions, Fekete & Schepers — fr
     expect(largeItemBound([10, 10, 10], nine)).toBe(1);
     expect(scaleBound([10, 10, 10], nine)).toBe(2);
     expect(scaleBound([10, 10, 10], [{ size: [4, 4, 4], rotate: "any", count: 8 }])).toBe(1);
-    const p = problem({ blocks: [{ id: "A", size: [10, 10, 10] }, { id: "B", size: [10, 10, 10] }], parts: [{ id: "c", size: [4, 4, 4], quantity: 9 }] });
+    const p = problem({
+      blocks: [
+        { id: "A", size: [10, 10, 10] },
+        { id: "B", size: [10, 10, 10] },
+      ],
+      parts: [{ id: "c", size: [4, 4, 4], quantity: 9 }],
+    });
     expect(lowerBoundBlocks(p)).toBe(2);
   });
 
@@ -116,7 +136,10 @@ describe("conservative scales (dual feasible functions, Fekete & Schepers — fr
   });
 
   it("never exceeds the blocks of a known packing (fast-check: blocks cut into pieces by through cuts with kerf)", () => {
-    const cuts = fc.array(fc.tuple(fc.nat(), fc.integer({ min: 0, max: 2 }), fc.double({ min: 0, max: 0.999, noNaN: true })), { maxLength: 14 });
+    const cuts = fc.array(
+      fc.tuple(fc.nat(), fc.integer({ min: 0, max: 2 }), fc.double({ min: 0, max: 0.999, noNaN: true })),
+      { maxLength: 14 },
+    );
     fc.assert(
       fc.property(
         fc.tuple(fc.integer({ min: 6, max: 60 }), fc.integer({ min: 6, max: 60 }), fc.integer({ min: 6, max: 60 })),

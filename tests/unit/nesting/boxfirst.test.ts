@@ -21,14 +21,24 @@ function order(seed: number) {
     quantity: 10 + Math.floor(r() * 20),
     rotate: "z",
   }));
-  return problem({ settings: { kerf: 0, trim: 0, layout: "free" }, blocks: [{ id: "B", size: [587, 233, 220] }], parts });
+  return problem({
+    settings: { kerf: 0, trim: 0, layout: "free" },
+    blocks: [{ id: "B", size: [587, 233, 220] }],
+    parts,
+  });
 }
 
 function fill(seed: number, lookahead: number, stop?: () => boolean) {
   const m = buildModel(order(seed));
   const remaining = m.types.map((t) => t.count);
   const ord = m.types.map((t) => t.index).sort((a, b) => m.types[b]!.volume - m.types[a]!.volume);
-  return fillBoxFirst([m.blocks[0]!.usable], m.types, remaining, ord, { grid: true, split: "biggest", lookahead, rng: rng(1), ...(stop ? { stop } : {}) });
+  return fillBoxFirst([m.blocks[0]!.usable], m.types, remaining, ord, {
+    grid: true,
+    split: "biggest",
+    lookahead,
+    rng: rng(1),
+    ...(stop ? { stop } : {}),
+  });
 }
 
 describe("box-first fill with lookahead", () => {
@@ -74,6 +84,8 @@ describe("split rule 'column' (common practice, no source: stack like slabs, cro
     const vol = (s: [number, number, number]) => s[0] * s[1] * s[2];
     expect(vol(slab) + parts.reduce((t, b) => t + vol(b.size), 0)).toBe(100 ** 3);
     // 'biggest' instead keeps the long box beyond the slab whole.
-    expect(split(box, slab, "biggest", rng(1)).some((b) => b.size[0] === 80 && b.size[1] === 100 && b.size[2] === 100)).toBe(true);
+    expect(
+      split(box, slab, "biggest", rng(1)).some((b) => b.size[0] === 80 && b.size[1] === 100 && b.size[2] === 100),
+    ).toBe(true);
   });
 });

@@ -13,13 +13,23 @@ import { pinwheel, problem, solveValid } from "./helpers";
 
 const mergeFill = (p: ReturnType<typeof problem>, nodeLimit = 5000) => {
   const m = buildModel(p);
-  return packAllByMerging(m.blocks[0]!, m.types, m.types.map((t) => t.count), nodeLimit);
+  return packAllByMerging(
+    m.blocks[0]!,
+    m.types,
+    m.types.map((t) => t.count),
+    nodeLimit,
+  );
 };
 
 /** The table search on a one-block problem; with the plan it makes, checked by the validator. */
 const tableFill = (p: ReturnType<typeof problem>, pairLimit = 5_000_000) => {
   const m = buildModel(p);
-  const fill = packAllByTable(m.blocks[0]!, m.types, m.types.map((t) => t.count), pairLimit);
+  const fill = packAllByTable(
+    m.blocks[0]!,
+    m.types,
+    m.types.map((t) => t.count),
+    pairLimit,
+  );
   return { fill, errors: fill ? validatePlan(p, assemblePlan(m, [fill], 0, 1)) : undefined };
 };
 
@@ -73,7 +83,11 @@ describe("the glue search keeps each part's rotate rule", () => {
 
 describe("the glue search only answers when it applies", () => {
   it("parts with room to spare (not zero waste) are left to the other searches", () => {
-    const p = problem({ settings: { kerf: 0, trim: 0 }, blocks: [{ id: "B", size: [100, 100, 100] }], parts: [{ id: "c", size: [50, 50, 50], quantity: 7 }] });
+    const p = problem({
+      settings: { kerf: 0, trim: 0 },
+      blocks: [{ id: "B", size: [100, 100, 100] }],
+      parts: [{ id: "c", size: [50, 50, 50], quantity: 7 }],
+    });
     expect(mergeFill(p)).toBeUndefined();
     expect(solveValid(p).placements).toHaveLength(7);
   });
@@ -89,7 +103,11 @@ describe("the glue search only answers when it applies", () => {
 
   it("with kerf and trim: eight cubes cut from a trimmed block come back, a kerf apart", () => {
     // Block 210 mm, trim 4 each side → 202 usable; two 100 mm pieces + 2 mm kerf per axis.
-    const p = problem({ settings: { kerf: 2, trim: 4 }, blocks: [{ id: "B", size: [210, 210, 210] }], parts: [{ id: "c", size: [100, 100, 100], quantity: 8 }] });
+    const p = problem({
+      settings: { kerf: 2, trim: 4 },
+      blocks: [{ id: "B", size: [210, 210, 210] }],
+      parts: [{ id: "c", size: [100, 100, 100], quantity: 8 }],
+    });
     const fill = mergeFill(p);
     expect(fill?.items).toHaveLength(8);
     const xs = [...new Set(fill!.items.map((i) => i.origin[0]))].sort((a, b) => a - b);
@@ -115,13 +133,26 @@ describe("the table search over sets of pieces (packAllByTable): complete for cu
   });
 
   it("keeps each part's rotate rule: the plates fill the block only turned about z, the sheets only on edge", () => {
-    const plates = (rotate: "none" | "z") => problem({ settings: { kerf: 0, trim: 0, layout: "guillotine" }, blocks: [{ id: "B", size: [100, 60, 10] }], parts: [{ id: "plate", size: [60, 50, 10], quantity: 2, rotate }] });
+    const plates = (rotate: "none" | "z") =>
+      problem({
+        settings: { kerf: 0, trim: 0, layout: "guillotine" },
+        blocks: [{ id: "B", size: [100, 60, 10] }],
+        parts: [{ id: "plate", size: [60, 50, 10], quantity: 2, rotate }],
+      });
     const turned = tableFill(plates("z"));
     expect(turned.errors).toEqual([]);
     for (const it of turned.fill!.items) expect(it.dims).toEqual([50, 60, 10]);
     expect(tableFill(plates("none")).fill).toBeNull();
-    const sheets = (rotate: "any" | "z") => problem({ settings: { kerf: 0, trim: 0, layout: "guillotine" }, blocks: [{ id: "B", size: [20, 100, 100] }], parts: [{ id: "sheet", size: [100, 100, 10], quantity: 2, rotate }] });
-    expect(tableFill(sheets("any")).fill?.items.map((i) => i.dims)).toEqual([[10, 100, 100] as Vec3, [10, 100, 100] as Vec3]);
+    const sheets = (rotate: "any" | "z") =>
+      problem({
+        settings: { kerf: 0, trim: 0, layout: "guillotine" },
+        blocks: [{ id: "B", size: [20, 100, 100] }],
+        parts: [{ id: "sheet", size: [100, 100, 10], quantity: 2, rotate }],
+      });
+    expect(tableFill(sheets("any")).fill?.items.map((i) => i.dims)).toEqual([
+      [10, 100, 100] as Vec3,
+      [10, 100, 100] as Vec3,
+    ]);
     expect(tableFill(sheets("z")).fill).toBeNull();
   });
 
@@ -142,7 +173,11 @@ describe("the table search over sets of pieces (packAllByTable): complete for cu
 
   it("says it does not know (undefined), not that none exists, when it runs out of pairs, and leaves other cases alone", () => {
     expect(tableFill(perfectPacking(103, [1200, 800, 600], 20, 2), 10).fill).toBeUndefined();
-    const spare = problem({ settings: { kerf: 0, trim: 0 }, blocks: [{ id: "B", size: [100, 100, 100] }], parts: [{ id: "c", size: [50, 50, 50], quantity: 7 }] });
+    const spare = problem({
+      settings: { kerf: 0, trim: 0 },
+      blocks: [{ id: "B", size: [100, 100, 100] }],
+      parts: [{ id: "c", size: [50, 50, 50], quantity: 7 }],
+    });
     expect(tableFill(spare).fill).toBeUndefined();
     const defect = problem({
       settings: { kerf: 0, trim: 0, defectMargin: 0 },

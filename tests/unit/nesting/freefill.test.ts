@@ -15,17 +15,28 @@ import type { Vec3 } from "@/lib/nesting";
 import { pinwheel, problem, solveValid } from "./helpers";
 
 const box = (origin: Vec3, size: Vec3): Box => ({ origin, size });
-const inside = (p: Vec3, b: Box): boolean => [0, 1, 2].every((a) => p[a]! > b.origin[a]! && p[a]! < b.origin[a]! + b.size[a]!);
+const inside = (p: Vec3, b: Box): boolean =>
+  [0, 1, 2].every((a) => p[a]! > b.origin[a]! && p[a]! < b.origin[a]! + b.size[a]!);
 
 /** Unit-cell centres of a W×H×D grid. */
 function cells(s: Vec3): Vec3[] {
   const out: Vec3[] = [];
-  for (let x = 0; x < s[0]; x++) for (let y = 0; y < s[1]; y++) for (let z = 0; z < s[2]; z++) out.push([x + 0.5, y + 0.5, z + 0.5]);
+  for (let x = 0; x < s[0]; x++)
+    for (let y = 0; y < s[1]; y++) for (let z = 0; z < s[2]; z++) out.push([x + 0.5, y + 0.5, z + 0.5]);
   return out;
 }
 
 const taken = fc.array(
-  fc.tuple(fc.integer({ min: 0, max: 5 }), fc.integer({ min: 0, max: 5 }), fc.integer({ min: 0, max: 5 }), fc.integer({ min: 1, max: 4 }), fc.integer({ min: 1, max: 4 }), fc.integer({ min: 1, max: 4 })).map(([x, y, z, w, h, d]) => box([x, y, z], [w, h, d])),
+  fc
+    .tuple(
+      fc.integer({ min: 0, max: 5 }),
+      fc.integer({ min: 0, max: 5 }),
+      fc.integer({ min: 0, max: 5 }),
+      fc.integer({ min: 1, max: 4 }),
+      fc.integer({ min: 1, max: 4 }),
+      fc.integer({ min: 1, max: 4 }),
+    )
+    .map(([x, y, z, w, h, d]) => box([x, y, z], [w, h, d])),
   { maxLength: 6 },
 );
 
@@ -34,10 +45,22 @@ describe("maximal empty boxes", () => {
     const out = subtractBox([box([0, 0, 0], [10, 10, 10])], box([4, 4, 0], [2, 2, 10]), 0);
     expect(out.map((b) => [b.origin, b.size]).sort()).toEqual(
       [
-        [[0, 0, 0], [4, 10, 10]],
-        [[6, 0, 0], [4, 10, 10]],
-        [[0, 0, 0], [10, 4, 10]],
-        [[0, 6, 0], [10, 4, 10]],
+        [
+          [0, 0, 0],
+          [4, 10, 10],
+        ],
+        [
+          [6, 0, 0],
+          [4, 10, 10],
+        ],
+        [
+          [0, 0, 0],
+          [10, 4, 10],
+        ],
+        [
+          [0, 6, 0],
+          [10, 4, 10],
+        ],
       ].sort(),
     );
   });
@@ -46,7 +69,11 @@ describe("maximal empty boxes", () => {
     // A piece in the corner: the box beyond its top is 1 thick and goes at minSide 2.
     const out = subtractBox([box([0, 0, 0], [10, 10, 10])], box([0, 0, 0], [10, 10, 9]), 2);
     expect(out).toEqual([]);
-    const twice = subtractBox(subtractBox([box([0, 0, 0], [10, 10, 10])], box([0, 0, 0], [5, 10, 10]), 0), box([0, 0, 0], [5, 5, 10]), 0);
+    const twice = subtractBox(
+      subtractBox([box([0, 0, 0], [10, 10, 10])], box([0, 0, 0], [5, 10, 10]), 0),
+      box([0, 0, 0], [5, 5, 10]),
+      0,
+    );
     expect(twice).toEqual([box([5, 0, 0], [5, 10, 10])]);
   });
 
@@ -100,14 +127,28 @@ describe("free fill", () => {
     const m = buildModel(pinwheel("free"));
     const order = [0, 1, 2];
     // One piece at a time from the block's corners packs it, whatever the part order.
-    for (const order of [[0, 1, 2], [1, 0, 2], [2, 0, 1]]) {
-      const free = fillBlockFree(m.blocks[0]!, m.types, m.types.map((t) => t.count), { order, grid: false, lookahead: 0, corners: true });
+    for (const order of [
+      [0, 1, 2],
+      [1, 0, 2],
+      [2, 0, 1],
+    ]) {
+      const free = fillBlockFree(
+        m.blocks[0]!,
+        m.types,
+        m.types.map((t) => t.count),
+        { order, grid: false, lookahead: 0, corners: true },
+      );
       expect(free.items).toHaveLength(5);
     }
     // No through-cut fill manages, with or without judging moves.
     for (const lookahead of [0, 12])
       for (const boxFirst of [false, true]) {
-        const cut = fillBlockGuillotine(m.blocks[0]!, m.types, m.types.map((t) => t.count), { order: [0, 1, 2], grid: false, split: "biggest", thinSlabs: true, boxFirst, lookahead, rng: rng(1) });
+        const cut = fillBlockGuillotine(
+          m.blocks[0]!,
+          m.types,
+          m.types.map((t) => t.count),
+          { order: [0, 1, 2], grid: false, split: "biggest", thinSlabs: true, boxFirst, lookahead, rng: rng(1) },
+        );
         expect(cut.items.length).toBeLessThan(5);
       }
     // Through the whole solver: free places all five, guillotine must leave one out.
@@ -121,10 +162,19 @@ describe("free fill", () => {
       const p = problem({
         settings: { kerf: 2, trim: 5, defectMargin: 3, layout: "free", minOffcut: [20, 20, 5] },
         blocks: [{ id: "B", size: [400, 300, 200], defects: [{ min: [150, 100, 50], max: [180, 140, 90] }] }],
-        parts: Array.from({ length: 6 }, (_, i) => ({ id: `P${i}`, size: [20 + Math.floor(r() * 120), 20 + Math.floor(r() * 100), 10 + Math.floor(r() * 80)], quantity: 3 + Math.floor(r() * 8) })),
+        parts: Array.from({ length: 6 }, (_, i) => ({
+          id: `P${i}`,
+          size: [20 + Math.floor(r() * 120), 20 + Math.floor(r() * 100), 10 + Math.floor(r() * 80)],
+          quantity: 3 + Math.floor(r() * 8),
+        })),
       });
       const m = buildModel(p);
-      const fill = fillBlockFree(m.blocks[0]!, m.types, m.types.map((t) => t.count), { order: m.types.map((t) => t.index), grid: true, lookahead: 6, corners: seed % 2 === 0 });
+      const fill = fillBlockFree(
+        m.blocks[0]!,
+        m.types,
+        m.types.map((t) => t.count),
+        { order: m.types.map((t) => t.index), grid: true, lookahead: 6, corners: seed % 2 === 0 },
+      );
       const boxes = fill.items.map((it) => box(it.origin, it.dims));
       expect(boxes.length).toBeGreaterThan(0);
       for (let i = 0; i < boxes.length; i++) {

@@ -9,13 +9,24 @@ const box = (origin: Vec3, size: Vec3) => ({ origin, size });
 describe("emptying the least-filled block into the others' leftovers", () => {
   const p = problem({
     settings: { kerf: 0, trim: 0, layout: "guillotine" },
-    blocks: [{ id: "A", size: [100, 100, 100] }, { id: "B", size: [100, 100, 100] }],
-    parts: [{ id: "big", size: [100, 100, 60], rotate: "none" }, { id: "small", size: [50, 50, 20], quantity: 4, rotate: "none" }],
+    blocks: [
+      { id: "A", size: [100, 100, 100] },
+      { id: "B", size: [100, 100, 100] },
+    ],
+    parts: [
+      { id: "big", size: [100, 100, 60], rotate: "none" },
+      { id: "small", size: [50, 50, 20], quantity: 4, rotate: "none" },
+    ],
   });
   const m = buildModel(p);
   const item = (type: number, origin: Vec3, dims: Vec3) => ({ type, origin, dims });
   // A holds the big part and leaves a 100 × 100 × 40 slab; B holds the four small ones.
-  const a: BlockFill = { block: 0, items: [item(0, [0, 0, 0], [100, 100, 60])], leftovers: [box([0, 0, 60], [100, 100, 40])], packedVolume: 600_000 };
+  const a: BlockFill = {
+    block: 0,
+    items: [item(0, [0, 0, 0], [100, 100, 60])],
+    leftovers: [box([0, 0, 60], [100, 100, 40])],
+    packedVolume: 600_000,
+  };
   const smalls = [0, 50].flatMap((x) => [0, 50].map((y) => item(1, [x, y, 0], [50, 50, 20])));
   const b: BlockFill = { block: 1, items: smalls, leftovers: [box([0, 0, 20], [100, 100, 80])], packedVolume: 200_000 };
 

@@ -3,7 +3,10 @@ import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { parseProblem } from "@/lib/nesting";
 
-const ok = { blocks: [{ id: "B1", size: [1000, 500, 400] }], parts: [{ id: "p1", size: [100, 100, 100], quantity: 2 }] };
+const ok = {
+  blocks: [{ id: "B1", size: [1000, 500, 400] }],
+  parts: [{ id: "p1", size: [100, 100, 100], quantity: 2 }],
+};
 const withPath = (mutate: (j: any) => void): unknown => {
   const j = JSON.parse(JSON.stringify(ok));
   mutate(j);
@@ -15,7 +18,14 @@ describe("parseProblem", () => {
     const r = parseProblem(ok);
     expect(r.ok).toBe(true);
     if (!r.ok) return;
-    expect(r.problem.settings).toEqual({ kerf: 1.5, trim: 0, defectMargin: 0, minOffcut: [100, 100, 25], layout: "guillotine", timeLimitMs: 3000 });
+    expect(r.problem.settings).toEqual({
+      kerf: 1.5,
+      trim: 0,
+      defectMargin: 0,
+      minOffcut: [100, 100, 25],
+      layout: "guillotine",
+      timeLimitMs: 3000,
+    });
     expect(r.problem.blocks[0]).toMatchObject({ cost: 0.2, offcut: false, trim: 0, defects: [] });
     expect(r.problem.parts[0]).toMatchObject({ rotate: "any", quantity: 2 });
   });
@@ -27,13 +37,33 @@ describe("parseProblem", () => {
     ["missing blocks", (j: any) => delete j.blocks, "blocks: is required"],
     ["a size that is not a number", (j: any) => (j.parts[0].size[0] = "10"), "parts[0].size[0]: must be a number"],
     ["a short size", (j: any) => (j.parts[0].size = [1, 2]), "parts[0].size: must be an array of 3 numbers"],
-    ["a duplicate part id", (j: any) => j.parts.push({ id: "p1", size: [1, 1, 1] }), 'parts[1].id: duplicate id "p1" (also parts[0])'],
-    ["a defect outside its block", (j: any) => (j.blocks[0].defects = [{ min: [0, 0, 0], max: [10, 600, 10] }]), "blocks[0].defects[0].max[1]: lies outside its block (size 500)"],
-    ["a bad layout", (j: any) => (j.settings = { layout: "spiral" }), 'settings.layout: must be one of "guillotine", "layers", "free"'],
+    [
+      "a duplicate part id",
+      (j: any) => j.parts.push({ id: "p1", size: [1, 1, 1] }),
+      'parts[1].id: duplicate id "p1" (also parts[0])',
+    ],
+    [
+      "a defect outside its block",
+      (j: any) => (j.blocks[0].defects = [{ min: [0, 0, 0], max: [10, 600, 10] }]),
+      "blocks[0].defects[0].max[1]: lies outside its block (size 500)",
+    ],
+    [
+      "a bad layout",
+      (j: any) => (j.settings = { layout: "spiral" }),
+      'settings.layout: must be one of "guillotine", "layers", "free"',
+    ],
     ["a bad rotate rule", (j: any) => (j.parts[0].rotate = "x"), 'parts[0].rotate: must be one of "any", "z", "none"'],
-    ["a fractional quantity", (j: any) => (j.parts[0].quantity = 1.5), "parts[0].quantity: must be a whole number >= 1"],
+    [
+      "a fractional quantity",
+      (j: any) => (j.parts[0].quantity = 1.5),
+      "parts[0].quantity: must be a whole number >= 1",
+    ],
     ["a negative kerf", (j: any) => (j.settings = { kerf: -1 }), "settings.kerf: must be >= 0"],
-    ["a trim that eats the block", (j: any) => (j.blocks[0].trim = 250), "blocks[0].trim: leaves no usable material in blocks[0] (size[1] = 500)"],
+    [
+      "a trim that eats the block",
+      (j: any) => (j.blocks[0].trim = 250),
+      "blocks[0].trim: leaves no usable material in blocks[0] (size[1] = 500)",
+    ],
   ])("refuses %s and names its path", (_what, mutate, message) => {
     const r = parseProblem(withPath(mutate));
     expect(r.ok).toBe(false);
@@ -43,7 +73,11 @@ describe("parseProblem", () => {
 
 const root = process.cwd();
 function runCli(stdin: string, args: string[] = []): { code: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, [path.join(root, "node_modules/tsx/dist/cli.mjs"), path.join(root, "scripts/nest.ts"), ...args], { input: stdin, encoding: "utf8", cwd: root, timeout: 30_000 });
+  const r = spawnSync(
+    process.execPath,
+    [path.join(root, "node_modules/tsx/dist/cli.mjs"), path.join(root, "scripts/nest.ts"), ...args],
+    { input: stdin, encoding: "utf8", cwd: root, timeout: 30_000 },
+  );
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -58,12 +92,28 @@ describe("nest command line", () => {
 
   // One spawn per kind keeps this file quick; the parser cases above cover each message.
   it.each([
-    ["malformed JSON", "{\"blocks\": [\n", /^\(root\): malformed JSON[^\n]*\n$/],
+    ["malformed JSON", '{"blocks": [\n', /^\(root\): malformed JSON[^\n]*\n$/],
     ["missing fields", JSON.stringify({ parts: [] }), /^blocks: is required$/m],
-    ["negative and zero sizes", JSON.stringify(withPath((j) => ((j.parts[0].size = [10, 0, -1]), (j.blocks[0].size[0] = 0)))), /^blocks\[0\]\.size\[0\]: must be > 0\nparts\[0\]\.size\[1\]: must be > 0\nparts\[0\]\.size\[2\]: must be > 0\n$/],
-    ["a defect outside its block", JSON.stringify(withPath((j) => (j.blocks[0].defects = [{ min: [-5, 0, 0], max: [10, 10, 10] }]))), /^blocks\[0\]\.defects\[0\]\.min\[0\]: must be >= 0$/m],
-    ["duplicate ids", JSON.stringify(withPath((j) => j.blocks.push({ id: "B1", size: [1, 1, 1] }))), /^blocks\[1\]\.id: duplicate id "B1"/m],
-    ["non-numbers", JSON.stringify(withPath((j) => (j.parts[0].quantity = "two"))), /^parts\[0\]\.quantity: must be a number$/m],
+    [
+      "negative and zero sizes",
+      JSON.stringify(withPath((j) => ((j.parts[0].size = [10, 0, -1]), (j.blocks[0].size[0] = 0)))),
+      /^blocks\[0\]\.size\[0\]: must be > 0\nparts\[0\]\.size\[1\]: must be > 0\nparts\[0\]\.size\[2\]: must be > 0\n$/,
+    ],
+    [
+      "a defect outside its block",
+      JSON.stringify(withPath((j) => (j.blocks[0].defects = [{ min: [-5, 0, 0], max: [10, 10, 10] }]))),
+      /^blocks\[0\]\.defects\[0\]\.min\[0\]: must be >= 0$/m,
+    ],
+    [
+      "duplicate ids",
+      JSON.stringify(withPath((j) => j.blocks.push({ id: "B1", size: [1, 1, 1] }))),
+      /^blocks\[1\]\.id: duplicate id "B1"/m,
+    ],
+    [
+      "non-numbers",
+      JSON.stringify(withPath((j) => (j.parts[0].quantity = "two"))),
+      /^parts\[0\]\.quantity: must be a number$/m,
+    ],
   ])("refuses %s with exit code 2, the path on stderr and nothing on stdout", (_what, input, pattern) => {
     const r = runCli(input);
     expect(r.code).toBe(2);

@@ -49,13 +49,26 @@ describe("perfect layer search", () => {
 
   it("keeps the rotate rule: without turning, 20×10 pieces and a 10×10 one cannot fill 30×30", () => {
     const m = buildModel(unturned);
-    expect(packLayerPerfect(m.blocks[0]!, m.types, m.types.map((t) => t.count), 100_000)).toBeUndefined();
+    expect(
+      packLayerPerfect(
+        m.blocks[0]!,
+        m.types,
+        m.types.map((t) => t.count),
+        100_000,
+      ),
+    ).toBeUndefined();
   });
 
   it("declines parts that do not fill the layer exactly, or stand lower than the block", () => {
     const short = buildModel(pinwheel("layers"));
     expect(packLayerPerfect(short.blocks[0]!, short.types, [2, 2, 0], 10_000)).toBeUndefined();
-    const thin = buildModel(problem({ settings: { kerf: 0, trim: 0, layout: "layers" }, blocks: [{ id: "B", size: [20, 10, 10] }], parts: [{ id: "P", size: [10, 10, 5], quantity: 4, rotate: "none" }] }));
+    const thin = buildModel(
+      problem({
+        settings: { kerf: 0, trim: 0, layout: "layers" },
+        blocks: [{ id: "B", size: [20, 10, 10] }],
+        parts: [{ id: "P", size: [10, 10, 5], quantity: 4, rotate: "none" }],
+      }),
+    );
     expect(packLayerPerfect(thin.blocks[0]!, thin.types, [4], 10_000)).toBeUndefined();
   });
 
@@ -75,23 +88,33 @@ describe("perfect layer search", () => {
       }
     };
     fc.assert(
-      fc.property(fc.integer({ min: 4, max: 30 }), fc.integer({ min: 4, max: 30 }), fc.array(fc.nat(1000), { minLength: 1, maxLength: 9 }), (W, H, draws) => {
-        const pieces: [number, number][] = [];
-        cut(W, H, [...draws], pieces);
-        const p = problem({
-          settings: { kerf: 0, trim: 0, layout: "layers", minOffcut: [1, 1, 1] },
-          blocks: [{ id: "B", size: [W, H, 5] }],
-          parts: pieces.map(([w, h], i) => ({ id: `P${i}`, size: [h, w, 5], quantity: 1, rotate: "z" })),
-        });
-        const m = buildModel(p);
-        const fill = packLayerPerfect(m.blocks[0]!, m.types, m.types.map((t) => t.count), 200_000);
-        expect(fill?.items.length).toBe(pieces.length);
-        expect(cover(W, H, fill!.items)).toBe(W * H);
-        // And as a plan of the solver, checked by the validator.
-        const plan = solveValid(p, 20);
-        expect(plan.unplaced).toEqual([]);
-        expect(validatePlan(p, plan)).toEqual([]);
-      }),
+      fc.property(
+        fc.integer({ min: 4, max: 30 }),
+        fc.integer({ min: 4, max: 30 }),
+        fc.array(fc.nat(1000), { minLength: 1, maxLength: 9 }),
+        (W, H, draws) => {
+          const pieces: [number, number][] = [];
+          cut(W, H, [...draws], pieces);
+          const p = problem({
+            settings: { kerf: 0, trim: 0, layout: "layers", minOffcut: [1, 1, 1] },
+            blocks: [{ id: "B", size: [W, H, 5] }],
+            parts: pieces.map(([w, h], i) => ({ id: `P${i}`, size: [h, w, 5], quantity: 1, rotate: "z" })),
+          });
+          const m = buildModel(p);
+          const fill = packLayerPerfect(
+            m.blocks[0]!,
+            m.types,
+            m.types.map((t) => t.count),
+            200_000,
+          );
+          expect(fill?.items.length).toBe(pieces.length);
+          expect(cover(W, H, fill!.items)).toBe(W * H);
+          // And as a plan of the solver, checked by the validator.
+          const plan = solveValid(p, 20);
+          expect(plan.unplaced).toEqual([]);
+          expect(validatePlan(p, plan)).toEqual([]);
+        },
+      ),
       { numRuns: 40 },
     );
   });

@@ -2,13 +2,21 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { comparePlans, nestSync, parseProblem, validatePlan, type Problem } from "@/lib/nesting";
 
-const vec = (lo: number, hi: number) => fc.tuple(fc.integer({ min: lo, max: hi }), fc.integer({ min: lo, max: hi }), fc.integer({ min: lo, max: hi }));
+const vec = (lo: number, hi: number) =>
+  fc.tuple(fc.integer({ min: lo, max: hi }), fc.integer({ min: lo, max: hi }), fc.integer({ min: lo, max: hi }));
 
 const defectIn = (size: [number, number, number]) =>
-  fc.tuple(fc.double({ min: 0, max: 0.8, noNaN: true }), fc.double({ min: 0, max: 0.8, noNaN: true }), fc.double({ min: 0, max: 0.8, noNaN: true }), fc.integer({ min: 1, max: 30 })).map(([a, b, c, w]) => {
-    const min = [a, b, c].map((f, i) => Math.floor(f * size[i]!)) as [number, number, number];
-    return { id: "d", min, max: min.map((v, i) => Math.min(size[i]!, v + w)) as [number, number, number] };
-  });
+  fc
+    .tuple(
+      fc.double({ min: 0, max: 0.8, noNaN: true }),
+      fc.double({ min: 0, max: 0.8, noNaN: true }),
+      fc.double({ min: 0, max: 0.8, noNaN: true }),
+      fc.integer({ min: 1, max: 30 }),
+    )
+    .map(([a, b, c, w]) => {
+      const min = [a, b, c].map((f, i) => Math.floor(f * size[i]!)) as [number, number, number];
+      return { id: "d", min, max: min.map((v, i) => Math.min(size[i]!, v + w)) as [number, number, number] };
+    });
 
 const blockArb = vec(60, 400).chain((size) =>
   fc.record({
@@ -26,7 +34,15 @@ const problemArb = fc
     defectMargin: fc.constantFrom(0, 3),
     layout: fc.constantFrom("guillotine", "layers", "free"),
     blocks: fc.array(blockArb, { minLength: 1, maxLength: 3 }),
-    parts: fc.array(fc.record({ size: vec(8, 180), quantity: fc.integer({ min: 1, max: 4 }), grade: fc.constantFrom("A", "B", undefined), rotate: fc.constantFrom("any", "z", "none") }), { minLength: 1, maxLength: 4 }),
+    parts: fc.array(
+      fc.record({
+        size: vec(8, 180),
+        quantity: fc.integer({ min: 1, max: 4 }),
+        grade: fc.constantFrom("A", "B", undefined),
+        rotate: fc.constantFrom("any", "z", "none"),
+      }),
+      { minLength: 1, maxLength: 4 },
+    ),
   })
   .map((r) => {
     const parsed = parseProblem({
@@ -77,7 +93,21 @@ describe("solver properties on random small problems", () => {
     fc.assert(
       fc.property(problemArb, blockArb, (p, extra) => {
         const before = solve(p, 3);
-        const bigger: Problem = { ...p, blocks: [...p.blocks, { id: "extra", size: extra.size, grade: extra.grade, cost: (extra.size[0] * extra.size[1] * extra.size[2]) / 1e9, offcut: extra.offcut, trim: extra.offcut ? 0 : p.settings.trim, defects: extra.defects }] };
+        const bigger: Problem = {
+          ...p,
+          blocks: [
+            ...p.blocks,
+            {
+              id: "extra",
+              size: extra.size,
+              grade: extra.grade,
+              cost: (extra.size[0] * extra.size[1] * extra.size[2]) / 1e9,
+              offcut: extra.offcut,
+              trim: extra.offcut ? 0 : p.settings.trim,
+              defects: extra.defects,
+            },
+          ],
+        };
         if (bigger.blocks.at(-1)!.size.some((v) => 2 * bigger.blocks.at(-1)!.trim >= v)) return;
         const after = nestSync(bigger, { seed: 3, iterations: 6, warmStart: before });
         expect(validatePlan(bigger, after)).toEqual([]);

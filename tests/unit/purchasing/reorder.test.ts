@@ -2,7 +2,18 @@ import { describe, expect, it } from "vitest";
 import { dailyStats, economicOrderQuantity, planReorder, receivingCheck } from "@/lib/purchasing/reorder";
 import { combineBasis } from "@/lib/reports/yield";
 
-const base = { dailyDemand: 0.5, demandSd: 0.2, leadTimeDays: 14, serviceLevel: 0.95, committed: 2, orderCost: 75, holdingCost: 18, onHand: 6, onOrder: 0, blockVolume: 7.249 };
+const base = {
+  dailyDemand: 0.5,
+  demandSd: 0.2,
+  leadTimeDays: 14,
+  serviceLevel: 0.95,
+  committed: 2,
+  orderCost: 75,
+  holdingCost: 18,
+  onHand: 6,
+  onOrder: 0,
+  blockVolume: 7.249,
+};
 
 describe("reorder planning", () => {
   it("adds open-job demand to lead-time demand and safety stock", () => {

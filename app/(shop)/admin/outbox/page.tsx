@@ -14,32 +14,73 @@ export default async function OutboxPage({ searchParams }: { searchParams: Promi
   let where: string;
   try {
     const c = mailConfig();
-    where = c.kind === "smtp" ? "Mail goes to the SMTP server set in the environment (SMTP_URL or SMTP_HOST)." : `No SMTP server is set: mail is written to ${c.dir} as .eml files and not delivered.`;
+    where =
+      c.kind === "smtp"
+        ? "Mail goes to the SMTP server set in the environment (SMTP_URL or SMTP_HOST)."
+        : `No SMTP server is set: mail is written to ${c.dir} as .eml files and not delivered.`;
   } catch (e) {
     where = e instanceof Error ? e.message : "The mail settings are not valid.";
   }
   return (
     <>
       <PageHeader title="Outbox" lead={`Every e-mail Blockyard has sent or tried to send: ${total} in all.`} />
-      <div className="mb-4"><Notice>{where}</Notice></div>
+      <div className="mb-4">
+        <Notice>{where}</Notice>
+      </div>
       <div className="overflow-x-auto rounded-card border border-bead bg-paper-raised shadow-card">
         <table>
           <thead className="border-b border-bead bg-paper-sunk">
-            <tr><th className="px-3 py-2">When</th><th className="px-3 py-2">What</th><th className="px-3 py-2">To</th><th className="px-3 py-2">Subject</th><th className="px-3 py-2">Attached</th><th className="px-3 py-2">How</th><th className="px-3 py-2">By</th></tr>
+            <tr>
+              <th className="px-3 py-2">When</th>
+              <th className="px-3 py-2">What</th>
+              <th className="px-3 py-2">To</th>
+              <th className="px-3 py-2">Subject</th>
+              <th className="px-3 py-2">Attached</th>
+              <th className="px-3 py-2">How</th>
+              <th className="px-3 py-2">By</th>
+            </tr>
           </thead>
           <tbody>
             {items.map((m) => (
               <tr key={m.id} className="border-b border-bead/60 align-top last:border-0" data-testid={`mail-${m.id}`}>
                 <td className="whitespace-nowrap px-3 py-2">{m.at.slice(0, 16).replace("T", " ")}</td>
-                <td className="px-3 py-2">{m.kind === "purchase_order" ? "Purchase order" : m.kind === "low_stock" ? "Low-stock alert" : "Other"}{m.ref?.startsWith("po:") && <> · <Link href={`/purchasing/orders/${m.ref.slice(3)}`}>order</Link></>}</td>
+                <td className="px-3 py-2">
+                  {m.kind === "purchase_order"
+                    ? "Purchase order"
+                    : m.kind === "low_stock"
+                      ? "Low-stock alert"
+                      : "Other"}
+                  {m.ref?.startsWith("po:") && (
+                    <>
+                      {" "}
+                      · <Link href={`/purchasing/orders/${m.ref.slice(3)}`}>order</Link>
+                    </>
+                  )}
+                </td>
                 <td className="px-3 py-2">{m.to}</td>
-                <td className="px-3 py-2">{m.subject}{m.error && <p className="text-xs text-ember">{m.error}</p>}</td>
+                <td className="px-3 py-2">
+                  {m.subject}
+                  {m.error && <p className="text-xs text-ember">{m.error}</p>}
+                </td>
                 <td className="px-3 py-2">{m.attachments.join(", ") || "–"}</td>
-                <td className="px-3 py-2">{m.status === "sent" ? <Badge tone="moss">{m.transport === "smtp" ? "sent by SMTP" : "kept in outbox"}</Badge> : <Badge tone="ember">failed</Badge>}{m.file && <p className="text-xs text-ink-faint">{m.file}</p>}</td>
+                <td className="px-3 py-2">
+                  {m.status === "sent" ? (
+                    <Badge tone="moss">{m.transport === "smtp" ? "sent by SMTP" : "kept in outbox"}</Badge>
+                  ) : (
+                    <Badge tone="ember">failed</Badge>
+                  )}
+                  {m.file && <p className="text-xs text-ink-faint">{m.file}</p>}
+                </td>
                 <td className="px-3 py-2">{m.sentBy ?? "scheduled"}</td>
               </tr>
             ))}
-            {!items.length && <tr><td colSpan={7} className="px-3 py-6 text-center text-ink-faint">Nothing has been sent yet.</td></tr>}
+            {!items.length && (
+              <tr>
+                <td colSpan={7} className="px-3 py-6 text-center text-ink-faint">
+                  Nothing has been sent yet.
+                </td>
+              </tr>
+            )}
           </tbody>
         </table>
       </div>

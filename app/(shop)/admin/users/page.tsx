@@ -11,7 +11,10 @@ export default async function PeoplePage() {
   const users = await listUsers();
   return (
     <>
-      <PageHeader title="People" lead="Who can sign in, and which roles they hold. Deactivating someone signs them out everywhere at once." />
+      <PageHeader
+        title="People"
+        lead="Who can sign in, and which roles they hold. Deactivating someone signs them out everywhere at once."
+      />
       <People initial={users} selfId={me.id} />
     </>
   );

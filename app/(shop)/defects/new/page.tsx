@@ -6,7 +6,11 @@ import { FlagDefect } from "@/components/stock/flag-defect";
 
 export const metadata: Metadata = { title: "Flag a defect" };
 
-export default async function FlagDefectPage({ searchParams }: { searchParams: Promise<{ code?: string | string[] }> }) {
+export default async function FlagDefectPage({
+  searchParams,
+}: {
+  searchParams: Promise<{ code?: string | string[] }>;
+}) {
   const user = await requireRole("cutter");
   const unit = await displayUnit(user);
   const { code } = await searchParams;

@@ -13,10 +13,21 @@ export default async function ReceivePage() {
   const [suppliers, grades, unit] = await Promise.all([listSuppliers(), listGrades(), displayUnit(user)]);
   return (
     <>
-      <PageHeader title="Receive a delivery" lead="Measure and weigh each block as it comes off the truck. Blockyard works out density and the date it may be cut." />
+      <PageHeader
+        title="Receive a delivery"
+        lead="Measure and weigh each block as it comes off the truck. Blockyard works out density and the date it may be cut."
+      />
       <ReceiveForm
         suppliers={suppliers.filter((s) => s.active).map((s) => ({ id: s.id, name: s.name }))}
-        grades={grades.filter((g) => g.active).map((g) => ({ id: g.id, code: g.code, minDensity: g.minDensity, cureDays: g.cureDays, neverHotWire: g.neverHotWire }))}
+        grades={grades
+          .filter((g) => g.active)
+          .map((g) => ({
+            id: g.id,
+            code: g.code,
+            minDensity: g.minDensity,
+            cureDays: g.cureDays,
+            neverHotWire: g.neverHotWire,
+          }))}
         unit={unit}
       />
     </>

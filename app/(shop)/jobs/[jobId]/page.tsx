@@ -55,14 +55,18 @@ export default async function JobPage({ params }: Params) {
         actions={
           <div className="flex flex-wrap items-end gap-2">
             {canEdit && <JobStatusControl jobId={job.id} status={job.status} />}
-            <Link className={buttonClass("secondary")} href="/jobs">All jobs</Link>
+            <Link className={buttonClass("secondary")} href="/jobs">
+              All jobs
+            </Link>
           </div>
         }
       />
       <div className="space-y-5">
         {job.notes && <Notice>{job.notes}</Notice>}
         {!open && canEdit && (
-          <Notice tone="caution">This job is past taking parts: its part list is fixed. Set it back to “Taking parts” to change it.</Notice>
+          <Notice tone="caution">
+            This job is past taking parts: its part list is fixed. Set it back to “Taking parts” to change it.
+          </Notice>
         )}
 
         <Card title="Parts">
@@ -70,11 +74,17 @@ export default async function JobPage({ params }: Params) {
         </Card>
 
         {/* Nesting runs of this job: filled in by the cut-planning pages. */}
-        <section id="runs" aria-labelledby="runs-title" className="rounded-card border border-dashed border-bead-strong bg-paper-raised p-5">
+        <section
+          id="runs"
+          aria-labelledby="runs-title"
+          className="rounded-card border border-dashed border-bead-strong bg-paper-raised p-5"
+        >
           <header className="mb-2 flex flex-wrap items-center justify-between gap-3">
             <h2 id="runs-title">Nesting runs</h2>
             {canEdit && parts.length > 0 && (
-              <Link className={buttonClass("primary")} href={`/plans/new?jobs=${job.id}`}>Plan this job</Link>
+              <Link className={buttonClass("primary")} href={`/plans/new?jobs=${job.id}`}>
+                Plan this job
+              </Link>
             )}
           </header>
           <JobRuns jobId={job.id} />
@@ -87,7 +97,16 @@ export default async function JobPage({ params }: Params) {
                 <PartForm target={{ kind: "job", jobId: job.id }} unit={unit} grades={partGradeChoices(grades)} />
               </Card>
               <Card title="Add from the part library">
-                <AddFromLibrary jobId={job.id} parts={library.map((l) => ({ id: l.id, kit: l.kit, name: l.name, defaultQuantity: l.defaultQuantity, sizeText: formatSize(l.size, unit) }))} />
+                <AddFromLibrary
+                  jobId={job.id}
+                  parts={library.map((l) => ({
+                    id: l.id,
+                    kit: l.kit,
+                    name: l.name,
+                    defaultQuantity: l.defaultQuantity,
+                    sizeText: formatSize(l.size, unit),
+                  }))}
+                />
               </Card>
             </div>
             <section aria-labelledby="import-title" className="space-y-3">

@@ -26,7 +26,11 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   if (!Number.isInteger(id) || id <= 0) notFound();
   const run = await getRun(id);
   if (!run) notFound();
-  const [settings, siblings, owed] = await Promise.all([getShopSettings(), listRuns({ jobId: run.jobIds[0], limit: 8 }), owedByRun(id, run.plan)]);
+  const [settings, siblings, owed] = await Promise.all([
+    getShopSettings(),
+    listRuns({ jobId: run.jobIds[0], limit: 8 }),
+    owedByRun(id, run.plan),
+  ]);
   const planner = allows(["planner"], user.roles);
   const cutter = allows(["cutter"], user.roles);
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
@@ -48,51 +52,95 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
             <RunStatusBadge status={run.status} stuck={uncuttable.length > 0} />
             <span>for {run.jobNames.join(", ")}</span>
             {run.settings.layout ? (
-              <span className="text-ink-faint">{run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin {run.settings.defectMargin} mm</span>
+              <span className="text-ink-faint">
+                {run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin{" "}
+                {run.settings.defectMargin} mm
+              </span>
             ) : (
               <span className="text-ink-faint">recorded history (no plan stored)</span>
             )}
-            {run.parentRunId && <span>re-plan of <Link href={`/plans/${run.parentRunId}`}>#{run.parentRunId}</Link></span>}
+            {run.parentRunId && (
+              <span>
+                re-plan of <Link href={`/plans/${run.parentRunId}`}>#{run.parentRunId}</Link>
+              </span>
+            )}
           </span>
         }
         actions={
           plan && (
             <>
-              <Link className={buttonClass("secondary")} href={`/plans/${run.id}/sheet`}>Cut sheet</Link>
-              <a className={buttonClass("secondary")} href={`/api/runs/${run.id}/cut-list`} download>Cut list CSV</a>
-              {cutter && run.status === "approved" && <Link className={buttonClass("primary")} href={`/plans/${run.id}/cut`}>At the machine</Link>}
+              <Link className={buttonClass("secondary")} href={`/plans/${run.id}/sheet`}>
+                Cut sheet
+              </Link>
+              <a className={buttonClass("secondary")} href={`/api/runs/${run.id}/cut-list`} download>
+                Cut list CSV
+              </a>
+              {cutter && run.status === "approved" && (
+                <Link className={buttonClass("primary")} href={`/plans/${run.id}/cut`}>
+                  At the machine
+                </Link>
+              )}
             </>
           )
         }
       />
       <div className="space-y-5">
-        <RunLive initial={{ id: run.id, status: run.status, progress: run.progress, best: run.best, error: run.error }} canCancel={planner} />
-        {run.status === "failed" && <Notice tone="danger" title="This run failed">{run.error ?? "The worker stopped."} Start a new run from the job.</Notice>}
-        {run.status === "cancelled" && <Notice tone="caution">This plan was stopped or released{plan ? "; the best plan found before then is shown." : "."}</Notice>}
+        <RunLive
+          initial={{ id: run.id, status: run.status, progress: run.progress, best: run.best, error: run.error }}
+          canCancel={planner}
+        />
+        {run.status === "failed" && (
+          <Notice tone="danger" title="This run failed">
+            {run.error ?? "The worker stopped."} Start a new run from the job.
+          </Notice>
+        )}
+        {run.status === "cancelled" && (
+          <Notice tone="caution">
+            This plan was stopped or released{plan ? "; the best plan found before then is shown." : "."}
+          </Notice>
+        )}
 
         {plan && (
           <>
             <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5" data-testid="plan-figures">
               <Fig label="Yield" value={`${(plan.stats.yield * 100).toFixed(1)} %`} />
               <Fig label="Blocks" value={`${plan.stats.blocksUsed}`} note={`at least ${plan.stats.lowerBoundBlocks}`} />
-              <Fig label="Stock cost" value={(run.cost ?? 0).toLocaleString("en", { style: "currency", currency: "USD" })} />
-              <Fig label="Offcuts kept" value={`${(plan.stats.offcutVolume / 1e9).toFixed(3)} m³`} note={`${plan.offcuts.length} pieces`} />
-              <Fig label="Cut time (estimate)" value={`${Math.round(totalMinutes)} min`} note={`${(totalLength / 1000).toFixed(1)} m of wire travel at ${settings.feedMmPerMin} mm/min`} />
+              <Fig
+                label="Stock cost"
+                value={(run.cost ?? 0).toLocaleString("en", { style: "currency", currency: "USD" })}
+              />
+              <Fig
+                label="Offcuts kept"
+                value={`${(plan.stats.offcutVolume / 1e9).toFixed(3)} m³`}
+                note={`${plan.offcuts.length} pieces`}
+              />
+              <Fig
+                label="Cut time (estimate)"
+                value={`${Math.round(totalMinutes)} min`}
+                note={`${(totalLength / 1000).toFixed(1)} m of wire travel at ${settings.feedMmPerMin} mm/min`}
+              />
             </div>
             {plan.unplaced.length > 0 && (
               <Notice tone="caution" title="Not everything fits">
                 <ul className="list-disc pl-5">
-                  {plan.unplaced.map((u) => <li key={u.part}>{u.count} × {partName(u.part)}: {u.reason}</li>)}
+                  {plan.unplaced.map((u) => (
+                    <li key={u.part}>
+                      {u.count} × {partName(u.part)}: {u.reason}
+                    </li>
+                  ))}
                 </ul>
               </Notice>
             )}
             {uncuttable.length > 0 && (
               <Notice tone="danger" title="This plan cannot be cut">
-                {uncuttable.length === 1 ? `Block ${uncuttable[0]} holds` : `Blocks ${uncuttable.join(", ")} hold`} pieces that no through cut frees (free layout, for
-                comparison only), so the plan cannot be approved. Plan the job again with the guillotine or layers rule.
+                {uncuttable.length === 1 ? `Block ${uncuttable[0]} holds` : `Blocks ${uncuttable.join(", ")} hold`}{" "}
+                pieces that no through cut frees (free layout, for comparison only), so the plan cannot be approved.
+                Plan the job again with the guillotine or layers rule.
               </Notice>
             )}
-            {planner && <RunActions runId={run.id} status={run.status} owes={owes} canApprove={uncuttable.length === 0} />}
+            {planner && (
+              <RunActions runId={run.id} status={run.status} owes={owes} canApprove={uncuttable.length === 0} />
+            )}
             <HotWireCaution />
             {used.map((b) => {
               const status = run.blocks.find((x) => x.code === b.id)?.planStatus;
@@ -102,12 +150,21 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                   title={
                     <span className="flex flex-wrap items-center gap-2">
                       <Link href={`/stock/${encodeURIComponent(b.id)}`}>{b.id}</Link>
-                      <span className="text-sm font-normal text-ink-soft">{b.size.join(" × ")} mm · {b.grade}{b.offcut && " · offcut"}</span>
+                      <span className="text-sm font-normal text-ink-soft">
+                        {b.size.join(" × ")} mm · {b.grade}
+                        {b.offcut && " · offcut"}
+                      </span>
                       {status === "cut" && <Badge tone="moss">cut</Badge>}
                       {status === "reserved" && <Badge tone="kerf">earmarked</Badge>}
                     </span>
                   }
-                  action={cutter || planner ? <a className="text-sm" href={`/api/runs/${run.id}/gcode?block=${encodeURIComponent(b.id)}`}>G-code (straight cuts)</a> : undefined}
+                  action={
+                    cutter || planner ? (
+                      <a className="text-sm" href={`/api/runs/${run.id}/gcode?block=${encodeURIComponent(b.id)}`}>
+                        G-code (straight cuts)
+                      </a>
+                    ) : undefined
+                  }
                 >
                   {uncuttable.includes(b.id) && (
                     <div className="mb-3">
@@ -115,7 +172,18 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                     </div>
                   )}
                   <PlanView
-                    block={{ id: b.id, size: b.size, defects: b.defects.map((d) => ({ min: d.min.map((v) => Math.max(0, v - run.settings.defectMargin)) as [number, number, number], max: d.max.map((v, i) => Math.min(b.size[i]!, v + run.settings.defectMargin)) as [number, number, number] })) }}
+                    block={{
+                      id: b.id,
+                      size: b.size,
+                      defects: b.defects.map((d) => ({
+                        min: d.min.map((v) => Math.max(0, v - run.settings.defectMargin)) as [number, number, number],
+                        max: d.max.map((v, i) => Math.min(b.size[i]!, v + run.settings.defectMargin)) as [
+                          number,
+                          number,
+                          number,
+                        ],
+                      })),
+                    }}
                     placements={plan.placements.filter((p) => p.block === b.id)}
                     offcuts={plan.offcuts.filter((o) => o.block === b.id)}
                     cuts={plan.cuts[b.id] ?? []}
@@ -133,17 +201,39 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
           <Card title="Runs for the same job, side by side">
             <div className="overflow-x-auto">
               <table data-testid="run-compare">
-                <thead><tr><th className="py-1">Plan</th><th>Status</th><th className="text-right">Yield</th><th className="text-right">Blocks</th><th className="text-right">Cost</th><th className="text-right">Offcuts m³</th><th className="text-right">Cut time</th><th className="text-right">Unplaced</th><th className="pl-4">Layout</th></tr></thead>
+                <thead>
+                  <tr>
+                    <th className="py-1">Plan</th>
+                    <th>Status</th>
+                    <th className="text-right">Yield</th>
+                    <th className="text-right">Blocks</th>
+                    <th className="text-right">Cost</th>
+                    <th className="text-right">Offcuts m³</th>
+                    <th className="text-right">Cut time</th>
+                    <th className="text-right">Unplaced</th>
+                    <th className="pl-4">Layout</th>
+                  </tr>
+                </thead>
                 <tbody>
                   {siblings.map((s) => (
                     <tr key={s.id} className={`border-t border-bead/60 ${s.id === run.id ? "bg-kerf-light/40" : ""}`}>
-                      <td className="py-1"><Link href={`/plans/${s.id}`}>#{s.id}</Link></td>
-                      <td><RunStatusBadge status={s.status} stuck={s.stuckBlocks.length > 0} /></td>
-                      <td className="text-right tabular-nums">{s.stats ? `${(s.stats.yield * 100).toFixed(1)} %` : "–"}</td>
+                      <td className="py-1">
+                        <Link href={`/plans/${s.id}`}>#{s.id}</Link>
+                      </td>
+                      <td>
+                        <RunStatusBadge status={s.status} stuck={s.stuckBlocks.length > 0} />
+                      </td>
+                      <td className="text-right tabular-nums">
+                        {s.stats ? `${(s.stats.yield * 100).toFixed(1)} %` : "–"}
+                      </td>
                       <td className="text-right tabular-nums">{s.stats?.blocksUsed ?? "–"}</td>
                       <td className="text-right tabular-nums">{s.cost === null ? "–" : s.cost.toFixed(2)}</td>
-                      <td className="text-right tabular-nums">{s.stats ? (s.stats.offcutVolume / 1e9).toFixed(3) : "–"}</td>
-                      <td className="text-right tabular-nums">{s.cutLengthMm === null ? "–" : `${Math.round(s.cutLengthMm / settings.feedMmPerMin)} min`}</td>
+                      <td className="text-right tabular-nums">
+                        {s.stats ? (s.stats.offcutVolume / 1e9).toFixed(3) : "–"}
+                      </td>
+                      <td className="text-right tabular-nums">
+                        {s.cutLengthMm === null ? "–" : `${Math.round(s.cutLengthMm / settings.feedMmPerMin)} min`}
+                      </td>
                       <td className="text-right tabular-nums">{s.best?.unplacedCount ?? "–"}</td>
                       <td className="pl-4">{s.settings.layout ?? "–"}</td>
                     </tr>

@@ -13,10 +13,21 @@ export const metadata: Metadata = { title: "New plan" };
 /** `?jobs=3,5` (from a job's page) or `?job=3&job=5` (from the chooser below). */
 function chosenJobs(q: { jobs?: string; job?: string | string[] }): number[] {
   const raw = [q.jobs ?? "", ...[q.job ?? []].flat()].join(",");
-  return [...new Set(raw.split(",").filter((x) => /^\d+$/.test(x)).map(Number))];
+  return [
+    ...new Set(
+      raw
+        .split(",")
+        .filter((x) => /^\d+$/.test(x))
+        .map(Number),
+    ),
+  ];
 }
 
-export default async function NewPlanPage({ searchParams }: { searchParams: Promise<{ jobs?: string; job?: string | string[] }> }) {
+export default async function NewPlanPage({
+  searchParams,
+}: {
+  searchParams: Promise<{ jobs?: string; job?: string | string[] }>;
+}) {
   await requireRole("planner");
   const jobIds = chosenJobs(await searchParams);
   if (!jobIds.length) {
@@ -24,7 +35,10 @@ export default async function NewPlanPage({ searchParams }: { searchParams: Prom
     const open = items.filter((j) => j.pieceCount > 0);
     return (
       <>
-        <PageHeader title="New plan" lead="Choose the jobs to nest together: their parts share the stock you pick next." />
+        <PageHeader
+          title="New plan"
+          lead="Choose the jobs to nest together: their parts share the stock you pick next."
+        />
         {open.length === 0 ? (
           <Notice tone="caution">No open job has parts to plan. Add a job and its parts on the Jobs page first.</Notice>
         ) : (
@@ -41,7 +55,8 @@ export default async function NewPlanPage({ searchParams }: { searchParams: Prom
                           <span className="font-medium">{j.name}</span>
                           {j.customer && <span className="text-ink-soft"> · {j.customer}</span>}
                           <span className="block text-sm text-ink-faint">
-                            {JOB_STATUS_LABELS[j.status]} · {j.lineCount} {j.lineCount === 1 ? "line" : "lines"} · {j.pieceCount} {j.pieceCount === 1 ? "piece" : "pieces"}
+                            {JOB_STATUS_LABELS[j.status]} · {j.lineCount} {j.lineCount === 1 ? "line" : "lines"} ·{" "}
+                            {j.pieceCount} {j.pieceCount === 1 ? "piece" : "pieces"}
                             {j.dueOn && <> · due {j.dueOn}</>}
                           </span>
                         </span>
@@ -50,7 +65,9 @@ export default async function NewPlanPage({ searchParams }: { searchParams: Prom
                   ))}
                 </ul>
               </fieldset>
-              <button type="submit" className={buttonClass("primary")}>Choose stock for these jobs</button>
+              <button type="submit" className={buttonClass("primary")}>
+                Choose stock for these jobs
+              </button>
             </form>
           </Card>
         )}
@@ -60,11 +77,21 @@ export default async function NewPlanPage({ searchParams }: { searchParams: Prom
   const [jobs, candidates, s] = await Promise.all([jobNames(jobIds), candidateStock(jobIds), getShopSettings()]);
   return (
     <>
-      <PageHeader title="New plan" lead={`Nest the parts still owed on ${[...jobs.values()].join(", ")} into the stock you choose.`} />
+      <PageHeader
+        title="New plan"
+        lead={`Nest the parts still owed on ${[...jobs.values()].join(", ")} into the stock you choose.`}
+      />
       <NewRunForm
         jobIds={jobIds}
         candidates={candidates}
-        defaults={{ kerf: s.kerf, trim: s.trim, defectMargin: s.defectMargin, minOffcut: s.minOffcut, layout: s.layout, timeLimitMs: s.nestingTimeLimitMs }}
+        defaults={{
+          kerf: s.kerf,
+          trim: s.trim,
+          defectMargin: s.defectMargin,
+          minOffcut: s.minOffcut,
+          layout: s.layout,
+          timeLimitMs: s.nestingTimeLimitMs,
+        }}
       />
     </>
   );

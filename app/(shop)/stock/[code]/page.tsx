@@ -23,7 +23,12 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
   const code = decodeURIComponent((await params).code);
   const block = await getBlock(code);
   if (!block) notFound();
-  const [defects, offcuts, history, unit] = await Promise.all([listDefects(block.id), listChildren(block.id), listLedgerEntries({ blockId: block.id, pageSize: 200 }), displayUnit(user)]);
+  const [defects, offcuts, history, unit] = await Promise.all([
+    listDefects(block.id),
+    listChildren(block.id),
+    listLedgerEntries({ blockId: block.id, pageSize: 200 }),
+    displayUnit(user),
+  ]);
   const has = (...r: string[]) => user.roles.some((x) => x === "admin" || r.includes(x));
   const lowDensity = block.densityKgM3 !== null && block.minDensity !== null && block.densityKgM3 < block.minDensity;
   const inStock = block.status === "in_stock";
@@ -37,51 +42,98 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
             <GradeChip code={block.gradeCode} colour={block.colour} noWire={block.neverHotWire} />
             <span>{block.gradeLabel}</span>
             <StatusBadge status={block.shown} />
-            {block.isOffcut && <span>Offcut of <Link href={`/stock/${encodeURIComponent(block.parentCode!)}`}>{block.parentCode}</Link></span>}
+            {block.isOffcut && (
+              <span>
+                Offcut of <Link href={`/stock/${encodeURIComponent(block.parentCode!)}`}>{block.parentCode}</Link>
+              </span>
+            )}
           </span>
         }
-        actions={<Link className={buttonClass("secondary")} href={`/labels?codes=${encodeURIComponent(block.code)}`}>Print label</Link>}
+        actions={
+          <Link className={buttonClass("secondary")} href={`/labels?codes=${encodeURIComponent(block.code)}`}>
+            Print label
+          </Link>
+        }
       />
       <div className="space-y-5">
         {block.neverHotWire && (
           <Notice tone="danger" title="Never hot-wire this material">
-            Polyurethane gives off isocyanates, amines and hydrogen cyanide when heated. Route or carve it; follow its safety data sheet and local rules.
+            Polyurethane gives off isocyanates, amines and hydrogen cyanide when heated. Route or carve it; follow its
+            safety data sheet and local rules.
           </Notice>
         )}
         {block.shown === "settling" && (
-          <Notice tone="caution">Still settling: cutting before {block.cutNotBefore} risks out-of-square, warped parts.</Notice>
+          <Notice tone="caution">
+            Still settling: cutting before {block.cutNotBefore} risks out-of-square, warped parts.
+          </Notice>
         )}
         {lowDensity && (
           <Notice tone="caution">
-            Measured density {block.densityKgM3!.toFixed(1)} kg/m³ is below the {block.gradeCode} minimum of {block.minDensity} kg/m³. Check the weighing and tell the supplier.
+            Measured density {block.densityKgM3!.toFixed(1)} kg/m³ is below the {block.gradeCode} minimum of{" "}
+            {block.minDensity} kg/m³. Check the weighing and tell the supplier.
           </Notice>
         )}
 
         <div className="grid gap-5 lg:grid-cols-[1fr_20rem]">
           <Card title="Faces and defects">
-            <FaceViews size={block.size} defects={defects.map((d) => ({ id: d.id, kind: d.kind, min: d.min, max: d.max }))} unit={unit} />
+            <FaceViews
+              size={block.size}
+              defects={defects.map((d) => ({ id: d.id, kind: d.kind, min: d.min, max: d.max }))}
+              unit={unit}
+            />
           </Card>
           <Card title="Facts">
             <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1.5 text-sm">
-              <dt className="text-ink-faint">Measured</dt><dd>{formatSize(block.size, unit)}</dd>
-              <dt className="text-ink-faint">Nominal</dt><dd>{formatSize(block.nominalSize, unit)}</dd>
-              <dt className="text-ink-faint">Volume</dt><dd>{block.volumeM3.toFixed(3)} m³ · {m3ToBoardFeet(block.volumeM3).toFixed(0)} BF</dd>
-              <dt className="text-ink-faint">Weight</dt><dd>{block.weightKg === null ? "not weighed" : `${block.weightKg} kg`}</dd>
-              <dt className="text-ink-faint">Density</dt><dd className={lowDensity ? "font-semibold text-ember" : ""}>{block.densityKgM3 === null ? "–" : `${block.densityKgM3.toFixed(1)} kg/m³`}{block.minDensity !== null && <span className="text-ink-faint"> (min {block.minDensity})</span>}</dd>
-              <dt className="text-ink-faint">Value</dt><dd>{block.cost.toLocaleString("en", { style: "currency", currency: "USD" })}</dd>
-              <dt className="text-ink-faint">Location</dt><dd>{block.location}</dd>
-              <dt className="text-ink-faint">Lot</dt><dd>{block.lot}</dd>
-              <dt className="text-ink-faint">Supplier</dt><dd>{block.supplier ?? "–"}{block.poRef && <span className="text-ink-faint"> · {block.poRef}</span>}</dd>
-              <dt className="text-ink-faint">Received</dt><dd>{block.receivedOn ?? "–"}</dd>
-              <dt className="text-ink-faint">Moulded</dt><dd>{block.mouldedOn ?? "–"}</dd>
-              <dt className="text-ink-faint">Cut not before</dt><dd>{block.cutNotBefore} <span className="text-ink-faint">({block.cureDays} days)</span></dd>
-              <dt className="text-ink-faint">FIFO</dt><dd>{block.fifo ? `#${block.fifo} of ready ${block.gradeCode}` : "–"}</dd>
-              <dt className="text-ink-faint">Status</dt><dd>{STATUS_LABELS[block.shown]}</dd>
+              <dt className="text-ink-faint">Measured</dt>
+              <dd>{formatSize(block.size, unit)}</dd>
+              <dt className="text-ink-faint">Nominal</dt>
+              <dd>{formatSize(block.nominalSize, unit)}</dd>
+              <dt className="text-ink-faint">Volume</dt>
+              <dd>
+                {block.volumeM3.toFixed(3)} m³ · {m3ToBoardFeet(block.volumeM3).toFixed(0)} BF
+              </dd>
+              <dt className="text-ink-faint">Weight</dt>
+              <dd>{block.weightKg === null ? "not weighed" : `${block.weightKg} kg`}</dd>
+              <dt className="text-ink-faint">Density</dt>
+              <dd className={lowDensity ? "font-semibold text-ember" : ""}>
+                {block.densityKgM3 === null ? "–" : `${block.densityKgM3.toFixed(1)} kg/m³`}
+                {block.minDensity !== null && <span className="text-ink-faint"> (min {block.minDensity})</span>}
+              </dd>
+              <dt className="text-ink-faint">Value</dt>
+              <dd>{block.cost.toLocaleString("en", { style: "currency", currency: "USD" })}</dd>
+              <dt className="text-ink-faint">Location</dt>
+              <dd>{block.location}</dd>
+              <dt className="text-ink-faint">Lot</dt>
+              <dd>{block.lot}</dd>
+              <dt className="text-ink-faint">Supplier</dt>
+              <dd>
+                {block.supplier ?? "–"}
+                {block.poRef && <span className="text-ink-faint"> · {block.poRef}</span>}
+              </dd>
+              <dt className="text-ink-faint">Received</dt>
+              <dd>{block.receivedOn ?? "–"}</dd>
+              <dt className="text-ink-faint">Moulded</dt>
+              <dd>{block.mouldedOn ?? "–"}</dd>
+              <dt className="text-ink-faint">Cut not before</dt>
+              <dd>
+                {block.cutNotBefore} <span className="text-ink-faint">({block.cureDays} days)</span>
+              </dd>
+              <dt className="text-ink-faint">FIFO</dt>
+              <dd>{block.fifo ? `#${block.fifo} of ready ${block.gradeCode}` : "–"}</dd>
+              <dt className="text-ink-faint">Status</dt>
+              <dd>{STATUS_LABELS[block.shown]}</dd>
             </dl>
           </Card>
         </div>
 
-        <Card title={`Defect zones (${defects.length})`} action={has("cutter") && inStock ? <Link href={`/defects/new?code=${encodeURIComponent(block.code)}`}>Flag a defect</Link> : undefined}>
+        <Card
+          title={`Defect zones (${defects.length})`}
+          action={
+            has("cutter") && inStock ? (
+              <Link href={`/defects/new?code=${encodeURIComponent(block.code)}`}>Flag a defect</Link>
+            ) : undefined
+          }
+        >
           {defects.length === 0 ? (
             <p className="text-sm text-ink-soft">None recorded.</p>
           ) : (
@@ -89,18 +141,28 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
               {defects.map((d) => (
                 <li key={d.id} className="flex flex-wrap items-start gap-4 py-3 text-sm">
                   <div className="min-w-56">
-                    <p className="font-medium">{DEFECT_LABELS[d.kind]} <span className="font-normal text-ink-faint">#{d.id}</span></p>
-                    <p className="text-ink-soft">
-                      from ({d.min.map((v) => formatLength(v, unit)).join(", ")}) to ({d.max.map((v) => formatLength(v, unit)).join(", ")})
+                    <p className="font-medium">
+                      {DEFECT_LABELS[d.kind]} <span className="font-normal text-ink-faint">#{d.id}</span>
                     </p>
-                    <p className="text-ink-faint">{d.foundBy ?? "someone"} · {d.foundAt.slice(0, 10)}{d.inheritedFrom && " · carried over from the parent block"}</p>
+                    <p className="text-ink-soft">
+                      from ({d.min.map((v) => formatLength(v, unit)).join(", ")}) to (
+                      {d.max.map((v) => formatLength(v, unit)).join(", ")})
+                    </p>
+                    <p className="text-ink-faint">
+                      {d.foundBy ?? "someone"} · {d.foundAt.slice(0, 10)}
+                      {d.inheritedFrom && " · carried over from the parent block"}
+                    </p>
                     {d.note && <p>{d.note}</p>}
                   </div>
                   <div className="flex flex-wrap gap-2">
                     {d.photos.map((p) => (
                       <a key={p.id} href={`/api/photos/${p.id}?size=full`} target="_blank" rel="noreferrer">
                         {/* eslint-disable-next-line @next/next/no-img-element */}
-                        <img src={`/api/photos/${p.id}?size=thumb`} alt={`Photo of defect ${d.id}`} className="h-20 w-28 rounded border border-bead object-cover" />
+                        <img
+                          src={`/api/photos/${p.id}?size=thumb`}
+                          alt={`Photo of defect ${d.id}`}
+                          className="h-20 w-28 rounded border border-bead object-cover"
+                        />
                       </a>
                     ))}
                   </div>
@@ -115,7 +177,13 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
             <div className="space-y-2 text-sm">
               <p>
                 {block.isOffcut ? (
-                  <>Cut from <Link href={`/stock/${encodeURIComponent(block.parentCode!)}`}>{block.parentCode}</Link>{block.originInParent && <> at ({block.originInParent.map((v) => formatLength(v, unit)).join(", ")})</>}.</>
+                  <>
+                    Cut from <Link href={`/stock/${encodeURIComponent(block.parentCode!)}`}>{block.parentCode}</Link>
+                    {block.originInParent && (
+                      <> at ({block.originInParent.map((v) => formatLength(v, unit)).join(", ")})</>
+                    )}
+                    .
+                  </>
                 ) : (
                   <>A whole block from lot {block.lot}.</>
                 )}
@@ -136,16 +204,33 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
           <Card title="History">
             <ol className="space-y-2 text-sm">
               {history.map((e) => (
-                <li key={e.id} className="flex flex-wrap justify-between gap-2 border-b border-bead/60 pb-1 last:border-0">
-                  <span><strong>{LEDGER_LABELS[e.kind]}</strong>{e.reason && <span className="text-ink-soft"> · {e.reason}</span>}</span>
-                  <span className="text-ink-faint">{e.deltaM3 !== 0 && `${e.deltaM3 > 0 ? "+" : ""}${e.deltaM3.toFixed(3)} m³ · `}{e.user ?? "system"} · {e.at.slice(0, 10)}</span>
+                <li
+                  key={e.id}
+                  className="flex flex-wrap justify-between gap-2 border-b border-bead/60 pb-1 last:border-0"
+                >
+                  <span>
+                    <strong>{LEDGER_LABELS[e.kind]}</strong>
+                    {e.reason && <span className="text-ink-soft"> · {e.reason}</span>}
+                  </span>
+                  <span className="text-ink-faint">
+                    {e.deltaM3 !== 0 && `${e.deltaM3 > 0 ? "+" : ""}${e.deltaM3.toFixed(3)} m³ · `}
+                    {e.user ?? "system"} · {e.at.slice(0, 10)}
+                  </span>
                 </li>
               ))}
             </ol>
           </Card>
         </div>
 
-        <BlockActions blockId={block.id} code={block.code} location={block.location} size={block.size} canMove={has("buyer", "cutter")} canCorrect={has("buyer")} inStock={inStock} />
+        <BlockActions
+          blockId={block.id}
+          code={block.code}
+          location={block.location}
+          size={block.size}
+          canMove={has("buyer", "cutter")}
+          canCorrect={has("buyer")}
+          inStock={inStock}
+        />
       </div>
     </>
   );

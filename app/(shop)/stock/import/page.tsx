@@ -9,7 +9,10 @@ export default async function ImportPage() {
   await requireRole("buyer");
   return (
     <>
-      <PageHeader title="CSV import" lead="Bring in deliveries or a stock count from your purchasing spreadsheet. Every row is checked first; then all rows go in, or none." />
+      <PageHeader
+        title="CSV import"
+        lead="Bring in deliveries or a stock count from your purchasing spreadsheet. Every row is checked first; then all rows go in, or none."
+      />
       <CsvImport />
     </>
   );

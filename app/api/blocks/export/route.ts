@@ -38,6 +38,28 @@ export const GET = api("GET /api/blocks/export", async ({ req }) => {
     }
     if (items.length < 200) break;
   }
-  const columns = ["code", "grade", "material", "lot", "status", "length_mm", "width_mm", "height_mm", "volume_m3", "board_feet", "weight_kg", "density_kg_m3", "cost", "location", "moulded_on", "cut_not_before", "fifo", "offcut_of", "defects", "supplier", "received_on"];
+  const columns = [
+    "code",
+    "grade",
+    "material",
+    "lot",
+    "status",
+    "length_mm",
+    "width_mm",
+    "height_mm",
+    "volume_m3",
+    "board_feet",
+    "weight_kg",
+    "density_kg_m3",
+    "cost",
+    "location",
+    "moulded_on",
+    "cut_not_before",
+    "fifo",
+    "offcut_of",
+    "defects",
+    "supplier",
+    "received_on",
+  ];
   return csvResponse(toCsv(rows, columns), `blockyard-stock-${isoDate()}.csv`);
 });

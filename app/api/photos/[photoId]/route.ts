@@ -14,7 +14,8 @@ type P = { photoId: string };
 export const GET = api<P>("GET /api/photos/[photoId]", async ({ req, params }) => {
   const id = idParam(params.photoId, "That photo");
   const size = req.nextUrl.searchParams.get("size") ?? "full";
-  if (size !== "full" && size !== "thumb") throw new HttpError(400, "size must be thumb or full.", { size: "Use size=thumb or size=full." });
+  if (size !== "full" && size !== "thumb")
+    throw new HttpError(400, "size must be thumb or full.", { size: "Use size=thumb or size=full." });
   const photo = await getPhoto(id);
   if (!photo) throw notFound("That photo");
   requireStorage();
@@ -22,7 +23,10 @@ export const GET = api<P>("GET /api/photos/[photoId]", async ({ req, params }) =
   try {
     obj = await getObject(size === "thumb" ? photo.thumbKey : photo.objectKey);
   } catch (e) {
-    if (isStorageDown(e)) throw new HttpError(503, "Photo storage cannot be reached; try again in a moment.", undefined, { "Retry-After": "5" });
+    if (isStorageDown(e))
+      throw new HttpError(503, "Photo storage cannot be reached; try again in a moment.", undefined, {
+        "Retry-After": "5",
+      });
     throw e;
   }
   if (!obj) throw new HttpError(404, "That photo's file is missing from storage.");

@@ -6,5 +6,8 @@ import { draftFromReorderSchema } from "@/lib/validations/purchasing";
 /** Drafts orders for the ticked grades: one per supplier. */
 export const POST = api("POST /api/reorder/draft", async ({ req, user }) => {
   const input = await readJson(req, draftFromReorderSchema);
-  return NextResponse.json({ orders: await draftFromReorder(input.gradeIds, input.expectedOn, user!.id) }, { status: 201 });
+  return NextResponse.json(
+    { orders: await draftFromReorder(input.gradeIds, input.expectedOn, user!.id) },
+    { status: 201 },
+  );
 });

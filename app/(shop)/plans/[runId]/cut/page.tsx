@@ -23,13 +23,30 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
   const partName = (k: string) => names.get(partIdFromKey(k)) ?? k;
   const inPlan = run.blocks.filter((b) => b.planStatus);
-  const offcutsOf = new Map(await Promise.all(inPlan.filter((b) => b.planStatus === "cut").map(async (b) => [b.id, (await listChildren(b.id)).map((c) => c.code)] as const)));
+  const offcutsOf = new Map(
+    await Promise.all(
+      inPlan
+        .filter((b) => b.planStatus === "cut")
+        .map(async (b) => [b.id, (await listChildren(b.id)).map((c) => c.code)] as const),
+    ),
+  );
   return (
     <>
-      <PageHeader title={`At the machine · plan #${run.id}`} lead={<>{run.jobNames.join(", ")} · <Link href={`/plans/${run.id}/sheet`}>cut sheet</Link></>} />
+      <PageHeader
+        title={`At the machine · plan #${run.id}`}
+        lead={
+          <>
+            {run.jobNames.join(", ")} · <Link href={`/plans/${run.id}/sheet`}>cut sheet</Link>
+          </>
+        }
+      />
       <div className="space-y-5">
         <HotWireCaution />
-        {run.status !== "approved" && <Notice tone="caution">This plan is {run.status === "closed" ? "fully cut" : "not approved"}: nothing to record here.</Notice>}
+        {run.status !== "approved" && (
+          <Notice tone="caution">
+            This plan is {run.status === "closed" ? "fully cut" : "not approved"}: nothing to record here.
+          </Notice>
+        )}
         {inPlan.map((b) => {
           const pb = run.problem.blocks.find((x) => x.id === b.code)!;
           const placements = plan.placements.filter((p) => p.block === b.code);
@@ -37,7 +54,21 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
           const counts = new Map<number, number>();
           for (const p of placements) counts.set(partIdFromKey(p.part), (counts.get(partIdFromKey(p.part)) ?? 0) + 1);
           return (
-            <Card key={b.id} title={<span className="flex items-center gap-2">{b.code} {b.planStatus === "cut" ? <Badge tone="moss">cut</Badge> : b.planStatus === "released" ? <Badge>released</Badge> : <Badge tone="kerf">to cut</Badge>}</span>}>
+            <Card
+              key={b.id}
+              title={
+                <span className="flex items-center gap-2">
+                  {b.code}{" "}
+                  {b.planStatus === "cut" ? (
+                    <Badge tone="moss">cut</Badge>
+                  ) : b.planStatus === "released" ? (
+                    <Badge>released</Badge>
+                  ) : (
+                    <Badge tone="kerf">to cut</Badge>
+                  )}
+                </span>
+              }
+            >
               {stuck > 0 && (
                 <div className="mb-3">
                   <NotCuttable count={stuck} />
@@ -45,21 +76,43 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
               )}
               {/* The drawing full width above the form: at the machine it is what people look at. */}
               <div className="space-y-5">
-                <PlanView block={{ id: b.code, size: pb.size, defects: pb.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={placements} offcuts={plan.offcuts.filter((o) => o.block === b.code)} cuts={plan.cuts[b.code] ?? []} kerf={run.settings.kerf} trim={pb.trim} partName={partName} showLayers={false} />
+                <PlanView
+                  block={{ id: b.code, size: pb.size, defects: pb.defects.map((d) => ({ min: d.min, max: d.max })) }}
+                  placements={placements}
+                  offcuts={plan.offcuts.filter((o) => o.block === b.code)}
+                  cuts={plan.cuts[b.code] ?? []}
+                  kerf={run.settings.kerf}
+                  trim={pb.trim}
+                  partName={partName}
+                  showLayers={false}
+                />
                 {b.planStatus === "reserved" && run.status === "approved" ? (
-                  <CutBlockForm runId={run.id} blockId={b.id} code={b.code} parts={[...counts].map(([jobPartId, count]) => ({ jobPartId, count, name: names.get(jobPartId) ?? `part ${jobPartId}` }))} />
+                  <CutBlockForm
+                    runId={run.id}
+                    blockId={b.id}
+                    code={b.code}
+                    parts={[...counts].map(([jobPartId, count]) => ({
+                      jobPartId,
+                      count,
+                      name: names.get(jobPartId) ?? `part ${jobPartId}`,
+                    }))}
+                  />
+                ) : b.planStatus === "cut" ? (
+                  <Notice tone="success" title={`${b.code} is cut`}>
+                    {offcutsOf.get(b.id)?.length ? (
+                      <>
+                        Offcuts now in stock: {offcutsOf.get(b.id)!.join(", ")}.{" "}
+                        <Link href={`/labels?codes=${encodeURIComponent(offcutsOf.get(b.id)!.join(","))}`}>
+                          Print their labels
+                        </Link>
+                        .
+                      </>
+                    ) : (
+                      "No offcuts were kept from it."
+                    )}
+                  </Notice>
                 ) : (
-                  b.planStatus === "cut" ? (
-                    <Notice tone="success" title={`${b.code} is cut`}>
-                      {offcutsOf.get(b.id)?.length ? (
-                        <>Offcuts now in stock: {offcutsOf.get(b.id)!.join(", ")}. <Link href={`/labels?codes=${encodeURIComponent(offcutsOf.get(b.id)!.join(","))}`}>Print their labels</Link>.</>
-                      ) : (
-                        "No offcuts were kept from it."
-                      )}
-                    </Notice>
-                  ) : (
-                    <p className="text-sm text-ink-soft">Released: not part of the work any more.</p>
-                  )
+                  <p className="text-sm text-ink-soft">Released: not part of the work any more.</p>
                 )}
               </div>
             </Card>

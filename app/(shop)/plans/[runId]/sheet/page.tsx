@@ -38,10 +38,24 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
       const labels = await Promise.all(
         offcuts.map(async (o, i) => {
           const code = `${b.id}.${existing + i + 1}`;
-          return { code, size: o.size, svg: await QRCode.toString(code, { type: "svg", margin: 1, errorCorrectionLevel: "M" }) };
+          return {
+            code,
+            size: o.size,
+            svg: await QRCode.toString(code, { type: "svg", margin: 1, errorCorrectionLevel: "M" }),
+          };
         }),
       );
-      return { b, offcuts, labels, stuck: stuckPieces(plan, b.id, run.settings.kerf), estimate: cutEstimate(b.size, plan.cuts[b.id] ?? [], settings.feedMmPerMin, 10, { trim: b.trim, kerf: run.settings.kerf, pieces: piecesOf(plan, b.id) }) };
+      return {
+        b,
+        offcuts,
+        labels,
+        stuck: stuckPieces(plan, b.id, run.settings.kerf),
+        estimate: cutEstimate(b.size, plan.cuts[b.id] ?? [], settings.feedMmPerMin, 10, {
+          trim: b.trim,
+          kerf: run.settings.kerf,
+          pieces: piecesOf(plan, b.id),
+        }),
+      };
     }),
   );
   return (
@@ -49,17 +63,30 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
       <div className="flex flex-wrap items-start justify-between gap-3">
         <div>
           <h1>Cut sheet · plan #{run.id}</h1>
-          <p className="text-ink-soft">{run.jobNames.join(", ")} · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · feed {settings.feedMmPerMin} mm/min</p>
+          <p className="text-ink-soft">
+            {run.jobNames.join(", ")} · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · feed{" "}
+            {settings.feedMmPerMin} mm/min
+          </p>
         </div>
         <PrintButton label="Print cut sheet" />
       </div>
       <section className="rounded-md border-2 border-wire bg-wire-light p-3 text-sm">
         <p className="font-semibold">Before you heat the wire</p>
-        <p>Ventilate: heated polystyrene gives off styrene; use the lowest wire heat that cuts, and the wire should never smoke. The wire burns and may carry tens of volts: never leave it hot and unattended. Never hot-wire polyurethane. Follow local codes, the material&apos;s safety data sheet and licensed practice.</p>
+        <p>
+          Ventilate: heated polystyrene gives off styrene; use the lowest wire heat that cuts, and the wire should never
+          smoke. The wire burns and may carry tens of volts: never leave it hot and unattended. Never hot-wire
+          polyurethane. Follow local codes, the material&apos;s safety data sheet and licensed practice.
+        </p>
       </section>
       {sheets.map(({ b, offcuts, labels, stuck, estimate }) => (
         <section key={b.id} className="break-inside-avoid space-y-3 border-t border-bead pt-4 print:break-after-page">
-          <h2>Block {b.id} <span className="text-sm font-normal text-ink-soft">{dims(b.size)} mm · {b.grade}{b.offcut ? " · offcut (faces clean)" : ` · trim ${run.settings.trim} mm each face first`}</span></h2>
+          <h2>
+            Block {b.id}{" "}
+            <span className="text-sm font-normal text-ink-soft">
+              {dims(b.size)} mm · {b.grade}
+              {b.offcut ? " · offcut (faces clean)" : ` · trim ${run.settings.trim} mm each face first`}
+            </span>
+          </h2>
           {stuck > 0 && <NotCuttable count={stuck} />}
           <div className="grid gap-4 lg:grid-cols-2">
             <div>
@@ -68,19 +95,36 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                 {cutRuns(plan.cuts[b.id] ?? []).map((r) => {
                   const across = r.axis === "x" ? "the length" : r.axis === "y" ? "the width" : "the height";
                   return r.to === r.from ? (
-                    <li key={r.from} value={r.from}>across {across}, kerf starting at {mm(r.first)} mm</li>
+                    <li key={r.from} value={r.from}>
+                      across {across}, kerf starting at {mm(r.first)} mm
+                    </li>
                   ) : (
                     <li key={r.from} value={r.from}>
-                      <span className="font-medium">cuts {r.from}–{r.to}</span>: across {across},{" "}
-                      {r.step > 0 ? `kerf starting at ${mm(r.first)} mm, then every ${mm(r.step)} mm to ${mm(r.last)} mm (${r.to - r.from + 1} cuts)` : `kerf starting at ${mm(r.first)} mm in each of the next ${r.to - r.from + 1} pieces`}
+                      <span className="font-medium">
+                        cuts {r.from}–{r.to}
+                      </span>
+                      : across {across},{" "}
+                      {r.step > 0
+                        ? `kerf starting at ${mm(r.first)} mm, then every ${mm(r.step)} mm to ${mm(r.last)} mm (${r.to - r.from + 1} cuts)`
+                        : `kerf starting at ${mm(r.first)} mm in each of the next ${r.to - r.from + 1} pieces`}
                     </li>
                   );
                 })}
               </ol>
-              <p className="mt-1 text-xs text-ink-faint">About {Math.round(estimate.minutes)} min of cutting ({(estimate.lengthMm / 1000).toFixed(1)} m of wire travel across the pieces each cut splits).</p>
+              <p className="mt-1 text-xs text-ink-faint">
+                About {Math.round(estimate.minutes)} min of cutting ({(estimate.lengthMm / 1000).toFixed(1)} m of wire
+                travel across the pieces each cut splits).
+              </p>
               <h3 className="mt-3 text-sm font-semibold">Parts</h3>
               <table className="text-sm">
-                <thead><tr className="text-left [&>th]:pr-4 [&>th]:font-medium"><th>Part</th><th className="text-right">Count</th><th>Size (mm)</th><th>At (x, y, z mm)</th></tr></thead>
+                <thead>
+                  <tr className="text-left [&>th]:pr-4 [&>th]:font-medium">
+                    <th>Part</th>
+                    <th className="text-right">Count</th>
+                    <th>Size (mm)</th>
+                    <th>At (x, y, z mm)</th>
+                  </tr>
+                </thead>
                 <tbody>
                   {groupPlacements(plan.placements.filter((p) => p.block === b.id)).map((l, i) => (
                     <tr key={i} className="border-t border-bead/60 align-top [&>td]:pr-4">
@@ -88,27 +132,47 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                       <td className="text-right tabular-nums">{l.count}</td>
                       <td className="whitespace-nowrap">{dims(l.size)}</td>
                       <td>
-                        {l.origins.slice(0, 4).map((o) => `(${o.map(mm).join(", ")})`).join(" · ")}
-                        {l.count > 4 && <span className="text-ink-faint"> and {l.count - 4} more (see the drawing)</span>}
+                        {l.origins
+                          .slice(0, 4)
+                          .map((o) => `(${o.map(mm).join(", ")})`)
+                          .join(" · ")}
+                        {l.count > 4 && (
+                          <span className="text-ink-faint"> and {l.count - 4} more (see the drawing)</span>
+                        )}
                       </td>
                     </tr>
                   ))}
                 </tbody>
               </table>
             </div>
-            <PlanView block={{ id: b.id, size: b.size, defects: b.defects.map((d) => ({ min: d.min, max: d.max })) }} placements={plan.placements.filter((p) => p.block === b.id)} offcuts={offcuts} cuts={plan.cuts[b.id] ?? []} kerf={run.settings.kerf} trim={b.trim} partName={partName} showLayers={false} />
+            <PlanView
+              block={{ id: b.id, size: b.size, defects: b.defects.map((d) => ({ min: d.min, max: d.max })) }}
+              placements={plan.placements.filter((p) => p.block === b.id)}
+              offcuts={offcuts}
+              cuts={plan.cuts[b.id] ?? []}
+              kerf={run.settings.kerf}
+              trim={b.trim}
+              partName={partName}
+              showLayers={false}
+            />
           </div>
           {labels.length > 0 && (
             <div>
               <h3 className="text-sm font-semibold">Offcut labels (stick on as each offcut comes free)</h3>
               <div className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-3">
                 {labels.map((l) => (
-                  <div key={l.code} className="flex items-center gap-3 rounded border border-ink p-2" data-testid="offcut-label">
+                  <div
+                    key={l.code}
+                    className="flex items-center gap-3 rounded border border-ink p-2"
+                    data-testid="offcut-label"
+                  >
                     <div className="size-20 shrink-0" dangerouslySetInnerHTML={{ __html: l.svg }} />
                     <div className="text-sm">
                       <p className="text-lg font-bold">{l.code}</p>
                       <p>{dims(l.size)} mm</p>
-                      <p>{b.grade} · offcut of {b.id}</p>
+                      <p>
+                        {b.grade} · offcut of {b.id}
+                      </p>
                     </div>
                   </div>
                 ))}

@@ -12,9 +12,18 @@ export default async function NewOrderPage() {
   const [rows, suppliers] = await Promise.all([listReorder(), listSuppliers()]);
   return (
     <>
-      <PageHeader title="Write an order" lead="A draft until you send it. Block size and price start from the grade's last delivery." />
+      <PageHeader
+        title="Write an order"
+        lead="A draft until you send it. Block size and price start from the grade's last delivery."
+      />
       <PoForm
-        grades={rows.map((r) => ({ id: r.gradeId, code: r.gradeCode, priceUnit: r.priceUnit, blockSize: r.blockSize, lastPrice: r.lastPrice }))}
+        grades={rows.map((r) => ({
+          id: r.gradeId,
+          code: r.gradeCode,
+          priceUnit: r.priceUnit,
+          blockSize: r.blockSize,
+          lastPrice: r.lastPrice,
+        }))}
         suppliers={suppliers.filter((s) => s.active).map((s) => ({ id: s.id, name: s.name, email: s.email }))}
       />
     </>

@@ -16,7 +16,9 @@ export const PATCH = api<P>("PATCH /api/admin/users/[userId]", async ({ req, par
   const target = await getUser(params.userId);
   if (!target) throw notFound("That user");
   // The shop must keep at least one active admin, or nobody can manage users again.
-  const losesAdmin = target.roles.includes("admin") && target.active &&
+  const losesAdmin =
+    target.roles.includes("admin") &&
+    target.active &&
     (patch.active === false || (patch.roles && !patch.roles.includes("admin")));
   if (losesAdmin && (await countActiveAdmins(target.id)) === 0) {
     throw new HttpError(409, "Blockyard needs at least one active admin. Give another user the admin role first.");

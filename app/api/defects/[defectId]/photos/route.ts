@@ -12,13 +12,17 @@ export const POST = api<P>("POST /api/defects/[defectId]/photos", async ({ req, 
   const id = idParam(params.defectId, "That defect zone");
   if (!(await getDefect(id))) throw notFound("That defect zone");
   if (!(req.headers.get("content-type") ?? "").toLowerCase().startsWith("multipart/form-data")) {
-    throw new HttpError(415, "Send the photos as multipart/form-data, in a field named \"photos\".");
+    throw new HttpError(415, 'Send the photos as multipart/form-data, in a field named "photos".');
   }
   const length = Number(req.headers.get("content-length") ?? 0);
   if (length > MAX_UPLOAD_BYTES) {
-    throw new HttpError(413, `This upload is ${Math.ceil(length / 1024 / 1024)} MB; send at most ${Math.floor(MAX_UPLOAD_BYTES / 1024 / 1024)} MB at a time.`, {
-      photos: "Too much at once: send fewer photos per upload.",
-    });
+    throw new HttpError(
+      413,
+      `This upload is ${Math.ceil(length / 1024 / 1024)} MB; send at most ${Math.floor(MAX_UPLOAD_BYTES / 1024 / 1024)} MB at a time.`,
+      {
+        photos: "Too much at once: send fewer photos per upload.",
+      },
+    );
   }
   let form: FormData;
   try {

@@ -14,7 +14,10 @@ type P = { jobId: string };
  */
 export const POST = api<P>("POST /api/jobs/[jobId]/parts", async ({ req, params, user }) => {
   const jobId = idParam(params.jobId, "That job");
-  const body = await readJson(req, z.record(z.string(), z.unknown(), { error: "Send a part, or { items } from the library." }));
+  const body = await readJson(
+    req,
+    z.record(z.string(), z.unknown(), { error: "Send a part, or { items } from the library." }),
+  );
   if ("items" in body) {
     const { items } = parseWith(fromLibrarySchema, body);
     return NextResponse.json({ parts: await addLibraryParts(jobId, items, user!.id) }, { status: 201 });

@@ -20,9 +20,18 @@ export const POST = api<P>("POST /api/purchase-orders/[poId]/send", async ({ req
   const po = await assertCanSend(id);
   let mail: { messageId: string; to: string } | null = null;
   if (email) {
-    if (!po.supplierEmail) throw new HttpError(400, `${po.supplier} has no e-mail address: add one on the suppliers page, or mark the order sent without e-mail.`, { email: "The supplier has no e-mail address." });
+    if (!po.supplierEmail)
+      throw new HttpError(
+        400,
+        `${po.supplier} has no e-mail address: add one on the suppliers page, or mark the order sent without e-mail.`,
+        { email: "The supplier has no e-mail address." },
+      );
     const shop = await getShopSettings();
-    const sent = await sendMail(purchaseOrderMail(po, shop.shopName), { kind: "purchase_order", ref: `po:${id}`, sentBy: user!.id });
+    const sent = await sendMail(purchaseOrderMail(po, shop.shopName), {
+      kind: "purchase_order",
+      ref: `po:${id}`,
+      sentBy: user!.id,
+    });
     mail = { messageId: sent.messageId, to: po.supplierEmail };
   }
   await markSent(id, user!.id, email ? "email" : "other");

@@ -24,5 +24,8 @@ export const GET = api<P>("GET /api/runs/[runId]/cut-list", async ({ params }) =
     width_mm: r2(p.size[1]),
     height_mm: r2(p.size[2]),
   }));
-  return csvResponse(toCsv(rows, ["line", "block", "part", "x_mm", "y_mm", "z_mm", "length_mm", "width_mm", "height_mm"]), `blockyard-plan-${run.id}-cut-list.csv`);
+  return csvResponse(
+    toCsv(rows, ["line", "block", "part", "x_mm", "y_mm", "z_mm", "length_mm", "width_mm", "height_mm"]),
+    `blockyard-plan-${run.id}-cut-list.csv`,
+  );
 });

@@ -17,7 +17,13 @@ export const GET = api<P>("GET /api/runs/[runId]/gcode", async ({ req, params })
   const b = run?.problem.blocks.find((x) => x.id === block);
   if (!run?.plan || !b) throw notFound("That block in this plan");
   const { feedMmPerMin } = await getShopSettings();
-  const program = gcode({ code: b.id, size: b.size, cuts: run.plan.cuts[b.id] ?? [], kerf: run.settings.kerf, feed: feedMmPerMin });
+  const program = gcode({
+    code: b.id,
+    size: b.size,
+    cuts: run.plan.cuts[b.id] ?? [],
+    kerf: run.settings.kerf,
+    feed: feedMmPerMin,
+  });
   return new Response(program, {
     headers: {
       "content-type": "text/plain; charset=utf-8",

@@ -22,18 +22,37 @@ export default async function ReceivePage({ params }: { params: Promise<{ poId: 
   const locations = await listLocations();
   return (
     <>
-      <PageHeader title={`Receive against ${po.number}`} lead={`${po.supplier}. Weigh each block: density is checked against the grade's minimum. Cut-not-before dates follow each grade's cure days.`} actions={<Link className="self-center text-sm" href={`/purchasing/orders/${po.id}`}>Back to the order</Link>} />
+      <PageHeader
+        title={`Receive against ${po.number}`}
+        lead={`${po.supplier}. Weigh each block: density is checked against the grade's minimum. Cut-not-before dates follow each grade's cure days.`}
+        actions={
+          <Link className="self-center text-sm" href={`/purchasing/orders/${po.id}`}>
+            Back to the order
+          </Link>
+        }
+      />
       {refusal ? (
         <Notice tone="caution">{refusal}</Notice>
       ) : (
         <ReceiveForm
           poId={po.id}
-          lines={po.lines.map((l, i) => ({ id: l.id, no: i + 1, gradeCode: l.gradeCode, size: l.size, quantity: l.quantity, volumeM3: l.volumeM3, receivedM3: l.receivedM3, receivedBlocks: l.receivedBlocks }))}
+          lines={po.lines.map((l, i) => ({
+            id: l.id,
+            no: i + 1,
+            gradeCode: l.gradeCode,
+            size: l.size,
+            quantity: l.quantity,
+            volumeM3: l.volumeM3,
+            receivedM3: l.receivedM3,
+            receivedBlocks: l.receivedBlocks,
+          }))}
           locations={locations.length ? locations : ["Curing room"]}
           today={isoDate()}
         />
       )}
-      <div className="mt-6"><StorageCaution /></div>
+      <div className="mt-6">
+        <StorageCaution />
+      </div>
     </>
   );
 }

@@ -14,7 +14,13 @@ export const POST = api<P>("POST /api/jobs/[jobId]/parts/import", async ({ req, 
   const jobId = idParam(params.jobId, "That job");
   const bytes = await readCsvBody(req, 5 * 1024 * 1024);
   const commit = req.nextUrl.searchParams.get("commit") === "1";
-  const report = await importJobParts(jobId, bytes, req.nextUrl.searchParams.get("name")?.slice(0, 200) ?? null, user!.id, commit);
+  const report = await importJobParts(
+    jobId,
+    bytes,
+    req.nextUrl.searchParams.get("name")?.slice(0, 200) ?? null,
+    user!.id,
+    commit,
+  );
   const status = report.problemCount ? 422 : commit ? 201 : 200;
   return NextResponse.json(report, { status });
 });
