@@ -15,6 +15,7 @@ export default function GlobalError({ reset }: { error: Error; reset: () => void
         <h1>Blockyard stopped short</h1>
         <p>The page could not be shown. Nothing you saved was lost.</p>
         <button
+          type="button"
           onClick={reset}
           style={{ padding: "0.6rem 1rem", background: "#1f6c75", color: "white", border: 0, borderRadius: 6 }}
         >

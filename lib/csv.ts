@@ -20,7 +20,7 @@ export function escapeCell(v: unknown): string | number {
 }
 
 export function csvResponse(csv: string, fileName: string): Response {
-  return new Response("\uFEFF" + csv, {
+  return new Response(`\uFEFF${csv}`, {
     headers: {
       "content-type": "text/csv; charset=utf-8",
       "content-disposition": `attachment; filename="${fileName.replace(/[^\w.-]/g, "_")}"`,

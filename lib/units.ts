@@ -28,7 +28,6 @@ export const m3ToBoardFeet = (m3: number) => m3 * BOARD_FEET_PER_M3;
 /** kg/m³ from a weight in kg and a size in mm. */
 export const densityKgM3 = (kg: number, size: [number, number, number]) => kg / cubicMetres(...size);
 export const kgM3ToLbFt3 = (kgm3: number) => kgm3 / KG_M3_PER_LB_FT3;
-export const lbFt3ToKgM3 = (pcf: number) => pcf * KG_M3_PER_LB_FT3;
 
 export function formatLength(mm: number, unit: LengthUnit): string {
   if (unit === "in") return `${trimZeros(mmToIn(mm).toFixed(2))} in`;

@@ -122,7 +122,7 @@ export const ms = (v: number) => (Number.isFinite(v) ? `${v.toFixed(1)} ms` : "â
 /** Writes a benchmark's printed report to bench-results/<name>-<date>.md. */
 export function saveReport(name: string, lines: readonly string[]): void {
   fs.mkdirSync("bench-results", { recursive: true });
-  fs.writeFileSync(`bench-results/${name}-${new Date().toISOString().slice(0, 10)}.md`, lines.join("\n") + "\n");
+  fs.writeFileSync(`bench-results/${name}-${new Date().toISOString().slice(0, 10)}.md`, `${lines.join("\n")}\n`);
 }
 
 /** Runs a benchmark's main and exits: 0 when it finished, 1 with the stack when it threw. */

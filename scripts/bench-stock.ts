@@ -115,7 +115,7 @@ async function main() {
       rows.push(
         `Ashcombe Bead & Block,2026-11-30,BENCH-${Math.floor(i / 100)},EPS-II,${2000 + (i % 400)},1000,${500 + (i % 100)},${60 + (i % 40)},Bay Z,${(22 * (2000 + (i % 400)) * (500 + (i % 100))) / 1e6}`,
       );
-    const csv = rows.join("\n") + "\n";
+    const csv = `${rows.join("\n")}\n`;
     const t = performance.now();
     const res = await fetch(`${stack.url}/api/imports/deliveries?commit=1&name=bench.csv`, {
       method: "POST",

@@ -4,6 +4,7 @@
  *      migrated and seeded with the demo shop as fixtures;
  *   2. the app built when needed and served on 127.0.0.1 (TEST_PORT, default 3199);
  *   3. Debian's chromium installed when missing (as root) for the browser tests;
+ *   0. Biome's format and lint check and tsc's type check (SKIP_SOURCE_CHECKS=1 skips them locally);
  *   4. vitest: unit + reference, API (supertest against the served app), browser (playwright-core).
  * Extra arguments go to vitest (`npm test -- --project unit`).
  */
@@ -48,8 +49,24 @@ async function waitForHealth(url: string, server: ChildProcess): Promise<void> {
   throw new Error("the test server did not answer /api/health within 60 s");
 }
 
+/** Format, lint and type check first: CI fails on drift before anything starts. */
+function checkSources(): void {
+  for (const [what, cmd, args] of [
+    ["format and lint (biome ci)", "npx", ["biome", "ci", "."]],
+    ["type check (tsc --noEmit)", "npx", ["tsc", "--noEmit", "-p", "."]],
+  ] as const) {
+    console.error(`[test] ${what}…`);
+    const r = spawnSync(cmd, [...args], { stdio: "inherit" });
+    if (r.status !== 0) {
+      console.error(`[test] ${what} failed; \`npm run lint -- --write\` fixes formatting and safe lint fixes.`);
+      process.exit(r.status ?? 1);
+    }
+  }
+}
+
 async function main() {
   const vitestArgs = process.argv.slice(2);
+  if (!process.env.SKIP_SOURCE_CHECKS) checkSources();
   // Only the unit project asked for: no database, no server, no browser needed.
   const projects = vitestArgs.flatMap((a, i) =>
     a === "--project" && vitestArgs[i + 1] ? [vitestArgs[i + 1]!] : a.startsWith("--project=") ? [a.slice(10)] : [],

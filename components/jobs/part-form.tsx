@@ -48,6 +48,7 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
   const [busy, setBusy] = useState(false);
   const set = (k: string) => (e: { target: { value: string } }) => setV((s) => ({ ...s, [k]: e.target.value }));
 
+  // biome-ignore lint/correctness/useExhaustiveDependencies: recomputed from the form values it reads
   const profile = useMemo((): { profile: Profile | null; error: string | null } => {
     try {
       if (shape === "naca") {

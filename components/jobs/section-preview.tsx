@@ -72,12 +72,12 @@ export function SectionPreview({
     oy = (height - h * k) / 2;
   // SVG y runs down: flip so "up" in the cutting plane is up on screen.
   const path = (pts: Point[]) =>
-    pts
+    `${pts
       .map(
         ([x, y], i) =>
           `${i ? "L" : "M"}${(ox + (x - minX) * k).toFixed(1)},${(height - oy - (y - minY) * k).toFixed(1)}`,
       )
-      .join(" ") + " Z";
+      .join(" ")} Z`;
   const bad = profile?.kind === "polygon" && checkPolygon(profile.points) !== null;
   return (
     <svg

@@ -134,7 +134,7 @@ function View({
                   dominantBaseline="middle"
                   fill="#16525a"
                 >
-                  {label.length > pw / 6 ? label.slice(0, Math.max(2, Math.floor(pw / 6))) + "…" : label}
+                  {label.length > pw / 6 ? `${label.slice(0, Math.max(2, Math.floor(pw / 6)))}…` : label}
                 </text>
               )}
             </g>

@@ -104,7 +104,7 @@ export function ReceiveForm({
           );
           setMsg({
             tone: r.warnings.length ? "caution" : "success",
-            text: `Received ${r.codes.length} blocks (${r.codes.join(", ")}). The order is now ${r.status === "closed" ? "closed" : "partly received"}.${r.warnings.length ? " " + r.warnings.map((w) => `Row ${w.index + 1}: ${w.message}`).join(" ") : ""}`,
+            text: `Received ${r.codes.length} blocks (${r.codes.join(", ")}). The order is now ${r.status === "closed" ? "closed" : "partly received"}.${r.warnings.length ? ` ${r.warnings.map((w) => `Row ${w.index + 1}: ${w.message}`).join(" ")}` : ""}`,
           });
           router.refresh();
           if (!r.warnings.length) router.push(`/purchasing/orders/${poId}`);

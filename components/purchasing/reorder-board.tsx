@@ -282,6 +282,7 @@ function Table({
                       <span className="text-xs text-ink-faint">no use lately, no open jobs</span>
                     ) : (
                       <div
+                        role="img"
                         className="relative h-3 w-32 rounded bg-paper-sunk"
                         aria-label={`${Math.round((r.result.position / (r.result.reorderPoint || 1)) * 100)} % of the reorder point`}
                       >

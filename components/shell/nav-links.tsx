@@ -8,7 +8,7 @@ export function NavLinks({ items }: { items: NavItem[] }) {
   const path = usePathname();
   // The longest matching link is the current one (/deliveries/new over /deliveries).
   const current = items
-    .filter((i) => (i.href === "/" ? path === "/" : path === i.href || path.startsWith(i.href + "/")))
+    .filter((i) => (i.href === "/" ? path === "/" : path === i.href || path.startsWith(`${i.href}/`)))
     .sort((a, b) => b.href.length - a.href.length)[0]?.href;
   return (
     <ul className="flex flex-wrap gap-1 lg:flex-col lg:flex-nowrap">

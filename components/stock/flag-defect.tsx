@@ -123,6 +123,7 @@ export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: 
   };
 
   const started = useRef(false);
+  // biome-ignore lint/correctness/useExhaustiveDependencies: once, on arrival from a block page (?code=…)
   useEffect(() => {
     if (initialCode && !started.current) {
       started.current = true;
@@ -561,7 +562,7 @@ function ZoneList({
               <a key={p.id} href={`/api/photos/${p.id}`} target="_blank" rel="noreferrer" className="block">
                 <img
                   src={`/api/photos/${p.id}?size=thumb`}
-                  alt={`Photo of the ${DEFECT_LABELS[z.kind] ?? "defect"} zone`}
+                  alt={`The ${DEFECT_LABELS[z.kind] ?? "defect"} zone`}
                   className="h-16 w-20 rounded-md border border-bead object-cover"
                   loading="lazy"
                 />

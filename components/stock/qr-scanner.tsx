@@ -48,6 +48,7 @@ export function QrScanner({ onCode }: { onCode: (code: string) => void }) {
     setOpen(false);
   };
 
+  // biome-ignore lint/correctness/useExhaustiveDependencies: the camera starts and stops with `open` only
   useEffect(() => {
     if (!open) return;
     let cancelled = false;

@@ -335,6 +335,7 @@ export function ReceiveForm({
 /** A field with a small caption above it (the control keeps its own, fuller accessible name). */
 function Captioned({ caption, className, children }: { caption: string; className: string; children: ReactNode }) {
   return (
+    // biome-ignore lint/a11y/noLabelWithoutControl: the control comes in as children
     <label className="block">
       <span aria-hidden="true" className={className}>
         {caption}

@@ -58,6 +58,7 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
 
   return (
     <div className="space-y-4">
+      {/* biome-ignore lint/a11y/useSemanticElements: a form that is also the search landmark */}
       <form
         className="grid gap-3 rounded-card border border-bead bg-paper-raised p-4 shadow-card sm:grid-cols-2 lg:grid-cols-4"
         onSubmit={(e) => {
@@ -253,6 +254,7 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
 
       <nav className="flex items-center justify-between gap-3" aria-label="Pages">
         <button
+          type="button"
           className={buttonClass("secondary")}
           disabled={list.page <= 1}
           onClick={() => set({ page: String(list.page - 1) })}
@@ -263,6 +265,7 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
           Page {list.page} of {pages}
         </span>
         <button
+          type="button"
           className={buttonClass("secondary")}
           disabled={list.page >= pages}
           onClick={() => set({ page: String(list.page + 1) })}

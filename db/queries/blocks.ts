@@ -109,7 +109,7 @@ function selectBlocks(k: Knex) {
 }
 
 function applyFilters(q: Knex.QueryBuilder, f: BlockQuery, today: string) {
-  if (f.q) q.whereRaw("upper(b.code) LIKE ?", [`${f.q.toUpperCase().replace(/[\\%_]/g, (c) => "\\" + c)}%`]);
+  if (f.q) q.whereRaw("upper(b.code) LIKE ?", [`${f.q.toUpperCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`]);
   if (f.grade) q.where("b.grade_id", f.grade);
   if (f.location) q.where("b.location", f.location);
   if (f.minLength !== undefined) q.whereRaw("GREATEST(b.size_x, b.size_y, b.size_z) >= ?", [f.minLength]);

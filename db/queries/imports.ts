@@ -311,7 +311,7 @@ export async function importStockCount(
       }
       const patch: Record<string, unknown> = {};
       if (ch.location !== b.location) patch.location = ch.location;
-      if (ch.size && ch.size.some((v, i) => Math.abs(v - b.size[i]!) > 1e-6)) {
+      if (ch.size?.some((v, i) => Math.abs(v - b.size[i]!) > 1e-6)) {
         patch.size_x = ch.size[0];
         patch.size_y = ch.size[1];
         patch.size_z = ch.size[2];

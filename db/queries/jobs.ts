@@ -127,7 +127,7 @@ function applyFilters(q: Knex.QueryBuilder, f: JobQuery) {
   if (f.status === "active") q.whereIn("j.status", ["open", "planned", "cutting"]);
   else if (f.status !== "all") q.where("j.status", f.status);
   if (f.q) {
-    const like = `%${f.q.replace(/[\\%_]/g, (c) => "\\" + c)}%`;
+    const like = `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
     q.where((w) => w.whereILike("j.name", like).orWhereILike("j.customer", like));
   }
   return q;

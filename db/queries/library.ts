@@ -62,12 +62,6 @@ export async function getLibraryPart(id: number): Promise<LibraryPart | undefine
   return r ? toPart(r) : undefined;
 }
 
-/** The library parts with these ids (active or not), keyed by id. */
-export async function getLibraryParts(ids: number[], k: Knex = db()): Promise<Map<number, LibraryPart>> {
-  if (!ids.length) return new Map();
-  return new Map(((await select(k).whereIn("l.id", ids)) as Row[]).map((r) => [r.id, toPart(r)]));
-}
-
 export async function createLibraryPart(input: LibraryPartInput, actorId: string): Promise<LibraryPart> {
   const geometry = resolveGeometry(input);
   await assertGrade(input.gradeId ?? null);

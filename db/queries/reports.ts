@@ -324,9 +324,7 @@ export interface SupplierQualityRow {
  * Incoming quality of the blocks delivered in the period (offcuts excluded; defects found on
  * their parent count once): defect zones per m³, and measured density below the grade minimum.
  */
-export async function supplierQualityReport(
-  p: Period,
-): Promise<{
+export async function supplierQualityReport(p: Period): Promise<{
   period: Period;
   bySupplier: SupplierQualityRow[];
   byLot: SupplierQualityRow[];
@@ -424,9 +422,7 @@ export interface StockValueRow {
  * reconciles with it by construction): each block's movements up to `to`, summed, kept where the
  * block still holds volume. Location is where the block is now.
  */
-export async function stockValueReport(
-  p: Period,
-): Promise<{
+export async function stockValueReport(p: Period): Promise<{
   period: Period;
   rows: StockValueRow[];
   byGrade: StockValueRow[];
@@ -488,7 +484,7 @@ export async function stockValueReport(
 /** Yield this calendar month so far against last month, for the manager's home page. */
 export async function yieldThisMonthVsLast(today = isoDate()): Promise<{ thisMonth: YieldRow; lastMonth: YieldRow }> {
   const first = `${today.slice(0, 7)}-01`;
-  const lastFirst = addDays(first, -1).slice(0, 7) + "-01";
+  const lastFirst = `${addDays(first, -1).slice(0, 7)}-01`;
   const [a, b] = await Promise.all([
     yieldReport({ from: first, to: today }),
     yieldReport({ from: lastFirst, to: addDays(first, -1) }),

@@ -1,7 +1,7 @@
 import "server-only";
 import { redirect } from "next/navigation";
 import { NextResponse, type NextRequest } from "next/server";
-import { z } from "zod";
+import type { z } from "zod";
 import { getCurrentSession, type CurrentUser } from "./session";
 import { API_POLICY, allows, type Access, type RouteKey } from "./policy";
 import { HttpError, forbidden, isDatabaseDown, unauthorized } from "@/lib/errors";
@@ -12,14 +12,6 @@ export async function requireRole(...roles: Role[]): Promise<CurrentUser> {
   const { user } = await getCurrentSession();
   if (!user) redirect("/sign-in");
   if (roles.length && !allows(roles, user.roles)) redirect("/?denied=1");
-  return user;
-}
-
-/** For server actions that answer with data instead of redirecting. */
-export async function requireRoleOrThrow(...roles: Role[]): Promise<CurrentUser> {
-  const { user } = await getCurrentSession();
-  if (!user) throw unauthorized();
-  if (roles.length && !allows(roles, user.roles)) throw forbidden();
   return user;
 }
 

@@ -18,6 +18,6 @@ export async function verifyPassword(hashed: string, password: string): Promise<
 /** A hash of nothing in particular, verified against for unknown accounts so timing does not tell them apart. */
 let dummy: Promise<string> | undefined;
 export function dummyHash(): Promise<string> {
-  dummy ??= hashPassword("not-a-real-password-" + Math.random());
+  dummy ??= hashPassword(`not-a-real-password-${Math.random()}`);
   return dummy;
 }

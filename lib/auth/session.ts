@@ -16,8 +16,6 @@ export interface CurrentUser {
 
 export type SessionResult = { user: CurrentUser; sessionId: string } | { user: null; sessionId: null };
 
-export const SESSION_COOKIE = () => lucia().sessionCookieName;
-
 /** The signed-in user of this request, checked once per request (React cache). */
 export const getCurrentSession = cache(async (): Promise<SessionResult> => {
   const jar = await cookies();

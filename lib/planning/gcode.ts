@@ -48,11 +48,11 @@ export function gcode(input: {
     }
   });
   out.push("M2");
-  return out.join("\n") + "\n";
+  return `${out.join("\n")}\n`;
 }
 
 function sanitize(s: string): string {
-  return s.toUpperCase().replace(/[^A-Z0-9 .\-]/g, "");
+  return s.toUpperCase().replace(/[^A-Z0-9 .-]/g, "");
 }
 
 /**

@@ -17,7 +17,7 @@ export function rng(seed: number): () => number {
  */
 export function perfectPacking(seed: number, block: Vec3, pieces: number, kerf: number): Problem {
   const r = rng(seed);
-  let boxes: Vec3[] = [block];
+  const boxes: Vec3[] = [block];
   const minSide = 20;
   let guard = 0;
   while (boxes.length < pieces && guard++ < 10_000) {

@@ -84,7 +84,7 @@ function deliveriesCsv(lot: string, n: number, codes: string[] = []): string {
     lines.push(
       `Ashcombe Bead & Block,2026-11-30,${lot},EPS-II,${1000 + i},500,400,${40 + i},Race bay,${codes[i] ?? ""}`,
     );
-  return lines.join("\n") + "\n";
+  return `${lines.join("\n")}\n`;
 }
 
 describe("imports and cuts at the same time", () => {

@@ -156,7 +156,7 @@ function bigDeliveriesCsv(lot: string, n: number): string {
   const lines = ["supplier,received_on,lot,grade,length_mm,width_mm,height_mm,cost,location"];
   for (let i = 0; i < n; i++)
     lines.push(`Ashcombe Bead & Block,2026-11-30,${lot},EPS-II,${1000 + (i % 500)},500,400,${40 + (i % 50)},Fault bay`);
-  return lines.join("\n") + "\n";
+  return `${lines.join("\n")}\n`;
 }
 
 describe("the app is killed in the middle of an import", () => {

@@ -298,7 +298,7 @@ const RAW_QUERIES = [
   "pageSize=1e309",
   "page=0x10",
   "=&&=&",
-  "q=" + "%F0%9F%98%80".repeat(300),
+  `q=${"%F0%9F%98%80".repeat(300)}`,
 ];
 
 function queryVariants(example: Example, runs: number, seed: number): Variant[] {
@@ -315,13 +315,11 @@ function queryVariants(example: Example, runs: number, seed: number): Variant[] 
     },
     { weight: 2, arbitrary: fc.constantFrom(...RAW_QUERIES) },
   );
-  const out: Variant[] = fc
-    .sample(q, { numRuns: runs, seed })
-    .map((s) => ({
-      label: `?${short(s)}`,
-      params: example.params,
-      query: [example.query, s].filter(Boolean).join("&"),
-    }));
+  const out: Variant[] = fc.sample(q, { numRuns: runs, seed }).map((s) => ({
+    label: `?${short(s)}`,
+    params: example.params,
+    query: [example.query, s].filter(Boolean).join("&"),
+  }));
   if (example.params) {
     const names = Object.keys(example.params);
     for (const [i, bad] of HOSTILE_PARAMS.slice(0, 6).entries()) {
@@ -472,7 +470,7 @@ async function attack(key: RouteKey, variants: Variant[], c: Client) {
   let before = await fingerprint();
   for (const v of variants) {
     const what = `${key} [${v.label}]`;
-    let res;
+    let res: Awaited<ReturnType<typeof fire>>;
     try {
       res = await fire(c, key, v);
     } catch (e) {

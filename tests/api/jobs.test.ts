@@ -291,7 +291,7 @@ describe("part-list CSV import", () => {
     const preview = await postCsv(
       planner,
       `/api/jobs/${id}/parts/import?commit=0&name=parts.csv`,
-      [header, ...good].join("\n") + "\n",
+      `${[header, ...good].join("\n")}\n`,
     );
     expect(preview.status).toBe(200);
     expect(preview.body).toMatchObject({
@@ -305,7 +305,7 @@ describe("part-list CSV import", () => {
     const done = await postCsv(
       planner,
       `/api/jobs/${id}/parts/import?commit=1&name=parts.csv`,
-      [header, ...good].join("\n") + "\n",
+      `${[header, ...good].join("\n")}\n`,
     );
     expect(done.status).toBe(201);
     const parts = (await planner.get(`/api/jobs/${id}`)).body.parts;
@@ -322,7 +322,7 @@ describe("part-list CSV import", () => {
     const rows = Array.from({ length: 40 }, (_, i) => `Rib ${i + 1},2,400,120,20,EPS-I,any,,,,,,`);
     rows[26] = "Rib 27,2,400,-5,20,EPS-I,any,,,,,,"; // file row 28
     const before = await tableCounts();
-    const res = await postCsv(planner, `/api/jobs/${id}/parts/import?commit=1`, [header, ...rows].join("\n") + "\n");
+    const res = await postCsv(planner, `/api/jobs/${id}/parts/import?commit=1`, `${[header, ...rows].join("\n")}\n`);
     expect(res.status).toBe(422);
     expect(res.body.committed).toBe(false);
     expect(res.body.problems).toEqual([{ row: 28, column: "width_mm", message: "Must be more than 0." }]);
@@ -335,7 +335,7 @@ describe("part-list CSV import", () => {
     const res = await postCsv(
       planner,
       `/api/jobs/${id}/parts/import?commit=0`,
-      [
+      `${[
         header,
         ",1.5,100,100,100,,,,,,,,",
         "A,1,,,,EPS-XX,sideways,,,,,,",
@@ -345,7 +345,7 @@ describe("part-list CSV import", () => {
         "E,1,100,100,100,,,2412,200,,500,,",
         "F,1,100,100,,,,,,,,,",
         "G,1,,,,PU-SIGN-15,,,,,,0 0; 10 0; 0 10,",
-      ].join("\n") + "\n",
+      ].join("\n")}\n`,
     );
     expect(res.status).toBe(422);
     const at = (row: number) =>

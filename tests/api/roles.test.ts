@@ -20,8 +20,7 @@ function discoverRoutes(): { file: string; route: string; method: string; key: s
       const full = path.join(dir, entry.name);
       if (entry.isDirectory()) walk(full);
       else if (/^route\.(ts|tsx|js)$/.test(entry.name)) {
-        const route =
-          "/" + path.relative(path.join(process.cwd(), "app"), path.dirname(full)).split(path.sep).join("/");
+        const route = `/${path.relative(path.join(process.cwd(), "app"), path.dirname(full)).split(path.sep).join("/")}`;
         const text = fs.readFileSync(full, "utf8");
         for (const method of METHODS) {
           const exported = new RegExp(`export\\s+(const|async\\s+function|function)\\s+${method}\\b`).test(text);

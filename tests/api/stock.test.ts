@@ -19,7 +19,7 @@ beforeAll(async () => {
 const ids = async (table: string) => (await testDb()(table).orderBy("id").first("id")).id as number;
 
 function csv(lines: string[]): string {
-  return lines.join("\n") + "\n";
+  return `${lines.join("\n")}\n`;
 }
 
 const postCsv = (c: Client, path: string, body: string | Buffer) =>
@@ -317,7 +317,7 @@ describe("CSV import and export", () => {
     );
 
     const latin1 = Buffer.concat([
-      Buffer.from(header + "\n"),
+      Buffer.from(`${header}\n`),
       Buffer.from("Northgate Moulders,2026-11-25,L,EPS-I,X,2440,1220,610,28,95,Bay "),
       Buffer.from([0xc9, 0x0a]),
     ]);

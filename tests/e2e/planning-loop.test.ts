@@ -25,15 +25,15 @@ describe("the planner's and the cutter's loop", () => {
     const planner = await signedIn("planner");
     const jobs = new JobsPage(planner);
     await jobs.openList();
-    const jobId = await jobs.createJob(`Foyer letters ${Date.now().toString(36)}`, "Copperleaf Signs", "2026-12-20");
+    await jobs.createJob(`Foyer letters ${Date.now().toString(36)}`, "Copperleaf Signs", "2026-12-20");
     await jobs.importCsv(
       "letters.csv",
-      [
+      `${[
         "name,quantity,length_mm,width_mm,height_mm,grade,rotate",
         "Letter O,5,1000,1000,300,EPS-II,z",
         "Letter K,2,600,480,100,EPS-II,z",
         "Backing strip,4,1200,80,40,EPS-II,any",
-      ].join("\n") + "\n",
+      ].join("\n")}\n`,
     );
     await jobs.confirmImport();
     await expect.poll(() => jobs.partRows().count(), { timeout: 10_000 }).toBe(3);

@@ -245,7 +245,6 @@ const permute = (p: number, d: Vec3): Vec3 => {
 };
 /** AFTER[q][p]: the permutation "p, then q". */
 const AFTER: number[][] = PERMS.map((q) => PERMS.map((p) => PERMS.findIndex((r) => r.every((v, j) => v === p[q[j]!]))));
-const ALL_PERMS = (1 << PERMS.length) - 1;
 const near = (a: number, b: number): boolean => Math.abs(a - b) <= EPS;
 const ascending = (d: Vec3): Vec3 => [...d].sort((x, y) => x - y) as Vec3;
 

@@ -2,7 +2,7 @@ import { CUT_ORDERS, splitInOrder, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
 import { fillBoxFirst } from "./boxfirst";
-import { fitsIn, gridItems, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
+import { gridItems, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
 export type SplitRule = "biggest" | "squares" | "random" | "column";
 

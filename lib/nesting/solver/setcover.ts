@@ -100,6 +100,9 @@ export function coverDemand(
   });
   let res: Record<string, unknown>;
   try {
+    (globalThis as any).__lpn = ((globalThis as any).__lpn ?? 0) + 1;
+    require("node:fs").writeFileSync(`/tmp/lp/m${(globalThis as any).__lpn}.json`, JSON.stringify({ optimize: "cost", opType: "min", constraints, variables }));
+    (globalThis as any).__t0 = Date.now();
     res = solver.Solve({ optimize: "cost", opType: "min", constraints, variables }) as unknown as Record<
       string,
       unknown
@@ -107,6 +110,7 @@ export function coverDemand(
   } catch {
     return undefined;
   }
+  require("node:fs").appendFileSync("/tmp/lp/times.txt", `${(globalThis as any).__lpn} ${Date.now() - (globalThis as any).__t0}\n`);
   if (!res.feasible) return undefined;
   const mult = columns.map((_, j) => Math.floor(Number(res[`f${j}`] ?? 0) + 1e-6));
   const used = new Map<string, number>();

@@ -125,7 +125,6 @@ describe("maximal empty boxes", () => {
 describe("free fill", () => {
   it("packs the pinwheel, which no through-cut layout holds", () => {
     const m = buildModel(pinwheel("free"));
-    const order = [0, 1, 2];
     // One piece at a time from the block's corners packs it, whatever the part order.
     for (const order of [
       [0, 1, 2],

@@ -160,7 +160,7 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
                         {/* eslint-disable-next-line @next/next/no-img-element */}
                         <img
                           src={`/api/photos/${p.id}?size=thumb`}
-                          alt={`Photo of defect ${d.id}`}
+                          alt={`Defect ${d.id}`}
                           className="h-20 w-28 rounded border border-bead object-cover"
                         />
                       </a>

@@ -19,7 +19,7 @@ export const GET = api<P>("GET /api/photos/[photoId]", async ({ req, params }) =
   const photo = await getPhoto(id);
   if (!photo) throw notFound("That photo");
   requireStorage();
-  let obj;
+  let obj: Awaited<ReturnType<typeof getObject>>;
   try {
     obj = await getObject(size === "thumb" ? photo.thumbKey : photo.objectKey);
   } catch (e) {
