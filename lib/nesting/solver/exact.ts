@@ -400,7 +400,7 @@ export function packAllByMerging(
   let aborted = false;
   const dfs = (boxes: MergeNode[]): MergeNode | undefined => {
     if (boxes.length === 1) return rootPerm(boxes[0]!) >= 0 ? boxes[0] : undefined;
-    if (++nodes > nodeLimit || ((nodes & 63) === 0 && stop())) {
+    if (++nodes > nodeLimit || ((nodes & 15) === 0 && stop())) {
       aborted = true;
       return undefined;
     }

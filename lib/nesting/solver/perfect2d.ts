@@ -102,7 +102,7 @@ export function packLayerPerfect(
 
   const dfs = (sky: readonly Segment[], rest: number): boolean => {
     if (rest === 0) return true;
-    if (++nodes > nodeLimit || ((nodes & 255) === 0 && stop())) {
+    if (++nodes > nodeLimit || ((nodes & 15) === 0 && stop())) {
       aborted = true;
       return false;
     }

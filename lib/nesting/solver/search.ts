@@ -217,11 +217,12 @@ export class Search {
     const s = this.best?.score;
     if (!s || this.atBound() || s.placedVolume < this.placeable - 1e-6 || this.pool.size < 2) return;
     const demand = this.model.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
-    // Keep the linear program modest (its simplex is not interruptible): at most 80 part lines.
+    // Keep the linear program modest: at most 80 part lines.
     if (demand.filter((d) => d > 0).length > 80) return;
     const left = this.opts.now ? this.opts.timeLimitMs - this.elapsed() : Infinity;
     if (left < 50) return;
-    const fills = coverDemand(this.model, this.pool.columns(), demand);
+    // The simplex asks the clock every few pivots (and has a pivot limit without one).
+    const fills = coverDemand(this.model, this.pool.columns(), demand, () => this.outOfTime());
     if (fills) this.offer(fills);
   }
 

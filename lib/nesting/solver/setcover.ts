@@ -1,4 +1,4 @@
-import solver from "javascript-lp-solver";
+import { solveCover } from "./lp";
 import type { BlockFill, Model } from "./model";
 
 /** A block filling remembered as a column of the cutting-stock integer program. */
@@ -71,48 +71,47 @@ export function denseDisjoint(
 
 /**
  * Picks a cheap combination of remembered fillings that covers the demand (cutting-stock set
- * cover): javascript-lp-solver solves the linear relaxation (branch and bound is not used: on some
- * models it runs far past its timeout), the solution is rounded down and the rest of the demand
- * is covered greedily by the fillings that cover most of it; surplus pieces are dropped and the
- * fillings are mapped onto real blocks of their class. Undefined when no cover is found.
- * @example coverDemand(model, pool.columns(), demand) // → BlockFill[] | undefined
+ * cover): the linear relaxation is solved by the small simplex of `lp.ts` (javascript-lp-solver
+ * was used before: its branch and bound ran far past its timeout on some models, and its simplex
+ * cycled without end on one), the solution is rounded down and the rest of the demand is covered
+ * greedily by the fillings that cover most of it; surplus pieces are dropped and the fillings are
+ * mapped onto real blocks of their class. Undefined when no cover is found, or when `stop` says
+ * the time is up (asked every few pivots) or the simplex runs past its pivot limit.
+ * @example coverDemand(model, pool.columns(), demand, () => clock() > deadline) // → BlockFill[] | undefined
  */
 export function coverDemand(
   model: Model,
   columns: readonly Column[],
   demand: readonly number[],
+  stop?: () => boolean,
 ): BlockFill[] | undefined {
   if (columns.length === 0) return undefined;
   const classBlocks = new Map<string, number[]>();
   for (const b of model.blocks) classBlocks.set(b.classKey, [...(classBlocks.get(b.classKey) ?? []), b.index]);
-  const classId = new Map([...classBlocks.keys()].map((k, i) => [k, `c${i}`]));
-  const constraints: Record<string, { min?: number; max?: number }> = {};
+  const classIndex = new Map([...classBlocks.keys()].map((k, i) => [k, i]));
+  // One covering row per part line still in demand.
+  const row = new Map<number, number>();
+  const need: number[] = [];
   demand.forEach((d, t) => {
-    if (d > 0) constraints[`t${t}`] = { min: d };
+    if (d <= 0) return;
+    row.set(t, need.length);
+    need.push(d);
   });
-  for (const [k, blocks] of classBlocks) constraints[classId.get(k)!] = { max: blocks.length };
-  const variables: Record<string, Record<string, number>> = {};
-  columns.forEach((c, j) => {
-    const block = model.blocks[c.fill.block]!;
-    const v: Record<string, number> = { cost: block.cost * (1 + 1e-6) + 1e-9, [classId.get(c.classKey)!]: 1 };
-    for (const [t, n] of c.counts) if (demand[t]! > 0) v[`t${t}`] = n;
-    variables[`f${j}`] = v;
+  const cover = columns.map((c) => {
+    const out: [number, number][] = [];
+    for (const [t, n] of c.counts) if (row.has(t)) out.push([row.get(t)!, n]);
+    return out;
   });
-  let res: Record<string, unknown>;
-  try {
-    (globalThis as any).__lpn = ((globalThis as any).__lpn ?? 0) + 1;
-    require("node:fs").writeFileSync(`/tmp/lp/m${(globalThis as any).__lpn}.json`, JSON.stringify({ optimize: "cost", opType: "min", constraints, variables }));
-    (globalThis as any).__t0 = Date.now();
-    res = solver.Solve({ optimize: "cost", opType: "min", constraints, variables }) as unknown as Record<
-      string,
-      unknown
-    >;
-  } catch {
-    return undefined;
-  }
-  require("node:fs").appendFileSync("/tmp/lp/times.txt", `${(globalThis as any).__lpn} ${Date.now() - (globalThis as any).__t0}\n`);
-  if (!res.feasible) return undefined;
-  const mult = columns.map((_, j) => Math.floor(Number(res[`f${j}`] ?? 0) + 1e-6));
+  const lp = solveCover(
+    cover,
+    columns.map((c) => classIndex.get(c.classKey)!),
+    columns.map((c) => model.blocks[c.fill.block]!.cost * (1 + 1e-6) + 1e-9),
+    need,
+    [...classBlocks.values()].map((bs) => bs.length),
+    stop ? { stop } : {},
+  );
+  if (lp.status !== "optimal") return undefined;
+  const mult = lp.x.map((x) => Math.floor(x + 1e-6));
   const used = new Map<string, number>();
   columns.forEach((c, j) => used.set(c.classKey, (used.get(c.classKey) ?? 0) + mult[j]!));
   const short = demand.map((d) => d);
