@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import path from "node:path";
+import "./db/types";
 
 // One configuration for the app, the scripts and the tests. DATABASE_URL is set by
 // scripts/start.ts and scripts/test.ts (or by you, to use an existing server).

@@ -1,6 +1,7 @@
 import "server-only";
 import knex, { type Knex } from "knex";
 import { env } from "@/lib/env";
+import "./types";
 
 // The one Knex instance for the app, kept on globalThis so dev reloads do not open new pools.
 const globalForDb = globalThis as unknown as { blockyardDb?: Knex };

@@ -54,8 +54,9 @@ export const LEDGER_LABELS: Record<LedgerKind, string> = {
   adjusted: "Adjusted",
 };
 
-/** Local calendar date as YYYY-MM-DD (the shop's day, not UTC's). */
-export function isoDate(d: Date = new Date()): string {
+/** Local calendar date as YYYY-MM-DD (the shop's day, not UTC's); a DATE column's text passes through. */
+export function isoDate(d: Date | string = new Date()): string {
+  if (typeof d === "string") return d.slice(0, 10);
   const y = d.getFullYear();
   const m = String(d.getMonth() + 1).padStart(2, "0");
   const day = String(d.getDate()).padStart(2, "0");

@@ -160,7 +160,7 @@ export async function seed(knex: Knex): Promise<void> {
     id: number;
     supplier_id: number;
     po_ref: string | null;
-    received_on: Date;
+    received_on: string | Date; // text where db/types.ts parses DATE, a Date elsewhere
     created_at: Date;
   }[];
   for (const [i, d] of recent.reverse().entries()) {
@@ -195,7 +195,8 @@ export async function seed(knex: Knex): Promise<void> {
       groups.set(key, g);
     }
     const open = i === 1; // the newest stays partly received
-    const created = Math.round((d.received_on.getTime() - Date.now()) / 86400_000) - 16;
+    const received = typeof d.received_on === "string" ? d.received_on : iso(d.received_on);
+    const created = Math.round((new Date(`${received}T12:00:00`).getTime() - Date.now()) / 86400_000) - 16;
     const po = await order({
       supplierId: d.supplier_id,
       number: d.po_ref ?? undefined,
