@@ -59,6 +59,7 @@ export interface CutPartsRow {
   volume_basis: string;
   recorded_by: string | null;
   recorded_at: Date;
+  not_cut_count: number;
 }
 
 export interface DefectPhotosRow {
@@ -176,6 +177,40 @@ export interface LibraryPartsRow {
   active: boolean;
 }
 
+export interface MachineGradesRow {
+  machine_id: number;
+  grade_id: number;
+  kerf_mm: number;
+  feed_mm_per_min: number;
+}
+
+export interface MachinesRow {
+  id: number;
+  name: string;
+  kind: string;
+  wire: string;
+  wire_length_mm: number;
+  travel_x_mm: number;
+  travel_y_mm: number;
+  max_length_mm: number;
+  max_width_mm: number;
+  max_height_mm: number;
+  turntable: boolean;
+  rapid_mm_per_min: number;
+  heat_up_s: number;
+  handling_s: number;
+  unit_words: string;
+  inch: boolean;
+  heat_on: string | null;
+  heat_off: string | null;
+  axis_x: string;
+  axis_y: string;
+  line_numbers: boolean;
+  active: boolean;
+  created_at: Date;
+  updated_at: Date;
+}
+
 export interface MailOutboxRow {
   id: number;
   kind: string;
@@ -213,6 +248,16 @@ export interface NestingRunsRow {
   approved_at: Date | null;
   heartbeat_at: Date | null;
   summary: unknown | null;
+  machine_id: number | null;
+}
+
+export interface PlanBlockStepsRow {
+  run_id: number;
+  block_id: number;
+  step: number;
+  done_by: string | null;
+  done_at: Date;
+  rejects: unknown;
 }
 
 export interface PlanBlocksRow {
@@ -231,6 +276,15 @@ export interface PlanBlocksRow {
   loss_unusable_m3: number | null;
   loss_reject_m3: number | null;
   volume_basis: string | null;
+  partial: boolean;
+  undone_count: number;
+}
+
+export interface PlanOffcutCodesRow {
+  run_id: number;
+  block_id: number;
+  offcut_index: number;
+  code: string;
 }
 
 export interface PurchaseOrderLinesRow {
@@ -370,9 +424,13 @@ export interface Tables {
   job_parts: Knex.CompositeTableType<JobPartsRow, Partial<JobPartsRow>>;
   jobs: Knex.CompositeTableType<JobsRow, Partial<JobsRow>>;
   library_parts: Knex.CompositeTableType<LibraryPartsRow, Partial<LibraryPartsRow>>;
+  machine_grades: Knex.CompositeTableType<MachineGradesRow, Partial<MachineGradesRow>>;
+  machines: Knex.CompositeTableType<MachinesRow, Partial<MachinesRow>>;
   mail_outbox: Knex.CompositeTableType<MailOutboxRow, Partial<MailOutboxRow>>;
   nesting_runs: Knex.CompositeTableType<NestingRunsRow, Partial<NestingRunsRow>>;
+  plan_block_steps: Knex.CompositeTableType<PlanBlockStepsRow, Partial<PlanBlockStepsRow>>;
   plan_blocks: Knex.CompositeTableType<PlanBlocksRow, Partial<PlanBlocksRow>>;
+  plan_offcut_codes: Knex.CompositeTableType<PlanOffcutCodesRow, Partial<PlanOffcutCodesRow>>;
   purchase_order_lines: Knex.CompositeTableType<PurchaseOrderLinesRow, Partial<PurchaseOrderLinesRow>>;
   purchase_order_receipts: Knex.CompositeTableType<PurchaseOrderReceiptsRow, Partial<PurchaseOrderReceiptsRow>>;
   purchase_orders: Knex.CompositeTableType<PurchaseOrdersRow, Partial<PurchaseOrdersRow>>;

@@ -26,6 +26,7 @@ export const NAV: NavItem[] = [
   { href: "/reports", label: "Reports", roles: ["manager", "planner"] },
   { href: "/admin/users", label: "People", roles: ["admin"] },
   { href: "/admin/settings", label: "Shop settings", roles: ["admin"] },
+  { href: "/machines", label: "Machines", roles: ["planner", "cutter"] },
   { href: "/admin/outbox", label: "Outbox", roles: ["admin"] },
   { href: "/safety", label: "Safety" },
 ];

@@ -42,6 +42,7 @@ export const LEDGER_KINDS = [
   "offcut_created",
   "scrapped",
   "adjusted",
+  "reversed",
 ] as const;
 export type LedgerKind = (typeof LEDGER_KINDS)[number];
 export const LEDGER_LABELS: Record<LedgerKind, string> = {
@@ -52,6 +53,7 @@ export const LEDGER_LABELS: Record<LedgerKind, string> = {
   offcut_created: "Offcut kept",
   scrapped: "Written off",
   adjusted: "Adjusted",
+  reversed: "Recording undone",
 };
 
 /** Local calendar date as YYYY-MM-DD (the shop's day, not UTC's); a DATE column's text passes through. */

@@ -19,24 +19,35 @@ export function CutBlockForm({
   blockId,
   code,
   parts,
+  stepsLeft = 0,
+  stepsDone = 0,
 }: {
   runId: number;
   blockId: number;
   code: string;
   parts: PartOnBlock[];
+  /** Steps not checked off yet: said in the confirmation. */
+  stepsLeft?: number;
+  /** Steps checked off: with some (not all), the block can be recorded part-cut. */
+  stepsDone?: number;
 }) {
+  const [confirming, setConfirming] = useState<null | "whole" | "partial">(null);
   const router = useRouter();
   const [rejects, setRejects] = useState<Record<number, { count: string; reason: string }>>({});
   const [error, setError] = useState<string | null>(null);
-  const [done, setDone] = useState<string[] | null>(null);
+  const [done, setDone] = useState<{ offcuts: string[]; rest: string[] } | null>(null);
   const [busy, setBusy] = useState(false);
   if (done) {
     return (
-      <Notice tone="success" title={`${code} is cut`}>
-        {done.length ? (
+      <Notice tone="success" title={done.rest.length ? `${code} is recorded part-cut` : `${code} is cut`}>
+        {done.offcuts.length + done.rest.length ? (
           <>
-            Offcuts now in stock: {done.join(", ")}.{" "}
-            <Link href={`/labels?codes=${encodeURIComponent(done.join(","))}`}>Print their labels</Link>.
+            {done.offcuts.length > 0 && <>Offcuts now in stock: {done.offcuts.join(", ")}. </>}
+            {done.rest.length > 0 && <>Uncut pieces back in stock: {done.rest.join(", ")}. </>}
+            <Link href={`/labels?codes=${encodeURIComponent([...done.offcuts, ...done.rest].join(","))}`}>
+              Print their labels
+            </Link>
+            .
           </>
         ) : (
           "No offcuts were kept from it."
@@ -49,6 +60,10 @@ export function CutBlockForm({
       className="space-y-3"
       onSubmit={async (e) => {
         e.preventDefault();
+        if (!confirming) {
+          setConfirming("whole");
+          return;
+        }
         setBusy(true);
         setError(null);
         try {
@@ -56,9 +71,15 @@ export function CutBlockForm({
             rejects: Object.entries(rejects)
               .filter(([, r]) => r.count.trim() !== "" && Number(r.count) > 0)
               .map(([id, r]) => ({ jobPartId: Number(id), count: Number(r.count), reason: r.reason })),
+            confirm: true,
+            partial: confirming === "partial",
           };
-          const res = await send<{ offcutCodes: string[] }>(`/api/runs/${runId}/blocks/${blockId}/cut`, "POST", body);
-          setDone(res.offcutCodes);
+          const res = await send<{ offcutCodes: string[]; remainderCodes: string[] }>(
+            `/api/runs/${runId}/blocks/${blockId}/cut`,
+            "POST",
+            body,
+          );
+          setDone({ offcuts: res.offcutCodes, rest: res.remainderCodes });
           router.refresh();
         } catch (err) {
           setError(
@@ -68,6 +89,7 @@ export function CutBlockForm({
           );
         } finally {
           setBusy(false);
+          setConfirming(null);
         }
       }}
     >
@@ -118,10 +140,34 @@ export function CutBlockForm({
           ))}
         </tbody>
       </table>
+      {confirming && (
+        <div role="alertdialog" aria-labelledby={`confirm-${blockId}`} className="rounded-md border-2 border-ember p-3">
+          <p id={`confirm-${blockId}`} className="font-medium">
+            {confirming === "partial"
+              ? `Record ${code} part-cut? What the ${stepsDone} step${stepsDone === 1 ? "" : "s"} checked off made becomes parts and offcuts; the uncut pieces go back to stock with their true sizes, and the parts still in them are owed again.`
+              : `Finish ${code}? It leaves stock, its parts count as cut and its offcuts enter stock.${stepsLeft > 0 ? ` ${stepsLeft} step${stepsLeft === 1 ? " is" : "s are"} not checked off yet.` : ""}`}
+          </p>
+          <div className="mt-2 flex flex-wrap gap-2">
+            <Button type="submit" disabled={busy} autoFocus>
+              {busy ? "Recording…" : confirming === "partial" ? `Yes, record ${code} part-cut` : `Yes, finish ${code}`}
+            </Button>
+            <Button tone="secondary" onClick={() => setConfirming(null)}>
+              Not yet
+            </Button>
+          </div>
+        </div>
+      )}
       <div className="flex flex-wrap gap-2">
-        <Button type="submit" disabled={busy}>
-          {busy ? "Recording…" : `Mark ${code} cut`}
-        </Button>
+        {!confirming && (
+          <Button type="submit" disabled={busy}>
+            Finish {code}…
+          </Button>
+        )}
+        {!confirming && stepsDone > 0 && stepsLeft > 0 && (
+          <Button tone="secondary" disabled={busy} onClick={() => setConfirming("partial")}>
+            Record part-cut…
+          </Button>
+        )}
         <Link className={buttonClass("secondary")} href={`/defects/new?code=${encodeURIComponent(code)}`}>
           Flag a newly found defect
         </Link>

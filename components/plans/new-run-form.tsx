@@ -28,10 +28,13 @@ export function NewRunForm({
   jobIds,
   candidates,
   defaults,
+  machines,
 }: {
   jobIds: number[];
   candidates: Candidate[];
   defaults: RunSettings;
+  /** Active block cutters; the first is proposed. */
+  machines: { id: number; name: string }[];
 }) {
   const router = useRouter();
   const [chosen, setChosen] = useState<Set<number>>(new Set(candidates.map((c) => c.id)));
@@ -55,6 +58,7 @@ export function NewRunForm({
             send<{ id: number }>("/api/runs", "POST", {
               jobIds,
               blockIds: [...chosen],
+              machineId: fd.get("machineId") ? Number(fd.get("machineId")) : null,
               settings: {
                 kerf: num(fd.get("kerf")),
                 trim: num(fd.get("trim")),
@@ -150,6 +154,21 @@ export function NewRunForm({
           </Field>
           <Field label="Defect margin (mm)" name="defectMargin" error={fields["settings.defectMargin"]}>
             <Input name="defectMargin" inputMode="decimal" defaultValue={defaults.defectMargin} />
+          </Field>
+          <Field
+            label="Block cutter"
+            name="machineId"
+            error={fields.machineId}
+            hint="Its kerf for these grades replaces the kerf above; the cutting steps are made for it."
+          >
+            <Select name="machineId" defaultValue={machines[0]?.id ?? ""}>
+              {machines.map((m) => (
+                <option key={m.id} value={m.id}>
+                  {m.name}
+                </option>
+              ))}
+              <option value="">No machine in particular (shop kerf)</option>
+            </Select>
           </Field>
           <Field label="Layout" name="layout" error={fields["settings.layout"]}>
             <Select name="layout" defaultValue={defaults.layout}>

@@ -21,6 +21,7 @@ const ON_HAND_SIGN: Record<LedgerKind, number> = {
   consumed: -1,
   scrapped: -1,
   adjusted: 1, // adjustments carry their own sign in volume/value
+  reversed: 1, // so do reversals of an undone recording
   reserved: 0,
   released: 0,
 };

@@ -2,14 +2,17 @@ import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
 import { appendLedger } from "./ledger";
+import { allocateOffcutCodes } from "./offcut-codes";
+import { owedByRun, owedParts } from "./owed";
+import { getMachine, kerfAndFeed } from "./machines";
+import { planSteps, stepProblems } from "./at-the-machine";
 import { HttpError } from "@/lib/errors";
 import { isoDate } from "@/lib/stock";
 import { parseProblem, type Plan, type Problem } from "@/lib/nesting";
-import { buildProblem, partIdFromKey, partKey, type PartForPlan, type StockForPlan } from "@/lib/planning/problem";
-import { lossBreakdown } from "@/lib/planning/losses";
-import { cutEstimate } from "@/lib/planning/gcode";
+import { buildProblem, partIdFromKey, partKey, type StockForPlan } from "@/lib/planning/problem";
+import { cutEstimate } from "@/lib/planning/wire-travel";
 import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
-import { runSettingsSchema, type RecordCutInput, type RunSettings } from "@/lib/validations/runs";
+import { runSettingsSchema, type RunSettings } from "@/lib/validations/runs";
 import { getShopSettings } from "./settings";
 
 export type RunStatus = "queued" | "running" | "done" | "failed" | "cancelled" | "approved" | "closed";
@@ -46,9 +49,18 @@ export interface RunSummary {
 }
 
 export interface RunDetail extends RunSummary {
+  /** The block cutter the plan was made for (null: made with the shop's kerf, for no machine in particular). */
+  machineId: number | null;
   problem: Problem;
   plan: Plan | null;
-  blocks: { id: number; code: string; planStatus: "reserved" | "cut" | "released" | null }[];
+  blocks: {
+    id: number;
+    code: string;
+    planStatus: "reserved" | "cut" | "released" | null;
+    /** When it was recorded cut (ISO), and whether part-cut. */
+    cutAt: string | null;
+    partial: boolean;
+  }[];
   parts: { id: number; name: string; jobId: number; trueVolumeMm3: number | null }[];
 }
 
@@ -144,40 +156,6 @@ function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
     // Figures stored before plans could be uncuttable lack it: ask the plan when it is at hand.
     stuckBlocks: figures?.stuckBlocks ?? (r.plan && r.problem ? stuckBlocks(r.problem, r.plan) : []),
   };
-}
-
-/** Parts of jobs with how many are still owed (ordered minus good parts already cut). */
-async function owedParts(
-  trx: Knex | Knex.Transaction,
-  jobIds: number[],
-): Promise<(PartForPlan & { trueVolumeMm3: number | null; jobId: number })[]> {
-  const rows = await trx("job_parts as p")
-    .leftJoin("grades as g", "g.id", "p.grade_id")
-    .whereIn("p.job_id", jobIds)
-    .select(
-      "p.id",
-      "p.job_id",
-      "p.name",
-      "p.quantity",
-      "p.size_x",
-      "p.size_y",
-      "p.size_z",
-      "p.rotate",
-      "p.true_volume_mm3",
-      "g.code as grade_code",
-      trx.raw("(SELECT coalesce(sum(c.good_count), 0) FROM cut_parts c WHERE c.job_part_id = p.id) AS done"),
-    )
-    .orderBy("p.id");
-  return rows.map((r: Record<string, unknown>) => ({
-    id: r.id as number,
-    jobId: r.job_id as number,
-    name: r.name as string,
-    quantity: Math.max(0, (r.quantity as number) - Number(r.done)),
-    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as [number, number, number],
-    rotate: r.rotate as PartForPlan["rotate"],
-    gradeCode: (r.grade_code as string | null) ?? null,
-    trueVolumeMm3: r.true_volume_mm3 === null ? null : Number(r.true_volume_mm3),
-  }));
 }
 
 /**
@@ -315,6 +293,7 @@ export async function createRun(
     settings: RunSettings;
     quantities?: Map<number, number>;
     parentRunId?: number;
+    machineId?: number | null;
   },
   actorId: string,
 ): Promise<number> {
@@ -354,7 +333,23 @@ export async function createRun(
       else if (b.cutNotBefore > today) fields.blockIds = `${b.code} is still settling until ${b.cutNotBefore}.`;
     }
     if (Object.keys(fields).length) throw new HttpError(409, fields.blockIds ?? "That stock cannot be used.", fields);
-    const problem = buildProblem(parts, stock, input.settings);
+    // Made for one block cutter: its calibrated kerf for the grades involved (the widest of them).
+    let settings = input.settings;
+    if (input.machineId) {
+      const machine = await getMachine(input.machineId, trx);
+      if (!machine) throw new HttpError(400, "Some fields need attention.", { machineId: "No such machine." });
+      if (machine.kind !== "block" || !machine.active)
+        throw new HttpError(400, "Some fields need attention.", {
+          machineId: `${machine.name} is ${machine.active ? "a profile cutter" : "retired"}: choose a block cutter.`,
+        });
+      const gradeCodes = [...new Set(stock.map((b) => b.gradeCode).filter((c): c is string => !!c))];
+      const gradeIds = gradeCodes.length
+        ? ((await trx("grades").whereIn("code", gradeCodes).select("id")) as { id: number }[]).map((g) => g.id)
+        : [];
+      const { kerf } = kerfAndFeed(machine, gradeIds, { kerf: input.settings.kerf, feed: 0 });
+      settings = { ...input.settings, kerf };
+    }
+    const problem = buildProblem(parts, stock, settings);
     const parsed = parseProblem(problem);
     if (!parsed.ok)
       throw new HttpError(400, `The nesting problem is not valid: ${parsed.errors.slice(0, 3).join("; ")}`);
@@ -363,7 +358,8 @@ export async function createRun(
         status: "queued",
         job_ids: input.jobIds,
         block_ids: stock.map((b) => b.id),
-        settings: input.settings,
+        settings,
+        machine_id: input.machineId ?? null,
         problem: JSON.stringify(parsed.problem),
         parent_run_id: input.parentRunId ?? null,
         created_by: actorId,
@@ -447,7 +443,7 @@ export async function getRun(id: number): Promise<RunDetail | undefined> {
       this.on("pb.block_id", "b.id").andOn("pb.run_id", db().raw("?", [id]));
     })
     .whereIn("b.id", r.block_ids)
-    .select("b.id", "b.code", "pb.status as plan_status")
+    .select("b.id", "b.code", "pb.status as plan_status", "pb.cut_at", "pb.partial")
     .orderBy("b.id");
   // Runs recorded before planning moved into Blockyard (demo history) carry no problem or plan.
   r.problem.parts ??= [];
@@ -458,13 +454,24 @@ export async function getRun(id: number): Promise<RunDetail | undefined> {
     : [];
   return {
     ...toSummary(r, names),
+    machineId: (r as { machine_id?: number | null }).machine_id ?? null,
     problem: r.problem,
     plan: r.plan,
-    blocks: blocks.map((b: { id: number; code: string; plan_status: "reserved" | "cut" | "released" | null }) => ({
-      id: b.id,
-      code: b.code,
-      planStatus: b.plan_status,
-    })),
+    blocks: blocks.map(
+      (b: {
+        id: number;
+        code: string;
+        plan_status: "reserved" | "cut" | "released" | null;
+        cut_at: Date | null;
+        partial: boolean | null;
+      }) => ({
+        id: b.id,
+        code: b.code,
+        planStatus: b.plan_status,
+        cutAt: b.cut_at ? b.cut_at.toISOString() : null,
+        partial: !!b.partial,
+      }),
+    ),
     parts: parts.map((p: { id: number; name: string; job_id: number; true_volume_mm3: string | null }) => ({
       id: p.id,
       name: p.name,
@@ -561,6 +568,21 @@ function blocksInPlan(plan: Plan): string[] {
  * by one approved plan only; a second approval touching it fails with a clear message.
  */
 export async function approveRun(id: number, actorId: string): Promise<void> {
+  // The plan must be cuttable on its machine (every piece within the wire, travel and table).
+  // Worked out before the transaction: it reads only the run and the machines, and takes a while.
+  let cannot: string[] = [];
+  let machineName = "";
+  const before = await db()("nesting_runs").where({ id }).first("machine_id", "problem", "plan", "settings");
+  if (before?.plan) {
+    const steps = await planSteps({
+      machineId: before.machine_id ?? null,
+      problem: before.problem as Problem,
+      plan: before.plan as Plan,
+      settings: before.settings as RunSettings,
+    });
+    cannot = stepProblems(steps.blocks);
+    machineName = steps.machine.name;
+  }
   try {
     await db().transaction(async (trx) => {
       const run = await trx("nesting_runs").where({ id }).forUpdate().first();
@@ -579,6 +601,11 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
         throw new HttpError(
           409,
           `${stuck.length === 1 ? "Block" : "Blocks"} ${stuck.join(", ")}: some pieces cannot be freed by through cuts nor cut out of one layer (free layout, for comparison only). Plan again with the guillotine or layers rule.`,
+        );
+      if (cannot.length)
+        throw new HttpError(
+          409,
+          `This plan cannot be cut on ${machineName}: ${cannot.slice(0, 3).join("; ")}${cannot.length > 3 ? `; and ${cannot.length - 3} more` : ""}. Plan again for another machine, or with smaller blocks.`,
         );
       const blocks = await trx("blocks")
         .whereIn("code", codes)
@@ -617,6 +644,7 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
       await trx("plan_blocks").insert(
         blocks.map((b: { id: number }) => ({ run_id: id, block_id: b.id, status: "reserved" })),
       );
+      await allocateOffcutCodes(trx, id, blocks, plan);
       await trx("blocks")
         .whereIn(
           "id",
@@ -688,269 +716,6 @@ export async function releaseRun(id: number, actorId: string): Promise<void> {
     await trx("nesting_runs").where({ id }).update({ status: "cancelled" });
     await trx("audit_log").insert({ actor_id: actorId, action: "run.release", subject: `run:${id}` });
   });
-}
-
-// ---- at the machine ----
-
-export interface CutResult {
-  offcutCodes: string[];
-  losses: ReturnType<typeof lossBreakdown>;
-}
-
-/**
- * Records a block as cut: it leaves stock, its kept offcuts become new stock (same lot and grade,
- * with the defect zones that fall inside them), rejects are recorded, and the loss breakdown is
- * kept. Block volume = good blanks + rejects + offcuts + trim + kerf + defect cut-outs + unusable.
- */
-export async function recordCut(
-  runId: number,
-  blockId: number,
-  input: RecordCutInput,
-  actorId: string,
-): Promise<CutResult> {
-  return db().transaction(async (trx) => {
-    const run = await trx("nesting_runs").where({ id: runId }).forUpdate().first();
-    if (!run) throw new HttpError(404, "That plan was not found.");
-    if (run.status !== "approved") throw new HttpError(409, "Only an approved plan is cut.");
-    const pb = await trx("plan_blocks").where({ run_id: runId, block_id: blockId }).forUpdate().first();
-    if (!pb) throw new HttpError(404, "That block is not in this plan.");
-    if (pb.status !== "reserved")
-      throw new HttpError(
-        409,
-        pb.status === "cut" ? "That block is already marked cut." : "That block was released from this plan.",
-      );
-    const block = await trx("blocks").where({ id: blockId }).forUpdate().first();
-    const plan = run.plan as Plan;
-    const problem = run.problem as Problem;
-    const settings = run.settings as RunSettings;
-    const onBlock = plan.placements.filter((p) => p.block === block.code);
-    const placedCount = new Map<number, number>();
-    for (const p of onBlock) placedCount.set(partIdFromKey(p.part), (placedCount.get(partIdFromKey(p.part)) ?? 0) + 1);
-    const rejectCount = new Map<number, { count: number; reason: string }>();
-    const fields: Record<string, string> = {};
-    input.rejects.forEach((r, i) => {
-      const placed = placedCount.get(r.jobPartId) ?? 0;
-      const already = rejectCount.get(r.jobPartId)?.count ?? 0;
-      if (!placed) fields[`rejects.${i}.jobPartId`] = "That part is not cut from this block.";
-      else if (already + r.count > placed)
-        fields[`rejects.${i}.count`] = `Only ${placed} of that part come from this block.`;
-      else rejectCount.set(r.jobPartId, { count: already + r.count, reason: r.reason });
-    });
-    if (Object.keys(fields).length) throw new HttpError(400, "Some rejects need attention.", fields);
-
-    const size: [number, number, number] = [Number(block.size_x), Number(block.size_y), Number(block.size_z)];
-    const problemBlock = problem.blocks.find((b) => b.id === block.code);
-    const trim = problemBlock?.trim ?? (block.parent_id ? 0 : settings.trim);
-    const defects = await trx("defect_zones").where({ block_id: blockId }).orderBy("id");
-    const grown = defects.map((d: Record<string, string>) => ({
-      min: [
-        Number(d.min_x) - settings.defectMargin,
-        Number(d.min_y) - settings.defectMargin,
-        Number(d.min_z) - settings.defectMargin,
-      ] as [number, number, number],
-      max: [
-        Number(d.max_x) + settings.defectMargin,
-        Number(d.max_y) + settings.defectMargin,
-        Number(d.max_z) + settings.defectMargin,
-      ] as [number, number, number],
-    }));
-    const rejectedSizes: [number, number, number][] = [];
-    const remaining = new Map([...rejectCount].map(([k, v]) => [k, v.count]));
-    for (const p of onBlock) {
-      const id = partIdFromKey(p.part);
-      if ((remaining.get(id) ?? 0) > 0) {
-        rejectedSizes.push(p.size);
-        remaining.set(id, remaining.get(id)! - 1);
-      }
-    }
-    const offcuts = plan.offcuts.filter((o) => o.block === block.code);
-    const losses = lossBreakdown({
-      size,
-      trim,
-      kerf: settings.kerf,
-      cuts: plan.cuts[block.code] ?? [],
-      blanks: onBlock.map((p) => p.size),
-      rejected: rejectedSizes,
-      offcuts,
-      defects: grown,
-    });
-
-    // The block leaves stock.
-    const blockValue = Number(block.cost);
-    await trx("blocks").where({ id: blockId }).update({ status: "cut", updated_at: trx.fn.now() });
-    await appendLedger(trx, [
-      {
-        blockId,
-        kind: "consumed",
-        volumeM3: Number(block.volume_m3),
-        value: blockValue,
-        userId: actorId,
-        reason: `Cut to plan #${runId}`,
-        ref: `run:${runId}`,
-      },
-    ]);
-
-    // Its offcuts come back as stock, with the defect zones that fall inside them.
-    const existing = Number(
-      (await trx("blocks").where({ parent_id: blockId }).count<{ n: string }[]>({ n: "*" }).first())?.n ?? 0,
-    );
-    const offcutCodes: string[] = [];
-    const blockVol = losses.block;
-    for (const [i, o] of offcuts.entries()) {
-      const code = `${block.code}.${existing + i + 1}`;
-      const vol = (o.size[0] * o.size[1] * o.size[2]) / 1e9;
-      const value = Math.round(((blockValue * vol) / blockVol) * 100) / 100;
-      const [child] = await trx("blocks")
-        .insert({
-          code,
-          grade_id: block.grade_id,
-          lot: block.lot,
-          delivery_id: block.delivery_id,
-          parent_id: blockId,
-          origin_in_parent: trx.raw("?::numeric[]", [`{${o.origin.join(",")}}`]),
-          nominal_x: o.size[0],
-          nominal_y: o.size[1],
-          nominal_z: o.size[2],
-          size_x: o.size[0],
-          size_y: o.size[1],
-          size_z: o.size[2],
-          weight_kg: null,
-          cost: value,
-          location: block.location,
-          moulded_on: block.moulded_on,
-          cut_not_before: block.cut_not_before,
-          status: "in_stock",
-          notes: `Offcut of ${block.code}, plan #${runId}`,
-        })
-        .returning(["id", "volume_m3"]);
-      offcutCodes.push(code);
-      await appendLedger(trx, [
-        {
-          blockId: child.id,
-          kind: "offcut_created",
-          volumeM3: Number(child.volume_m3),
-          value,
-          userId: actorId,
-          reason: `Offcut of ${block.code}`,
-          ref: `run:${runId}`,
-        },
-      ]);
-      for (const d of defects) {
-        const min = [Number(d.min_x), Number(d.min_y), Number(d.min_z)].map(
-          (v, k) => Math.max(v, o.origin[k]!) - o.origin[k]!,
-        );
-        const max = [Number(d.max_x), Number(d.max_y), Number(d.max_z)].map(
-          (v, k) => Math.min(v, o.origin[k]! + o.size[k]!) - o.origin[k]!,
-        );
-        if (max.every((v, k) => v > min[k]!)) {
-          await trx("defect_zones").insert({
-            block_id: child.id,
-            kind: d.kind,
-            min_x: min[0],
-            min_y: min[1],
-            min_z: min[2],
-            max_x: max[0],
-            max_y: max[1],
-            max_z: max[2],
-            found_by: d.found_by,
-            found_at: d.found_at,
-            note: d.note,
-            inherited_from: d.id,
-          });
-        }
-      }
-    }
-
-    // What was cut, part by part; yield counts the true volume where a profile exists.
-    const partRows = await trx("job_parts")
-      .whereIn("id", [...placedCount.keys()])
-      .select("id", "size_x", "size_y", "size_z", "true_volume_mm3");
-    let partVolume = 0;
-    const bases = new Set<string>();
-    for (const p of partRows as Record<string, string | number | null>[]) {
-      const id = p.id as number;
-      const rejected = rejectCount.get(id)?.count ?? 0;
-      const good = (placedCount.get(id) ?? 0) - rejected;
-      const basis = p.true_volume_mm3 !== null ? "profile" : "box";
-      bases.add(basis);
-      const each =
-        basis === "profile"
-          ? Number(p.true_volume_mm3) / 1e9
-          : (Number(p.size_x) * Number(p.size_y) * Number(p.size_z)) / 1e9;
-      partVolume += each * good;
-      await trx("cut_parts").insert({
-        run_id: runId,
-        block_id: blockId,
-        job_part_id: id,
-        good_count: good,
-        rejected_count: rejected,
-        reject_reason: rejectCount.get(id)?.reason ?? null,
-        part_volume_m3: each * good,
-        volume_basis: basis,
-        recorded_by: actorId,
-      });
-    }
-    await trx("plan_blocks")
-      .where({ id: pb.id })
-      .update({
-        status: "cut",
-        cut_at: trx.fn.now(),
-        cut_by: actorId,
-        block_volume_m3: losses.block,
-        part_volume_m3: partVolume,
-        offcut_volume_m3: losses.offcuts,
-        loss_trim_m3: losses.trim,
-        loss_kerf_m3: losses.kerf,
-        loss_defect_m3: losses.defect,
-        loss_unusable_m3: losses.unusable,
-        loss_reject_m3: losses.rejects,
-        volume_basis: bases.size > 1 ? "mixed" : ([...bases][0] ?? "box"),
-      });
-    if (input.note)
-      await trx("audit_log").insert({
-        actor_id: actorId,
-        action: "run.cut_note",
-        subject: `block:${blockId}`,
-        detail: { note: input.note },
-      });
-
-    // The plan closes when its last block is cut; a job is done when nothing is owed.
-    const open = await trx("plan_blocks")
-      .where({ run_id: runId, status: "reserved" })
-      .count<{ n: string }[]>({ n: "*" })
-      .first();
-    if (Number(open?.n) === 0) await trx("nesting_runs").where({ id: runId }).update({ status: "closed" });
-    for (const jobId of run.job_ids as number[]) {
-      const owed = (await owedParts(trx, [jobId])).reduce((s, p) => s + p.quantity, 0);
-      await trx("jobs")
-        .where({ id: jobId })
-        .whereNotIn("status", ["cancelled"])
-        .update({ status: owed === 0 ? "done" : "cutting" });
-    }
-    return { offcutCodes, losses };
-  });
-}
-
-/**
- * Parts this run still owes: what it could not place, plus rejects recorded against it.
- * A caller that already holds the run's plan hands it in (`owedByRun(run.id, run.plan)`) to spare
- * reading and parsing it again.
- */
-export async function owedByRun(runId: number, knownPlan?: Plan | null): Promise<Map<number, number>> {
-  const plan =
-    knownPlan !== undefined
-      ? knownPlan
-      : ((await db()("nesting_runs").where({ id: runId }).first("plan"))?.plan as Plan | null | undefined);
-  const owed = new Map<number, number>();
-  for (const u of plan?.unplaced ?? [])
-    owed.set(partIdFromKey(u.part), (owed.get(partIdFromKey(u.part)) ?? 0) + u.count);
-  const rejects = await db()("cut_parts")
-    .where({ run_id: runId })
-    .where("rejected_count", ">", 0)
-    .select("job_part_id", "rejected_count");
-  for (const r of rejects as { job_part_id: number; rejected_count: number }[])
-    owed.set(r.job_part_id, (owed.get(r.job_part_id) ?? 0) + r.rejected_count);
-  return owed;
 }
 
 /** One step: a new run for what this run still owes, in today's candidate stock. */

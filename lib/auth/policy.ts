@@ -82,6 +82,13 @@ export const API_POLICY = {
   "POST /api/library": ["planner"],
   "PATCH /api/library/[partId]": ["planner"],
 
+  // The shop's cutters: the admin and the planner keep them (kerf and feed per grade too).
+  "GET /api/machines": "signed-in",
+  "POST /api/machines": ["planner"],
+  "GET /api/machines/[machineId]": "signed-in",
+  "PUT /api/machines/[machineId]": ["planner"],
+  "PUT /api/machines/[machineId]/grades": ["planner"],
+
   // Cut planning: the planner runs, approves and releases plans; the cutter records cuts.
   "GET /api/runs": "signed-in",
   "POST /api/runs": ["planner"],
@@ -92,6 +99,9 @@ export const API_POLICY = {
   "POST /api/runs/[runId]/release": ["planner"],
   "POST /api/runs/[runId]/replan": ["planner"],
   "POST /api/runs/[runId]/blocks/[blockId]/cut": ["cutter"],
+  "POST /api/runs/[runId]/blocks/[blockId]/undo": ["cutter", "planner"],
+  "GET /api/runs/[runId]/blocks/[blockId]/steps": "signed-in",
+  "PUT /api/runs/[runId]/blocks/[blockId]/steps/[step]": ["cutter"],
   "GET /api/runs/[runId]/cut-list": "signed-in",
   "GET /api/runs/[runId]/gcode": ["cutter", "planner"],
 } as const satisfies Record<string, Access>;

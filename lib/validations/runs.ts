@@ -35,6 +35,8 @@ export const createRunSchema = z.object({
     .min(1, "Choose at least one block or offcut.")
     .max(2000),
   settings: runSettingsSchema,
+  /** The block cutter the plan is made for: its calibrated kerf for the grades involved replaces settings.kerf. */
+  machineId: z.number({ error: "Choose a machine." }).int().positive("Choose a machine.").nullable().optional(),
 });
 export type CreateRunInput = z.infer<typeof createRunSchema>;
 
@@ -50,5 +52,9 @@ export const recordCutSchema = z.object({
     .max(500)
     .default([]),
   note: z.string().trim().max(500).optional().nullable(),
+  /** Finishing a block takes the cutter's confirmation: the block leaves stock and its offcuts enter it. */
+  confirm: z.literal(true, { error: "Confirm that the whole block is cut (confirm: true)." }),
+  /** Part-cut: only the steps checked off are recorded; the uncut pieces go back to stock. */
+  partial: z.boolean({ error: "partial is true or false." }).optional(),
 });
 export type RecordCutInput = z.infer<typeof recordCutSchema>;

@@ -117,7 +117,11 @@ describe("imports and cuts at the same time", () => {
           buyer.call("post", "/api/imports/deliveries?commit=1").set("Content-Type", "text/csv").send(f.csv),
         ),
       ),
-      Promise.all(approved.map((a) => cutter.post(`/api/runs/${a.runId}/blocks/${a.block.id}/cut`, { rejects: [] }))),
+      Promise.all(
+        approved.map((a) =>
+          cutter.post(`/api/runs/${a.runId}/blocks/${a.block.id}/cut`, { rejects: [], confirm: true }),
+        ),
+      ),
     ]);
 
     expect(
@@ -180,7 +184,7 @@ describe("imports and cuts at the same time", () => {
     const a = await makeApprovedRun();
     const gap = await ledgerGap();
     const [x, y] = await Promise.all(
-      [0, 1].map(() => cutter.post(`/api/runs/${a.runId}/blocks/${a.block.id}/cut`, { rejects: [] })),
+      [0, 1].map(() => cutter.post(`/api/runs/${a.runId}/blocks/${a.block.id}/cut`, { rejects: [], confirm: true })),
     );
     expect([x!.status, y!.status].sort()).toEqual([200, 409]);
     expect(await count("stock_ledger", { block_id: a.block.id, kind: "consumed" })).toBe(1);

@@ -26,6 +26,31 @@ export interface Example {
   expect?: number;
 }
 
+/** A valid machine as the API takes it (invented figures). */
+export const machineBody = (name: string) => ({
+  name,
+  kind: "block",
+  wire: "horizontal",
+  wireLength: 1300,
+  travel: [5200, 1300],
+  maxPiece: [5000, 1300, 1250],
+  turntable: true,
+  rapid: 2400,
+  heatUpS: 20,
+  handlingS: 90,
+  dialect: { unitWords: "G20/G21", inch: false, heatOn: "M3", heatOff: "M5", axes: ["X", "Y"], lineNumbers: false },
+});
+const machineRow = {
+  kind: "block",
+  wire: "horizontal",
+  wire_length_mm: 1300,
+  travel_x_mm: 5200,
+  travel_y_mm: 1300,
+  max_length_mm: 5000,
+  max_width_mm: 1300,
+  max_height_mm: 1250,
+};
+
 let n = 0;
 const unique = () => `${Date.now().toString(36)}-${++n}`;
 
@@ -74,6 +99,18 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     body: { password: "temporary-pass-2" },
   }),
   "POST /api/grades": async () => ({ body: gradeBody(`G-${unique()}`), expect: 201 }),
+  "POST /api/machines": async () => ({ body: machineBody(`Cutter ${unique()}`), expect: 201 }),
+  "GET /api/machines/[machineId]": async () => ({ params: { machineId: String(await firstId("machines")) } }),
+  "PUT /api/machines/[machineId]": async () => {
+    const [m] = await testDb()("machines")
+      .insert({ ...machineRow, name: `Cutter ${unique()}` })
+      .returning("id");
+    return { params: { machineId: String(m.id) }, body: machineBody(`Cutter ${unique()}`) };
+  },
+  "PUT /api/machines/[machineId]/grades": async () => ({
+    params: { machineId: String(await firstId("machines")) },
+    body: { grades: [{ gradeId: await firstId("grades"), kerf: 1.5, feed: 300 }] },
+  }),
   "GET /api/grades/[gradeId]": async () => ({ params: { gradeId: String(await firstId("grades")) } }),
   "PUT /api/grades/[gradeId]": async () => {
     const [g] = await testDb()("grades")
@@ -160,12 +197,28 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
   },
   "POST /api/runs/[runId]/blocks/[blockId]/cut": async () => {
     const { runId, block } = await makeApprovedRun();
-    return { params: { runId: String(runId), blockId: String(block.id) }, body: { rejects: [] } };
+    return { params: { runId: String(runId), blockId: String(block.id) }, body: { rejects: [], confirm: true } };
+  },
+  "POST /api/runs/[runId]/blocks/[blockId]/undo": async () => {
+    const { runId, block } = await makeApprovedRun();
+    const { client: http, demoEmail } = await import("../support/http");
+    const c = http();
+    await c.signIn(demoEmail("cutter"));
+    await c.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [], confirm: true });
+    return { params: { runId: String(runId), blockId: String(block.id) } };
+  },
+  "GET /api/runs/[runId]/blocks/[blockId]/steps": async () => {
+    const { runId, block } = await makeApprovedRun();
+    return { params: { runId: String(runId), blockId: String(block.id) } };
+  },
+  "PUT /api/runs/[runId]/blocks/[blockId]/steps/[step]": async () => {
+    const { runId, block } = await makeApprovedRun();
+    return { params: { runId: String(runId), blockId: String(block.id), step: "1" }, body: { done: true } };
   },
   "GET /api/runs/[runId]/cut-list": async () => ({ params: { runId: String((await makePlannedBlock()).runId) } }),
   "GET /api/runs/[runId]/gcode": async () => {
     const { runId, block } = await makePlannedBlock();
-    return { params: { runId: String(runId) }, query: `block=${encodeURIComponent(block.code)}` };
+    return { params: { runId: String(runId) }, query: `block=${encodeURIComponent(block.code)}&step=1` };
   },
   "POST /api/defects/[defectId]/photos": async () => {
     const block = await makeBlock();

@@ -284,6 +284,7 @@ describe("at the machine", () => {
     const gap = await ledgerGap();
     const res = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, {
       rejects: [{ jobPartId: partIds[0], count: 1, reason: "void in the cut face" }],
+      confirm: true,
     });
     expect(res.status).toBe(200);
     const l = res.body.losses;
@@ -306,7 +307,9 @@ describe("at the machine", () => {
     expect(cut.reduce((s: number, r: { good_count: number }) => s + r.good_count, 0)).toBe(1);
     expect(cut.reduce((s: number, r: { rejected_count: number }) => s + r.rejected_count, 0)).toBe(1);
     expect((await testDb()("nesting_runs").where({ id: runId }).first()).status).toBe("closed");
-    expect((await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [] })).status).toBe(409);
+    expect(
+      (await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [], confirm: true })).status,
+    ).toBe(409);
   });
 
   it("refuses more rejects than the block gives, changing nothing", async () => {
@@ -314,6 +317,7 @@ describe("at the machine", () => {
     const before = await tableCounts();
     const res = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, {
       rejects: [{ jobPartId: partIds[0], count: 5, reason: "x" }],
+      confirm: true,
     });
     expect(res.status).toBe(400);
     expect(res.body.fields["rejects.0.count"]).toMatch(/Only 2/);
@@ -325,6 +329,7 @@ describe("at the machine", () => {
     await makeBlock({ size: [2000, 1000, 600] });
     await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, {
       rejects: [{ jobPartId: partIds[0], count: 2, reason: "wet core" }],
+      confirm: true,
     });
     const res = await planner.post(`/api/runs/${runId}/replan`);
     expect(res.status).toBe(201);
@@ -335,20 +340,31 @@ describe("at the machine", () => {
 });
 
 describe("outputs", () => {
-  it("gives the cut list as CSV and straight cuts as G-code", async () => {
+  it("gives the cut list as CSV and one G-code program per placement", async () => {
     const { runId, block, plan } = await makePlannedBlock();
     const csv = await planner.get(`/api/runs/${runId}/cut-list`);
     expect(csv.status).toBe(200);
     expect(csv.text.replace(/^\uFEFF/, "").split(/\r\n/)).toHaveLength(plan.placements.length + 1);
-    const g = await cutter.get(`/api/runs/${runId}/gcode?block=${encodeURIComponent(block.code)}`);
-    expect(g.status).toBe(200);
-    expect(g.text).toMatch(/^\(BLOCKYARD STRAIGHT CUTS/);
-    expect(g.text).toMatch(/DRY-RUN/);
-    expect(g.text.trim().split("\n").at(-1)).toBe("M2");
-    expect((await cutter.get(`/api/runs/${runId}/gcode?block=NOPE`)).status).toBe(404);
-    // Without a block: a 400 that says what to send.
+    const code = encodeURIComponent(block.code);
+    const steps = await cutter.get(`/api/runs/${runId}/blocks/${block.id}/steps`);
+    expect(steps.status).toBe(200);
+    expect(steps.body.procedure.ok).toBe(true);
+    const n = steps.body.procedure.steps.length;
+    for (let s = 1; s <= n; s++) {
+      const g = await cutter.get(`/api/runs/${runId}/gcode?block=${code}&step=${s}`);
+      expect(g.status).toBe(200);
+      expect(g.text).toContain(`STEP ${s}`);
+      expect(g.text).toMatch(/DRY-RUN/);
+      expect(g.text.trim().split("\n").at(-1)).toMatch(/M2$/);
+    }
+    expect((await cutter.get(`/api/runs/${runId}/gcode?block=${code}&step=${n + 1}`)).status).toBe(404);
+    expect((await cutter.get(`/api/runs/${runId}/gcode?block=NOPE&step=1`)).status).toBe(404);
+    // Without a block or a step: a 400 that says what to send.
     const none = await cutter.get(`/api/runs/${runId}/gcode`);
     expect(none.status).toBe(400);
-    expect(none.body.fields).toEqual({ block: "Name the block, e.g. block=HF-1001." });
+    expect(none.body.fields).toEqual({
+      block: "Name the block, e.g. block=HF-1001.",
+      step: "Name the step, e.g. step=1: one program per placement.",
+    });
   });
 });

@@ -69,21 +69,23 @@ describe("the planner's and the cutter's loop", () => {
     // The page streams in after its loading skeleton: wait for it before counting.
     await cutter.getByRole("heading", { name: `At the machine · plan #${runId}` }).waitFor();
     await cutter
-      .getByRole("button", { name: /^Mark .+ cut$/ })
+      .getByRole("button", { name: /^Finish .+…$/ })
       .first()
       .waitFor();
     await screenshot(cutter, "at-the-machine-tablet");
-    const buttons = cutter.getByRole("button", { name: /^Mark .+ cut$/ });
+    const buttons = cutter.getByRole("button", { name: /^Finish .+…$/ });
     const n = await buttons.count();
     expect(n).toBeGreaterThan(0);
     let offcutCodes: string[] = [];
     for (let i = 0; i < n; i++) {
+      // Finishing a block asks first; nothing is recorded until the cutter says yes.
       await cutter
-        .getByRole("button", { name: /^Mark .+ cut$/ })
+        .getByRole("button", { name: /^Finish .+…$/ })
         .first()
         .click();
+      await cutter.getByRole("button", { name: /^Yes, finish / }).click();
       await expect
-        .poll(() => cutter.getByRole("button", { name: /^Mark .+ cut$/ }).count(), { timeout: 15_000 })
+        .poll(() => cutter.getByRole("button", { name: /^Finish .+…$/ }).count(), { timeout: 15_000 })
         .toBe(n - i - 1);
     }
     await expect.poll(() => cutter.getByText(/ is cut$/).count(), { timeout: 15_000 }).toBe(n);

@@ -60,6 +60,8 @@ export async function makeBlock(
     location?: string;
     cutNotBefore?: string;
     cost?: number;
+    /** A code of the test's own (default: a unique one). */
+    code?: string;
   } = {},
 ) {
   const k = testDb();
@@ -67,7 +69,7 @@ export async function makeBlock(
     .where({ code: opts.gradeCode ?? "EPS-II" })
     .first("id");
   const size = opts.size ?? [2000, 1000, 500];
-  const code = `T-${process.pid}-${Date.now().toString(36)}-${++blockSeq}`.toUpperCase();
+  const code = opts.code ?? `T-${process.pid}-${Date.now().toString(36)}-${++blockSeq}`.toUpperCase();
   const [b] = await k("blocks")
     .insert({
       code,

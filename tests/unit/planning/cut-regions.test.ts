@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { cutRegions, stuckPieces, travelAcross } from "@/lib/planning/cut-regions";
-import { cutEstimate } from "@/lib/planning/gcode";
+import { cutEstimate } from "@/lib/planning/wire-travel";
 
 type V3 = [number, number, number];
 const box = (min: V3, max: V3) => ({ min, max });

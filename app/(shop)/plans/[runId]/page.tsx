@@ -1,9 +1,11 @@
+import { planSteps, stepProblems } from "@/db/queries/at-the-machine";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requireRole } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
-import { getRun, listRuns, owedByRun } from "@/db/queries/runs";
+import { getRun, listRuns } from "@/db/queries/runs";
+import { owedByRun } from "@/db/queries/owed";
 import { getShopSettings } from "@/db/queries/settings";
 import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
 import { buttonClass } from "@/components/ui/button";
@@ -26,11 +28,20 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   if (!Number.isInteger(id) || id <= 0) notFound();
   const run = await getRun(id);
   if (!run) notFound();
-  const [settings, siblings, owed] = await Promise.all([
+  const [settings, siblings, owed, steps] = await Promise.all([
     getShopSettings(),
     listRuns({ jobId: run.jobIds[0], limit: 8 }),
     owedByRun(id, run.plan),
+    planSteps(run),
   ]);
+  const stepsOf = new Map(steps.blocks.map((b) => [b.code, b]));
+  const cannotCut = stepProblems(steps.blocks);
+  // Cut time from the cutting steps where they were worked out, else from the stored wire travel.
+  const timed = steps.blocks.filter((b) => b.time);
+  const untimed = steps.blocks.filter((b) => !b.procedure);
+  const stepMinutes = timed.reduce((s, b) => s + b.time!.totalMin, 0);
+  const placements = timed.reduce((s, b) => s + b.time!.placements, 0);
+  const turns = timed.reduce((s, b) => s + b.time!.turns, 0);
   const planner = allows(["planner"], user.roles);
   const cutter = allows(["cutter"], user.roles);
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
@@ -114,11 +125,19 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                 value={`${(plan.stats.offcutVolume / 1e9).toFixed(3)} m³`}
                 note={`${plan.offcuts.length} pieces`}
               />
-              <Fig
-                label="Cut time (estimate)"
-                value={`${Math.round(totalMinutes)} min`}
-                note={`${(totalLength / 1000).toFixed(1)} m of wire travel at ${settings.feedMmPerMin} mm/min`}
-              />
+              {timed.length > 0 && untimed.length === 0 ? (
+                <Fig
+                  label="Cut time (estimate)"
+                  value={`${Math.round(stepMinutes)} min`}
+                  note={`on ${steps.machine.name}: ${placements} placement${placements === 1 ? "" : "s"}, ${turns} turn${turns === 1 ? "" : "s"}`}
+                />
+              ) : (
+                <Fig
+                  label="Cut time (estimate)"
+                  value={`${Math.round(totalMinutes)} min`}
+                  note={`${(totalLength / 1000).toFixed(1)} m of wire travel at ${settings.feedMmPerMin} mm/min`}
+                />
+              )}
             </div>
             {plan.unplaced.length > 0 && (
               <Notice tone="caution" title="Not everything fits">
@@ -138,8 +157,28 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                 Plan the job again with the guillotine or layers rule.
               </Notice>
             )}
+            {cannotCut.length > 0 && (
+              <Notice tone="danger" title={`This plan cannot be cut on ${steps.machine.name}`}>
+                <ul className="list-disc pl-5">
+                  {cannotCut.map((c) => (
+                    <li key={c}>{c}.</li>
+                  ))}
+                </ul>
+                <p className="mt-2">It cannot be approved for this machine. Plan again for another machine.</p>
+              </Notice>
+            )}
+            {steps.chosen !== "plan" && run.status !== "failed" && (
+              <p className="text-sm text-ink-soft">
+                This plan was made for no machine in particular: its steps are shown for {steps.machine.name}.
+              </p>
+            )}
             {planner && (
-              <RunActions runId={run.id} status={run.status} owes={owes} canApprove={uncuttable.length === 0} />
+              <RunActions
+                runId={run.id}
+                status={run.status}
+                owes={owes}
+                canApprove={uncuttable.length === 0 && cannotCut.length === 0}
+              />
             )}
             <HotWireCaution />
             {used.map((b) => {
@@ -158,14 +197,31 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                       {status === "reserved" && <Badge tone="kerf">earmarked</Badge>}
                     </span>
                   }
-                  action={
-                    cutter || planner ? (
-                      <a className="text-sm" href={`/api/runs/${run.id}/gcode?block=${encodeURIComponent(b.id)}`}>
-                        G-code (straight cuts)
-                      </a>
-                    ) : undefined
-                  }
+                  action={(() => {
+                    const st = stepsOf.get(b.id);
+                    if (!st?.procedure?.ok) return undefined;
+                    return (
+                      <span className="text-sm text-ink-soft">
+                        {st.procedure.steps.length} step{st.procedure.steps.length === 1 ? "" : "s"}
+                        {st.time ? ` · about ${Math.round(st.time.totalMin)} min` : ""}
+                      </span>
+                    );
+                  })()}
                 >
+                  {(cutter || planner) && stepsOf.get(b.id)?.procedure?.ok && (
+                    <p className="mb-3 flex flex-wrap items-center gap-x-3 gap-y-1 text-sm">
+                      <span className="text-ink-soft">Programs for {steps.machine.name}:</span>
+                      {(stepsOf.get(b.id)!.procedure as { steps: { n: number; piece: string }[] }).steps.map((s) => (
+                        <a
+                          key={s.n}
+                          className="inline-flex min-h-11 items-center"
+                          href={`/api/runs/${run.id}/gcode?block=${encodeURIComponent(b.id)}&step=${s.n}`}
+                        >
+                          step {s.n} (piece {s.piece})
+                        </a>
+                      ))}
+                    </p>
+                  )}
                   {uncuttable.includes(b.id) && (
                     <div className="mb-3">
                       <NotCuttable count={stuckPieces(plan, b.id, run.settings.kerf)} />

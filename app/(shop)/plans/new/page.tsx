@@ -1,3 +1,4 @@
+import { listMachines } from "@/db/queries/machines";
 import type { Metadata } from "next";
 import { requireRole } from "@/lib/auth/guard";
 import { candidateStock, jobNames } from "@/db/queries/runs";
@@ -84,6 +85,9 @@ export default async function NewPlanPage({
       <NewRunForm
         jobIds={jobIds}
         candidates={candidates}
+        machines={(await listMachines({ activeOnly: true }))
+          .filter((m) => m.kind === "block")
+          .map((m) => ({ id: m.id, name: m.name }))}
         defaults={{
           kerf: s.kerf,
           trim: s.trim,

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
+import { connection } from "next/server";
 import { requireRole } from "@/lib/auth/guard";
 import { getRun } from "@/db/queries/runs";
 import { listChildren } from "@/db/queries/blocks";
@@ -11,11 +12,16 @@ import { CutBlockForm } from "@/components/plans/cut-block-form";
 import { partIdFromKey } from "@/lib/planning/problem";
 import { stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
+import { StepRunner } from "@/components/plans/step-runner";
+import { blockSteps } from "@/db/queries/at-the-machine";
+import { UNDO_MINUTES } from "@/db/queries/cuts";
+import { UndoCut } from "@/components/plans/undo-cut";
 
 export const metadata: Metadata = { title: "At the machine" };
 
 export default async function AtTheMachinePage({ params }: { params: Promise<{ runId: string }> }) {
   await requireRole("cutter");
+  await connection(); // the undo window depends on the clock: render on each request
   const id = Number((await params).runId);
   const run = Number.isInteger(id) && id > 0 ? await getRun(id) : undefined;
   if (!run?.plan) notFound();
@@ -23,6 +29,12 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
   const partName = (k: string) => names.get(partIdFromKey(k)) ?? k;
   const inPlan = run.blocks.filter((b) => b.planStatus);
+  const partNames = Object.fromEntries(plan.placements.map((p) => [p.part, partName(p.part)]));
+  const stepsOf = new Map(
+    await Promise.all(
+      inPlan.filter((b) => b.planStatus === "reserved").map(async (b) => [b.id, await blockSteps(run, b.id)] as const),
+    ),
+  );
   const offcutsOf = new Map(
     await Promise.all(
       inPlan
@@ -74,23 +86,40 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
                   <NotCuttable count={stuck} />
                 </div>
               )}
-              {/* The drawing full width above the form: at the machine it is what people look at. */}
+              {/* The steps full width above the form: at the machine they are what people look at. */}
               <div className="space-y-5">
-                <PlanView
-                  block={{ id: b.code, size: pb.size, defects: pb.defects.map((d) => ({ min: d.min, max: d.max })) }}
-                  placements={placements}
-                  offcuts={plan.offcuts.filter((o) => o.block === b.code)}
-                  cuts={plan.cuts[b.code] ?? []}
-                  kerf={run.settings.kerf}
-                  trim={pb.trim}
-                  partName={partName}
-                  showLayers={false}
-                />
+                {stepsOf.get(b.id) && (
+                  <StepRunner
+                    runId={run.id}
+                    initial={stepsOf.get(b.id)!}
+                    partNames={partNames}
+                    canCheck={run.status === "approved"}
+                  />
+                )}
+                <details className="rounded-md border border-bead p-3" open={!stepsOf.get(b.id)}>
+                  <summary className="min-h-11 cursor-pointer py-2 font-medium">The whole block, drawn</summary>
+                  <PlanView
+                    block={{ id: b.code, size: pb.size, defects: pb.defects.map((d) => ({ min: d.min, max: d.max })) }}
+                    placements={placements}
+                    offcuts={plan.offcuts.filter((o) => o.block === b.code)}
+                    cuts={plan.cuts[b.code] ?? []}
+                    kerf={run.settings.kerf}
+                    trim={pb.trim}
+                    partName={partName}
+                    showLayers={false}
+                  />
+                </details>
                 {b.planStatus === "reserved" && run.status === "approved" ? (
                   <CutBlockForm
                     runId={run.id}
                     blockId={b.id}
                     code={b.code}
+                    stepsLeft={(() => {
+                      const st = stepsOf.get(b.id);
+                      const n = st?.procedure.ok ? st.procedure.steps.length : 0;
+                      return Math.max(0, n - (st?.done.length ?? 0));
+                    })()}
+                    stepsDone={stepsOf.get(b.id)?.done.length ?? 0}
                     parts={[...counts].map(([jobPartId, count]) => ({
                       jobPartId,
                       count,
@@ -98,19 +127,29 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
                     }))}
                   />
                 ) : b.planStatus === "cut" ? (
-                  <Notice tone="success" title={`${b.code} is cut`}>
-                    {offcutsOf.get(b.id)?.length ? (
-                      <>
-                        Offcuts now in stock: {offcutsOf.get(b.id)!.join(", ")}.{" "}
-                        <Link href={`/labels?codes=${encodeURIComponent(offcutsOf.get(b.id)!.join(","))}`}>
-                          Print their labels
-                        </Link>
-                        .
-                      </>
-                    ) : (
-                      "No offcuts were kept from it."
+                  <>
+                    <Notice tone="success" title={b.partial ? `${b.code} is recorded part-cut` : `${b.code} is cut`}>
+                      {offcutsOf.get(b.id)?.length ? (
+                        <>
+                          Offcuts now in stock: {offcutsOf.get(b.id)!.join(", ")}.{" "}
+                          <Link href={`/labels?codes=${encodeURIComponent(offcutsOf.get(b.id)!.join(","))}`}>
+                            Print their labels
+                          </Link>
+                          .
+                        </>
+                      ) : (
+                        "No offcuts were kept from it."
+                      )}
+                    </Notice>
+                    {b.cutAt && Date.parse(b.cutAt) + UNDO_MINUTES * 60_000 > Date.now() && (
+                      <UndoCut
+                        runId={run.id}
+                        blockId={b.id}
+                        code={b.code}
+                        until={new Date(Date.parse(b.cutAt) + UNDO_MINUTES * 60_000).toISOString()}
+                      />
                     )}
-                  </Notice>
+                  </>
                 ) : (
                   <p className="text-sm text-ink-soft">Released: not part of the work any more.</p>
                 )}

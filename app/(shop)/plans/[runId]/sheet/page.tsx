@@ -1,3 +1,4 @@
+import { offcutCodesOf } from "@/db/queries/offcut-codes";
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import QRCode from "qrcode";
@@ -7,7 +8,7 @@ import { getShopSettings } from "@/db/queries/settings";
 import { listChildren } from "@/db/queries/blocks";
 import { PlanView } from "@/components/plans/plan-view";
 import { PrintButton } from "@/components/stock/print-button";
-import { cutEstimate } from "@/lib/planning/gcode";
+import { cutEstimate } from "@/lib/planning/wire-travel";
 import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
@@ -30,14 +31,17 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
   const partName = (k: string) => names.get(partIdFromKey(k)) ?? k;
   const used = run.problem.blocks.filter((b) => plan.placements.some((p) => p.block === b.id));
+  // Codes are fixed when the plan is approved; before that they are the next free numbers.
+  const fixedCodes = await offcutCodesOf(run.id);
   const sheets = await Promise.all(
     used.map(async (b) => {
       const blockId = run.blocks.find((x) => x.code === b.id)?.id;
-      const existing = blockId ? (await listChildren(blockId)).length : 0;
+      const fixed = (blockId && fixedCodes.get(blockId)) || [];
+      const existing = blockId && !fixed.length ? (await listChildren(blockId)).length : 0;
       const offcuts = plan.offcuts.filter((o) => o.block === b.id);
       const labels = await Promise.all(
         offcuts.map(async (o, i) => {
-          const code = `${b.id}.${existing + i + 1}`;
+          const code = fixed[i] ?? `${b.id}.${existing + i + 1}`;
           return {
             code,
             size: o.size,

@@ -1,5 +1,5 @@
 import { api, readJson } from "@/lib/auth/guard";
-import { recordCut } from "@/db/queries/runs";
+import { recordCut } from "@/db/queries/cuts";
 import { recordCutSchema } from "@/lib/validations/runs";
 import { idParam } from "@/lib/params";
 

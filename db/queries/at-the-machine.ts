@@ -1,0 +1,169 @@
+import "server-only";
+import { db } from "@/db";
+import { HttpError } from "@/lib/errors";
+import type { Plan } from "@/lib/nesting";
+import { anyBlockCutter, blockProcedure } from "@/lib/planning/block-steps";
+import type { Machine } from "@/lib/planning/machine";
+import type { Procedure } from "@/lib/planning/procedure";
+import { cutTime, type CutTime } from "@/lib/planning/wire-path";
+import { stuckPieces } from "@/lib/planning/cut-regions";
+import { getMachine, kerfAndFeed, listMachines, type StoredMachine } from "./machines";
+import { offcutCodesOf } from "./offcut-codes";
+import type { RunDetail } from "./runs";
+import { getShopSettings } from "./settings";
+
+/**
+ * The machine a plan's steps are made for: the one it was planned for, else the shop's first
+ * active block cutter, else a cutter large enough for every block (`chosen` says which).
+ */
+export async function machineForRun(
+  run: Pick<RunDetail, "machineId" | "problem">,
+): Promise<{ machine: Machine & { id?: number; grades?: StoredMachine["grades"] }; chosen: "plan" | "shop" | "any" }> {
+  if (run.machineId) {
+    const m = await getMachine(run.machineId);
+    if (m) return { machine: m, chosen: "plan" };
+  }
+  const first = (await listMachines({ activeOnly: true })).find((m) => m.kind === "block");
+  if (first) return { machine: first, chosen: "shop" };
+  return { machine: anyBlockCutter(run.problem.blocks.map((b) => b.size)), chosen: "any" };
+}
+
+/** Feed of a block's grade on a machine: calibrated, else the shop's default. */
+async function feedFor(machine: { grades?: StoredMachine["grades"] }, gradeCode: string | undefined): Promise<number> {
+  const settings = await getShopSettings();
+  if (!gradeCode || !machine.grades?.length) return settings.feedMmPerMin;
+  const g = (await db()("grades").where({ code: gradeCode }).first("id")) as { id: number } | undefined;
+  return kerfAndFeed({ grades: machine.grades }, g ? [g.id] : [], { kerf: settings.kerf, feed: settings.feedMmPerMin })
+    .feedByGrade.values()
+    .next().value!;
+}
+
+export interface BlockSteps {
+  blockId: number;
+  code: string;
+  grade: string | null;
+  status: "reserved" | "cut" | "released" | null;
+  machine: Machine & { id?: number };
+  chosen: "plan" | "shop" | "any";
+  procedure: Procedure;
+  feed: number;
+  time: CutTime | null;
+  /** Offcut codes by the offcut's index in this block (fixed at approval; empty before). */
+  offcutCodes: string[];
+  done: { step: number; by: string | null; at: string }[];
+}
+
+/** One block of a plan as the cutter works through it: the procedure, the steps checked off, the offcut codes. */
+export async function blockSteps(run: RunDetail, blockId: number): Promise<BlockSteps> {
+  const b = run.blocks.find((x) => x.id === blockId);
+  if (!b || !run.plan) throw new HttpError(404, "That block is not in this plan.");
+  const pb = run.problem.blocks.find((x) => x.id === b.code);
+  if (!pb) throw new HttpError(404, "That block is not in this plan.");
+  const { machine, chosen } = await machineForRun(run);
+  const proc = blockProcedure(run.problem, run.plan as Plan, b.code, machine, run.settings.kerf)!;
+  const feed = await feedFor(machine, pb.grade);
+  const done = (await db()("plan_block_steps as s")
+    .leftJoin("users as u", "u.id", "s.done_by")
+    .where({ "s.run_id": run.id, "s.block_id": blockId })
+    .orderBy("s.step")
+    .select("s.step", "u.name as by", "s.done_at as at")) as { step: number; by: string | null; at: Date }[];
+  return {
+    blockId,
+    code: b.code,
+    grade: pb.grade ?? null,
+    status: b.planStatus,
+    machine,
+    chosen,
+    procedure: proc,
+    feed,
+    time: proc.ok ? cutTime(proc, machine, feed, run.settings.kerf) : null,
+    offcutCodes: (await offcutCodesOf(run.id)).get(blockId) ?? [],
+    done: done.map((d) => ({ step: d.step, by: d.by, at: d.at.toISOString() })),
+  };
+}
+
+/**
+ * Checks a step off (or on again) at the machine. Only while the plan is approved and the block
+ * is still to be cut; the step must exist in the block's procedure.
+ */
+export async function setStepDone(
+  run: RunDetail,
+  blockId: number,
+  step: number,
+  done: boolean,
+  actorId: string,
+): Promise<void> {
+  if (run.status !== "approved") throw new HttpError(409, "Only the steps of an approved plan are checked off.");
+  const steps = await blockSteps(run, blockId);
+  if (steps.status !== "reserved")
+    throw new HttpError(
+      409,
+      steps.status === "cut"
+        ? `${steps.code} is already recorded as cut.`
+        : `${steps.code} was released from this plan.`,
+    );
+  const count = steps.procedure.ok ? steps.procedure.steps.length : 0;
+  if (step > count)
+    throw new HttpError(404, `${steps.code} has ${count} step${count === 1 ? "" : "s"}; there is no step ${step}.`);
+  if (done)
+    await db()("plan_block_steps")
+      .insert({ run_id: run.id, block_id: blockId, step, done_by: actorId })
+      .onConflict(["run_id", "block_id", "step"])
+      .ignore();
+  else await db()("plan_block_steps").where({ run_id: run.id, block_id: blockId, step }).delete();
+}
+
+/** Past this many pieces in one block, steps and wire paths are not worked out on page loads (seconds each). */
+export const STEPS_PIECE_LIMIT = 400;
+
+export interface BlockPlanSteps {
+  code: string;
+  pieces: number;
+  /** Undefined past STEPS_PIECE_LIMIT pieces. */
+  procedure?: Procedure;
+  time?: CutTime;
+}
+
+/**
+ * Every used block of a plan on the plan's machine: its procedure and cut time (feed of its grade
+ * on that machine, rapids, heat-up and handling per placement), for the plan page and approval.
+ */
+export async function planSteps(
+  run: Pick<RunDetail, "machineId" | "problem" | "plan" | "settings">,
+): Promise<{ machine: Machine; chosen: "plan" | "shop" | "any"; blocks: BlockPlanSteps[] }> {
+  const { machine, chosen } = await machineForRun(run);
+  const plan = run.plan;
+  if (!plan) return { machine, chosen, blocks: [] };
+  const codes = [...new Set(plan.placements.map((p) => p.block))];
+  const blocks: BlockPlanSteps[] = [];
+  for (const code of codes) {
+    const pieces =
+      plan.placements.filter((p) => p.block === code).length + plan.offcuts.filter((o) => o.block === code).length;
+    // Past the limit, or with pieces no through cut frees (free layout, said elsewhere): no steps.
+    if (pieces > STEPS_PIECE_LIMIT || stuckPieces(plan, code, run.settings.kerf) > 0) {
+      blocks.push({ code, pieces });
+      continue;
+    }
+    const proc = blockProcedure(run.problem, plan, code, machine, run.settings.kerf)!;
+    const feed = await feedFor(machine, run.problem.blocks.find((b) => b.id === code)?.grade);
+    blocks.push({
+      code,
+      pieces,
+      procedure: proc,
+      time: proc.ok ? cutTime(proc, machine, feed, run.settings.kerf) : undefined,
+    });
+  }
+  return { machine, chosen, blocks };
+}
+
+/** "HF-1001, piece B (2440 × 1220 × 50 mm): the wire spans 1300 mm" for each block the machine cannot cut. */
+export function stepProblems(blocks: readonly BlockPlanSteps[]): string[] {
+  return blocks.flatMap((b) =>
+    b.procedure && !b.procedure.ok
+      ? b.procedure.problems.map(
+          (p) =>
+            `${b.code}, piece ${p.piece} (${p.size.map((v) => Math.round(v * 10) / 10).join(" × ")} mm): ${p.limit}`,
+        )
+      : [],
+  );
+}
