@@ -76,99 +76,112 @@ export function StepDrawing({
           ? "#e4e8f3"
           : "#e2e0dc";
   const cur = lines.find((l) => l.n === current);
+  // A short name inside each piece: the part, "offcut .3", "piece B", or nothing for scrap.
+  const label = (n: Next) =>
+    n.what.kind === "part"
+      ? partName(n.what.part)
+      : n.what.kind === "offcut"
+        ? `offcut ${(offcutCodes[n.what.index] ?? `#${n.what.index + 1}`).replace(/^.*(\.\d+)$/, "$1")}`
+        : n.what.kind === "step"
+          ? `piece ${n.what.piece}`
+          : "";
   const title = `Step ${step.n}: piece ${step.piece}, ${dims(step.size)} mm, ${step.cuts.length} cut${step.cuts.length === 1 ? "" : "s"}`;
   return (
-    <svg
-      role="img"
-      aria-labelledby={`step-${step.n}-title`}
-      viewBox={`${-pad} ${-pad} ${w + 2 * pad} ${h + 2 * pad}`}
-      className="h-auto w-full max-h-[60vh] rounded-md border border-bead bg-paper-raised"
-    >
-      <title id={`step-${step.n}-title`}>{title}</title>
-      {/* The table (horizontal wire) */}
-      {f.horizontal && <rect x={-pad} y={Y(0)} width={w + 2 * pad} height={pad} fill="#cfc9bd" />}
-      <rect
-        x={f.min[0]}
-        y={Y(f.max[1])}
-        width={f.max[0] - f.min[0]}
-        height={f.max[1] - f.min[1]}
-        fill="#fbfaf7"
-        stroke="#5b5750"
-        strokeWidth={font / 8}
-      />
-      {pieces.map((p) => (
-        <g key={p.i}>
-          <rect
-            x={p.x0}
-            y={Y(p.y1)}
-            width={p.x1 - p.x0}
-            height={p.y1 - p.y0}
-            fill={fill(p.n)}
-            stroke="#8a857c"
-            strokeWidth={font / 14}
+    <figure className="space-y-1">
+      <figcaption className="text-sm text-ink-soft">
+        Seen from the front: {mm(step.placed[0])} mm along {machine.dialect.axes[0]} · {mm(step.placed[2])} mm{" "}
+        {f.horizontal ? "high" : `along ${machine.dialect.axes[1]}`} · {mm(step.placed[1])} mm along the wire. Cut{" "}
+        {current ?? "–"} in red.
+      </figcaption>
+      <svg
+        role="img"
+        aria-labelledby={`step-${step.n}-title`}
+        viewBox={`${-pad} ${-pad} ${w + 2 * pad} ${h + 2 * pad}`}
+        className="h-auto w-full max-h-[60vh] rounded-md border border-bead bg-paper-raised"
+      >
+        <title id={`step-${step.n}-title`}>{title}</title>
+        {/* The table (horizontal wire) */}
+        {f.horizontal && <rect x={-pad} y={Y(0)} width={w + 2 * pad} height={pad} fill="#cfc9bd" />}
+        <rect
+          x={f.min[0]}
+          y={Y(f.max[1])}
+          width={f.max[0] - f.min[0]}
+          height={f.max[1] - f.min[1]}
+          fill="#fbfaf7"
+          stroke="#5b5750"
+          strokeWidth={font / 8}
+        />
+        {pieces.map((p) => (
+          <g key={p.i}>
+            <rect
+              x={p.x0}
+              y={Y(p.y1)}
+              width={p.x1 - p.x0}
+              height={p.y1 - p.y0}
+              fill={fill(p.n)}
+              stroke="#8a857c"
+              strokeWidth={font / 14}
+            />
+            {p.x1 - p.x0 > label(p.n).length * font * 0.5 + font && p.y1 - p.y0 > font * 1.6 && (
+              <text
+                x={(p.x0 + p.x1) / 2}
+                y={Y((p.y0 + p.y1) / 2) + font / 3}
+                fontSize={font * 0.8}
+                textAnchor="middle"
+                fill="#3d3a35"
+              >
+                {label(p.n)}
+              </text>
+            )}
+          </g>
+        ))}
+        {lines.map((l) => (
+          <line
+            key={l.n}
+            x1={l.x1}
+            y1={Y(l.y1)}
+            x2={l.x2}
+            y2={Y(l.y2)}
+            stroke={l.n === current ? "#b4461b" : "#6c675f"}
+            strokeWidth={l.n === current ? font / 3 : font / 10}
+            strokeDasharray={l.n === current ? undefined : `${font / 2} ${font / 4}`}
           />
-          {p.x1 - p.x0 > font * 6 && p.y1 - p.y0 > font * 1.6 && (
+        ))}
+        {lines
+          .filter((l) => l.n !== current && roomy(l))
+          .map((l) => (
             <text
-              x={(p.x0 + p.x1) / 2}
-              y={Y((p.y0 + p.y1) / 2) + font / 3}
+              key={`n${l.n}`}
+              x={l.vertical ? l.mid : l.x1 - font * 0.3}
+              y={l.vertical ? Y(l.y2) - font * 0.3 : Y(l.mid) + font / 3}
               fontSize={font * 0.8}
-              textAnchor="middle"
+              textAnchor={l.vertical ? "middle" : "end"}
               fill="#3d3a35"
             >
-              {describeNext(p.n, partName, offcutCodes).replace(/ → .*/, "")}
+              {l.n}
             </text>
-          )}
-        </g>
-      ))}
-      {lines.map((l) => (
-        <line
-          key={l.n}
-          x1={l.x1}
-          y1={Y(l.y1)}
-          x2={l.x2}
-          y2={Y(l.y2)}
-          stroke={l.n === current ? "#b4461b" : "#6c675f"}
-          strokeWidth={l.n === current ? font / 3 : font / 10}
-          strokeDasharray={l.n === current ? undefined : `${font / 2} ${font / 4}`}
-        />
-      ))}
-      {lines
-        .filter((l) => l.n !== current && roomy(l))
-        .map((l) => (
-          <text
-            key={`n${l.n}`}
-            x={l.vertical ? l.mid : l.x1 - font * 0.3}
-            y={l.vertical ? Y(l.y2) - font * 0.3 : Y(l.mid) + font / 3}
-            fontSize={font * 0.8}
-            textAnchor={l.vertical ? "middle" : "end"}
-            fill="#3d3a35"
-          >
-            {l.n}
-          </text>
-        ))}
-      {cur && (
-        <g>
-          <circle
-            cx={cur.vertical ? cur.mid : cur.x1 - font}
-            cy={cur.vertical ? Y(cur.y2) - font : Y(cur.mid)}
-            r={font * 0.95}
-            fill="#b4461b"
-          />
-          <text
-            x={cur.vertical ? cur.mid : cur.x1 - font}
-            y={(cur.vertical ? Y(cur.y2) - font : Y(cur.mid)) + font * 0.4}
-            fontSize={font * 1.1}
-            fontWeight={700}
-            textAnchor="middle"
-            fill="#fff"
-          >
-            {cur.n}
-          </text>
-        </g>
-      )}
-      <text x={f.min[0]} y={Y(f.max[1]) - font * 0.4} fontSize={font * 0.8} fill="#3d3a35">
-        {`${mm(step.placed[0])} along ${machine.dialect.axes[0]} · ${mm(step.placed[2])} ${f.horizontal ? "high" : `along ${machine.dialect.axes[1]}`} · ${mm(step.placed[1])} along the wire`}
-      </text>
-    </svg>
+          ))}
+        {cur && (
+          <g>
+            <circle
+              cx={cur.vertical ? cur.mid : cur.x1 - font}
+              cy={cur.vertical ? Y(cur.y2) - font : Y(cur.mid)}
+              r={font * 0.95}
+              fill="#b4461b"
+            />
+            <text
+              x={cur.vertical ? cur.mid : cur.x1 - font}
+              y={(cur.vertical ? Y(cur.y2) - font : Y(cur.mid)) + font * 0.4}
+              fontSize={font * 1.1}
+              fontWeight={700}
+              textAnchor="middle"
+              fill="#fff"
+            >
+              {cur.n}
+            </text>
+          </g>
+        )}
+      </svg>
+    </figure>
   );
 }

@@ -6,6 +6,7 @@ import useSWR from "swr";
 import type { BlockSteps } from "@/db/queries/at-the-machine";
 import { ApiError, fetcher, send } from "@/lib/swr/fetcher";
 import { dims, mm } from "@/lib/planning/machine";
+import { partIdFromKey } from "@/lib/planning/problem";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { StepDrawing, describeNext } from "./step-drawing";
@@ -40,6 +41,10 @@ export function StepRunner({
   const [cut, setCut] = useState<number | null>(null);
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<string | null>(null);
+  const [rejects, setRejects] = useState<{ jobPartId: number; count: number; reason: string }[]>([]);
+  const [rejectPart, setRejectPart] = useState("");
+  const [rejectCount, setRejectCount] = useState("1");
+  const [rejectReason, setRejectReason] = useState("");
   const partName = (k: string) => partNames[k] ?? k;
 
   if (!proc.ok) {
@@ -67,7 +72,11 @@ export function StepRunner({
     setBusy(true);
     setError(null);
     try {
-      await send(`/api/runs/${runId}/blocks/${s.blockId}/steps/${step.n}`, "PUT", { done });
+      await send(`/api/runs/${runId}/blocks/${s.blockId}/steps/${step.n}`, "PUT", {
+        done,
+        rejects: done ? rejects : [],
+      });
+      setRejects([]);
       await mutate();
       router.refresh(); // the finish form beside offers part-cut recording once steps are done
       if (done && step.n < steps.length) {
@@ -160,6 +169,98 @@ export function StepRunner({
             </li>
           ))}
         </ol>
+        {(() => {
+          // Parts this step frees: a reject found as it comes off is recorded here, on its step.
+          const freed = new Map<string, number>();
+          for (const n of step.next)
+            if (n.what.kind === "part") freed.set(n.what.part, (freed.get(n.what.part) ?? 0) + 1);
+          const recorded = doneBy?.rejects ?? [];
+          const nameOf = (id: number) => partName([...freed.keys()].find((k) => partIdFromKey(k) === id) ?? `jp-${id}`);
+          if (!freed.size) return null;
+          return (
+            <div className="space-y-2 rounded-md border border-bead p-3">
+              {recorded.length > 0 && (
+                <p className="text-sm">
+                  Rejected in this step:{" "}
+                  {recorded.map((r) => `${r.count} × ${nameOf(r.jobPartId)} (${r.reason})`).join("; ")}
+                </p>
+              )}
+              {rejects.length > 0 && (
+                <p className="text-sm">
+                  To record with this step:{" "}
+                  {rejects.map((r) => `${r.count} × ${nameOf(r.jobPartId)} (${r.reason})`).join("; ")}{" "}
+                  <button type="button" className="min-h-11 text-kerf underline" onClick={() => setRejects([])}>
+                    clear
+                  </button>
+                </p>
+              )}
+              {editable && !isDone && (
+                <details>
+                  <summary className="min-h-11 cursor-pointer py-2 font-medium">A part from this step is bad…</summary>
+                  <div className="grid gap-2 sm:grid-cols-[2fr_1fr_3fr_auto] sm:items-end">
+                    <label className="text-sm">
+                      <span className="block text-ink-soft">Part</span>
+                      <select
+                        className="min-h-11 w-full rounded-md border border-bead-strong px-2"
+                        value={rejectPart}
+                        onChange={(e) => setRejectPart(e.target.value)}
+                      >
+                        <option value="">Choose…</option>
+                        {[...freed].map(([k, n]) => (
+                          <option key={k} value={k}>
+                            {partName(k)} ({n} in this step)
+                          </option>
+                        ))}
+                      </select>
+                    </label>
+                    <label className="text-sm">
+                      <span className="block text-ink-soft">How many</span>
+                      <input
+                        inputMode="numeric"
+                        className="min-h-11 w-full rounded-md border border-bead-strong px-2"
+                        value={rejectCount}
+                        onChange={(e) => setRejectCount(e.target.value)}
+                      />
+                    </label>
+                    <label className="text-sm">
+                      <span className="block text-ink-soft">Why</span>
+                      <input
+                        className="min-h-11 w-full rounded-md border border-bead-strong px-2"
+                        placeholder="e.g. void in the cut face"
+                        value={rejectReason}
+                        onChange={(e) => setRejectReason(e.target.value)}
+                      />
+                    </label>
+                    <Button
+                      tone="secondary"
+                      disabled={!rejectPart || !rejectReason.trim() || !(Number(rejectCount) > 0)}
+                      onClick={() => {
+                        setRejects([
+                          ...rejects,
+                          {
+                            jobPartId: partIdFromKey(rejectPart),
+                            count: Number(rejectCount),
+                            reason: rejectReason.trim(),
+                          },
+                        ]);
+                        setRejectPart("");
+                        setRejectCount("1");
+                        setRejectReason("");
+                      }}
+                    >
+                      Add reject
+                    </Button>
+                  </div>
+                  <p className="mt-1 text-sm text-ink-soft">
+                    A void found in the block itself:{" "}
+                    <a href={`/defects/new?code=${encodeURIComponent(s.code)}`}>flag it</a> so the next plans keep clear
+                    of it.
+                  </p>
+                </details>
+              )}
+            </div>
+          );
+        })()}
         {error && <Notice tone="danger">{error}</Notice>}
         <div className="flex flex-wrap items-center gap-3">
           {editable &&

@@ -6,6 +6,7 @@ import { anyBlockCutter, blockProcedure } from "@/lib/planning/block-steps";
 import type { Machine } from "@/lib/planning/machine";
 import type { Procedure } from "@/lib/planning/procedure";
 import { cutTime, type CutTime } from "@/lib/planning/wire-path";
+import { partIdFromKey } from "@/lib/planning/problem";
 import { stuckPieces } from "@/lib/planning/cut-regions";
 import { getMachine, kerfAndFeed, listMachines, type StoredMachine } from "./machines";
 import { offcutCodesOf } from "./offcut-codes";
@@ -50,7 +51,12 @@ export interface BlockSteps {
   time: CutTime | null;
   /** Offcut codes by the offcut's index in this block (fixed at approval; empty before). */
   offcutCodes: string[];
-  done: { step: number; by: string | null; at: string }[];
+  done: {
+    step: number;
+    by: string | null;
+    at: string;
+    rejects: { jobPartId: number; count: number; reason: string }[];
+  }[];
 }
 
 /** One block of a plan as the cutter works through it: the procedure, the steps checked off, the offcut codes. */
@@ -66,7 +72,12 @@ export async function blockSteps(run: RunDetail, blockId: number): Promise<Block
     .leftJoin("users as u", "u.id", "s.done_by")
     .where({ "s.run_id": run.id, "s.block_id": blockId })
     .orderBy("s.step")
-    .select("s.step", "u.name as by", "s.done_at as at")) as { step: number; by: string | null; at: Date }[];
+    .select("s.step", "u.name as by", "s.done_at as at", "s.rejects")) as {
+    step: number;
+    by: string | null;
+    at: Date;
+    rejects: { jobPartId: number; count: number; reason: string }[];
+  }[];
   return {
     blockId,
     code: b.code,
@@ -78,7 +89,7 @@ export async function blockSteps(run: RunDetail, blockId: number): Promise<Block
     feed,
     time: proc.ok ? cutTime(proc, machine, feed, run.settings.kerf) : null,
     offcutCodes: (await offcutCodesOf(run.id)).get(blockId) ?? [],
-    done: done.map((d) => ({ step: d.step, by: d.by, at: d.at.toISOString() })),
+    done: done.map((d) => ({ step: d.step, by: d.by, at: d.at.toISOString(), rejects: d.rejects })),
   };
 }
 
@@ -92,6 +103,7 @@ export async function setStepDone(
   step: number,
   done: boolean,
   actorId: string,
+  rejects: { jobPartId: number; count: number; reason: string }[] = [],
 ): Promise<void> {
   if (run.status !== "approved") throw new HttpError(409, "Only the steps of an approved plan are checked off.");
   const steps = await blockSteps(run, blockId);
@@ -105,12 +117,30 @@ export async function setStepDone(
   const count = steps.procedure.ok ? steps.procedure.steps.length : 0;
   if (step > count)
     throw new HttpError(404, `${steps.code} has ${count} step${count === 1 ? "" : "s"}; there is no step ${step}.`);
-  if (done)
-    await db()("plan_block_steps")
-      .insert({ run_id: run.id, block_id: blockId, step, done_by: actorId })
-      .onConflict(["run_id", "block_id", "step"])
-      .ignore();
-  else await db()("plan_block_steps").where({ run_id: run.id, block_id: blockId, step }).delete();
+  // Rejects belong to the step where the part came off: only parts this step frees, at most as many.
+  const st = steps.procedure.ok ? steps.procedure.steps[step - 1]! : undefined;
+  const freed = new Map<number, number>();
+  for (const n of st?.next ?? [])
+    if (n.what.kind === "part") freed.set(partIdFromKey(n.what.part), (freed.get(partIdFromKey(n.what.part)) ?? 0) + 1);
+  const fields: Record<string, string> = {};
+  const sum = new Map<number, number>();
+  rejects.forEach((r, i) => {
+    sum.set(r.jobPartId, (sum.get(r.jobPartId) ?? 0) + r.count);
+    const n = freed.get(r.jobPartId) ?? 0;
+    if (!n) fields[`rejects.${i}.jobPartId`] = `That part does not come off in step ${step}.`;
+    else if (sum.get(r.jobPartId)! > n)
+      fields[`rejects.${i}.count`] = `Only ${n} of that part come off in step ${step}.`;
+  });
+  if (Object.keys(fields).length) throw new HttpError(400, "Some rejects need attention.", fields);
+  if (done) {
+    const insert = db()("plan_block_steps")
+      .insert({ run_id: run.id, block_id: blockId, step, done_by: actorId, rejects: JSON.stringify(rejects) })
+      .onConflict(["run_id", "block_id", "step"]);
+    // Checked again: the first check stands; rejects sent with it are added to the step's.
+    await (rejects.length
+      ? insert.merge({ rejects: db().raw("plan_block_steps.rejects || excluded.rejects") })
+      : insert.ignore());
+  } else await db()("plan_block_steps").where({ run_id: run.id, block_id: blockId, step }).delete();
 }
 
 /** Past this many pieces in one block, steps and wire paths are not worked out on page loads (seconds each). */

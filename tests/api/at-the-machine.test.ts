@@ -47,7 +47,7 @@ describe("at the machine", () => {
 
     expect((await cutter.put(`/api/runs/${runId}/blocks/${block.id}/steps/1`, { done: true })).status).toBe(200);
     const other = await cutter2.get(`/api/runs/${runId}/blocks/${block.id}/steps`);
-    expect(other.body.done).toEqual([{ step: 1, by: "Ilse Marrow", at: expect.any(String) }]);
+    expect(other.body.done).toEqual([{ step: 1, by: "Ilse Marrow", at: expect.any(String), rejects: [] }]);
     // Checking it twice keeps one record; unchecking removes it.
     await cutter2.put(`/api/runs/${runId}/blocks/${block.id}/steps/1`, { done: true });
     expect(await testDb()("plan_block_steps").where({ run_id: runId, block_id: block.id })).toHaveLength(1);

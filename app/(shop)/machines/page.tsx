@@ -78,7 +78,7 @@ export default async function MachinesPage() {
             <div className="mt-4 grid gap-4 lg:grid-cols-2">
               <MachineGradesForm machine={m} grades={grades} defaults={defaults} canEdit={canEdit} />
               {canEdit && (
-                <details className="rounded-md border border-bead p-3">
+                <details className="self-start rounded-md border border-bead p-3">
                   <summary className="min-h-11 cursor-pointer py-2 font-medium">Edit {m.name}</summary>
                   <MachineForm initial={m} />
                 </details>

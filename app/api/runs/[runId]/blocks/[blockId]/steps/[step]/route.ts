@@ -6,7 +6,20 @@ import { notFound } from "@/lib/errors";
 import { idParam } from "@/lib/params";
 
 type P = { runId: string; blockId: string; step: string };
-const body = z.object({ done: z.boolean({ error: "Say done: true or done: false." }) });
+const body = z.object({
+  done: z.boolean({ error: "Say done: true or done: false." }),
+  /** Parts found bad as they came off in this step. */
+  rejects: z
+    .array(
+      z.object({
+        jobPartId: z.number({ error: "Which part?" }).int().positive(),
+        count: z.number({ error: "How many?" }).int().min(1, "At least 1.").max(10_000),
+        reason: z.string({ error: "Say why." }).trim().min(1, "Say why it was rejected.").max(300),
+      }),
+    )
+    .max(100)
+    .default([]),
+});
 
 /** Checks a step off at the machine (done: true) or on again (done: false); stored, so work can go on elsewhere. */
 export const PUT = api<P>("PUT /api/runs/[runId]/blocks/[blockId]/steps/[step]", async ({ req, params, user }) => {
@@ -14,8 +27,8 @@ export const PUT = api<P>("PUT /api/runs/[runId]/blocks/[blockId]/steps/[step]",
   if (!run?.plan) throw notFound("That plan");
   const blockId = idParam(params.blockId, "That block");
   const step = idParam(params.step, "That step");
-  const { done } = await readJson(req, body);
-  await setStepDone(run, blockId, step, done, user!.id);
+  const { done, rejects } = await readJson(req, body);
+  await setStepDone(run, blockId, step, done, user!.id, rejects);
   const steps = await blockSteps(run, blockId);
   return { done: steps.done };
 });
