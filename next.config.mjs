@@ -21,8 +21,12 @@ const nextConfig = {
   distDir: process.env.NEXT_DIST_DIR || ".next",
   poweredByHeader: false,
   // Side-by-side development runs skip the build's type check (each engineer runs tsc on their
-  // own files); CI's run (no TEST_SLOT) keeps it.
-  typescript: { ignoreBuildErrors: process.env.SKIP_BUILD_TYPECHECK === "1" },
+  // own files); CI's run (no TEST_SLOT) keeps it. They build into their own folder (above)
+  // and write their type paths into a tsconfig of their own (scripts/build-if-needed.ts).
+  typescript: {
+    ignoreBuildErrors: process.env.SKIP_BUILD_TYPECHECK === "1",
+    tsconfigPath: process.env.NEXT_TSCONFIG || "tsconfig.json",
+  },
   serverExternalPackages: ["knex", "pg", "pg-boss", "@node-rs/argon2"],
   // The proxy (proxy.ts) buffers request bodies and cuts them off at this size: room for a photo
   // upload (6 photos of at most 10 MB each; the route refuses more with a clear 413).

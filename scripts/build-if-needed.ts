@@ -38,10 +38,15 @@ export function buildIfNeeded(): void {
     return;
   }
   process.stderr.write("[build] building the app (next build)…\n");
-  const r = spawnSync("npx", ["next", "build"], {
-    stdio: "inherit",
-    env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" },
-  });
+  // A side-by-side build (its own dist folder) writes its type paths into a tsconfig of its own,
+  // never into the checked-in tsconfig.json.
+  const dist = process.env.NEXT_DIST_DIR || ".next";
+  const env: NodeJS.ProcessEnv = { ...process.env, NEXT_TELEMETRY_DISABLED: "1" };
+  if (dist !== ".next") {
+    env.NEXT_TSCONFIG = `${dist}.tsconfig.json`;
+    fs.writeFileSync(env.NEXT_TSCONFIG, `${JSON.stringify({ extends: "./tsconfig.json" }, null, 2)}\n`);
+  }
+  const r = spawnSync("npx", ["next", "build"], { stdio: "inherit", env });
   if (r.status !== 0) {
     process.stderr.write("[build] next build failed\n");
     process.exit(r.status ?? 1);
