@@ -166,9 +166,17 @@ export async function recordCut(
     let last = await lastOffcutNumber(trx, block.code, blockId);
     const offcutCodes = offcuts.map((o) => fixed[o.index] ?? `${block.code}.${++last}`);
     const remainderCodes = remainders.map(() => `${block.code}.${++last}`);
-    const values = shareValue(blockValue, losses.block, returned.map((b) => b.size as Vec3));
+    const values = shareValue(
+      blockValue,
+      losses.block,
+      returned.map((b) => b.size as Vec3),
+    );
     const into = [
-      ...offcuts.map((o, i) => ({ box: o.box, code: offcutCodes[i]!, note: `Offcut of ${block.code}, plan #${runId}` })),
+      ...offcuts.map((o, i) => ({
+        box: o.box,
+        code: offcutCodes[i]!,
+        note: `Offcut of ${block.code}, plan #${runId}`,
+      })),
       ...remainders.map((r, i) => ({
         box: r.box,
         code: remainderCodes[i]!,
@@ -218,9 +226,11 @@ export async function recordCut(
         },
       ]);
       const inherited = new Set(
-        ((await trx("defect_zones").where({ block_id: child.id }).select("inherited_from")) as {
-          inherited_from: number | null;
-        }[]).map((z) => z.inherited_from),
+        (
+          (await trx("defect_zones").where({ block_id: child.id }).select("inherited_from")) as {
+            inherited_from: number | null;
+          }[]
+        ).map((z) => z.inherited_from),
       );
       for (const d of defects) {
         const clipped = clipZone(zone(d), o);
@@ -431,7 +441,14 @@ export async function undoCut(
         trx.raw("sum(rejected_count)::int AS rejected"),
         trx.raw("sum(not_cut_count)::int AS not_cut"),
         trx.raw("sum(part_volume_m3) AS volume"),
-      )) as { job_part_id: number; volume_basis: string; good: number; rejected: number; not_cut: number; volume: number }[];
+      )) as {
+      job_part_id: number;
+      volume_basis: string;
+      good: number;
+      rejected: number;
+      not_cut: number;
+      volume: number;
+    }[];
     const live = sums.filter((s) => s.good || s.rejected || s.not_cut);
     if (live.length)
       await trx("cut_parts").insert(
@@ -476,4 +493,3 @@ export async function undoCut(
     return { restored: block.code, writtenOff: made.map((m) => m.code) };
   });
 }
-

@@ -57,8 +57,6 @@ export async function owedByRun(runId: number, knownPlan?: Plan | null): Promise
     job_part_id: number;
     n: number;
   }[];
-  for (const r of rows)
-    if (Number(r.n) > 0) owed.set(r.job_part_id, (owed.get(r.job_part_id) ?? 0) + Number(r.n));
+  for (const r of rows) if (Number(r.n) > 0) owed.set(r.job_part_id, (owed.get(r.job_part_id) ?? 0) + Number(r.n));
   return owed;
 }
-
