@@ -1,5 +1,5 @@
 import Link from "next/link";
-import { listRuns } from "@/db/queries/runs";
+import { listRuns, type RunSummary } from "@/db/queries/runs";
 import { getShopSettings } from "@/db/queries/settings";
 import { RunStatusBadge } from "./run-status";
 
@@ -10,9 +10,27 @@ export async function JobRuns({ jobId }: { jobId: number }) {
     return (
       <p className="text-sm text-ink-soft">No runs yet. Plan this job to see how its parts nest into the stock.</p>
     );
+  return <RunTable runs={runs} feedMmPerMin={feedMmPerMin} testId="job-runs" />;
+}
+
+/**
+ * Runs side by side: yield, blocks, cost, offcuts, cut time with the placements and turns of the
+ * cutting steps (on the run's machine), what did not fit, layout. The current run is shaded.
+ */
+export function RunTable({
+  runs,
+  feedMmPerMin,
+  currentId,
+  testId,
+}: {
+  runs: RunSummary[];
+  feedMmPerMin: number;
+  currentId?: number;
+  testId: string;
+}) {
   return (
     <div className="overflow-x-auto">
-      <table data-testid="job-runs">
+      <table data-testid={testId}>
         <thead>
           <tr>
             <th className="py-1">Plan</th>
@@ -22,14 +40,15 @@ export async function JobRuns({ jobId }: { jobId: number }) {
             <th className="text-right">Stock cost</th>
             <th className="text-right">Offcuts m³</th>
             <th className="text-right">Cut time</th>
+            <th className="text-right">Placements · turns</th>
             <th className="text-right">Not placed</th>
-            <th>Layout</th>
+            <th className="pl-4">Layout</th>
             <th className="text-right">Made</th>
           </tr>
         </thead>
         <tbody>
           {runs.map((r) => (
-            <tr key={r.id} className="border-t border-bead/60">
+            <tr key={r.id} className={`border-t border-bead/60 ${r.id === currentId ? "bg-kerf-light/40" : ""}`}>
               <td className="py-1">
                 <Link href={`/plans/${r.id}`}>#{r.id}</Link>
               </td>
@@ -43,10 +62,17 @@ export async function JobRuns({ jobId }: { jobId: number }) {
               </td>
               <td className="text-right tabular-nums">{r.stats ? (r.stats.offcutVolume / 1e9).toFixed(3) : "–"}</td>
               <td className="text-right tabular-nums">
-                {r.cutLengthMm === null ? "–" : `${Math.round(r.cutLengthMm / feedMmPerMin)} min`}
+                {r.steps
+                  ? `${Math.round(r.steps.minutes)} min`
+                  : r.cutLengthMm === null
+                    ? "–"
+                    : `${Math.round(r.cutLengthMm / feedMmPerMin)} min`}
+              </td>
+              <td className="text-right tabular-nums" title={r.steps ? `on ${r.steps.machine}` : undefined}>
+                {r.steps ? `${r.steps.placements} · ${r.steps.turns}` : "–"}
               </td>
               <td className="text-right tabular-nums">{r.best?.unplacedCount ?? "–"}</td>
-              <td>{r.settings.layout ?? "–"}</td>
+              <td className="pl-4">{r.settings.layout ?? "–"}</td>
               <td className="text-right text-ink-faint">{r.createdAt.slice(0, 10)}</td>
             </tr>
           ))}

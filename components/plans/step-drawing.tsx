@@ -90,8 +90,8 @@ export function StepDrawing({
     <figure className="space-y-1">
       <figcaption className="text-sm text-ink-soft">
         Seen from the front: {mm(step.placed[0])} mm along {machine.dialect.axes[0]} · {mm(step.placed[2])} mm{" "}
-        {f.horizontal ? "high" : `along ${machine.dialect.axes[1]}`} · {mm(step.placed[1])} mm along the wire. Cut{" "}
-        {current ?? "–"} in red.
+        {f.horizontal ? "high" : `along ${machine.dialect.axes[1]}`} · {mm(step.placed[1])} mm along the wire.
+        {current !== null && ` Cut ${current} in red.`}
       </figcaption>
       <svg
         role="img"

@@ -44,6 +44,8 @@ export interface RunSummary {
   cost: number | null;
   /** Wire travel of all the plan's through cuts (mm); divide by the feed for the cut time. */
   cutLengthMm: number | null;
+  /** Placements, turns and cut time of the plan's steps on its machine, when worked out at finish. */
+  steps: PlanFigures["steps"] | null;
   /** Blocks holding pieces no cut can free (free layout only); such a plan cannot be approved. */
   stuckBlocks: string[];
 }
@@ -71,6 +73,8 @@ interface PlanFigures {
   cutLengthMm: number | null;
   /** Absent in summaries stored before plans could be uncuttable (all of them were cut trees). */
   stuckBlocks?: string[];
+  /** The cutting steps on the run's machine (absent before machines, or past the steps' piece limit). */
+  steps?: { machine: string; placements: number; turns: number; minutes: number };
 }
 
 interface RunRow {
@@ -153,6 +157,7 @@ function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
     stats: figures?.stats ?? null,
     cost: figures?.cost ?? null,
     cutLengthMm: figures?.cutLengthMm ?? null,
+    steps: figures?.steps ?? null,
     // Figures stored before plans could be uncuttable lack it: ask the plan when it is at hand.
     stuckBlocks: figures?.stuckBlocks ?? (r.plan && r.problem ? stuckBlocks(r.problem, r.plan) : []),
   };
@@ -509,6 +514,22 @@ export async function saveProgress(id: number, progress: number, best: RunFigure
 
 /** Stores a run's plan with the figures lists show; `problem` is the one the worker claimed. */
 export async function finishRun(id: number, problem: Problem, plan: Plan): Promise<void> {
+  const figures = planFigures(problem, plan);
+  // The cutting steps on the run's machine, for comparing plans by placements and time.
+  try {
+    const row = await db()("nesting_runs").where({ id }).first("machine_id", "settings");
+    const s = await planSteps({ machineId: row?.machine_id ?? null, problem, plan, settings: row?.settings });
+    const timed = s.blocks.filter((b) => b.time);
+    if (timed.length && timed.length === s.blocks.length)
+      figures.steps = {
+        machine: s.machine.name,
+        placements: timed.reduce((n, b) => n + b.time!.placements, 0),
+        turns: timed.reduce((n, b) => n + b.time!.turns, 0),
+        minutes: timed.reduce((n, b) => n + b.time!.totalMin, 0),
+      };
+  } catch {
+    /* figures without steps: the plan page works them out */
+  }
   await db()("nesting_runs")
     .where({ id })
     .whereIn("status", ["running", "cancelled"])
@@ -516,7 +537,7 @@ export async function finishRun(id: number, problem: Problem, plan: Plan): Promi
       // A cancelled run keeps its best plan so far, but stays cancelled.
       status: db().raw("CASE WHEN status = 'cancelled' THEN 'cancelled' ELSE 'done' END"),
       plan: JSON.stringify(plan),
-      summary: JSON.stringify(planFigures(problem, plan)),
+      summary: JSON.stringify(figures),
       progress: 1,
       finished_at: db().fn.now(),
       best: {

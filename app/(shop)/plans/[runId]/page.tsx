@@ -1,4 +1,5 @@
 import { planSteps, stepProblems } from "@/db/queries/at-the-machine";
+import { RunTable } from "@/components/plans/job-runs";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
@@ -255,48 +256,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
 
         {siblings.length > 1 && (
           <Card title="Runs for the same job, side by side">
-            <div className="overflow-x-auto">
-              <table data-testid="run-compare">
-                <thead>
-                  <tr>
-                    <th className="py-1">Plan</th>
-                    <th>Status</th>
-                    <th className="text-right">Yield</th>
-                    <th className="text-right">Blocks</th>
-                    <th className="text-right">Cost</th>
-                    <th className="text-right">Offcuts m³</th>
-                    <th className="text-right">Cut time</th>
-                    <th className="text-right">Unplaced</th>
-                    <th className="pl-4">Layout</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {siblings.map((s) => (
-                    <tr key={s.id} className={`border-t border-bead/60 ${s.id === run.id ? "bg-kerf-light/40" : ""}`}>
-                      <td className="py-1">
-                        <Link href={`/plans/${s.id}`}>#{s.id}</Link>
-                      </td>
-                      <td>
-                        <RunStatusBadge status={s.status} stuck={s.stuckBlocks.length > 0} />
-                      </td>
-                      <td className="text-right tabular-nums">
-                        {s.stats ? `${(s.stats.yield * 100).toFixed(1)} %` : "–"}
-                      </td>
-                      <td className="text-right tabular-nums">{s.stats?.blocksUsed ?? "–"}</td>
-                      <td className="text-right tabular-nums">{s.cost === null ? "–" : s.cost.toFixed(2)}</td>
-                      <td className="text-right tabular-nums">
-                        {s.stats ? (s.stats.offcutVolume / 1e9).toFixed(3) : "–"}
-                      </td>
-                      <td className="text-right tabular-nums">
-                        {s.cutLengthMm === null ? "–" : `${Math.round(s.cutLengthMm / settings.feedMmPerMin)} min`}
-                      </td>
-                      <td className="text-right tabular-nums">{s.best?.unplacedCount ?? "–"}</td>
-                      <td className="pl-4">{s.settings.layout ?? "–"}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
+            <RunTable runs={siblings} feedMmPerMin={settings.feedMmPerMin} currentId={run.id} testId="run-compare" />
           </Card>
         )}
       </div>

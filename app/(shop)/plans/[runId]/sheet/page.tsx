@@ -120,7 +120,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                         Step {s.n}: {s.kind === "turn" ? "turn" : "place"} piece {s.piece} · {dims(s.size)} mm
                       </p>
                       <p>{s.howToPlace}</p>
-                      <div className="max-w-sm">
+                      <div className="max-w-sm [&_svg]:max-h-56">
                         <StepDrawing
                           step={s}
                           machine={machineSteps.machine}
