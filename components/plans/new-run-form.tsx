@@ -9,19 +9,7 @@ import { Button } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import type { RunSettings } from "@/lib/validations/runs";
-
-interface Candidate {
-  id: number;
-  code: string;
-  gradeCode: string;
-  size: [number, number, number];
-  volumeM3: number;
-  cost: number;
-  isOffcut: boolean;
-  location: string;
-  defectCount: number;
-  since: string;
-}
+import type { Candidate } from "@/db/queries/runs";
 
 /** Choose the stock (proposed: ready, right grade, oldest first) and the settings, then start. */
 export function NewRunForm({

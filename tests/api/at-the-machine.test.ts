@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, makeBlock, tableCounts, testDb } from "../support/db";
 import { makePlannedBlock } from "../support/planning-fixtures";
+import { machineBody } from "./route-examples";
 
 afterAll(closeTestDb);
 
@@ -102,17 +103,8 @@ describe("at the machine", () => {
       code: string;
     };
     const m = await planner.post("/api/machines", {
-      name: `Kerf test ${Date.now().toString(36)}`,
-      kind: "block",
-      wire: "horizontal",
-      wireLength: 1300,
-      travel: [5200, 1300],
-      maxPiece: [5000, 1300, 1250],
+      ...machineBody(`Kerf test ${Date.now().toString(36)}`),
       turntable: false,
-      rapid: 2400,
-      heatUpS: 20,
-      handlingS: 90,
-      dialect: { unitWords: "G20/G21", inch: false, heatOn: "M3", heatOff: "M5", axes: ["X", "Y"], lineNumbers: false },
     });
     expect(m.status).toBe(201);
     await planner.put(`/api/machines/${m.body.machine.id}/grades`, {
@@ -150,19 +142,8 @@ describe("at the machine", () => {
     expect(run.problem.settings.kerf).toBe(2.4);
     // A profile cutter is refused, naming the field.
     const profile = await planner.post("/api/machines", {
-      ...{
-        name: `Profile ${Date.now().toString(36)}`,
-        kind: "profile",
-        wire: "horizontal",
-        wireLength: 1000,
-        travel: [1200, 600],
-        maxPiece: [1200, 1000, 600],
-        turntable: false,
-        rapid: 1500,
-        heatUpS: 10,
-        handlingS: 60,
-      },
-      dialect: { unitWords: "G70/G71", inch: false, heatOn: null, heatOff: null, axes: ["X", "Y"], lineNumbers: true },
+      ...machineBody(`Profile ${Date.now().toString(36)}`),
+      kind: "profile",
     });
     const bad = await planner.post("/api/runs", {
       jobIds: [job.id],

@@ -2,9 +2,8 @@ import fc from "fast-check";
 // @ts-expect-error -- gcode-interpreter 3.0.0 ships no type declarations.
 import GcodeInterpreter from "gcode-interpreter";
 import { describe, expect, it } from "vitest";
+import { randomPlan } from "../support/procedure-fixtures";
 import type { Vec3 } from "@/lib/nesting";
-import type { Box } from "@/lib/nesting/geometry";
-import { rng } from "@/lib/nesting/rng";
 import { ENTRY_CLEARANCE, type GcodeDialect, type Machine } from "@/lib/planning/machine";
 import { procedure, type OkProcedure, type ProcedureInput, type Step } from "@/lib/planning/procedure";
 import { program, wirePath } from "@/lib/planning/wire-path";
@@ -318,37 +317,11 @@ describe("G-code programs read back with gcode-interpreter", () => {
         fc.constantFrom(...Object.values(dialects)),
         fc.constantFrom<Machine["wire"]>("horizontal", "vertical"),
         (seed, dialect, wire) => {
-          const r = rng(seed);
-          const int = (lo: number, hi: number) => lo + Math.floor(r() * (hi - lo + 1));
-          const size: Vec3 = [int(60, 2000), int(60, 1200), int(40, 800)];
-          const kerf = [0.5, 1, 1.5, 2, 3][int(0, 4)]!;
-          const trim = int(0, 10);
-          const cells: Box[] = [{ origin: [trim, trim, trim], size: size.map((v) => v - 2 * trim) as Vec3 }];
-          const target = int(2, 25);
-          for (let tries = 0; cells.length < target && tries < 300; tries++) {
-            const k = int(0, cells.length - 1);
-            const cell = cells[k]!;
-            const a = int(0, 2);
-            if (cell.size[a]! < 10 + kerf) continue;
-            const at = int(5, Math.floor(cell.size[a]! - kerf - 5));
-            const lo: Box = { origin: [...cell.origin], size: [...cell.size] };
-            lo.size[a] = at;
-            const hi: Box = { origin: [...cell.origin], size: [...cell.size] };
-            hi.origin[a] = cell.origin[a]! + at + kerf;
-            hi.size[a] = cell.size[a]! - at - kerf;
-            cells.splice(k, 1, lo, hi);
-          }
-          const pieces = cells
-            .filter(() => r() < 0.85)
-            .map((cell, i) => {
-              const s = int(0, Math.min(15, Math.floor(Math.min(...cell.size) / 4)));
-              return {
-                kind: "part" as const,
-                part: `P${i}`,
-                origin: cell.origin.map((v) => v + s) as Vec3,
-                size: cell.size.map((v) => v - 2 * s) as Vec3,
-              };
-            });
+          const { size, trim, kerf, pieces } = randomPlan(seed, {
+            maxSize: [2000, 1200, 800],
+            maxLeaves: 25,
+            offcuts: false,
+          });
           const m = machine({ dialect, wire, wireLength: 3000, travel: [2100, 2100], maxPiece: [3000, 3000, 3000] });
           const p = procedure({ blockCode: `R-${seed}`, size, trim, kerf, pieces, machine: m });
           if (!p.ok) throw new Error(JSON.stringify(p.problems));

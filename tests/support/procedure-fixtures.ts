@@ -33,14 +33,22 @@ export const ok = (p: Procedure): OkProcedure => {
   return p;
 };
 
-/** A random guillotine plan: recursive cuts with kerf, leaves made parts, offcuts or scrap, some shrunk in their cell. */
-export function randomPlan(seed: number): Omit<ProcedureInput, "machine"> {
+/**
+ * A random guillotine plan: recursive cuts with kerf, leaves made parts, offcuts or scrap, some
+ * shrunk in their cell. `maxSize` and `maxLeaves` bound the block and the pieces; `offcuts: false`
+ * makes every kept leaf a part.
+ */
+export function randomPlan(
+  seed: number,
+  opts: { maxSize?: Vec3; maxLeaves?: number; offcuts?: boolean } = {},
+): Omit<ProcedureInput, "machine"> {
   const r = rng(seed);
   const int = (lo: number, hi: number) => lo + Math.floor(r() * (hi - lo + 1));
-  const size: Vec3 = [int(60, 3000), int(60, 1500), int(40, 1200)];
+  const max = opts.maxSize ?? [3000, 1500, 1200];
+  const size: Vec3 = [int(60, max[0]), int(60, max[1]), int(40, max[2])];
   const trim = int(0, 10);
   const kerf = [0.5, 1, 1.5, 2, 3][int(0, 4)]!;
-  const target = int(2, 40);
+  const target = int(2, opts.maxLeaves ?? 40);
   const cells: Box[] = [{ origin: [trim, trim, trim], size: size.map((v) => v - 2 * trim) as Vec3 }];
   for (let tries = 0; cells.length < target && tries < 400; tries++) {
     const k = int(0, cells.length - 1);
@@ -70,7 +78,7 @@ export function randomPlan(seed: number): Omit<ProcedureInput, "machine"> {
         box.size[a]! -= lo + hi;
       }
     pieces.push(
-      kind < 0.65
+      kind < 0.65 || opts.offcuts === false
         ? part(`P${i}`, box.origin, box.size)
         : { kind: "offcut", index: offcuts++, origin: box.origin, size: box.size },
     );

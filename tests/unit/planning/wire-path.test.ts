@@ -1,8 +1,7 @@
 import fc from "fast-check";
+import { randomPlan } from "../../support/procedure-fixtures";
 import { describe, expect, it } from "vitest";
-import type { Vec3 } from "@/lib/nesting";
 import type { Box } from "@/lib/nesting/geometry";
-import { rng } from "@/lib/nesting/rng";
 import { ENTRY_CLEARANCE, type Machine } from "@/lib/planning/machine";
 import { procedure, type OkProcedure, type Procedure, type ProcedureInput, type Step } from "@/lib/planning/procedure";
 import { cutSegments, cutTime, program, wirePath, type WirePath } from "@/lib/planning/wire-path";
@@ -228,45 +227,6 @@ function checkPath(step: Step, path: WirePath, m: Machine, kerf: number) {
   expect(path.rapidMm).toBeCloseTo(rapidMm, 6);
 }
 
-/** A random guillotine plan (as in procedure.test.ts). */
-function randomPlan(seed: number): Omit<ProcedureInput, "machine"> {
-  const r = rng(seed);
-  const int = (lo: number, hi: number) => lo + Math.floor(r() * (hi - lo + 1));
-  const size: Vec3 = [int(60, 3000), int(60, 1500), int(40, 1200)];
-  const trim = int(0, 10);
-  const kerf = [0.5, 1, 1.5, 2, 3][int(0, 4)]!;
-  const cells: Box[] = [{ origin: [trim, trim, trim], size: size.map((v) => v - 2 * trim) as Vec3 }];
-  const target = int(2, 40);
-  for (let tries = 0; cells.length < target && tries < 400; tries++) {
-    const k = int(0, cells.length - 1);
-    const cell = cells[k]!;
-    const a = int(0, 2);
-    if (cell.size[a]! < 10 + kerf) continue;
-    const at = int(5, Math.floor(cell.size[a]! - kerf - 5));
-    const lo: Box = { origin: [...cell.origin], size: [...cell.size] };
-    lo.size[a] = at;
-    const hi: Box = { origin: [...cell.origin], size: [...cell.size] };
-    hi.origin[a] = cell.origin[a]! + at + kerf;
-    hi.size[a] = cell.size[a]! - at - kerf;
-    cells.splice(k, 1, lo, hi);
-  }
-  const pieces: ProcedureInput["pieces"] = [];
-  cells.forEach((cell, i) => {
-    if (r() > 0.85) return;
-    const b: Box = { origin: [...cell.origin], size: [...cell.size] };
-    if (r() < 0.4)
-      for (let a = 0; a < 3; a++) {
-        const room = Math.floor(b.size[a]! / 4);
-        const lo = int(0, Math.min(20, room));
-        const hi = int(0, Math.min(20, room));
-        b.origin[a]! += lo;
-        b.size[a]! -= lo + hi;
-      }
-    pieces.push({ kind: "part", part: `P${i}`, ...b });
-  });
-  return { blockCode: `B-${seed}`, size, trim, kerf, pieces };
-}
-
 describe("wire path properties on random plans", () => {
   it("cuts every kerf once, feeds only in kerfs or air, never rapids across the piece, stays in travel", () => {
     fc.assert(
@@ -279,7 +239,7 @@ describe("wire path properties on random plans", () => {
         fc.integer({ min: 100, max: 2500 }),
         (seed, wire, turntable, wireLength, tx, ty) => {
           // A random machine; when it cannot make the plan, a large one.
-          const plan = randomPlan(seed);
+          const plan = randomPlan(seed, { offcuts: false });
           const tight = machine({ wire, turntable, wireLength, travel: [tx, ty], maxPiece: [1e4, 1e4, 1e4] });
           const tried = procedure({ ...plan, machine: tight });
           const m = tried.ok
@@ -302,7 +262,7 @@ describe("wire path properties on random plans", () => {
   });
 
   it("programs name the block, step and piece and keep the cautions", () => {
-    const plan = randomPlan(11);
+    const plan = randomPlan(11, { offcuts: false });
     const m = machine({ wireLength: 1e4, travel: [1e4, 1e4], maxPiece: [1e4, 1e4, 1e4] });
     const p = ok(procedure({ ...plan, machine: m }));
     for (const step of p.steps) {
