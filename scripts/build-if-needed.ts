@@ -13,6 +13,7 @@ const SOURCES = [
   "db",
   "public",
   "proxy.ts",
+  "instrumentation.ts",
   "next.config.mjs",
   "tailwind.config.ts",
   "postcss.config.mjs",

@@ -28,11 +28,31 @@ async function main() {
     : spawn(process.execPath, ["scripts/serve.mjs", "--port", port], { stdio: "inherit", env, detached: true });
   children.push(web);
   // One background worker alongside (nesting runs, scheduled alerts); more can run elsewhere.
-  const worker = spawn("npm", ["run", "--silent", "worker"], { stdio: "inherit", env, detached: true });
-  children.push(worker);
+  // Supervised: restarted when it dies (a second later, then backing off to a minute when it keeps
+  // dying); its run is swept to "failed" by any live app server or worker meanwhile.
+  let stopping = false;
+  let restarts: number[] = [];
+  const startWorker = () => {
+    const worker = spawn("npm", ["run", "--silent", "worker"], { stdio: "inherit", env, detached: true });
+    children.push(worker);
+    worker.on("exit", (code, signal) => {
+      if (stopping) return;
+      const now = Date.now();
+      restarts = [...restarts.filter((t) => now - t < 10 * 60_000), now];
+      const wait = Math.min(60_000, 1000 * 2 ** Math.max(0, restarts.length - 1));
+      process.stderr.write(
+        `[start] the worker stopped (${signal ?? `exit ${code}`}); starting another in ${Math.round(wait / 1000)} s\n`,
+      );
+      setTimeout(() => {
+        if (!stopping) startWorker();
+      }, wait);
+    });
+  };
+  startWorker();
   process.stderr.write(`[start] Blockyard on http://localhost:${port} (demo users: see README)\n`);
 
   const stop = (code: number) => {
+    stopping = true;
     void s3.stop();
     for (const c of children) {
       if (c.pid && c.exitCode === null) {

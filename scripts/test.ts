@@ -94,6 +94,8 @@ async function main() {
     DATABASE_URL: url,
     APP_URL: baseUrl,
     TRUST_PROXY: "true",
+    // Stalled runs are swept every 2 s (app servers and workers alike), so the sweep test is quick.
+    RUN_SWEEP_SECONDS: "2",
     CHROMIUM_PATH: CHROMIUM,
     NEXT_TELEMETRY_DISABLED: "1",
   };
