@@ -1,36 +1,39 @@
+import { PAGE_POLICY, allows, type PageKey } from "@/lib/auth/policy";
 import type { Role } from "@/lib/roles";
 
 export interface NavItem {
-  href: string;
+  href: PageKey;
   label: string;
-  /** Who sees it; undefined: everyone signed in. Pages still check roles on the server. */
-  roles?: Role[];
 }
 
-export const NAV: NavItem[] = [
+/**
+ * The menu, in order. Who sees an entry is not written here: it is whoever PAGE_POLICY admits to
+ * the page, so the menu never offers a page that refuses its reader, nor hides one that admits them.
+ */
+export const NAV: readonly NavItem[] = [
   { href: "/", label: "Today" },
   { href: "/stock", label: "Stock" },
-  { href: "/plans", label: "Plans", roles: ["planner", "cutter", "manager"] },
-  { href: "/jobs", label: "Jobs", roles: ["planner", "cutter", "manager"] },
-  { href: "/library", label: "Part library", roles: ["planner", "cutter", "manager"] },
-  { href: "/defects/new", label: "Flag a defect", roles: ["cutter"] },
-  { href: "/labels", label: "Labels", roles: ["cutter"] },
-  { href: "/deliveries/new", label: "Receive a delivery", roles: ["buyer"] },
-  { href: "/deliveries", label: "Deliveries", roles: ["buyer", "planner", "manager"] },
-  { href: "/stock/import", label: "CSV import", roles: ["buyer"] },
-  { href: "/ledger", label: "Stock ledger", roles: ["buyer", "planner", "manager"] },
-  { href: "/grades", label: "Grades", roles: ["buyer"] },
-  { href: "/suppliers", label: "Suppliers", roles: ["buyer"] },
-  { href: "/purchasing", label: "Reorder list", roles: ["buyer", "manager"] },
-  { href: "/purchasing/orders", label: "Purchase orders", roles: ["buyer", "manager"] },
-  { href: "/reports", label: "Reports", roles: ["manager", "planner"] },
-  { href: "/admin/users", label: "People", roles: ["admin"] },
-  { href: "/admin/settings", label: "Shop settings", roles: ["admin"] },
-  { href: "/machines", label: "Machines", roles: ["planner", "cutter"] },
-  { href: "/admin/outbox", label: "Outbox", roles: ["admin"] },
+  { href: "/plans", label: "Plans" },
+  { href: "/jobs", label: "Jobs" },
+  { href: "/library", label: "Part library" },
+  { href: "/defects/new", label: "Flag a defect" },
+  { href: "/labels", label: "Labels" },
+  { href: "/deliveries/new", label: "Receive a delivery" },
+  { href: "/deliveries", label: "Deliveries" },
+  { href: "/stock/import", label: "CSV import" },
+  { href: "/ledger", label: "Stock ledger" },
+  { href: "/grades", label: "Grades" },
+  { href: "/suppliers", label: "Suppliers" },
+  { href: "/purchasing", label: "Reorder list" },
+  { href: "/purchasing/orders", label: "Purchase orders" },
+  { href: "/reports", label: "Reports" },
+  { href: "/admin/users", label: "People" },
+  { href: "/admin/settings", label: "Shop settings" },
+  { href: "/machines", label: "Machines" },
+  { href: "/admin/outbox", label: "Outbox" },
   { href: "/safety", label: "Safety" },
 ];
 
 export function navFor(roles: readonly Role[]): NavItem[] {
-  return NAV.filter((n) => !n.roles || roles.includes("admin") || n.roles.some((r) => roles.includes(r)));
+  return NAV.filter((n) => allows(PAGE_POLICY[n.href], roles));
 }

@@ -70,7 +70,13 @@ async function serve() {
   const app = next({ dev: false, dir: process.cwd(), hostname: hostname || "localhost", port });
   await app.prepare();
   const handle = app.getRequestHandler();
-  const server = http.createServer((req, res) => void handle(req, res));
+  // Without a proxy of our own in front, a client-sent X-Forwarded-For is dropped, so Next fills
+  // in the socket address and sign-in throttling keys on the real client (lib/auth/sign-in.ts).
+  const trustProxy = ["true", "1"].includes(process.env.TRUST_PROXY ?? "");
+  const server = http.createServer((req, res) => {
+    if (!trustProxy) delete req.headers["x-forwarded-for"];
+    void handle(req, res);
+  });
   server.listen(port, hostname || undefined, () => {
     if (!cluster.isWorker) process.stderr.write(`[serve] ready on http://${hostname || "localhost"}:${port}\n`);
   });

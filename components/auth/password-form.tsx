@@ -1,5 +1,6 @@
 "use client";
 
+import { useRouter } from "next/navigation";
 import { send } from "@/lib/swr/fetcher";
 import { useSubmit } from "@/components/ui/use-submit";
 import { Field, Input } from "@/components/ui/field";
@@ -8,6 +9,7 @@ import { Notice } from "@/components/ui/card";
 
 export function PasswordForm() {
   const { busy, fields, message, setFields, submit } = useSubmit();
+  const router = useRouter();
   return (
     <form
       className="max-w-md space-y-4"
@@ -30,7 +32,10 @@ export function PasswordForm() {
             failed: "The password was not changed.",
           },
         );
-        if (done) form.reset();
+        if (done) {
+          form.reset();
+          router.refresh(); // the temporary-password banner goes away
+        }
       }}
     >
       {message && <Notice tone={message.tone}>{message.text}</Notice>}

@@ -9,6 +9,7 @@ import { planSteps, stepProblems } from "./at-the-machine";
 import { HttpError } from "@/lib/errors";
 import { isoDate } from "@/lib/stock";
 import { parseProblem, type Plan, type Problem } from "@/lib/nesting";
+import { MAX_PIECES } from "@/lib/nesting/parse";
 import { buildProblem, partIdFromKey, partKey, type StockForPlan } from "@/lib/planning/problem";
 import { cutEstimate } from "@/lib/planning/wire-travel";
 import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
@@ -319,6 +320,13 @@ export async function createRun(
       parts = parts.map((p) => ({ ...p, quantity: Math.max(0, p.quantity - (held.get(p.id)?.count ?? 0)) }));
     }
     parts = parts.filter((p) => p.quantity > 0);
+    const pieces = parts.reduce((n, p) => n + p.quantity, 0);
+    if (pieces > MAX_PIECES)
+      throw new HttpError(
+        400,
+        `These jobs owe ${pieces.toLocaleString("en")} pieces; one plan nests at most ${MAX_PIECES.toLocaleString("en")}. Plan fewer jobs at a time, or split the part list into smaller jobs.`,
+        { jobIds: `At most ${MAX_PIECES.toLocaleString("en")} pieces in one plan.` },
+      );
     if (!parts.length)
       throw new HttpError(
         409,
@@ -403,7 +411,7 @@ const LIGHT_COLUMNS = [
 
 /** Newest first; `beforeId` pages back through older runs (keyset: `id < beforeId`). */
 export async function listRuns(
-  opts: { jobId?: number; statuses?: RunStatus[]; limit?: number; beforeId?: number } = {},
+  opts: { jobId?: number; statuses?: RunStatus[]; limit?: number; beforeId?: number; id?: number } = {},
 ): Promise<RunSummary[]> {
   const q = runsWithAuthor()
     .select(...LIGHT_COLUMNS, "u.name as created_by_name", db().raw("r.plan IS NOT NULL AS has_plan"))
@@ -412,10 +420,19 @@ export async function listRuns(
   if (opts.jobId) q.whereRaw("? = ANY(r.job_ids)", [opts.jobId]);
   if (opts.statuses) q.whereIn("r.status", opts.statuses);
   if (opts.beforeId) q.where("r.id", "<", opts.beforeId);
+  if (opts.id) q.where("r.id", opts.id);
   const rows = (await q) as RunRow[];
   await fillMissingFigures(rows.filter((r) => r.has_plan && !r.summary));
   const names = await jobNames([...new Set(rows.flatMap((r) => r.job_ids))]);
   return rows.map((r) => toSummary(r, names));
+}
+
+/** One run's status, progress and figures without its problem and plan (what a progress bar polls). */
+export async function getRunSummary(id: number): Promise<(RunSummary & { hasPlan: boolean }) | undefined> {
+  const [run] = await listRuns({ id, limit: 1 });
+  if (!run) return undefined;
+  const row = await db()("nesting_runs").where({ id }).first(db().raw("plan IS NOT NULL AS has_plan"));
+  return { ...run, hasPlan: !!row?.has_plan };
 }
 
 /** Runs planned before figures were stored with the plan: work them out once and keep them. */
@@ -574,7 +591,10 @@ export async function cancelRun(id: number, actorId: string): Promise<void> {
     .where({ id })
     .whereIn("status", ["queued", "running"])
     .update({ status: "cancelled", finished_at: db().fn.now() });
-  if (!n) throw new HttpError(409, "Only a queued or running plan can be stopped.");
+  if (!n) {
+    if (!(await db()("nesting_runs").where({ id }).first("id"))) throw new HttpError(404, "That plan was not found.");
+    throw new HttpError(409, "Only a queued or running plan can be stopped.");
+  }
   await db()("audit_log").insert({ actor_id: actorId, action: "run.cancel", subject: `run:${id}` });
 }
 

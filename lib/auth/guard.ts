@@ -1,50 +1,105 @@
 import "server-only";
+import { headers } from "next/headers";
 import { redirect } from "next/navigation";
 import { NextResponse, type NextRequest } from "next/server";
 import type { z } from "zod";
 import { getCurrentSession, type CurrentUser } from "./session";
-import { API_POLICY, allows, type Access, type RouteKey } from "./policy";
+import {
+  API_POLICY,
+  PAGE_POLICY,
+  allows,
+  type Access,
+  type GuardedRouteKey,
+  type PageKey,
+  type PublicRouteKey,
+  type RouteKey,
+} from "./policy";
 import { HttpError, forbidden, isDatabaseDown, unauthorized } from "@/lib/errors";
-import type { Role } from "@/lib/roles";
 
-/** For pages and server actions: the signed-in user holding one of `roles` (admin always passes). */
-export async function requireRole(...roles: Role[]): Promise<CurrentUser> {
+/** The page path proxy.ts passes along (it overwrites whatever the client sent). */
+export const PATH_HEADER = "x-blockyard-path";
+
+/**
+ * For pages: the signed-in user whom PAGE_POLICY[key] admits (admin always passes); someone
+ * signed out goes to sign-in, someone without the role home with a notice. Someone still on a
+ * temporary password is sent to the account page to choose their own first.
+ *
+ *   const user = await requirePage("/plans/[runId]/cut");
+ */
+export async function requirePage(key: PageKey): Promise<CurrentUser> {
   const { user } = await getCurrentSession();
   if (!user) redirect("/sign-in");
-  if (roles.length && !allows(roles, user.roles)) redirect("/?denied=1");
+  if (user.mustChangePassword) {
+    const path = (await headers()).get(PATH_HEADER);
+    if (path && path !== "/account") redirect("/account");
+  }
+  if (!allows(PAGE_POLICY[key], user.roles)) redirect("/?denied=1");
   return user;
 }
 
-interface Ctx<P> {
-  req: NextRequest;
-  params: P;
-  user: CurrentUser | null;
+/** What someone on a temporary password may still call: changing it, signing out, and who am I. */
+const ALLOWED_WITH_TEMPORARY_PASSWORD: ReadonlySet<RouteKey> = new Set<RouteKey>([
+  "POST /api/me/password",
+  "POST /api/auth/sign-out",
+  "GET /api/me",
+]);
+
+export const TEMPORARY_PASSWORD_REFUSED =
+  "You are signed in with a temporary password. Choose your own password first (Your account page, or POST /api/me/password); until then only that and signing out are allowed.";
+
+/** API answers hold someone's data or a decision about them: never kept by a browser or a proxy. */
+function noStore(res: Response): Response {
+  try {
+    if (!res.headers.has("cache-control")) res.headers.set("Cache-Control", "no-store");
+  } catch {
+    /* a response with immutable headers (passed through from a fetch): left as it is */
+  }
+  return res;
 }
 
+interface Ctx<P, U extends CurrentUser | null> {
+  req: NextRequest;
+  params: P;
+  /** The caller: always there when the route's policy asks for a session, null for public routes. */
+  user: U;
+}
+
+type Handler<P, U extends CurrentUser | null> = (ctx: Ctx<P, U>) => Promise<Response | object | null>;
+type RouteHandler<P> = (req: NextRequest, context: { params: Promise<P> }) => Promise<Response>;
+
 /**
- * Wraps a route handler: checks the session against API_POLICY[key] before anything else,
+ * Wraps a route handler: checks the session against API_POLICY[key] before anything else
+ * (someone on a temporary password gets 403 for everything but changing it and signing out),
  * turns HttpError into `{ error, fields? }`, an unreachable database into 503, and anything
- * else into a 500 without a stack trace.
+ * else into a 500 without a stack trace. Every answer carries `Cache-Control: no-store` unless
+ * the handler chose its own (a photo that never changes under its id).
  *
  *   export const GET = api("GET /api/me", async ({ user }) => ({ user }));
  */
+export function api<P = Record<string, string>>(key: PublicRouteKey, handler: Handler<P, null>): RouteHandler<P>;
 export function api<P = Record<string, string>>(
-  key: RouteKey,
-  handler: (ctx: Ctx<P>) => Promise<Response | object | null>,
-) {
+  key: GuardedRouteKey,
+  handler: Handler<P, CurrentUser>,
+): RouteHandler<P>;
+export function api<P>(key: RouteKey, handler: Handler<P, CurrentUser> | Handler<P, null>): RouteHandler<P> {
   const access: Access = API_POLICY[key];
-  return async (req: NextRequest, context: { params: Promise<P> }) => {
+  // The overloads tie the handler's `user` to the key; the checks below make it so at run time.
+  const run = handler as Handler<P, CurrentUser | null>;
+  return async (req, context) => {
     try {
       let user: CurrentUser | null = null;
       if (access !== "public") {
         user = (await getCurrentSession()).user;
         if (!user) throw unauthorized();
+        if (user.mustChangePassword && !ALLOWED_WITH_TEMPORARY_PASSWORD.has(key)) {
+          throw new HttpError(403, TEMPORARY_PASSWORD_REFUSED);
+        }
         if (!allows(access, user.roles)) throw forbidden();
       }
       const params = (await context?.params) ?? ({} as P);
-      const out = await handler({ req, params, user });
-      if (out instanceof Response) return out;
-      return NextResponse.json(out ?? { ok: true });
+      const out = await run({ req, params, user });
+      if (out instanceof Response) return noStore(out);
+      return noStore(NextResponse.json(out ?? { ok: true }));
     } catch (e) {
       return errorResponse(e);
     }
@@ -52,6 +107,12 @@ export function api<P = Record<string, string>>(
 }
 
 export function errorResponse(e: unknown): NextResponse {
+  const res = errorAnswer(e);
+  res.headers.set("Cache-Control", "no-store");
+  return res;
+}
+
+function errorAnswer(e: unknown): NextResponse {
   if (e instanceof HttpError) {
     return NextResponse.json(
       { error: e.message, ...(e.fields ? { fields: e.fields } : {}) },

@@ -69,7 +69,8 @@ function createLucia() {
     sessionExpiresIn: new TimeSpan(12, "h"),
     sessionCookie: {
       name: "blockyard_session",
-      expires: false,
+      // The cookie lives as long as the session (Max-Age 12 h, renewed with it), not Lucia's 400 days.
+      expires: true,
       attributes: { secure: false, sameSite: "lax" }, // secure is decided per request in session.ts
     },
     getUserAttributes: (row) => ({

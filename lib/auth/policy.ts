@@ -94,6 +94,7 @@ export const API_POLICY = {
   "POST /api/runs": ["planner"],
   "GET /api/runs/candidates": ["planner"],
   "GET /api/runs/[runId]": "signed-in",
+  "GET /api/runs/[runId]/plan": "signed-in",
   "POST /api/runs/[runId]/cancel": ["planner"],
   "POST /api/runs/[runId]/approve": ["planner"],
   "POST /api/runs/[runId]/release": ["planner"],
@@ -107,6 +108,66 @@ export const API_POLICY = {
 } as const satisfies Record<string, Access>;
 
 export type RouteKey = keyof typeof API_POLICY;
+
+/** The routes anyone may call; their handlers get `user: null`. Every other route's get the user. */
+export type PublicRouteKey = {
+  [K in RouteKey]: (typeof API_POLICY)[K] extends "public" ? K : never;
+}[RouteKey];
+export type GuardedRouteKey = Exclude<RouteKey, PublicRouteKey>;
+
+/**
+ * Who may open which page under app/(shop): the one table the page guard (requirePage), the
+ * navigation (lib/nav.ts) and the role test read. Keys are the page's path with [param] segments
+ * as in the app folder; every page is for someone signed in (sign-in itself lives outside (shop)).
+ * A page admits the roles that may read what it shows; buttons that change data follow API_POLICY.
+ */
+export type PageAccess = Exclude<Access, "public">;
+
+export const PAGE_POLICY = {
+  "/": "signed-in",
+  "/account": "signed-in",
+  "/safety": "signed-in",
+
+  // Stock: everyone reads the register and prints labels (the buyer for new deliveries, the
+  // cutter for offcuts, planner and manager to reprint); the buyer receives and keeps lists.
+  "/stock": "signed-in",
+  "/stock/[code]": "signed-in",
+  "/labels": "signed-in",
+  "/stock/import": ["buyer"],
+  "/deliveries": ["buyer", "planner", "manager"],
+  "/deliveries/new": ["buyer"],
+  "/ledger": ["buyer", "planner", "manager"],
+  "/grades": ["buyer"],
+  "/suppliers": ["buyer"],
+  "/defects/new": ["cutter"],
+
+  // Purchasing and reports.
+  "/purchasing": ["buyer", "manager"],
+  "/purchasing/orders": ["buyer", "manager"],
+  "/purchasing/orders/new": ["buyer"],
+  "/purchasing/orders/[poId]": ["buyer", "manager"],
+  "/purchasing/orders/[poId]/receive": ["buyer"],
+  "/reports": ["manager", "planner"],
+
+  // Jobs, parts, machines and cut plans. One plan and its cut sheet open for anyone signed in,
+  // as GET /api/runs/[runId] and its cut list do; the list of plans, the planner's new-plan page
+  // and the cutter's station are for their roles.
+  "/jobs": ["planner", "cutter", "manager"],
+  "/jobs/[jobId]": ["planner", "cutter", "manager"],
+  "/library": ["planner", "cutter", "manager"],
+  "/machines": ["planner", "cutter"],
+  "/plans": ["planner", "cutter", "manager"],
+  "/plans/new": ["planner"],
+  "/plans/[runId]": "signed-in",
+  "/plans/[runId]/sheet": "signed-in",
+  "/plans/[runId]/cut": ["cutter"],
+
+  "/admin/users": ["admin"],
+  "/admin/settings": ["admin"],
+  "/admin/outbox": ["admin"],
+} as const satisfies Record<string, PageAccess>;
+
+export type PageKey = keyof typeof PAGE_POLICY;
 
 export function allows(access: Access, roles: readonly Role[]): boolean {
   if (access === "public" || access === "signed-in") return true;

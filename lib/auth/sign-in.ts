@@ -2,19 +2,28 @@ import "server-only";
 import { headers } from "next/headers";
 import { findUserForSignIn } from "@/db/queries/users";
 import { HttpError } from "@/lib/errors";
-import { env } from "@/lib/env";
 import { dummyHash, verifyPassword } from "./password";
-import { checkThrottle, clearFailures, recordFailure } from "./throttle";
+import { beginAttempt } from "./throttle";
 import { startSession } from "./session";
 
 export const SIGN_IN_FAILED = "That e-mail and password do not match an active account.";
 
-/** The client address used for throttling: the proxy's X-Forwarded-For only when we trust it. */
+/**
+ * The client address used for throttling. Next puts the socket's address in X-Forwarded-For when
+ * a request arrives without one. Behind our own proxy (TRUST_PROXY) the LAST entry is the one that
+ * proxy appended — the address it saw; everything before it is whatever the client sent, so never
+ * the first entry. Without TRUST_PROXY a header the client sent itself is not ours to trust: the
+ * last entry is still used (it is the socket address unless forged; the server can drop a
+ * client-sent header before Next sees it), and the per-account slow-down in throttle.ts does not
+ * depend on it. Never one shared key for every client: that let 30 failures lock everyone out.
+ */
 export async function clientAddress(): Promise<string> {
-  if (!env().TRUST_PROXY) return "direct";
   const h = await headers();
-  const fwd = h.get("x-forwarded-for")?.split(",")[0]?.trim();
-  return (fwd || h.get("x-real-ip") || "direct").slice(0, 64);
+  const hops = (h.get("x-forwarded-for") ?? "")
+    .split(",")
+    .map((s) => s.trim())
+    .filter(Boolean);
+  return (hops.at(-1) ?? "unknown").toLowerCase().slice(0, 64);
 }
 
 /**
@@ -23,17 +32,13 @@ export async function clientAddress(): Promise<string> {
  */
 export async function signIn(emailRaw: string, password: string): Promise<string> {
   const account = emailRaw.trim().toLowerCase().slice(0, 320);
-  const client = await clientAddress();
-  await checkThrottle(account, client);
+  const attempt = await beginAttempt(account, await clientAddress());
   const user = account ? await findUserForSignIn(account) : undefined;
   const ok = user
     ? await verifyPassword(user.password_hash, password)
     : (await verifyPassword(await dummyHash(), password), false);
-  if (!user || !ok || !user.active) {
-    await recordFailure(account, client);
-    throw new HttpError(401, SIGN_IN_FAILED);
-  }
-  await clearFailures(account);
+  if (!user || !ok || !user.active) throw new HttpError(401, SIGN_IN_FAILED);
+  await attempt.succeeded();
   await startSession(user.id);
   return user.id;
 }

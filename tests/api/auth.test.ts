@@ -24,6 +24,17 @@ describe("sign-in and sign-out", () => {
     expect((await c.get("/api/me")).status).toBe(401);
   });
 
+  it("gives the cookie the session's lifetime (12 hours), not 400 days", async () => {
+    const res = await client().signIn(demoEmail("manager"));
+    const cookie = sessionCookie(res)!;
+    expect(cookie).toMatch(/Max-Age=43200(;|$)/i);
+    const expires = /Expires=([^;]+)/i.exec(cookie)?.[1];
+    expect(expires).toBeTruthy();
+    const ms = new Date(expires!).getTime() - Date.now();
+    expect(ms).toBeGreaterThan(11 * 3600_000);
+    expect(ms).toBeLessThanOrEqual(12 * 3600_000 + 60_000);
+  });
+
   it("marks the cookie Secure when the request came over https", async () => {
     const c = client();
     const res = await c
@@ -55,16 +66,19 @@ describe("sign-in and sign-out", () => {
     expect((await c.get("/api/me")).status).toBe(200);
   });
 
-  it("throttles an account after repeated failures, with a retry time, even for the right password", async () => {
+  it("throttles a client after repeated failures on one account, with a retry time, even for the right password", async () => {
     const { email } = await makeUser(["buyer"]);
+    const address = "10.77.1.1";
     for (let i = 0; i < 5; i++) {
-      const r = await client().post("/api/auth/sign-in", { email, password: `wrong-${i}-password` });
+      const r = await client({ address }).post("/api/auth/sign-in", { email, password: `wrong-${i}-password` });
       expect(r.status).toBe(401);
     }
-    const blocked = await client().post("/api/auth/sign-in", { email, password: TEST_PASSWORD });
+    const blocked = await client({ address }).post("/api/auth/sign-in", { email, password: TEST_PASSWORD });
     expect(blocked.status).toBe(429);
     expect(Number(blocked.headers["retry-after"])).toBeGreaterThan(0);
     expect(blocked.body.error).toMatch(/try again/i);
+    // Only that client waits: the account is not locked for everyone.
+    expect((await client().post("/api/auth/sign-in", { email, password: TEST_PASSWORD })).status).toBe(200);
   });
 
   it("throttles one client address that tries many accounts", async () => {
@@ -147,6 +161,60 @@ describe("sign-in and sign-out", () => {
     expect((await c.call("post", "/api/auth/sign-in").set("content-type", "text/plain").send("hello")).status).toBe(
       415,
     );
+  });
+});
+
+/** Where a page sends the browser: a 3xx Location, or (once streaming began) Next's refresh tag. */
+const redirectsTo = (res: { status: number; headers: Record<string, string>; text: string }) => {
+  if (res.status >= 300 && res.status < 400) return res.headers.location;
+  return /<meta id="__next-page-redirect" http-equiv="refresh" content="\d+;url=([^"]+)"/.exec(res.text)?.[1];
+};
+
+describe("a temporary password", () => {
+  const temporaryUser = async () => {
+    const u = await makeUser(["buyer"]);
+    await testDb()("users").where({ id: u.id }).update({ must_change_password: true });
+    return u;
+  };
+
+  it("allows nothing but changing it and signing out until it is changed", async () => {
+    const { email } = await temporaryUser();
+    const c = client();
+    const signIn = await c.signIn(email, TEST_PASSWORD);
+    expect(signIn.body.user.mustChangePassword).toBe(true);
+    for (const path of ["/api/blocks", "/api/grades", "/api/settings", "/api/deliveries"]) {
+      const r = await c.get(path);
+      expect(r.status, path).toBe(403);
+      expect(r.body.error).toMatch(/temporary password/i);
+    }
+    expect((await c.post("/api/grades", { code: "X" })).status).toBe(403);
+    const me = await c.get("/api/me");
+    expect(me.status).toBe(200);
+    expect(me.body.user.mustChangePassword).toBe(true);
+    // Pages send them to the account page, which itself opens.
+    expect(redirectsTo(await c.get("/stock").redirects(0))).toBe("/account");
+    expect(redirectsTo(await c.get("/").redirects(0))).toBe("/account");
+    const account = await c.get("/account").redirects(0);
+    expect(account.status).toBe(200);
+    expect(redirectsTo(account)).toBeUndefined();
+
+    const changed = await c.post("/api/me/password", {
+      currentPassword: TEST_PASSWORD,
+      newPassword: "my-own-password-1",
+    });
+    expect(changed.status).toBe(200);
+    expect((await c.get("/api/blocks")).status).toBe(200);
+    const stock = await c.get("/stock").redirects(0);
+    expect(stock.status).toBe(200);
+    expect(redirectsTo(stock)).toBeUndefined();
+  });
+
+  it("may sign out", async () => {
+    const { email } = await temporaryUser();
+    const c = client();
+    await c.signIn(email, TEST_PASSWORD);
+    expect((await c.post("/api/auth/sign-out")).status).toBe(200);
+    expect((await c.get("/api/me")).status).toBe(401);
   });
 });
 

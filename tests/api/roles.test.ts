@@ -1,7 +1,8 @@
 import fs from "node:fs";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import { API_POLICY, allows, type Access, type RouteKey } from "@/lib/auth/policy";
+import { API_POLICY, PAGE_POLICY, allows, type Access, type PageKey, type RouteKey } from "@/lib/auth/policy";
+import { NAV, navFor } from "@/lib/nav";
 import { ROLES, type Role } from "@/lib/roles";
 import { client } from "../support/http";
 import { TEST_PASSWORD, closeTestDb, makeUser } from "../support/db";
@@ -62,6 +63,80 @@ describe("route discovery", () => {
       .filter((r) => (r.method !== "GET" || r.route.includes("[")) && !EXAMPLES[r.key as RouteKey])
       .map((r) => r.key);
     expect(missing).toEqual([]);
+  });
+});
+
+const APP_DIR = path.join(process.cwd(), "app");
+/** Pages outside app/(shop), open to anyone: they do not go through the page guard. */
+const PUBLIC_PAGES = ["/sign-in"];
+
+/** Every page.tsx under app, found on disk: its path (route groups dropped) and its guard call. */
+function discoverPages(): { file: string; page: string; shop: boolean; keys: string[] }[] {
+  const out: { file: string; page: string; shop: boolean; keys: string[] }[] = [];
+  const walk = (dir: string) => {
+    for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+      const full = path.join(dir, entry.name);
+      if (entry.isDirectory()) {
+        if (full !== path.join(APP_DIR, "api")) walk(full);
+      } else if (/^page\.(tsx|ts|jsx|js)$/.test(entry.name)) {
+        const segments = path.relative(APP_DIR, path.dirname(full)).split(path.sep).filter(Boolean);
+        const page = `/${segments.filter((s) => !/^\(.+\)$/.test(s)).join("/")}`;
+        const text = fs.readFileSync(full, "utf8");
+        out.push({
+          file: path.relative(process.cwd(), full),
+          page,
+          shop: segments[0] === "(shop)",
+          keys: [...text.matchAll(/requirePage\(\s*"([^"]+)"\s*\)/g)].map((m) => m[1]!),
+        });
+      }
+    }
+  };
+  walk(APP_DIR);
+  return out;
+}
+
+const pages = discoverPages();
+const shopPages = pages.filter((p) => p.shop);
+
+describe("page discovery", () => {
+  it("finds the pages", () => {
+    expect(shopPages.length).toBeGreaterThanOrEqual(Object.keys(PAGE_POLICY).length);
+  });
+
+  it.each(shopPages.map((p) => [p.page, p] as const))("%s goes through the page guard with its own key", (_name, p) => {
+    expect(p.keys, `${p.file}: const user = await requirePage("${p.page}")`).toEqual([p.page]);
+    expect(PAGE_POLICY).toHaveProperty([p.page]);
+  });
+
+  it("has a page for every page policy entry", () => {
+    const found = new Set(shopPages.map((p) => p.page));
+    expect(Object.keys(PAGE_POLICY).filter((k) => !found.has(k))).toEqual([]);
+  });
+
+  it("leaves only the known public pages outside app/(shop)", () => {
+    expect(pages.filter((p) => !p.shop).map((p) => p.page)).toEqual(PUBLIC_PAGES);
+    for (const page of PUBLIC_PAGES) expect(PAGE_POLICY).not.toHaveProperty([page]);
+  });
+});
+
+describe("navigation follows the page policy", () => {
+  it("links only to pages in the table, each once, with no role list of its own", () => {
+    for (const item of NAV) {
+      expect(PAGE_POLICY, item.href).toHaveProperty([item.href]);
+      expect(Object.keys(item).sort(), item.href).toEqual(["href", "label"]);
+    }
+    expect(new Set(NAV.map((n) => n.href)).size).toBe(NAV.length);
+  });
+
+  it.each(ROLES.map((r) => [r] as const))("%s sees exactly the menu pages the table lets them open", (role) => {
+    const opens = (key: PageKey) => allows(PAGE_POLICY[key], [role]);
+    expect(navFor([role]).map((n) => n.href)).toEqual(NAV.filter((n) => opens(n.href)).map((n) => n.href));
+  });
+
+  it("gives someone with two roles the union of their menus, in menu order", () => {
+    const both = navFor(["buyer", "cutter"]).map((n) => n.href);
+    const either = new Set([...navFor(["buyer"]), ...navFor(["cutter"])].map((n) => n.href));
+    expect(both).toEqual(NAV.map((n) => n.href).filter((h) => either.has(h)));
   });
 });
 

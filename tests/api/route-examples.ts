@@ -178,6 +178,7 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     query: `jobs=${(await makeJobWithParts([{ name: "Rib", quantity: 1, size: [300, 200, 100], gradeCode: "EPS-II" }])).jobId}`,
   }),
   "GET /api/runs/[runId]": async () => ({ params: { runId: String((await makePlannedBlock()).runId) } }),
+  "GET /api/runs/[runId]/plan": async () => ({ params: { runId: String((await makePlannedBlock()).runId) } }),
   "POST /api/runs/[runId]/cancel": async () => {
     const { runId } = await makePlannedBlock();
     await testDb()("nesting_runs").where({ id: runId }).update({ status: "queued", plan: null });

@@ -51,8 +51,13 @@ describe("nesting runs in the background worker", () => {
     const { run } = await waitFor(res.body.id, ["done", "failed"]);
     expect(run.status).toBe("done");
     expect(run.progress).toBe(1);
-    const problem = run.problem as Problem;
-    const plan = run.plan as Plan;
+    // The polled answer is light: figures and progress, no problem or plan.
+    expect(run.plan).toBeUndefined();
+    expect(run.problem).toBeUndefined();
+    expect(run.hasPlan).toBe(true);
+    const full = (await planner.get(`/api/runs/${run.id}/plan`)).body.run;
+    const problem = full.problem as Problem;
+    const plan = full.plan as Plan;
     expect(validatePlan(problem, plan)).toEqual([]);
     const placed = plan.placements.length + plan.unplaced.reduce((s, u) => s + u.count, 0);
     expect(placed).toBe(10);
@@ -117,7 +122,7 @@ describe("nesting runs in the background worker", () => {
     const end = Date.now() + 10_000;
     let plan = null;
     while (!plan && Date.now() < end) {
-      plan = (await planner.get(`/api/runs/${res.body.id}`)).body.run.plan;
+      plan = (await planner.get(`/api/runs/${res.body.id}/plan`)).body.run.plan;
       await new Promise((r) => setTimeout(r, 250));
     }
     expect(plan).toBeTruthy();
@@ -152,6 +157,23 @@ describe("nesting runs in the background worker", () => {
       .pluck("material");
     expect(codes).not.toContain("PU");
     expect(all.body.items.every((c: { since: string }) => c.since <= today)).toBe(true);
+  });
+
+  it("refuses a run of more pieces than one plan nests, naming the limit, saving nothing", async () => {
+    // Five rows of 100,000 once ran 21.6 s and took a gigabyte: now refused at creation.
+    const { jobId } = await makeJobWithParts([
+      { name: "Insert", quantity: 20_000, size: [50, 40, 20] },
+      { name: "Spacer", quantity: 5_001, size: [30, 30, 10] },
+    ]);
+    const block = await makeBlock();
+    const before = await tableCounts();
+    const res = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [block.id], settings: SETTINGS });
+    expect(res.status).toBe(400);
+    expect(res.body.error).toBe(
+      "These jobs owe 25,001 pieces; one plan nests at most 25,000. Plan fewer jobs at a time, or split the part list into smaller jobs.",
+    );
+    expect(res.body.fields.jobIds).toMatch(/At most 25,000 pieces/);
+    expect(await tableCounts()).toEqual(before);
   });
 
   it("refuses stock that is settling, earmarked or polyurethane, and bad settings, saving nothing", async () => {

@@ -48,6 +48,39 @@ describe("security headers", () => {
   });
 });
 
+describe("caching and transport", () => {
+  it.each([
+    ["a signed-in read", () => admin.get("/api/me"), 200],
+    ["a public read", () => client().get("/api/health"), 200],
+    ["a refusal without a session", () => client().get("/api/blocks"), 401],
+    ["a missing record", () => admin.get("/api/grades/999999"), 404],
+    ["bad input", () => admin.post("/api/grades", {}), 400],
+    ["a failed origin check", () => client({ origin: null }).post("/api/grades", {}), 403],
+    ["a CSV export", () => buyer.get("/api/blocks/export"), 200],
+  ] as const)("%s answers with Cache-Control: no-store", async (_what, call, status) => {
+    const res = await call();
+    expect(res.status).toBe(status);
+    expect(res.headers["cache-control"]).toMatch(/no-store/);
+  });
+
+  it("sends Strict-Transport-Security when served over https, and not over plain http", async () => {
+    for (const url of ["/api/health", "/sign-in"]) {
+      const https = await client().get(url).set("X-Forwarded-Proto", "https").redirects(0);
+      expect(https.headers["strict-transport-security"], url).toMatch(/max-age=\d{7,}/);
+      const plain = await client().get(url).redirects(0);
+      expect(plain.headers["strict-transport-security"], url).toBeUndefined();
+    }
+  });
+
+  it("answers an id out of range with 404, not a database complaint", async () => {
+    for (const id of ["99999999999", "2147483648", "9223372036854775808"]) {
+      const res = await admin.get(`/api/grades/${id}`);
+      expect(res.status, id).toBe(404);
+      expect(res.body.error).toBe("That grade was not found.");
+    }
+  });
+});
+
 describe("origin check on every mutating route", () => {
   const cases = MUTATING.flatMap((key) => [
     [key, "no Origin or Referer", null] as const,

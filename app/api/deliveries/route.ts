@@ -17,5 +17,5 @@ export const GET = api("GET /api/deliveries", async ({ req }) => {
 
 export const POST = api("POST /api/deliveries", async ({ req, user }) => {
   const input = await readJson(req, deliverySchema);
-  return NextResponse.json(await createDelivery(input, user!.id), { status: 201 });
+  return NextResponse.json(await createDelivery(input, user.id), { status: 201 });
 });

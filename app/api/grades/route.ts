@@ -7,5 +7,5 @@ export const GET = api("GET /api/grades", async () => ({ items: await listGrades
 
 export const POST = api("POST /api/grades", async ({ req, user }) => {
   const input = await readJson(req, gradeSchema);
-  return NextResponse.json({ grade: await createGrade(input, user!.id) }, { status: 201 });
+  return NextResponse.json({ grade: await createGrade(input, user.id) }, { status: 201 });
 });

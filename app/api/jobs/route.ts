@@ -11,5 +11,5 @@ export const GET = api("GET /api/jobs", async ({ req }) => {
 /** `POST /api/jobs` `{ name, customer?, dueOn?, notes? }` → 201 `{ job }` */
 export const POST = api("POST /api/jobs", async ({ req, user }) => {
   const input = await readJson(req, jobSchema);
-  return NextResponse.json({ job: await createJob(input, user!.id) }, { status: 201 });
+  return NextResponse.json({ job: await createJob(input, user.id) }, { status: 201 });
 });

@@ -12,5 +12,5 @@ export const GET = api("GET /api/library", async ({ req }) => {
 /** `POST /api/library` `{ kit?, name, size? | profile?, gradeId?, rotate?, defaultQuantity?, notes? }` → 201 `{ part }` */
 export const POST = api("POST /api/library", async ({ req, user }) => {
   const input = await readJson(req, libraryPartSchema);
-  return NextResponse.json({ part: await createLibraryPart(input, user!.id) }, { status: 201 });
+  return NextResponse.json({ part: await createLibraryPart(input, user.id) }, { status: 201 });
 });

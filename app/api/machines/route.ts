@@ -7,5 +7,5 @@ export const GET = api("GET /api/machines", async () => ({ items: await listMach
 
 export const POST = api("POST /api/machines", async ({ req, user }) => {
   const input = await readJson(req, machineSchema);
-  return NextResponse.json({ machine: await createMachine(input, user!.id) }, { status: 201 });
+  return NextResponse.json({ machine: await createMachine(input, user.id) }, { status: 201 });
 });

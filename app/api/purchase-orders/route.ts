@@ -22,5 +22,5 @@ export const GET = api("GET /api/purchase-orders", async ({ req }) => {
 
 export const POST = api("POST /api/purchase-orders", async ({ req, user }) => {
   const input = await readJson(req, purchaseOrderSchema);
-  return NextResponse.json({ order: await createPurchaseOrder(input, user!.id) }, { status: 201 });
+  return NextResponse.json({ order: await createPurchaseOrder(input, user.id) }, { status: 201 });
 });

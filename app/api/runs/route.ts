@@ -29,7 +29,7 @@ export const GET = api("GET /api/runs", async ({ req }) => {
 /** Starts a nesting run: stored as queued, then picked up by a background worker. */
 export const POST = api("POST /api/runs", async ({ req, user }) => {
   const input = await readJson(req, createRunSchema);
-  const id = await createRun(input, user!.id);
+  const id = await createRun(input, user.id);
   await enqueue(QUEUES.nestingRun, { runId: id }, { retryLimit: 1 });
   return NextResponse.json({ id }, { status: 201 });
 });

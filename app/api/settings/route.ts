@@ -6,6 +6,6 @@ export const GET = api("GET /api/settings", async () => ({ settings: await getSh
 
 export const PUT = api("PUT /api/settings", async ({ req, user }) => {
   const settings = await readJson(req, shopSettingsSchema);
-  await saveShopSettings(settings, user!.id);
+  await saveShopSettings(settings, user.id);
   return { settings: await getShopSettings() };
 });

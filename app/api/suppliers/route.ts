@@ -7,5 +7,5 @@ export const GET = api("GET /api/suppliers", async () => ({ items: await listSup
 
 export const POST = api("POST /api/suppliers", async ({ req, user }) => {
   const input = await readJson(req, supplierSchema);
-  return NextResponse.json({ supplier: await createSupplier(input, user!.id) }, { status: 201 });
+  return NextResponse.json({ supplier: await createSupplier(input, user.id) }, { status: 201 });
 });

@@ -14,7 +14,7 @@ export const POST = api("POST /api/admin/users", async ({ req, user }) => {
   }
   const id = await createUser(
     { email: input.email, name: input.name, roles: input.roles, passwordHash: await hashPassword(input.password) },
-    user!.id,
+    user.id,
   );
   return NextResponse.json({ user: await getUser(id) }, { status: 201 });
 });

@@ -17,6 +17,6 @@ export const GET = api<P>("GET /api/blocks/[blockId]", async ({ params }) => {
 export const PATCH = api<P>("PATCH /api/blocks/[blockId]", async ({ req, params, user }) => {
   const id = idParam(params.blockId, "That block");
   const patch = await readJson(req, blockPatchSchema);
-  await updateBlock(id, patch, user!.id);
+  await updateBlock(id, patch, user.id);
   return { block: await getBlock(id) };
 });

@@ -15,5 +15,5 @@ export const GET = api<P>("GET /api/grades/[gradeId]", async ({ params }) => {
 export const PUT = api<P>("PUT /api/grades/[gradeId]", async ({ req, params, user }) => {
   const id = idParam(params.gradeId, "That grade");
   const input = await readJson(req, gradeSchema);
-  return { grade: await updateGrade(id, input, user!.id) };
+  return { grade: await updateGrade(id, input, user.id) };
 });

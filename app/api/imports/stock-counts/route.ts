@@ -10,7 +10,7 @@ export const POST = api("POST /api/imports/stock-counts", async ({ req, user }) 
   const report = await importStockCount(
     bytes,
     req.nextUrl.searchParams.get("name")?.slice(0, 200) ?? null,
-    user!.id,
+    user.id,
     commit,
   );
   const status = report.problemCount ? 422 : commit ? 201 : 200;

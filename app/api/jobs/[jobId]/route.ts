@@ -17,5 +17,5 @@ export const GET = api<P>("GET /api/jobs/[jobId]", async ({ params }) => {
 export const PATCH = api<P>("PATCH /api/jobs/[jobId]", async ({ req, params, user }) => {
   const id = idParam(params.jobId, "That job");
   const patch = await readJson(req, jobPatchSchema);
-  return { job: await updateJob(id, patch, user!.id) };
+  return { job: await updateJob(id, patch, user.id) };
 });

@@ -9,5 +9,5 @@ type P = { partId: string };
 export const PATCH = api<P>("PATCH /api/library/[partId]", async ({ req, params, user }) => {
   const id = idParam(params.partId, "That library part");
   const patch = await readJson(req, libraryPatchSchema);
-  return { part: await updateLibraryPart(id, patch, user!.id) };
+  return { part: await updateLibraryPart(id, patch, user.id) };
 });

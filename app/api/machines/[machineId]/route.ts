@@ -15,5 +15,5 @@ export const GET = api<P>("GET /api/machines/[machineId]", async ({ params }) =>
 export const PUT = api<P>("PUT /api/machines/[machineId]", async ({ req, params, user }) => {
   const id = idParam(params.machineId, "That machine");
   const input = await readJson(req, machineSchema);
-  return { machine: await updateMachine(id, input, user!.id) };
+  return { machine: await updateMachine(id, input, user.id) };
 });

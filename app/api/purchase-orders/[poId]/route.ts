@@ -17,5 +17,5 @@ export const GET = api<P>("GET /api/purchase-orders/[poId]", async ({ params }) 
 export const PUT = api<P>("PUT /api/purchase-orders/[poId]", async ({ req, params, user }) => {
   const id = idParam(params.poId, "That purchase order");
   const input = await readJson(req, purchaseOrderSchema);
-  return { order: await updatePurchaseOrder(id, input, user!.id) };
+  return { order: await updatePurchaseOrder(id, input, user.id) };
 });

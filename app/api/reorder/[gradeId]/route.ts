@@ -9,7 +9,7 @@ type P = { gradeId: string };
 export const PUT = api<P>("PUT /api/reorder/[gradeId]", async ({ req, params, user }) => {
   const id = idParam(params.gradeId, "That grade");
   const input = await readJson(req, gradeReorderSchema);
-  await saveGradeReorder(id, input, user!.id);
+  await saveGradeReorder(id, input, user.id);
   const [item] = await listReorder({ gradeIds: [id] });
   return { item };
 });

@@ -7,7 +7,7 @@ import { draftFromReorderSchema } from "@/lib/validations/purchasing";
 export const POST = api("POST /api/reorder/draft", async ({ req, user }) => {
   const input = await readJson(req, draftFromReorderSchema);
   return NextResponse.json(
-    { orders: await draftFromReorder(input.gradeIds, input.expectedOn, user!.id) },
+    { orders: await draftFromReorder(input.gradeIds, input.expectedOn, user.id) },
     { status: 201 },
   );
 });

@@ -4,5 +4,5 @@ import { reorderSettingsSchema } from "@/lib/validations/purchasing";
 
 export const PUT = api("PUT /api/reorder/settings", async ({ req, user }) => {
   const input = await readJson(req, reorderSettingsSchema);
-  return { settings: await saveReorderSettings(input, user!.id) };
+  return { settings: await saveReorderSettings(input, user.id) };
 });

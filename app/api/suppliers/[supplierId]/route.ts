@@ -15,5 +15,5 @@ export const GET = api<P>("GET /api/suppliers/[supplierId]", async ({ params }) 
 export const PUT = api<P>("PUT /api/suppliers/[supplierId]", async ({ req, params, user }) => {
   const id = idParam(params.supplierId, "That supplier");
   const input = await readJson(req, supplierSchema);
-  return { supplier: await updateSupplier(id, input, user!.id) };
+  return { supplier: await updateSupplier(id, input, user.id) };
 });

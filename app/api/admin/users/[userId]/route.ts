@@ -23,6 +23,6 @@ export const PATCH = api<P>("PATCH /api/admin/users/[userId]", async ({ req, par
   if (losesAdmin && (await countActiveAdmins(target.id)) === 0) {
     throw new HttpError(409, "Blockyard needs at least one active admin. Give another user the admin role first.");
   }
-  await updateUser(target.id, patch, actor!.id);
+  await updateUser(target.id, patch, actor.id);
   return { user: await getUser(target.id) };
 });

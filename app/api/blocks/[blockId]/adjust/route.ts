@@ -9,6 +9,6 @@ type P = { blockId: string };
 export const POST = api<P>("POST /api/blocks/[blockId]/adjust", async ({ req, params, user }) => {
   const id = idParam(params.blockId, "That block");
   const { size, reason } = await readJson(req, adjustSchema);
-  await adjustBlock(id, size, reason, user!.id);
+  await adjustBlock(id, size, reason, user.id);
   return { block: await getBlock(id) };
 });

@@ -17,6 +17,6 @@ export const GET = api<P>("GET /api/blocks/[blockId]/defects", async ({ params }
 export const POST = api<P>("POST /api/blocks/[blockId]/defects", async ({ req, params, user }) => {
   const id = idParam(params.blockId, "That block");
   const input = await readJson(req, defectSchema);
-  const defectId = await createDefect(id, input, user!.id);
+  const defectId = await createDefect(id, input, user.id);
   return NextResponse.json({ id: defectId, items: await listDefects(id) }, { status: 201 });
 });

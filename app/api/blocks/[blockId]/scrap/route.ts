@@ -9,6 +9,6 @@ type P = { blockId: string };
 export const POST = api<P>("POST /api/blocks/[blockId]/scrap", async ({ req, params, user }) => {
   const id = idParam(params.blockId, "That block");
   const { reason } = await readJson(req, scrapSchema);
-  await scrapBlock(id, reason, user!.id);
+  await scrapBlock(id, reason, user.id);
   return { block: await getBlock(id) };
 });

@@ -31,6 +31,6 @@ export const POST = api<P>("POST /api/defects/[defectId]/photos", async ({ req, 
     throw new HttpError(400, "The upload could not be read as a form; try again.");
   }
   const files = form.getAll("photos").filter((v): v is File => typeof v !== "string");
-  const items = await saveDefectPhotos(id, files, user!.id);
+  const items = await saveDefectPhotos(id, files, user.id);
   return NextResponse.json({ items }, { status: 201 });
 });

@@ -20,8 +20,8 @@ export const POST = api<P>("POST /api/jobs/[jobId]/parts", async ({ req, params,
   );
   if ("items" in body) {
     const { items } = parseWith(fromLibrarySchema, body);
-    return NextResponse.json({ parts: await addLibraryParts(jobId, items, user!.id) }, { status: 201 });
+    return NextResponse.json({ parts: await addLibraryParts(jobId, items, user.id) }, { status: 201 });
   }
   const part = parseWith(partSchema, body);
-  return NextResponse.json({ part: await addJobPart(jobId, part, user!.id) }, { status: 201 });
+  return NextResponse.json({ part: await addJobPart(jobId, part, user.id) }, { status: 201 });
 });

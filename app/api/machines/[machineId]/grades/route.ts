@@ -8,5 +8,5 @@ type P = { machineId: string };
 export const PUT = api<P>("PUT /api/machines/[machineId]/grades", async ({ req, params, user }) => {
   const id = idParam(params.machineId, "That machine");
   const { grades } = await readJson(req, machineGradesSchema);
-  return { machine: await setMachineGrades(id, grades, user!.id) };
+  return { machine: await setMachineGrades(id, grades, user.id) };
 });

@@ -7,6 +7,6 @@ import { idParam } from "@/lib/params";
 export const POST = api<{ poId: string }>("POST /api/purchase-orders/[poId]/close", async ({ req, params, user }) => {
   const id = idParam(params.poId, "That purchase order");
   const { reason } = await readJson(req, closePoSchema);
-  await closePurchaseOrder(id, reason, user!.id);
+  await closePurchaseOrder(id, reason, user.id);
   return { order: await getPurchaseOrder(id) };
 });

@@ -8,6 +8,6 @@ import { idParam } from "@/lib/params";
 export const POST = api<{ poId: string }>("POST /api/purchase-orders/[poId]/receive", async ({ req, params, user }) => {
   const id = idParam(params.poId, "That purchase order");
   const input = await readJson(req, receivePoSchema);
-  const result = await receiveAgainstOrder(id, input, user!.id);
+  const result = await receiveAgainstOrder(id, input, user.id);
   return NextResponse.json({ ...result, order: await getPurchaseOrder(id) }, { status: 201 });
 });

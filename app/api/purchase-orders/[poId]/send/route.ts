@@ -30,10 +30,10 @@ export const POST = api<P>("POST /api/purchase-orders/[poId]/send", async ({ req
     const sent = await sendMail(purchaseOrderMail(po, shop.shopName), {
       kind: "purchase_order",
       ref: `po:${id}`,
-      sentBy: user!.id,
+      sentBy: user.id,
     });
     mail = { messageId: sent.messageId, to: po.supplierEmail };
   }
-  await markSent(id, user!.id, email ? "email" : "other");
+  await markSent(id, user.id, email ? "email" : "other");
   return { order: await getPurchaseOrder(id), mail };
 });

@@ -6,6 +6,6 @@ type P = { runId: string };
 
 export const POST = api<P>("POST /api/runs/[runId]/approve", async ({ params, user }) => {
   const id = idParam(params.runId, "That plan");
-  await approveRun(id, user!.id);
+  await approveRun(id, user.id);
   return { run: await getRun(id) };
 });

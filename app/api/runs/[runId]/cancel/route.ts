@@ -6,6 +6,6 @@ type P = { runId: string };
 
 export const POST = api<P>("POST /api/runs/[runId]/cancel", async ({ params, user }) => {
   const id = idParam(params.runId, "That plan");
-  await cancelRun(id, user!.id);
+  await cancelRun(id, user.id);
   return { run: await getRun(id) };
 });

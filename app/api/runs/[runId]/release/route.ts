@@ -6,6 +6,6 @@ type P = { runId: string };
 
 export const POST = api<P>("POST /api/runs/[runId]/release", async ({ params, user }) => {
   const id = idParam(params.runId, "That plan");
-  await releaseRun(id, user!.id);
+  await releaseRun(id, user.id);
   return { run: await getRun(id) };
 });

@@ -9,7 +9,7 @@ type P = { runId: string };
 
 /** Re-plans, in one step, what a plan still owes (rejects and unplaced parts). */
 export const POST = api<P>("POST /api/runs/[runId]/replan", async ({ params, user }) => {
-  const id = await replanRun(idParam(params.runId, "That plan"), user!.id);
+  const id = await replanRun(idParam(params.runId, "That plan"), user.id);
   await enqueue(QUEUES.nestingRun, { runId: id }, { retryLimit: 1 });
   return NextResponse.json({ id }, { status: 201 });
 });

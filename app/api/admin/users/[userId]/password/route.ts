@@ -11,6 +11,6 @@ export const POST = api<P>("POST /api/admin/users/[userId]/password", async ({ r
   const { password } = await readJson(req, temporaryPasswordSchema);
   const target = await getUser(params.userId);
   if (!target) throw notFound("That user");
-  await setPassword(target.id, await hashPassword(password), { temporary: true, actorId: actor!.id });
+  await setPassword(target.id, await hashPassword(password), { temporary: true, actorId: actor.id });
   return { ok: true };
 });

@@ -10,11 +10,11 @@ export const PATCH = api<P>("PATCH /api/jobs/[jobId]/parts/[partId]", async ({ r
   const jobId = idParam(params.jobId, "That job");
   const partId = idParam(params.partId, "That part");
   const patch = await readJson(req, jobPartPatchSchema);
-  return { part: await updateJobPart(jobId, partId, patch, user!.id) };
+  return { part: await updateJobPart(jobId, partId, patch, user.id) };
 });
 
 /** `DELETE /api/jobs/3/parts/17` → `{ ok: true }` (open jobs only). */
 export const DELETE = api<P>("DELETE /api/jobs/[jobId]/parts/[partId]", async ({ params, user }) => {
-  await removeJobPart(idParam(params.jobId, "That job"), idParam(params.partId, "That part"), user!.id);
+  await removeJobPart(idParam(params.jobId, "That job"), idParam(params.partId, "That part"), user.id);
   return { ok: true };
 });

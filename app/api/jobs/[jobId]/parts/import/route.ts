@@ -18,7 +18,7 @@ export const POST = api<P>("POST /api/jobs/[jobId]/parts/import", async ({ req, 
     jobId,
     bytes,
     req.nextUrl.searchParams.get("name")?.slice(0, 200) ?? null,
-    user!.id,
+    user.id,
     commit,
   );
   const status = report.problemCount ? 422 : commit ? 201 : 200;

@@ -6,5 +6,5 @@ type P = { runId: string; blockId: string };
 
 /** Undoes a block's recording for a while after it was made (see UNDO_MINUTES), by reversing ledger entries. */
 export const POST = api<P>("POST /api/runs/[runId]/blocks/[blockId]/undo", async ({ params, user }) =>
-  undoCut(idParam(params.runId, "That plan"), idParam(params.blockId, "That block"), user!.id),
+  undoCut(idParam(params.runId, "That plan"), idParam(params.blockId, "That block"), user.id),
 );

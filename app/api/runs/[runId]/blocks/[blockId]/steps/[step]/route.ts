@@ -28,7 +28,7 @@ export const PUT = api<P>("PUT /api/runs/[runId]/blocks/[blockId]/steps/[step]",
   const blockId = idParam(params.blockId, "That block");
   const step = idParam(params.step, "That step");
   const { done, rejects } = await readJson(req, body);
-  await setStepDone(run, blockId, step, done, user!.id, rejects);
+  await setStepDone(run, blockId, step, done, user.id, rejects);
   const steps = await blockSteps(run, blockId);
   return { done: steps.done };
 });
