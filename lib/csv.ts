@@ -109,6 +109,60 @@ export function parseCsv(
   return { headers, rows: parsed.data, problems };
 }
 
+export type CsvNumber = { value: number } | { problem: string };
+
+const PLAIN = /^[+-]?(\d+(\.\d+)?|\.\d+)$/;
+/** Comma-grouped thousands: 1,234 · 12,345,678.5 */
+const GROUPED = /^[+-]?\d{1,3}(,\d{3})+(\.\d+)?$/;
+
+/**
+ * A number cell of an import, read one way only: digits with a decimal point (`1.5`, `-3`,
+ * `.25`). A comma is never guessed at, since "1,5" is 1.5 to half the world and 15 to the
+ * other half. Size and weight columns (the default) refuse every thousands separator; money
+ * columns (`money: true`) take comma thousands only where they cannot be a decimal comma —
+ * with a decimal point after them (`1,234.50`) or in more than one group (`1,234,567`).
+ *
+ *   readCsvNumber("1.5")                  → { value: 1.5 }
+ *   readCsvNumber("1,5")                  → { problem: '"1,5" is ambiguous — write 1.5 (decimal point) or 15.' }
+ *   readCsvNumber("1,234.50", { money })  → { value: 1234.5 }
+ */
+export function readCsvNumber(text: string, opts: { money?: boolean } = {}): CsvNumber {
+  const v = text.trim();
+  const shown = `"${v.slice(0, 20)}"`;
+  if (PLAIN.test(v)) return { value: Number(v) };
+  const commas = (v.match(/,/g) ?? []).length;
+  if (GROUPED.test(v)) {
+    const plain = v.replace(/,/g, "");
+    if (opts.money && (v.includes(".") || commas > 1)) return { value: Number(plain) };
+    if (commas === 1 && !v.includes(".")) {
+      // 1,500: a thousands separator or a decimal comma — either reading is a real number.
+      return {
+        problem: `${shown} is ambiguous — write ${plain} (no thousands separator) or ${Number(v.replace(",", "."))} (decimal point).`,
+      };
+    }
+    return {
+      problem: `${shown} has thousands separators — write ${plain}${opts.money ? "" : " (no separators in sizes and weights)"}.`,
+    };
+  }
+  // One comma between digits and no point: a decimal comma (1,5 · 0,75) or a slip for 15 / 075.
+  if (/^[+-]?\d+,\d+$/.test(v)) {
+    const asPoint = v.replace(",", ".");
+    const asWhole = String(Number(v.replace(",", "")));
+    return { problem: `${shown} is ambiguous — write ${asPoint} (decimal point) or ${asWhole}.` };
+  }
+  // 1.234,5 or 1 234,5: European thousands with a decimal comma.
+  if (/^[+-]?\d{1,3}([. \u00a0\u202f']\d{3})+,\d+$/.test(v)) {
+    const fixed = v.replace(/[. \u00a0\u202f']/g, "").replace(",", ".");
+    return { problem: `${shown} uses a decimal comma — write ${fixed} (decimal point, no thousands separator).` };
+  }
+  // 1 500, 1'500, 1.234.567: spaces, apostrophes or points as thousands separators.
+  if (/^[+-]?\d{1,3}([ \u00a0\u202f']\d{3})+(\.\d+)?$/.test(v) || /^[+-]?\d{1,3}(\.\d{3}){2,}$/.test(v)) {
+    const fixed = v.replace(/[ \u00a0\u202f']/g, "").replace(/\.(?=\d{3}(\.|$))/g, "");
+    return { problem: `${shown} has thousands separators — write ${fixed}.` };
+  }
+  return { problem: `“${v.slice(0, 20)}” is not a number.` };
+}
+
 /** Cell readers that record a problem naming the row and column instead of throwing. */
 export function cellReader(problems: CsvProblem[], row: number, r: Record<string, string>) {
   const add = (column: string, message: string) => problems.push({ row, column, message });
@@ -122,20 +176,22 @@ export function cellReader(problems: CsvProblem[], row: number, r: Record<string
       if (v.length > (opts.max ?? 200)) add(column, `At most ${opts.max ?? 200} characters.`);
       return v;
     },
+    /** See `readCsvNumber`: `money` allows unambiguous comma thousands. */
     number(
       column: string,
-      opts: { required?: boolean; positive?: boolean; min?: number; max?: number } = {},
+      opts: { required?: boolean; positive?: boolean; min?: number; max?: number; money?: boolean } = {},
     ): number | null {
       const v = r[column] ?? "";
       if (!v) {
         if (opts.required) add(column, "Required.");
         return null;
       }
-      if (!/^-?\d+(\.\d+)?$/.test(v.replace(/,/g, ""))) {
-        add(column, `“${v.slice(0, 20)}” is not a number.`);
+      const read = readCsvNumber(v, { money: opts.money });
+      if ("problem" in read) {
+        add(column, read.problem);
         return null;
       }
-      const n = Number(v.replace(/,/g, ""));
+      const n = read.value;
       if (opts.positive && n <= 0) add(column, "Must be more than 0.");
       else if (opts.min !== undefined && n < opts.min) add(column, `Must be at least ${opts.min}.`);
       else if (opts.max !== undefined && n > opts.max) add(column, `Must be at most ${opts.max}.`);

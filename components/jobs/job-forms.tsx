@@ -95,6 +95,7 @@ export function PartsImport({ jobId }: { jobId: number }) {
   return (
     <CsvUpload
       url={`/api/jobs/${jobId}/parts/import`}
+      template={{ href: "/templates/parts.csv", label: "Download the part list template (CSV)" }}
       hint={
         <>
           Columns: <code>name</code>, <code>quantity</code>, then either <code>length_mm</code>, <code>width_mm</code>,{" "}

@@ -7,12 +7,30 @@ import { CsvUpload } from "@/components/ui/csv-upload";
 
 type Kind = "deliveries" | "stock-counts";
 
+const TEMPLATES: Record<Kind, { href: string; label: string }> = {
+  deliveries: { href: "/templates/deliveries.csv", label: "Download the deliveries template (CSV)" },
+  "stock-counts": { href: "/templates/stock-count.csv", label: "Download the stock count template (CSV)" },
+};
+
+// The report's figures in the buyer's words.
+const SUMMARY_LABELS: Record<Kind, Record<string, string>> = {
+  deliveries: { deliveries: "deliveries", blocks: "blocks", volumeM3: "volume (m³)", cost: "cost" },
+  "stock-counts": {
+    confirmed: "blocks confirmed",
+    moved: "moved",
+    remeasured: "re-measured",
+    missing: "missing (written off)",
+  },
+};
+
 export function CsvImport() {
   const [kind, setKind] = useState<Kind>("deliveries");
   return (
     <CsvUpload
       url={`/api/imports/${kind}`}
       resetKey={kind}
+      template={TEMPLATES[kind]}
+      summaryLabels={SUMMARY_LABELS[kind]}
       controls={
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">What it holds</span>
@@ -26,7 +44,7 @@ export function CsvImport() {
           </select>
         </label>
       }
-      hint="Columns are listed in the README. Checking changes nothing; the import then takes every row or none."
+      hint="Numbers take a decimal point (1.5), never a decimal comma or thousands separators; a cost may group thousands as 1,234.50. Checking changes nothing; the import then takes every row or none."
       imported={(report) => (
         <>
           {report.rows} rows imported and written to the stock ledger. <Link href="/stock">See the stock list</Link>.

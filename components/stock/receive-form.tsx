@@ -10,6 +10,7 @@ import { Field, Input, Select } from "@/components/ui/field";
 import { addDays, isoDate } from "@/lib/stock";
 import type { LengthUnit } from "@/lib/units";
 import { lengthMmOrNull } from "@/lib/forms";
+import { receivedCodeProblem } from "@/lib/block-code";
 
 interface GradeOption {
   id: number;
@@ -18,7 +19,8 @@ interface GradeOption {
   cureDays: number;
   neverHotWire: boolean;
 }
-interface Row {
+export interface Row {
+  /** The row's own identity for React and for edits: never shared, never reused. */
   key: number;
   code: string;
   gradeId: string;
@@ -31,9 +33,8 @@ interface Row {
   mouldedOn: string;
 }
 
-let nextKey = 1;
-const blank = (from?: Partial<Row>): Row => ({
-  key: nextKey++,
+export const blankRow = (key: number): Row => ({
+  key,
   code: "",
   gradeId: "",
   x: "",
@@ -43,8 +44,27 @@ const blank = (from?: Partial<Row>): Row => ({
   cost: "",
   location: "Curing room",
   mouldedOn: "",
-  ...from,
 });
+
+/** A copy of row `key` right after it, under the new `key` `fresh` and without its code (codes are unique). */
+export function copyRow(rows: readonly Row[], key: number, fresh: number): Row[] {
+  const i = rows.findIndex((r) => r.key === key);
+  if (i < 0) return [...rows];
+  return [...rows.slice(0, i + 1), { ...rows[i]!, key: fresh, code: "" }, ...rows.slice(i + 1)];
+}
+
+/** Row `key` changed by `patch`; the other rows untouched. */
+export function updateRow(rows: readonly Row[], key: number, patch: Partial<Omit<Row, "key">>): Row[] {
+  return rows.map((r) => (r.key === key ? { ...r, ...patch } : r));
+}
+
+/** Every row but row `key`; the last row stays (a delivery has at least one block). */
+export function removeRow(rows: readonly Row[], key: number): Row[] {
+  return rows.length > 1 ? rows.filter((r) => r.key !== key) : [...rows];
+}
+
+let lastKey = 0;
+const freshKey = () => ++lastKey;
 
 /** One delivery, many blocks: tab through measured sizes, copy a row for the next block of the same kind. */
 export function ReceiveForm({
@@ -56,13 +76,12 @@ export function ReceiveForm({
   grades: GradeOption[];
   unit: LengthUnit;
 }) {
-  const [rows, setRows] = useState<Row[]>([blank()]);
+  const [rows, setRows] = useState<Row[]>(() => [blankRow(freshKey())]);
   const { busy, fields, message, submit } = useSubmit();
   const [done, setDone] = useState<{ codes: string[]; warnings: { index: number; message: string }[] } | null>(null);
   const [receivedOn, setReceivedOn] = useState(isoDate());
   const toMm = (s: string) => lengthMmOrNull(s, unit);
-  const update = (key: number, patch: Partial<Row>) =>
-    setRows((rs) => rs.map((r) => (r.key === key ? { ...r, ...patch } : r)));
+  const update = (key: number, patch: Partial<Omit<Row, "key">>) => setRows((rs) => updateRow(rs, key, patch));
   const cell = "min-h-11 w-full rounded-md border bg-paper-raised px-2 text-sm";
   const bad = (k: string) => (fields[k] ? "border-ember" : "border-bead-strong");
 
@@ -90,7 +109,7 @@ export function ReceiveForm({
             tone="quiet"
             onClick={() => {
               setDone(null);
-              setRows([blank()]);
+              setRows([blankRow(freshKey())]);
             }}
           >
             Receive another
@@ -180,6 +199,8 @@ export function ReceiveForm({
             const low = density !== null && grade?.minDensity != null && density < grade.minDensity;
             const p = (k: string) => `blocks.${i}.${k}`;
             const rowErrors = Object.entries(fields).filter(([k]) => k.startsWith(`blocks.${i}.`));
+            // Said as the buyer types (the server says the same): invisible characters cannot be seen.
+            const codeProblem = !fields[p("code")] && r.code.trim() ? receivedCodeProblem(r.code.trim()) : null;
             // Captions above every field on narrow screens; on wide ones the first row's serve as column heads.
             const caption = `mb-0.5 block text-xs font-medium text-ink-soft ${i === 0 ? "" : "lg:hidden"}`;
             return (
@@ -191,7 +212,8 @@ export function ReceiveForm({
                       placeholder="code (auto)"
                       value={r.code}
                       onChange={(e) => update(r.key, { code: e.target.value })}
-                      className={`${cell} ${bad(p("code"))}`}
+                      aria-invalid={codeProblem ? true : undefined}
+                      className={`${cell} ${codeProblem ? "border-ember" : bad(p("code"))}`}
                     />
                   </Captioned>
                   <Captioned caption="Grade" className={caption}>
@@ -292,24 +314,30 @@ export function ReceiveForm({
                   <span className="flex gap-2">
                     <button
                       type="button"
-                      className="min-h-9 px-2 text-kerf"
-                      onClick={() =>
-                        setRows((rs) => [...rs.slice(0, i + 1), blank({ ...r, code: "" }), ...rs.slice(i + 1)])
-                      }
+                      className="min-h-11 rounded-md px-3 text-kerf hover:bg-kerf-light"
+                      onClick={() => {
+                        const fresh = freshKey();
+                        setRows((rs) => copyRow(rs, r.key, fresh));
+                      }}
                     >
                       Copy row
                     </button>
                     {rows.length > 1 && (
                       <button
                         type="button"
-                        className="min-h-9 px-2 text-ember"
-                        onClick={() => setRows((rs) => rs.filter((x) => x.key !== r.key))}
+                        className="min-h-11 rounded-md px-3 text-ember hover:bg-ember-light"
+                        onClick={() => setRows((rs) => removeRow(rs, r.key))}
                       >
                         Remove
                       </button>
                     )}
                   </span>
                 </div>
+                {codeProblem && (
+                  <p role="alert" className="text-sm text-ember">
+                    Code: {codeProblem}
+                  </p>
+                )}
                 {rowErrors.map(([k, m]) => (
                   <p key={k} role="alert" className="text-sm text-ember">
                     {m}
@@ -320,12 +348,18 @@ export function ReceiveForm({
           })}
         </div>
         <div className="mt-3">
-          <Button tone="secondary" onClick={() => setRows((rs) => [...rs, blank()])}>
+          <Button
+            tone="secondary"
+            onClick={() => {
+              const fresh = freshKey();
+              setRows((rs) => [...rs, blankRow(fresh)]);
+            }}
+          >
             Add a block
           </Button>
         </div>
       </Card>
-      <Button type="submit" disabled={busy}>
+      <Button type="submit" disabled={busy || rows.length === 0}>
         {busy ? "Saving…" : `Receive ${rows.length} block${rows.length === 1 ? "" : "s"}`}
       </Button>
     </form>

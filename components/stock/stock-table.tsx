@@ -8,7 +8,7 @@ import { formatSize, lengthInUnit, m3ToBoardFeet, type LengthUnit } from "@/lib/
 import { lengthMmOrNull } from "@/lib/forms";
 import { SHOWN_STATUSES, STATUS_LABELS } from "@/lib/stock";
 import { GradeChip, StatusBadge } from "./status-badge";
-import { buttonClass } from "@/components/ui/button";
+import { buttonClass, rowLinkClass } from "@/components/ui/button";
 
 interface Props {
   initial: BlockListResponse;
@@ -62,21 +62,40 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
       <form
         className="grid gap-3 rounded-card border border-bead bg-paper-raised p-4 shadow-card sm:grid-cols-2 lg:grid-cols-4"
         onSubmit={(e) => {
+          // Enter in any box, or the Search button: the typed filters together.
           e.preventDefault();
           const fd = new FormData(e.currentTarget);
-          set({ q: String(fd.get("q") ?? "") });
+          set({
+            q: String(fd.get("q") ?? "").trim(),
+            minLength: toMm(String(fd.get("minLength") ?? "")),
+            maxLength: toMm(String(fd.get("maxLength") ?? "")),
+          });
         }}
         role="search"
       >
-        <label className="text-sm">
-          <span className="block font-medium text-ink-soft">Code starts with</span>
-          <input
-            name="q"
-            defaultValue={v("q")}
-            className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
-            placeholder="HF-10"
-          />
-        </label>
+        <div className="text-sm">
+          <label htmlFor="stock-q" className="block font-medium text-ink-soft">
+            Code or number
+          </label>
+          <div className="mt-1 flex gap-2">
+            <input
+              id="stock-q"
+              name="q"
+              type="search"
+              defaultValue={v("q")}
+              className="min-h-11 w-full min-w-0 rounded-md border border-bead-strong bg-paper-raised px-3"
+              placeholder="HF-10 or 1047"
+              maxLength={60}
+              aria-describedby="stock-q-hint"
+            />
+            <button type="submit" className={buttonClass("primary", "px-3")}>
+              Search
+            </button>
+          </div>
+          <p id="stock-q-hint" className="mt-1 text-xs text-ink-faint">
+            The start of a code, or the number on the label
+          </p>
+        </div>
         <label className="text-sm">
           <span className="block font-medium text-ink-soft">Status</span>
           <select
@@ -128,6 +147,7 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
           <input
             type="number"
             min={0}
+            name="minLength"
             defaultValue={fromMm(v("minLength"))}
             onBlur={(e) => set({ minLength: toMm(e.target.value) })}
             className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
@@ -138,6 +158,7 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
           <input
             type="number"
             min={0}
+            name="maxLength"
             defaultValue={fromMm(v("maxLength"))}
             onBlur={(e) => set({ maxLength: toMm(e.target.value) })}
             className="mt-1 min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3"
@@ -216,11 +237,13 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
           <tbody>
             {list.items.map((b) => (
               <tr key={b.id} className="border-b border-bead/60 last:border-0 hover:bg-paper">
-                <td className="px-3 py-2 font-medium">
-                  <Link href={`/stock/${encodeURIComponent(b.code)}`} prefetch={false}>
-                    {b.code}
-                  </Link>
-                  {b.isOffcut && <span className="ml-1 text-xs text-ink-faint">offcut</span>}
+                <td className="px-3 py-0">
+                  <div className="flex items-center gap-2 whitespace-nowrap">
+                    <Link className={rowLinkClass} href={`/stock/${encodeURIComponent(b.code)}`} prefetch={false}>
+                      {b.code}
+                    </Link>
+                    {b.isOffcut && <span className="text-xs text-ink-faint">offcut</span>}
+                  </div>
                 </td>
                 <td className="px-3 py-2">
                   <GradeChip code={b.gradeCode} colour={b.colour} noWire={b.neverHotWire} />

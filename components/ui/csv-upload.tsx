@@ -61,13 +61,55 @@ interface Props {
   summaryLabels?: Record<string, string>;
   /** Resets the report when the caller's choices change. */
   resetKey?: string;
+  /** A CSV file with the header and one example row, offered for download. */
+  template?: { href: string; label: string };
+}
+
+// Figures the imports report, in the words people use (a caller's `summaryLabels` come first).
+const SUMMARY_WORDS: Record<string, string> = {
+  volumeM3: "volume (m³)",
+  cost: "cost",
+  deliveries: "deliveries",
+  blocks: "blocks",
+};
+
+/** `volumeM3` → "volume (m³)"; an unknown `someFigure` → "some figure", never the field name. */
+export function summaryLabel(key: string, labels: Record<string, string> = {}): string {
+  return (
+    labels[key] ??
+    SUMMARY_WORDS[key] ??
+    key
+      .replace(/M3$/, " (m³)")
+      .replace(/([a-z])([A-Z])/g, "$1 $2")
+      .toLowerCase()
+  );
+}
+
+const fmt = (v: number) =>
+  Number.isInteger(v)
+    ? v.toLocaleString("en")
+    : v.toLocaleString("en", { minimumFractionDigits: 2, maximumFractionDigits: 2 });
+
+function summaryLine(summary: Record<string, number>, labels: Record<string, string>): string {
+  return Object.entries(summary)
+    .map(([k, v]) => `${summaryLabel(k, labels)}: ${fmt(v)}`)
+    .join(" · ");
 }
 
 /**
  * Choose a CSV file, check it (nothing changes), then import every row or none — with a progress
  * bar for the upload and the server's work, and the problems listed by row and column.
  */
-export function CsvUpload({ url, controls, hint, imported, onImported, summaryLabels = {}, resetKey }: Props) {
+export function CsvUpload({
+  url,
+  controls,
+  hint,
+  imported,
+  onImported,
+  summaryLabels = {},
+  resetKey,
+  template,
+}: Props) {
   const [file, setFile] = useState<File | null>(null);
   const [phase, setPhase] = useState<"idle" | "uploading" | "checking" | "saving">("idle");
   const [progress, setProgress] = useState(0);
@@ -98,7 +140,6 @@ export function CsvUpload({ url, controls, hint, imported, onImported, summaryLa
   }
 
   const busy = phase !== "idle";
-  const fmt = (v: number) => (Number.isInteger(v) ? v.toLocaleString("en") : v.toFixed(2));
   return (
     <div className="space-y-5">
       <Card title="1 · Choose the file">
@@ -120,6 +161,14 @@ export function CsvUpload({ url, controls, hint, imported, onImported, summaryLa
             Check the file
           </Button>
         </div>
+        {template && (
+          <p className="mt-3 text-sm">
+            <a href={template.href} download className="font-medium">
+              {template.label}
+            </a>{" "}
+            <span className="text-ink-faint">— the columns, with one example row to replace.</span>
+          </p>
+        )}
         {hint && <p className="mt-3 text-xs text-ink-faint">{hint}</p>}
       </Card>
 
@@ -152,7 +201,14 @@ export function CsvUpload({ url, controls, hint, imported, onImported, summaryLa
       {shown && (
         <Card title={shown.committed ? "3 · Imported" : "2 · What Blockyard found"}>
           {shown.committed ? (
-            <Notice tone="success">{imported(shown)}</Notice>
+            <Notice tone="success">
+              {Object.keys(shown.summary).length > 0 && (
+                <span className="mb-2 block" data-testid="import-summary">
+                  {summaryLine(shown.summary, summaryLabels)}
+                </span>
+              )}
+              {imported(shown)}
+            </Notice>
           ) : shown.problemCount ? (
             <Notice
               tone="danger"
@@ -162,9 +218,7 @@ export function CsvUpload({ url, controls, hint, imported, onImported, summaryLa
             </Notice>
           ) : (
             <Notice tone="success" title={`All ${shown.rows} rows are fine`}>
-              {Object.entries(shown.summary)
-                .map(([k, v]) => `${summaryLabels[k] ?? k}: ${fmt(v)}`)
-                .join(" · ")}
+              <span data-testid="import-summary">{summaryLine(shown.summary, summaryLabels)}</span>
             </Notice>
           )}
           {shown.problems.length > 0 && (

@@ -4,6 +4,7 @@ import { db } from "@/db";
 import { appendLedger } from "./ledger";
 import { nextBlockCodes } from "./blocks";
 import { HttpError } from "@/lib/errors";
+import { receivedCodeProblem } from "@/lib/block-code";
 import { addDays, isoDate } from "@/lib/stock";
 import type { DeliveryInput } from "@/lib/validations/stock";
 
@@ -66,7 +67,10 @@ export async function receiveDelivery(
   const seen = new Map<string, number>();
   input.blocks.forEach((b, i) => {
     if (!b.code) return;
-    if (seen.has(b.code)) fields[`blocks.${i}.code`] = `Code ${b.code} appears twice in this delivery.`;
+    // Every caller's codes, not only the form's: a "." would later clash with the block's offcuts.
+    const problem = receivedCodeProblem(b.code);
+    if (problem) fields[`blocks.${i}.code`] = problem;
+    else if (seen.has(b.code)) fields[`blocks.${i}.code`] = `Code ${b.code} appears twice in this delivery.`;
     seen.set(b.code, i);
   });
   if (given.length) {

@@ -3,6 +3,7 @@ import { db } from "@/db";
 import { receiveDelivery } from "./deliveries";
 import { appendLedger } from "./ledger";
 import { cellReader, parseCsv, problemSummary, type CsvProblem } from "@/lib/csv";
+import { describeCharacter, receivedCodeProblem } from "@/lib/block-code";
 import type { DeliveryInput } from "@/lib/validations/stock";
 
 export const DELIVERY_COLUMNS = {
@@ -123,11 +124,15 @@ export async function importDeliveries(
       c.number("nominal_height_mm", { positive: true, max: 30_000 }),
     ];
     const weight = c.number("weight_kg", { positive: true, max: 10_000 });
-    const price = c.number("cost", { required: true, min: 0, max: 10_000_000 });
+    const price = c.number("cost", { required: true, min: 0, max: 10_000_000, money: true });
     const location = c.text("location", { required: true, max: 60 });
     const mouldedOn = c.date("moulded_on");
     const notes = c.text("notes", { max: 500 });
-    const code = c.text("code", { max: 40 })?.toUpperCase() ?? null;
+    // The code's own check names a wrong character or the length, so no second length message here.
+    const typed = c.text("code", { max: Number.POSITIVE_INFINITY });
+    const codeProblem = typed ? receivedCodeProblem(typed) : null;
+    if (codeProblem) problems.push({ row, column: "code", message: codeProblem });
+    const code = codeProblem ? null : (typed?.toUpperCase() ?? null);
     if (code) {
       if (codesInFile.has(code))
         problems.push({ row, column: "code", message: `Code ${code} is also on row ${codesInFile.get(code)}.` });
@@ -257,8 +262,19 @@ export async function importStockCount(
       problems.push({ row, column: "code", message: `Block ${code} is also on row ${seen.get(code)}.` });
     seen.set(code, row);
     const block = blocks.get(code);
-    if (!block) problems.push({ row, column: "code", message: `No block ${code} in the register.` });
-    else if (block.status === "cut" || block.status === "written_off")
+    if (!block) {
+      // A pasted invisible character is the usual reason a code on the shelf is "not found".
+      const chars = Array.from(code);
+      const odd = chars.findIndex((ch) => !/[A-Za-z0-9._-]/.test(ch));
+      problems.push({
+        row,
+        column: "code",
+        message:
+          odd < 0
+            ? `No block ${code} in the register.`
+            : `No block ${code} in the register: character ${odd + 1} is ${describeCharacter(chars[odd]!)}.`,
+      });
+    } else if (block.status === "cut" || block.status === "written_off")
       problems.push({
         row,
         column: "code",

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { DEFECT_KINDS, LEDGER_KINDS, MATERIALS, SHOWN_STATUSES } from "@/lib/stock";
+import { receivedCodeProblem } from "@/lib/block-code";
 
 const text = (label: string, max = 200) =>
   z
@@ -78,9 +79,14 @@ export type SupplierInput = z.infer<typeof supplierSchema>;
 export const sizeSchema = z.tuple([positive("Length", 30_000), positive("Width", 30_000), positive("Height", 30_000)]);
 
 export const receivedBlockSchema = z.object({
+  // Letters, digits and "-": no invisible or look-alike characters, no "." (offcut codes are Blockyard's).
   code: text("Code", 40)
     .optional()
     .nullable()
+    .superRefine((v, ctx) => {
+      const problem = v ? receivedCodeProblem(v) : null;
+      if (problem) ctx.addIssue({ code: "custom", message: problem });
+    })
     .transform((v) => (v ? v.toUpperCase() : null)),
   gradeId: z.number({ error: "Choose a grade." }).int().positive("Choose a grade."),
   size: sizeSchema,

@@ -325,7 +325,7 @@ describe("receiving against an order, ±10 % (domain brief §6, common trade ter
     });
     expect(foreign.status).toBe(400);
     expect(foreign.body.fields["blocks.0.lineId"]).toMatch(/not on this order/);
-    const existing = await testDb()("blocks").first("code");
+    const existing = await testDb()("blocks").whereNull("parent_id").orderBy("id").first("code");
     const dup = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
       receivedOn: "2026-11-30",
       lot: "L-BAD",

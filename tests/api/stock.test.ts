@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, makeBlock, tableCounts, testDb } from "../support/db";
+import { makeJob } from "../support/job-fixtures";
 
 afterAll(closeTestDb);
 
@@ -65,6 +66,21 @@ describe("stock list API", () => {
     const big = await planner.get("/api/blocks?sort=volume&dir=desc&pageSize=20");
     const vols = big.body.items.map((b: { volumeM3: number }) => b.volumeM3);
     expect([...vols].sort((a, b) => b - a)).toEqual(vols);
+  });
+
+  it("finds a block by the bare number on its label, and its offcuts, but not longer numbers", async () => {
+    const seeded = await planner.get("/api/blocks?q=1047&status=all");
+    expect(seeded.status).toBe(200);
+    expect(seeded.body.items.map((b: { code: string }) => b.code)).toContain("HF-1047");
+
+    const n = String(700_000 + Math.floor(Math.random() * 99_999));
+    const own = await makeBlock({ code: `NUM-${n}` });
+    const offcut = await makeBlock({ code: `NUM-${n}.1` });
+    await makeBlock({ code: `NUM-${n}0` });
+    await makeBlock({ code: `NUM-1${n}` });
+    const res = await planner.get(`/api/blocks?q=${n}&status=all&sort=code`);
+    expect(res.body.items.map((b: { code: string }) => b.code)).toEqual([own.code, offcut.code]);
+    expect(res.body.total).toBe(2);
   });
 
   it("shows FIFO positions among ready blocks of a grade, oldest first", async () => {
@@ -134,7 +150,8 @@ describe("receiving a delivery", () => {
   });
 
   it("refuses duplicate codes, naming the block row, and saves nothing", async () => {
-    const existing = await testDb()("blocks").first("code");
+    // A received block's code: an offcut's "CODE.n" is refused for its "." before it is looked up.
+    const existing = await testDb()("blocks").whereNull("parent_id").orderBy("id").first("code");
     const gradeId = await ids("grades");
     const before = await tableCounts();
     const res = await buyer.post("/api/deliveries", {
@@ -166,6 +183,30 @@ describe("receiving a delivery", () => {
     expect(res.body.fields).toHaveProperty(["blocks.0.cost"]);
     expect(res.body.fields).toHaveProperty("receivedOn");
     expect(res.body.fields).toHaveProperty("lot");
+    expect(await tableCounts()).toEqual(before);
+  });
+
+  it("refuses a code with a zero-width space or a '.', naming the block row and the character, and saves nothing", async () => {
+    const gradeId = await ids("grades");
+    const before = await tableCounts();
+    const res = await buyer.post("/api/deliveries", {
+      supplierId: await ids("suppliers"),
+      receivedOn: "2026-11-20",
+      lot: "LOT-ZWSP",
+      blocks: [
+        { code: "ZW-1", gradeId, size: [1000, 1000, 1000], cost: 10, location: "A" },
+        { code: "HF-1\u200b001", gradeId, size: [1000, 1000, 1000], cost: 10, location: "A" },
+        { code: "ZW-2.1", gradeId, size: [1000, 1000, 1000], cost: 10, location: "A" },
+        { code: "ZW 3", gradeId, size: [1000, 1000, 1000], cost: 10, location: "A" },
+      ],
+    });
+    expect(res.status).toBe(400);
+    expect(res.body.fields["blocks.1.code"]).toBe(
+      'Character 5 is a zero-width space: use letters, digits and "-" only.',
+    );
+    expect(res.body.fields["blocks.2.code"]).toMatch(/^Character 5 is a full stop \("\."\): offcut codes/);
+    expect(res.body.fields["blocks.3.code"]).toMatch(/^Character 3 is a space:/);
+    expect(res.body.fields).not.toHaveProperty(["blocks.0.code"]);
     expect(await tableCounts()).toEqual(before);
   });
 
@@ -324,6 +365,62 @@ describe("CSV import and export", () => {
     const enc = await postCsv(buyer, "/api/imports/deliveries", latin1);
     expect(enc.status).toBe(422);
     expect(enc.body.problems[0].message).toMatch(/not UTF-8/);
+  });
+
+  it('refuses "1,5" in a size column and a code with a zero-width space, naming row and column, and imports nothing', async () => {
+    const rows = good(3, "CSVCOMMA");
+    rows[1] = rows[1]!.replace(",2440,", ',"1,5",');
+    rows[2] = rows[2]!.replace("CSVCOMMA-3", "CSVCOMMA-\u200b3");
+    const before = await tableCounts();
+    const res = await postCsv(buyer, "/api/imports/deliveries?commit=1", csv([header, ...rows]));
+    expect(res.status).toBe(422);
+    expect(res.body.problems).toEqual([
+      { row: 3, column: "length_mm", message: '"1,5" is ambiguous — write 1.5 (decimal point) or 15.' },
+      {
+        row: 4,
+        column: "code",
+        message: 'Character 10 is a zero-width space: use letters, digits and "-" only.',
+      },
+    ]);
+    expect(res.body.error).toMatch(/row 3, column “length_mm”: "1,5" is ambiguous/);
+    expect(await tableCounts()).toEqual(before);
+  });
+
+  it("reads a cost with comma thousands and a decimal point, but no thousands separators in sizes", async () => {
+    const rows = good(2, "CSVMONEY");
+    rows[0] = rows[0]!.replace(",95.5,", ',"1,234.50",');
+    rows[1] = rows[1]!.replace(",1220,", ',"1,220.0",');
+    const res = await postCsv(buyer, "/api/imports/deliveries?commit=0", csv([header, ...rows]));
+    expect(res.body.problems).toEqual([
+      {
+        row: 3,
+        column: "width_mm",
+        message: '"1,220.0" has thousands separators — write 1220.0 (no separators in sizes and weights).',
+      },
+    ]);
+    const ok = await postCsv(buyer, "/api/imports/deliveries?commit=0", csv([header, rows[0]!]));
+    expect(ok.body.problemCount).toBe(0);
+    expect(ok.body.summary.cost).toBeCloseTo(1234.5, 6);
+  });
+
+  it("offers templates whose header and example row the import reads", async () => {
+    const deliveries = await buyer.get("/templates/deliveries.csv");
+    expect(deliveries.status).toBe(200);
+    expect(deliveries.headers["content-type"]).toMatch(/text\/csv/);
+    const preview = await postCsv(buyer, "/api/imports/deliveries?commit=0", deliveries.text);
+    expect(preview.body).toMatchObject({ committed: false, rows: 1, problemCount: 0 });
+
+    const count = await buyer.get("/templates/stock-count.csv");
+    expect(count.status).toBe(200);
+    const checked = await postCsv(buyer, "/api/imports/stock-counts?commit=0", count.text);
+    expect(checked.body.problems.filter((p: { row: number }) => p.row === 1)).toEqual([]);
+    expect(checked.body.rows).toBe(1);
+
+    const parts = await buyer.get("/templates/parts.csv");
+    expect(parts.status).toBe(200);
+    const job = await makeJob();
+    const partsPreview = await postCsv(planner, `/api/jobs/${job}/parts/import?commit=0`, parts.text);
+    expect(partsPreview.body).toMatchObject({ committed: false, rows: 1, problemCount: 0 });
   });
 
   it("applies a stock count: moves, re-measures and writes off missing blocks, all or nothing", async () => {

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
 import { signedInPage } from "./pages/sign-in";
-import { closeTestDb, testDb } from "../support/db";
+import { closeTestDb, makeBlock, testDb } from "../support/db";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -55,6 +55,28 @@ describe("the buyer receives a delivery", () => {
     await page.getByText(/^Still settling: cutting before \d{4}-\d{2}-\d{2}/).waitFor();
   });
 
+  it("keeps a copied row apart from its original: typing into the copy and removing it leave the original", async () => {
+    const page = await signedIn("buyer", VIEWPORTS.wide);
+    await page.goto(`${BASE_URL}/deliveries/new`);
+    await page.getByLabel("Block 1 grade").selectOption({ label: "EPS-II" });
+    await page.getByLabel("Block 1 length").fill("4877");
+    await page.getByLabel("Block 1 width").fill("1219");
+    await page.getByLabel("Block 1 height").fill("1219");
+    await page.getByLabel("Block 1 weight kg").fill("170");
+    await page.getByRole("button", { name: "Copy row" }).click();
+    await page.getByText("Blocks (2)").waitFor();
+    await page.getByLabel("Block 2 weight kg").fill("120");
+    expect(await page.getByLabel("Block 1 weight kg").inputValue()).toBe("170");
+    expect(await page.getByLabel("Block 2 length").inputValue()).toBe("4877");
+
+    await page.getByRole("group", { name: "Block 2" }).getByRole("button", { name: "Remove" }).click();
+    await page.getByText("Blocks (1)").waitFor();
+    expect(await page.getByLabel("Block 1 weight kg").inputValue()).toBe("170");
+    expect(await page.getByLabel("Block 1 length").inputValue()).toBe("4877");
+    expect(await page.getByLabel("Block 1 grade").inputValue()).not.toBe("");
+    expect(await page.getByRole("button", { name: "Receive 1 block" }).isEnabled()).toBe(true);
+  });
+
   it("refuses a delivery with a block code already in stock, naming the row, and saves nothing", async () => {
     const page = await signedIn("buyer", VIEWPORTS.wide);
     const existing = (await testDb()("blocks").orderBy("id").first("code")).code as string;
@@ -98,6 +120,19 @@ describe("stock list and block page", () => {
       expect(await page.getByText("History").count()).toBeGreaterThan(0);
       await screenshot(page, `block-page-${size}`);
     }
+  });
+
+  it("searches by the number on the label when the buyer types it and presses Enter", async () => {
+    const n = String(800_000 + Math.floor(Math.random() * 99_999));
+    const block = await makeBlock({ code: `E2E-${n}` });
+    await makeBlock({ code: `E2E-${n}7` });
+    const page = await signedIn("buyer", VIEWPORTS.tablet);
+    await page.goto(`${BASE_URL}/stock`);
+    await page.getByLabel("Code or number").fill(n);
+    await page.getByLabel("Code or number").press("Enter");
+    await page.waitForURL(new RegExp(`[?&]q=${n}(&|$)`));
+    await expect.poll(() => page.getByTestId("stock-totals").textContent()).toMatch(/^1 piece ·/);
+    expect(await page.getByRole("link", { name: block.code, exact: true }).count()).toBe(1);
   });
 
   it("shows the page the server rendered without fetching it again, also after a filter change", async () => {
