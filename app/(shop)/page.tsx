@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { getShopSettings } from "@/db/queries/settings";
 import { listUsers } from "@/db/queries/users";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
@@ -13,7 +13,7 @@ import { formatLength } from "@/lib/units";
 export const metadata: Metadata = { title: "Today" };
 
 export default async function HomePage({ searchParams }: { searchParams: Promise<{ denied?: string }> }) {
-  const user = await requireRole();
+  const user = await requirePage("/");
   const { denied } = await searchParams;
   const settings = await getShopSettings();
   const has = (r: Role) => user.roles.includes(r);
@@ -36,14 +36,20 @@ export default async function HomePage({ searchParams }: { searchParams: Promise
           <Card key={role} title={`${ROLE_LABELS[role]}`}>
             <p className="text-sm text-ink-soft">{ROLE_DUTIES[role]}</p>
             {role === "admin" && (
-              <dl className="mt-3 grid grid-cols-2 gap-3 text-sm">
-                <Figure label="Active people" value={String(people.filter((p) => p.active).length)} />
-                <Figure label="Deactivated" value={String(people.filter((p) => !p.active).length)} />
-                <div className="col-span-2 flex gap-4">
-                  <Link href="/admin/users">Manage people</Link>
-                  <Link href="/admin/settings">Shop settings</Link>
+              <>
+                <dl className="mt-3 grid grid-cols-2 gap-3 text-sm">
+                  <Figure label="Active people" value={String(people.filter((p) => p.active).length)} />
+                  <Figure label="Deactivated" value={String(people.filter((p) => !p.active).length)} />
+                </dl>
+                <div className="mt-1 flex gap-4 text-sm">
+                  <Link className="inline-flex min-h-11 items-center" href="/admin/users">
+                    Manage people
+                  </Link>
+                  <Link className="inline-flex min-h-11 items-center" href="/admin/settings">
+                    Shop settings
+                  </Link>
                 </div>
-              </dl>
+              </>
             )}
             {role === "planner" && <PlannerFigures />}
             {role === "cutter" && <CutterFigures />}

@@ -67,7 +67,7 @@ function PersonRow({
         <p className="text-sm text-ink-soft">{user.email}</p>
         <fieldset className="mt-2 flex flex-wrap gap-x-4 gap-y-1" aria-label={`Roles of ${user.name}`}>
           {ROLES.map((r) => (
-            <label key={r} className="flex min-h-9 items-center gap-2 text-sm">
+            <label key={r} className="flex min-h-11 items-center gap-2 text-sm">
               <input
                 type="checkbox"
                 className="size-5 accent-kerf"

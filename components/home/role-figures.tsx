@@ -10,12 +10,15 @@ export async function PlannerFigures() {
       <div>
         <p className="text-xs uppercase tracking-wide text-ink-faint">Jobs due</p>
         {jobs.length ? (
-          <ul className="mt-1 space-y-1">
+          <ul className="mt-1">
             {jobs.map((j) => (
-              <li key={j.id} className="flex justify-between gap-2">
-                <Link href={`/jobs/${j.id}`}>{j.name}</Link>
+              <li key={j.id} className="flex items-center justify-between gap-2">
+                <Link className="inline-flex min-h-11 items-center" href={`/jobs/${j.id}`}>
+                  {j.name}
+                </Link>
                 <span className={j.dueOn && j.dueOn < today ? "font-semibold text-ember" : "text-ink-soft"}>
                   {j.owed} owed · {j.dueOn ?? "no date"}
+                  {j.dueOn && j.dueOn < today && " · late"}
                 </span>
               </li>
             ))}
@@ -45,10 +48,10 @@ export async function CutterFigures() {
     <div className="mt-3 text-sm" data-testid="cutter-figures">
       <p className="text-xs uppercase tracking-wide text-ink-faint">Approved plans to cut</p>
       {plans.length ? (
-        <ul className="mt-1 space-y-1">
+        <ul className="mt-1">
           {plans.map((p) => (
-            <li key={p.id} className="flex justify-between gap-2">
-              <Link href={`/plans/${p.id}/cut`}>
+            <li key={p.id} className="flex items-center justify-between gap-2">
+              <Link className="inline-flex min-h-11 items-center" href={`/plans/${p.id}/cut`}>
                 Plan #{p.id} · {p.jobs.join(", ")}
               </Link>
               <span className="text-ink-soft">

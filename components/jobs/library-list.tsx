@@ -55,7 +55,7 @@ export function LibraryList({
               .map((p) => (
                 <li
                   key={p.id}
-                  className={`grid grid-cols-[auto_1fr] items-center gap-x-4 gap-y-2 py-3 sm:grid-cols-[auto_1fr_auto_auto] ${p.active ? "" : "opacity-60"}`}
+                  className={`grid grid-cols-[auto_1fr] items-center gap-x-4 gap-y-2 py-3 sm:grid-cols-[auto_1fr_auto_auto] ${p.active ? "" : "-mx-2 rounded-md bg-paper px-2"}`}
                 >
                   <SectionPreview
                     profile={p.profile}

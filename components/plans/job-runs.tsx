@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { rowLinkClass } from "@/components/ui/button";
 import { listRuns, type RunSummary } from "@/db/queries/runs";
 import { getShopSettings } from "@/db/queries/settings";
 import { RunStatusBadge } from "./run-status";
@@ -49,8 +50,10 @@ export function RunTable({
         <tbody>
           {runs.map((r) => (
             <tr key={r.id} className={`border-t border-bead/60 ${r.id === currentId ? "bg-kerf-light/40" : ""}`}>
-              <td className="py-1">
-                <Link href={`/plans/${r.id}`}>#{r.id}</Link>
+              <td>
+                <Link className={rowLinkClass} href={`/plans/${r.id}`}>
+                  #{r.id}
+                </Link>
               </td>
               <td>
                 <RunStatusBadge status={r.status} stuck={r.stuckBlocks.length > 0} />

@@ -245,7 +245,9 @@ export function PlanView(props: PlanViewProps) {
       </div>
       {props.showLayers !== false && sorted.length > 1 && (
         <details className="rounded-md border border-bead p-3">
-          <summary className="cursor-pointer text-sm font-medium">Layers ({sorted.length}), from the bottom</summary>
+          <summary className="cursor-pointer py-3 text-sm font-medium">
+            Layers ({sorted.length}), from the bottom
+          </summary>
           <div className="mt-3 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
             {sorted.map(([key, ps], i) => {
               const [lo, hi] = key.split("|").map(Number);

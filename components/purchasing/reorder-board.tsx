@@ -243,20 +243,23 @@ function Table({
               <Fragment key={r.gradeId}>
                 <tr className="border-b border-bead/60" data-testid={`reorder-${r.gradeCode}`}>
                   {setPicked && (
-                    <td className="px-3 py-2">
-                      <input
-                        type="checkbox"
-                        aria-label={`Order ${r.gradeCode}`}
-                        className="size-5 accent-kerf"
-                        checked={picked.has(r.gradeId)}
-                        disabled={!r.supplier || !r.blockSize}
-                        onChange={(e) => {
-                          const s = new Set(picked);
-                          if (e.target.checked) s.add(r.gradeId);
-                          else s.delete(r.gradeId);
-                          setPicked(s);
-                        }}
-                      />
+                    <td className="px-1 py-0">
+                      {/* The whole 44 px cell takes the tap, not only the 20 px box. */}
+                      <label className="flex min-h-11 min-w-11 cursor-pointer items-center justify-center">
+                        <input
+                          type="checkbox"
+                          aria-label={`Order ${r.gradeCode}`}
+                          className="size-5 accent-kerf"
+                          checked={picked.has(r.gradeId)}
+                          disabled={!r.supplier || !r.blockSize}
+                          onChange={(e) => {
+                            const s = new Set(picked);
+                            if (e.target.checked) s.add(r.gradeId);
+                            else s.delete(r.gradeId);
+                            setPicked(s);
+                          }}
+                        />
+                      </label>
                     </td>
                   )}
                   <td className="px-3 py-2">
@@ -296,6 +299,12 @@ function Table({
                           title="reorder point"
                         />
                       </div>
+                    )}
+                    {r.result.reorderPoint > 0 && (
+                      // The bar's colour says it too, but not to everyone: the word does.
+                      <p className={`mt-1 text-xs ${r.result.due ? "font-semibold text-wire" : "text-ink-soft"}`}>
+                        {r.result.due ? "Reorder now" : "Enough"}
+                      </p>
                     )}
                   </td>
                   <td className="px-3 py-2 text-right tabular-nums">

@@ -16,6 +16,9 @@ interface ShellProps {
 export function Shell({ shopName, user, children }: ShellProps) {
   return (
     <div className="min-h-screen lg:grid lg:grid-cols-[15rem_1fr]">
+      <a href="#main" className="skip-link no-print">
+        Skip to content
+      </a>
       <aside className="no-print border-b border-bead bg-paper-raised lg:min-h-screen lg:border-b-0 lg:border-r">
         <div className="flex items-center justify-between gap-3 px-4 py-3 lg:block lg:px-5 lg:py-5">
           <Link href="/" className="no-underline hover:no-underline" aria-label="Blockyard home">
@@ -39,7 +42,9 @@ export function Shell({ shopName, user, children }: ShellProps) {
             You are using a temporary password. <Link href="/account">Choose your own now.</Link>
           </div>
         )}
-        <main className="mx-auto max-w-6xl px-4 py-6 sm:px-6 lg:px-8">{children}</main>
+        <main id="main" tabIndex={-1} className="mx-auto max-w-6xl px-4 py-6 focus:outline-none sm:px-6 lg:px-8">
+          {children}
+        </main>
       </div>
     </div>
   );
@@ -52,10 +57,15 @@ function UserBox({ user, compact = false }: { user: ShellProps["user"]; compact?
         <p className="truncate text-sm font-medium">{user.name}</p>
         <p className="truncate text-xs text-ink-faint">{user.roles.map((r) => ROLE_LABELS[r]).join(", ")}</p>
       </div>
-      <div className="flex items-center gap-3 text-sm">
-        <Link href="/account">Account</Link>
+      <div className="flex items-center gap-1 text-sm">
+        <Link href="/account" className="flex min-h-11 items-center rounded-md px-3 font-medium hover:bg-paper-sunk">
+          Account
+        </Link>
         <form action={signOutAction}>
-          <button type="submit" className="min-h-9 text-sm font-medium text-ink-soft hover:text-ink">
+          <button
+            type="submit"
+            className="min-h-11 rounded-md px-3 text-sm font-medium text-ink-soft hover:bg-paper-sunk hover:text-ink"
+          >
             Sign out
           </button>
         </form>

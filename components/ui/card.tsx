@@ -71,7 +71,9 @@ export function Badge({
     ember: "bg-ember-light text-ember",
   };
   return (
-    <span className={`inline-flex items-center rounded px-2 py-0.5 text-xs font-medium ${tones[tone]}`}>
+    <span
+      className={`inline-flex items-center whitespace-nowrap rounded px-2 py-0.5 text-xs font-medium ${tones[tone]}`}
+    >
       {children}
     </span>
   );

@@ -1,7 +1,7 @@
 import type { InputHTMLAttributes, ReactNode, SelectHTMLAttributes } from "react";
 
 const CONTROL =
-  "block w-full min-h-11 rounded-md border bg-paper-raised px-3 text-base text-ink placeholder:text-ink-faint focus:border-kerf focus:outline-none focus:ring-2 focus:ring-kerf-light";
+  "block w-full min-h-11 rounded-md border bg-paper-raised px-3 text-base text-ink placeholder:text-ink-faint focus:border-kerf focus:outline-none focus:ring-2 focus:ring-kerf";
 
 interface FieldProps {
   label: string;

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { listDeliveries } from "@/db/queries/deliveries";
 import { PageHeader } from "@/components/ui/card";
@@ -9,7 +9,7 @@ import { buttonClass } from "@/components/ui/button";
 export const metadata: Metadata = { title: "Deliveries" };
 
 export default async function DeliveriesPage({ searchParams }: { searchParams: Promise<{ page?: string }> }) {
-  const user = await requireRole("buyer", "planner", "manager");
+  const user = await requirePage("/deliveries");
   const page = Math.max(1, Math.min(10_000, Number((await searchParams).page) || 1));
   const { items, total } = await listDeliveries({ page, pageSize: 50 });
   const canReceive = allows(["buyer"], user.roles);
@@ -64,8 +64,18 @@ export default async function DeliveriesPage({ searchParams }: { searchParams: P
         </table>
       </div>
       <div className="mt-4 flex justify-between text-sm">
-        {page > 1 ? <Link href={`/deliveries?page=${page - 1}`}>Newer</Link> : <span />}
-        {page * 50 < total && <Link href={`/deliveries?page=${page + 1}`}>Older</Link>}
+        {page > 1 ? (
+          <Link className={buttonClass("secondary")} href={`/deliveries?page=${page - 1}`}>
+            Newer
+          </Link>
+        ) : (
+          <span />
+        )}
+        {page * 50 < total && (
+          <Link className={buttonClass("secondary")} href={`/deliveries?page=${page + 1}`}>
+            Older
+          </Link>
+        )}
       </div>
     </>
   );

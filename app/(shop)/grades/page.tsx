@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { listGrades } from "@/db/queries/grades";
 import { PageHeader } from "@/components/ui/card";
 import { GradeEditor } from "@/components/stock/grade-editor";
@@ -7,7 +7,7 @@ import { GradeEditor } from "@/components/stock/grade-editor";
 export const metadata: Metadata = { title: "Grades" };
 
 export default async function GradesPage() {
-  await requireRole("buyer");
+  await requirePage("/grades");
   const grades = await listGrades();
   return (
     <>

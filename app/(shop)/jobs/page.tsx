@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { listJobs } from "@/db/queries/jobs";
 import { jobQuerySchema } from "@/lib/validations/jobs";
@@ -24,7 +24,7 @@ export default async function JobsPage({
 }: {
   searchParams: Promise<Record<string, string | string[] | undefined>>;
 }) {
-  const user = await requireRole("planner", "cutter", "manager");
+  const user = await requirePage("/jobs");
   const raw = Object.fromEntries(
     Object.entries(await searchParams).filter((e): e is [string, string] => typeof e[1] === "string" && e[1] !== ""),
   );
@@ -68,7 +68,7 @@ export default async function JobsPage({
                 key={k}
                 href={href({ status: k, page: 1 })}
                 aria-current={query.status === k ? "page" : undefined}
-                className={`rounded-full border px-3 py-1.5 text-sm no-underline ${query.status === k ? "border-kerf bg-kerf text-white" : "border-bead-strong bg-paper-raised text-ink"}`}
+                className={`inline-flex min-h-11 items-center rounded-full border px-4 text-sm no-underline hover:no-underline ${query.status === k ? "border-kerf bg-kerf text-white" : "border-bead-strong bg-paper-raised text-ink"}`}
               >
                 {label}
               </Link>
@@ -92,8 +92,13 @@ export default async function JobsPage({
                   const late = j.dueOn !== null && j.dueOn < today && ["open", "planned", "cutting"].includes(j.status);
                   return (
                     <tr key={j.id} className="border-b border-bead/60 last:border-0 hover:bg-paper">
-                      <td className="px-3 py-2 font-medium">
-                        <Link href={`/jobs/${j.id}`}>{j.name}</Link>
+                      <td className="px-3 py-0">
+                        <Link
+                          className="flex min-h-11 items-center font-medium no-underline hover:underline"
+                          href={`/jobs/${j.id}`}
+                        >
+                          {j.name}
+                        </Link>
                       </td>
                       <td className="px-3 py-2">{j.customer ?? "–"}</td>
                       <td className={`whitespace-nowrap px-3 py-2 ${late ? "font-semibold text-ember" : ""}`}>

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import QRCode from "qrcode";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { displayUnit } from "@/lib/display";
 import { getBlock, recentCodes, type BlockDetail } from "@/db/queries/blocks";
 import { getShopSettings } from "@/db/queries/settings";
@@ -61,7 +61,7 @@ const PRINT_CSS = `
 `;
 
 export default async function LabelsPage({ searchParams }: { searchParams: Promise<{ codes?: string | string[] }> }) {
-  const user = await requireRole("cutter", "buyer", "planner", "manager");
+  const user = await requirePage("/labels");
   const unit = await displayUnit(user);
   const asked = parseCodes((await searchParams).codes);
   const codes = asked.slice(0, MAX_LABELS);
@@ -109,7 +109,7 @@ export default async function LabelsPage({ searchParams }: { searchParams: Promi
                   name="codes"
                   defaultValue={asked.join(", ")}
                   placeholder="HF-1001, HF-1002.1"
-                  className="block min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3 text-base focus:border-kerf focus:ring-2 focus:ring-kerf-light focus:outline-none"
+                  className="block min-h-11 w-full rounded-md border border-bead-strong bg-paper-raised px-3 text-base focus:border-kerf focus:ring-2 focus:ring-kerf focus:outline-none"
                 />
               </div>
               <button type="submit" className={buttonClass("secondary")}>

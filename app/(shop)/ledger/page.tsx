@@ -1,17 +1,17 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { listLedger, ledgerOnHand } from "@/db/queries/ledger";
 import { ledgerQuery } from "@/lib/validations/stock";
 import { PageHeader } from "@/components/ui/card";
-import { buttonClass } from "@/components/ui/button";
+import { buttonClass, rowLinkClass } from "@/components/ui/button";
 import { LEDGER_KINDS, LEDGER_LABELS } from "@/lib/stock";
 import { m3ToBoardFeet } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Stock ledger" };
 
 export default async function LedgerPage({ searchParams }: { searchParams: Promise<Record<string, string>> }) {
-  await requireRole("buyer", "planner", "manager");
+  await requirePage("/ledger");
   const raw = await searchParams;
   const parsed = ledgerQuery.safeParse(raw);
   const q = parsed.success ? parsed.data : ledgerQuery.parse({});
@@ -88,8 +88,10 @@ export default async function LedgerPage({ searchParams }: { searchParams: Promi
             {items.map((e) => (
               <tr key={e.id} className="border-b border-bead/60 last:border-0">
                 <td className="whitespace-nowrap px-3 py-2">{e.at.slice(0, 16).replace("T", " ")}</td>
-                <td className="px-3 py-2">
-                  <Link href={`/stock/${encodeURIComponent(e.blockCode)}`}>{e.blockCode}</Link>
+                <td className="px-3 py-0">
+                  <Link className={rowLinkClass} href={`/stock/${encodeURIComponent(e.blockCode)}`}>
+                    {e.blockCode}
+                  </Link>
                 </td>
                 <td className="px-3 py-2">{LEDGER_LABELS[e.kind]}</td>
                 <td className={`px-3 py-2 text-right tabular-nums ${e.deltaM3 < 0 ? "text-ember" : ""}`}>

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { listLibraryParts } from "@/db/queries/library";
 import { listGrades, partGradeChoices } from "@/db/queries/grades";
@@ -11,7 +11,7 @@ import { PartForm } from "@/components/jobs/part-form";
 export const metadata: Metadata = { title: "Part library" };
 
 export default async function LibraryPage() {
-  const user = await requireRole("planner", "cutter", "manager");
+  const user = await requirePage("/library");
   const canEdit = allows(["planner"], user.roles);
   const [parts, grades, unit] = await Promise.all([
     listLibraryParts({ includeRetired: canEdit }),

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { listMachines } from "@/db/queries/machines";
 import { listGrades } from "@/db/queries/grades";
 import { getShopSettings } from "@/db/queries/settings";
@@ -10,7 +10,7 @@ import { dims, mm } from "@/lib/planning/machine";
 export const metadata: Metadata = { title: "Machines" };
 
 export default async function MachinesPage() {
-  const user = await requireRole("planner", "cutter");
+  const user = await requirePage("/machines");
   const canEdit = user.roles.includes("admin") || user.roles.includes("planner");
   const [machines, grades, settings] = await Promise.all([listMachines(), listGrades(), getShopSettings()]);
   const defaults = { kerf: settings.kerf, feed: settings.feedMmPerMin };

@@ -1,10 +1,10 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { listRuns } from "@/db/queries/runs";
 import { Card, PageHeader } from "@/components/ui/card";
-import { buttonClass } from "@/components/ui/button";
+import { buttonClass, rowLinkClass } from "@/components/ui/button";
 import { RunStatusBadge } from "@/components/plans/run-status";
 
 export const metadata: Metadata = { title: "Plans" };
@@ -12,7 +12,7 @@ export const metadata: Metadata = { title: "Plans" };
 const PAGE = 40;
 
 export default async function PlansPage({ searchParams }: { searchParams: Promise<{ before?: string }> }) {
-  const user = await requireRole("planner", "cutter", "manager");
+  const user = await requirePage("/plans");
   const raw = (await searchParams).before ?? "";
   const before = /^\d{1,9}$/.test(raw) ? Number(raw) : undefined;
   const [approved, page] = await Promise.all([
@@ -27,8 +27,10 @@ export default async function PlansPage({ searchParams }: { searchParams: Promis
   const older = page.length > PAGE ? others.at(-1)!.id : undefined;
   const Row = ({ r }: { r: (typeof approved)[number] }) => (
     <tr className="border-t border-bead/60">
-      <td className="py-2">
-        <Link href={`/plans/${r.id}`}>Plan #{r.id}</Link>
+      <td>
+        <Link className={rowLinkClass} href={`/plans/${r.id}`}>
+          Plan #{r.id}
+        </Link>
       </td>
       <td>{r.jobNames.join(", ")}</td>
       <td>

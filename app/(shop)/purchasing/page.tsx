@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { getReorderSettings, listReorder } from "@/db/queries/reorder";
 import { listSuppliers } from "@/db/queries/suppliers";
@@ -12,7 +12,7 @@ import { StorageCaution } from "@/components/safety/storage-caution";
 export const metadata: Metadata = { title: "Reorder list" };
 
 export default async function ReorderPage() {
-  const user = await requireRole("buyer", "manager");
+  const user = await requirePage("/purchasing");
   const [rows, settings, suppliers] = await Promise.all([listReorder(), getReorderSettings(), listSuppliers()]);
   const canEdit = allows(["buyer"], user.roles);
   return (

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import type { ReactNode } from "react";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import {
   LOSS_KINDS,
   LOSS_LABELS,
@@ -13,7 +13,7 @@ import {
   type YieldRow,
 } from "@/db/queries/reports";
 import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
-import { Button } from "@/components/ui/button";
+import { Button, buttonClass } from "@/components/ui/button";
 import { Field, Input } from "@/components/ui/field";
 import { ReportChart } from "@/components/reports/report-chart";
 import { BASIS_LABEL } from "@/lib/reports/yield";
@@ -41,7 +41,7 @@ const money = (v: number) => v.toLocaleString("en", { style: "currency", currenc
 const isDate = (v: string | undefined) => Boolean(v && /^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(v)));
 
 export default async function ReportsPage({ searchParams }: { searchParams: Promise<{ from?: string; to?: string }> }) {
-  await requireRole("manager", "planner");
+  await requirePage("/reports");
   const sp = await searchParams;
   const d = defaultPeriod();
   let period = { from: isDate(sp.from) ? sp.from! : d.from, to: isDate(sp.to) ? sp.to! : d.to };
@@ -56,7 +56,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
   ]);
   const qs = `from=${period.from}&to=${period.to}`;
   const csv = (name: string) => (
-    <a className="text-sm" href={`/api/reports/${name}?${qs}&format=csv`} download>
+    <a className={buttonClass("quiet")} href={`/api/reports/${name}?${qs}&format=csv`} download>
       Export CSV
     </a>
   );
@@ -221,7 +221,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
             />
           </div>
           <details className="mt-4">
-            <summary className="cursor-pointer text-sm font-medium text-kerf">
+            <summary className="cursor-pointer py-3 text-sm font-medium text-kerf">
               By lot ({suppliers.byLot.length})
             </summary>
             <div className="mt-2">

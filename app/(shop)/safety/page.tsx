@@ -1,12 +1,12 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { DEFER, HIGH_PILED, SAFETY_SOURCES, STYRENE } from "@/lib/safety/limits";
 
 export const metadata: Metadata = { title: "Safety" };
 
 export default async function SafetyPage() {
-  await requireRole();
+  await requirePage("/safety");
   return (
     <>
       <PageHeader

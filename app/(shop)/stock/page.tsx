@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { listBlocks, listLocations } from "@/db/queries/blocks";
 import { listGrades } from "@/db/queries/grades";
@@ -19,7 +19,7 @@ export default async function StockPage({
 }: {
   searchParams: Promise<Record<string, string | string[] | undefined>>;
 }) {
-  const user = await requireRole();
+  const user = await requirePage("/stock");
   const raw = Object.fromEntries(
     Object.entries(await searchParams).filter((e): e is [string, string] => typeof e[1] === "string" && e[1] !== ""),
   );

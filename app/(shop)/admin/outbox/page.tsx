@@ -1,14 +1,15 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { listOutbox } from "@/db/queries/outbox";
 import { Badge, Notice, PageHeader } from "@/components/ui/card";
+import { buttonClass, rowLinkClass } from "@/components/ui/button";
 import { mailConfig } from "@/lib/mail/config";
 
 export const metadata: Metadata = { title: "Outbox" };
 
 export default async function OutboxPage({ searchParams }: { searchParams: Promise<{ page?: string }> }) {
-  await requireRole("admin");
+  await requirePage("/admin/outbox");
   const page = Math.max(1, Math.min(10_000, Number((await searchParams).page) || 1));
   const { items, total } = await listOutbox({ page, pageSize: 50 });
   let where: string;
@@ -51,10 +52,9 @@ export default async function OutboxPage({ searchParams }: { searchParams: Promi
                       ? "Low-stock alert"
                       : "Other"}
                   {m.ref?.startsWith("po:") && (
-                    <>
-                      {" "}
-                      · <Link href={`/purchasing/orders/${m.ref.slice(3)}`}>order</Link>
-                    </>
+                    <Link className={rowLinkClass} href={`/purchasing/orders/${m.ref.slice(3)}`}>
+                      Open the order
+                    </Link>
                   )}
                 </td>
                 <td className="px-3 py-2">{m.to}</td>
@@ -85,8 +85,18 @@ export default async function OutboxPage({ searchParams }: { searchParams: Promi
         </table>
       </div>
       <div className="mt-4 flex justify-between text-sm">
-        {page > 1 ? <Link href={`/admin/outbox?page=${page - 1}`}>Newer</Link> : <span />}
-        {page * 50 < total && <Link href={`/admin/outbox?page=${page + 1}`}>Older</Link>}
+        {page > 1 ? (
+          <Link className={buttonClass("secondary")} href={`/admin/outbox?page=${page - 1}`}>
+            Newer
+          </Link>
+        ) : (
+          <span />
+        )}
+        {page * 50 < total && (
+          <Link className={buttonClass("secondary")} href={`/admin/outbox?page=${page + 1}`}>
+            Older
+          </Link>
+        )}
       </div>
     </>
   );

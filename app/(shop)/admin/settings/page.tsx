@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { getShopSettings } from "@/db/queries/settings";
 import { PageHeader } from "@/components/ui/card";
 import { SettingsForm } from "@/components/admin/settings-form";
@@ -7,7 +7,7 @@ import { SettingsForm } from "@/components/admin/settings-form";
 export const metadata: Metadata = { title: "Shop settings" };
 
 export default async function SettingsPage() {
-  await requireRole("admin");
+  await requirePage("/admin/settings");
   const settings = await getShopSettings();
   return (
     <>

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { listUsers } from "@/db/queries/users";
 import { PageHeader } from "@/components/ui/card";
 import { People } from "@/components/admin/people";
@@ -7,7 +7,7 @@ import { People } from "@/components/admin/people";
 export const metadata: Metadata = { title: "People" };
 
 export default async function PeoplePage() {
-  const me = await requireRole("admin");
+  const me = await requirePage("/admin/users");
   const users = await listUsers();
   return (
     <>

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { displayUnit } from "@/lib/display";
 import { PageHeader } from "@/components/ui/card";
 import { FlagDefect } from "@/components/stock/flag-defect";
@@ -11,7 +11,7 @@ export default async function FlagDefectPage({
 }: {
   searchParams: Promise<{ code?: string | string[] }>;
 }) {
-  const user = await requireRole("cutter");
+  const user = await requirePage("/defects/new");
   const unit = await displayUnit(user);
   const { code } = await searchParams;
   const initial = typeof code === "string" ? code.slice(0, 40) : undefined;

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { JobRuns } from "@/components/plans/job-runs";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { getJob, listJobParts } from "@/db/queries/jobs";
 import { listLibraryParts } from "@/db/queries/library";
@@ -28,7 +28,7 @@ export async function generateMetadata({ params }: Params): Promise<Metadata> {
 }
 
 export default async function JobPage({ params }: Params) {
-  const user = await requireRole("planner", "cutter", "manager");
+  const user = await requirePage("/jobs/[jobId]");
   const id = jobIdOf((await params).jobId);
   const job = id ? await getJob(id) : undefined;
   if (!job) notFound();

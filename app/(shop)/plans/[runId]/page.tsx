@@ -1,9 +1,10 @@
 import { planSteps, stepProblems } from "@/db/queries/at-the-machine";
 import { RunTable } from "@/components/plans/job-runs";
+import { boundGap } from "@/lib/planning/bound-gap";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { getRun, listRuns } from "@/db/queries/runs";
 import { owedByRun } from "@/db/queries/owed";
@@ -24,7 +25,7 @@ export async function generateMetadata({ params }: { params: Promise<{ runId: st
 }
 
 export default async function RunPage({ params }: { params: Promise<{ runId: string }> }) {
-  const user = await requireRole();
+  const user = await requirePage("/plans/[runId]");
   const id = Number((await params).runId);
   if (!Number.isInteger(id) || id <= 0) notFound();
   const run = await getRun(id);
@@ -151,6 +152,36 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                 </ul>
               </Notice>
             )}
+            {(() => {
+              const gap = boundGap(run.problem, plan);
+              if (!gap) return null;
+              return (
+                <Notice tone="info" title={`${gap.used} blocks, where no plan can use fewer than ${gap.bound}`}>
+                  <p>
+                    The parts fill {gap.partBlocks.toFixed(2)} of the largest block used, by volume (before kerf and
+                    trim). What keeps this plan above the bound:
+                  </p>
+                  <ul className="list-disc pl-5">
+                    {gap.largest.map((l) => (
+                      <li key={l.part}>
+                        {l.count} × {partName(l.part)}, each {Math.round(l.share * 100)} % of a block: large parts leave
+                        room that the smaller ones rarely fill exactly;
+                      </li>
+                    ))}
+                    {gap.defects > 0 && (
+                      <li>
+                        {gap.defects} defect zone{gap.defects === 1 ? "" : "s"} in {gap.blocksWithDefects} of the
+                        blocks, kept clear with their margin.
+                      </li>
+                    )}
+                  </ul>
+                  <p>
+                    A longer time budget helps when the parts are many and small; with a few large parts it rarely saves
+                    a block.
+                  </p>
+                </Notice>
+              );
+            })()}
             {uncuttable.length > 0 && (
               <Notice tone="danger" title="This plan cannot be cut">
                 {uncuttable.length === 1 ? `Block ${uncuttable[0]} holds` : `Blocks ${uncuttable.join(", ")} hold`}{" "}

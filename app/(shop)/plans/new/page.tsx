@@ -1,6 +1,6 @@
 import { listMachines } from "@/db/queries/machines";
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { candidateStock, jobNames } from "@/db/queries/runs";
 import { getShopSettings } from "@/db/queries/settings";
 import { listJobs } from "@/db/queries/jobs";
@@ -29,7 +29,7 @@ export default async function NewPlanPage({
 }: {
   searchParams: Promise<{ jobs?: string; job?: string | string[] }>;
 }) {
-  await requireRole("planner");
+  await requirePage("/plans/new");
   const jobIds = chosenJobs(await searchParams);
   if (!jobIds.length) {
     const { items } = await listJobs({ status: "active", page: 1, pageSize: 200 });

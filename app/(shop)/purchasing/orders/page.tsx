@@ -1,10 +1,10 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { listPurchaseOrders } from "@/db/queries/purchase-orders";
 import { PageHeader } from "@/components/ui/card";
-import { buttonClass } from "@/components/ui/button";
+import { buttonClass, rowLinkClass } from "@/components/ui/button";
 import { PoStatusBadge } from "@/components/purchasing/po-status";
 import { PO_STATUSES, PO_STATUS_LABELS, type PoStatus } from "@/lib/purchasing/orders";
 
@@ -15,7 +15,7 @@ export default async function OrdersPage({
 }: {
   searchParams: Promise<{ status?: string; page?: string }>;
 }) {
-  const user = await requireRole("buyer", "manager");
+  const user = await requirePage("/purchasing/orders");
   const sp = await searchParams;
   const status =
     sp.status === "open" || (PO_STATUSES as readonly string[]).includes(sp.status ?? "")
@@ -28,7 +28,8 @@ export default async function OrdersPage({
     <Link
       key={label}
       href={s ? `/purchasing/orders?status=${s}` : "/purchasing/orders"}
-      className={`rounded-md px-3 py-1.5 text-sm ${status === s ? "bg-kerf text-white hover:no-underline" : "text-ink-soft"}`}
+      aria-current={status === s ? "page" : undefined}
+      className={`inline-flex min-h-11 min-w-11 items-center justify-center rounded-md px-3 text-sm ${status === s ? "bg-kerf text-white hover:no-underline" : "text-ink-soft"}`}
     >
       {label}
     </Link>
@@ -71,8 +72,10 @@ export default async function OrdersPage({
           <tbody>
             {items.map((o) => (
               <tr key={o.id} className="border-b border-bead/60 last:border-0">
-                <td className="px-3 py-2">
-                  <Link href={`/purchasing/orders/${o.id}`}>{o.number}</Link>
+                <td className="px-3 py-0">
+                  <Link className={rowLinkClass} href={`/purchasing/orders/${o.id}`}>
+                    {o.number}
+                  </Link>
                 </td>
                 <td className="px-3 py-2">{o.supplier}</td>
                 <td className="px-3 py-2">
@@ -101,12 +104,22 @@ export default async function OrdersPage({
       </div>
       <div className="mt-4 flex justify-between text-sm">
         {page > 1 ? (
-          <Link href={`/purchasing/orders?page=${page - 1}${status ? `&status=${status}` : ""}`}>Newer</Link>
+          <Link
+            className={buttonClass("secondary")}
+            href={`/purchasing/orders?page=${page - 1}${status ? `&status=${status}` : ""}`}
+          >
+            Newer
+          </Link>
         ) : (
           <span />
         )}
         {page * 50 < total && (
-          <Link href={`/purchasing/orders?page=${page + 1}${status ? `&status=${status}` : ""}`}>Older</Link>
+          <Link
+            className={buttonClass("secondary")}
+            href={`/purchasing/orders?page=${page + 1}${status ? `&status=${status}` : ""}`}
+          >
+            Older
+          </Link>
         )}
       </div>
     </>

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { getBlock, listChildren } from "@/db/queries/blocks";
 import { listDefects } from "@/db/queries/defects";
 import { listLedgerEntries } from "@/db/queries/ledger";
@@ -19,7 +19,7 @@ export async function generateMetadata({ params }: { params: Promise<{ code: str
 }
 
 export default async function BlockPage({ params }: { params: Promise<{ code: string }> }) {
-  const user = await requireRole();
+  const user = await requirePage("/stock/[code]");
   const code = decodeURIComponent((await params).code);
   const block = await getBlock(code);
   if (!block) notFound();
@@ -130,7 +130,9 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
           title={`Defect zones (${defects.length})`}
           action={
             has("cutter") && inStock ? (
-              <Link href={`/defects/new?code=${encodeURIComponent(block.code)}`}>Flag a defect</Link>
+              <Link className={buttonClass("secondary")} href={`/defects/new?code=${encodeURIComponent(block.code)}`}>
+                Flag a defect
+              </Link>
             ) : undefined
           }
         >

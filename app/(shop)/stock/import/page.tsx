@@ -1,12 +1,12 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { PageHeader } from "@/components/ui/card";
 import { CsvImport } from "@/components/stock/csv-import";
 
 export const metadata: Metadata = { title: "CSV import" };
 
 export default async function ImportPage() {
-  await requireRole("buyer");
+  await requirePage("/stock/import");
   return (
     <>
       <PageHeader

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { connection } from "next/server";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { getRun } from "@/db/queries/runs";
 import { listChildren } from "@/db/queries/blocks";
 import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
@@ -20,7 +20,7 @@ import { UndoCut } from "@/components/plans/undo-cut";
 export const metadata: Metadata = { title: "At the machine" };
 
 export default async function AtTheMachinePage({ params }: { params: Promise<{ runId: string }> }) {
-  await requireRole("cutter");
+  await requirePage("/plans/[runId]/cut");
   await connection(); // the undo window depends on the clock: render on each request
   const id = Number((await params).runId);
   const run = Number.isInteger(id) && id > 0 ? await getRun(id) : undefined;

@@ -5,7 +5,7 @@ import { Notice } from "@/components/ui/card";
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import QRCode from "qrcode";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { getRun } from "@/db/queries/runs";
 import { getShopSettings } from "@/db/queries/settings";
 import { listChildren } from "@/db/queries/blocks";
@@ -25,7 +25,7 @@ const dims = (v: readonly number[]) => v.map(mm).join(" × ");
 
 /** The printable cut sheet: per block, the through cuts in order, the parts, and labels for the offcuts it will make. */
 export default async function CutSheetPage({ params }: { params: Promise<{ runId: string }> }) {
-  await requireRole();
+  await requirePage("/plans/[runId]/sheet");
   const id = Number((await params).runId);
   const run = Number.isInteger(id) && id > 0 ? await getRun(id) : undefined;
   if (!run?.plan) notFound();

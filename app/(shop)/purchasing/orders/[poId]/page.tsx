@@ -1,12 +1,13 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { getPurchaseOrder, listOrderDeliveries } from "@/db/queries/purchase-orders";
 import { listReorder } from "@/db/queries/reorder";
 import { listSuppliers } from "@/db/queries/suppliers";
 import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
+import { buttonClass } from "@/components/ui/button";
 import { PoStatusBadge } from "@/components/purchasing/po-status";
 import { PoActions } from "@/components/purchasing/po-actions";
 import { PoForm } from "@/components/purchasing/po-form";
@@ -18,7 +19,7 @@ export const metadata: Metadata = { title: "Purchase order" };
 const money = (v: number) => v.toLocaleString("en", { style: "currency", currency: "USD" });
 
 export default async function OrderPage({ params }: { params: Promise<{ poId: string }> }) {
-  const user = await requireRole("buyer", "manager");
+  const user = await requirePage("/purchasing/orders/[poId]");
   const { poId } = await params;
   if (!/^\d{1,9}$/.test(poId)) notFound();
   const po = await getPurchaseOrder(Number(poId));
@@ -48,7 +49,7 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
         {canEdit ? (
           <PoActions id={po.id} status={po.status} supplierEmail={po.supplierEmail} />
         ) : (
-          <a href={`/api/purchase-orders/${po.id}/export`} download>
+          <a className={buttonClass("secondary")} href={`/api/purchase-orders/${po.id}/export`} download>
             Export CSV
           </a>
         )}
@@ -70,7 +71,8 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
           </Notice>
         )}
         <Card title="Lines">
-          <div className="-mx-5 overflow-x-auto">
+          {/* biome-ignore lint/a11y/noNoninteractiveTabindex: a keyboard scrolls the wide lines sideways (WCAG 2.1.1) */}
+          <section className="-mx-5 overflow-x-auto" aria-label="Order lines" tabIndex={0}>
             <table className="min-w-[40rem]">
               <thead className="border-b border-bead">
                 <tr>
@@ -136,7 +138,7 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
                 </tr>
               </tfoot>
             </table>
-          </div>
+          </section>
           {po.notes && <p className="mt-3 text-sm text-ink-soft">Notes: {po.notes}</p>}
           <p className="mt-2 text-xs text-ink-faint">
             Written by {po.createdBy ?? "–"} on {po.createdAt.slice(0, 10)}

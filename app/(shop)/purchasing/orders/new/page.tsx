@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { listReorder } from "@/db/queries/reorder";
 import { listSuppliers } from "@/db/queries/suppliers";
 import { PageHeader } from "@/components/ui/card";
@@ -8,7 +8,7 @@ import { PoForm } from "@/components/purchasing/po-form";
 export const metadata: Metadata = { title: "Write an order" };
 
 export default async function NewOrderPage() {
-  await requireRole("buyer");
+  await requirePage("/purchasing/orders/new");
   const [rows, suppliers] = await Promise.all([listReorder(), listSuppliers()]);
   return (
     <>

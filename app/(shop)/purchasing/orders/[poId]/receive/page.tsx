@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { getPurchaseOrder } from "@/db/queries/purchase-orders";
 import { listLocations } from "@/db/queries/blocks";
 import { Notice, PageHeader } from "@/components/ui/card";
@@ -13,7 +13,7 @@ import { isoDate } from "@/lib/stock";
 export const metadata: Metadata = { title: "Receive against an order" };
 
 export default async function ReceivePage({ params }: { params: Promise<{ poId: string }> }) {
-  await requireRole("buyer");
+  await requirePage("/purchasing/orders/[poId]/receive");
   const { poId } = await params;
   if (!/^\d{1,9}$/.test(poId)) notFound();
   const po = await getPurchaseOrder(Number(poId));
