@@ -4,7 +4,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 /** Approve (reserves the stock), release (gives it back) and re-plan what is still owed. */
 export function RunActions({
@@ -37,7 +37,7 @@ export function RunActions({
   }
   return (
     <div className="space-y-3">
-      {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
+      {msg && <ResultNotice tone={msg.tone}>{msg.text}</ResultNotice>}
       <div className="flex flex-wrap gap-2">
         {status === "done" && canApprove && (
           <Button disabled={busy} onClick={() => act("approve", "Approved: the blocks are earmarked for this plan.")}>

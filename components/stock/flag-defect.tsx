@@ -7,6 +7,7 @@ import { DEFECT_KINDS, DEFECT_LABELS, STATUS_LABELS, type DefectKind, type Shown
 import { formatSize, type LengthUnit } from "@/lib/units";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 import { Field, Input, Select } from "@/components/ui/field";
 import { FaceViews, type DrawnRect, type Vec3 } from "./face-views";
 import { QrScanner } from "./qr-scanner";
@@ -358,7 +359,7 @@ function ZoneForm({
       <div className="grid gap-5 lg:grid-cols-[minmax(0,1.2fr)_minmax(0,1fr)]">
         <Card title="What is wrong here?">
           <form className="space-y-5" onSubmit={submit} noValidate>
-            {message && <Notice tone={message.tone}>{message.text}</Notice>}
+            {message && <ResultNotice tone={message.tone}>{message.text}</ResultNotice>}
             <Field label="Kind of defect" name="kind" error={fields.kind}>
               <Select name="kind" value={kind} onChange={(e) => setKind(e.target.value)} error={fields.kind}>
                 <option value="">Choose…</option>
@@ -482,7 +483,7 @@ function AxisRow({
         error={err}
       />
       {err && (
-        <p id={`${end}.${i}-error`} role="alert" className="text-sm text-ember">
+        <p id={`${end}.${i}-error`} className="text-sm text-ember">
           {err}
         </p>
       )}

@@ -6,6 +6,7 @@ import { send } from "@/lib/swr/fetcher";
 import { useSubmit } from "@/components/ui/use-submit";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 import { Field, Input, Select } from "@/components/ui/field";
 import { addDays, isoDate } from "@/lib/stock";
 import type { LengthUnit } from "@/lib/units";
@@ -88,9 +89,11 @@ export function ReceiveForm({
   if (done) {
     return (
       <Card title="Delivery received">
-        <p className="mb-3">
-          {done.codes.length} blocks are in stock: {done.codes.join(", ")}.
-        </p>
+        <div className="mb-3">
+          <ResultNotice tone="success">
+            {`${done.codes.length} ${done.codes.length === 1 ? "block is" : "blocks are"} in stock: ${done.codes.join(", ")}.`}
+          </ResultNotice>
+        </div>
         {done.warnings.map((w) => (
           <div key={w.index} className="mb-2">
             <Notice tone="caution">
@@ -148,7 +151,11 @@ export function ReceiveForm({
         if (res) setDone(res);
       }}
     >
-      {message && <Notice tone={message.tone}>{message.text} Nothing was saved.</Notice>}
+      {message && (
+        <ResultNotice tone={message.tone}>
+          {message.tone === "danger" ? `${message.text} Nothing was saved.` : message.text}
+        </ResultNotice>
+      )}
       <Card title="The delivery">
         <div className="grid gap-4 md:grid-cols-2 lg:grid-cols-4">
           <Field label="Supplier" name="supplierId" error={fields.supplierId}>
@@ -221,6 +228,7 @@ export function ReceiveForm({
                       aria-label={`Block ${i + 1} grade`}
                       value={r.gradeId}
                       onChange={(e) => update(r.key, { gradeId: e.target.value })}
+                      aria-invalid={fields[p("gradeId")] ? true : undefined}
                       className={`${cell} ${bad(p("gradeId"))}`}
                     >
                       <option value="">grade…</option>
@@ -238,6 +246,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.x}
                       onChange={(e) => update(r.key, { x: e.target.value })}
+                      aria-invalid={fields[p("size.0")] ? true : undefined}
                       className={`${cell} ${bad(p("size.0"))}`}
                     />
                   </Captioned>
@@ -248,6 +257,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.y}
                       onChange={(e) => update(r.key, { y: e.target.value })}
+                      aria-invalid={fields[p("size.1")] ? true : undefined}
                       className={`${cell} ${bad(p("size.1"))}`}
                     />
                   </Captioned>
@@ -258,6 +268,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.z}
                       onChange={(e) => update(r.key, { z: e.target.value })}
+                      aria-invalid={fields[p("size.2")] ? true : undefined}
                       className={`${cell} ${bad(p("size.2"))}`}
                     />
                   </Captioned>
@@ -268,6 +279,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.weight}
                       onChange={(e) => update(r.key, { weight: e.target.value })}
+                      aria-invalid={fields[p("weightKg")] ? true : undefined}
                       className={`${cell} ${bad(p("weightKg"))}`}
                     />
                   </Captioned>
@@ -278,6 +290,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.cost}
                       onChange={(e) => update(r.key, { cost: e.target.value })}
+                      aria-invalid={fields[p("cost")] ? true : undefined}
                       className={`${cell} ${bad(p("cost"))}`}
                     />
                   </Captioned>
@@ -287,6 +300,7 @@ export function ReceiveForm({
                       placeholder="location"
                       value={r.location}
                       onChange={(e) => update(r.key, { location: e.target.value })}
+                      aria-invalid={fields[p("location")] ? true : undefined}
                       className={`${cell} ${bad(p("location"))}`}
                     />
                   </Captioned>
@@ -296,6 +310,7 @@ export function ReceiveForm({
                       type="date"
                       value={r.mouldedOn}
                       onChange={(e) => update(r.key, { mouldedOn: e.target.value })}
+                      aria-invalid={fields[p("mouldedOn")] ? true : undefined}
                       className={`${cell} ${bad(p("mouldedOn"))}`}
                     />
                   </Captioned>
@@ -339,7 +354,7 @@ export function ReceiveForm({
                   </p>
                 )}
                 {rowErrors.map(([k, m]) => (
-                  <p key={k} role="alert" className="text-sm text-ember">
+                  <p key={k} className="text-sm text-ember">
                     {m}
                   </p>
                 ))}

@@ -21,7 +21,7 @@ export function Field({ label, name, error, hint, children }: FieldProps) {
       {children}
       {hint && !error && <p className="text-xs text-ink-faint">{hint}</p>}
       {error && (
-        <p id={`${name}-error`} role="alert" className="text-sm text-ember">
+        <p id={`${name}-error`} className="text-sm text-ember">
           {error}
         </p>
       )}

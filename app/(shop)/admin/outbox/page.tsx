@@ -28,7 +28,12 @@ export default async function OutboxPage({ searchParams }: { searchParams: Promi
       <div className="mb-4">
         <Notice>{where}</Notice>
       </div>
-      <div className="overflow-x-auto rounded-card border border-bead bg-paper-raised shadow-card">
+      {/* A region a keyboard can scroll sideways even when no row holds a link. */}
+      <section
+        tabIndex={0}
+        aria-label="Mail sent, newest first"
+        className="overflow-x-auto rounded-card border border-bead bg-paper-raised shadow-card"
+      >
         <table>
           <thead className="border-b border-bead bg-paper-sunk">
             <tr>
@@ -83,7 +88,7 @@ export default async function OutboxPage({ searchParams }: { searchParams: Promi
             )}
           </tbody>
         </table>
-      </div>
+      </section>
       <div className="mt-4 flex justify-between text-sm">
         {page > 1 ? (
           <Link className={buttonClass("secondary")} href={`/admin/outbox?page=${page - 1}`}>

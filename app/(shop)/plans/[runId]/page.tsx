@@ -1,5 +1,6 @@
 import { planSteps, stepProblems } from "@/db/queries/at-the-machine";
 import { RunTable } from "@/components/plans/job-runs";
+import { rowLinkClass } from "@/components/ui/button";
 import { boundGap } from "@/lib/planning/bound-gap";
 import type { Metadata } from "next";
 import Link from "next/link";
@@ -220,7 +221,9 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                   key={b.id}
                   title={
                     <span className="flex flex-wrap items-center gap-2">
-                      <Link href={`/stock/${encodeURIComponent(b.id)}`}>{b.id}</Link>
+                      <Link className={rowLinkClass} href={`/stock/${encodeURIComponent(b.id)}`}>
+                        {b.id}
+                      </Link>
                       <span className="text-sm font-normal text-ink-soft">
                         {b.size.join(" × ")} mm · {b.grade}
                         {b.offcut && " · offcut"}
