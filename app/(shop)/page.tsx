@@ -42,10 +42,10 @@ export default async function HomePage({ searchParams }: { searchParams: Promise
                   <Figure label="Deactivated" value={String(people.filter((p) => !p.active).length)} />
                 </dl>
                 <div className="mt-1 flex gap-4 text-sm">
-                  <Link className="inline-flex min-h-11 items-center" href="/admin/users">
+                  <Link className="inline-flex min-h-11 min-w-11 items-center" href="/admin/users">
                     Manage people
                   </Link>
-                  <Link className="inline-flex min-h-11 items-center" href="/admin/settings">
+                  <Link className="inline-flex min-h-11 min-w-11 items-center" href="/admin/settings">
                     Shop settings
                   </Link>
                 </div>

@@ -29,10 +29,10 @@ export async function BuyerFigures() {
         </ul>
       )}
       <div className="flex flex-wrap gap-4">
-        <Link className="inline-flex min-h-11 items-center" href="/purchasing">
+        <Link className="inline-flex min-h-11 min-w-11 items-center" href="/purchasing">
           Reorder list
         </Link>
-        <Link className="inline-flex min-h-11 items-center" href="/purchasing/orders?status=open">
+        <Link className="inline-flex min-h-11 min-w-11 items-center" href="/purchasing/orders?status=open">
           Open orders{open.draft ? ` (${open.draft} draft${open.draft === 1 ? "" : "s"})` : ""}
         </Link>
       </div>
@@ -72,7 +72,7 @@ export async function ManagerFigures() {
         )}{" "}
         Parts ÷ (stock issued − offcuts kept).
       </p>
-      <Link className="inline-flex min-h-11 items-center" href="/reports">
+      <Link className="inline-flex min-h-11 min-w-11 items-center" href="/reports">
         Reports
       </Link>
     </div>

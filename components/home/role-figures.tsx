@@ -13,7 +13,7 @@ export async function PlannerFigures() {
           <ul className="mt-1">
             {jobs.map((j) => (
               <li key={j.id} className="flex items-center justify-between gap-2">
-                <Link className="inline-flex min-h-11 items-center" href={`/jobs/${j.id}`}>
+                <Link className="inline-flex min-h-11 min-w-11 items-center" href={`/jobs/${j.id}`}>
                   {j.name}
                 </Link>
                 <span className={j.dueOn && j.dueOn < today ? "font-semibold text-ember" : "text-ink-soft"}>
@@ -51,7 +51,7 @@ export async function CutterFigures() {
         <ul className="mt-1">
           {plans.map((p) => (
             <li key={p.id} className="flex items-center justify-between gap-2">
-              <Link className="inline-flex min-h-11 items-center" href={`/plans/${p.id}/cut`}>
+              <Link className="inline-flex min-h-11 min-w-11 items-center" href={`/plans/${p.id}/cut`}>
                 Plan #{p.id} · {p.jobs.join(", ")}
               </Link>
               <span className="text-ink-soft">

@@ -14,7 +14,8 @@ export function buttonClass(tone: Tone = "primary", extra = "") {
 }
 
 /** The one link in a table row: a 44 px tall target that never wraps (a code is one word). */
-export const rowLinkClass = "flex min-h-11 items-center whitespace-nowrap font-medium no-underline hover:underline";
+export const rowLinkClass =
+  "flex min-h-11 min-w-11 items-center whitespace-nowrap font-medium no-underline hover:underline";
 
 export function Button({
   tone = "primary",

@@ -68,7 +68,7 @@ export default async function JobsPage({
                 key={k}
                 href={href({ status: k, page: 1 })}
                 aria-current={query.status === k ? "page" : undefined}
-                className={`inline-flex min-h-11 items-center rounded-full border px-4 text-sm no-underline hover:no-underline ${query.status === k ? "border-kerf bg-kerf text-white" : "border-bead-strong bg-paper-raised text-ink"}`}
+                className={`inline-flex min-h-11 min-w-11 items-center rounded-full border px-4 text-sm no-underline hover:no-underline ${query.status === k ? "border-kerf bg-kerf text-white" : "border-bead-strong bg-paper-raised text-ink"}`}
               >
                 {label}
               </Link>

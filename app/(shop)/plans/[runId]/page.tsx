@@ -249,7 +249,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                       {(stepsOf.get(b.id)!.procedure as { steps: { n: number; piece: string }[] }).steps.map((s) => (
                         <a
                           key={s.n}
-                          className="inline-flex min-h-11 items-center"
+                          className="inline-flex min-h-11 min-w-11 items-center"
                           href={`/api/runs/${run.id}/gcode?block=${encodeURIComponent(b.id)}&step=${s.n}`}
                         >
                           step {s.n} (piece {s.piece})
