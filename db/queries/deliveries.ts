@@ -5,7 +5,7 @@ import { appendLedger } from "./ledger";
 import { nextBlockCodes } from "./blocks";
 import { HttpError } from "@/lib/errors";
 import { receivedCodeProblem } from "@/lib/block-code";
-import { addDays, isoDate } from "@/lib/stock";
+import { HOLD_LABELS, OVER_DENSITY_FACTOR, addDays, densityHold, isoDate, type HoldReason } from "@/lib/stock";
 import type { DeliveryInput } from "@/lib/validations/stock";
 
 export interface DeliverySummary {
@@ -26,6 +26,8 @@ export interface ReceiveResult {
   deliveryId: number;
   codes: string[];
   warnings: { index: number; message: string }[];
+  /** Blocks put on hold on receipt (density outside their grade), with the reason. */
+  held: { index: number; code: string; reason: HoldReason }[];
 }
 
 interface GradeFacts {
@@ -38,6 +40,9 @@ interface GradeFacts {
 /**
  * Receives one delivery of blocks in the caller's transaction: codes (given or generated), the
  * cut-not-before date from the grade's cure days, and a "received" ledger row per block.
+ * A block weighed below its grade's minimum density, or above OVER_DENSITY_FACTOR × that minimum
+ * (a wet core, a denser grade under the wrong label), is received on hold — not on hand, not free
+ * to plan — with a "held" ledger row, until the buyer releases it.
  * Field errors name the block row: `blocks.3.code`.
  */
 export async function receiveDelivery(
@@ -92,19 +97,23 @@ export async function receiveDelivery(
     .returning("id");
   const generated = await nextBlockCodes(trx, input.blocks.filter((b) => !b.code).length);
   const warnings: ReceiveResult["warnings"] = [];
+  const holds = new Map<number, { reason: HoldReason; note: string }>();
   const rows = input.blocks.map((b, i) => {
     const grade = grades.get(b.gradeId)!;
     const nominal = b.nominalSize ?? b.size;
     const volume = (b.size[0] * b.size[1] * b.size[2]) / 1e9;
-    if (b.weightKg && grade.min_density_kg_m3 !== null) {
-      const density = b.weightKg / volume;
-      if (density < Number(grade.min_density_kg_m3)) {
-        warnings.push({
-          index: i,
-          message: `Density ${density.toFixed(1)} kg/m³ is below the ${grade.code} minimum of ${Number(grade.min_density_kg_m3)} kg/m³.`,
-        });
-      }
+    const min = grade.min_density_kg_m3 === null ? null : Number(grade.min_density_kg_m3);
+    const density = b.weightKg ? b.weightKg / volume : null;
+    const hold = densityHold(density, min);
+    if (hold) {
+      const note =
+        hold === "under_density"
+          ? `Density ${density!.toFixed(1)} kg/m³ is below the ${grade.code} minimum of ${min} kg/m³.`
+          : `Density ${density!.toFixed(1)} kg/m³ is more than ${OVER_DENSITY_FACTOR} × the ${grade.code} minimum of ${min} kg/m³: a wet core or another grade?`;
+      holds.set(i, { reason: hold, note });
+      warnings.push({ index: i, message: `${note} Put on hold (${HOLD_LABELS[hold]}) until the buyer releases it.` });
     }
+    const held = holds.get(i);
     return {
       code: b.code ?? generated.shift()!,
       grade_id: b.gradeId,
@@ -121,7 +130,11 @@ export async function receiveDelivery(
       location: b.location,
       moulded_on: b.mouldedOn ?? null,
       cut_not_before: addDays(b.mouldedOn ?? input.receivedOn, grade.cure_days),
-      status: "in_stock",
+      status: held ? "on_hold" : "in_stock",
+      hold_reason: held?.reason ?? null,
+      hold_note: held?.note ?? null,
+      held_at: held ? trx.fn.now() : null,
+      held_by: held ? actorId : null,
     };
   });
   const inserted: { id: number; code: string; volume_m3: string; cost: string }[] = [];
@@ -144,7 +157,36 @@ export async function receiveDelivery(
       ref: ref ?? `delivery:${delivery.id}`,
     })),
   );
-  return { deliveryId: delivery.id, codes: inserted.map((b) => b.code), warnings };
+  const held: ReceiveResult["held"] = [];
+  await appendLedger(
+    trx,
+    inserted.flatMap((b, i) => {
+      const h = holds.get(i);
+      if (!h) return [];
+      held.push({ index: i, code: b.code, reason: h.reason });
+      return [
+        {
+          blockId: b.id,
+          kind: "held" as const,
+          volumeM3: Number(b.volume_m3),
+          value: Number(b.cost),
+          userId: actorId,
+          reason: `On hold on receipt: ${HOLD_LABELS[h.reason]} · ${h.note}`,
+          ref: ref ?? `delivery:${delivery.id}`,
+        },
+      ];
+    }),
+  );
+  if (held.length)
+    await trx("audit_log").insert(
+      held.map((h) => ({
+        actor_id: actorId,
+        action: "block.hold",
+        subject: `block:${inserted[h.index]!.id}`,
+        detail: { reason: h.reason, note: holds.get(h.index)!.note, onReceipt: true },
+      })),
+    );
+  return { deliveryId: delivery.id, codes: inserted.map((b) => b.code), warnings, held };
 }
 
 export async function createDelivery(input: DeliveryInput, actorId: string): Promise<ReceiveResult> {

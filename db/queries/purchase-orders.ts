@@ -1,7 +1,7 @@
 import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
-import { receiveDelivery } from "./deliveries";
+import { receiveDelivery, type ReceiveResult } from "./deliveries";
 import { listReorder } from "./reorder";
 import { HttpError, notFound } from "@/lib/errors";
 import {
@@ -399,6 +399,8 @@ export interface PoReceiveResult {
   deliveryId: number;
   codes: string[];
   warnings: { index: number; message: string }[];
+  /** Blocks put on hold on receipt (density outside their grade). */
+  held: ReceiveResult["held"];
   status: PoStatus;
   lines: { lineId: number; ordered: number; received: number; percent: number; filled: boolean; over: boolean }[];
 }
@@ -507,6 +509,7 @@ export async function receiveAgainstOrder(
       deliveryId: received.deliveryId,
       codes: received.codes,
       warnings: received.warnings,
+      held: received.held,
       status,
       lines: checks.map((c) => ({
         lineId: c.line.id,

@@ -130,20 +130,25 @@ describe("receiving a delivery", () => {
     });
     expect(res.status).toBe(201);
     expect(res.body.codes).toHaveLength(2);
-    // 160 kg / 7.25 m³ = 22 kg/m³: under the Type IX minimum of 28.8 — a warning, not a refusal.
+    // 160 kg / 7.25 m³ = 22 kg/m³: under the Type IX minimum of 28.8 — not a refusal: a warning,
+    // and the block is received on hold (out of on-hand stock and planning until released).
     expect(res.body.warnings).toHaveLength(1);
     expect(res.body.warnings[0].index).toBe(1);
+    expect(res.body.held).toEqual([{ index: 1, code: res.body.codes[1], reason: "under_density" }]);
     const blocks = await testDb()("blocks").whereIn("code", res.body.codes).orderBy("id");
     expect(blocks[0].cut_not_before.toISOString?.().slice(0, 10) ?? blocks[0].cut_not_before).toBeTruthy();
     const cnb = (b: { cut_not_before: Date }) =>
       `${b.cut_not_before.getFullYear()}-${String(b.cut_not_before.getMonth() + 1).padStart(2, "0")}-${String(b.cut_not_before.getDate()).padStart(2, "0")}`;
     expect(cnb(blocks[0])).toBe(addDays("2026-11-18", grade.cure_days));
     expect(cnb(blocks[1])).toBe(addDays("2026-11-20", grade.cure_days));
-    const ledger = await testDb()("stock_ledger").whereIn(
-      "block_id",
-      blocks.map((b: { id: number }) => b.id),
-    );
-    expect(ledger.map((l: { kind: string }) => l.kind)).toEqual(["received", "received"]);
+    const ledger = await testDb()("stock_ledger")
+      .whereIn(
+        "block_id",
+        blocks.map((b: { id: number }) => b.id),
+      )
+      .orderBy("id");
+    // Ordered by id: both received, then the hold (a zero movement) of the light one.
+    expect(ledger.map((l: { kind: string }) => l.kind)).toEqual(["received", "received", "held"]);
     const after = await ledgerGap();
     expect(after.m3).toBeCloseTo(before.m3, 9);
     expect(after.value).toBeCloseTo(before.value, 6);

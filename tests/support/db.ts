@@ -99,13 +99,16 @@ export async function makeBlock(
   return { id: b.id as number, code: b.code as string };
 }
 
-/** Ledger on hand minus the volume of blocks in stock: zero when every movement was recorded. */
+/**
+ * Ledger on hand minus the volume of blocks in the yard (in stock, earmarked or on hold: a hold
+ * moves nothing): zero when every movement was recorded.
+ */
 export async function ledgerGap(): Promise<{ m3: number; value: number }> {
   // One statement, so one snapshot: a delivery committed by a test running beside this one (the
   // browser tests) between two separate reads would show as a gap.
   const { rows } = await testDb().raw(
-    `SELECT (SELECT coalesce(sum(delta_m3), 0) FROM stock_ledger) - (SELECT coalesce(sum(volume_m3), 0) FROM blocks WHERE status IN ('in_stock', 'earmarked')) AS m3,
-            (SELECT coalesce(sum(delta_value), 0) FROM stock_ledger) - (SELECT coalesce(sum(cost), 0) FROM blocks WHERE status IN ('in_stock', 'earmarked')) AS value`,
+    `SELECT (SELECT coalesce(sum(delta_m3), 0) FROM stock_ledger) - (SELECT coalesce(sum(volume_m3), 0) FROM blocks WHERE status IN ('in_stock', 'earmarked', 'on_hold')) AS m3,
+            (SELECT coalesce(sum(delta_value), 0) FROM stock_ledger) - (SELECT coalesce(sum(cost), 0) FROM blocks WHERE status IN ('in_stock', 'earmarked', 'on_hold')) AS value`,
   );
   return { m3: Number(rows[0].m3), value: Number(rows[0].value) };
 }

@@ -101,7 +101,7 @@ export const GET = api<{ report: string }>("GET /api/reports/[report]", async ({
     case "suppliers": {
       const r = await supplierQualityReport(period);
       if (q.format === "json") return r;
-      const rows = [
+      const rows: Record<string, unknown>[] = [
         ...r.bySupplier.map((x) => ({ breakdown: "supplier", ...x })),
         ...r.byLot.map((x) => ({ breakdown: "lot", ...x })),
       ].map((x) => ({
@@ -114,7 +114,21 @@ export const GET = api<{ report: string }>("GET /api/reports/[report]", async ({
         defects_per_m3: x.defectsPerM3,
         weighed: x.weighed,
         below_min_density: x.belowMinDensity,
+        on_hold: x.onHold,
       }));
+      for (const c of r.claims)
+        rows.push({
+          breakdown: "claims",
+          supplier: c.supplier,
+          blocks: c.blocks,
+          claims: c.claims,
+          claims_open: c.open,
+          claims_accepted: c.accepted,
+          claims_rejected: c.rejected,
+          claims_accepted_pct: c.acceptedPct,
+          credit_asked: c.creditAsked,
+          credit_received: c.creditReceived,
+        });
       return csvResponse(
         toCsv(rows, [
           "breakdown",
@@ -126,6 +140,14 @@ export const GET = api<{ report: string }>("GET /api/reports/[report]", async ({
           "defects_per_m3",
           "weighed",
           "below_min_density",
+          "on_hold",
+          "claims",
+          "claims_open",
+          "claims_accepted",
+          "claims_rejected",
+          "claims_accepted_pct",
+          "credit_asked",
+          "credit_received",
         ]),
         name,
       );
