@@ -1,9 +1,9 @@
 import "server-only";
 import { db } from "@/db";
 import { receiveDelivery } from "./deliveries";
-import { appendLedger } from "./ledger";
+import { applyCount, countBlocks, countProblem, type CountChange } from "./stock-counts";
 import { cellReader, parseCsv, problemSummary, type CsvProblem } from "@/lib/csv";
-import { describeCharacter, receivedCodeProblem } from "@/lib/block-code";
+import { receivedCodeProblem } from "@/lib/block-code";
 import type { DeliveryInput } from "@/lib/validations/stock";
 
 export const DELIVERY_COLUMNS = {
@@ -212,35 +212,8 @@ export async function importStockCount(
     return report(false, rows.length, problems, warnings, {});
   }
   const codes = rows.map((r) => (r.code ?? "").toUpperCase()).filter(Boolean);
-  const blocks = new Map<
-    string,
-    { id: number; code: string; status: string; location: string; size: number[]; volume: number; cost: number }
-  >(
-    (
-      await db()("blocks")
-        .whereRaw("upper(code) = ANY(?)", [codes])
-        .select("id", "code", "status", "location", "size_x", "size_y", "size_z", "volume_m3", "cost")
-    ).map((b: Record<string, string | number>) => [
-      String(b.code).toUpperCase(),
-      {
-        id: Number(b.id),
-        code: String(b.code),
-        status: String(b.status),
-        location: String(b.location),
-        size: [Number(b.size_x), Number(b.size_y), Number(b.size_z)],
-        volume: Number(b.volume_m3),
-        cost: Number(b.cost),
-      },
-    ]),
-  );
-  type Change = {
-    block: NonNullable<ReturnType<typeof blocks.get>>;
-    location: string;
-    present: boolean;
-    size: [number, number, number] | null;
-    note: string | null;
-  };
-  const changes: Change[] = [];
+  const blocks = await countBlocks(db(), codes);
+  const changes: CountChange[] = [];
   const seen = new Map<string, number>();
   rows.forEach((r, i) => {
     const row = i + 2;
@@ -262,30 +235,8 @@ export async function importStockCount(
       problems.push({ row, column: "code", message: `Block ${code} is also on row ${seen.get(code)}.` });
     seen.set(code, row);
     const block = blocks.get(code);
-    if (!block) {
-      // A pasted invisible character is the usual reason a code on the shelf is "not found".
-      const chars = Array.from(code);
-      const odd = chars.findIndex((ch) => !/[A-Za-z0-9._-]/.test(ch));
-      problems.push({
-        row,
-        column: "code",
-        message:
-          odd < 0
-            ? `No block ${code} in the register.`
-            : `No block ${code} in the register: character ${odd + 1} is ${describeCharacter(chars[odd]!)}.`,
-      });
-    } else if (block.status === "cut" || block.status === "written_off")
-      problems.push({
-        row,
-        column: "code",
-        message: `Block ${code} is no longer in stock (${block.status === "cut" ? "cut up" : "written off"}).`,
-      });
-    else if (!present && block.status === "earmarked")
-      problems.push({
-        row,
-        column: "present",
-        message: `Block ${code} is earmarked for a plan; release it before writing it off.`,
-      });
+    const problem = countProblem(code, block, present);
+    if (problem) problems.push({ row, column: block?.status === "earmarked" ? "present" : "code", message: problem });
     if (problems.length > before || !block) return;
     changes.push({
       block,
@@ -307,51 +258,7 @@ export async function importStockCount(
     const [imp] = await trx("csv_imports")
       .insert({ kind: "stock_count", file_name: fileName, rows: rows.length, imported_by: actorId })
       .returning("id");
-    const ref = `count:${imp.id}`;
-    for (const ch of changes) {
-      const b = ch.block;
-      if (!ch.present) {
-        await trx("blocks").where({ id: b.id }).update({ status: "written_off", updated_at: trx.fn.now() });
-        await appendLedger(trx, [
-          {
-            blockId: b.id,
-            kind: "scrapped",
-            volumeM3: b.volume,
-            value: b.cost,
-            userId: actorId,
-            reason: ch.note ?? "Not found at stock count",
-            ref,
-          },
-        ]);
-        continue;
-      }
-      const patch: Record<string, unknown> = {};
-      if (ch.location !== b.location) patch.location = ch.location;
-      if (ch.size?.some((v, i) => Math.abs(v - b.size[i]!) > 1e-6)) {
-        patch.size_x = ch.size[0];
-        patch.size_y = ch.size[1];
-        patch.size_z = ch.size[2];
-      }
-      if (!Object.keys(patch).length) continue;
-      const [after] = await trx("blocks")
-        .where({ id: b.id })
-        .update({ ...patch, updated_at: trx.fn.now() })
-        .returning("volume_m3");
-      const delta = Number(after.volume_m3) - b.volume;
-      if (Math.abs(delta) > 0) {
-        await appendLedger(trx, [
-          {
-            blockId: b.id,
-            kind: "adjusted",
-            volumeM3: delta,
-            value: 0,
-            userId: actorId,
-            reason: ch.note ?? "Re-measured at stock count",
-            ref,
-          },
-        ]);
-      }
-    }
+    await applyCount(trx, changes, `count:${imp.id}`, actorId);
   });
   return report(true, rows.length, problems, warnings, summary);
 }
