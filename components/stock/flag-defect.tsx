@@ -1,5 +1,6 @@
 "use client";
 
+import { formatDate } from "@/lib/format";
 import { useEffect, useRef, useState, type FormEvent } from "react";
 import Link from "next/link";
 import { ApiError, fetcher, readResponse, send } from "@/lib/swr/fetcher";
@@ -7,10 +8,13 @@ import { DEFECT_KINDS, DEFECT_LABELS, STATUS_LABELS, type DefectKind, type Shown
 import { formatSize, type LengthUnit } from "@/lib/units";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
-import { ResultNotice } from "@/components/ui/result-notice";
+import { LiveNotice, ResultNotice } from "@/components/ui/result-notice";
+import { useAnnounce } from "@/components/ui/announcer";
 import { Field, Input, Select } from "@/components/ui/field";
+import { FACE_AT, depthRange, zoneFromMark } from "@/lib/defect-zone";
 import { FaceViews, type DrawnRect, type Vec3 } from "./face-views";
 import { QrScanner } from "./qr-scanner";
+import { ZoneEdit } from "./zone-edit";
 
 // What this page reads from the API (client components never import db/).
 interface FoundBlock {
@@ -36,9 +40,16 @@ interface Zone {
   min: Vec3;
   max: Vec3;
   foundBy: string | null;
+  foundById: string | null;
   foundAt: string;
   note: string | null;
   photos: Photo[];
+}
+
+/** Who is looking: the cutter who flagged a zone, or a planner, may correct or remove it. */
+export interface Viewer {
+  id: string;
+  planner: boolean;
 }
 
 const MAX_PHOTO_BYTES = 10 * 1024 * 1024;
@@ -78,10 +89,17 @@ async function uploadPhotos(defectId: number, files: File[]): Promise<void> {
   await readResponse(res);
 }
 
-export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: LengthUnit }) {
+export function FlagDefect({ initialCode, unit, viewer }: { initialCode?: string; unit: LengthUnit; viewer?: Viewer }) {
   const [code, setCode] = useState(initialCode ?? "");
   const [finding, setFinding] = useState(false);
   const [findError, setFindError] = useState<string | null>(null);
+  const announce = useAnnounce();
+  // A code not found: said once in the page's live region, focus back on the code to correct it.
+  useEffect(() => {
+    if (!findError) return;
+    announce(findError);
+    document.getElementById("code")?.focus();
+  }, [findError, announce]);
   const [choices, setChoices] = useState<FoundBlock[]>([]);
   const [block, setBlock] = useState<FoundBlock | null>(null);
   const [zones, setZones] = useState<Zone[]>([]);
@@ -164,7 +182,7 @@ export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: 
               </Button>
             </div>
             {findError ? (
-              <p id="code-error" role="alert" className="text-sm text-ember">
+              <p id="code-error" className="text-sm text-ember">
                 {findError}
               </p>
             ) : (
@@ -230,7 +248,7 @@ export function FlagDefect({ initialCode, unit }: { initialCode?: string; unit: 
           A zone flagged here is kept for the record only; flag it on the offcut you are holding if there is one.
         </Notice>
       )}
-      <ZoneForm key={block.id} block={block} zones={zones} unit={unit} onSaved={reload} />
+      <ZoneForm key={block.id} block={block} zones={zones} unit={unit} onSaved={reload} viewer={viewer} />
     </div>
   );
 }
@@ -240,17 +258,20 @@ function ZoneForm({
   zones,
   unit,
   onSaved,
+  viewer,
 }: {
   block: FoundBlock;
   zones: Zone[];
   unit: LengthUnit;
   onSaved: () => Promise<void>;
+  viewer?: Viewer;
 }) {
   const [kind, setKind] = useState<string>("");
   const [coords, setCoords] = useState<Coords>(EMPTY);
   const [note, setNote] = useState("");
   const [files, setFiles] = useState<File[]>([]);
   const [drawnOn, setDrawnOn] = useState<DrawnRect | null>(null);
+  const [depthText, setDepthText] = useState("");
   const [fields, setFields] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<{ tone: "success" | "danger" | "caution"; text: string } | null>(null);
   const [busy, setBusy] = useState(false);
@@ -265,20 +286,25 @@ function ZoneForm({
       : null;
 
   const onDraw = (r: DrawnRect) => {
+    // The third axis is the depth into the face: from the face inwards, as deep as the mark is
+    // wide (lib/defect-zone.ts), until the person types the depth they found. A depth already
+    // typed for that axis is kept.
+    const zone = zoneFromMark(r, block.size);
+    const d = zone.depthAxis;
+    const typed = coords.min[d] !== "" || coords.max[d] !== "";
     setCoords((c) => {
       const next: Coords = { min: [...c.min], max: [...c.max] };
-      r.axes.forEach((axis, i) => {
-        next.min[axis] = String(r.min[i]);
-        next.max[axis] = String(r.max[i]);
+      r.axes.forEach((axis) => {
+        next.min[axis] = String(zone.min[axis]);
+        next.max[axis] = String(zone.max[axis]);
       });
-      // The third axis is the depth into the face: the whole block until the person knows better.
-      const depth = ([0, 1, 2] as const).find((a) => !r.axes.includes(a))!;
-      if (c.min[depth] === "" && c.max[depth] === "") {
-        next.min[depth] = "0";
-        next.max[depth] = String(block.size[depth]);
+      if (!typed) {
+        next.min[d] = String(zone.min[d]);
+        next.max[d] = String(zone.max[d]);
       }
       return next;
     });
+    if (!typed) setDepthText(String(zone.depth));
     setDrawnOn(r);
     setFields((f) => {
       const rest = { ...f };
@@ -290,12 +316,33 @@ function ZoneForm({
     });
   };
 
-  const setCoord = (end: "min" | "max", axis: number, value: string) =>
+  const setCoord = (end: "min" | "max", axis: number, value: string) => {
+    const next: Coords = { min: [...coords.min], max: [...coords.max] };
+    next[end][axis] = value;
+    setCoords(next);
+    // The depth field follows a depth typed as from/to.
+    if (drawnOn && axis === FACE_AT[drawnOn.view].axis) {
+      const lo = num(next.min[axis]!);
+      const hi = num(next.max[axis]!);
+      setDepthText(lo !== null && hi !== null && hi > lo ? String(Math.round((hi - lo) * 100) / 100) : "");
+    }
+  };
+
+  /** The depth typed in mm from the face the zone was marked on: sets the depth axis from the face in. */
+  const setDepth = (value: string) => {
+    setDepthText(value);
+    if (!drawnOn) return;
+    const d = num(value);
+    if (d === null || !Number.isFinite(d) || d <= 0) return;
+    const axis = FACE_AT[drawnOn.view].axis;
+    const [lo, hi] = depthRange(drawnOn.view, d, block.size);
     setCoords((c) => {
       const next: Coords = { min: [...c.min], max: [...c.max] };
-      next[end][axis] = value;
+      next.min[axis] = String(lo);
+      next.max[axis] = String(hi);
       return next;
     });
+  };
 
   const submit = async (e: FormEvent) => {
     e.preventDefault();
@@ -342,13 +389,14 @@ function ZoneForm({
     setNote("");
     setFiles([]);
     setDrawnOn(null);
+    setDepthText("");
     if (fileInput.current) fileInput.current.value = "";
     setHighlight(defectId);
     setMessage({ tone, text });
     setBusy(false);
   };
 
-  const depthAxis = drawnOn ? ([0, 1, 2] as const).find((a) => !drawnOn.axes.includes(a))! : null;
+  const depthAxis = drawnOn ? FACE_AT[drawnOn.view].axis : null;
 
   return (
     <div className="space-y-5">
@@ -374,11 +422,32 @@ function ZoneForm({
             <fieldset>
               <legend className="mb-1 text-sm font-medium text-ink-soft">Where, in mm from the origin corner</legend>
               {drawnOn && depthAxis !== null ? (
-                <p className="mb-2 text-xs text-ink-faint" data-testid="drawn-hint">
-                  Drawn on the {VIEW_NAMES[drawnOn.view]} face: {AXES[drawnOn.axes[0]].key} and{" "}
-                  {AXES[drawnOn.axes[1]].key} come from your drawing. {AXES[depthAxis].key} ({AXES[depthAxis].name}) is
-                  the depth you could not draw: it starts as the whole block, so narrow it if you know.
-                </p>
+                <div className="mb-3 space-y-2">
+                  <p className="text-xs text-ink-faint" data-testid="drawn-hint">
+                    Drawn on the {VIEW_NAMES[drawnOn.view]} face: {AXES[drawnOn.axes[0]].key} and{" "}
+                    {AXES[drawnOn.axes[1]].key} come from your drawing. How deep it goes ({AXES[depthAxis].key},{" "}
+                    {AXES[depthAxis].name}) cannot be drawn: it starts as deep as the mark is wide, from that face in.
+                    Type the depth you found; if it lies further inside, type its from and to below.
+                  </p>
+                  <Field
+                    label={`Depth from the ${VIEW_NAMES[drawnOn.view]} face (mm)`}
+                    name="depth"
+                    error={fields[`min.${depthAxis}`] ?? fields[`max.${depthAxis}`]}
+                    hint={`0 – ${block.size[depthAxis]} mm`}
+                  >
+                    <Input
+                      name="depth"
+                      inputMode="decimal"
+                      type="number"
+                      min={0}
+                      max={block.size[depthAxis]}
+                      step="any"
+                      value={depthText}
+                      onChange={(e) => setDepth(e.target.value)}
+                      error={fields[`min.${depthAxis}`] ?? fields[`max.${depthAxis}`]}
+                    />
+                  </Field>
+                </div>
               ) : (
                 <p className="mb-2 text-xs text-ink-faint">Drag on a face above, or type the box here.</p>
               )}
@@ -444,7 +513,15 @@ function ZoneForm({
         </Card>
 
         <Card title={`Zones on ${block.code} (${zones.length})`}>
-          <ZoneList zones={zones} unit={unit} onHover={setHighlight} onPhotos={onSaved} highlight={highlight} />
+          <ZoneList
+            block={block}
+            zones={zones}
+            unit={unit}
+            onHover={setHighlight}
+            onPhotos={onSaved}
+            highlight={highlight}
+            viewer={viewer}
+          />
         </Card>
       </div>
     </div>
@@ -520,17 +597,21 @@ function PhotoPreviews({ files }: { files: File[] }) {
 }
 
 function ZoneList({
+  block,
   zones,
   unit,
   highlight,
   onHover,
   onPhotos,
+  viewer,
 }: {
+  block: FoundBlock;
   zones: Zone[];
   unit: LengthUnit;
   highlight: number | null;
   onHover: (id: number | null) => void;
   onPhotos: () => Promise<void>;
+  viewer?: Viewer;
 }) {
   if (!zones.length) return <p className="text-sm text-ink-faint">No zones flagged on this block yet.</p>;
   return (
@@ -546,7 +627,7 @@ function ZoneList({
           <div className="flex items-baseline justify-between gap-3">
             <p className="font-medium">{DEFECT_LABELS[z.kind] ?? z.kind}</p>
             <p className="text-xs text-ink-faint">
-              {z.foundBy ?? "someone"} · {new Date(z.foundAt).toLocaleDateString()}
+              {z.foundBy ?? "someone"} · {formatDate(z.foundAt)}
             </p>
           </div>
           <p className="text-sm text-ink-soft" style={{ fontVariantNumeric: "tabular-nums" }}>
@@ -571,6 +652,16 @@ function ZoneList({
             ))}
             <AddPhotos defectId={z.id} onDone={onPhotos} />
           </div>
+          {viewer && (viewer.planner || z.foundById === viewer.id) && (
+            <div className="mt-2">
+              <ZoneEdit
+                zone={{ id: z.id, kind: z.kind, min: z.min, max: z.max, note: z.note }}
+                blockCode={block.code}
+                size={block.size}
+                onDone={onPhotos}
+              />
+            </div>
+          )}
         </li>
       ))}
     </ul>
@@ -611,11 +702,7 @@ function AddPhotos({ defectId, onDone }: { defectId: number; onDone: () => Promi
           }
         }}
       />
-      {error && (
-        <p role="alert" className="text-sm text-ember">
-          {error}
-        </p>
-      )}
+      {error && <LiveNotice tone="danger">{error}</LiveNotice>}
     </div>
   );
 }

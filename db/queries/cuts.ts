@@ -120,7 +120,7 @@ export async function recordCut(
     const size: Vec3 = [Number(block.size_x), Number(block.size_y), Number(block.size_z)];
     const problemBlock = problem.blocks.find((b) => b.id === block.code);
     const trim = problemBlock?.trim ?? (block.parent_id ? 0 : settings.trim);
-    const defects = await trx("defect_zones").where({ block_id: blockId }).orderBy("id");
+    const defects = await trx("defect_zones").where({ block_id: blockId }).whereNull("removed_at").orderBy("id");
     const zone = (d: Record<string, unknown>, grow = 0) => ({
       min: [Number(d.min_x) - grow, Number(d.min_y) - grow, Number(d.min_z) - grow] as Vec3,
       max: [Number(d.max_x) + grow, Number(d.max_y) + grow, Number(d.max_z) + grow] as Vec3,
@@ -401,7 +401,9 @@ export async function undoCut(
     if (busy.length)
       throw new HttpError(
         409,
-        `${busy.map((b) => b.code).join(", ")} ${busy.length === 1 ? "is" : "are"} already ${busy[0]!.status === "earmarked" ? "earmarked for another plan" : "used"}: the recording of ${block.code} can no longer be undone.`,
+        busy.every((b) => b.status === "on_hold")
+          ? `${busy.map((b) => b.code).join(", ")} ${busy.length === 1 ? "is" : "are"} on hold: release ${busy.length === 1 ? "it" : "them"} first to undo the recording of ${block.code}.`
+          : `${busy.map((b) => b.code).join(", ")} ${busy.length === 1 ? "is" : "are"} already ${busy[0]!.status === "earmarked" ? "earmarked for another plan" : "used"}: the recording of ${block.code} can no longer be undone.`,
       );
     const reason = `Recording of ${block.code} in plan #${runId} undone`;
     for (const m of made) {

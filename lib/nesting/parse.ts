@@ -87,10 +87,25 @@ function readDefect(r: Reader, raw: unknown, path: string, size: Vec3): Defect |
   return id === undefined ? { min, max } : { id, min, max };
 }
 
+/**
+ * Reads one block; every error about it names the block by its id as well as its path (a person
+ * looks for "HF-1003.4", not for the 70th entry of a list they never saw).
+ */
 function readBlock(r: Reader, raw: unknown, i: number, settings: Settings): Block | undefined {
   const path = `blocks[${i}]`;
   if (!isObj(raw)) return (r.err(path, "must be an object"), undefined);
+  const first = r.errors.length;
+  const block = readBlockFields(r, raw, path, settings);
+  const id = typeof raw.id === "string" ? raw.id.trim() : "";
+  if (id)
+    for (let e = first; e < r.errors.length; e++)
+      if (!r.errors[e]!.includes(`block ${id}`)) r.errors[e] = `${r.errors[e]} (block ${id})`;
+  return block;
+}
+
+function readBlockFields(r: Reader, raw: Obj, path: string, settings: Settings): Block {
   const id = r.str(raw, "id", path, true) ?? "";
+  const name = id.trim() ? `block ${id.trim()}` : path;
   const size = r.vec3(raw, "size", path, "pos");
   const grade = r.str(raw, "grade", path, false);
   let offcut = false;
@@ -105,7 +120,7 @@ function readBlock(r: Reader, raw: unknown, i: number, settings: Settings): Bloc
     if (Number.isFinite(size[a]!) && Number.isFinite(trim) && 2 * trim >= size[a]!) {
       r.err(
         raw.trim === undefined ? "settings.trim" : `${path}.trim`,
-        `leaves no usable material in ${path} (size[${a}] = ${size[a]})`,
+        `leaves no usable material in ${name} (size[${a}] = ${size[a]})`,
       );
       break;
     }

@@ -142,15 +142,19 @@ describe("navigation follows the page policy", () => {
 
 async function callAs(key: RouteKey, caller: Role | "anonymous") {
   const [method, pattern] = key.split(" ") as [string, string];
-  const example = (await EXAMPLES[key]?.({ makeUser, password: TEST_PASSWORD })) ?? {};
+  // The caller first, so an example can make a record of theirs (a defect zone they flagged).
+  const u = caller === "anonymous" ? null : await makeUser([caller]);
+  const example =
+    (await EXAMPLES[key]?.({
+      makeUser,
+      password: TEST_PASSWORD,
+      ...(u && caller !== "anonymous" ? { caller: { id: u.id, roles: [caller] } } : {}),
+    })) ?? {};
   const url =
     pattern.replace(/\[(\w+)\]/g, (_, p: string) => encodeURIComponent(example.params?.[p] ?? "missing")) +
     (example.query ? `?${example.query}` : "");
   const c = client();
-  if (caller !== "anonymous") {
-    const u = await makeUser([caller]);
-    await c.signIn(u.email, TEST_PASSWORD);
-  }
+  if (u) await c.signIn(u.email, TEST_PASSWORD);
   let req = c.call(method.toLowerCase() as "get", url);
   if (example.contentType) req = req.set("content-type", example.contentType);
   for (const f of example.files ?? [])

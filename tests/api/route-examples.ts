@@ -5,12 +5,15 @@ import { SETTINGS, makeApprovedRun, makeJobWithParts, makePlannedBlock } from ".
 import { jpegBytes, makeDefect, makePhoto } from "../support/defect-fixtures";
 import { makeJob, makeJobPart, makeLibraryPart } from "../support/job-fixtures";
 import { makeOrder } from "../support/purchasing-fixtures";
+import { makeClaim, makeClaimPhoto, makeDeliveredBlock } from "../support/claim-fixtures";
 
 export interface ExampleCtx {
   /** A throwaway user, for routes that act on a user. */
   makeUser(roles: Role[]): Promise<{ id: string; email: string }>;
   /** The signed-in caller's password (each matrix check signs in a fresh user). */
   password: string;
+  /** The caller, when the check made one before asking for the example (routes that care who owns a record). */
+  caller?: { id: string; roles: Role[] };
 }
 
 export interface Example {
@@ -149,6 +152,33 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     params: { blockId: String((await makeBlock()).id) },
     body: { size: [1990, 1000, 500], reason: "Re-measured" },
   }),
+  "POST /api/blocks/[blockId]/hold": async () => ({
+    params: { blockId: String((await makeBlock()).id) },
+    body: { reason: "wet", note: "Water in the core at the saw" },
+  }),
+  "POST /api/blocks/[blockId]/release": async () => ({
+    params: { blockId: String((await makeDeliveredBlock({ onHold: true })).id) },
+    body: { note: "Dried out in the curing room" },
+  }),
+  // Claims to suppliers.
+  "POST /api/claims": async () => ({
+    body: { reason: "wet", creditAsked: 60, blocks: [(await makeDeliveredBlock({ onHold: true })).code] },
+    expect: 201,
+  }),
+  "GET /api/claims/[claimId]": async () => ({ params: { claimId: String((await makeClaim()).id) } }),
+  "POST /api/claims/[claimId]/decide": async () => ({
+    params: { claimId: String((await makeClaim()).id) },
+    body: { outcome: "accepted", note: "Supplier agreed by phone" },
+  }),
+  "POST /api/claims/[claimId]/photos": async () => ({
+    params: { claimId: String((await makeClaim()).id) },
+    files: [{ field: "photos", name: "wet-core.jpg", content: await jpegBytes(320, 240), contentType: "image/jpeg" }],
+    expect: 201,
+  }),
+  "GET /api/claims/[claimId]/photos/[photoId]": async () => {
+    const claim = await makeClaim();
+    return { params: { claimId: String(claim.id), photoId: String((await makeClaimPhoto(claim.id)).id) } };
+  },
   "GET /api/blocks/[blockId]/defects": async () => ({ params: { blockId: String((await makeBlock()).id) } }),
   "POST /api/blocks/[blockId]/defects": async () => ({
     params: { blockId: String((await makeBlock()).id) },
@@ -163,6 +193,11 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
   "POST /api/imports/stock-counts": async () => {
     const b = await makeBlock();
     return { query: "commit=0", contentType: "text/csv", body: `code,location\n${b.code},Bay A\n` };
+  },
+  "GET /api/stock-counts/check": async () => ({ query: `code=${encodeURIComponent((await makeBlock()).code)}` }),
+  "POST /api/stock-counts": async () => {
+    const b = await makeBlock();
+    return { query: "commit=0", body: { location: "Bay A", counted: [{ code: b.code }] } };
   },
   "POST /api/runs": async () => {
     const block = await makeBlock();
@@ -230,6 +265,19 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
       ],
       expect: 201,
     };
+  },
+  // A zone flagged by the caller: the cutter who flagged it may correct or remove it.
+  "PATCH /api/defects/[defectId]": async ({ caller }) => {
+    const block = await makeBlock();
+    const id = await makeDefect(block.id);
+    if (caller) await testDb()("defect_zones").where({ id }).update({ found_by: caller.id });
+    return { params: { defectId: String(id) }, body: { max: [470, 380, 150], note: "Wider than first marked." } };
+  },
+  "DELETE /api/defects/[defectId]": async ({ caller }) => {
+    const block = await makeBlock();
+    const id = await makeDefect(block.id);
+    if (caller) await testDb()("defect_zones").where({ id }).update({ found_by: caller.id });
+    return { params: { defectId: String(id) } };
   },
   "GET /api/photos/[photoId]": async () => {
     const block = await makeBlock();

@@ -52,9 +52,19 @@ describe("flag a defect", () => {
       expect(hi, `axis ${axis}`).toBeGreaterThan(lo);
       expect(lo).toBeGreaterThan(0);
     }
-    // The depth (z) cannot be drawn on the top face: it starts as the whole height.
-    expect(await flag.coordinate("min", 2).inputValue()).toBe("0");
+    // The depth (z) cannot be drawn on the top face: it goes in from the top as deep as the mark is
+    // wide (never the whole height), and the form asks for it.
+    const spans = await Promise.all(
+      ([0, 1] as const).map(
+        async (a) =>
+          Number(await flag.coordinate("max", a).inputValue()) - Number(await flag.coordinate("min", a).inputValue()),
+      ),
+    );
+    const depth = Math.ceil(Math.max(...spans));
+    expect(depth).toBeLessThan(610);
     expect(await flag.coordinate("max", 2).inputValue()).toBe("610");
+    expect(Number(await flag.coordinate("min", 2).inputValue())).toBe(610 - depth);
+    expect(await page.getByLabel("Depth from the top face (mm)").inputValue()).toBe(String(depth));
     await page.getByTestId("drawn-hint").waitFor();
     expect(await page.locator("[data-draft]").count()).toBe(3); // the new zone shows on all three faces
 
@@ -62,17 +72,19 @@ describe("flag a defect", () => {
     await flag.save();
     await page.getByText("Choose what kind of defect it is.").waitFor();
 
-    await flag.coordinate("max", 2).fill("180");
+    await page.getByLabel("Depth from the top face (mm)").fill("180");
+    expect(await flag.coordinate("min", 2).inputValue()).toBe("430");
     await flag.chooseKind("Void");
     await flag.attachPhoto("void-top.jpg", await jpegBytes(640, 480));
     await page.getByLabel("Note").fill("Seen after the first skin cut.");
     await flag.save();
-    await page.getByText(`Void zone flagged on ${block.code}, with 1 photo.`).waitFor();
+    // In the page (the live region says the same words again, out of sight).
+    await page.getByRole("main").getByText(`Void zone flagged on ${block.code}, with 1 photo.`).waitFor();
 
     expect(await flag.zones().count()).toBe(2);
     const newest = flag.zones().first();
     expect(await newest.textContent()).toContain("Void");
-    expect(await newest.textContent()).toContain("z 0–180 mm");
+    expect(await newest.textContent()).toContain("z 430–610 mm");
     const thumb = newest.locator("img").first();
     await thumb.waitFor();
     await page.waitForFunction(
@@ -82,7 +94,7 @@ describe("flag a defect", () => {
 
     const rows = await testDb()("defect_zones").where({ block_id: block.id, kind: "void" });
     expect(rows).toHaveLength(1);
-    expect(Number(rows[0].max_z)).toBe(180);
+    expect([Number(rows[0].min_z), Number(rows[0].max_z)]).toEqual([430, 610]);
     expect(
       await testDb()("defect_photos").where({ defect_id: rows[0].id }).count<{ n: string }[]>({ n: "*" }).first(),
     ).toEqual({ n: "1" });
@@ -90,6 +102,20 @@ describe("flag a defect", () => {
     await page.mouse.move(0, 0);
     const file = await screenshot(page, "flag-defect-tablet");
     expect(fs.statSync(file).size).toBeGreaterThan(20_000);
+
+    // The cutter who flagged it corrects the depth, then takes the zone back; the older zone (someone
+    // else's) offers neither.
+    const edit = page.getByTestId(`edit-zone-${rows[0].id}`);
+    await edit.getByRole("button", { name: `Correct zone ${rows[0].id}` }).click();
+    await edit.getByLabel("z · height from (mm)").fill("500");
+    await edit.getByRole("button", { name: "Save the correction" }).click();
+    await page.getByRole("main").getByText(`Zone ${rows[0].id} on ${block.code} corrected.`).waitFor();
+    expect(Number((await testDb()("defect_zones").where({ id: rows[0].id }).first()).min_z)).toBe(500);
+    await edit.getByRole("button", { name: `Remove zone ${rows[0].id}` }).click();
+    await edit.getByRole("button", { name: `Remove zone ${rows[0].id}` }).click();
+    await page.getByTestId(`zone-${rows[0].id}`).waitFor({ state: "detached" });
+    expect(await page.locator('[data-testid^="edit-zone-"]').count()).toBe(0);
+    expect((await testDb()("defect_zones").where({ id: rows[0].id }).first()).removed_at).toBeTruthy();
     await context.close();
   });
 

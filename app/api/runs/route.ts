@@ -26,10 +26,13 @@ export const GET = api("GET /api/runs", async ({ req }) => {
   };
 });
 
-/** Starts a nesting run: stored as queued, then picked up by a background worker. */
+/**
+ * Starts a nesting run: stored as queued, then picked up by a background worker. Chosen blocks that
+ * cannot be used are left out, not a reason to refuse: `{ id, leftOut: [{ id, code, reason }] }`.
+ */
 export const POST = api("POST /api/runs", async ({ req, user }) => {
   const input = await readJson(req, createRunSchema);
-  const id = await createRun(input, user.id);
+  const { id, leftOut } = await createRun(input, user.id);
   await enqueue(QUEUES.nestingRun, { runId: id }, { retryLimit: 1 });
-  return NextResponse.json({ id }, { status: 201 });
+  return NextResponse.json({ id, leftOut }, { status: 201 });
 });

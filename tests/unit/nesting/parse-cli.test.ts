@@ -32,7 +32,7 @@ describe("parseProblem", () => {
 
   it.each([
     ["a zero size", (j: any) => (j.parts[0].size[1] = 0), "parts[0].size[1]: must be > 0"],
-    ["a negative size", (j: any) => (j.blocks[0].size[2] = -4), "blocks[0].size[2]: must be > 0"],
+    ["a negative size", (j: any) => (j.blocks[0].size[2] = -4), "blocks[0].size[2]: must be > 0 (block B1)"],
     ["a missing part id", (j: any) => delete j.parts[0].id, "parts[0].id: is required"],
     ["missing blocks", (j: any) => delete j.blocks, "blocks: is required"],
     ["a size that is not a number", (j: any) => (j.parts[0].size[0] = "10"), "parts[0].size[0]: must be a number"],
@@ -45,7 +45,7 @@ describe("parseProblem", () => {
     [
       "a defect outside its block",
       (j: any) => (j.blocks[0].defects = [{ min: [0, 0, 0], max: [10, 600, 10] }]),
-      "blocks[0].defects[0].max[1]: lies outside its block (size 500)",
+      "blocks[0].defects[0].max[1]: lies outside its block (size 500) (block B1)",
     ],
     [
       "a bad layout",
@@ -62,12 +62,25 @@ describe("parseProblem", () => {
     [
       "a trim that eats the block",
       (j: any) => (j.blocks[0].trim = 250),
-      "blocks[0].trim: leaves no usable material in blocks[0] (size[1] = 500)",
+      "blocks[0].trim: leaves no usable material in block B1 (size[1] = 500)",
     ],
   ])("refuses %s and names its path", (_what, mutate, message) => {
     const r = parseProblem(withPath(mutate));
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.errors).toContain(message);
+  });
+
+  it("names a block by its code in every message about it, not only by its place in the list", () => {
+    // Seventy blocks and one sliver: "blocks[69].trim" alone is a number nobody can find.
+    const blocks = Array.from({ length: 70 }, (_, i) => ({ id: `HF-${1000 + i}`, size: [1000, 500, 400] }));
+    blocks[69] = { id: "HF-1003.4", size: [1000, 500, 10] };
+    const r = parseProblem({ blocks, parts: ok.parts, settings: { trim: 6 } });
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.errors).toEqual(["settings.trim: leaves no usable material in block HF-1003.4 (size[2] = 10)"]);
+    const bad = parseProblem(withPath((j) => (j.blocks[0].size = [0, 500, "x"])));
+    expect(bad.ok).toBe(false);
+    if (!bad.ok) for (const e of bad.errors) expect(e).toContain("(block B1)");
   });
 });
 
@@ -97,12 +110,12 @@ describe("nest command line", () => {
     [
       "negative and zero sizes",
       JSON.stringify(withPath((j) => ((j.parts[0].size = [10, 0, -1]), (j.blocks[0].size[0] = 0)))),
-      /^blocks\[0\]\.size\[0\]: must be > 0\nparts\[0\]\.size\[1\]: must be > 0\nparts\[0\]\.size\[2\]: must be > 0\n$/,
+      /^blocks\[0\]\.size\[0\]: must be > 0 \(block B1\)\nparts\[0\]\.size\[1\]: must be > 0\nparts\[0\]\.size\[2\]: must be > 0\n$/,
     ],
     [
       "a defect outside its block",
       JSON.stringify(withPath((j) => (j.blocks[0].defects = [{ min: [-5, 0, 0], max: [10, 10, 10] }]))),
-      /^blocks\[0\]\.defects\[0\]\.min\[0\]: must be >= 0$/m,
+      /^blocks\[0\]\.defects\[0\]\.min\[0\]: must be >= 0 \(block B1\)$/m,
     ],
     [
       "duplicate ids",

@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import { requirePage } from "@/lib/auth/guard";
+import { allows } from "@/lib/auth/policy";
 import { displayUnit } from "@/lib/display";
 import { PageHeader } from "@/components/ui/card";
 import { FlagDefect } from "@/components/stock/flag-defect";
@@ -21,7 +22,11 @@ export default async function FlagDefectPage({
         title="Flag a defect"
         lead="Find the block, mark the zone on one of its faces, say what it is and add a photo. Planners keep parts clear of it from then on."
       />
-      <FlagDefect initialCode={initial} unit={unit} />
+      <FlagDefect
+        initialCode={initial}
+        unit={unit}
+        viewer={{ id: user.id, planner: allows(["planner"], user.roles) }}
+      />
     </>
   );
 }

@@ -75,7 +75,7 @@ export default async function NewPlanPage({
       </>
     );
   }
-  const [jobs, candidates, s] = await Promise.all([jobNames(jobIds), candidateStock(jobIds), getShopSettings()]);
+  const [jobs, stock, s] = await Promise.all([jobNames(jobIds), candidateStock(jobIds), getShopSettings()]);
   return (
     <>
       <PageHeader
@@ -84,7 +84,8 @@ export default async function NewPlanPage({
       />
       <NewRunForm
         jobIds={jobIds}
-        candidates={candidates}
+        candidates={stock.items}
+        leftOut={stock.leftOut}
         machines={(await listMachines({ activeOnly: true }))
           .filter((m) => m.kind === "block")
           .map((m) => ({ id: m.id, name: m.name }))}

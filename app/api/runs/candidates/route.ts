@@ -9,8 +9,11 @@ const query = z.object({
     .transform((s) => s.split(",").map(Number)),
 });
 
-/** Stock proposed for planning these jobs: ready, of the needed grades, oldest first. */
+/**
+ * Stock proposed for planning these jobs: ready, of the needed grades, able to hold some part,
+ * oldest first (`items`); the ready blocks that cannot hold any, each with the reason (`leftOut`).
+ */
 export const GET = api("GET /api/runs/candidates", async ({ req }) => {
   const q = parseWith(query, Object.fromEntries(req.nextUrl.searchParams));
-  return { items: await candidateStock(q.jobs) };
+  return await candidateStock(q.jobs);
 });

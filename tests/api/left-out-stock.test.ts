@@ -1,0 +1,108 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { client, demoEmail, type Client } from "../support/http";
+import { closeTestDb, makeBlock, tableCounts, testDb } from "../support/db";
+import { SETTINGS, makeJobWithParts } from "../support/planning-fixtures";
+import type { Problem } from "@/lib/nesting";
+
+afterAll(closeTestDb);
+
+let planner: Client;
+beforeAll(async () => {
+  planner = client();
+  await planner.signIn(demoEmail("planner"));
+});
+
+async function waitFor(runId: number, statuses: string[], ms = 60_000) {
+  const end = Date.now() + ms;
+  for (;;) {
+    const res = await planner.get(`/api/runs/${runId}`);
+    if (statuses.includes(res.body.run.status)) return res.body.run;
+    if (Date.now() > end) throw new Error(`run ${runId} still ${res.body.run.status}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+/** A good block, a sliver offcut (thinner than any part) and a whole sliver the face trim eats. */
+async function stockWithSlivers() {
+  const good = await makeBlock({ size: [2000, 1000, 500] });
+  const parent = await makeBlock({ size: [2000, 1000, 500] });
+  await testDb()("blocks").where({ id: parent.id }).update({ status: "cut" });
+  const offcut = await makeBlock({ size: [1200, 600, 18], code: `${parent.code}.4` });
+  await testDb()("blocks").where({ id: offcut.id }).update({ parent_id: parent.id });
+  // 10 mm high: 2 × 6 mm of face trim leaves nothing (the old `blocks[69].trim: leaves no usable material`).
+  const skin = await makeBlock({ size: [2440, 1220, 10] });
+  return { good, offcut, skin };
+}
+const text = (html: string) => html.replace(/<!-- -->/g, "").replace(/<[^>]+>/g, "");
+
+describe("stock that cannot hold any part", () => {
+  it("is not offered for a job, and the proposal says why, by code", async () => {
+    const { good, offcut, skin } = await stockWithSlivers();
+    const { jobId } = await makeJobWithParts([
+      { name: "Rib", quantity: 4, size: [300, 200, 100], gradeCode: "EPS-II" },
+    ]);
+    const res = await planner.get(`/api/runs/candidates?jobs=${jobId}`);
+    expect(res.status).toBe(200);
+    const offered = res.body.items.map((c: { id: number }) => c.id);
+    expect(offered).toContain(good.id);
+    expect(offered).not.toContain(offcut.id);
+    expect(offered).not.toContain(skin.id);
+    const left = Object.fromEntries(
+      res.body.leftOut.map((l: { code: string; reason: string }) => [l.code, l.reason] as const),
+    );
+    expect(left[offcut.code]).toBe("too small for any part (1200 × 600 × 18 mm)");
+    expect(left[skin.code]).toMatch(/face trim leaves no usable material \(2440 × 1220 × 10 mm\)/);
+    // The new-plan page lists them under their codes.
+    const page = text((await planner.get(`/plans/new?jobs=${jobId}`)).text);
+    expect(page).toContain(`${offcut.code} left out: too small for any part`);
+  });
+
+  it("never stops a run: a job with slivers among the ready blocks plans, saying which were left out", async () => {
+    const { good, offcut, skin } = await stockWithSlivers();
+    const { jobId } = await makeJobWithParts([
+      { name: "Rib", quantity: 4, size: [300, 200, 100], gradeCode: "EPS-II" },
+    ]);
+    const res = await planner.post("/api/runs", {
+      jobIds: [jobId],
+      blockIds: [skin.id, good.id, offcut.id],
+      settings: { ...SETTINGS, timeLimitMs: 600 },
+    });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.leftOut).toEqual([
+      { id: offcut.id, code: offcut.code, reason: "too small for any part (1200 × 600 × 18 mm)" },
+      {
+        id: skin.id,
+        code: skin.code,
+        reason: "the 6 mm face trim leaves no usable material (2440 × 1220 × 10 mm)",
+      },
+    ]);
+    const run = await waitFor(res.body.id, ["done", "failed"]);
+    expect(run.status, run.error).toBe("done");
+    expect(run.leftOut.map((l: { code: string }) => l.code)).toEqual([offcut.code, skin.code]);
+    const stored = await testDb()("nesting_runs").where({ id: res.body.id }).first("problem", "block_ids");
+    expect((stored.problem as Problem).blocks.map((b) => b.id)).toEqual([good.code]);
+    expect(stored.block_ids).toEqual([good.id]);
+    const page = text((await planner.get(`/plans/${res.body.id}`)).text);
+    expect(page).toContain(`${offcut.code} left out: too small for any part (1200 × 600 × 18 mm).`);
+    expect(page).toContain(`${skin.code} left out: the 6 mm face trim leaves no usable material`);
+  });
+
+  it("refuses only when nothing usable is left, naming every block by code, saving nothing", async () => {
+    const { offcut, skin } = await stockWithSlivers();
+    const { jobId } = await makeJobWithParts([
+      { name: "Rib", quantity: 4, size: [300, 200, 100], gradeCode: "EPS-II" },
+    ]);
+    const before = await tableCounts();
+    const res = await planner.post("/api/runs", {
+      jobIds: [jobId],
+      blockIds: [offcut.id, skin.id],
+      settings: SETTINGS,
+    });
+    expect(res.status).toBe(409);
+    expect(res.body.error).toContain(`${offcut.code} left out: too small for any part`);
+    expect(res.body.error).toContain(`${skin.code} left out: the 6 mm face trim leaves no usable material`);
+    expect(res.body.error).not.toMatch(/blocks\[\d+\]/);
+    expect(res.body.fields.blockIds).toContain(offcut.code);
+    expect(await tableCounts()).toEqual(before);
+  });
+});
