@@ -1,16 +1,19 @@
 "use client";
 
+import { formatDate, formatMoney, plural } from "@/lib/format";
+import { WEEKDAY_NAMES, describeWorkingDays, type Weekday } from "@/lib/purchasing/calendar";
 import { numberOrNull as num } from "@/lib/forms";
 import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { Fragment, useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Badge, Card, Notice } from "@/components/ui/card";
+import { Badge, Card } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { m3ToBoardFeet } from "@/lib/units";
+import { ResultNotice } from "@/components/ui/result-notice";
 
-type Src = "ledger" | "supplier" | "settings" | "jobs" | "override" | "none";
+type Src = "ledger" | "supplier" | "deliveries" | "settings" | "jobs" | "override" | "none";
 interface In {
   value: number;
   source: Src;
@@ -27,9 +30,14 @@ export interface ReorderView {
   dailyDemand: In;
   demandSd: In;
   historyDays: number;
+  historyWorkingDays: number;
   leadTimeDays: In;
+  leadTimeSd: In;
+  lateness: { orders: number; meanDays: number; sdDays: number } | null;
+  leadTimeEnds: string;
+  workingDays: number[];
   serviceLevel: In;
-  committed: In;
+  committed: In & { dueBy: string; jobs: number; pieces: number; kerfMm: number };
   orderCost: In;
   holdingCost: In;
   onHand: number;
@@ -44,6 +52,9 @@ export interface ReorderView {
   result: {
     z: number;
     safetyStock: number;
+    forecast: number;
+    leadTimeDemand: number;
+    demandRule: "forecast" | "committed";
     reorderPoint: number;
     annualDemand: number;
     eoq: number;
@@ -58,18 +69,20 @@ interface Settings {
   historyDays: number;
   orderCost: number;
   holdingCost: number;
+  workingDays: number[];
 }
 
 const SOURCE: Record<Src, string> = {
   ledger: "from the ledger",
-  supplier: "supplier's lead time",
+  supplier: "supplier's figure",
+  deliveries: "supplier's deliveries",
   settings: "shop setting",
   jobs: "open jobs",
   override: "set by the buyer",
   none: "unknown",
 };
 const f = (v: number, d = 2) => v.toLocaleString("en", { minimumFractionDigits: d, maximumFractionDigits: d });
-const money = (v: number) => v.toLocaleString("en", { style: "currency", currency: "USD" });
+const money = formatMoney;
 
 function Src({ s }: { s: Src }) {
   return <Badge tone={s === "override" ? "wire" : "plain"}>{SOURCE[s]}</Badge>;
@@ -141,7 +154,7 @@ export function ReorderBoard({
   return (
     <div className="space-y-5">
       {msg && (
-        <Notice tone={msg.tone}>
+        <ResultNotice tone={msg.tone}>
           {msg.text}
           {msg.links && (
             <span className="ml-2 inline-flex flex-wrap gap-3">
@@ -152,7 +165,7 @@ export function ReorderBoard({
               ))}
             </span>
           )}
-        </Notice>
+        </ResultNotice>
       )}
       <Card
         title={`At or under the reorder point (${due.length})`}
@@ -310,7 +323,7 @@ function Table({
                   <td className="px-3 py-2 text-right tabular-nums">
                     {r.result.due
                       ? r.result.suggestedBlocks !== null
-                        ? `${r.result.suggestedBlocks} blocks`
+                        ? `${plural(r.result.suggestedBlocks, "block")}`
                         : `${f(r.result.suggestedM3)} m³`
                       : "–"}
                     {r.result.due && r.result.suggestedBlocks !== null && (
@@ -355,24 +368,36 @@ function Why({
 }) {
   const x = r.result;
   const L = r.leadTimeDays.value;
+  const d = r.dailyDemand.value;
+  const sd = r.demandSd.value;
+  const sL = r.leadTimeSd.value;
+  const c = r.committed;
+  const cal = describeWorkingDays(r.workingDays);
   return (
     <div className="grid gap-5 lg:grid-cols-2">
       <div className="space-y-3 text-sm" data-testid={`why-${r.gradeCode}`}>
         <dl className="grid grid-cols-[auto_1fr_auto] items-center gap-x-3 gap-y-1.5">
           <dt>Daily use, d</dt>
-          <dd className="tabular-nums">{f(r.dailyDemand.value, 3)} m³/day</dd>
+          <dd className="tabular-nums">{f(d, 3)} m³ per working day</dd>
           <dd>
             <Src s={r.dailyDemand.source} />
           </dd>
           <dt>Its spread, σd</dt>
-          <dd className="tabular-nums">{f(r.demandSd.value, 3)} m³/day</dd>
+          <dd className="tabular-nums">{f(sd, 3)} m³ per working day</dd>
           <dd>
             <Src s={r.demandSd.source} />
           </dd>
           <dt>Lead time, L</dt>
-          <dd className="tabular-nums">{L} days</dd>
+          <dd className="tabular-nums">
+            {plural(L, "working day")} (ends {formatDate(r.leadTimeEnds)})
+          </dd>
           <dd>
             <Src s={r.leadTimeDays.source} />
+          </dd>
+          <dt>Its spread, σL</dt>
+          <dd className="tabular-nums">{f(sL, 2)} working days</dd>
+          <dd>
+            <Src s={r.leadTimeSd.source} />
           </dd>
           <dt>Service level</dt>
           <dd className="tabular-nums">
@@ -381,10 +406,12 @@ function Why({
           <dd>
             <Src s={r.serviceLevel.source} />
           </dd>
-          <dt>Open jobs not yet cut</dt>
-          <dd className="tabular-nums">{f(r.committed.value, 3)} m³ of parts</dd>
+          <dt>Booked work due by {formatDate(c.dueBy)}</dt>
+          <dd className="tabular-nums">
+            {f(c.value, 3)} m³ of foam ({plural(c.pieces, "part")} in {plural(c.jobs, "open job")})
+          </dd>
           <dd>
-            <Src s={r.committed.source} />
+            <Src s={c.source} />
           </dd>
           <dt>Order cost, S</dt>
           <dd className="tabular-nums">{money(r.orderCost.value)} per order</dd>
@@ -399,17 +426,30 @@ function Why({
         </dl>
         <div className="rounded-md border border-bead bg-paper-raised p-3 font-mono text-xs leading-6">
           <p>
-            SS = z·σd·√L = {f(x.z, 3)} × {f(r.demandSd.value, 3)} × √{L} = {f(x.safetyStock, 3)} m³
+            Forecast d·L = {f(d, 3)} × {L} = {f(x.forecast, 3)} m³
+          </p>
+          <p>
+            Booked = Σ parts owed × (x + k)(y + k)(z + k), kerf k = {c.kerfMm} mm: {f(c.value, 3)} m³
+          </p>
+          <p data-testid="lead-time-demand">
+            Lead-time demand = max(d·L, booked) = max({f(x.forecast, 3)}, {f(c.value, 3)}) = {f(x.leadTimeDemand, 3)} m³
+            ({x.demandRule === "committed" ? "booked work" : "forecast"})
+          </p>
+          <p>
+            SS = z·√(L·σd² + d²·σL²) = {f(x.z, 3)} × √({L} × {f(sd, 3)}² + {f(d, 3)}² × {f(sL, 2)}²) ={" "}
+            {f(x.safetyStock, 3)} m³
           </p>
           {r.reorderPointOverride !== null ? (
             <p>ROP = {f(x.reorderPoint, 3)} m³ (set by the buyer)</p>
           ) : (
             <p>
-              ROP = d·L + SS + open jobs = {f(r.dailyDemand.value, 3)} × {L} + {f(x.safetyStock, 3)} +{" "}
-              {f(r.committed.value, 3)} = {f(x.reorderPoint, 3)} m³
+              ROP = lead-time demand + SS = {f(x.leadTimeDemand, 3)} + {f(x.safetyStock, 3)} = {f(x.reorderPoint, 3)} m³
             </p>
           )}
-          <p>D = d × 365 = {f(x.annualDemand, 1)} m³ a year</p>
+          <p>
+            D = d × working days a year = {f(d, 3)} × {f(r.workingDays.length * (365 / 7), 1)} = {f(x.annualDemand, 1)}{" "}
+            m³ a year
+          </p>
           {r.orderQtyOverride !== null ? (
             <p>Q = {f(x.eoq, 3)} m³ (set by the buyer)</p>
           ) : (
@@ -429,9 +469,19 @@ function Why({
             </p>
           )}
         </div>
-        <p className="text-xs text-ink-faint">
-          Daily use is stock cut up less offcuts kept, over the last {r.historyDays} days. Open jobs count their
-          parts&apos; true volume where a profile exists, else the bounding box.
+        <p className="text-xs text-ink-faint" data-testid="reorder-rule">
+          The rule: over the lead time the shop needs the larger of its forecast (d·L) and the work already booked for
+          that window, never the two added, because the forecast is average use and booked jobs are part of it. Booked
+          work is the parts of open jobs due by the day the lead time ends (jobs without a due date count as due now),
+          each part measured as its bounding box with a kerf added to each dimension: the foam it takes from a block
+          whatever its profile. Everything is counted in working days of the shop calendar ({cal}): daily use over the{" "}
+          {plural(r.historyWorkingDays, "working day")} of the last {plural(r.historyDays, "day")} (stock cut up less
+          offcuts kept), lead times as suppliers quote them.{" "}
+          {r.leadTimeSd.source === "deliveries" && r.lateness
+            ? `σL is the spread of the supplier's last ${plural(r.lateness.orders, "delivery", "deliveries")} against the promised date (on average ${f(r.lateness.meanDays, 1)} working days late).`
+            : r.lateness
+              ? `σL is the supplier's own figure until three orders with a promised date have come (${r.lateness.orders} so far, on average ${f(r.lateness.meanDays, 1)} working days late).`
+              : "σL is the supplier's own figure until three orders with a promised date have come."}
           {r.lastPrice !== null && (
             <>
               {" "}
@@ -489,7 +539,7 @@ function OverrideForm({ r, suppliers }: { r: ReorderView; suppliers: { id: numbe
       </p>
       {msg && (
         <div className="col-span-2">
-          <Notice tone={msg.tone}>{msg.text}</Notice>
+          <ResultNotice tone={msg.tone}>{msg.text}</ResultNotice>
         </div>
       )}
       <div className="col-span-2">
@@ -512,14 +562,14 @@ function OverrideForm({ r, suppliers }: { r: ReorderView; suppliers: { id: numbe
       </div>
       {(
         [
-          ["leadTimeDays", "Lead time (days)", ov(r.leadTimeDays), String(r.leadTimeDays.value)],
+          ["leadTimeDays", "Lead time (working days)", ov(r.leadTimeDays), String(r.leadTimeDays.value)],
           [
             "serviceLevel",
             "Service level (%)",
             r.serviceLevel.source === "override" ? String(r.serviceLevel.value * 100) : "",
             String(r.serviceLevel.value * 100),
           ],
-          ["dailyDemandM3", "Daily use (m³)", ov(r.dailyDemand), f(r.dailyDemand.value, 3)],
+          ["dailyDemandM3", "Use per working day (m³)", ov(r.dailyDemand), f(r.dailyDemand.value, 3)],
           ["demandSdM3", "σ of daily use (m³)", ov(r.demandSd), f(r.demandSd.value, 3)],
           ["orderCost", "Order cost S ($)", ov(r.orderCost), String(r.orderCost.value)],
           ["holdingCost", "Holding cost H ($/m³·yr)", ov(r.holdingCost), String(r.holdingCost.value)],
@@ -579,6 +629,7 @@ function SettingsForm({ settings }: { settings: Settings }) {
             historyDays: Number(fd.get("historyDays")),
             orderCost: Number(fd.get("orderCost")),
             holdingCost: Number(fd.get("holdingCost")),
+            workingDays: fd.getAll("workingDays").map(Number),
           };
           setFields({});
           try {
@@ -595,7 +646,7 @@ function SettingsForm({ settings }: { settings: Settings }) {
       >
         {msg && (
           <div className="sm:col-span-2 lg:col-span-5">
-            <Notice tone={msg.tone}>{msg.text}</Notice>
+            <ResultNotice tone={msg.tone}>{msg.text}</ResultNotice>
           </div>
         )}
         <Field label="Service level (%)" name="serviceLevel" error={fields.serviceLevel}>
@@ -626,6 +677,35 @@ function SettingsForm({ settings }: { settings: Settings }) {
           />
         </Field>
         <Button type="submit">Save settings</Button>
+        <fieldset
+          className="sm:col-span-2 lg:col-span-5"
+          aria-describedby={fields.workingDays ? "workingDays-error" : "workingDays-hint"}
+        >
+          <legend className="text-sm font-medium text-ink-soft">Working days (the shop calendar)</legend>
+          <div className="mt-1 flex flex-wrap gap-x-4">
+            {([1, 2, 3, 4, 5, 6, 7] as Weekday[]).map((d) => (
+              <label key={d} className="flex min-h-11 min-w-11 items-center gap-2 text-sm">
+                <input
+                  type="checkbox"
+                  name="workingDays"
+                  value={d}
+                  defaultChecked={settings.workingDays.includes(d)}
+                  className="size-5 accent-kerf"
+                />
+                {WEEKDAY_NAMES[d]}
+              </label>
+            ))}
+          </div>
+          {fields.workingDays ? (
+            <p id="workingDays-error" className="text-sm text-ember">
+              {fields.workingDays}
+            </p>
+          ) : (
+            <p id="workingDays-hint" className="text-xs text-ink-faint">
+              Lead times are counted in these days, as suppliers quote them, and daily use is per working day.
+            </p>
+          )}
+        </fieldset>
       </form>
     </Card>
   );

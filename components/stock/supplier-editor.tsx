@@ -1,11 +1,13 @@
 "use client";
 
+import { plural } from "@/lib/format";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Badge, Card, Notice } from "@/components/ui/card";
+import { Badge, Card } from "@/components/ui/card";
 import { Field, Input } from "@/components/ui/field";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 export interface SupplierView {
   id: number;
@@ -14,6 +16,7 @@ export interface SupplierView {
   email: string | null;
   phone: string | null;
   leadTimeDays: number;
+  leadTimeSdDays?: number;
   notes: string | null;
   active: boolean;
 }
@@ -30,6 +33,7 @@ export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
     email: "",
     phone: "",
     leadTimeDays: 14,
+    leadTimeSdDays: 0,
     notes: "",
     active: true,
   };
@@ -46,7 +50,10 @@ export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
                 <p className="text-ink-soft">
                   {[x.contact, x.email, x.phone].filter(Boolean).join(" · ") || "no contact yet"}
                 </p>
-                <p className="text-ink-faint">Lead time {x.leadTimeDays} days</p>
+                <p className="text-ink-faint">
+                  Lead time {plural(x.leadTimeDays, "working day")}
+                  {x.leadTimeSdDays ? ` ± ${x.leadTimeSdDays}` : ""}
+                </p>
               </div>
               <Button
                 tone="quiet"
@@ -75,6 +82,7 @@ export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
               email: fd.get("email"),
               phone: fd.get("phone"),
               leadTimeDays: fd.get("leadTimeDays") === "" ? null : Number(fd.get("leadTimeDays")),
+              leadTimeSdDays: fd.get("leadTimeSdDays") === "" ? 0 : Number(fd.get("leadTimeSdDays")),
               notes: fd.get("notes"),
               active: fd.get("active") === "on",
             };
@@ -93,7 +101,7 @@ export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
             }
           }}
         >
-          {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
+          {msg && <ResultNotice tone={msg.tone}>{msg.text}</ResultNotice>}
           <Field label="Name" name="name" error={fields.name}>
             <Input name="name" defaultValue={s.name} error={fields.name} />
           </Field>
@@ -106,8 +114,21 @@ export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
           <Field label="Phone" name="phone" error={fields.phone}>
             <Input name="phone" defaultValue={s.phone ?? ""} />
           </Field>
-          <Field label="Lead time (days)" name="leadTimeDays" error={fields.leadTimeDays}>
+          <Field label="Lead time (working days)" name="leadTimeDays" error={fields.leadTimeDays}>
             <Input name="leadTimeDays" inputMode="numeric" defaultValue={s.leadTimeDays} error={fields.leadTimeDays} />
+          </Field>
+          <Field
+            label="Lead time spread, σL (working days)"
+            name="leadTimeSdDays"
+            error={fields.leadTimeSdDays}
+            hint="How far deliveries stray from the promised day. Once three orders with a promised date have come, the reorder list works it out from them."
+          >
+            <Input
+              name="leadTimeSdDays"
+              inputMode="decimal"
+              defaultValue={s.leadTimeSdDays ?? 0}
+              error={fields.leadTimeSdDays}
+            />
           </Field>
           <Field label="Notes" name="notes">
             <Input name="notes" defaultValue={s.notes ?? ""} />

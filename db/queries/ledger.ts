@@ -24,6 +24,9 @@ const ON_HAND_SIGN: Record<LedgerKind, number> = {
   reversed: 1, // so do reversals of an undone recording
   reserved: 0,
   released: 0,
+  // A hold keeps the block owned and in the yard; it only stops it being used.
+  held: 0,
+  hold_released: 0,
 };
 
 /** Appends movements (inside the caller's transaction: a movement never stands without its change). */
@@ -94,6 +97,8 @@ export interface LedgerQuery {
   kind?: LedgerKind;
   from?: string;
   to?: string;
+  /** Keyset paging: only entries older than this entry (by time, then id), newest first. */
+  before?: number;
   page?: number;
   pageSize?: number;
 }
@@ -107,19 +112,36 @@ function ledgerBase(q: LedgerQuery) {
   return k;
 }
 
-export async function listLedger(q: LedgerQuery): Promise<{ items: LedgerEntry[]; total: number }> {
-  const [items, count] = await Promise.all([
-    listLedgerEntries(q),
-    ledgerBase(q).count<{ n: string }[]>({ n: "*" }).first(),
+/**
+ * One page of the ledger, newest first, with the filters' total and the cursor to the next older
+ * page (`older`: pass it back as `before`; null on the last page). Keyset paging: a page stays
+ * right while new movements are written, and page 500 costs what page 1 does.
+ *
+ *   listLedger({ kind: "consumed", pageSize: 100 })            // { items, total, older: 8841 }
+ *   listLedger({ kind: "consumed", pageSize: 100, before: 8841 })
+ */
+export async function listLedger(
+  q: LedgerQuery,
+): Promise<{ items: LedgerEntry[]; total: number; older: number | null }> {
+  const pageSize = q.pageSize ?? 100;
+  const [rows, count] = await Promise.all([
+    listLedgerEntries({ ...q, pageSize: pageSize + 1 }),
+    ledgerBase({ ...q, before: undefined })
+      .count<{ n: string }[]>({ n: "*" })
+      .first(),
   ]);
-  return { items, total: Number(count?.n ?? 0) };
+  const items = rows.slice(0, pageSize);
+  const older = rows.length > pageSize ? (items[items.length - 1]?.id ?? null) : null;
+  return { items, total: Number(count?.n ?? 0), older };
 }
 
 /** One page of ledger entries, newest first, without counting them all (a block's history, exports). */
 export async function listLedgerEntries(q: LedgerQuery): Promise<LedgerEntry[]> {
   const pageSize = q.pageSize ?? 100;
   const page = q.page ?? 1;
-  const rows = await ledgerBase(q)
+  const base = ledgerBase(q);
+  if (q.before) base.whereRaw("(l.at, l.id) < (SELECT x.at, x.id FROM stock_ledger x WHERE x.id = ?)", [q.before]);
+  const rows = await base
     .leftJoin("users as u", "u.id", "l.user_id")
     .select("l.*", "b.code", "u.name as user_name")
     .orderBy([

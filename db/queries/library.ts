@@ -48,11 +48,18 @@ const select = (k: Knex) =>
 
 /**
  *   listLibraryParts({ kit: "Kestrel 1.6 m glider" })
+ *   listLibraryParts({ q: "wing root" })  // every word in the name, the kit or the grade code
  * Library parts grouped by kit (kit, then name); retired parts only when asked for.
  */
-export async function listLibraryParts(f: { kit?: string; includeRetired?: boolean } = {}): Promise<LibraryPart[]> {
+export async function listLibraryParts(
+  f: { kit?: string; q?: string; includeRetired?: boolean } = {},
+): Promise<LibraryPart[]> {
   const q = select(db()).orderByRaw("l.kit NULLS LAST, l.name, l.id");
   if (f.kit) q.where("l.kit", f.kit);
+  for (const word of (f.q ?? "").split(/\s+/).filter(Boolean).slice(0, 8)) {
+    const like = `%${word.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    q.where((w) => w.whereILike("l.name", like).orWhereILike("l.kit", like).orWhereILike("g.code", like));
+  }
   if (!f.includeRetired) q.where("l.active", true);
   return (await q).map(toPart);
 }

@@ -60,3 +60,61 @@ export async function owedByRun(runId: number, knownPlan?: Plan | null): Promise
   for (const r of rows) if (Number(r.n) > 0) owed.set(r.job_part_id, (owed.get(r.job_part_id) ?? 0) + Number(r.n));
   return owed;
 }
+
+/** One part line of a job and how its cutting stands. */
+export interface PartProgress {
+  partId: number;
+  name: string;
+  gradeCode: string | null;
+  /** Pieces ordered on the job. */
+  ordered: number;
+  /** Good pieces cut (undone recordings cancel out). */
+  cut: number;
+  /** Pieces cut and rejected at the machine (they are owed again). */
+  rejected: number;
+  /** Still to cut: ordered less good pieces, never below 0. */
+  owed: number;
+}
+
+/**
+ *   jobPartProgress(7)  // [{ partId, name, ordered: 12, cut: 9, rejected: 1, owed: 3 }, …] in the order added
+ * From the recordings at the machine (cut_parts), so it agrees with what planning still owes.
+ */
+export async function jobPartProgress(jobId: number, k: Knex = db()): Promise<PartProgress[]> {
+  const rows = (await k("job_parts as p")
+    .leftJoin("grades as g", "g.id", "p.grade_id")
+    .leftJoin(
+      k("cut_parts")
+        .groupBy("job_part_id")
+        .select("job_part_id", k.raw("sum(good_count)::int AS good"), k.raw("sum(rejected_count)::int AS rejected"))
+        .as("c"),
+      "c.job_part_id",
+      "p.id",
+    )
+    .where("p.job_id", jobId)
+    .orderBy("p.id")
+    .select(
+      "p.id",
+      "p.name",
+      "p.quantity",
+      "g.code as grade_code",
+      k.raw("coalesce(c.good, 0) AS good"),
+      k.raw("coalesce(c.rejected, 0) AS rejected"),
+    )) as {
+    id: number;
+    name: string;
+    quantity: number;
+    grade_code: string | null;
+    good: number | string;
+    rejected: number | string;
+  }[];
+  return rows.map((r) => ({
+    partId: r.id,
+    name: r.name,
+    gradeCode: r.grade_code,
+    ordered: r.quantity,
+    cut: Number(r.good),
+    rejected: Number(r.rejected),
+    owed: Math.max(0, r.quantity - Number(r.good)),
+  }));
+}

@@ -9,7 +9,10 @@ export interface Supplier {
   contact: string | null;
   email: string | null;
   phone: string | null;
+  /** Working days, as the supplier quotes them. */
   leadTimeDays: number;
+  /** One standard deviation of its deliveries against the promised date, working days (its own figure). */
+  leadTimeSdDays: number;
   notes: string | null;
   active: boolean;
 }
@@ -21,6 +24,7 @@ interface Row {
   email: string | null;
   phone: string | null;
   lead_time_days: number;
+  lead_time_sd_days: number | string;
   notes: string | null;
   active: boolean;
 }
@@ -32,6 +36,7 @@ const toSupplier = (r: Row): Supplier => ({
   email: r.email,
   phone: r.phone,
   leadTimeDays: r.lead_time_days,
+  leadTimeSdDays: Number(r.lead_time_sd_days ?? 0),
   notes: r.notes,
   active: r.active,
 });
@@ -42,6 +47,7 @@ const toRow = (s: SupplierInput) => ({
   email: s.email ?? null,
   phone: s.phone ?? null,
   lead_time_days: s.leadTimeDays,
+  ...(s.leadTimeSdDays === undefined ? {} : { lead_time_sd_days: s.leadTimeSdDays }),
   notes: s.notes ?? null,
   ...(s.active === undefined ? {} : { active: s.active }),
 });

@@ -1,7 +1,12 @@
 /**
- * Reorder arithmetic, pure: no database, no clock. Quantities in m³ of foam, time in days.
- * Formulas as ../shared/domain-brief.md §6 gives them:
- *   safety stock SS = z·σd·√L,  reorder point ROP = d·L + SS,  order quantity EOQ = √(2DS/H).
+ * Reorder arithmetic, pure: no database, no clock. Quantities in m³ of foam; time in working days
+ * of the shop calendar (lib/purchasing/calendar.ts): d and σd per working day, L and σL in working
+ * days, as suppliers quote them.
+ *   safety stock SS = z·√(L·σd² + d²·σL²)   (demand and lead time both vary; Heizer & Render,
+ *                                            Operations Management, inventory management chapter;
+ *                                            with σL = 0 it is the brief's z·σd·√L, §6)
+ *   demand over the lead time = max(d·L, committed work due within the lead time)
+ *   reorder point ROP = demand over the lead time + SS,  order quantity EOQ = √(2DS/H).
  */
 
 /**
@@ -43,12 +48,15 @@ export function zForServiceLevel(p: number): number {
 }
 
 /**
- * Safety stock: z standard deviations of demand over the lead time, SS = z·σd·√L.
+ * Safety stock: z standard deviations of demand over a lead time that varies too,
+ * SS = z·√(L·σd² + d²·σL²). With a fixed lead time (σL = 0) this is z·σd·√L.
  *
- *   safetyStock(1.56, 30 / 7, 7)  // 17.69
+ *   safetyStock(1.56, 30 / 7, 7)          // 17.69 (σL = 0)
+ *   safetyStock(1.65, 16, 5, 150, 1)      // 1.65 × √(5·16² + 150²·1²) = 254.4
  */
-export function safetyStock(z: number, sdDaily: number, leadTimeDays: number): number {
-  return z * sdDaily * Math.sqrt(Math.max(0, leadTimeDays));
+export function safetyStock(z: number, sdDaily: number, leadTime: number, dailyDemand = 0, sdLeadTime = 0): number {
+  const L = Math.max(0, leadTime);
+  return z * Math.sqrt(L * sdDaily ** 2 + dailyDemand ** 2 * sdLeadTime ** 2);
 }
 
 /**
@@ -58,6 +66,19 @@ export function safetyStock(z: number, sdDaily: number, leadTimeDays: number): n
  */
 export function reorderPoint(dailyDemand: number, leadTimeDays: number, safety: number): number {
   return dailyDemand * leadTimeDays + safety;
+}
+
+/**
+ * Foam one part takes from stock, m³: its bounding box grown by one kerf in each direction,
+ * (x + k)(y + k)(z + k). A profiled part still takes its whole box out of the block (the waste
+ * around the profile is rarely a usable offcut), and every face is a cut that burns half a kerf on
+ * the part's side, so one kerf per dimension.
+ *
+ *   partStockM3([1000, 500, 100], 2)  // 1.002 × 0.502 × 0.102 = 0.05131
+ */
+export function partStockM3(size: readonly [number, number, number], kerfMm: number): number {
+  const k = Math.max(0, kerfMm);
+  return ((size[0] + k) * (size[1] + k) * (size[2] + k)) / 1e9;
 }
 
 /**
@@ -88,15 +109,21 @@ export function dailyStats(series: readonly number[]): { mean: number; sd: numbe
 }
 
 /** Where each input came from, so the buyer sees why. */
-export type Source = "ledger" | "supplier" | "settings" | "jobs" | "override" | "none";
+export type Source = "ledger" | "supplier" | "deliveries" | "settings" | "jobs" | "override" | "none";
 
 export interface ReorderInputs {
-  /** Mean daily consumption (m³/day) and its standard deviation. */
+  /** Mean consumption per working day (m³) and its standard deviation. */
   dailyDemand: number;
   demandSd: number;
+  /** Lead time in working days, and its standard deviation in working days (0: always on time). */
   leadTimeDays: number;
+  leadTimeSd?: number;
   serviceLevel: number;
-  /** Part volume of open jobs not yet cut (m³), committed on top of lead-time demand. */
+  /**
+   * Foam that open jobs due within the lead time will take (m³: each part's box plus kerf).
+   * It is known demand for that window, not extra demand: the forecast d·L already holds the
+   * shop's average use, booked jobs included, so the larger of the two counts, never the sum.
+   */
   committed: number;
   /** S: cost of one order; H: holding cost per m³ per year. */
   orderCost: number;
@@ -109,12 +136,20 @@ export interface ReorderInputs {
   /** A buyer's fixed reorder point or order quantity, replacing the computed one. */
   reorderPointOverride?: number | null;
   orderQtyOverride?: number | null;
+  /** Days a year in the unit d is measured in: working days (calendar.workingDaysPerYear); 365 when d is per calendar day. */
+  daysPerYear?: number;
 }
 
 export interface ReorderResult {
   z: number;
   safetyStock: number;
-  /** d·L + SS + committed (or the override). */
+  /** The forecast over the lead time, d·L. */
+  forecast: number;
+  /** Demand over the lead time: max(d·L, committed). */
+  leadTimeDemand: number;
+  /** Which of the two set it: the forecast, or the jobs already booked for the window. */
+  demandRule: "forecast" | "committed";
+  /** max(d·L, committed) + SS (or the override). */
   reorderPoint: number;
   annualDemand: number;
   eoq: number;
@@ -128,18 +163,25 @@ export interface ReorderResult {
 }
 
 /**
- * One grade's reorder figures from its inputs. Open-job demand is added to the reorder point:
- * stock must cover the parts already promised as well as what the lead time will use.
+ * One grade's reorder figures from its inputs. Demand over the lead time is the larger of the
+ * forecast d·L and the work already booked for that window (never both added: the forecast is
+ * average use, booked work included); the safety stock covers the forecast's spread and the
+ * supplier's lateness.
  *
- *   planReorder({ dailyDemand: 0.5, demandSd: 0.2, leadTimeDays: 14, serviceLevel: 0.95, committed: 2,
- *                 orderCost: 75, holdingCost: 18, onHand: 6, onOrder: 0, blockVolume: 7.249 })
- *   // → { reorderPoint: 0.5·14 + 1.645·0.2·√14 + 2 = 10.23, due: true, … }
+ *   planReorder({ dailyDemand: 0.5, demandSd: 0.2, leadTimeDays: 14, leadTimeSd: 2, serviceLevel: 0.95,
+ *                 committed: 9, orderCost: 75, holdingCost: 18, onHand: 6, onOrder: 0, blockVolume: 7.249 })
+ *   // → { forecast: 7, leadTimeDemand: 9 (committed), safetyStock: 1.645·√(14·0.04 + 0.25·4) = 2.05,
+ *   //     reorderPoint: 11.05, due: true, … }
  */
 export function planReorder(i: ReorderInputs): ReorderResult {
   const z = zForServiceLevel(i.serviceLevel);
-  const ss = safetyStock(z, i.demandSd, i.leadTimeDays);
-  const rop = i.reorderPointOverride ?? reorderPoint(i.dailyDemand, i.leadTimeDays, ss) + i.committed;
-  const annualDemand = i.dailyDemand * 365;
+  const ss = safetyStock(z, i.demandSd, i.leadTimeDays, i.dailyDemand, i.leadTimeSd ?? 0);
+  const forecast = i.dailyDemand * Math.max(0, i.leadTimeDays);
+  const committed = Math.max(0, i.committed);
+  const demandRule = committed > forecast ? "committed" : "forecast";
+  const leadTimeDemand = Math.max(forecast, committed);
+  const rop = i.reorderPointOverride ?? leadTimeDemand + ss;
+  const annualDemand = i.dailyDemand * (i.daysPerYear ?? 365);
   const eoq = i.orderQtyOverride ?? economicOrderQuantity(annualDemand, i.orderCost, i.holdingCost);
   const position = i.onHand + i.onOrder;
   const due = position <= rop && rop > 0;
@@ -150,7 +192,20 @@ export function planReorder(i: ReorderInputs): ReorderResult {
     suggestedBlocks = due ? Math.max(1, Math.ceil(suggestedM3 / i.blockVolume - 1e-9)) : 0;
     suggestedM3 = suggestedBlocks * i.blockVolume;
   }
-  return { z, safetyStock: ss, reorderPoint: rop, annualDemand, eoq, position, due, suggestedM3, suggestedBlocks };
+  return {
+    z,
+    safetyStock: ss,
+    forecast,
+    leadTimeDemand,
+    demandRule,
+    reorderPoint: rop,
+    annualDemand,
+    eoq,
+    position,
+    due,
+    suggestedM3,
+    suggestedBlocks,
+  };
 }
 
 /**

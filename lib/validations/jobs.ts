@@ -180,5 +180,7 @@ export type JobQuery = z.infer<typeof jobQuerySchema>;
 
 export const libraryQuerySchema = z.object({
   kit: z.string().trim().max(120).optional(),
+  /** Words to find in a part's name, its kit or its grade code. */
+  q: z.string().trim().max(120, "Search: at most 120 characters.").optional(),
   includeRetired: z.enum(["0", "1"]).optional(),
 });

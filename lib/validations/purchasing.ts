@@ -24,6 +24,19 @@ const num = (label: string, min: number, max: number, opts: { gt?: boolean } = {
   ).max(max, `${label} must be at most ${max}.`);
 };
 
+export const workingDaysSchema = z
+  .array(
+    z
+      .number({ error: "Working days are weekdays 1 (Monday) to 7 (Sunday)." })
+      .int("Working days are weekdays 1 (Monday) to 7 (Sunday).")
+      .min(1, "Working days are weekdays 1 (Monday) to 7 (Sunday).")
+      .max(7, "Working days are weekdays 1 (Monday) to 7 (Sunday)."),
+    { error: "Choose the working days." },
+  )
+  .min(1, "Choose at least one working day.")
+  .max(7)
+  .transform((d) => [...new Set(d)].sort((a, b) => a - b));
+
 export const serviceLevel = num("Service level", 0.5, 0.999, { gt: true });
 
 /** The shop's reorder defaults. */
@@ -36,17 +49,20 @@ export const reorderSettingsSchema = z.object({
     .max(730, "At most 730 days."),
   orderCost: num("Order cost", 0, 100_000),
   holdingCost: num("Holding cost", 0, 100_000, { gt: true }),
+  /** The shop calendar: ISO weekdays that are working days (1 Monday … 7 Sunday). Left out: unchanged. */
+  workingDays: workingDaysSchema.optional(),
 });
-export type ReorderSettings = z.infer<typeof reorderSettingsSchema>;
+export type ReorderSettingsInput = z.infer<typeof reorderSettingsSchema>;
+export type ReorderSettings = Omit<ReorderSettingsInput, "workingDays"> & { workingDays: number[] };
 
 /** A grade's overrides: null (or left out) means "work it out". */
 export const gradeReorderSchema = z.object({
   supplierId: id("a supplier").nullable().optional(),
   leadTimeDays: z
     .number({ error: "Lead time must be a number." })
-    .int("Lead time must be whole days.")
+    .int("Lead time must be whole working days.")
     .min(0, "Lead time cannot be negative.")
-    .max(365, "At most 365 days.")
+    .max(365, "At most 365 working days.")
     .nullable()
     .optional(),
   serviceLevel: serviceLevel.nullable().optional(),

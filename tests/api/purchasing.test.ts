@@ -345,12 +345,12 @@ describe("the reorder list", () => {
     expect(eps.dailyDemand.source).toBe("ledger");
     expect(eps.leadTimeDays.source).toBe("supplier");
     expect(eps.committed.source).toBe("jobs");
+    expect(["supplier", "deliveries"]).toContain(eps.leadTimeSd.source);
     const { z, safetyStock, reorderPoint } = eps.result;
-    expect(safetyStock).toBeCloseTo(z * eps.demandSd.value * Math.sqrt(eps.leadTimeDays.value), 9);
-    expect(reorderPoint).toBeCloseTo(
-      eps.dailyDemand.value * eps.leadTimeDays.value + safetyStock + eps.committed.value,
-      9,
-    );
+    // SS = z·√(L·σd² + d²·σL²); ROP = max(d·L, work due within the lead time) + SS, in working days.
+    const [d, sd, L, sL] = [eps.dailyDemand.value, eps.demandSd.value, eps.leadTimeDays.value, eps.leadTimeSd.value];
+    expect(safetyStock).toBeCloseTo(z * Math.sqrt(L * sd ** 2 + d ** 2 * sL ** 2), 9);
+    expect(reorderPoint).toBeCloseTo(Math.max(d * L, eps.committed.value) + safetyStock, 9);
     const onHand = await testDb()("blocks")
       .where({ grade_id: eps.gradeId })
       .whereIn("status", ["in_stock", "earmarked"])

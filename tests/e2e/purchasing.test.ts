@@ -73,7 +73,9 @@ describe("the buyer's reorder list", () => {
         "",
       );
       const why = await reorder.explain(first);
-      expect(await why.getByText(/SS += z·σd·√L/).count()).toBe(1);
+      expect(await why.getByText(/SS = z·√\(L·σd² \+ d²·σL²\)/).count()).toBe(1);
+      expect(await why.getByText(/Lead-time demand = max\(d·L, booked\)/).count()).toBe(1);
+      expect(await why.getByText(/never the two added/).count()).toBe(1);
       expect(await why.getByText(/EOQ = √\(2DS\/H\)|set by the buyer/).count()).toBeGreaterThan(0);
       expect(await page.getByText("Stored foam is a fire load").count()).toBe(1);
       const file = await screenshot(page, `reorder-buyer-${size}`);

@@ -1,3 +1,4 @@
+import { formatDateTime, formatMoney, plural } from "@/lib/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requirePage } from "@/lib/auth/guard";
@@ -10,23 +11,38 @@ import { m3ToBoardFeet } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Stock ledger" };
 
+const PAGE_SIZE = 100;
+
+/** The plan a movement came from ("run:12" → 12), for a link to its plan page. */
+const planOf = (ref: string | null) => {
+  const m = ref ? /^run:(\d{1,9})$/.exec(ref) : null;
+  return m ? Number(m[1]) : null;
+};
+
 export default async function LedgerPage({ searchParams }: { searchParams: Promise<Record<string, string>> }) {
   await requirePage("/ledger");
   const raw = await searchParams;
   const parsed = ledgerQuery.safeParse(raw);
   const q = parsed.success ? parsed.data : ledgerQuery.parse({});
-  const [{ items, total }, onHand] = await Promise.all([
-    listLedger({ kind: q.kind, from: q.from, to: q.to, page: q.page, pageSize: 100 }),
+  const [{ items, total, older }, onHand] = await Promise.all([
+    listLedger({ kind: q.kind, from: q.from, to: q.to, before: q.before, pageSize: PAGE_SIZE }),
     ledgerOnHand(),
   ]);
   const qs = new URLSearchParams(
     Object.entries({ kind: q.kind, from: q.from, to: q.to }).filter((e): e is [string, string] => Boolean(e[1])),
   ).toString();
+  // The same filters, newest first (no cursor) or older than an entry.
+  const pageLink = (before?: number) => {
+    const p = new URLSearchParams(qs);
+    if (before) p.set("before", String(before));
+    const s = p.toString();
+    return s ? `/ledger?${s}` : "/ledger";
+  };
   return (
     <>
       <PageHeader
         title="Stock ledger"
-        lead={`Every movement of stock, never edited. On hand by the ledger: ${onHand.m3.toFixed(2)} m³ (${Math.round(m3ToBoardFeet(onHand.m3)).toLocaleString("en")} BF), value ${onHand.value.toLocaleString("en", { style: "currency", currency: "USD" })}.`}
+        lead={`Every movement of stock, never edited. On hand by the ledger: ${onHand.m3.toFixed(2)} m³ (${Math.round(m3ToBoardFeet(onHand.m3)).toLocaleString("en")} BF), value ${formatMoney(onHand.value)}.`}
         actions={
           <a className={buttonClass("secondary")} href={`/api/ledger/export?${qs}`} download>
             Export CSV
@@ -87,7 +103,7 @@ export default async function LedgerPage({ searchParams }: { searchParams: Promi
           <tbody>
             {items.map((e) => (
               <tr key={e.id} className="border-b border-bead/60 last:border-0">
-                <td className="whitespace-nowrap px-3 py-2">{e.at.slice(0, 16).replace("T", " ")}</td>
+                <td className="whitespace-nowrap px-3 py-2">{formatDateTime(e.at)}</td>
                 <td className="px-3 py-0">
                   <Link className={rowLinkClass} href={`/stock/${encodeURIComponent(e.blockCode)}`}>
                     {e.blockCode}
@@ -101,15 +117,43 @@ export default async function LedgerPage({ searchParams }: { searchParams: Promi
                   {e.deltaValue === 0 ? "–" : e.deltaValue.toFixed(2)}
                 </td>
                 <td className="px-3 py-2">{e.user ?? "–"}</td>
-                <td className="px-3 py-2 text-ink-soft">{e.reason}</td>
+                <td className="px-3 py-0 text-ink-soft">
+                  {planOf(e.ref) !== null ? (
+                    <Link
+                      className="flex min-h-11 min-w-11 items-center font-medium"
+                      href={`/plans/${planOf(e.ref)}`}
+                      data-testid="ledger-plan-link"
+                    >
+                      {e.reason ?? `Plan #${planOf(e.ref)}`}
+                    </Link>
+                  ) : (
+                    <span className="flex min-h-11 items-center">{e.reason}</span>
+                  )}
+                </td>
               </tr>
             ))}
           </tbody>
         </table>
       </div>
-      <p className="mt-3 text-sm text-ink-faint">
-        {total} movements{total > 100 && " (newest 100 shown; filter or export for more)"}.
-      </p>
+      <nav aria-label="Ledger pages" className="mt-3 flex flex-wrap items-center gap-3 text-sm">
+        <p className="text-ink-faint">
+          {plural(total, "movement")}
+          {items.length > 0 &&
+            (q.before || older !== null) &&
+            `; ${q.before ? "older ones" : "the newest"}, ${formatDateTime(items[0]!.at)} back to ${formatDateTime(items[items.length - 1]!.at)}`}
+          .
+        </p>
+        {q.before && (
+          <Link className={buttonClass("secondary")} href={pageLink()}>
+            Newest
+          </Link>
+        )}
+        {older !== null && (
+          <Link className={buttonClass("secondary")} href={pageLink(older)} rel="next">
+            Older
+          </Link>
+        )}
+      </nav>
     </>
   );
 }

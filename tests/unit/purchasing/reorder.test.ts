@@ -1,5 +1,20 @@
 import { describe, expect, it } from "vitest";
-import { dailyStats, economicOrderQuantity, planReorder, receivingCheck } from "@/lib/purchasing/reorder";
+import {
+  dailyStats,
+  economicOrderQuantity,
+  partStockM3,
+  planReorder,
+  receivingCheck,
+  safetyStock,
+} from "@/lib/purchasing/reorder";
+import {
+  addWorkingDays,
+  describeWorkingDays,
+  weekday,
+  workingDaySeries,
+  workingDaysBetween,
+  workingDaysPerYear,
+} from "@/lib/purchasing/calendar";
 import { combineBasis } from "@/lib/reports/yield";
 
 const base = {
@@ -16,11 +31,42 @@ const base = {
 };
 
 describe("reorder planning", () => {
-  it("adds open-job demand to lead-time demand and safety stock", () => {
+  it("does not count booked work on top of the forecast: the forecast d·L already holds it", () => {
+    // d·L = 0.5 × 14 = 7 m³; 2 m³ of booked work fits inside it.
     const r = planReorder(base);
     expect(r.safetyStock).toBeCloseTo(1.6449 * 0.2 * Math.sqrt(14), 3);
-    expect(r.reorderPoint).toBeCloseTo(7 + r.safetyStock + 2, 6);
+    expect(r.forecast).toBeCloseTo(7, 9);
+    expect(r.leadTimeDemand).toBeCloseTo(7, 9);
+    expect(r.demandRule).toBe("forecast");
+    expect(r.reorderPoint).toBeCloseTo(7 + r.safetyStock, 6);
     expect(r.due).toBe(true);
+  });
+
+  it("lets booked work set lead-time demand when it outruns the forecast", () => {
+    const r = planReorder({ ...base, committed: 9 });
+    expect(r.leadTimeDemand).toBe(9);
+    expect(r.demandRule).toBe("committed");
+    expect(r.reorderPoint).toBeCloseTo(9 + r.safetyStock, 9);
+    // Doubling the booked work moves the point by the booked work alone, not by it plus d·L.
+    expect(planReorder({ ...base, committed: 18 }).reorderPoint - r.reorderPoint).toBeCloseTo(9, 9);
+  });
+
+  it("widens the safety stock with the lead time's spread: z·√(L·σd² + d²·σL²)", () => {
+    const r = planReorder({ ...base, leadTimeSd: 2 });
+    // 14 × 0.2² + 0.5² × 2² = 0.56 + 1 = 1.56
+    expect(r.safetyStock).toBeCloseTo(r.z * Math.sqrt(1.56), 9);
+    expect(r.safetyStock).toBeGreaterThan(planReorder(base).safetyStock);
+    expect(safetyStock(2, 1, 9)).toBeCloseTo(6, 12); // σL = 0: z·σd·√L
+  });
+
+  it("counts a year in the days d is measured in", () => {
+    const r = planReorder({ ...base, daysPerYear: workingDaysPerYear([1, 2, 3, 4, 5]) });
+    expect(r.annualDemand).toBeCloseTo((0.5 * (5 * 365)) / 7, 9);
+  });
+
+  it("measures a part's foam as its box plus one kerf in each dimension", () => {
+    expect(partStockM3([1000, 500, 100], 2)).toBeCloseTo((1002 * 502 * 102) / 1e9, 12);
+    expect(partStockM3([1000, 500, 100], 0)).toBeCloseTo(0.05, 12);
   });
 
   it("orders whole blocks: at least the EOQ, at least the shortfall", () => {
@@ -82,5 +128,49 @@ describe("volume basis", () => {
     expect(combineBasis(["profile", "profile"])).toBe("profile");
     expect(combineBasis(["profile", "box", null])).toBe("mixed");
     expect(combineBasis([])).toBeNull();
+  });
+});
+
+describe("the shop calendar (working days)", () => {
+  // 2026-12-04 is a Friday (2026-01-01 is a Thursday; 4 December is day 338, 337 = 48 × 7 + 1 days later).
+  it("knows the weekday of a date", () => {
+    expect(weekday("2026-12-04")).toBe(5);
+    expect(weekday("2026-12-06")).toBe(7);
+    expect(weekday("2026-12-07")).toBe(1);
+  });
+
+  it("ends a lead time of 12 working days from a Friday on the Tuesday 18 calendar days later (Mon–Fri)", () => {
+    // Mon 7 … Fri 11 (5), Mon 14 … Fri 18 (10), Mon 21 (11), Tue 22 (12).
+    expect(addWorkingDays("2026-12-04", 12)).toBe("2026-12-22");
+    expect(addWorkingDays("2026-12-04", 0)).toBe("2026-12-04");
+    // A six-day shop: Saturdays count.
+    expect(addWorkingDays("2026-12-04", 12, [1, 2, 3, 4, 5, 6])).toBe("2026-12-18");
+  });
+
+  it("counts working days between two dates, negative when the second is earlier", () => {
+    expect(workingDaysBetween("2026-12-04", "2026-12-08")).toBe(2);
+    expect(workingDaysBetween("2026-12-08", "2026-12-04")).toBe(-2);
+    expect(workingDaysBetween("2026-12-05", "2026-12-06")).toBe(0);
+    expect(workingDaysBetween("2026-12-04", "2026-12-04")).toBe(0);
+  });
+
+  it("builds a daily series over working days only, a day off's use counted on the day before", () => {
+    const used = new Map([
+      ["2026-12-04", 1],
+      ["2026-12-05", 3], // a Saturday shift
+      ["2026-12-07", 2],
+    ]);
+    expect(workingDaySeries(used, "2026-12-04", "2026-12-08")).toEqual([4, 2, 0]);
+    // A window that opens on a weekend keeps that use too.
+    expect(workingDaySeries(used, "2026-12-05", "2026-12-08")).toEqual([5, 0]);
+    const total = [...used.values()].reduce((a, b) => a + b, 0);
+    expect(workingDaySeries(used, "2026-12-01", "2026-12-31").reduce((a, b) => a + b, 0)).toBe(total);
+  });
+
+  it("has 260.7 working days a year Mon–Fri, describes the calendar, refuses an empty one", () => {
+    expect(workingDaysPerYear()).toBeCloseTo(260.714, 3);
+    expect(describeWorkingDays([1, 2, 3, 4, 5])).toBe("Mon–Fri");
+    expect(describeWorkingDays([1, 3, 5])).toBe("Mon, Wed, Fri");
+    expect(() => addWorkingDays("2026-12-04", 1, [])).toThrow(RangeError);
   });
 });

@@ -5,6 +5,8 @@ import { notFound } from "next/navigation";
 import { requirePage } from "@/lib/auth/guard";
 import { allows } from "@/lib/auth/policy";
 import { getJob, listJobParts } from "@/db/queries/jobs";
+import { jobPartProgress } from "@/db/queries/owed";
+import { PartProgressTable } from "@/components/jobs/part-progress";
 import { listLibraryParts } from "@/db/queries/library";
 import { listGrades, partGradeChoices } from "@/db/queries/grades";
 import { displayUnit } from "@/lib/display";
@@ -34,8 +36,9 @@ export default async function JobPage({ params }: Params) {
   if (!job) notFound();
   const canEdit = allows(["planner"], user.roles);
   const open = job.status === "open";
-  const [parts, unit, grades, library] = await Promise.all([
+  const [parts, progress, unit, grades, library] = await Promise.all([
     listJobParts([job.id]),
+    jobPartProgress(job.id),
     displayUnit(user),
     canEdit && open ? listGrades() : Promise.resolve([]),
     canEdit && open ? listLibraryParts() : Promise.resolve([]),
@@ -72,6 +75,12 @@ export default async function JobPage({ params }: Params) {
         <Card title="Parts">
           <PartsTable jobId={job.id} parts={JSON.parse(JSON.stringify(parts))} unit={unit} editable={canEdit && open} />
         </Card>
+
+        {progress.length > 0 && (
+          <Card title="Cut so far">
+            <PartProgressTable rows={progress} />
+          </Card>
+        )}
 
         {/* Nesting runs of this job: filled in by the cut-planning pages. */}
         <section
