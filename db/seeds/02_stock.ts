@@ -2,8 +2,9 @@ import type { Knex } from "knex";
 
 /**
  * Demo stock for Hollowfield Foamworks (invented): grades, three invented suppliers, about 60
- * blocks and offcuts across several bays, some still settling, some with defect zones, and three
- * months of ledger history. Deterministic: the same seed gives the same shop.
+ * blocks across several bays, some still settling, some with defect zones, and three months of
+ * ledger history. Deterministic: the same seed gives the same shop. The blocks marked cut are cut
+ * by 07_cut_history (their plans, offcuts and ledger rows); `updated_at` holds the day they were cut.
  */
 
 // Small deterministic PRNG (mulberry32) so the demo is the same on every machine.
@@ -103,21 +104,24 @@ const SUPPLIERS = [
     contact: "Marta Ilves",
     email: "orders@ashcombe-bead.test",
     phone: "+1 555 0142",
-    lead_time_days: 12,
+    lead_time_days: 12, // working days
+    lead_time_sd_days: 1.5,
   },
   {
     name: "Northgate Moulders",
     contact: "Femi Adeyemi",
     email: "sales@northgate-moulders.test",
     phone: "+1 555 0178",
-    lead_time_days: 18,
+    lead_time_days: 18, // working days
+    lead_time_sd_days: 3,
   },
   {
     name: "Tallow Creek Foams",
     contact: "June Haverly",
     email: "desk@tallowcreek.test",
     phone: "+1 555 0199",
-    lead_time_days: 21,
+    lead_time_days: 21, // working days
+    lead_time_sd_days: 4,
   },
 ];
 
@@ -161,15 +165,6 @@ export async function seed(knex: Knex): Promise<void> {
   const offsets = [-95, -88, -80, -71, -63, -55, -47, -38, -29, -20, -9, -3];
   let blockNo = 1001;
   const ledger: Record<string, unknown>[] = [];
-  const consumedParents: {
-    id: number;
-    code: string;
-    size: [number, number, number];
-    cost: number;
-    grade_id: number;
-    lot: string;
-    at: Date;
-  }[] = [];
 
   for (const [i, off] of offsets.entries()) {
     const supplier = suppliers[i % suppliers.length]!;
@@ -206,6 +201,9 @@ export async function seed(knex: Knex): Promise<void> {
       const aged = off < -30;
       const fate = aged ? r() : 1;
       const status = fate < 0.3 ? "cut" : fate < 0.34 ? "written_off" : "in_stock";
+      const location = off > -16 && grade.cure_days > 0 ? "Curing room" : pick(LOCATIONS.slice(0, 3));
+      // The day a cut block was cut (07_cut_history plans it and records the cut on that day).
+      const cutAt = status === "cut" ? day(Math.min(-2, off + grade.cure_days + 3 + Math.floor(r() * 20))) : null;
       const [block] = await knex("blocks")
         .insert({
           code,
@@ -220,11 +218,12 @@ export async function seed(knex: Knex): Promise<void> {
           size_z: measured[2],
           weight_kg: Math.round(vol * density * 100) / 100,
           cost,
-          location: off > -16 && grade.cure_days > 0 ? "Curing room" : pick(LOCATIONS.slice(0, 3)),
+          location,
           moulded_on: iso(moulded),
           cut_not_before: iso(cnb),
           status,
           created_at: receivedOn,
+          ...(cutAt ? { updated_at: cutAt } : {}),
         })
         .returning(["id", "volume_m3"]);
       ledger.push({
@@ -239,22 +238,7 @@ export async function seed(knex: Knex): Promise<void> {
         reason: `Delivery ${delivery.id}, lot ${lot}`,
         ref: `delivery:${delivery.id}`,
       });
-      if (status === "cut") {
-        const at = day(Math.min(-2, off + grade.cure_days + 3 + Math.floor(r() * 20)));
-        ledger.push({
-          block_id: block.id,
-          kind: "consumed",
-          volume_m3: block.volume_m3,
-          delta_m3: `-${block.volume_m3}`,
-          value: cost,
-          delta_value: -cost,
-          user_id: users.cutter,
-          at,
-          reason: "Cut to plan",
-          ref: null,
-        });
-        consumedParents.push({ id: block.id, code, size: measured, cost, grade_id: grade.id, lot, at });
-      } else if (status === "written_off") {
+      if (status === "written_off") {
         const at = day(off + 10);
         ledger.push({
           block_id: block.id,
@@ -294,65 +278,6 @@ export async function seed(knex: Knex): Promise<void> {
     }
   }
 
-  // Offcuts kept from the blocks that were cut: a slab off the top and an end piece.
-  for (const p of consumedParents) {
-    const pieces: { origin: number[]; size: number[] }[] = [
-      { origin: [0, 0, p.size[2] - 150], size: [p.size[0], p.size[1], 150] },
-      ...(r() < 0.6 ? [{ origin: [p.size[0] - 600, 0, 0], size: [600, p.size[1], p.size[2] - 152] }] : []),
-    ];
-    const parentVol = (p.size[0] * p.size[1] * p.size[2]) / 1e9;
-    for (const [k, piece] of pieces.entries()) {
-      const vol = (piece.size[0]! * piece.size[1]! * piece.size[2]!) / 1e9;
-      const value = Math.round(((p.cost * vol) / parentVol) * 100) / 100;
-      const [child] = await knex("blocks")
-        .insert({
-          code: `${p.code}.${k + 1}`,
-          grade_id: p.grade_id,
-          lot: p.lot,
-          parent_id: p.id,
-          origin_in_parent: knex.raw("?::numeric[]", [`{${piece.origin.join(",")}}`]),
-          nominal_x: piece.size[0],
-          nominal_y: piece.size[1],
-          nominal_z: piece.size[2],
-          size_x: piece.size[0],
-          size_y: piece.size[1],
-          size_z: piece.size[2],
-          cost: value,
-          location: "Bay C – offcut shelves",
-          cut_not_before: iso(p.at),
-          status: r() < 0.2 ? "cut" : "in_stock",
-          created_at: p.at,
-        })
-        .returning(["id", "volume_m3", "status"]);
-      ledger.push({
-        block_id: child.id,
-        kind: "offcut_created",
-        volume_m3: child.volume_m3,
-        delta_m3: child.volume_m3,
-        value,
-        delta_value: value,
-        user_id: users.cutter,
-        at: p.at,
-        reason: `Offcut of ${p.code}`,
-        ref: null,
-      });
-      if (child.status === "cut") {
-        const at = new Date(p.at.getTime() + 5 * 86400_000);
-        ledger.push({
-          block_id: child.id,
-          kind: "consumed",
-          volume_m3: child.volume_m3,
-          delta_m3: `-${child.volume_m3}`,
-          value,
-          delta_value: -value,
-          user_id: users.cutter,
-          at,
-          reason: "Cut to plan",
-          ref: null,
-        });
-      }
-    }
-  }
   for (let i = 0; i < ledger.length; i += 500) await knex("stock_ledger").insert(ledger.slice(i, i + 500));
   await knex.raw("SELECT setval('block_code_seq', ?)", [blockNo]);
 }
