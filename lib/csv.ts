@@ -48,11 +48,15 @@ export interface ParsedCsv {
   headers: string[];
   rows: Record<string, string>[];
   problems: CsvProblem[];
+  /** Data rows read before parsing stopped: at most `maxRows + 1` (one past the limit shows it was passed). */
+  rowsRead: number;
 }
 
 /**
  * CSV in: bytes must be UTF-8 (a BOM is fine); headers are trimmed and lower-cased; every missing
- * required header and every unknown header is a problem on row 1.
+ * required header and every unknown header is a problem on row 1. Parsing stops at the first row
+ * past `maxRows`: a file over the limit is refused whole (no rows returned, one problem naming
+ * the limit) without reading the rest of it.
  */
 export function parseCsv(
   bytes: Uint8Array,
@@ -65,20 +69,46 @@ export function parseCsv(
     return {
       headers: [],
       rows: [],
+      rowsRead: 0,
       problems: [
         { row: 1, message: "The file is not UTF-8 text. Save it from your spreadsheet as “CSV UTF-8” and try again." },
       ],
     };
   }
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
-  if (!text.trim()) return { headers: [], rows: [], problems: [{ row: 1, message: "The file is empty." }] };
-  const parsed = Papa.parse<Record<string, string>>(text, {
+  if (!text.trim())
+    return { headers: [], rows: [], rowsRead: 0, problems: [{ row: 1, message: "The file is empty." }] };
+  // Papaparse guesses the delimiter and line ending from the first rows, but splits the whole text
+  // once per candidate delimiter to do so: guess them from the first 64 KB (its first rows) instead.
+  const guessed = Papa.parse<string[]>(text.slice(0, 64 * 1024), { preview: 10, skipEmptyLines: "greedy" }).meta;
+  // Row by row (papaparse's step), so reading stops at the limit; `preview` would count blank lines too.
+  const headers: string[] = [];
+  const rows: Record<string, string>[] = [];
+  const errors: { code: string; message: string; row: number }[] = [];
+  let overLimit = false;
+  Papa.parse<Record<string, string>>(text, {
+    delimiter: guessed.delimiter,
+    newline: guessed.linebreak as Papa.ParseConfig["newline"],
+    // Fast mode splits the whole text into lines before the first row; the full parser stops at once.
+    fastMode: false,
     header: true,
     skipEmptyLines: "greedy",
-    transformHeader: (h) => h.trim().toLowerCase(),
+    transformHeader: (h) => {
+      const name = h.trim().toLowerCase();
+      headers.push(name); // as written (papaparse renames a repeated header to "name_1")
+      return name;
+    },
     transform: (v) => v.trim(),
+    step: (result, parser) => {
+      if (rows.length >= spec.maxRows) {
+        overLimit = true;
+        parser.abort();
+        return;
+      }
+      for (const e of result.errors) errors.push({ code: e.code, message: e.message, row: rows.length });
+      rows.push(result.data);
+    },
   });
-  const headers = parsed.meta.fields ?? [];
   const problems: CsvProblem[] = [];
   for (const h of spec.required)
     if (!headers.includes(h)) problems.push({ row: 1, column: h, message: `The column “${h}” is missing.` });
@@ -88,25 +118,32 @@ export function parseCsv(
       problems.push({ row: 1, column: h, message: `The column “${h || "(blank)"}” is not one Blockyard reads.` });
   const seen = new Set<string>();
   for (const h of headers) {
-    if (seen.has(h)) problems.push({ row: 1, column: h, message: `The column “${h}” appears twice.` });
+    if (h && seen.has(h)) problems.push({ row: 1, column: h, message: `The column “${h}” appears twice.` });
     seen.add(h);
   }
-  for (const e of parsed.errors) {
+  const rowsRead = rows.length + (overLimit ? 1 : 0);
+  if (overLimit) {
+    const limit = spec.maxRows.toLocaleString("en");
+    problems.push({
+      row: spec.maxRows + 2,
+      message: `The file has more than ${limit} rows; at most ${limit} rows per file — split it and import each part.`,
+    });
+    return { headers, rows: [], problems, rowsRead };
+  }
+  for (const e of errors) {
     if (e.code === "TooFewFields" || e.code === "TooManyFields") {
       problems.push({
-        row: (e.row ?? 0) + 2,
+        row: e.row + 2,
         message:
           e.code === "TooFewFields"
             ? "This row has fewer cells than the header."
             : "This row has more cells than the header.",
       });
     } else if (e.code !== "UndetectableDelimiter") {
-      problems.push({ row: (e.row ?? 0) + 2, message: e.message });
+      problems.push({ row: e.row + 2, message: e.message });
     }
   }
-  if (parsed.data.length > spec.maxRows)
-    problems.push({ row: spec.maxRows + 2, message: `At most ${spec.maxRows} rows per file.` });
-  return { headers, rows: parsed.data, problems };
+  return { headers, rows, problems, rowsRead };
 }
 
 export type CsvNumber = { value: number } | { problem: string };

@@ -1,5 +1,7 @@
 /**
- * A private PostgreSQL cluster for Blockyard, from Debian's packages, listening on 127.0.0.1 only.
+ * A private PostgreSQL cluster for Blockyard, from Debian's packages, listening on 127.0.0.1 only
+ * (BLOCKYARD_PG_HOST may name another loopback address, never one other machines can reach: it has
+ * no password; see scripts/loopback.ts).
  *
  *   ensureCluster({ name: "demo", port: 54320 })  → "postgres://postgres@127.0.0.1:54320/blockyard"
  *
@@ -12,6 +14,7 @@ import fs from "node:fs";
 import path from "node:path";
 import crypto from "node:crypto";
 import pg from "pg";
+import { loopbackHost, urlHost } from "./loopback";
 
 export interface ClusterOptions {
   name: string; // folder under .data/
@@ -21,6 +24,11 @@ export interface ClusterOptions {
 }
 
 const isRoot = process.getuid?.() === 0;
+
+/** Where the private cluster listens: loopback only (throws `NotLoopback` otherwise). */
+export function clusterHost(): string {
+  return loopbackHost("BLOCKYARD_PG_HOST", process.env.BLOCKYARD_PG_HOST);
+}
 
 function log(msg: string) {
   process.stderr.write(`[postgres] ${msg}\n`);
@@ -95,6 +103,7 @@ export async function ensureCluster(opts: ClusterOptions): Promise<string> {
     log("DATABASE_URL is set: using that server, starting nothing");
     return process.env.DATABASE_URL;
   }
+  const host = clusterHost(); // before anything is installed or started
   const bin = ensureServerInstalled();
   const dir = dataDirFor(opts.name);
   if (!fs.existsSync(path.join(dir, "PG_VERSION"))) {
@@ -112,13 +121,13 @@ export async function ensureCluster(opts: ClusterOptions): Promise<string> {
   }
   if (clusterStatus(opts) !== "running") {
     const serverOpts = [
-      "-c listen_addresses=127.0.0.1",
+      `-c listen_addresses=${host}`,
       `-c port=${opts.port}`,
       "-c unix_socket_directories=''",
       "-c max_connections=200",
       ...(opts.fast ? ["-c fsync=off", "-c synchronous_commit=off", "-c full_page_writes=off"] : []),
     ].join(" ");
-    log(`starting on 127.0.0.1:${opts.port}`);
+    log(`starting on ${urlHost(host)}:${opts.port}`);
     runPg(path.join(bin, "pg_ctl"), [
       "-D",
       dir,
@@ -132,7 +141,7 @@ export async function ensureCluster(opts: ClusterOptions): Promise<string> {
       "start",
     ]);
   }
-  const admin = new pg.Client({ host: "127.0.0.1", port: opts.port, user: "postgres", database: "postgres" });
+  const admin = new pg.Client({ host, port: opts.port, user: "postgres", database: "postgres" });
   await admin.connect();
   try {
     const exists = await admin.query("SELECT 1 FROM pg_database WHERE datname = $1", [opts.database]);
@@ -143,12 +152,12 @@ export async function ensureCluster(opts: ClusterOptions): Promise<string> {
   } finally {
     await admin.end();
   }
-  return `postgres://postgres@127.0.0.1:${opts.port}/${opts.database}`;
+  return `postgres://postgres@${urlHost(host)}:${opts.port}/${opts.database}`;
 }
 
 /** Drops and re-creates a database in a running cluster (tests start from nothing). */
 export async function recreateDatabase(opts: ClusterOptions): Promise<void> {
-  const admin = new pg.Client({ host: "127.0.0.1", port: opts.port, user: "postgres", database: "postgres" });
+  const admin = new pg.Client({ host: clusterHost(), port: opts.port, user: "postgres", database: "postgres" });
   await admin.connect();
   try {
     const name = opts.database.replace(/"/g, "");

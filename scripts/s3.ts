@@ -1,5 +1,7 @@
 /**
- * A local S3-compatible fake (s3rver) for development and tests, on 127.0.0.1 only.
+ * A local S3-compatible fake (s3rver) for development and tests, on 127.0.0.1 only
+ * (BLOCKYARD_S3_HOST may name another loopback address, never one other machines can reach: its
+ * key is the well-known S3RVER; see scripts/loopback.ts).
  *
  *   const s3 = await ensureS3(DEMO_S3);   // → { env: { S3_ENDPOINT, S3_BUCKET, … }, stop() }
  *   Object.assign(process.env, s3.env);   // the seed and the app then use it
@@ -12,6 +14,7 @@
 import { spawn } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
+import { isLoopback, loopbackHost, urlHost } from "./loopback";
 
 export interface FakeS3Options {
   name: string; // folder under .data/
@@ -38,6 +41,7 @@ const SCRIPT = path.join(process.cwd(), "scripts", "s3.ts");
 
 export async function ensureS3(opts: FakeS3Options): Promise<RunningS3> {
   if (process.env.S3_ENDPOINT) return { env: {}, stop: async () => {} };
+  const host = loopbackHost("BLOCKYARD_S3_HOST", process.env.BLOCKYARD_S3_HOST); // throws unless loopback
   const bucket = opts.bucket ?? "blockyard-photos";
   const directory = path.join(process.cwd(), ".data", opts.name);
   if (opts.fresh) fs.rmSync(directory, { recursive: true, force: true });
@@ -45,7 +49,7 @@ export async function ensureS3(opts: FakeS3Options): Promise<RunningS3> {
 
   const child = spawn(
     process.execPath,
-    ["--import", "tsx", SCRIPT, "--serve", JSON.stringify({ port: opts.port, bucket, directory })],
+    ["--import", "tsx", SCRIPT, "--serve", JSON.stringify({ host, port: opts.port, bucket, directory })],
     {
       stdio: ["ignore", "inherit", "inherit", "ipc"],
     },
@@ -60,11 +64,11 @@ export async function ensureS3(opts: FakeS3Options): Promise<RunningS3> {
   child.unref();
   child.channel?.unref();
   process.stderr.write(
-    `[s3] local S3 fake on http://127.0.0.1:${port} (bucket ${bucket}, data in .data/${opts.name})\n`,
+    `[s3] local S3 fake on http://${urlHost(host)}:${port} (bucket ${bucket}, data in .data/${opts.name})\n`,
   );
   return {
     env: {
-      S3_ENDPOINT: `http://127.0.0.1:${port}`,
+      S3_ENDPOINT: `http://${urlHost(host)}:${port}`,
       S3_REGION: "us-east-1",
       S3_BUCKET: bucket,
       S3_ACCESS_KEY_ID: "S3RVER",
@@ -83,10 +87,11 @@ export async function ensureS3(opts: FakeS3Options): Promise<RunningS3> {
 }
 
 /** The child: serve until told to stop or until the parent is gone. */
-async function serve(o: { port: number; bucket: string; directory: string }) {
+async function serve(o: { host: string; port: number; bucket: string; directory: string }) {
+  if (!isLoopback(o.host)) throw new Error(`[s3] refusing to listen on ${o.host}: loopback addresses only`);
   const { default: S3rver } = await import("s3rver");
   const server = new S3rver({
-    address: "127.0.0.1",
+    address: o.host,
     port: o.port,
     silent: true,
     directory: o.directory,

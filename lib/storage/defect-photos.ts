@@ -7,6 +7,7 @@ import { StorageNotConfigured, storageConfig } from "./config";
 import {
   MAX_PHOTO_BYTES,
   MAX_PHOTOS_PER_UPLOAD,
+  PhotoTooLarge,
   photoKeys,
   preparePhoto,
   sniffImage,
@@ -39,11 +40,39 @@ export function requireStorage() {
 }
 
 /**
- * Checks every file first (type by content, size, decodable), then uploads originals and
+ * Checks every file first (type by content, size, pixel count, decodable) and re-encodes it from
+ * its pixels alone (see `preparePhoto`), then uploads originals and
  * thumbnails, then records them in one transaction. All or nothing: a refused file stores
  * nothing, and objects already uploaded are deleted again if a later step fails.
  */
 export async function saveDefectPhotos(defectId: number, files: File[], actorId: string): Promise<DefectPhoto[]> {
+  return storePhotos(
+    files,
+    (ext) => photoKeys(defectId, ext),
+    (rows) => addPhotos(defectId, rows, actorId),
+  );
+}
+
+/** The objects' keys for one photo, and how a batch of stored photos is recorded. */
+type KeysFor = (ext: PreparedPhoto["ext"]) => { objectKey: string; thumbKey: string };
+type StoredRow = {
+  objectKey: string;
+  thumbKey: string;
+  contentType: string;
+  bytes: number;
+  width: number | null;
+  height: number | null;
+};
+
+/**
+ * The checks, re-encoding, upload and clean-up of saveDefectPhotos for photos of any record (a
+ * defect zone, a supplier claim): `keysFor` names the objects, `record` writes the rows.
+ */
+export async function storePhotos<T>(
+  files: File[],
+  keysFor: KeysFor,
+  record: (rows: StoredRow[]) => Promise<T[]>,
+): Promise<T[]> {
   requireStorage();
   if (!files.length)
     throw new HttpError(400, "Attach at least one photo.", {
@@ -80,8 +109,9 @@ export async function saveDefectPhotos(defectId: number, files: File[], actorId:
     }
     try {
       prepared.push(await preparePhoto(bytes, type));
-    } catch {
-      refuse(415, `"${name}" looks like a ${type.ext.toUpperCase()} but cannot be read; it may be damaged.`);
+    } catch (e) {
+      if (e instanceof PhotoTooLarge) refuse(413, `"${name}" is ${e.message}.`);
+      else refuse(415, `"${name}" looks like a ${type.ext.toUpperCase()} but cannot be read; it may be damaged.`);
     }
   }
   const problems = Object.values(fields);
@@ -94,14 +124,14 @@ export async function saveDefectPhotos(defectId: number, files: File[], actorId:
   try {
     const rows = [];
     for (const p of prepared) {
-      const keys = photoKeys(defectId, p.ext);
+      const keys = keysFor(p.ext);
       await putObject(keys.objectKey, p.bytes, p.contentType);
       uploaded.push(keys.objectKey);
       await putObject(keys.thumbKey, p.thumb, "image/webp");
       uploaded.push(keys.thumbKey);
       rows.push({ ...keys, contentType: p.contentType, bytes: p.bytes.byteLength, width: p.width, height: p.height });
     }
-    return await addPhotos(defectId, rows, actorId);
+    return await record(rows);
   } catch (e) {
     await deleteObjects(uploaded).catch((err) =>
       console.error("[photos] could not remove objects of a failed upload", uploaded, err),

@@ -34,23 +34,70 @@ export interface PreparedPhoto extends PhotoType {
 }
 
 /**
- * Decodes the image (refusing what sharp cannot read) and makes a WebP thumbnail, turned upright
- * by the photo's EXIF orientation; strips EXIF/XMP/IPTC from the original (re-encoded upright).
- * Throws `Error("unreadable")` for bytes that only look like an image.
+ * The most pixels a photo may have, and the longest side. A shop tablet or phone takes 8–48
+ * megapixels (a 48 MP sensor: 8000 × 6000), so 50 MP refuses no real photo, while decoding one
+ * costs up to 200 MB of memory (4 bytes a pixel) in an app process serving everyone else: the
+ * header is read before any pixel is decoded, so an 8,900 × 8,900 picture squeezed into 77 KB is
+ * refused without decoding it. 16,383 px a side is the most a WebP may have (thumbnails and WebP
+ * originals), and keeps a thin sliver of a picture from passing under the pixel count.
+ */
+export const MAX_PHOTO_PIXELS = 50_000_000;
+export const MAX_PHOTO_SIDE = 16_383;
+
+/** Thrown by `preparePhoto` for a picture over `MAX_PHOTO_PIXELS` or `MAX_PHOTO_SIDE`. */
+export class PhotoTooLarge extends Error {
+  constructor(
+    readonly width: number,
+    readonly height: number,
+  ) {
+    super(
+      `${width} × ${height} pixels (${(Math.floor((width * height) / 100_000) / 10).toLocaleString("en")} megapixels); ` +
+        `a photo may be at most ${MAX_PHOTO_PIXELS / 1_000_000} megapixels and ${MAX_PHOTO_SIDE.toLocaleString("en")} pixels a side`,
+    );
+    this.name = "PhotoTooLarge";
+  }
+}
+
+/**
+ * Decodes the image (refusing what sharp cannot read, and anything over the pixel cap before it is
+ * decoded) and always re-encodes the original from its pixels alone, turned upright by its EXIF
+ * orientation: no EXIF, XMP, IPTC, ICC, PNG text chunks, comments or bytes appended after the
+ * image survive (a tablet's photo often says where and when it was taken), and makes a WebP
+ * thumbnail. Throws `PhotoTooLarge` for too many pixels, `Error("unreadable")` for bytes that only
+ * look like an image.
  */
 export async function preparePhoto(bytes: Uint8Array, type: PhotoType): Promise<PreparedPhoto> {
-  const image = sharp(bytes, { limitInputPixels: 80_000_000 });
+  // The header alone is read first, so a picture over the cap is refused with its size (sharp's own
+  // limit would only say "unreadable"); libvips checks the limit again as it decodes.
+  const image = sharp(bytes, { limitInputPixels: MAX_PHOTO_PIXELS });
+  let meta: Metadata;
   try {
-    const meta: Metadata = await image.metadata();
-    const declared =
-      meta.format === "jpeg"
-        ? "image/jpeg"
-        : meta.format === "png"
-          ? "image/png"
-          : meta.format === "webp"
-            ? "image/webp"
-            : null;
-    if (declared !== type.contentType) throw new Error("unreadable");
+    meta = await sharp(bytes, { limitInputPixels: false }).metadata();
+  } catch {
+    throw new Error("unreadable");
+  }
+  const declared =
+    meta.format === "jpeg"
+      ? "image/jpeg"
+      : meta.format === "png"
+        ? "image/png"
+        : meta.format === "webp"
+          ? "image/webp"
+          : null;
+  if (declared !== type.contentType || !meta.width || !meta.height) throw new Error("unreadable");
+  // Of an animated WebP or PNG only the first frame is read and kept: pageHeight is its height.
+  const height = meta.pageHeight ?? meta.height;
+  if (meta.width * height > MAX_PHOTO_PIXELS || Math.max(meta.width, height) > MAX_PHOTO_SIDE)
+    throw new PhotoTooLarge(meta.width, height);
+  try {
+    // sharp writes no metadata unless asked (withMetadata/keep*): the output is the pixels only.
+    const upright = image.clone().rotate();
+    const out = await (type.ext === "jpg"
+      ? upright.jpeg({ quality: 92 })
+      : type.ext === "png"
+        ? upright.png()
+        : upright.webp({ quality: 92 })
+    ).toBuffer({ resolveWithObject: true });
     const thumb = new Uint8Array(
       await image
         .clone()
@@ -59,22 +106,7 @@ export async function preparePhoto(bytes: Uint8Array, type: PhotoType): Promise<
         .webp({ quality: 78 })
         .toBuffer(),
     );
-    // A tablet's photo carries EXIF/XMP/IPTC (often where and when it was taken): the original is
-    // stored without it, turned upright as EXIF said; a photo without such metadata is kept byte for byte.
-    if (meta.exif || meta.xmp || meta.iptc) {
-      const upright = image.clone().rotate();
-      const out = await (type.ext === "jpg"
-        ? upright.jpeg({ quality: 92 })
-        : type.ext === "png"
-          ? upright.png()
-          : upright.webp({ quality: 92 })
-      ).toBuffer({ resolveWithObject: true });
-      return { ...type, bytes: new Uint8Array(out.data), width: out.info.width, height: out.info.height, thumb };
-    }
-    const sideways = (meta.orientation ?? 1) >= 5;
-    const w = meta.width ?? null;
-    const h = meta.height ?? null;
-    return { ...type, bytes, width: sideways ? h : w, height: sideways ? w : h, thumb };
+    return { ...type, bytes: new Uint8Array(out.data), width: out.info.width, height: out.info.height, thumb };
   } catch {
     throw new Error("unreadable");
   }

@@ -2,8 +2,17 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, type Client } from "../support/http";
 import { TEST_PASSWORD, closeTestDb, makeUser, tableCounts, testDb } from "../support/db";
 import { jpegBytes, makeBlock, makeDefect, pngBytes } from "../support/defect-fixtures";
-import { listKeys } from "@/lib/storage/client";
+import { getObject, listKeys } from "@/lib/storage/client";
 import sharp from "sharp";
+import {
+  JPEG_COMMENT,
+  PNG_TEXT,
+  TRAILER,
+  hugePng,
+  pngChunkTypes,
+  taggedJpeg,
+  taggedPng,
+} from "../support/hostile-images";
 
 let cutter: Client;
 let defectId: number;
@@ -22,6 +31,12 @@ const upload = (c: Client, id: number, files: { name: string; content: Buffer; t
     r = r.attach("photos", f.content, { filename: f.name, contentType: f.type ?? "application/octet-stream" });
   return r;
 };
+
+/** An object's bytes exactly as the bucket holds them (not through the app). */
+async function streamBytes(obj: Awaited<ReturnType<typeof getObject>>): Promise<Buffer> {
+  if (!obj) throw new Error("object missing from the bucket");
+  return Buffer.from(await new Response(obj.body).arrayBuffer());
+}
 
 /** Everything a refused upload must leave alone: every table and the bucket. */
 async function snapshot() {
@@ -45,7 +60,7 @@ describe("defect photos: upload", () => {
       height: number;
       bytes: number;
     }[];
-    expect(a).toMatchObject({ contentType: "image/jpeg", width: 800, height: 600, bytes: jpg.length });
+    expect(a).toMatchObject({ contentType: "image/jpeg", width: 800, height: 600 });
     expect(b).toMatchObject({ contentType: "image/png", width: 300, height: 200 });
 
     const thumb = await cutter.get(`/api/photos/${a!.id}?size=thumb`).buffer(true);
@@ -58,7 +73,9 @@ describe("defect photos: upload", () => {
     const full = await cutter.get(`/api/photos/${a!.id}`).buffer(true);
     expect(full.status).toBe(200);
     expect(full.headers["content-type"]).toBe("image/jpeg");
-    expect(Buffer.compare(full.body as Buffer, jpg)).toBe(0);
+    // Always re-encoded from the pixels (never stored byte for byte), the size recorded as stored.
+    expect((full.body as Buffer).length).toBe(a!.bytes);
+    expect(await sharp(full.body as Buffer).metadata()).toMatchObject({ format: "jpeg", width: 800, height: 600 });
 
     // Anyone signed in may look (a planner checks defects too); strangers may not.
     const planner = client();
@@ -93,6 +110,61 @@ describe("defect photos: upload", () => {
     expect(meta.orientation ?? 1).toBe(1);
     expect([meta.width, meta.height]).toEqual([300, 400]);
     expect((full.body as Buffer).includes(Buffer.from("Shop tablet"))).toBe(false);
+  });
+
+  it("stores a JPEG with EXIF GPS, a comment and appended bytes, and a PNG with text chunks, as pixels only", async () => {
+    const files = [
+      { name: "gps-and-trailer.jpg", content: await taggedJpeg(), type: "image/jpeg" },
+      { name: "comment-and-trailer.jpg", content: await taggedJpeg({ exif: false }), type: "image/jpeg" },
+      { name: "texted.png", content: await taggedPng(), type: "image/png" },
+    ];
+    for (const f of files) expect(f.content.includes(TRAILER), "the fixture carries appended bytes").toBe(true);
+    expect(pngChunkTypes(files[2]!.content)).toEqual(expect.arrayContaining(["tEXt", "iTXt"]));
+    const res = await upload(cutter, defectId, files);
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const items = res.body.items as { id: number; bytes: number }[];
+    expect(items).toHaveLength(3);
+    const has = (b: Buffer, s: string) => b.includes(Buffer.from(s, "latin1"));
+    for (const [i, item] of items.entries()) {
+      const row = await testDb()("defect_photos").where({ id: item.id }).first();
+      const [stored, thumb] = await Promise.all([
+        getObject(row.object_key).then(streamBytes),
+        getObject(row.thumb_key).then(streamBytes),
+      ]);
+      const name = files[i]!.name;
+      expect(stored.length, name).toBe(item.bytes);
+      for (const b of [stored, thumb]) {
+        expect(b.includes(TRAILER), name).toBe(false);
+        for (const s of ["Exif", "GPS", "Shop tablet", JPEG_COMMENT, PNG_TEXT, "tEXt", "iTXt", "secret-"])
+          expect(has(b, s), `${name}: ${s}`).toBe(false);
+        const meta = await sharp(b).metadata();
+        expect(meta.exif ?? meta.comments ?? meta.xmp ?? null, name).toBeNull();
+      }
+      if (row.content_type === "image/jpeg") expect([...stored.subarray(-2)], name).toEqual([0xff, 0xd9]);
+      else {
+        expect(
+          pngChunkTypes(stored).filter((t) => !["IHDR", "PLTE", "tRNS", "pHYs", "IDAT", "IEND"].includes(t)),
+        ).toEqual([]);
+        expect(stored.subarray(-8, -4).toString("latin1"), name).toBe("IEND");
+      }
+    }
+  });
+
+  it("refuses an 8,900 × 8,900 PNG of a few KB with 413 naming the file and its size, and stores nothing", async () => {
+    const before = await snapshot();
+    const huge = hugePng(8900, 8900);
+    expect(huge.length).toBeLessThan(80_000);
+    const res = await upload(cutter, defectId, [
+      { name: "fine.jpg", content: await jpegBytes(), type: "image/jpeg" },
+      { name: "bomb.png", content: huge, type: "image/png" },
+    ]);
+    expect(res.status).toBe(413);
+    expect(res.body.error).toBe(
+      '"bomb.png" is 8900 × 8900 pixels (79.2 megapixels); a photo may be at most 50 megapixels and 16,383 pixels a side. Nothing was stored.',
+    );
+    expect(res.body.fields["photos.1"]).toMatch(/^"bomb\.png" is 8900 × 8900 pixels/);
+    expect(res.body.fields["photos.0"]).toBeUndefined();
+    expect(await snapshot()).toEqual(before);
   });
 
   it("refuses a text file renamed .jpg with 415 and stores nothing, not even the good photo beside it", async () => {
