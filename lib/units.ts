@@ -9,6 +9,8 @@ export const MM_PER_INCH = 25.4; // exact, by the 1959 international yard and po
 export const CM3_PER_BOARD_FOOT = 144 * 2.54 ** 3; // 144 in³ = 2,359.737216 cm³
 export const BOARD_FEET_PER_M3 = 1e6 / CM3_PER_BOARD_FOOT; // ≈ 423.776
 export const KG_M3_PER_LB_FT3 = 0.45359237 / 0.3048 ** 3; // ≈ 16.0185
+/** 1 lbf/in² in kPa: 0.45359237 kg × 9.80665 m/s² over (0.0254 m)², exact definitions (≈ 6.894757). */
+export const KPA_PER_PSI = (0.45359237 * 9.80665) / 0.0254 ** 2 / 1000;
 
 export const mmToIn = (mm: number) => mm / MM_PER_INCH;
 /** Inches to mm, to the micrometre (so 24 in is stored as 609.6 mm, not 609.5999999999999). */
@@ -28,6 +30,8 @@ export const m3ToBoardFeet = (m3: number) => m3 * BOARD_FEET_PER_M3;
 /** kg/m³ from a weight in kg and a size in mm. */
 export const densityKgM3 = (kg: number, size: [number, number, number]) => kg / cubicMetres(...size);
 export const kgM3ToLbFt3 = (kgm3: number) => kgm3 / KG_M3_PER_LB_FT3;
+/** Pressure (compressive resistance) in psi as kPa. */
+export const psiToKpa = (psi: number) => psi * KPA_PER_PSI;
 
 export function formatLength(mm: number, unit: LengthUnit): string {
   if (unit === "in") return `${trimZeros(mmToIn(mm).toFixed(2))} in`;

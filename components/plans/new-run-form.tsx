@@ -8,18 +8,23 @@ import { useSubmit } from "@/components/ui/use-submit";
 import { Button } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
-import type { RunSettings } from "@/lib/validations/runs";
+import { BUDGET_S, type RunSettings, secondsToMs } from "@/lib/validations/runs";
+import { formatDate } from "@/lib/format";
 import type { Candidate } from "@/db/queries/runs";
+import { leftOutLine, type LeftOut } from "@/lib/planning/usable";
 
 /** Choose the stock (proposed: ready, right grade, oldest first) and the settings, then start. */
 export function NewRunForm({
   jobIds,
   candidates,
+  leftOut = [],
   defaults,
   machines,
 }: {
   jobIds: number[];
   candidates: Candidate[];
+  /** Ready stock of the grades that cannot hold any part still owed, with the reason: not offered. */
+  leftOut?: LeftOut[];
   defaults: RunSettings;
   /** Active block cutters; the first is proposed. */
   machines: { id: number; name: string }[];
@@ -53,7 +58,8 @@ export function NewRunForm({
                 defectMargin: num(fd.get("defectMargin")),
                 minOffcut: [num(fd.get("mo0")), num(fd.get("mo1")), num(fd.get("mo2"))],
                 layout: fd.get("layout"),
-                timeLimitMs: num(fd.get("timeLimitMs")),
+                // Typed in seconds; the API keeps milliseconds.
+                timeLimitMs: secondsToMs(num(fd.get("timeBudgetS"))),
               },
             }),
           { failed: "The run was not started." },
@@ -76,22 +82,22 @@ export function NewRunForm({
             <table>
               <thead>
                 <tr>
-                  <th className="py-1">
+                  <th className="py-2 pr-3">
                     <span className="sr-only">Use</span>
                   </th>
-                  <th>Code</th>
-                  <th>Grade</th>
-                  <th>Size (mm)</th>
-                  <th className="text-right">m³</th>
-                  <th>Since</th>
-                  <th>Location</th>
-                  <th className="text-right">Defects</th>
+                  <th className="px-3 py-2">Code</th>
+                  <th className="px-3 py-2">Grade</th>
+                  <th className="whitespace-nowrap px-3 py-2">Size (mm)</th>
+                  <th className="px-3 py-2 text-right">m³</th>
+                  <th className="px-3 py-2">Since</th>
+                  <th className="px-3 py-2">Location</th>
+                  <th className="py-2 pl-3 text-right">Defects</th>
                 </tr>
               </thead>
               <tbody>
                 {candidates.map((c) => (
                   <tr key={c.id} className="border-t border-bead/60">
-                    <td className="py-1">
+                    <td className="py-1 pr-3">
                       <input
                         type="checkbox"
                         className="size-5 accent-kerf"
@@ -100,21 +106,34 @@ export function NewRunForm({
                         onChange={() => toggle(c.id)}
                       />
                     </td>
-                    <td className="font-medium">
+                    <td className="whitespace-nowrap px-3 py-1 font-medium">
                       {c.code}
                       {c.isOffcut && <span className="ml-1 text-xs text-ink-faint">offcut</span>}
                     </td>
-                    <td>{c.gradeCode}</td>
-                    <td className="whitespace-nowrap">{c.size.join(" × ")}</td>
-                    <td className="text-right tabular-nums">{c.volumeM3.toFixed(3)}</td>
-                    <td className="whitespace-nowrap">{c.since}</td>
-                    <td className="whitespace-nowrap">{c.location}</td>
-                    <td className="text-right">{c.defectCount || "–"}</td>
+                    <td className="px-3 py-1">{c.gradeCode}</td>
+                    <td className="whitespace-nowrap px-3 py-1 tabular-nums">{c.size.join(" × ")}</td>
+                    <td className="px-3 py-1 text-right tabular-nums">{c.volumeM3.toFixed(3)}</td>
+                    <td className="whitespace-nowrap px-3 py-1 tabular-nums">{formatDate(c.since)}</td>
+                    <td className="px-3 py-1">{c.location}</td>
+                    <td className="py-1 pl-3 text-right tabular-nums">{c.defectCount || "–"}</td>
                   </tr>
                 ))}
               </tbody>
             </table>
           </div>
+        )}
+        {leftOut.length > 0 && (
+          <details className="mt-3 text-sm" data-testid="left-out-stock">
+            <summary className="cursor-pointer text-ink-soft">
+              {leftOut.length} ready {leftOut.length === 1 ? "block" : "blocks"} not offered: too small or of no use for
+              these parts
+            </summary>
+            <ul className="mt-1 list-disc pl-5 text-ink-soft">
+              {leftOut.map((l) => (
+                <li key={l.id}>{leftOutLine(l)}</li>
+              ))}
+            </ul>
+          </details>
         )}
         <div className="mt-2 flex gap-3 text-sm">
           <button type="button" className="text-kerf" onClick={() => setChosen(new Set(candidates.map((c) => c.id)))}>
@@ -174,8 +193,13 @@ export function NewRunForm({
           <Field label="… height" name="mo2" error={fields["settings.minOffcut.2"]}>
             <Input name="mo2" inputMode="decimal" defaultValue={defaults.minOffcut[2]} />
           </Field>
-          <Field label="Time budget (ms)" name="timeLimitMs" error={fields["settings.timeLimitMs"]}>
-            <Input name="timeLimitMs" inputMode="numeric" defaultValue={defaults.timeLimitMs} />
+          <Field
+            label="Time budget (seconds)"
+            name="timeBudgetS"
+            error={fields["settings.timeLimitMs"]}
+            hint={`How long the search may run: ${BUDGET_S.min} to ${BUDGET_S.max} s.`}
+          >
+            <Input name="timeBudgetS" inputMode="decimal" defaultValue={defaults.timeLimitMs / 1000} />
           </Field>
         </div>
       </Card>

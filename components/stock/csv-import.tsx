@@ -1,5 +1,6 @@
 "use client";
 
+import { plural } from "@/lib/format";
 import Link from "next/link";
 import { useState } from "react";
 import { buttonClass } from "@/components/ui/button";
@@ -47,7 +48,8 @@ export function CsvImport() {
       hint="Numbers take a decimal point (1.5), never a decimal comma or thousands separators; a cost may group thousands as 1,234.50. Checking changes nothing; the import then takes every row or none."
       imported={(report) => (
         <>
-          {report.rows} rows imported and written to the stock ledger. <Link href="/stock">See the stock list</Link>.
+          {plural(report.rows, "row")} imported and written to the stock ledger.{" "}
+          <Link href="/stock">See the stock list</Link>.
           <span className="mt-3 block">
             <Link className={buttonClass("secondary")} href="/stock">
               Go to stock

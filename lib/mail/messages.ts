@@ -1,9 +1,10 @@
+import { formatMoney, plural } from "@/lib/format";
 import { poFileName, purchaseOrderCsv, type PurchaseOrder } from "@/lib/purchasing/orders";
 import { PRICE_UNIT_LABEL } from "@/lib/purchasing/pricing";
 import { m3ToBoardFeet } from "@/lib/units";
 import type { OutgoingMail } from "./transport";
 
-const money = (v: number) => v.toLocaleString("en", { style: "currency", currency: "USD" });
+const money = formatMoney;
 const esc = (s: string) => s.replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c]!);
 
 /**
@@ -53,7 +54,7 @@ export interface LowStockLine {
 export function lowStockMail(to: string, items: LowStockLine[], shopName: string, appUrl: string | null): OutgoingMail {
   const lines = items.map(
     (g) =>
-      `- ${g.gradeCode}: ${g.position.toFixed(2)} m³ on hand and on order, reorder point ${g.reorderPoint.toFixed(2)} m³; suggest ${g.suggestedBlocks !== null ? `${g.suggestedBlocks} blocks (${g.suggestedM3.toFixed(2)} m³)` : `${g.suggestedM3.toFixed(2)} m³`}${g.supplier ? ` from ${g.supplier}` : ""}`,
+      `- ${g.gradeCode}: ${g.position.toFixed(2)} m³ on hand and on order, reorder point ${g.reorderPoint.toFixed(2)} m³; suggest ${g.suggestedBlocks !== null ? `${plural(g.suggestedBlocks, "block")} (${g.suggestedM3.toFixed(2)} m³)` : `${g.suggestedM3.toFixed(2)} m³`}${g.supplier ? ` from ${g.supplier}` : ""}`,
   );
   return {
     to,

@@ -7,6 +7,12 @@ const mm = (label: string, min: number, max: number) =>
     .min(min, `${label} must be at least ${min} mm.`)
     .max(max, `${label} must be at most ${max} mm.`);
 
+/** The nesting time budget people may give a run, in seconds. */
+export const BUDGET_S = { min: 0.5, max: 120 } as const;
+
+/** Seconds typed in a form → whole milliseconds for the API; null (left empty) stays null for the API to name. */
+export const secondsToMs = (s: number | null): number | null => (s === null ? null : Math.round(s * 1000));
+
 export const runSettingsSchema = z.object({
   kerf: mm("Kerf", 0, 20),
   trim: mm("Face trim", 0, 100),
@@ -17,11 +23,12 @@ export const runSettingsSchema = z.object({
     mm("Minimum offcut height", 1, 5000),
   ]),
   layout: z.enum(["guillotine", "layers", "free"], { error: "Choose guillotine, layers or free." }),
+  /** Milliseconds in the API; people type seconds (BUDGET_S), the form converts. */
   timeLimitMs: z
-    .number({ error: "Time budget must be a number." })
-    .int()
-    .min(500, "At least 500 ms.")
-    .max(120_000, "At most 120000 ms."),
+    .number({ error: `Time budget must be a number: ${BUDGET_S.min} to ${BUDGET_S.max} seconds.` })
+    .int("Time budget must be a whole number of milliseconds.")
+    .min(BUDGET_S.min * 1000, `Time budget must be at least ${BUDGET_S.min} s.`)
+    .max(BUDGET_S.max * 1000, `Time budget must be at most ${BUDGET_S.max} s.`),
 });
 export type RunSettings = z.infer<typeof runSettingsSchema>;
 

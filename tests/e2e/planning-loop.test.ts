@@ -45,10 +45,13 @@ describe("the planner's and the cutter's loop", () => {
     await planner.waitForURL(/\/plans\/new\?jobs=/);
     await planner.getByRole("button", { name: "None" }).click();
     await planner.getByLabel(`Use ${block.code}`).check();
-    await planner.getByLabel("Time budget (ms)").fill("4000");
+    await planner.getByLabel("Time budget (seconds)").fill("4");
     await planner.getByRole("button", { name: "Start nesting" }).click();
     await planner.waitForURL(/\/plans\/\d+$/);
     const runId = Number(new URL(planner.url()).pathname.split("/").pop());
+    // Typed in seconds on the form, kept in milliseconds by the API.
+    const saved = await (await planner.request.get(`${BASE_URL}/api/runs/${runId}`)).json();
+    expect(saved.run.settings.timeLimitMs).toBe(4000);
     // The live bar shows while a worker searches, then the plan replaces it.
     await planner.getByRole("progressbar", { name: "Nesting progress" }).waitFor({ timeout: 15_000 });
     await planner.getByRole("button", { name: "Approve and earmark the stock" }).waitFor({ timeout: 60_000 });

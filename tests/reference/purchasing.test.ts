@@ -21,7 +21,10 @@ describe("economic order quantity", () => {
     expect((1000 / q) * 10 + (q / 2) * 0.5).toBeCloseTo(100, 9);
   });
 
-  it("gives 219 units when demand rises to 1,200 (Heizer & Render ch. 12 ex. 3, same S and H)", () => {
+  // Arithmetic, not an example from the book: the EOQ formula √(2DS/H) (Heizer & Render ch. 12) with
+  // the example's S and H and D raised to 1,200: √(2 × 1,200 × 10 ÷ 0.5) = √48,000 = 219.09.
+  it("gives 219 units when demand rises to 1,200 (arithmetic on the EOQ formula, not the book's example)", () => {
+    expect(economicOrderQuantity(1200, 10, 0.5)).toBeCloseTo(Math.sqrt(48_000), 9);
     expect(Math.round(economicOrderQuantity(1200, 10, 0.5))).toBe(219);
   });
 });

@@ -1,3 +1,4 @@
+import { formatMoney, plural } from "@/lib/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requirePage } from "@/lib/auth/guard";
@@ -17,7 +18,7 @@ export default async function DeliveriesPage({ searchParams }: { searchParams: P
     <>
       <PageHeader
         title="Deliveries"
-        lead={`${total} deliveries received.`}
+        lead={`${plural(total, "delivery", "deliveries")} received.`}
         actions={
           <>
             <a className={buttonClass("secondary")} href="/api/deliveries/export" download>
@@ -54,9 +55,7 @@ export default async function DeliveriesPage({ searchParams }: { searchParams: P
                 <td className="px-3 py-2">{d.poRef ?? "–"}</td>
                 <td className="px-3 py-2 text-right tabular-nums">{d.blocks}</td>
                 <td className="px-3 py-2 text-right tabular-nums">{d.volumeM3.toFixed(2)}</td>
-                <td className="px-3 py-2 text-right tabular-nums">
-                  {d.cost.toLocaleString("en", { style: "currency", currency: "USD" })}
-                </td>
+                <td className="px-3 py-2 text-right tabular-nums">{formatMoney(d.cost)}</td>
                 <td className="px-3 py-2">{d.receivedBy ?? "–"}</td>
               </tr>
             ))}

@@ -1,3 +1,4 @@
+import { plural } from "@/lib/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requirePage } from "@/lib/auth/guard";
@@ -133,7 +134,7 @@ export default async function JobsPage({
               <span />
             )}
             <span className="text-sm text-ink-soft">
-              Page {list.page} of {pages} · {list.total} jobs
+              Page {list.page} of {pages} · {plural(list.total, "job")}
             </span>
             {list.page < pages ? (
               <Link className={buttonClass("secondary")} href={href({ page: list.page + 1 })}>

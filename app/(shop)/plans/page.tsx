@@ -1,3 +1,4 @@
+import { formatDate } from "@/lib/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requirePage } from "@/lib/auth/guard";
@@ -38,7 +39,7 @@ export default async function PlansPage({ searchParams }: { searchParams: Promis
       </td>
       <td className="text-right tabular-nums">{r.stats ? `${(r.stats.yield * 100).toFixed(1)} %` : "–"}</td>
       <td className="text-right tabular-nums">{r.stats?.blocksUsed ?? "–"}</td>
-      <td className="text-right text-ink-faint">{r.createdAt.slice(0, 10)}</td>
+      <td className="text-right text-ink-faint">{formatDate(r.createdAt)}</td>
     </tr>
   );
   const head = (

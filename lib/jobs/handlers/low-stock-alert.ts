@@ -1,4 +1,5 @@
 import "server-only";
+import { plural } from "@/lib/format";
 import { listDueGrades } from "@/db/queries/reorder";
 import { listBuyerAddresses } from "@/db/queries/outbox";
 import { getShopSettings } from "@/db/queries/settings";
@@ -45,6 +46,8 @@ export const lowStockAlertJob: JobDefinition<{ actorId?: string }> = {
   schedule: { cron: "0 6 * * 1-5" },
   async handle(data) {
     const r = await sendLowStockAlerts(data?.actorId ?? null);
-    console.error(`[low-stock-alert] ${r.grades.length} grade(s) due; mailed ${r.sentTo.length} buyer(s)`);
+    console.error(
+      `[low-stock-alert] ${plural(r.grades.length, "grade")} due; mailed ${plural(r.sentTo.length, "buyer")}`,
+    );
   },
 };

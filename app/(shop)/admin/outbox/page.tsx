@@ -1,3 +1,4 @@
+import { formatDateTime } from "@/lib/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requirePage } from "@/lib/auth/guard";
@@ -47,7 +48,7 @@ export default async function OutboxPage({ searchParams }: { searchParams: Promi
           <tbody>
             {items.map((m) => (
               <tr key={m.id} className="border-b border-bead/60 align-top last:border-0" data-testid={`mail-${m.id}`}>
-                <td className="whitespace-nowrap px-3 py-2">{m.at.slice(0, 16).replace("T", " ")}</td>
+                <td className="whitespace-nowrap px-3 py-2">{formatDateTime(m.at)}</td>
                 <td className="px-3 py-2">
                   {m.kind === "purchase_order"
                     ? "Purchase order"

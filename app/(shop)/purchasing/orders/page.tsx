@@ -7,6 +7,7 @@ import { PageHeader } from "@/components/ui/card";
 import { buttonClass, rowLinkClass } from "@/components/ui/button";
 import { PoStatusBadge } from "@/components/purchasing/po-status";
 import { PO_STATUSES, PO_STATUS_LABELS, type PoStatus } from "@/lib/purchasing/orders";
+import { formatMoney } from "@/lib/format";
 
 export const metadata: Metadata = { title: "Purchase orders" };
 
@@ -87,9 +88,7 @@ export default async function OrdersPage({
                 <td className="px-3 py-2 text-right tabular-nums">
                   {o.volumeM3 > 0 ? `${Math.round((o.receivedM3 / o.volumeM3) * 100)} %` : "–"}
                 </td>
-                <td className="px-3 py-2 text-right tabular-nums">
-                  {o.value.toLocaleString("en", { style: "currency", currency: "USD" })}
-                </td>
+                <td className="px-3 py-2 text-right tabular-nums">{formatMoney(o.value)}</td>
               </tr>
             ))}
             {!items.length && (

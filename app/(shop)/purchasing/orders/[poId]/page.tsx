@@ -1,3 +1,4 @@
+import { formatDate, formatMoney, plural } from "@/lib/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
@@ -16,7 +17,7 @@ import { m3ToBoardFeet } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Purchase order" };
 
-const money = (v: number) => v.toLocaleString("en", { style: "currency", currency: "USD" });
+const money = formatMoney;
 
 export default async function OrderPage({ params }: { params: Promise<{ poId: string }> }) {
   const user = await requirePage("/purchasing/orders/[poId]");
@@ -109,7 +110,7 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
                       </td>
                       <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{money(l.value)}</td>
                       <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">
-                        {l.receivedBlocks} blocks · {Math.round(pctGot)} %
+                        {plural(l.receivedBlocks, "block")} · {Math.round(pctGot)} %
                         {l.overTolerance ? (
                           <p>
                             <Badge tone="wire">over +10 %</Badge>
@@ -141,9 +142,9 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
           </section>
           {po.notes && <p className="mt-3 text-sm text-ink-soft">Notes: {po.notes}</p>}
           <p className="mt-2 text-xs text-ink-faint">
-            Written by {po.createdBy ?? "–"} on {po.createdAt.slice(0, 10)}
-            {po.sentAt && `; sent ${po.sentAt.slice(0, 10)}`}
-            {po.closedAt && `; ${po.status === "cancelled" ? "cancelled" : "closed"} ${po.closedAt.slice(0, 10)}`}.
+            Written by {po.createdBy ?? "–"} on {formatDate(po.createdAt)}
+            {po.sentAt && `; sent ${formatDate(po.sentAt)}`}
+            {po.closedAt && `; ${po.status === "cancelled" ? "cancelled" : "closed"} ${formatDate(po.closedAt)}`}.
           </p>
         </Card>
         <Card title="Deliveries against this order">
@@ -151,7 +152,7 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
             <ul className="divide-y divide-bead text-sm">
               {deliveries.map((d) => (
                 <li key={d.id} className="py-2">
-                  {d.receivedOn} · lot {d.lot} · {d.blocks} blocks · {d.volumeM3.toFixed(3)} m³
+                  {d.receivedOn} · lot {d.lot} · {plural(d.blocks, "block")} · {d.volumeM3.toFixed(3)} m³
                 </li>
               ))}
             </ul>
