@@ -1,5 +1,5 @@
 /** Shapes of stock records as the API sends them; shared by query modules and client components. */
-import type { BlockStatus, Material, ShownStatus } from "@/lib/stock";
+import type { BlockStatus, HoldReason, Material, ShownStatus } from "@/lib/stock";
 
 export type Size = [number, number, number];
 
@@ -17,7 +17,8 @@ export interface BlockSummary {
   weightKg: number | null;
   densityKgM3: number | null;
   minDensity: number | null;
-  cost: number;
+  /** null in the answers of a role that does not see money (lib/auth/policy.ts, MONEY). */
+  cost: number | null;
   location: string;
   mouldedOn: string | null;
   cutNotBefore: string;
@@ -29,15 +30,28 @@ export interface BlockSummary {
   fifo: number | null;
   receivedOn: string | null;
   supplier: string | null;
+  /** Why the block is held out of usable stock (status on_hold), by whom and since when; else null. */
+  hold: BlockHold | null;
+}
+
+export interface BlockHold {
+  reason: HoldReason;
+  note: string | null;
+  since: string;
+  by: string | null;
 }
 
 /** One page of the stock list with the count and totals of everything the filters match. */
 export interface BlockList {
   items: BlockSummary[];
   total: number;
-  totals: { volumeM3: number; value: number };
+  /** value is null for a role that does not see money (lib/auth/policy.ts, MONEY). */
+  totals: { volumeM3: number; value: number | null };
   page: number;
   pageSize: number;
+  /** Cursors for the pages after and before this one (null at either end): `?after=` / `?before=`. */
+  next: string | null;
+  prev: string | null;
 }
 
 /** What a row of the stock table shows; the stock page sends only these fields to the browser. */
@@ -56,6 +70,7 @@ const STOCK_ROW_FIELDS = [
   "lot",
   "defectCount",
   "isOffcut",
+  "hold",
 ] as const;
 export type StockRow = Pick<BlockSummary, (typeof STOCK_ROW_FIELDS)[number]>;
 

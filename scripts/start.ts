@@ -9,8 +9,12 @@ import { DEMO_CLUSTER, ensureCluster } from "./pg";
 import { migrateAndSeed } from "./db";
 import { buildIfNeeded } from "./build-if-needed";
 import { DEMO_S3, ensureS3 } from "./s3";
+import { checkLocalServiceHosts } from "./loopback";
 
 async function main() {
+  // The private Postgres and the S3 fake have no passwords: refuse a non-loopback host before
+  // starting either of them (see scripts/loopback.ts).
+  checkLocalServiceHosts(process.env);
   const dev = process.argv.includes("--dev");
   const port = process.env.PORT ?? "3000";
   const url = await ensureCluster(DEMO_CLUSTER);
@@ -27,28 +31,29 @@ async function main() {
     ? spawn("npx", ["next", "dev", "-p", port], { stdio: "inherit", env, detached: true })
     : spawn(process.execPath, ["scripts/serve.mjs", "--port", port], { stdio: "inherit", env, detached: true });
   children.push(web);
-  // One background worker alongside (nesting runs, scheduled alerts); more can run elsewhere.
-  // Supervised: restarted when it dies (a second later, then backing off to a minute when it keeps
-  // dying); its run is swept to "failed" by any live app server or worker meanwhile.
+  // Background workers alongside (nesting runs, scheduled alerts): NESTING_WORKERS of them (1 by
+  // default; more workers may run on other machines against the same database — see README).
+  // Each is supervised: restarted when it dies (a second later, then backing off to a minute when
+  // it keeps dying); its run is swept to "failed" by any live app server or worker meanwhile.
   let stopping = false;
-  let restarts: number[] = [];
-  const startWorker = () => {
+  const workers = workerCount(process.env.NESTING_WORKERS);
+  const startWorker = (n: number, restarts: number[] = []) => {
     const worker = spawn("npm", ["run", "--silent", "worker"], { stdio: "inherit", env, detached: true });
     children.push(worker);
     worker.on("exit", (code, signal) => {
       if (stopping) return;
       const now = Date.now();
-      restarts = [...restarts.filter((t) => now - t < 10 * 60_000), now];
-      const wait = Math.min(60_000, 1000 * 2 ** Math.max(0, restarts.length - 1));
+      const recent = [...restarts.filter((t) => now - t < 10 * 60_000), now];
+      const wait = Math.min(60_000, 1000 * 2 ** Math.max(0, recent.length - 1));
       process.stderr.write(
-        `[start] the worker stopped (${signal ?? `exit ${code}`}); starting another in ${Math.round(wait / 1000)} s\n`,
+        `[start] worker ${n} stopped (${signal ?? `exit ${code}`}); starting another in ${Math.round(wait / 1000)} s\n`,
       );
       setTimeout(() => {
-        if (!stopping) startWorker();
+        if (!stopping) startWorker(n, recent);
       }, wait);
     });
   };
-  startWorker();
+  for (let n = 1; n <= workers; n++) startWorker(n);
   process.stderr.write(`[start] Blockyard on http://localhost:${port} (demo users: see README)\n`);
 
   const stop = (code: number) => {
@@ -68,6 +73,17 @@ async function main() {
   process.on("SIGINT", () => stop(0));
   process.on("SIGTERM", () => stop(0));
   web.on("exit", (code) => stop(code ?? 1));
+}
+
+/** NESTING_WORKERS: how many background workers this machine runs (1 to 16; 0 runs none here). */
+function workerCount(raw: string | undefined): number {
+  if (raw === undefined || raw === "") return 1;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 0 || n > 16) {
+    console.error(`NESTING_WORKERS must be a whole number from 0 to 16 (got "${raw}").`);
+    process.exit(1);
+  }
+  return n;
 }
 
 main().catch((e) => {

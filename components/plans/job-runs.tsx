@@ -1,17 +1,25 @@
+import { formatDate, formatMoney } from "@/lib/format";
 import Link from "next/link";
 import { rowLinkClass } from "@/components/ui/button";
 import { listRuns, type RunSummary } from "@/db/queries/runs";
 import { getShopSettings } from "@/db/queries/settings";
 import { RunStatusBadge } from "./run-status";
+import { getCurrentSession } from "@/lib/auth/session";
+import { seesMoney } from "@/lib/auth/policy";
 
 /** The runs that nested a job's parts, side by side, so the planner can pick the best. */
 export async function JobRuns({ jobId }: { jobId: number }) {
-  const [runs, { feedMmPerMin }] = await Promise.all([listRuns({ jobId, limit: 12 }), getShopSettings()]);
+  const [runs, { feedMmPerMin }, { user }] = await Promise.all([
+    listRuns({ jobId, limit: 12 }),
+    getShopSettings(),
+    getCurrentSession(),
+  ]);
+  const money = !!user && seesMoney(user.roles);
   if (!runs.length)
     return (
       <p className="text-sm text-ink-soft">No runs yet. Plan this job to see how its parts nest into the stock.</p>
     );
-  return <RunTable runs={runs} feedMmPerMin={feedMmPerMin} testId="job-runs" />;
+  return <RunTable runs={runs} feedMmPerMin={feedMmPerMin} testId="job-runs" money={money} />;
 }
 
 /**
@@ -23,11 +31,14 @@ export function RunTable({
   feedMmPerMin,
   currentId,
   testId,
+  money,
 }: {
   runs: RunSummary[];
   feedMmPerMin: number;
   currentId?: number;
   testId: string;
+  /** Whether the person sees money (lib/auth/policy.ts, MONEY): the cost column is left out if not. */
+  money: boolean;
 }) {
   return (
     <div className="overflow-x-auto">
@@ -38,7 +49,7 @@ export function RunTable({
             <th>Status</th>
             <th className="text-right">Yield</th>
             <th className="text-right">Blocks</th>
-            <th className="text-right">Stock cost</th>
+            {money && <th className="text-right">Stock cost</th>}
             <th className="text-right">Offcuts m³</th>
             <th className="text-right">Cut time</th>
             <th className="text-right">Placements · turns</th>
@@ -60,9 +71,7 @@ export function RunTable({
               </td>
               <td className="text-right tabular-nums">{r.stats ? `${(r.stats.yield * 100).toFixed(1)} %` : "–"}</td>
               <td className="text-right tabular-nums">{r.stats?.blocksUsed ?? "–"}</td>
-              <td className="text-right tabular-nums">
-                {r.cost === null ? "–" : r.cost.toLocaleString("en", { style: "currency", currency: "USD" })}
-              </td>
+              {money && <td className="text-right tabular-nums">{formatMoney(r.cost)}</td>}
               <td className="text-right tabular-nums">{r.stats ? (r.stats.offcutVolume / 1e9).toFixed(3) : "–"}</td>
               <td className="text-right tabular-nums">
                 {r.steps
@@ -76,7 +85,7 @@ export function RunTable({
               </td>
               <td className="text-right tabular-nums">{r.best?.unplacedCount ?? "–"}</td>
               <td className="pl-4">{r.settings.layout ?? "–"}</td>
-              <td className="text-right text-ink-faint">{r.createdAt.slice(0, 10)}</td>
+              <td className="text-right text-ink-faint">{formatDate(r.createdAt)}</td>
             </tr>
           ))}
         </tbody>

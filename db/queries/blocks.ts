@@ -3,7 +3,17 @@ import type { Knex } from "knex";
 import { db } from "@/db";
 import { appendLedger } from "./ledger";
 import { HttpError } from "@/lib/errors";
-import { isoDate, shownStatus, type BlockStatus, type Material } from "@/lib/stock";
+import {
+  HOLD_LABELS,
+  OVER_DENSITY_FACTOR,
+  PHYSICAL_STATUSES,
+  densityHold,
+  isoDate,
+  shownStatus,
+  type BlockStatus,
+  type HoldReason,
+  type Material,
+} from "@/lib/stock";
 import type { BlockQuery } from "@/lib/validations/stock";
 
 import type { BlockSummary, Size } from "@/lib/stock-types";
@@ -46,6 +56,10 @@ interface Row {
   fifo: string | number | null;
   received_on: Date | string | null;
   supplier_name: string | null;
+  hold_reason: HoldReason | null;
+  hold_note: string | null;
+  held_at: Date | null;
+  held_by_name: string | null;
 }
 
 const day = (v: Date | string | null): string | null =>
@@ -82,6 +96,15 @@ function toSummary(r: Row, today: string): BlockSummary {
     fifo: r.fifo === null || r.fifo === undefined ? null : Number(r.fifo),
     receivedOn: day(r.received_on),
     supplier: r.supplier_name,
+    hold:
+      r.status === "on_hold" && r.hold_reason && r.held_at
+        ? {
+            reason: r.hold_reason,
+            note: r.hold_note,
+            since: new Date(r.held_at).toISOString(),
+            by: r.held_by_name ?? null,
+          }
+        : null,
   };
 }
 
@@ -91,8 +114,10 @@ function selectBlocks(k: Knex) {
     .join("grades as g", "g.id", "b.grade_id")
     .leftJoin("deliveries as d", "d.id", "b.delivery_id")
     .leftJoin("suppliers as s", "s.id", "d.supplier_id")
+    .leftJoin("users as hu", "hu.id", "b.held_by")
     .select(
       "b.*",
+      "hu.name as held_by_name",
       "g.code as grade_code",
       "g.material",
       "g.never_hot_wire",
@@ -104,7 +129,7 @@ function selectBlocks(k: Knex) {
       "d.received_on",
       "d.po_ref",
       "s.name as supplier_name",
-      k.raw("(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id) AS defect_count"),
+      k.raw("(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id AND z.removed_at IS NULL) AS defect_count"),
     );
 }
 
@@ -124,7 +149,8 @@ function applyFilters(q: Knex.QueryBuilder, f: BlockQuery, today: string) {
   if (f.offcuts === "exclude") q.whereNull("b.parent_id");
   switch (f.status ?? "available") {
     case "available":
-      q.whereIn("b.status", ["in_stock", "earmarked"]);
+      // What stands in the yard: held blocks too, shown with their hold (not free to plan).
+      q.whereIn("b.status", PHYSICAL_STATUSES);
       break;
     case "settling":
       q.where("b.status", "in_stock").where("b.cut_not_before", ">", today);
@@ -149,46 +175,97 @@ const SORT_COLUMNS: Record<BlockQuery["sort"], string> = {
   location: "b.location",
   cost: "b.cost",
 };
+/** The SQL type of each sort column, to read a cursor's value back exactly (timestamps to the µs). */
+const SORT_TYPES: Record<BlockQuery["sort"], string> = {
+  code: "text",
+  grade: "text",
+  volume: "numeric",
+  cut_not_before: "date",
+  received: "timestamptz",
+  location: "text",
+  cost: "numeric",
+};
+
+/** A cursor names one row of one ordering: its sort value (as Postgres writes it) and its id. */
+function encodeCursor(sort: BlockQuery["sort"], key: string, id: number): string {
+  return Buffer.from(JSON.stringify([sort, key, id])).toString("base64url");
+}
+function decodeCursor(sort: BlockQuery["sort"], cursor: string, param: "after" | "before"): [string, number] {
+  try {
+    const [s, key, id] = JSON.parse(Buffer.from(cursor, "base64url").toString("utf8")) as [string, string, number];
+    if (s === sort && typeof key === "string" && Number.isSafeInteger(id)) return [key, id];
+  } catch {
+    /* refused below */
+  }
+  throw new HttpError(400, `${param} is not a cursor of this list (sort "${sort}"): start again from the first page.`);
+}
 
 export type { BlockList } from "@/lib/stock-types";
 import type { BlockList } from "@/lib/stock-types";
 
 /**
  *   listBlocks({ status: "ready", grade: 2, sort: "received", page: 1, pageSize: 50 })
- * One page of stock, with the count and totals of everything the filters match.
+ *   listBlocks({ ..., after: list.next })   // the next page, by keyset
+ * One page of stock, with the count and totals of everything the filters match. With `after` or
+ * `before` the page is found by keyset (the row the cursor names, then the index onwards), so a
+ * deep page costs what the first does; `page` alone is offset paging, kept for links people saved.
  */
 export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<BlockList> {
   const k = db();
+  const col = SORT_COLUMNS[f.sort];
   // No filter reads the grade: counting and totals need the blocks alone (a covering index).
   const filtered = applyFilters(k("blocks as b"), f, today);
+  const backwards = !f.after && !!f.before;
+  const dir = backwards ? (f.dir === "asc" ? "desc" : "asc") : f.dir;
   // The page's ids first, from the narrow index, so a deep page does not build (and count the
-  // defects of) every row it skips; then the full rows of those ids only.
-  const pageIds = applyFilters(
+  // defects of) every row it skips; then the full rows of those ids only. One row more than the
+  // page tells whether there is a page beyond.
+  const idsQ = applyFilters(
     f.sort === "grade" ? k("blocks as b").join("grades as g", "g.id", "b.grade_id") : k("blocks as b"),
     f,
     today,
   )
-    .select("b.id")
-    .orderBy(SORT_COLUMNS[f.sort], f.dir)
-    .orderBy("b.id", f.dir)
-    .limit(f.pageSize)
-    .offset((f.page - 1) * f.pageSize);
-  const pageQ = selectBlocks(k).whereIn("b.id", pageIds).orderBy(SORT_COLUMNS[f.sort], f.dir).orderBy("b.id", f.dir);
-  const [rows, totals] = await Promise.all([
-    pageQ,
+    .select("b.id", k.raw(`${col}::text AS sort_key`))
+    .orderBy(col, dir)
+    .orderBy("b.id", dir)
+    .limit(f.pageSize + 1);
+  const cursor = f.after ?? f.before;
+  if (cursor) {
+    const [key, id] = decodeCursor(f.sort, cursor, f.after ? "after" : "before");
+    idsQ.whereRaw(`(${col}, b.id) ${dir === "asc" ? ">" : "<"} (CAST(? AS ${SORT_TYPES[f.sort]}), ?)`, [key, id]);
+  } else idsQ.offset((f.page - 1) * f.pageSize);
+  const [found, totals] = await Promise.all([
+    idsQ as Promise<{ id: number; sort_key: string }[]>,
     filtered
       .clone()
       .select(k.raw("count(*) AS n, coalesce(sum(b.volume_m3), 0) AS v, coalesce(sum(b.cost), 0) AS c"))
       .first() as Promise<{ n: string; v: string; c: string } | undefined>,
   ]);
-  const items = (rows as Row[]).map((r) => toSummary(r, today));
+  const more = found.length > f.pageSize;
+  const ids = found.slice(0, f.pageSize);
+  if (backwards) ids.reverse();
+  const rows = ids.length
+    ? ((await selectBlocks(k).whereIn(
+        "b.id",
+        ids.map((r) => r.id),
+      )) as Row[])
+    : [];
+  const byId = new Map(rows.map((r) => [r.id, r]));
+  const items = ids.map((r) => toSummary(byId.get(r.id)!, today)).filter(Boolean);
   await attachFifo(items, today);
+  const first = ids[0];
+  const last = ids.at(-1);
+  // Forwards, a page beyond exists when the extra row came; backwards, when it came the other way.
+  const hasNext = backwards ? true : more;
+  const hasPrev = backwards ? more : !!f.after || (!cursor && f.page > 1);
   return {
     items,
     total: Number(totals?.n ?? 0),
     totals: { volumeM3: Number(totals?.v ?? 0), value: Number(totals?.c ?? 0) },
     page: f.page,
     pageSize: f.pageSize,
+    next: hasNext && last ? encodeCursor(f.sort, last.sort_key, last.id) : null,
+    prev: hasPrev && first ? encodeCursor(f.sort, first.sort_key, first.id) : null,
   };
 }
 
@@ -257,10 +334,7 @@ export async function listChildren(
 }
 
 export async function listLocations(): Promise<string[]> {
-  const rows = await db()("blocks")
-    .distinct("location")
-    .whereIn("status", ["in_stock", "earmarked"])
-    .orderBy("location");
+  const rows = await db()("blocks").distinct("location").whereIn("status", PHYSICAL_STATUSES).orderBy("location");
   return rows.map((r: { location: string }) => r.location);
 }
 
@@ -273,6 +347,8 @@ export async function updateBlock(id: number, patch: { location?: string; notes?
     await trx("audit_log").insert({ actor_id: actorId, action: "block.update", subject: `block:${id}`, detail: patch });
   });
 }
+
+const NO_HOLD = { hold_reason: null, hold_note: null, held_at: null, held_by: null };
 
 async function lockAvailable(trx: Knex.Transaction, id: number) {
   const b = await trx("blocks").where({ id }).forUpdate().first();
@@ -295,7 +371,9 @@ async function lockAvailable(trx: Knex.Transaction, id: number) {
 export async function scrapBlock(id: number, reason: string, actorId: string) {
   await db().transaction(async (trx) => {
     const b = await lockAvailable(trx, id);
-    await trx("blocks").where({ id }).update({ status: "written_off", updated_at: trx.fn.now() });
+    await trx("blocks")
+      .where({ id })
+      .update({ status: "written_off", ...NO_HOLD, updated_at: trx.fn.now() });
     await appendLedger(trx, [
       { blockId: id, kind: "scrapped", volumeM3: Number(b.volume_m3), value: Number(b.cost), userId: actorId, reason },
     ]);
@@ -339,7 +417,7 @@ export async function nextBlockCodes(trx: Knex | Knex.Transaction, n: number, pr
  */
 export async function recentCodes(kind: "offcuts" | "received", days: number, limit: number): Promise<string[]> {
   const q = db()("blocks")
-    .whereIn("status", ["in_stock", "earmarked"])
+    .whereIn("status", PHYSICAL_STATUSES)
     .where("created_at", ">=", db().raw("now() - make_interval(days => ?)", [days]))
     .orderBy([{ column: "created_at" }, { column: "id" }])
     .limit(limit)
@@ -347,4 +425,134 @@ export async function recentCodes(kind: "offcuts" | "received", days: number, li
   if (kind === "offcuts") q.whereNotNull("parent_id");
   else q.whereNull("parent_id");
   return (await q) as string[];
+}
+
+/**
+ *   holdBlock(12, { reason: "wet", note: "Water in the core at the saw" }, userId)
+ * Holds a block out of usable stock: not on hand for reorder sums, not offered to planning, until
+ * released. Only a free block (in stock, not earmarked for a plan) is held; the ledger keeps who,
+ * when and why (a zero movement), and so does the audit log.
+ */
+export async function holdBlock(
+  id: number,
+  hold: { reason: HoldReason; note: string | null },
+  actorId: string,
+): Promise<void> {
+  await db().transaction(async (trx) => {
+    const b = await trx("blocks")
+      .where({ id })
+      .forUpdate()
+      .first("id", "code", "status", "hold_reason", "volume_m3", "cost");
+    if (!b) throw new HttpError(404, "That block was not found.");
+    if (b.status === "on_hold")
+      throw new HttpError(
+        409,
+        `Block ${b.code} is already on hold (${HOLD_LABELS[b.hold_reason as HoldReason] ?? b.hold_reason}); release it first to change the reason.`,
+      );
+    if (b.status === "earmarked") {
+      const run = await trx("plan_blocks").where({ block_id: id, status: "reserved" }).first("run_id");
+      throw new HttpError(
+        409,
+        `Block ${b.code} is earmarked for ${run ? `plan #${run.run_id}` : "a plan"}: release it from the plan first, then put it on hold.`,
+      );
+    }
+    if (b.status !== "in_stock") throw new HttpError(409, `Block ${b.code} is no longer in stock.`);
+    await trx("blocks").where({ id }).update({
+      status: "on_hold",
+      hold_reason: hold.reason,
+      hold_note: hold.note,
+      held_at: trx.fn.now(),
+      held_by: actorId,
+      updated_at: trx.fn.now(),
+    });
+    await appendLedger(trx, [
+      {
+        blockId: id,
+        kind: "held",
+        volumeM3: Number(b.volume_m3),
+        value: Number(b.cost),
+        userId: actorId,
+        reason: `On hold: ${HOLD_LABELS[hold.reason]}${hold.note ? ` · ${hold.note}` : ""}`,
+      },
+    ]);
+    await trx("audit_log").insert({ actor_id: actorId, action: "block.hold", subject: `block:${id}`, detail: hold });
+  });
+}
+
+/**
+ *   releaseBlock(12, { weightKg: 171.5, note: null }, userId)
+ * Puts a held block back into usable stock, with its new weight when it was weighed again. A block
+ * whose density is (still) outside its grade is released only with a note saying why it may be
+ * used anyway; otherwise it stays on hold (claim it, or write it off).
+ */
+export async function releaseBlock(
+  id: number,
+  input: { weightKg: number | null; note: string | null },
+  actorId: string,
+): Promise<void> {
+  await db().transaction(async (trx) => {
+    const b = await trx("blocks as b")
+      .join("grades as g", "g.id", "b.grade_id")
+      .where("b.id", id)
+      .forUpdate("b")
+      .first(
+        "b.id",
+        "b.code",
+        "b.status",
+        "b.hold_reason",
+        "b.weight_kg",
+        "b.volume_m3",
+        "b.cost",
+        "g.code as grade_code",
+        "g.min_density_kg_m3",
+      );
+    if (!b) throw new HttpError(404, "That block was not found.");
+    if (b.status !== "on_hold") throw new HttpError(409, `Block ${b.code} is not on hold.`);
+    const weight = input.weightKg ?? (b.weight_kg === null ? null : Number(b.weight_kg));
+    const density = weight === null ? null : weight / Number(b.volume_m3);
+    const min = b.min_density_kg_m3 === null ? null : Number(b.min_density_kg_m3);
+    const off = densityHold(density, min);
+    if (off && !input.note) {
+      const where =
+        off === "under_density"
+          ? `still below the ${b.grade_code} minimum of ${min} kg/m³`
+          : `more than ${OVER_DENSITY_FACTOR} × the ${b.grade_code} minimum of ${min} kg/m³`;
+      throw new HttpError(
+        409,
+        `Block ${b.code} weighs in at ${density!.toFixed(1)} kg/m³, ${where}. Keep it on hold and claim it from the supplier or write it off; to use it anyway, say why in the note.`,
+        { note: `Say why ${b.code} may be used at ${density!.toFixed(1)} kg/m³.` },
+      );
+    }
+    await trx("blocks")
+      .where({ id })
+      .update({
+        status: "in_stock",
+        ...NO_HOLD,
+        ...(input.weightKg !== null ? { weight_kg: input.weightKg } : {}),
+        updated_at: trx.fn.now(),
+      });
+    const parts = [
+      `Was on hold: ${HOLD_LABELS[b.hold_reason as HoldReason] ?? b.hold_reason}`,
+      input.weightKg !== null && density !== null
+        ? `re-weighed ${input.weightKg} kg (${density.toFixed(1)} kg/m³)`
+        : null,
+      input.note,
+    ].filter(Boolean);
+    await appendLedger(trx, [
+      {
+        blockId: id,
+        kind: "hold_released",
+        volumeM3: Number(b.volume_m3),
+        value: Number(b.cost),
+        userId: actorId,
+        reason: parts.join(" · "),
+      },
+    ]);
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "block.release",
+      subject: `block:${id}`,
+      detail: { was: b.hold_reason, weightKg: input.weightKg, note: input.note },
+    });
+  });
 }

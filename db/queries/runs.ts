@@ -11,20 +11,22 @@ import { isoDate } from "@/lib/stock";
 import { parseProblem, type Plan, type Problem } from "@/lib/nesting";
 import { MAX_PIECES } from "@/lib/nesting/parse";
 import { buildProblem, partIdFromKey, partKey, type StockForPlan } from "@/lib/planning/problem";
-import { cutEstimate } from "@/lib/planning/wire-travel";
-import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
+import {
+  bestFigures,
+  blocksInPlan,
+  planFigures,
+  stuckBlocks,
+  type PlanFigures,
+  type RunFigures,
+} from "@/lib/planning/plan-figures";
 import { runSettingsSchema, type RunSettings } from "@/lib/validations/runs";
+import { leftOutLine, whyUnusable, type LeftOut } from "@/lib/planning/usable";
 import { getShopSettings } from "./settings";
+import { zoneChangesSince, type ZoneChangeAfterPlan } from "./defects";
 
 export type RunStatus = "queued" | "running" | "done" | "failed" | "cancelled" | "approved" | "closed";
 
-export interface RunFigures {
-  placedVolume: number;
-  blocksUsed: number;
-  yield: number;
-  unplacedCount: number;
-  lowerBoundBlocks: number;
-}
+export type { RunFigures };
 
 export interface RunSummary {
   id: number;
@@ -49,6 +51,8 @@ export interface RunSummary {
   steps: PlanFigures["steps"] | null;
   /** Blocks holding pieces no cut can free (free layout only); such a plan cannot be approved. */
   stuckBlocks: string[];
+  /** Chosen blocks the run left out of its problem, each with the reason. */
+  leftOut: LeftOut[];
 }
 
 export interface RunDetail extends RunSummary {
@@ -65,17 +69,11 @@ export interface RunDetail extends RunSummary {
     partial: boolean;
   }[];
   parts: { id: number; name: string; jobId: number; trueVolumeMm3: number | null }[];
-}
-
-/** What lists show of a finished plan, stored with it (`nesting_runs.summary`). */
-interface PlanFigures {
-  stats: Plan["stats"];
-  cost: number | null;
-  cutLengthMm: number | null;
-  /** Absent in summaries stored before plans could be uncuttable (all of them were cut trees). */
-  stuckBlocks?: string[];
-  /** The cutting steps on the run's machine (absent before machines, or past the steps' piece limit). */
-  steps?: { machine: string; placements: number; turns: number; minutes: number };
+  /**
+   * Defect zones of the plan's blocks (not yet cut under it) flagged, changed or removed after the
+   * plan was made: the plan kept clear of the zones as they were then.
+   */
+  zoneChanges: ZoneChangeAfterPlan[];
 }
 
 interface RunRow {
@@ -97,45 +95,13 @@ interface RunRow {
   approved_at: Date | null;
   parent_run_id: number | null;
   created_by_name?: string | null;
-}
-
-function planCost(problem: Problem, plan: Plan | null): number | null {
-  if (!plan || !problem.blocks) return null;
-  const used = new Set(Object.keys(plan.cuts).concat(plan.placements.map((p) => p.block)));
-  return problem.blocks.filter((b) => used.has(b.id)).reduce((s, b) => s + b.cost, 0);
-}
-
-function planCutLength(problem: Problem, plan: Plan | null): number | null {
-  if (!plan || !problem.blocks) return null;
-  return problem.blocks.reduce((sum, b) => {
-    const cuts = plan.cuts[b.id];
-    if (!cuts?.length) return sum;
-    return (
-      sum +
-      cutEstimate(b.size, cuts, 1, 10, { trim: b.trim, kerf: problem.settings.kerf, pieces: piecesOf(plan, b.id) })
-        .lengthMm
-    );
-  }, 0);
+  left_out?: LeftOut[] | null;
 }
 
 export async function jobNames(ids: number[]): Promise<Map<number, string>> {
   if (!ids.length) return new Map();
   const rows = await db()("jobs").whereIn("id", ids).select("id", "name");
   return new Map(rows.map((r: { id: number; name: string }) => [r.id, r.name]));
-}
-
-/** Blocks of a plan holding pieces that no through cut frees nor a profile cutter in one layer. */
-function stuckBlocks(problem: Problem, plan: Plan): string[] {
-  return blocksInPlan(plan).filter((b) => stuckPieces(plan, b, problem.settings.kerf) > 0);
-}
-
-function planFigures(problem: Problem, plan: Plan): PlanFigures {
-  return {
-    stats: plan.stats,
-    cost: planCost(problem, plan),
-    cutLengthMm: planCutLength(problem, plan),
-    stuckBlocks: stuckBlocks(problem, plan),
-  };
 }
 
 function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
@@ -161,6 +127,7 @@ function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
     steps: figures?.steps ?? null,
     // Figures stored before plans could be uncuttable lack it: ask the plan when it is at hand.
     stuckBlocks: figures?.stuckBlocks ?? (r.plan && r.problem ? stuckBlocks(r.problem, r.plan) : []),
+    leftOut: r.left_out ?? [],
   };
 }
 
@@ -209,7 +176,7 @@ async function stockForPlan(
     .whereIn("b.id", blockIds)
     .select("b.*", "g.code as grade_code", "g.never_hot_wire")
     .orderBy("b.id");
-  const defects = await trx("defect_zones").whereIn("block_id", blockIds).orderBy("id");
+  const defects = await trx("defect_zones").whereIn("block_id", blockIds).whereNull("removed_at").orderBy("id");
   return rows.map((r: Record<string, unknown>) => ({
     id: r.id as number,
     code: r.code as string,
@@ -246,8 +213,15 @@ export interface Candidate {
 /**
  * Stock a run may use for these jobs: ready (cut-not-before passed), in stock, of the grades the
  * parts need (any hot-wireable grade for parts without one), never a no-hot-wire grade; oldest first.
+ * Only blocks that can hold some part still owed (after the face trim, in a way the part may be
+ * turned) are offered; the others are listed in `leftOut`, each with the reason.
  */
-export async function candidateStock(jobIds: number[], today = isoDate()): Promise<Candidate[]> {
+export async function candidateStock(
+  jobIds: number[],
+  opts: { today?: string; trim?: number } = {},
+): Promise<{ items: Candidate[]; leftOut: LeftOut[] }> {
+  const today = opts.today ?? isoDate();
+  const [owed, trim] = await Promise.all([owedParts(db(), jobIds), opts.trim ?? getShopSettings().then((s) => s.trim)]);
   const grades = await db()("job_parts").whereIn("job_id", jobIds).distinct("grade_id").pluck("grade_id");
   const anyGrade = grades.includes(null);
   const q = db()("blocks as b")
@@ -267,7 +241,9 @@ export async function candidateStock(jobIds: number[], today = isoDate()): Promi
       "b.location",
       "g.code as grade_code",
       db().raw("coalesce(b.moulded_on, b.created_at::date) AS since"),
-      db().raw("(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id) AS defect_count"),
+      db().raw(
+        "(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id AND z.removed_at IS NULL) AS defect_count",
+      ),
     )
     .orderByRaw("coalesce(b.moulded_on, b.created_at::date), b.id")
     .limit(500);
@@ -277,7 +253,7 @@ export async function candidateStock(jobIds: number[], today = isoDate()): Promi
       grades.filter((g): g is number => g !== null),
     );
   const rows = await q;
-  return rows.map((r: Record<string, unknown>) => ({
+  const all: Candidate[] = rows.map((r: Record<string, unknown>) => ({
     id: r.id as number,
     code: r.code as string,
     gradeCode: r.grade_code as string,
@@ -289,9 +265,22 @@ export async function candidateStock(jobIds: number[], today = isoDate()): Promi
     defectCount: Number(r.defect_count),
     since: isoDate(r.since as Date),
   }));
+  const items: Candidate[] = [];
+  const leftOut: LeftOut[] = [];
+  for (const c of all) {
+    const reason = whyUnusable(c, owed, trim);
+    if (reason) leftOut.push({ id: c.id, code: c.code, reason });
+    else items.push(c);
+  }
+  return { items, leftOut };
 }
 
-/** Creates a queued run for the jobs' owed parts (or the given part quantities) in the chosen stock. */
+/**
+ * Creates a queued run for the jobs' owed parts (or the given part quantities) in the chosen stock.
+ * One block never stops a run: blocks that cannot be used (not free, settling, no-hot-wire, too
+ * small for any part after trim, or refused by the problem's checks) are left out with the reason,
+ * kept with the run and returned; only when nothing usable is left is the run refused.
+ */
 export async function createRun(
   input: {
     jobIds: number[];
@@ -302,7 +291,7 @@ export async function createRun(
     machineId?: number | null;
   },
   actorId: string,
-): Promise<number> {
+): Promise<{ id: number; leftOut: LeftOut[] }> {
   return db().transaction(async (trx) => {
     const jobs = await trx("jobs").whereIn("id", input.jobIds).select("id", "status");
     if (jobs.length !== new Set(input.jobIds).size)
@@ -334,18 +323,31 @@ export async function createRun(
           ? `Nothing is left to plan: every part still owed is in approved ${plansNamed(heldRuns)}, waiting to be cut. Release a plan first to plan those parts again.`
           : "Nothing is owed on these jobs: every part has been cut.",
       );
-    const stock = await stockForPlan(trx, input.blockIds);
-    const fields: Record<string, string> = {};
-    if (stock.length !== new Set(input.blockIds).size) fields.blockIds = "Some of that stock does not exist.";
+    const chosen = await stockForPlan(trx, input.blockIds);
+    if (chosen.length !== new Set(input.blockIds).size)
+      throw new HttpError(400, "Some fields need attention.", { blockIds: "Some of that stock does not exist." });
     const today = isoDate();
-    for (const b of stock) {
-      if (b.neverHotWire)
-        fields.blockIds = `${b.code} is a no-hot-wire grade (polyurethane): it cannot go into a hot-wire plan.`;
-      else if (b.status !== "in_stock")
-        fields.blockIds = `${b.code} is not free (${b.status === "earmarked" ? "earmarked for another plan" : "no longer in stock"}).`;
-      else if (b.cutNotBefore > today) fields.blockIds = `${b.code} is still settling until ${b.cutNotBefore}.`;
-    }
-    if (Object.keys(fields).length) throw new HttpError(409, fields.blockIds ?? "That stock cannot be used.", fields);
+    const leftOut: LeftOut[] = [];
+    const leave = (b: { id: number; code: string }, reason: string) => leftOut.push({ id: b.id, code: b.code, reason });
+    let stock = chosen.filter((b) => {
+      const reason = b.neverHotWire
+        ? "a no-hot-wire grade (polyurethane): it cannot go into a hot-wire plan"
+        : b.status !== "in_stock"
+          ? `not free (${b.status === "earmarked" ? "earmarked for another plan" : b.status === "on_hold" ? "on hold until the buyer releases it" : "no longer in stock"})`
+          : b.cutNotBefore > today
+            ? `still settling until ${b.cutNotBefore}`
+            : whyUnusable(b, parts, input.settings.trim);
+      if (reason) leave(b, reason);
+      return !reason;
+    });
+    const refuseAll = () => {
+      const lines = leftOut.map(leftOutLine);
+      const shown = lines.slice(0, 5).join("; ") + (lines.length > 5 ? `; and ${lines.length - 5} more` : "");
+      return new HttpError(409, `None of the chosen stock can be used for these parts: ${shown}.`, {
+        blockIds: `${lines[0] ?? "No stock chosen"}.`,
+      });
+    };
+    if (!stock.length) throw refuseAll();
     // Made for one block cutter: its calibrated kerf for the grades involved (the widest of them).
     let settings = input.settings;
     if (input.machineId) {
@@ -362,8 +364,22 @@ export async function createRun(
       const { kerf } = kerfAndFeed(machine, gradeIds, { kerf: input.settings.kerf, feed: 0 });
       settings = { ...input.settings, kerf };
     }
-    const problem = buildProblem(parts, stock, settings);
-    const parsed = parseProblem(problem);
+    let parsed = parseProblem(buildProblem(parts, stock, settings));
+    // A block the problem's checks refuse (its record disagrees with itself, such as a zone left
+    // outside it by a re-measure) is left out with the check's words, not the whole run refused.
+    for (let round = 0; !parsed.ok && round < 2; round++) {
+      const bad = new Map<number, string>();
+      for (const e of parsed.errors) {
+        const m = /^blocks\[(\d+)\][^:]*: (.*)$/.exec(e);
+        const i = m ? Number(m[1]) : -1;
+        if (m && stock[i] && !bad.has(i)) bad.set(i, `its record cannot be planned: ${m[2]}`);
+      }
+      if (!bad.size) break;
+      for (const [i, reason] of bad) leave(stock[i]!, reason);
+      stock = stock.filter((_, i) => !bad.has(i));
+      if (!stock.length) throw refuseAll();
+      parsed = parseProblem(buildProblem(parts, stock, settings));
+    }
     if (!parsed.ok)
       throw new HttpError(400, `The nesting problem is not valid: ${parsed.errors.slice(0, 3).join("; ")}`);
     const [run] = await trx("nesting_runs")
@@ -376,15 +392,16 @@ export async function createRun(
         problem: JSON.stringify(parsed.problem),
         parent_run_id: input.parentRunId ?? null,
         created_by: actorId,
+        left_out: JSON.stringify(leftOut),
       })
       .returning("id");
     await trx("audit_log").insert({
       actor_id: actorId,
       action: "run.create",
       subject: `run:${run.id}`,
-      detail: { jobIds: input.jobIds, blocks: stock.length },
+      detail: { jobIds: input.jobIds, blocks: stock.length, leftOut },
     });
-    return run.id as number;
+    return { id: run.id as number, leftOut };
   });
 }
 
@@ -407,6 +424,7 @@ const LIGHT_COLUMNS = [
   "approved_at",
   "parent_run_id",
   "summary",
+  "left_out",
 ].map((c) => `r.${c}`);
 
 /** Newest first; `beforeId` pages back through older runs (keyset: `id < beforeId`). */
@@ -474,6 +492,11 @@ export async function getRun(id: number): Promise<RunDetail | undefined> {
   const parts = partIds.length
     ? await db()("job_parts").whereIn("id", partIds).select("id", "name", "job_id", "true_volume_mm3")
     : [];
+  // Only a plan still to be cut relies on its zones; a block already cut under it no longer does.
+  const relying = ["queued", "running", "done", "approved"].includes(r.status)
+    ? (blocks as { id: number; plan_status: string | null }[]).filter((b) => b.plan_status !== "cut").map((b) => b.id)
+    : [];
+  const zoneChanges = await zoneChangesSince(relying, r.created_at);
   return {
     ...toSummary(r, names),
     machineId: (r as { machine_id?: number | null }).machine_id ?? null,
@@ -500,18 +523,33 @@ export async function getRun(id: number): Promise<RunDetail | undefined> {
       jobId: p.job_id,
       trueVolumeMm3: p.true_volume_mm3 === null ? null : Number(p.true_volume_mm3),
     })),
+    zoneChanges,
   };
 }
 
 // ---- worker side ----
 
-/** Claims a queued run for this worker (false if it was cancelled or taken meanwhile). */
-export async function claimRun(id: number): Promise<Problem | null> {
+/**
+ * Claims a run for `worker`: a queued one, or one whose worker stopped (no heartbeat for
+ * `staleSeconds`) and that the sweep has not reached yet. A run another live worker holds is
+ * never taken, so no run is done twice. Null if it was cancelled, finished or is held.
+ */
+export async function claimRun(id: number, worker: string, staleSeconds = 90): Promise<Problem | null> {
+  const stale = Math.max(5, Math.floor(staleSeconds));
   const [row] = await db()("nesting_runs")
     .where({ id })
-    .whereIn("status", ["queued", "running"])
+    .where((q) =>
+      q
+        .where("status", "queued")
+        .orWhere((r) =>
+          r
+            .where("status", "running")
+            .where("heartbeat_at", "<", db().raw("now() - make_interval(secs => ?)", [stale])),
+        ),
+    )
     .update({
       status: "running",
+      worker,
       started_at: db().fn.now(),
       heartbeat_at: db().fn.now(),
       attempts: db().raw("attempts + 1"),
@@ -521,16 +559,28 @@ export async function claimRun(id: number): Promise<Problem | null> {
   return row ? (row.problem as Problem) : null;
 }
 
-export async function saveProgress(id: number, progress: number, best: RunFigures): Promise<RunStatus | undefined> {
+/**
+ * Writes progress and the heartbeat, only while `worker` still holds the run; the status it
+ * answers tells the worker to stop (cancelled, or undefined when another worker has it now).
+ */
+export async function saveProgress(
+  id: number,
+  worker: string,
+  progress: number,
+  best: RunFigures,
+): Promise<RunStatus | undefined> {
   const [row] = await db()("nesting_runs")
-    .where({ id })
+    .where({ id, worker })
     .update({ progress, best, heartbeat_at: db().fn.now() })
     .returning("status");
   return row?.status;
 }
 
-/** Stores a run's plan with the figures lists show; `problem` is the one the worker claimed. */
-export async function finishRun(id: number, problem: Problem, plan: Plan): Promise<void> {
+/**
+ * Stores a run's plan with the figures lists show; `problem` is the one `worker` claimed. Nothing is
+ * written when another worker holds the run now (this one was taken for dead).
+ */
+export async function finishRun(id: number, worker: string, problem: Problem, plan: Plan): Promise<void> {
   const figures = planFigures(problem, plan);
   // The cutting steps on the run's machine, for comparing plans by placements and time.
   try {
@@ -548,7 +598,7 @@ export async function finishRun(id: number, problem: Problem, plan: Plan): Promi
     /* figures without steps: the plan page works them out */
   }
   await db()("nesting_runs")
-    .where({ id })
+    .where({ id, worker })
     .whereIn("status", ["running", "cancelled"])
     .update({
       // A cancelled run keeps its best plan so far, but stays cancelled.
@@ -557,19 +607,14 @@ export async function finishRun(id: number, problem: Problem, plan: Plan): Promi
       summary: JSON.stringify(figures),
       progress: 1,
       finished_at: db().fn.now(),
-      best: {
-        placedVolume: plan.stats.partVolume,
-        blocksUsed: plan.stats.blocksUsed,
-        yield: plan.stats.yield,
-        unplacedCount: plan.unplaced.reduce((s, u) => s + u.count, 0),
-        lowerBoundBlocks: plan.stats.lowerBoundBlocks,
-      },
+      best: bestFigures(plan),
     });
 }
 
-export async function failRun(id: number, message: string): Promise<void> {
+/** Marks a run failed; with `worker`, only while that worker still holds it. */
+export async function failRun(id: number, message: string, worker?: string): Promise<void> {
   await db()("nesting_runs")
-    .where({ id })
+    .where({ id, ...(worker ? { worker } : {}) })
     .whereIn("status", ["queued", "running"])
     .update({ status: "failed", error: message.slice(0, 500), finished_at: db().fn.now() });
 }
@@ -599,10 +644,6 @@ export async function cancelRun(id: number, actorId: string): Promise<void> {
 }
 
 // ---- approval and release ----
-
-function blocksInPlan(plan: Plan): string[] {
-  return [...new Set(plan.placements.map((p) => p.block))];
-}
 
 /**
  * Approves a finished plan: reserves every block it uses in one transaction. A block can be held
@@ -659,7 +700,9 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
             409,
             other
               ? `Block ${b.code} is already earmarked by plan #${other.run_id}. Re-plan without it, or release that plan first.`
-              : `Block ${b.code} is no longer in stock.`,
+              : b.status === "on_hold"
+                ? `Block ${b.code} was put on hold since this plan was made. Re-plan without it, or have the buyer release it first.`
+                : `Block ${b.code} is no longer in stock.`,
           );
         }
       }
@@ -766,8 +809,6 @@ export async function replanRun(runId: number, actorId: string): Promise<number>
   const owed = await owedByRun(runId);
   if (![...owed.values()].some((n) => n > 0))
     throw new HttpError(409, "This plan owes no parts: nothing was rejected or left unplaced.");
-  const stock = await candidateStock(run.job_ids);
-  if (!stock.length) throw new HttpError(409, "No ready stock of the needed grades is free to plan into.");
   // Runs recorded before planning moved into Blockyard (demo history) kept no settings: re-plan
   // those with the shop's current ones rather than fail.
   const own = runSettingsSchema.safeParse(run.settings);
@@ -784,8 +825,15 @@ export async function replanRun(runId: number, actorId: string): Promise<number>
       timeLimitMs: shop.nestingTimeLimitMs,
     };
   }
-  return createRun(
+  const { items: stock, leftOut } = await candidateStock(run.job_ids, { trim: settings.trim });
+  if (!stock.length)
+    throw new HttpError(
+      409,
+      `No ready stock of the needed grades is free to plan into${leftOut.length ? ` (${leftOut.slice(0, 3).map(leftOutLine).join("; ")})` : ""}.`,
+    );
+  const made = await createRun(
     { jobIds: run.job_ids, blockIds: stock.map((s) => s.id), settings, quantities: owed, parentRunId: runId },
     actorId,
   );
+  return made.id;
 }

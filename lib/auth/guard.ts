@@ -6,11 +6,16 @@ import type { z } from "zod";
 import { getCurrentSession, type CurrentUser } from "./session";
 import {
   API_POLICY,
+  MONEY_FIELDS,
   PAGE_POLICY,
   allows,
+  seesMoney,
+  withoutMoney,
   type Access,
+  type GuardedPageKey,
   type GuardedRouteKey,
   type PageKey,
+  type PublicPageKey,
   type PublicRouteKey,
   type RouteKey,
 } from "./policy";
@@ -22,12 +27,16 @@ export const PATH_HEADER = "x-blockyard-path";
 /**
  * For pages: the signed-in user whom PAGE_POLICY[key] admits (admin always passes); someone
  * signed out goes to sign-in, someone without the role home with a notice. Someone still on a
- * temporary password is sent to the account page to choose their own first.
+ * temporary password is sent to the account page to choose their own first. A public page lets
+ * everyone in and gives whoever is signed in, or null.
  *
  *   const user = await requirePage("/plans/[runId]/cut");
  */
-export async function requirePage(key: PageKey): Promise<CurrentUser> {
+export async function requirePage(key: PublicPageKey): Promise<CurrentUser | null>;
+export async function requirePage(key: GuardedPageKey): Promise<CurrentUser>;
+export async function requirePage(key: PageKey): Promise<CurrentUser | null> {
   const { user } = await getCurrentSession();
+  if (PAGE_POLICY[key] === "public") return user;
   if (!user) redirect("/sign-in");
   if (user.mustChangePassword) {
     const path = (await headers()).get(PATH_HEADER);
@@ -99,7 +108,10 @@ export function api<P>(key: RouteKey, handler: Handler<P, CurrentUser> | Handler
       const params = (await context?.params) ?? ({} as P);
       const out = await run({ req, params, user });
       if (out instanceof Response) return noStore(out);
-      return noStore(NextResponse.json(out ?? { ok: true }));
+      // Money figures only for the roles that see money (lib/auth/policy.ts, MONEY).
+      const money = MONEY_FIELDS[key];
+      const shown = money && user && !seesMoney(user.roles) ? withoutMoney(out, money) : out;
+      return noStore(NextResponse.json(shown ?? { ok: true }));
     } catch (e) {
       return errorResponse(e);
     }

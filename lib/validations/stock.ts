@@ -66,11 +66,19 @@ export const supplierSchema = z.object({
     .optional()
     .or(z.literal("").transform(() => null)),
   phone: optionalText("Phone", 60),
+  /** Working days, as suppliers quote them. */
   leadTimeDays: z
     .number({ error: "Lead time must be a number." })
-    .int("Lead time must be whole days.")
+    .int("Lead time must be whole working days.")
     .min(0, "Lead time cannot be negative.")
-    .max(365, "At most 365 days."),
+    .max(365, "At most 365 working days."),
+  /** How many working days deliveries stray from the promised date (one standard deviation); left out: unchanged. */
+  leadTimeSdDays: z
+    .number({ error: "Lead time spread must be a number." })
+    .finite("Lead time spread must be a number.")
+    .min(0, "Lead time spread cannot be negative.")
+    .max(100, "At most 100 working days.")
+    .optional(),
   notes: optionalText("Notes"),
   active: z.boolean().optional(),
 });
@@ -123,6 +131,12 @@ export const blockQuerySchema = z.object({
   dir: z.enum(["asc", "desc"]).default("asc"),
   page: z.coerce.number().int().min(1).max(100_000).default(1),
   pageSize: z.coerce.number().int().min(1).max(200).default(50),
+  /**
+   * Keyset paging: the page after (or before) the row this cursor names, as `next` and `prev` of
+   * an answer give them; `page` is then only the number shown. Any depth costs the same.
+   */
+  after: z.string().max(300, { error: "after is a cursor from a list answer." }).optional(),
+  before: z.string().max(300, { error: "before is a cursor from a list answer." }).optional(),
 });
 export type BlockQuery = z.infer<typeof blockQuerySchema>;
 
@@ -155,11 +169,37 @@ export const defectSchema = z
   });
 export type DefectInput = z.infer<typeof defectSchema>;
 
+/**
+ * A correction of a zone: any of kind, min, max and note. The box as it ends up (the zone's own
+ * values for what is left out) is checked on the server: each max above its min, inside the block.
+ */
+export const defectPatchSchema = z
+  .object({
+    kind: z.enum(DEFECT_KINDS, { error: "Choose what kind of defect it is." }).optional(),
+    min: z
+      .tuple([nonNegative("min x", 30_000), nonNegative("min y", 30_000), nonNegative("min z", 30_000)], {
+        error: "min must be three numbers (x, y, z in mm).",
+      })
+      .optional(),
+    max: z
+      .tuple([positive("max x", 30_000), positive("max y", 30_000), positive("max z", 30_000)], {
+        error: "max must be three numbers (x, y, z in mm).",
+      })
+      .optional(),
+    /** Empty or null clears the note. */
+    note: text("Note", 500).nullable().optional(),
+  })
+  .strict()
+  .refine((d) => Object.keys(d).length > 0, { message: "Say what to change: kind, min, max or note." });
+export type DefectPatch = z.infer<typeof defectPatchSchema>;
+
 export const ledgerQuery = z.object({
   block: z.coerce.number().int().positive().optional(),
   kind: z.enum(LEDGER_KINDS).optional(),
   from: z.iso.date().optional(),
   to: z.iso.date().optional(),
+  /** Keyset paging: entries older than this entry id (the `older` of the previous page). */
+  before: z.coerce.number().int().positive().max(Number.MAX_SAFE_INTEGER).optional(),
   page: z.coerce.number().int().min(1).max(100_000).default(1),
   pageSize: z.coerce.number().int().min(1).max(500).default(100),
 });

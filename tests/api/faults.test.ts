@@ -6,6 +6,7 @@ import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, makeBlock, testDb } from "../support/db";
 import { diff, fingerprint } from "../support/fingerprint";
 import { makeJobWithParts } from "../support/planning-fixtures";
+import { killGroup, pauseSharedWorker, sleep, startWorker, until } from "../support/workers";
 import { TEST_CLUSTER, TEST_SLOT, ensureCluster, stopCluster } from "@/scripts/pg";
 import { DEMO_PASSWORD } from "@/db/seeds/01_shop";
 
@@ -17,37 +18,10 @@ import { DEMO_PASSWORD } from "@/db/seeds/01_shop";
 const ownsCluster = !process.env.TEST_DATABASE_URL;
 const children = new Set<ChildProcess>();
 
-function killGroup(child: ChildProcess | undefined, signal: NodeJS.Signals = "SIGKILL") {
-  if (child?.pid && child.exitCode === null && child.signalCode === null) {
-    try {
-      process.kill(-child.pid, signal);
-    } catch {
-      /* gone */
-    }
-  }
-}
-
 afterAll(async () => {
   for (const c of children) killGroup(c);
   await closeTestDb();
 });
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-
-async function until<T>(
-  what: string,
-  probe: () => Promise<T | undefined | false>,
-  ms = 60_000,
-  every = 200,
-): Promise<T> {
-  const end = Date.now() + ms;
-  for (;;) {
-    const v = await probe().catch(() => undefined);
-    if (v) return v;
-    if (Date.now() > end) throw new Error(`timed out waiting for ${what}`);
-    await sleep(every);
-  }
-}
 
 /** Starts the cluster again with DATABASE_URL hidden (ensureCluster uses a set DATABASE_URL as is). */
 async function startCluster() {
@@ -242,42 +216,8 @@ describe("the app is killed in the middle of an import", () => {
 const workerLog = `.data/faults-worker${TEST_SLOT ? `-${TEST_SLOT}` : ""}.log`;
 
 /** Starts a worker of this file's own and waits until it polls for jobs (its "ready" line). */
-async function startOwnWorker(): Promise<ChildProcess> {
-  const from = fs.existsSync(workerLog) ? fs.statSync(workerLog).size : 0;
-  const log = fs.openSync(workerLog, "a");
-  const child = spawn("npm", ["run", "--silent", "worker"], {
-    env: { ...process.env, RUN_STALE_SECONDS: "5", RUN_SWEEP_SECONDS: "1" },
-    detached: true,
-    stdio: ["ignore", log, log],
-  });
-  children.add(child);
-  const state = await until(
-    "the worker to be ready",
-    async () => {
-      if (child.exitCode !== null) return "exited";
-      return fs.readFileSync(workerLog, "utf8").slice(from).includes("[worker] ready") && "ready";
-    },
-    120_000,
-    100,
-  );
-  if (state === "exited") throw new Error(`the worker exited (${child.exitCode}); see ${workerLog}`);
-  return child;
-}
+const startOwnWorker = () => startWorker(workerLog, { RUN_STALE_SECONDS: "5", RUN_SWEEP_SECONDS: "1" }, children);
 
-/**
- * The shared test worker (started by `npm test`, its process group in TEST_WORKER_PGID) would
- * compete for the run: it is paused while this file's worker takes one, and resumed after.
- */
-const sharedWorker = Number(process.env.TEST_WORKER_PGID) || undefined;
-function pauseSharedWorker(paused: boolean) {
-  if (!sharedWorker) return false;
-  try {
-    process.kill(-sharedWorker, paused ? "SIGSTOP" : "SIGCONT");
-    return true;
-  } catch {
-    return false;
-  }
-}
 afterAll(() => void pauseSharedWorker(false));
 
 describe("a worker is killed in the middle of a nesting run", () => {

@@ -192,6 +192,16 @@ const ALLOWED_DYNAMIC_SQL: { file: string; sql: string; why: string }[] = [
     why: "DDL from the constant role list",
   },
   {
+    file: "db/queries/blocks.ts",
+    sql: "`${col}::text AS sort_key`",
+    why: "the sort column comes from that file's SORT_COLUMNS constant (the request picks a key of an enum)",
+  },
+  {
+    file: "db/queries/blocks.ts",
+    sql: '`(${col}, b.id) ${dir === "asc" ? ">" : "<"} (CAST(? AS ${SORT_TYPES[f.sort]}), ?)`',
+    why: "column and SQL type from that file's constants, the operator from the sort direction; the cursor's values are bound",
+  },
+  {
     file: "db/queries/reports.ts",
     sql: "`${column} >= ?::date AND ${column} < ?::date + 1`",
     why: "column names are constants of that file; the dates are bound",
@@ -201,6 +211,11 @@ const ALLOWED_DYNAMIC_SQL: { file: string; sql: string; why: string }[] = [
   {
     file: "db/queries/reports.ts",
     sql: 'inPeriod(k, "d.received_on", p)',
+    why: "a Knex.Raw built with bindings above",
+  },
+  {
+    file: "db/queries/reports.ts",
+    sql: 'inPeriod(k, "c.created_at", p)',
     why: "a Knex.Raw built with bindings above",
   },
 ];

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requirePage } from "@/lib/auth/guard";
-import { allows } from "@/lib/auth/policy";
+import { MONEY_FIELDS, allows, seesMoney, withoutMoney } from "@/lib/auth/policy";
 import { listBlocks, listLocations } from "@/db/queries/blocks";
 import { listGrades } from "@/db/queries/grades";
 import { blockQuerySchema } from "@/lib/validations/stock";
@@ -26,7 +26,7 @@ export default async function StockPage({
   const parsed = blockQuerySchema.safeParse(raw);
   const query = parsed.success ? parsed.data : blockQuerySchema.parse({});
   const [list, grades, locations, unit] = await Promise.all([
-    listBlocks(query),
+    listBlocks(query).then((l) => (seesMoney(user.roles) ? l : withoutMoney(l, MONEY_FIELDS["GET /api/blocks"]!))),
     listGrades(),
     listLocations(),
     displayUnit(user),

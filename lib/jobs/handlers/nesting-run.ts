@@ -1,8 +1,13 @@
+import os from "node:os";
 import { performance } from "node:perf_hooks";
 import { nest } from "@/lib/nesting";
 import { QUEUES } from "@/lib/jobs/queues";
 import type { JobDefinition } from "@/lib/jobs/registry";
 import { claimRun, failRun, failStaleRuns, finishRun, saveProgress } from "@/db/queries/runs";
+
+/** This worker's name on the runs it holds: NESTING_WORKER_NAME, or host:pid. */
+export const workerName = (): string => process.env.NESTING_WORKER_NAME || `${os.hostname()}:${process.pid}`;
+const STALE_SECONDS = Number(process.env.RUN_STALE_SECONDS ?? 90);
 
 /**
  * Runs one nesting run: claims it, searches within its time budget while writing progress and the
@@ -13,9 +18,10 @@ export const nestingRunJob: JobDefinition<{ runId: number }> = {
   queue: QUEUES.nestingRun,
   options: { retryLimit: 1, retryDelay: 2, expireInSeconds: 15 * 60 },
   async handle({ runId }) {
-    await failStaleRuns();
-    const problem = await claimRun(runId);
-    if (!problem) return; // cancelled before it started
+    await failStaleRuns(STALE_SECONDS);
+    const me = workerName();
+    const problem = await claimRun(runId, me, STALE_SECONDS);
+    if (!problem) return; // cancelled before it started, or another worker has it
     const abort = new AbortController();
     let lastWrite = 0;
     let writing: Promise<unknown> = Promise.resolve();
@@ -28,15 +34,16 @@ export const nestingRunJob: JobDefinition<{ runId: number }> = {
           const t = performance.now();
           if (t - lastWrite < 250) return;
           lastWrite = t;
-          writing = saveProgress(runId, Math.min(0.99, p.fraction), p.best).then((status) => {
-            if (status === "cancelled") abort.abort();
+          writing = saveProgress(runId, me, Math.min(0.99, p.fraction), p.best).then((status) => {
+            // Cancelled, or no longer ours (taken for dead and claimed by another worker): stop.
+            if (status !== "running") abort.abort();
           });
         },
       });
       await writing;
-      await finishRun(runId, problem, plan);
+      await finishRun(runId, me, problem, plan);
     } catch (e) {
-      await failRun(runId, e instanceof Error ? e.message : String(e));
+      await failRun(runId, e instanceof Error ? e.message : String(e), me);
     }
   },
 };

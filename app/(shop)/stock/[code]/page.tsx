@@ -1,17 +1,21 @@
+import { formatDate, formatDateTime, formatMoney, plural } from "@/lib/format";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requirePage } from "@/lib/auth/guard";
+import { seesMoney } from "@/lib/auth/policy";
 import { getBlock, listChildren } from "@/db/queries/blocks";
-import { listDefects } from "@/db/queries/defects";
+import { listDefects, listZoneHistory, mayChangeZone } from "@/db/queries/defects";
 import { listLedgerEntries } from "@/db/queries/ledger";
 import { displayUnit } from "@/lib/display";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { GradeChip, StatusBadge } from "@/components/stock/status-badge";
 import { BlockActions } from "@/components/stock/block-actions";
+import { HoldActions } from "@/components/stock/hold-actions";
 import { FaceViews } from "@/components/stock/face-views";
+import { ZoneEdit } from "@/components/stock/zone-edit";
 import { buttonClass } from "@/components/ui/button";
-import { DEFECT_LABELS, LEDGER_LABELS, STATUS_LABELS } from "@/lib/stock";
+import { DEFECT_LABELS, HOLD_LABELS, LEDGER_LABELS, STATUS_LABELS } from "@/lib/stock";
 import { formatLength, formatSize, m3ToBoardFeet } from "@/lib/units";
 
 export async function generateMetadata({ params }: { params: Promise<{ code: string }> }): Promise<Metadata> {
@@ -23,15 +27,17 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
   const code = decodeURIComponent((await params).code);
   const block = await getBlock(code);
   if (!block) notFound();
-  const [defects, offcuts, history, unit] = await Promise.all([
+  const [defects, offcuts, history, unit, zoneHistory] = await Promise.all([
     listDefects(block.id),
     listChildren(block.id),
     listLedgerEntries({ blockId: block.id, pageSize: 200 }),
     displayUnit(user),
+    listZoneHistory(block.id),
   ]);
   const has = (...r: string[]) => user.roles.some((x) => x === "admin" || r.includes(x));
   const lowDensity = block.densityKgM3 !== null && block.minDensity !== null && block.densityKgM3 < block.minDensity;
   const inStock = block.status === "in_stock";
+  const held = block.status === "on_hold" ? block.hold : null;
 
   return (
     <>
@@ -41,7 +47,7 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
           <span className="flex flex-wrap items-center gap-3">
             <GradeChip code={block.gradeCode} colour={block.colour} noWire={block.neverHotWire} />
             <span>{block.gradeLabel}</span>
-            <StatusBadge status={block.shown} />
+            <StatusBadge status={block.shown} hold={held?.reason} />
             {block.isOffcut && (
               <span>
                 Offcut of <Link href={`/stock/${encodeURIComponent(block.parentCode!)}`}>{block.parentCode}</Link>
@@ -60,6 +66,13 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
           <Notice tone="danger" title="Never hot-wire this material">
             Polyurethane gives off isocyanates, amines and hydrogen cyanide when heated. Route or carve it; follow its
             safety data sheet and local rules.
+          </Notice>
+        )}
+        {held && (
+          <Notice tone="caution" title={`On hold: ${HOLD_LABELS[held.reason]}`}>
+            {held.note && <>{held.note} </>}
+            Held by {held.by ?? "someone"} on {formatDate(held.since)}. Not counted on hand for reordering and not
+            offered to planning until the buyer releases it.
           </Notice>
         )}
         {block.shown === "settling" && (
@@ -99,8 +112,12 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
                 {block.densityKgM3 === null ? "–" : `${block.densityKgM3.toFixed(1)} kg/m³`}
                 {block.minDensity !== null && <span className="text-ink-faint"> (min {block.minDensity})</span>}
               </dd>
-              <dt className="text-ink-faint">Value</dt>
-              <dd>{block.cost.toLocaleString("en", { style: "currency", currency: "USD" })}</dd>
+              {seesMoney(user.roles) && block.cost !== null && (
+                <>
+                  <dt className="text-ink-faint">Value</dt>
+                  <dd>{formatMoney(block.cost)}</dd>
+                </>
+              )}
               <dt className="text-ink-faint">Location</dt>
               <dd>{block.location}</dd>
               <dt className="text-ink-faint">Lot</dt>
@@ -116,12 +133,15 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
               <dd>{block.mouldedOn ?? "–"}</dd>
               <dt className="text-ink-faint">Cut not before</dt>
               <dd>
-                {block.cutNotBefore} <span className="text-ink-faint">({block.cureDays} days)</span>
+                {block.cutNotBefore} <span className="text-ink-faint">({plural(block.cureDays, "day")})</span>
               </dd>
               <dt className="text-ink-faint">FIFO</dt>
               <dd>{block.fifo ? `#${block.fifo} of ready ${block.gradeCode}` : "–"}</dd>
               <dt className="text-ink-faint">Status</dt>
-              <dd>{STATUS_LABELS[block.shown]}</dd>
+              <dd>
+                {STATUS_LABELS[block.shown]}
+                {held && `: ${HOLD_LABELS[held.reason]}`}
+              </dd>
             </dl>
           </Card>
         </div>
@@ -151,10 +171,20 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
                       {d.max.map((v) => formatLength(v, unit)).join(", ")})
                     </p>
                     <p className="text-ink-faint">
-                      {d.foundBy ?? "someone"} · {d.foundAt.slice(0, 10)}
+                      {d.foundBy ?? "someone"} · {formatDate(d.foundAt)}
                       {d.inheritedFrom && " · carried over from the parent block"}
+                      {d.updatedAt && ` · corrected by ${d.updatedBy ?? "someone"} · ${formatDate(d.updatedAt)}`}
                     </p>
                     {d.note && <p>{d.note}</p>}
+                    {mayChangeZone(d, user) && (
+                      <div className="mt-1">
+                        <ZoneEdit
+                          zone={{ id: d.id, kind: d.kind, min: d.min, max: d.max, note: d.note }}
+                          blockCode={block.code}
+                          size={block.size}
+                        />
+                      </div>
+                    )}
                   </div>
                   <div className="flex flex-wrap gap-2">
                     {d.photos.map((p) => (
@@ -171,6 +201,25 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
                 </li>
               ))}
             </ul>
+          )}
+          {zoneHistory.some((e) => e.action !== "flagged") && (
+            <div className="mt-4 border-t border-bead pt-3">
+              <h3 className="mb-1 text-sm font-semibold">Zone corrections</h3>
+              <ol className="space-y-1 text-sm" data-testid="defect-corrections">
+                {zoneHistory.map((e) => (
+                  <li key={e.id}>
+                    <strong>
+                      Zone {e.zone} {e.action}
+                    </strong>
+                    {e.what.length > 0 && <span className="text-ink-soft"> · {e.what.join(", ")}</span>}
+                    <span className="text-ink-faint">
+                      {" "}
+                      · {e.by ?? "someone"} · {formatDateTime(e.at)}
+                    </span>
+                  </li>
+                ))}
+              </ol>
+            </div>
           )}
         </Card>
 
@@ -216,13 +265,21 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
                   </span>
                   <span className="text-ink-faint">
                     {e.deltaM3 !== 0 && `${e.deltaM3 > 0 ? "+" : ""}${e.deltaM3.toFixed(3)} m³ · `}
-                    {e.user ?? "system"} · {e.at.slice(0, 10)}
+                    {e.user ?? "system"} · {formatDate(e.at)}
                   </span>
                 </li>
               ))}
             </ol>
           </Card>
         </div>
+
+        <HoldActions
+          blockId={block.id}
+          code={block.code}
+          hold={held?.reason ?? null}
+          canHold={inStock && has("buyer", "cutter")}
+          canRelease={has("buyer")}
+        />
 
         <BlockActions
           blockId={block.id}
@@ -231,7 +288,7 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
           size={block.size}
           canMove={has("buyer", "cutter")}
           canCorrect={has("buyer")}
-          inStock={inStock}
+          inStock={inStock || held !== null}
         />
       </div>
     </>
