@@ -1,4 +1,5 @@
 import type { Metadata, Viewport } from "next";
+import { Announcer } from "@/components/ui/announcer";
 import { inter } from "./fonts";
 import "./globals.css";
 
@@ -13,7 +14,9 @@ export const viewport: Viewport = { width: "device-width", initialScale: 1, them
 export default function RootLayout({ children }: { children: React.ReactNode }) {
   return (
     <html lang="en" className={inter.variable}>
-      <body>{children}</body>
+      <body>
+        <Announcer>{children}</Announcer>
+      </body>
     </html>
   );
 }

@@ -6,7 +6,8 @@ import { ApiError, send } from "@/lib/swr/fetcher";
 import { ROLES, ROLE_LABELS, type Role } from "@/lib/roles";
 import { Button } from "@/components/ui/button";
 import { Field, Input } from "@/components/ui/field";
-import { Badge, Card, Notice } from "@/components/ui/card";
+import { Badge, Card } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 export function People({ initial, selfId }: { initial: UserRow[]; selfId: string }) {
   const { data, mutate } = useUsers(initial);
@@ -26,7 +27,7 @@ export function People({ initial, selfId }: { initial: UserRow[]; selfId: string
 
   return (
     <div className="space-y-6">
-      {message && <Notice tone={message.tone}>{message.text}</Notice>}
+      {message && <ResultNotice tone={message.tone}>{message.text}</ResultNotice>}
       <NewPerson
         onCreated={async (name) => {
           setMessage({ tone: "success", text: `${name} can now sign in with the temporary password.` });
@@ -184,7 +185,7 @@ function NewPerson({ onCreated }: { onCreated: (name: string) => Promise<void> }
       >
         {error && (
           <div className="md:col-span-2">
-            <Notice tone="danger">{error}</Notice>
+            <ResultNotice tone="danger">{error}</ResultNotice>
           </div>
         )}
         <Field label="Name" name="name" error={fields.name}>
@@ -201,7 +202,7 @@ function NewPerson({ onCreated }: { onCreated: (name: string) => Promise<void> }
         >
           <Input name="password" type="text" autoComplete="off" error={fields.password} />
         </Field>
-        <fieldset>
+        <fieldset aria-describedby={fields.roles ? "roles-error" : undefined}>
           <legend className="text-sm font-medium text-ink-soft">Roles</legend>
           <div className="mt-1 flex flex-wrap gap-x-4">
             {ROLES.map((r) => (
@@ -217,7 +218,7 @@ function NewPerson({ onCreated }: { onCreated: (name: string) => Promise<void> }
             ))}
           </div>
           {fields.roles && (
-            <p role="alert" className="text-sm text-ember">
+            <p id="roles-error" className="text-sm text-ember">
               {fields.roles}
             </p>
           )}

@@ -6,7 +6,8 @@ import { useSubmit } from "@/components/ui/use-submit";
 import type { ShopSettings } from "@/lib/validations/settings";
 import { Field, Input, Select } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
-import { Card, Notice } from "@/components/ui/card";
+import { Card } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 export function SettingsForm({ initial }: { initial: ShopSettings }) {
   const { busy, fields, message, submit } = useSubmit();
@@ -34,7 +35,7 @@ export function SettingsForm({ initial }: { initial: ShopSettings }) {
         );
       }}
     >
-      {message && <Notice tone={message.tone}>{message.text}</Notice>}
+      {message && <ResultNotice tone={message.tone}>{message.text}</ResultNotice>}
       <Card title="The shop">
         <div className="grid gap-4 md:grid-cols-2">
           <Field label="Shop name" name="shopName" error={fields.shopName}>

@@ -5,7 +5,7 @@ import { send } from "@/lib/swr/fetcher";
 import { useSubmit } from "@/components/ui/use-submit";
 import { Field, Input } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 export function PasswordForm() {
   const { busy, fields, message, setFields, submit } = useSubmit();
@@ -38,7 +38,7 @@ export function PasswordForm() {
         }
       }}
     >
-      {message && <Notice tone={message.tone}>{message.text}</Notice>}
+      {message && <ResultNotice tone={message.tone}>{message.text}</ResultNotice>}
       <Field label="Current password" name="currentPassword" error={fields.currentPassword}>
         <Input name="currentPassword" type="password" autoComplete="current-password" error={fields.currentPassword} />
       </Field>

@@ -4,7 +4,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 export interface LibraryChoice {
   id: number;
@@ -48,7 +48,7 @@ export function AddFromLibrary({ jobId, parts }: { jobId: number; parts: Library
     return <p className="text-sm text-ink-soft">The library is empty. Add reusable parts on the Part library page.</p>;
   return (
     <div className="space-y-3">
-      {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
+      {msg && <ResultNotice tone={msg.tone}>{msg.text}</ResultNotice>}
       <p className="text-sm text-ink-soft">Enter how many of each to add; leave the rest empty.</p>
       {kits.map((kit) => (
         <div key={kit}>

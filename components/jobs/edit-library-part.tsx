@@ -4,12 +4,13 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+
 import { Field, Input, Select } from "@/components/ui/field";
 import { useSubmit } from "@/components/ui/use-submit";
 import { ROTATE_LABELS, ROTATE_RULES, type LibraryPart } from "@/lib/job-terms";
 import { lengthInUnit, type LengthUnit } from "@/lib/units";
 import { fieldError, lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 /**
  * Edits a library part in place: name, kit, usual quantity, grade, turning and notes, and the box
@@ -74,7 +75,7 @@ export function EditLibraryPart({
         void save();
       }}
     >
-      {form.message && <Notice tone={form.message.tone}>{form.message.text}</Notice>}
+      {form.message && <ResultNotice tone={form.message.tone}>{form.message.text}</ResultNotice>}
       <div className="grid gap-3 sm:grid-cols-2">
         <Field label="Part name" name="name" error={err("name")}>
           <Input name="name" value={v.name} onChange={set("name")} error={err("name")} />

@@ -4,10 +4,11 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+
 import { Field, Input, Select } from "@/components/ui/field";
 import { CsvUpload } from "@/components/ui/csv-upload";
 import { JOB_STATUSES, JOB_STATUS_LABELS, type JobStatus } from "@/lib/job-terms";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 /** A new job: name, customer or project, due date. Opens the job page when saved. */
 export function NewJobForm() {
@@ -38,7 +39,7 @@ export function NewJobForm() {
         }
       }}
     >
-      {msg && <Notice tone="danger">{msg}</Notice>}
+      {msg && <ResultNotice tone="danger">{msg}</ResultNotice>}
       <Field label="Job name" name="name" error={fields.name}>
         <Input name="name" error={fields.name} placeholder="e.g. Kestrel kits, batch 4" />
       </Field>

@@ -4,13 +4,14 @@ import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+
 import { Field, Input, Select } from "@/components/ui/field";
 import { ROTATE_LABELS, ROTATE_RULES } from "@/lib/job-terms";
 import { partGeometry, parsePoints, type Profile } from "@/lib/profiles";
 import { formatSize, lengthToMm, type LengthUnit } from "@/lib/units";
 import { fieldError, lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
 import { SectionPreview } from "./section-preview";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 type Shape = "box" | "polygon" | "naca";
 
@@ -135,7 +136,7 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
         void submit();
       }}
     >
-      {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
+      {msg && <ResultNotice tone={msg.tone}>{msg.text}</ResultNotice>}
       <div className="grid gap-3 sm:grid-cols-2">
         {target.kind === "library" && (
           <Field label="Kit" name="kit" error={err("kit")} hint="Parts of one kit are listed together.">
@@ -346,7 +347,7 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
               ) : null}
             </div>
             {shape === "naca" && fields.profile && (
-              <p className="text-sm text-ember" role="alert">
+              <p id="profile-error" className="text-sm text-ember">
                 {fields.profile}
               </p>
             )}

@@ -7,8 +7,9 @@ import { send } from "@/lib/swr/fetcher";
 import { useSubmit } from "@/components/ui/use-submit";
 import { Field, Input, Select } from "@/components/ui/field";
 import { Button } from "@/components/ui/button";
-import { Card, Notice } from "@/components/ui/card";
+import { Card } from "@/components/ui/card";
 import type { StoredMachine } from "@/db/queries/machines";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 const text = (v: FormDataEntryValue | null) => {
   const s = String(v ?? "").trim();
@@ -57,7 +58,7 @@ export function MachineForm({ initial }: { initial?: StoredMachine }) {
         if (ok) router.refresh();
       }}
     >
-      {message && <Notice tone={message.tone}>{message.text}</Notice>}
+      {message && <ResultNotice tone={message.tone}>{message.text}</ResultNotice>}
       <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
         <Field label="Name" name={id("name")} error={f("name")}>
           <Input name={id("name")} defaultValue={m?.name} error={f("name")} />
@@ -239,7 +240,7 @@ export function MachineGradesForm({
             }
           }}
         >
-          {message && <Notice tone={message.tone}>{message.text}</Notice>}
+          {message && <ResultNotice tone={message.tone}>{message.text}</ResultNotice>}
           <p className="text-sm text-ink-soft">
             Measure the kerf with a test cut at the feed you give; leave a grade empty for the shop default.
           </p>

@@ -5,7 +5,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button, buttonClass } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 interface PartOnBlock {
   jobPartId: number;
@@ -39,7 +39,7 @@ export function CutBlockForm({
   const [busy, setBusy] = useState(false);
   if (done) {
     return (
-      <Notice tone="success" title={done.rest.length ? `${code} is recorded part-cut` : `${code} is cut`}>
+      <ResultNotice tone="success" title={done.rest.length ? `${code} is recorded part-cut` : `${code} is cut`}>
         {done.offcuts.length + done.rest.length ? (
           <>
             {done.offcuts.length > 0 && <>Offcuts now in stock: {done.offcuts.join(", ")}. </>}
@@ -52,7 +52,7 @@ export function CutBlockForm({
         ) : (
           "No offcuts were kept from it."
         )}
-      </Notice>
+      </ResultNotice>
     );
   }
   return (
@@ -93,7 +93,7 @@ export function CutBlockForm({
         }
       }}
     >
-      {error && <Notice tone="danger">{error}</Notice>}
+      {error && <ResultNotice tone="danger">{error}</ResultNotice>}
       <table className="text-sm">
         <thead>
           <tr>

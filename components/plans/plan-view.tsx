@@ -1,8 +1,13 @@
 /**
  * A block of a plan, drawn to scale: top (length × width), front (length × height) and side
  * (width × height) views, then one top view per layer. Parts are labelled, defect zones shaded,
- * offcuts outlined, and the through cuts numbered in the order they are made.
- * Pure markup: renders on the server and in the browser alike.
+ * offcuts outlined, and the through cuts numbered in the order they are made. Beside the drawings,
+ * the same facts as text (every cut and every part), for people who cannot see the drawing and for
+ * plans too busy to number. Pure markup: renders on the server and in the browser alike.
+ *
+ * Drawing text is set in the drawing's own units and the drawing fills its column (one column on a
+ * tablet), so labels and cut numbers are at least 12 units ≈ 13–19 px as shown; cut numbers are a
+ * darker orange (5.6:1 on the block's paper colour, WCAG 2.1 AA for text).
  */
 import { cutRegions, type RegionCut } from "@/lib/planning/cut-regions";
 
@@ -18,10 +23,21 @@ export interface PlanViewProps {
   trim?: number;
   partName: (key: string) => string;
   showLayers?: boolean;
+  /** The text list of cuts and parts under the drawings (on by default). */
+  facts?: boolean;
 }
 
 const AX = { x: 0, y: 1, z: 2 } as const;
 const PALETTE = ["#d7ecee", "#e0efe3", "#f6ecd2", "#efe0f3", "#e3e7f6", "#fbe6da"];
+/** Cut lines keep the hot-wire orange; their numbers are a darker orange that reads as text. */
+const CUT_LINE = "#d2571f";
+const CUT_TEXT = "#a8401a";
+/** The smallest drawing text, in drawing units (the drawing is never shown smaller than its units). */
+export const DRAWING_TEXT = 12;
+/** Up to this many cuts are numbered on the drawings; busier plans number them in the list below. */
+const NUMBERED_CUTS = 30;
+/** At most this many rows of each text list; the cut sheet lists every one. */
+const LIST_ROWS = 400;
 
 /** A view at least this many times longer than high takes a whole row (drawn larger). */
 const LONG_VIEW = 2.5;
@@ -56,7 +72,7 @@ function View({
   const scale = width / Math.max(W, H * 1.6);
   const w = W * scale;
   const h = H * scale;
-  const pad = 22;
+  const pad = 26;
   const X = (v: number) => px1(pad + v * scale);
   const Y = (v: number) => px1(pad + h - v * scale); // up is up
   const nameIndex = new Map<string, number>();
@@ -70,7 +86,10 @@ function View({
     seen.add(key);
     return true;
   });
-  const labelled = props.cuts.length <= 30;
+  const labelled = props.cuts.length <= NUMBERED_CUTS;
+  // Text grows with the drawing's own width: a long view drawn 960 units wide is shown about as
+  // wide as a short one's column, so its text is set larger in its units to read the same.
+  const fs = px1(DRAWING_TEXT * Math.max(1, (w + pad * 2) / 700));
   // A layer shows the cuts through its own height; unnumbered, a cut line drawn already is not drawn again.
   const drawn = new Set<string>();
   const cutAxes = regions.filter((c) => {
@@ -88,10 +107,11 @@ function View({
       <svg
         viewBox={`0 0 ${w + pad * 2} ${h + pad * 2}`}
         className="w-full"
-        style={{ maxWidth: w + pad * 2 }}
+        style={{ minWidth: Math.min(w + pad * 2, 280) }}
         role="img"
         aria-label={`${title} of ${block.id}`}
       >
+        <title>{`${title} of ${block.id}: ${placements.length} parts, ${cutAxes.length} cuts seen from here; the lists below say the same in words`}</title>
         <rect x={X(0)} y={Y(H)} width={w} height={h} fill="#f7f5ef" stroke="#1c2a2e" strokeWidth={1.5} />
         {props.offcuts.map((o, i) => (
           <rect
@@ -125,16 +145,18 @@ function View({
                 stroke="#1f6c75"
                 strokeWidth={0.8}
               />
-              {pw > 34 && ph > 11 && (
+              {pw > fs * 3.4 && ph > fs + 2 && (
                 <text
                   x={px1(px + pw / 2)}
                   y={px1(py + ph / 2)}
-                  fontSize={px1(Math.min(10, ph * 0.6))}
+                  fontSize={fs}
                   textAnchor="middle"
                   dominantBaseline="middle"
                   fill="#16525a"
                 >
-                  {label.length > pw / 6 ? `${label.slice(0, Math.max(2, Math.floor(pw / 6)))}…` : label}
+                  {label.length > pw / (fs * 0.6)
+                    ? `${label.slice(0, Math.max(2, Math.floor(pw / (fs * 0.6))))}…`
+                    : label}
                 </text>
               )}
             </g>
@@ -160,23 +182,23 @@ function View({
           const span = vertical ? [c.region.min[b]!, c.region.max[b]!] : [c.region.min[a]!, c.region.max[a]!];
           return vertical ? (
             <g key={`c${c.n}`}>
-              <line x1={X(pos)} x2={X(pos)} y1={Y(span[0]!)} y2={Y(span[1]!)} stroke="#d2571f" strokeWidth={1.1} />
+              <line x1={X(pos)} x2={X(pos)} y1={Y(span[0]!)} y2={Y(span[1]!)} stroke={CUT_LINE} strokeWidth={1.1} />
               {labelled && (
-                <text x={X(pos)} y={Y(span[1]!) - 3} fontSize={8} textAnchor="middle" fill="#d2571f" fontWeight={600}>
+                <text x={X(pos)} y={Y(span[1]!) - 3} fontSize={fs} textAnchor="middle" fill={CUT_TEXT} fontWeight={600}>
                   {c.n}
                 </text>
               )}
             </g>
           ) : (
             <g key={`c${c.n}`}>
-              <line x1={X(span[0]!)} x2={X(span[1]!)} y1={Y(pos)} y2={Y(pos)} stroke="#d2571f" strokeWidth={1.1} />
+              <line x1={X(span[0]!)} x2={X(span[1]!)} y1={Y(pos)} y2={Y(pos)} stroke={CUT_LINE} strokeWidth={1.1} />
               {labelled && (
                 <text
                   x={X(span[1]!) + 3}
                   y={Y(pos)}
-                  fontSize={8}
+                  fontSize={fs}
                   dominantBaseline="middle"
-                  fill="#d2571f"
+                  fill={CUT_TEXT}
                   fontWeight={600}
                 >
                   {c.n}
@@ -185,13 +207,13 @@ function View({
             </g>
           );
         })}
-        <text x={X(W / 2)} y={Y(0) + 15} fontSize={10} textAnchor="middle" fill="#3d4f54">
+        <text x={X(W / 2)} y={Y(0) + fs + 4} fontSize={fs} textAnchor="middle" fill="#3d4f54">
           {Math.round(W)} mm
         </text>
         <text
           x={X(0) - 8}
           y={Y(H / 2)}
-          fontSize={10}
+          fontSize={fs}
           textAnchor="middle"
           fill="#3d4f54"
           transform={`rotate(-90 ${X(0) - 8} ${Y(H / 2)})`}
@@ -226,7 +248,7 @@ export function PlanView(props: PlanViewProps) {
     <div className="space-y-4">
       {/* Long views (a long block's top and front) take a whole row at a larger scale, so thin
           pieces stay readable; the others share a row. */}
-      <div className="grid gap-4 sm:grid-cols-2">
+      <div className="grid gap-4 lg:grid-cols-2">
         {VIEWS.map(([title, a, b]) => {
           const long = props.block.size[a] >= LONG_VIEW * props.block.size[b];
           return (
@@ -238,7 +260,7 @@ export function PlanView(props: PlanViewProps) {
               props={props}
               regions={regions}
               width={long ? 960 : 420}
-              className={long ? "sm:col-span-2" : ""}
+              className={long ? "lg:col-span-2" : ""}
             />
           );
         })}
@@ -248,7 +270,7 @@ export function PlanView(props: PlanViewProps) {
           <summary className="cursor-pointer py-3 text-sm font-medium">
             Layers ({sorted.length}), from the bottom
           </summary>
-          <div className="mt-3 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
+          <div className="mt-3 grid gap-4 sm:grid-cols-2">
             {sorted.map(([key, ps], i) => {
               const [lo, hi] = key.split("|").map(Number);
               return (
@@ -283,9 +305,77 @@ export function PlanView(props: PlanViewProps) {
         </span>
         <span>
           <span className="mr-1 inline-block h-0.5 w-4 bg-wire align-middle" />
-          through cuts, numbered in order
+          {props.cuts.length <= NUMBERED_CUTS
+            ? "through cuts, numbered in order"
+            : `through cuts (${props.cuts.length}: too many to number here; numbered in the list below and on the cutting steps)`}
         </span>
       </p>
+      {props.facts !== false && <PlanFacts props={props} regions={regions} />}
     </div>
+  );
+}
+
+const AXIS_WORDS = { x: "across the length", y: "across the width", z: "across the height" } as const;
+const mm = (v: number) => `${Math.round(v * 10) / 10}`;
+const box = (min: readonly number[], max: readonly number[]) =>
+  `${mm(max[0]! - min[0]!)} × ${mm(max[1]! - min[1]!)} × ${mm(max[2]! - min[2]!)} mm`;
+
+/** The drawings' facts as text: each through cut in order with the piece it splits, and each part. */
+function PlanFacts({ props, regions }: { props: PlanViewProps; regions: RegionCut[] }) {
+  const cuts = regions.slice(0, LIST_ROWS);
+  const parts = props.placements.slice(0, LIST_ROWS);
+  return (
+    <details className="rounded-md border border-bead p-3" data-testid={`plan-facts-${props.block.id}`}>
+      <summary className="cursor-pointer py-3 text-sm font-medium">
+        In words: {regions.length} {regions.length === 1 ? "cut" : "cuts"} and {props.placements.length}{" "}
+        {props.placements.length === 1 ? "part" : "parts"} of {props.block.id}
+      </summary>
+      <div className="mt-2 grid gap-4 lg:grid-cols-2">
+        <div>
+          <h4 className="text-sm font-semibold">Through cuts, in order</h4>
+          <ol className="mt-1 space-y-1 text-sm">
+            {cuts.map((c) => (
+              <li key={c.n}>
+                <span className="font-semibold tabular-nums">{c.n}.</span> {AXIS_WORDS[c.axis]}, wire at{" "}
+                {mm(c.at + props.kerf / 2)} mm from the{" "}
+                {c.axis === "x" ? "left end" : c.axis === "y" ? "front" : "base"}, through the piece{" "}
+                {box(c.region.min, c.region.max)}
+              </li>
+            ))}
+            {!regions.length && <li>No through cuts: the block is used whole.</li>}
+          </ol>
+          {regions.length > cuts.length && (
+            <p className="mt-1 text-sm text-ink-soft">
+              First {cuts.length} of {regions.length}; the cut sheet lists every one.
+            </p>
+          )}
+        </div>
+        <div>
+          <h4 className="text-sm font-semibold">Parts, with their corner nearest the origin</h4>
+          <ul className="mt-1 space-y-1 text-sm">
+            {parts.map((p, i) => (
+              <li key={`${p.part}-${i}`}>
+                {props.partName(p.part)}: {mm(p.size[0])} × {mm(p.size[1])} × {mm(p.size[2])} mm at x {mm(p.origin[0])},
+                y {mm(p.origin[1])}, z {mm(p.origin[2])}
+              </li>
+            ))}
+          </ul>
+          {props.placements.length > parts.length && (
+            <p className="mt-1 text-sm text-ink-soft">
+              First {parts.length} of {props.placements.length}; the cut sheet lists every one.
+            </p>
+          )}
+          {props.offcuts.length > 0 && (
+            <p className="mt-2 text-sm">
+              Offcuts kept:{" "}
+              {props.offcuts.map((o) => `${mm(o.size[0])} × ${mm(o.size[1])} × ${mm(o.size[2])} mm`).join("; ")}
+            </p>
+          )}
+          {props.block.defects.length > 0 && (
+            <p className="mt-2 text-sm">Defect zones: {props.block.defects.map((d) => box(d.min, d.max)).join("; ")}</p>
+          )}
+        </div>
+      </div>
+    </details>
   );
 }

@@ -5,7 +5,8 @@ import { useEffect, useRef, useState } from "react";
 import { useRun, type RunLiveData } from "@/lib/swr/use-run";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+import { LiveNotice } from "@/components/ui/result-notice";
+import { useAnnounce } from "@/components/ui/announcer";
 
 /** The live progress of a nesting run: a bar, the best plan's figures so far, and Stop. */
 export function RunLive({ initial, canCancel }: { initial: RunLiveData; canCancel: boolean }) {
@@ -14,14 +15,25 @@ export function RunLive({ initial, canCancel }: { initial: RunLiveData; canCance
   const run = data?.run ?? initial;
   const [error, setError] = useState<string | null>(null);
   const was = useRef(run.status);
+  const announce = useAnnounce();
   useEffect(() => {
-    if (was.current !== run.status && !["queued", "running"].includes(run.status)) router.refresh();
+    if (was.current !== run.status) {
+      // Said once per change of state, not at every step of the progress bar.
+      announce(
+        run.status === "running"
+          ? "A worker is searching for the plan."
+          : run.status === "queued"
+            ? "Waiting for a worker."
+            : `The search has ended: ${run.status}.`,
+      );
+      if (!["queued", "running"].includes(run.status)) router.refresh();
+    }
     was.current = run.status;
-  }, [run.status, router]);
+  }, [run.status, router, announce]);
   if (!["queued", "running"].includes(run.status)) return null;
   const pct = Math.round(run.progress * 100);
   return (
-    <div className="space-y-3 rounded-card border border-kerf bg-kerf-light/40 p-5" aria-live="polite">
+    <div className="space-y-3 rounded-card border border-kerf bg-kerf-light/40 p-5">
       <div className="flex items-center justify-between gap-3">
         <p className="font-medium">
           {run.status === "queued" ? "Waiting for a worker…" : `Searching for the best plan… ${pct} %`}
@@ -78,7 +90,7 @@ export function RunLive({ initial, canCancel }: { initial: RunLiveData; canCance
           </div>
         </dl>
       )}
-      {error && <Notice tone="danger">{error}</Notice>}
+      {error && <LiveNotice tone="danger">{error}</LiveNotice>}
     </div>
   );
 }

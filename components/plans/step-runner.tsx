@@ -1,5 +1,6 @@
 "use client";
 
+import { noun } from "@/lib/format";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import useSWR from "swr";
@@ -10,6 +11,7 @@ import { partIdFromKey } from "@/lib/planning/problem";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { StepDrawing, describeNext } from "./step-drawing";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 const AXIS_WORDS = { x: "length", y: "width", z: "height" } as const;
 
@@ -94,7 +96,7 @@ export function StepRunner({
     <div className="space-y-4" data-testid={`steps-${s.code}`}>
       <div className="flex flex-wrap items-center gap-3 text-sm">
         <span className="font-medium">
-          {doneSet.size} of {steps.length} steps done
+          {doneSet.size} of {steps.length} {noun(steps.length, "step")} done
         </span>
         <progress className="h-3 w-48" max={steps.length} value={doneSet.size} aria-label="Steps done" />
         {s.time && (
@@ -261,7 +263,7 @@ export function StepRunner({
             </div>
           );
         })()}
-        {error && <Notice tone="danger">{error}</Notice>}
+        {error && <ResultNotice tone="danger">{error}</ResultNotice>}
         <div className="flex flex-wrap items-center gap-3">
           {editable &&
             (isDone ? (

@@ -1,10 +1,11 @@
 "use client";
 
+import { formatTime } from "@/lib/format";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 /** Undo a block's recording while the window lasts: asks first, then reverses it. */
 export function UndoCut({
@@ -22,10 +23,10 @@ export function UndoCut({
   const [asking, setAsking] = useState(false);
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
-  const time = new Date(until).toLocaleTimeString("en-GB", { hour: "2-digit", minute: "2-digit" });
+  const time = formatTime(until);
   return (
     <div className="space-y-2">
-      {message && <Notice tone={message.tone}>{message.text}</Notice>}
+      {message && <ResultNotice tone={message.tone}>{message.text}</ResultNotice>}
       {!asking ? (
         <Button tone="secondary" onClick={() => setAsking(true)}>
           Undo the recording of {code} (until {time})…

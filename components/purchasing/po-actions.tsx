@@ -5,9 +5,10 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button, buttonClass } from "@/components/ui/button";
-import { Notice } from "@/components/ui/card";
+
 import { Field, Input } from "@/components/ui/field";
 import type { PoStatus } from "@/lib/purchasing/orders";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 /** What the buyer can do with an order in its present state; the server refuses the rest (409). */
 export function PoActions({
@@ -43,7 +44,7 @@ export function PoActions({
   };
   return (
     <div className="space-y-3">
-      {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
+      {msg && <ResultNotice tone={msg.tone}>{msg.text}</ResultNotice>}
       <div className="flex flex-wrap gap-2">
         {(status === "draft" || status === "sent") && supplierEmail && (
           <Button

@@ -7,6 +7,7 @@ import { Button } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { priceFor } from "@/lib/purchasing/pricing";
+import { formatMoney } from "@/lib/format";
 
 interface GradeOpt {
   id: number;
@@ -32,7 +33,7 @@ export interface PoFormInitial {
   lines: { gradeId: number; size: [number, number, number]; quantity: number; price: number; note: string | null }[];
 }
 
-const money = (v: number) => v.toLocaleString("en", { style: "currency", currency: "USD" });
+const money = formatMoney;
 
 /** Writes or edits a draft order: supplier, date, lines of block size × quantity at a price in the grade's unit. */
 export function PoForm({
@@ -132,11 +133,7 @@ export function PoForm({
           </Button>
         }
       >
-        {fields.lines && (
-          <p className="mb-2 text-sm text-ember" role="alert">
-            {fields.lines}
-          </p>
-        )}
+        {fields.lines && <p className="mb-2 text-sm text-ember">{fields.lines}</p>}
         <div className="space-y-4">
           {lines.map((l, i) => {
             const g = grades.find((x) => String(x.id) === l.gradeId);

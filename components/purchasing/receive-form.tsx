@@ -1,5 +1,6 @@
 "use client";
 
+import { plural } from "@/lib/format";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
@@ -104,7 +105,7 @@ export function ReceiveForm({
           );
           setMsg({
             tone: r.warnings.length ? "caution" : "success",
-            text: `Received ${r.codes.length} blocks (${r.codes.join(", ")}). The order is now ${r.status === "closed" ? "closed" : "partly received"}.${r.warnings.length ? ` ${r.warnings.map((w) => `Row ${w.index + 1}: ${w.message}`).join(" ")}` : ""}`,
+            text: `Received ${plural(r.codes.length, "block")} (${r.codes.join(", ")}). The order is now ${r.status === "closed" ? "closed" : "partly received"}.${r.warnings.length ? ` ${r.warnings.map((w) => `Row ${w.index + 1}: ${w.message}`).join(" ")}` : ""}`,
           });
           router.refresh();
           if (!r.warnings.length) router.push(`/purchasing/orders/${poId}`);
@@ -157,11 +158,7 @@ export function ReceiveForm({
                 {Math.round(t.pct)} % of {t.l.volumeM3.toFixed(2)} m³
                 {t.over ? " — over the terms" : t.pct >= 90 ? " — filled" : ""}
               </span>
-              {fields[`lines.${t.l.id}`] && (
-                <span className="w-full text-ember" role="alert">
-                  {fields[`lines.${t.l.id}`]}
-                </span>
-              )}
+              {fields[`lines.${t.l.id}`] && <span className="w-full text-ember">{fields[`lines.${t.l.id}`]}</span>}
             </li>
           ))}
         </ul>
@@ -192,11 +189,7 @@ export function ReceiveForm({
           </Button>
         }
       >
-        {fields.blocks && (
-          <p className="mb-2 text-sm text-ember" role="alert">
-            {fields.blocks}
-          </p>
-        )}
+        {fields.blocks && <p className="mb-2 text-sm text-ember">{fields.blocks}</p>}
         <div className="space-y-3">
           {rows.map((r, i) => {
             const err = (k: string) => fields[`blocks.${i}.${k}`];
@@ -208,7 +201,12 @@ export function ReceiveForm({
               >
                 <div className="col-span-2">
                   <Field label={`Block ${i + 1}: line`} name={`line-${i}`} error={err("lineId")}>
-                    <Select id={`line-${i}`} value={r.lineId} onChange={(e) => set(i, { lineId: e.target.value })}>
+                    <Select
+                      id={`line-${i}`}
+                      error={err("lineId")}
+                      value={r.lineId}
+                      onChange={(e) => set(i, { lineId: e.target.value })}
+                    >
                       {lines.map((l) => (
                         <option key={l.id} value={l.id}>
                           Line {l.no}: {l.gradeCode}
@@ -276,7 +274,7 @@ export function ReceiveForm({
           ))}
         </datalist>
       </Card>
-      <Button type="submit">Receive {rows.length} blocks into stock</Button>
+      <Button type="submit">Receive {plural(rows.length, "block")} into stock</Button>
     </form>
   );
 }

@@ -4,7 +4,8 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Card, Notice } from "@/components/ui/card";
+import { Card } from "@/components/ui/card";
+import { ResultNotice } from "@/components/ui/result-notice";
 
 interface Props {
   blockId: number;
@@ -43,7 +44,7 @@ export function BlockActions({ blockId, code, location, size, canMove, canCorrec
     <Card title="Change this block" className="no-print">
       {msg && (
         <div className="mb-3">
-          <Notice tone={msg.tone}>{msg.text}</Notice>
+          <ResultNotice tone={msg.tone}>{msg.text}</ResultNotice>
         </div>
       )}
       <div className="grid gap-5 lg:grid-cols-3">

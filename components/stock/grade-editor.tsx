@@ -5,9 +5,11 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
-import { Badge, Card, Notice } from "@/components/ui/card";
+import { Badge, Card } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { MATERIALS, type Material } from "@/lib/stock";
+import { c578Minimum, formatCompressive } from "@/lib/astm-c578";
+import { LiveNotice, ResultNotice } from "@/components/ui/result-notice";
 
 export interface GradeView {
   id: number;
@@ -38,6 +40,12 @@ const EMPTY: Omit<GradeView, "id"> = {
   notes: null,
 };
 
+/** ASTM C578's minimum compressive resistance for the grade's type, if it is a C578 type. */
+function compressive(g: GradeView): string {
+  const row = c578Minimum(g.material, g.gradeSystem, g.grade);
+  return row ? formatCompressive(row) : "–";
+}
+
 export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit: boolean }) {
   const router = useRouter();
   const [editing, setEditing] = useState<GradeView | null>(null);
@@ -52,30 +60,38 @@ export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit:
         <table>
           <thead>
             <tr>
-              <th className="py-2">Code</th>
-              <th>Material</th>
-              <th>Grade</th>
-              <th className="text-right">Min kg/m³</th>
-              <th className="text-right">Cure days</th>
-              <th />
+              <th className="py-2 pr-3">Code</th>
+              <th className="px-3 py-2">Material</th>
+              <th className="px-3 py-2">Grade</th>
+              <th className="px-3 py-2 text-right">Min kg/m³</th>
+              <th className="px-3 py-2 text-right" title="ASTM C578 minimum compressive resistance for the type">
+                C578 min compressive
+              </th>
+              <th className="px-3 py-2 text-right">Cure days</th>
+              <th className="py-2 pl-3">
+                <span className="sr-only">Edit</span>
+              </th>
             </tr>
           </thead>
           <tbody>
             {grades.map((x) => (
               <tr key={x.id} className="border-t border-bead/60">
-                <td className="py-2">
+                <td className="whitespace-nowrap py-2 pr-3">
                   <span className="mr-2 inline-block size-3 rounded-sm align-middle" style={{ background: x.colour }} />
                   {x.code}
                 </td>
-                <td>
+                <td className="px-3 py-2">
                   {x.material} {x.neverHotWire && <Badge tone="ember">never hot-wire</Badge>}
                 </td>
-                <td>
+                <td className="px-3 py-2">
                   {x.gradeSystem} {x.grade}
                 </td>
-                <td className="text-right tabular-nums">{x.minDensity ?? "–"}</td>
-                <td className="text-right tabular-nums">{x.cureDays}</td>
-                <td className="text-right">
+                <td className="px-3 py-2 text-right tabular-nums">{x.minDensity ?? "–"}</td>
+                <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums" data-testid={`c578-${x.code}`}>
+                  {compressive(x)}
+                </td>
+                <td className="px-3 py-2 text-right tabular-nums">{x.cureDays}</td>
+                <td className="py-2 pl-3 text-right">
                   {canEdit && (
                     <Button
                       tone="quiet"
@@ -95,8 +111,9 @@ export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit:
           </tbody>
         </table>
         <p className="mt-3 text-xs text-ink-faint">
-          ASTM C578 sets minimum densities by type; EN 13163 classes (EPS 100, 150…) are compressive-stress classes, not
-          densities. Grade cannot be seen on a block: weigh it.
+          ASTM C578 sets minimum densities and compressive resistance (at yield or 10 % deformation) by type; EN 13163
+          classes (EPS 100, 150…) are compressive-stress classes, not densities. Grade cannot be seen on a block: weigh
+          it.
         </p>
       </Card>
       {canEdit && (
@@ -135,7 +152,7 @@ export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit:
               }
             }}
           >
-            {msg && <Notice tone={msg.tone}>{msg.text}</Notice>}
+            {msg && <ResultNotice tone={msg.tone}>{msg.text}</ResultNotice>}
             <Field label="Code" name="code" error={fields.code}>
               <Input name="code" defaultValue={g.code} error={fields.code} />
             </Field>
@@ -147,10 +164,10 @@ export function GradeEditor({ grades, canEdit }: { grades: GradeView[]; canEdit:
               </Select>
             </Field>
             {material === "PU" && (
-              <Notice tone="danger">
+              <LiveNotice tone="danger">
                 Polyurethane is never hot-wired: it gives off isocyanates and hydrogen cyanide. Blockyard keeps the
                 “never hot-wire” flag on.
-              </Notice>
+              </LiveNotice>
             )}
             <div className="grid grid-cols-2 gap-3">
               <Field label="Grade system" name="gradeSystem" error={fields.gradeSystem}>

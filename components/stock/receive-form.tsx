@@ -7,7 +7,7 @@ import { useSubmit } from "@/components/ui/use-submit";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { ResultNotice } from "@/components/ui/result-notice";
-import { Field, Input, Select } from "@/components/ui/field";
+import { errorId, Field, Input, Select, tiedError } from "@/components/ui/field";
 import { addDays, isoDate } from "@/lib/stock";
 import type { LengthUnit } from "@/lib/units";
 import { lengthMmOrNull } from "@/lib/forms";
@@ -196,7 +196,11 @@ export function ReceiveForm({
         title={`Blocks (${rows.length})`}
         action={<span className="text-sm text-ink-faint">sizes in {unit}, weight in kg</span>}
       >
-        {fields.blocks && <p className="mb-2 text-sm text-ember">{fields.blocks}</p>}
+        {fields.blocks && (
+          <p id={errorId("blocks")} className="mb-2 text-sm text-ember">
+            {fields.blocks}
+          </p>
+        )}
         <div className="space-y-3">
           {rows.map((r, i) => {
             const grade = grades.find((g) => String(g.id) === r.gradeId);
@@ -219,7 +223,9 @@ export function ReceiveForm({
                       placeholder="code (auto)"
                       value={r.code}
                       onChange={(e) => update(r.key, { code: e.target.value })}
-                      aria-invalid={codeProblem ? true : undefined}
+                      {...(codeProblem
+                        ? { "aria-invalid": true as const, "aria-describedby": errorId(p("code")) }
+                        : tiedError(fields, p("code")))}
                       className={`${cell} ${codeProblem ? "border-ember" : bad(p("code"))}`}
                     />
                   </Captioned>
@@ -228,7 +234,7 @@ export function ReceiveForm({
                       aria-label={`Block ${i + 1} grade`}
                       value={r.gradeId}
                       onChange={(e) => update(r.key, { gradeId: e.target.value })}
-                      aria-invalid={fields[p("gradeId")] ? true : undefined}
+                      {...tiedError(fields, p("gradeId"))}
                       className={`${cell} ${bad(p("gradeId"))}`}
                     >
                       <option value="">grade…</option>
@@ -246,7 +252,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.x}
                       onChange={(e) => update(r.key, { x: e.target.value })}
-                      aria-invalid={fields[p("size.0")] ? true : undefined}
+                      {...tiedError(fields, p("size.0"))}
                       className={`${cell} ${bad(p("size.0"))}`}
                     />
                   </Captioned>
@@ -257,7 +263,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.y}
                       onChange={(e) => update(r.key, { y: e.target.value })}
-                      aria-invalid={fields[p("size.1")] ? true : undefined}
+                      {...tiedError(fields, p("size.1"))}
                       className={`${cell} ${bad(p("size.1"))}`}
                     />
                   </Captioned>
@@ -268,7 +274,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.z}
                       onChange={(e) => update(r.key, { z: e.target.value })}
-                      aria-invalid={fields[p("size.2")] ? true : undefined}
+                      {...tiedError(fields, p("size.2"))}
                       className={`${cell} ${bad(p("size.2"))}`}
                     />
                   </Captioned>
@@ -279,7 +285,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.weight}
                       onChange={(e) => update(r.key, { weight: e.target.value })}
-                      aria-invalid={fields[p("weightKg")] ? true : undefined}
+                      {...tiedError(fields, p("weightKg"))}
                       className={`${cell} ${bad(p("weightKg"))}`}
                     />
                   </Captioned>
@@ -290,7 +296,7 @@ export function ReceiveForm({
                       inputMode="decimal"
                       value={r.cost}
                       onChange={(e) => update(r.key, { cost: e.target.value })}
-                      aria-invalid={fields[p("cost")] ? true : undefined}
+                      {...tiedError(fields, p("cost"))}
                       className={`${cell} ${bad(p("cost"))}`}
                     />
                   </Captioned>
@@ -300,7 +306,7 @@ export function ReceiveForm({
                       placeholder="location"
                       value={r.location}
                       onChange={(e) => update(r.key, { location: e.target.value })}
-                      aria-invalid={fields[p("location")] ? true : undefined}
+                      {...tiedError(fields, p("location"))}
                       className={`${cell} ${bad(p("location"))}`}
                     />
                   </Captioned>
@@ -310,7 +316,7 @@ export function ReceiveForm({
                       type="date"
                       value={r.mouldedOn}
                       onChange={(e) => update(r.key, { mouldedOn: e.target.value })}
-                      aria-invalid={fields[p("mouldedOn")] ? true : undefined}
+                      {...tiedError(fields, p("mouldedOn"))}
                       className={`${cell} ${bad(p("mouldedOn"))}`}
                     />
                   </Captioned>
@@ -349,12 +355,12 @@ export function ReceiveForm({
                   </span>
                 </div>
                 {codeProblem && (
-                  <p role="alert" className="text-sm text-ember">
+                  <p id={errorId(p("code"))} className="text-sm text-ember">
                     Code: {codeProblem}
                   </p>
                 )}
                 {rowErrors.map(([k, m]) => (
-                  <p key={k} className="text-sm text-ember">
+                  <p key={k} id={errorId(k)} className="text-sm text-ember">
                     {m}
                   </p>
                 ))}

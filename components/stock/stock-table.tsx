@@ -2,13 +2,15 @@
 
 import Link from "next/link";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
-import { useTransition } from "react";
+import { useEffect, useRef, useTransition } from "react";
+import { useAnnounce } from "@/components/ui/announcer";
 import { useBlocks, type BlockListResponse } from "@/lib/swr/use-blocks";
 import { formatSize, lengthInUnit, m3ToBoardFeet, type LengthUnit } from "@/lib/units";
 import { lengthMmOrNull } from "@/lib/forms";
 import { SHOWN_STATUSES, STATUS_LABELS } from "@/lib/stock";
 import { GradeChip, StatusBadge } from "./status-badge";
 import { buttonClass, rowLinkClass } from "@/components/ui/button";
+import { formatMoney } from "@/lib/format";
 
 interface Props {
   initial: BlockListResponse;
@@ -37,6 +39,14 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
   const { data, isValidating } = useBlocks(query, initial);
   const list = data ?? initial;
   const pages = Math.max(1, Math.ceil(list.total / list.pageSize));
+  // A new search or filter says its count in the page's live region; the first render says nothing.
+  const announce = useAnnounce();
+  const lastQuery = useRef(query);
+  useEffect(() => {
+    if (lastQuery.current === query || !data) return;
+    lastQuery.current = query;
+    announce(`${list.total.toLocaleString("en")} ${list.total === 1 ? "piece" : "pieces"} found.`);
+  }, [query, data, list.total, announce]);
 
   function set(next: Record<string, string | null>) {
     const p = new URLSearchParams(params.toString());
@@ -44,7 +54,8 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
       if (v === null || v === "") p.delete(k);
       else p.set(k, v);
     }
-    if (!("page" in next)) p.delete("page");
+    // A new filter or order starts again from the first page (cursors belong to one list).
+    if (!("page" in next)) for (const k of ["page", "after", "before"]) p.delete(k);
     start(() => router.replace(`${path}?${p.toString()}`, { scroll: false }));
   }
 
@@ -203,11 +214,16 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
       </form>
 
       <div className="flex flex-wrap items-center justify-between gap-3">
-        <p className="text-sm" aria-live="polite" data-testid="stock-totals">
+        <p className="text-sm" data-testid="stock-totals">
           <strong>{list.total.toLocaleString("en")}</strong> {list.total === 1 ? "piece" : "pieces"} ·{" "}
           <strong>{list.totals.volumeM3.toLocaleString("en", { maximumFractionDigits: 2 })} m³</strong> ·{" "}
-          <strong>{Math.round(m3ToBoardFeet(list.totals.volumeM3)).toLocaleString("en")} BF</strong> · value{" "}
-          <strong>{list.totals.value.toLocaleString("en", { style: "currency", currency: "USD" })}</strong>
+          <strong>{Math.round(m3ToBoardFeet(list.totals.volumeM3)).toLocaleString("en")} BF</strong>
+          {list.totals.value !== null && (
+            <>
+              {" "}
+              · value <strong>{formatMoney(list.totals.value)}</strong>
+            </>
+          )}
           {(pending || isValidating) && <span className="ml-2 text-ink-faint">updating…</span>}
         </p>
         {canExport && (
@@ -217,7 +233,71 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
         )}
       </div>
 
-      <div className="overflow-x-auto rounded-card border border-bead bg-paper-raised shadow-card">
+      {/* Narrow screens (a tablet at the machine): one card per piece, every field a cutter needs in
+          view, the whole card opens the piece. Wide screens: the table. */}
+      <ul className="space-y-2 lg:hidden" aria-label="Pieces">
+        {list.items.map((b) => (
+          <li
+            key={b.id}
+            className="relative rounded-card border border-bead bg-paper-raised px-4 py-3 shadow-card hover:bg-paper"
+          >
+            <div className="flex flex-wrap items-center justify-between gap-x-3 gap-y-1">
+              <Link
+                className="inline-flex min-h-11 min-w-11 items-center whitespace-nowrap text-lg font-semibold after:absolute after:inset-0 after:content-['']"
+                href={`/stock/${encodeURIComponent(b.code)}`}
+                prefetch={false}
+              >
+                {b.code}
+              </Link>
+              <span className="flex items-center gap-2">
+                {b.isOffcut && <span className="text-sm text-ink-soft">offcut</span>}
+                <StatusBadge status={b.shown} hold={b.hold?.reason} />
+              </span>
+            </div>
+            <dl className="mt-1 grid grid-cols-2 gap-x-4 gap-y-1 text-[15px]">
+              <div>
+                <dt className="text-sm text-ink-soft">Grade</dt>
+                <dd>
+                  <GradeChip code={b.gradeCode} colour={b.colour} noWire={b.neverHotWire} />
+                </dd>
+              </div>
+              <div>
+                <dt className="text-sm text-ink-soft">Size · m³</dt>
+                <dd className="whitespace-nowrap tabular-nums">
+                  {formatSize(b.size, unit)} · {b.volumeM3.toFixed(3)}
+                </dd>
+              </div>
+              <div>
+                <dt className="text-sm text-ink-soft">Location · lot</dt>
+                <dd>
+                  {b.location || "–"} · {b.lot || "–"}
+                </dd>
+              </div>
+              <div>
+                <dt className="text-sm text-ink-soft">Defects · FIFO</dt>
+                <dd>
+                  {b.defectCount ? (
+                    <span className="font-semibold text-ember">
+                      {b.defectCount} {b.defectCount === 1 ? "zone" : "zones"}
+                    </span>
+                  ) : (
+                    "none"
+                  )}{" "}
+                  · {b.fifo ?? "–"}
+                  {b.shown === "settling" && <> · until {b.cutNotBefore}</>}
+                </dd>
+              </div>
+            </dl>
+          </li>
+        ))}
+        {!list.items.length && (
+          <li className="rounded-card border border-bead bg-paper-raised px-4 py-10 text-center text-ink-soft">
+            No stock matches these filters.
+          </li>
+        )}
+      </ul>
+
+      <div className="hidden overflow-x-auto rounded-card border border-bead bg-paper-raised shadow-card lg:block">
         <table>
           <thead className="border-b border-bead bg-paper-sunk">
             <tr>
@@ -251,7 +331,7 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
                 <td className="whitespace-nowrap px-3 py-2">{formatSize(b.size, unit)}</td>
                 <td className="px-3 py-2 text-right tabular-nums">{b.volumeM3.toFixed(3)}</td>
                 <td className="whitespace-nowrap px-3 py-2">
-                  <StatusBadge status={b.shown} />
+                  <StatusBadge status={b.shown} hold={b.hold?.reason} />
                   {b.shown === "settling" && (
                     <span className="ml-1 text-xs text-ink-faint">until {b.cutNotBefore}</span>
                   )}
@@ -279,8 +359,8 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
         <button
           type="button"
           className={buttonClass("secondary")}
-          disabled={list.page <= 1}
-          onClick={() => set({ page: String(list.page - 1) })}
+          disabled={!list.prev}
+          onClick={() => set({ page: String(Math.max(1, list.page - 1)), before: list.prev, after: null })}
         >
           Previous
         </button>
@@ -290,8 +370,8 @@ export function StockTable({ initial, query, unit, grades, locations, canExport 
         <button
           type="button"
           className={buttonClass("secondary")}
-          disabled={list.page >= pages}
-          onClick={() => set({ page: String(list.page + 1) })}
+          disabled={!list.next}
+          onClick={() => set({ page: String(list.page + 1), after: list.next, before: null })}
         >
           Next
         </button>

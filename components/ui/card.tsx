@@ -44,12 +44,13 @@ const NOTICE: Record<NoticeTone, string> = {
   success: "border-moss bg-moss-light text-ink",
 };
 
+/**
+ * A boxed message. It is not a live region: a result of an action goes through ResultNotice or
+ * LiveNotice, which say it in the page's one live region (components/ui/announcer.tsx).
+ */
 export function Notice({ tone = "info", title, children }: { tone?: NoticeTone; title?: string; children: ReactNode }) {
   return (
-    <div
-      role={tone === "danger" ? "alert" : "status"}
-      className={`rounded-md border-l-4 px-4 py-3 text-sm ${NOTICE[tone]}`}
-    >
+    <div className={`rounded-md border-l-4 px-4 py-3 text-sm ${NOTICE[tone]}`}>
       {title && <p className="font-semibold">{title}</p>}
       <div>{children}</div>
     </div>

@@ -1,8 +1,11 @@
 "use client";
 
-import { useState, type ReactNode } from "react";
+import { plural } from "@/lib/format";
+import { useEffect, useState, type ReactNode } from "react";
+import { useAnnounce } from "./announcer";
 import { Button } from "./button";
-import { Card, Notice } from "./card";
+import { Card } from "./card";
+import { ResultNotice } from "./result-notice";
 
 export interface CsvProblem {
   row: number;
@@ -115,6 +118,12 @@ export function CsvUpload({
   const [progress, setProgress] = useState(0);
   const [report, setReport] = useState<(CsvReport & { key?: string }) | null>(null);
   const [error, setError] = useState<string | null>(null);
+  const announce = useAnnounce();
+  useEffect(() => {
+    if (phase === "uploading") announce("Sending the file…");
+    else if (phase === "checking") announce("Checking every row…");
+    else if (phase === "saving") announce("Saving every row in one go…");
+  }, [phase, announce]);
   const shown = report && report.key === resetKey ? report : null;
 
   async function go(commit: boolean) {
@@ -173,7 +182,7 @@ export function CsvUpload({
       </Card>
 
       {busy && (
-        <div className="space-y-1" aria-live="polite">
+        <div className="space-y-1">
           <div
             className="h-3 overflow-hidden rounded-full bg-paper-sunk"
             role="progressbar"
@@ -196,30 +205,33 @@ export function CsvUpload({
           </p>
         </div>
       )}
-      {error && <Notice tone="danger">{error}</Notice>}
+      {error && <ResultNotice tone="danger">{error}</ResultNotice>}
 
       {shown && (
         <Card title={shown.committed ? "3 · Imported" : "2 · What Blockyard found"}>
           {shown.committed ? (
-            <Notice tone="success">
+            <ResultNotice tone="success">
               {Object.keys(shown.summary).length > 0 && (
                 <span className="mb-2 block" data-testid="import-summary">
                   {summaryLine(shown.summary, summaryLabels)}
                 </span>
               )}
               {imported(shown)}
-            </Notice>
+            </ResultNotice>
           ) : shown.problemCount ? (
-            <Notice
+            <ResultNotice
               tone="danger"
-              title={`${shown.problemCount} problem${shown.problemCount === 1 ? "" : "s"} in ${shown.rows} rows — nothing will be imported until they are fixed`}
+              title={`${plural(shown.problemCount, "problem")} in ${plural(shown.rows, "row")} — nothing will be imported until they are fixed`}
             >
               Fix them in your spreadsheet and check the file again.
-            </Notice>
+            </ResultNotice>
           ) : (
-            <Notice tone="success" title={`All ${shown.rows} rows are fine`}>
+            <ResultNotice
+              tone="success"
+              title={shown.rows === 1 ? "The row is fine" : `All ${plural(shown.rows, "row")} are fine`}
+            >
               <span data-testid="import-summary">{summaryLine(shown.summary, summaryLabels)}</span>
-            </Notice>
+            </ResultNotice>
           )}
           {shown.problems.length > 0 && (
             <table className="mt-4" data-testid="import-problems">
@@ -256,7 +268,7 @@ export function CsvUpload({
           {!shown.committed && !shown.problemCount && (
             <div className="mt-4">
               <Button onClick={() => go(true)} disabled={busy}>
-                Import {shown.rows} rows
+                Import {plural(shown.rows, "row")}
               </Button>
             </div>
           )}

@@ -34,7 +34,7 @@ export function Input({ error, ...rest }: InputHTMLAttributes<HTMLInputElement> 
     <input
       id={rest.id ?? rest.name}
       aria-invalid={error ? true : undefined}
-      aria-describedby={error ? `${rest.name}-error` : undefined}
+      aria-describedby={error ? `${rest.id ?? rest.name}-error` : undefined}
       className={`${CONTROL} ${error ? "border-ember" : "border-bead-strong"}`}
       {...rest}
     />
@@ -46,10 +46,19 @@ export function Select({ error, children, ...rest }: SelectHTMLAttributes<HTMLSe
     <select
       id={rest.id ?? rest.name}
       aria-invalid={error ? true : undefined}
+      aria-describedby={error ? `${rest.id ?? rest.name}-error` : undefined}
       className={`${CONTROL} ${error ? "border-ember" : "border-bead-strong"}`}
       {...rest}
     >
       {children}
     </select>
   );
+}
+
+/** The id of a field's error message, for controls laid out without Field (rows of a table). */
+export const errorId = (path: string) => `${path.replace(/[^A-Za-z0-9_-]/g, "-")}-error`;
+
+/** aria-invalid and aria-describedby for a control whose error, if any, is shown with id errorId(path). */
+export function tiedError(fields: Record<string, string | undefined>, path: string) {
+  return fields[path] ? { "aria-invalid": true as const, "aria-describedby": errorId(path) } : {};
 }

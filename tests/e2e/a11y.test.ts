@@ -46,6 +46,7 @@ const PAGES: { path: string; role: string; via?: string; name?: string }[] = [
   { path: "/stock", role: "buyer" },
   { path: "/stock", role: "cutter", via: "main tbody a[href^='/stock/']", name: "/stock/[code]" },
   { path: "/stock/import", role: "buyer" },
+  { path: "/stock/count", role: "buyer" },
   { path: "/plans", role: "planner" },
   { path: "/plans", role: "planner", via: "main tbody a[href^='/plans/']", name: "/plans/[runId]" },
   { path: "/plans", role: "cutter", via: "main tbody a[href^='/plans/']", name: "/plans/[runId] (cutter)" },
@@ -67,8 +68,10 @@ const PAGES: { path: string; role: string; via?: string; name?: string }[] = [
     name: "/purchasing/orders/[poId]",
   },
   { path: "/reports", role: "manager" },
+  { path: "/claims", role: "buyer" },
   { path: "/machines", role: "planner" },
   { path: "/safety", role: "cutter" },
+  { path: "/safety", role: "" }, // public: opens for someone signed out, without the menu
   { path: "/account", role: "cutter" },
   { path: "/defects/new", role: "cutter" },
   { path: "/labels", role: "cutter" },
@@ -162,6 +165,16 @@ describe("every main page meets WCAG 2.1 A and AA as axe-core checks it", () => 
           await screenshot(page, `a11y${name.replace(/[^a-z0-9]+/gi, "-")}-${role || "stranger"}-${size}`);
         }
         expect(serious.map(describeViolation).join("\n"), `${opened} at ${VIEWPORTS[size].width} px`).toBe("");
+        // One live region per page (WCAG 2.1 SC 4.1.3, status messages): results are said in the
+        // page's announcer (its region sits in the closed shadow root of #page-announcer), never
+        // by other regions in the page.
+        const live = await page.evaluate(() =>
+          [...document.querySelectorAll("[aria-live], [role=status], [role=alert], [role=log]")].map((el) =>
+            el.outerHTML.slice(0, 80),
+          ),
+        );
+        expect(live, `live regions on ${opened}`).toEqual([]);
+        expect(await page.locator("#page-announcer").count()).toBe(1);
       });
     }
   }
@@ -210,6 +223,38 @@ function tooSmall(found: Box[]): string[] {
 // links inside running text (exempt above).
 const CONTROLS = "main a, main button, main select, main summary, main input:not([type=hidden])";
 
+describe("charts and drawings are named pictures with their facts in words", () => {
+  it("the reports' charts are named and are not tab stops of their own", async () => {
+    const page = await pageFor("manager", "tablet");
+    await page.goto(`${BASE_URL}/reports`);
+    await page.waitForLoadState("networkidle");
+    const charts = await page.locator("main figure[role=img]").evaluateAll((els) =>
+      els.map((el) => ({
+        name: el.getAttribute("aria-label") ?? "",
+        stops: el.querySelectorAll("[tabindex]:not([tabindex='-1']), a[href], button").length,
+      })),
+    );
+    expect(charts.length).toBeGreaterThanOrEqual(3);
+    for (const c of charts) {
+      expect(c.name).toMatch(/\S/);
+      expect(c.stops, c.name).toBe(0);
+    }
+  });
+
+  it("a plan's drawings carry a title and the plan lists its cuts and parts in words", async () => {
+    const page = await pageFor("planner", "tablet");
+    await open(page, "/plans", "main tbody a[href^='/plans/']");
+    const facts = page.locator("main details[data-testid^='plan-facts-']").first();
+    await facts.locator("summary").click();
+    await expect.poll(() => facts.locator("li").count()).toBeGreaterThan(0);
+    const untitled = await page
+      .locator("main svg[role=img]")
+      .evaluateAll((els) => els.filter((el) => !el.querySelector("title")?.textContent).length);
+    expect(untitled).toBe(0);
+    await screenshot(page, "a11y-plan-facts-planner-tablet");
+  });
+});
+
 describe("touch targets are at least 44 × 44 CSS px at 820 px", () => {
   it("the shell: Sign out, Account, Skip to content and the menu", async () => {
     const page = await pageFor("buyer", "tablet");
@@ -247,13 +292,14 @@ describe("touch targets are at least 44 × 44 CSS px at 820 px", () => {
     ["/purchasing", "buyer"],
     ["/purchasing/orders", "buyer"],
     ["/reports", "manager"],
+    ["/claims", "buyer"],
     ["/admin/outbox", "admin"],
   ] as const) {
     it(`${path} for the ${role}: row links, card links and main controls`, async () => {
       const page = await pageFor(role, "tablet");
       await page.goto(`${BASE_URL}${path}`);
       // The lists stream in: wait for the first row link where the demo data has rows.
-      if (path === "/stock" || path === "/plans") await page.locator("main tbody a").first().waitFor();
+      if (path === "/stock" || path === "/plans") await page.locator(`main a[href^='${path}/']`).first().waitFor();
       await page.waitForLoadState("networkidle");
       await screenshot(page, `a11y-targets${path.replace(/\//g, "-")}-${role}-tablet`);
       expect(tooSmall(await boxes(page, CONTROLS))).toEqual([]);

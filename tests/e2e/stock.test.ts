@@ -44,8 +44,8 @@ describe("the buyer receives a delivery", () => {
     expect(codes).toHaveLength(2);
     expect(
       await page
-        .getByRole("status")
-        .filter({ hasText: /^Row 2: Density [\d.]+ kg\/m³ is below the EPS-II minimum/ })
+        .getByRole("main")
+        .getByText(/^Row 2: Density [\d.]+ kg\/m³ is below the EPS-II minimum/)
         .count(),
     ).toBe(1);
 

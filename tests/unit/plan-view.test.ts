@@ -37,8 +37,8 @@ describe("plan views", () => {
     expect(v.map((x) => x.title)).toEqual(["Top (length × width)", "Front (length × height)", "Side (width × height)"]);
     expect(v.every((x) => x.wholeRow)).toBe(true);
     expect(v[1]!.width).toBeGreaterThan(900);
-    // Drawn to scale (22 units of margin each side): the front is 3993 : 150.
-    expect((v[1]!.width - 44) / (v[1]!.height - 44)).toBeCloseTo(3993 / 150, 1);
+    // Drawn to scale (26 units of margin each side): the front is 3993 : 150.
+    expect((v[1]!.width - 52) / (v[1]!.height - 52)).toBeCloseTo(3993 / 150, 1);
   });
 
   it("lets the views of a near-cube share a row, at the usual size", () => {
@@ -103,3 +103,68 @@ describe("plan views", () => {
     expect(lines[0]).toBe(4 * 99);
   });
 });
+
+describe("plan views for people who cannot see them, or see them on a tablet", () => {
+  const busy = (): PlanViewProps => {
+    // 40 cuts of a 2400 mm block into 41 slabs of about 57 mm: a busy plan.
+    const cuts = Array.from({ length: 40 }, (_, i) => ({ axis: "x" as const, at: 58.5 * (i + 1) - 1.5 }));
+    const placements = Array.from({ length: 41 }, (_, i) => ({
+      part: `p${i % 3}`,
+      origin: [58.5 * i, 0, 0] as [number, number, number],
+      size: [57, 1200, 600] as [number, number, number],
+    }));
+    return {
+      block: { id: "HF-2001", size: [2400, 1200, 600], defects: [{ min: [10, 10, 10], max: [60, 60, 60] }] },
+      placements,
+      offcuts: [],
+      cuts,
+      kerf: 1.5,
+      partName: (k) => ({ p0: "Wall panel", p1: "Rib", p2: "Spar" })[k] ?? k,
+      showLayers: false,
+    };
+  };
+
+  it("titles every drawing and lists every cut and part in words beside them", () => {
+    const html = renderToStaticMarkup(createElement(PlanView, busy()));
+    const titles = [...html.matchAll(/<svg[^>]*>\s*<title>([^<]+)<\/title>/g)].map((m) => m[1]!);
+    expect(titles).toHaveLength(3);
+    expect(titles[0]).toMatch(/^Top \(length × width\) of HF-2001: /);
+    const facts = html.slice(html.indexOf('data-testid="plan-facts-HF-2001"'));
+    expect(facts).toContain("In words: 40 cuts and 41 parts of HF-2001");
+    // Each of the 40 cuts, in order, with where the wire goes (the first: 57 mm + half a 1.5 mm kerf).
+    const cutItems = [...facts.matchAll(/<li><span class="font-semibold tabular-nums">(\d+)\.<\/span>([^<]*)/g)];
+    expect(cutItems.map((m) => Number(m[1]))).toEqual(Array.from({ length: 40 }, (_, i) => i + 1));
+    expect(cutItems[0]![2]).toContain("across the length, wire at 57.8 mm");
+    expect(facts.match(/Wall panel: 57 × 1200 × 600 mm at x 0, y 0, z 0/)).not.toBeNull();
+    expect(facts).toContain("Defect zones: 50 × 50 × 50 mm");
+  });
+
+  it("sets no drawing text smaller than 12 drawing units, and numbers cuts in a darker orange than the lines", () => {
+    const html = renderToStaticMarkup(createElement(PlanView, { ...busy(), cuts: busy().cuts.slice(0, 20) }));
+    const sizes = [...html.matchAll(/font-size="([\d.]+)"/g)].map((m) => Number(m[1]));
+    expect(sizes.length).toBeGreaterThan(20);
+    expect(Math.min(...sizes)).toBeGreaterThanOrEqual(12);
+    // Cut numbers are text: #a8401a on the block colour #f7f5ef is 5.6:1 (WCAG 2.1 AA asks 4.5:1 —
+    // relative luminance as WCAG 2.1 defines it, computed in the test below).
+    expect(html).toMatch(/fill="#a8401a" font-weight="600">1</);
+    expect(contrast("#a8401a", "#f7f5ef")).toBeGreaterThanOrEqual(4.5);
+  });
+
+  it("can leave the words out where the page lists the cuts itself (the cut sheet)", () => {
+    const html = renderToStaticMarkup(createElement(PlanView, { ...busy(), facts: false }));
+    expect(html).not.toContain("plan-facts-");
+  });
+});
+
+/** Contrast ratio by WCAG 2.1's definition of relative luminance (https://www.w3.org/TR/WCAG21/#dfn-contrast-ratio). */
+function contrast(a: string, b: string): number {
+  const lum = (hex: string) => {
+    const [r, g, bl] = [1, 3, 5].map((i) => {
+      const c = Number.parseInt(hex.slice(i, i + 2), 16) / 255;
+      return c <= 0.03928 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
+    });
+    return 0.2126 * r! + 0.7152 * g! + 0.0722 * bl!;
+  };
+  const [hi, lo] = [lum(a), lum(b)].sort((x, y) => y - x);
+  return (hi! + 0.05) / (lo! + 0.05);
+}

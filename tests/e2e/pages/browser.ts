@@ -29,9 +29,20 @@ export const VIEWPORTS = {
   tablet: { width: 820, height: 1180 },
 } as const;
 
+/**
+ * The whole page as a PNG under SHOTS. A full-page capture of a long page can take long on a busy
+ * two-core machine: it is given a minute, and if that is not enough the visible part is taken.
+ */
 export async function screenshot(page: Page, name: string): Promise<string> {
   fs.mkdirSync(SHOTS, { recursive: true });
   const file = path.join(SHOTS, `${name}.png`);
-  await page.screenshot({ path: file, fullPage: true });
+  try {
+    await page.screenshot({ path: file, fullPage: true, timeout: 60_000 });
+  } catch (e) {
+    console.warn(
+      `[screenshot] ${name}: full page not taken (${e instanceof Error ? e.message.split("\n")[0] : e}); taking the viewport`,
+    );
+    await page.screenshot({ path: file, timeout: 60_000 });
+  }
   return file;
 }

@@ -1,3 +1,4 @@
+import { plural } from "@/lib/format";
 import { offcutCodesOf } from "@/db/queries/offcut-codes";
 import { planSteps } from "@/db/queries/at-the-machine";
 import { StepDrawing, describeNext } from "@/components/plans/step-drawing";
@@ -109,9 +110,10 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
             {proc?.ok && proc.steps.length > 0 && (
               <div className="space-y-3">
                 <h3 className="text-sm font-semibold">
-                  Steps on {machineSteps.machine.name} ({proc.steps.length} step{proc.steps.length === 1 ? "" : "s"},{" "}
-                  {proc.cutCount} cuts{st?.time ? `, about ${Math.round(st.time.totalMin)} min` : ""}): positions are
-                  measured from the piece&apos;s own faces
+                  Steps on {machineSteps.machine.name} ({plural(proc.steps.length, "step")},{" "}
+                  {plural(proc.cutCount, "cut")}
+                  {st?.time ? `, about ${Math.round(st.time.totalMin)} min` : ""}): positions are measured from the
+                  piece&apos;s own faces
                 </h3>
                 <ol className="grid gap-3 md:grid-cols-2 print:grid-cols-2">
                   {proc.steps.map((s) => (
@@ -170,8 +172,8 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                         </span>
                         : across {across},{" "}
                         {r.step > 0
-                          ? `kerf starting at ${mm(r.first)} mm, then every ${mm(r.step)} mm to ${mm(r.last)} mm (${r.to - r.from + 1} cuts)`
-                          : `kerf starting at ${mm(r.first)} mm in each of the next ${r.to - r.from + 1} pieces`}
+                          ? `kerf starting at ${mm(r.first)} mm, then every ${mm(r.step)} mm to ${mm(r.last)} mm (${plural(r.to - r.from + 1, "cut")})`
+                          : `kerf starting at ${mm(r.first)} mm in each of the next ${plural(r.to - r.from + 1, "piece")}`}
                       </li>
                     );
                   })}
@@ -219,6 +221,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                 trim={b.trim}
                 partName={partName}
                 showLayers={false}
+                facts={false}
               />
             </div>
             {labels.length > 0 && (
