@@ -36,6 +36,10 @@ export interface BlocksRow {
   updated_at: Date;
   volume_m3: number | null;
   fifo_on: string | null;
+  hold_reason: string | null;
+  hold_note: string | null;
+  held_at: Date | null;
+  held_by: string | null;
 }
 
 export interface CsvImportsRow {
@@ -89,6 +93,10 @@ export interface DefectZonesRow {
   found_at: Date;
   note: string | null;
   inherited_from: number | null;
+  updated_at: Date | null;
+  updated_by: string | null;
+  removed_at: Date | null;
+  removed_by: string | null;
 }
 
 export interface DeliveriesRow {
@@ -249,6 +257,8 @@ export interface NestingRunsRow {
   heartbeat_at: Date | null;
   summary: unknown | null;
   machine_id: number | null;
+  left_out: unknown;
+  worker: string | null;
 }
 
 export interface PlanBlockStepsRow {
@@ -336,6 +346,7 @@ export interface ReorderSettingsRow {
   holding_cost_m3_year: number;
   updated_at: Date;
   updated_by: string | null;
+  working_days: number[];
 }
 
 export interface ShopSettingsRow {
@@ -376,6 +387,39 @@ export interface StockLedgerRow {
   ref: string | null;
 }
 
+export interface SupplierClaimBlocksRow {
+  claim_id: number;
+  block_id: number;
+}
+
+export interface SupplierClaimPhotosRow {
+  id: number;
+  claim_id: number;
+  object_key: string;
+  thumb_key: string;
+  content_type: string;
+  bytes: number;
+  width: number | null;
+  height: number | null;
+  uploaded_by: string | null;
+  uploaded_at: Date;
+}
+
+export interface SupplierClaimsRow {
+  id: number;
+  supplier_id: number;
+  reason: string;
+  note: string | null;
+  credit_asked: number;
+  status: string;
+  credit_received: number | null;
+  decision_note: string | null;
+  decided_at: Date | null;
+  decided_by: string | null;
+  created_by: string | null;
+  created_at: Date;
+}
+
 export interface SuppliersRow {
   id: number;
   name: string;
@@ -385,6 +429,7 @@ export interface SuppliersRow {
   lead_time_days: number;
   notes: string | null;
   active: boolean;
+  lead_time_sd_days: number;
 }
 
 export interface UserRolesRow {
@@ -438,6 +483,9 @@ export interface Tables {
   shop_settings: Knex.CompositeTableType<ShopSettingsRow, Partial<ShopSettingsRow>>;
   sign_in_failures: Knex.CompositeTableType<SignInFailuresRow, Partial<SignInFailuresRow>>;
   stock_ledger: Knex.CompositeTableType<StockLedgerRow, Partial<StockLedgerRow>>;
+  supplier_claim_blocks: Knex.CompositeTableType<SupplierClaimBlocksRow, Partial<SupplierClaimBlocksRow>>;
+  supplier_claim_photos: Knex.CompositeTableType<SupplierClaimPhotosRow, Partial<SupplierClaimPhotosRow>>;
+  supplier_claims: Knex.CompositeTableType<SupplierClaimsRow, Partial<SupplierClaimsRow>>;
   suppliers: Knex.CompositeTableType<SuppliersRow, Partial<SuppliersRow>>;
   user_roles: Knex.CompositeTableType<UserRolesRow, Partial<UserRolesRow>>;
   user_sessions: Knex.CompositeTableType<UserSessionsRow, Partial<UserSessionsRow>>;

@@ -9,6 +9,7 @@ import { CutterFigures, PlannerFigures } from "@/components/home/role-figures";
 import { BuyerFigures, ManagerFigures } from "@/components/home/purchasing-figures";
 import { ROLE_DUTIES, ROLE_LABELS, type Role } from "@/lib/roles";
 import { formatLength } from "@/lib/units";
+import { Figure } from "@/components/ui/figure";
 
 export const metadata: Metadata = { title: "Today" };
 
@@ -72,14 +73,5 @@ export default async function HomePage({ searchParams }: { searchParams: Promise
         </div>
       )}
     </>
-  );
-}
-
-function Figure({ label, value }: { label: string; value: string }) {
-  return (
-    <div>
-      <dt className="text-xs uppercase tracking-wide text-ink-faint">{label}</dt>
-      <dd className="text-lg font-semibold">{value}</dd>
-    </div>
   );
 }

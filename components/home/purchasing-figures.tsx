@@ -2,17 +2,18 @@ import Link from "next/link";
 import { listDueGrades } from "@/db/queries/reorder";
 import { countOpenOrders } from "@/db/queries/purchase-orders";
 import { yieldThisMonthVsLast } from "@/db/queries/reports";
+import { Figure } from "@/components/ui/figure";
 
 /** The buyer's home figures: grades to reorder and the orders still open. */
 export async function BuyerFigures() {
   const [due, open] = await Promise.all([listDueGrades(), countOpenOrders()]);
   return (
     <div className="mt-3 space-y-3 text-sm" data-testid="buyer-figures">
-      <div className="grid grid-cols-3 gap-3">
-        <Fig label="To reorder" value={String(due.length)} tone={due.length ? "text-wire" : ""} />
-        <Fig label="Orders out" value={String(open.sent + open.partReceived)} />
-        <Fig label="Overdue" value={String(open.overdue)} tone={open.overdue ? "text-ember" : ""} />
-      </div>
+      <dl className="grid grid-cols-3 gap-3">
+        <Figure label="To reorder" value={String(due.length)} tone={due.length ? "text-wire" : ""} />
+        <Figure label="Orders out" value={String(open.sent + open.partReceived)} />
+        <Figure label="Overdue" value={String(open.overdue)} tone={open.overdue ? "text-ember" : ""} />
+      </dl>
       {due.length > 0 && (
         <ul className="space-y-1">
           {due.slice(0, 5).map((g) => (
@@ -49,10 +50,10 @@ export async function ManagerFigures() {
       : null;
   return (
     <div className="mt-3 space-y-3 text-sm" data-testid="manager-figures">
-      <div className="grid grid-cols-2 gap-3">
-        <Fig label="Yield this month" value={thisMonth.yieldPct === null ? "–" : `${thisMonth.yieldPct} %`} />
-        <Fig label="Last month" value={lastMonth.yieldPct === null ? "–" : `${lastMonth.yieldPct} %`} />
-      </div>
+      <dl className="grid grid-cols-2 gap-3">
+        <Figure label="Yield this month" value={thisMonth.yieldPct === null ? "–" : `${thisMonth.yieldPct} %`} />
+        <Figure label="Last month" value={lastMonth.yieldPct === null ? "–" : `${lastMonth.yieldPct} %`} />
+      </dl>
       <p className="text-ink-soft">
         {delta === null ? (
           thisMonth.yieldPct === null ? (
@@ -75,15 +76,6 @@ export async function ManagerFigures() {
       <Link className="inline-flex min-h-11 min-w-11 items-center" href="/reports">
         Reports
       </Link>
-    </div>
-  );
-}
-
-function Fig({ label, value, tone = "" }: { label: string; value: string; tone?: string }) {
-  return (
-    <div>
-      <p className="text-xs uppercase tracking-wide text-ink-faint">{label}</p>
-      <p className={`text-lg font-semibold tabular-nums ${tone}`}>{value}</p>
     </div>
   );
 }

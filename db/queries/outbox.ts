@@ -17,6 +17,23 @@ export interface OutboxEntry {
   at: string;
 }
 
+/** One attempt to send a mail, sent or failed (lib/mail/send.ts), for the admin's outbox page. */
+export async function recordMail(row: {
+  kind: string;
+  to_address: string;
+  subject: string;
+  transport: string;
+  attachments: string;
+  ref: string | null;
+  sent_by: string | null;
+  status: "sent" | "failed";
+  message_id?: string | null;
+  file?: string | null;
+  error?: string;
+}): Promise<void> {
+  await db()("mail_outbox").insert(row);
+}
+
 export async function listOutbox(
   opts: { page?: number; pageSize?: number } = {},
 ): Promise<{ items: OutboxEntry[]; total: number }> {

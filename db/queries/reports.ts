@@ -318,17 +318,38 @@ export interface SupplierQualityRow {
   defectsPerM3: number | null;
   weighed: number;
   belowMinDensity: number;
+  /** Of those blocks, how many are on hold now (out of usable stock, waiting for a release). */
+  onHold: number;
+}
+
+/** Claims to a supplier opened in the period, and what came of them. */
+export interface SupplierClaimsRow {
+  supplierId: number;
+  supplier: string;
+  claims: number;
+  blocks: number;
+  open: number;
+  /** Accepted, with or without the credit recorded yet (credited counts as accepted). */
+  accepted: number;
+  rejected: number;
+  credited: number;
+  /** Accepted share of the claims the supplier has answered, %; null while none is answered. */
+  acceptedPct: number | null;
+  creditAsked: number;
+  creditReceived: number;
 }
 
 /**
  * Incoming quality of the blocks delivered in the period (offcuts excluded; defects found on
- * their parent count once): defect zones per m³, and measured density below the grade minimum.
+ * their parent count once): defect zones per m³, measured density below the grade minimum, blocks
+ * on hold; and the claims opened to each supplier in the period with their outcome and credit.
  */
 export async function supplierQualityReport(p: Period): Promise<{
   period: Period;
   bySupplier: SupplierQualityRow[];
   byLot: SupplierQualityRow[];
   lowDensity: { code: string; supplier: string; lot: string; grade: string; density: number; minDensity: number }[];
+  claims: SupplierClaimsRow[];
 }> {
   const k = db();
   const base = () =>
@@ -341,11 +362,14 @@ export async function supplierQualityReport(p: Period): Promise<{
   const cols = [
     k.raw("count(*) AS blocks"),
     k.raw("sum(b.volume_m3) AS m3"),
-    k.raw("sum((SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id AND z.inherited_from IS NULL)) AS defects"),
+    k.raw(
+      "sum((SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id AND z.inherited_from IS NULL AND z.removed_at IS NULL)) AS defects",
+    ),
     k.raw("count(b.weight_kg) AS weighed"),
     k.raw(
       "count(*) FILTER (WHERE b.weight_kg IS NOT NULL AND g.min_density_kg_m3 IS NOT NULL AND b.weight_kg / b.volume_m3 < g.min_density_kg_m3) AS low",
     ),
+    k.raw("count(*) FILTER (WHERE b.status = 'on_hold') AS held"),
   ];
   type Raw = {
     supplier_id: number;
@@ -356,6 +380,7 @@ export async function supplierQualityReport(p: Period): Promise<{
     defects: string;
     weighed: string;
     low: string;
+    held: string;
   };
   const toRow = (r: Raw): SupplierQualityRow => ({
     supplierId: r.supplier_id,
@@ -367,8 +392,9 @@ export async function supplierQualityReport(p: Period): Promise<{
     defectsPerM3: Number(r.m3) > 0 ? Math.round((Number(r.defects) / Number(r.m3)) * 1000) / 1000 : null,
     weighed: Number(r.weighed),
     belowMinDensity: Number(r.low),
+    onHold: Number(r.held),
   });
-  const [bySupplier, byLot, low] = await Promise.all([
+  const [bySupplier, byLot, low, claims] = await Promise.all([
     base()
       .groupBy("s.id", "s.name")
       .orderBy("s.name")
@@ -390,6 +416,36 @@ export async function supplierQualityReport(p: Period): Promise<{
         k.raw("b.weight_kg / b.volume_m3 AS density"),
         "g.min_density_kg_m3",
       ),
+    k("supplier_claims as c")
+      .join("suppliers as s", "s.id", "c.supplier_id")
+      .whereRaw(inPeriod(k, "c.created_at", p))
+      .groupBy("s.id", "s.name")
+      .orderBy("s.name")
+      .select(
+        "s.id as supplier_id",
+        "s.name",
+        k.raw("count(*) AS claims"),
+        k.raw("sum((SELECT count(*) FROM supplier_claim_blocks cb WHERE cb.claim_id = c.id)) AS blocks"),
+        k.raw("count(*) FILTER (WHERE c.status = 'open') AS open"),
+        k.raw("count(*) FILTER (WHERE c.status IN ('accepted', 'credited')) AS accepted"),
+        k.raw("count(*) FILTER (WHERE c.status = 'rejected') AS rejected"),
+        k.raw("count(*) FILTER (WHERE c.status = 'credited') AS credited"),
+        k.raw("coalesce(sum(c.credit_asked), 0) AS asked"),
+        k.raw("coalesce(sum(c.credit_received), 0) AS received"),
+      ) as Promise<
+      {
+        supplier_id: number;
+        name: string;
+        claims: string;
+        blocks: string;
+        open: string;
+        accepted: string;
+        rejected: string;
+        credited: string;
+        asked: string;
+        received: string;
+      }[]
+    >,
   ]);
   return {
     period: p,
@@ -405,6 +461,23 @@ export async function supplierQualityReport(p: Period): Promise<{
       density: Math.round(Number(r.density) * 10) / 10,
       minDensity: Number(r.min_density_kg_m3),
     })),
+    claims: claims.map((c) => {
+      const accepted = Number(c.accepted);
+      const answered = accepted + Number(c.rejected);
+      return {
+        supplierId: c.supplier_id,
+        supplier: c.name,
+        claims: Number(c.claims),
+        blocks: Number(c.blocks),
+        open: Number(c.open),
+        accepted,
+        rejected: Number(c.rejected),
+        credited: Number(c.credited),
+        acceptedPct: answered ? pct(accepted / answered) : null,
+        creditAsked: Math.round(Number(c.asked) * 100) / 100,
+        creditReceived: Math.round(Number(c.received) * 100) / 100,
+      };
+    }),
   };
 }
 

@@ -1,33 +1,17 @@
 import "server-only";
 import { Lucia, TimeSpan, type Adapter, type DatabaseSession, type DatabaseUser } from "lucia";
-import { db } from "@/db";
+import * as sessions from "@/db/queries/sessions";
 
 // Lucia v3 is finished upstream; everything outside lib/auth talks to session.ts, so it can be swapped.
-interface UserRow {
-  email: string;
-  name: string;
-  active: boolean;
-  must_change_password: boolean;
-  display_units: "mm" | "in" | null;
-  roles: string[];
-}
 
 /**
- * Lucia's storage on the app's one Knex pool. Every request validates its session, so reading it
- * is a single round trip: session, user and roles in one query (the stock Postgres adapter makes
- * two, on a pool of its own, and the roles were a third).
+ * Lucia's storage on the app's one Knex pool, through db/queries/sessions.ts. Every request
+ * validates its session, so reading it is a single round trip: session, user and roles in one
+ * query (the stock Postgres adapter makes two, on a pool of its own, and the roles were a third).
  */
 class SessionStore implements Adapter {
   async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
-    const { rows } = await db().raw(
-      `SELECT s.id, s.user_id, s.expires_at,
-              u.email, u.name, u.active, u.must_change_password, u.display_units,
-              coalesce((SELECT array_agg(r.role ORDER BY r.role) FROM user_roles r WHERE r.user_id = u.id), '{}') AS roles
-         FROM user_sessions s JOIN users u ON u.id = s.user_id
-        WHERE s.id = ?`,
-      [sessionId],
-    );
-    const r = rows[0] as ({ id: string; user_id: string; expires_at: Date } & UserRow) | undefined;
+    const r = await sessions.findSessionWithUser(sessionId);
     if (!r) return [null, null];
     const { id, user_id, expires_at, ...attributes } = r;
     return [
@@ -37,30 +21,28 @@ class SessionStore implements Adapter {
   }
 
   async getUserSessions(userId: string): Promise<DatabaseSession[]> {
-    const rows: { id: string; user_id: string; expires_at: Date }[] = await db()("user_sessions")
-      .where({ user_id: userId })
-      .select("id", "user_id", "expires_at");
+    const rows = await sessions.listUserSessions(userId);
     return rows.map((r) => ({ id: r.id, userId: r.user_id, expiresAt: r.expires_at, attributes: {} }));
   }
 
   async setSession(s: DatabaseSession): Promise<void> {
-    await db()("user_sessions").insert({ id: s.id, user_id: s.userId, expires_at: s.expiresAt });
+    await sessions.insertSession(s);
   }
 
   async updateSessionExpiration(sessionId: string, expiresAt: Date): Promise<void> {
-    await db()("user_sessions").where({ id: sessionId }).update({ expires_at: expiresAt });
+    await sessions.extendSession(sessionId, expiresAt);
   }
 
   async deleteSession(sessionId: string): Promise<void> {
-    await db()("user_sessions").where({ id: sessionId }).delete();
+    await sessions.deleteSession(sessionId);
   }
 
   async deleteUserSessions(userId: string): Promise<void> {
-    await db()("user_sessions").where({ user_id: userId }).delete();
+    await sessions.deleteUserSessions(userId);
   }
 
   async deleteExpiredSessions(): Promise<void> {
-    await db()("user_sessions").where("expires_at", "<=", new Date()).delete();
+    await sessions.deleteExpiredSessions();
   }
 }
 
@@ -89,7 +71,7 @@ type AppLucia = ReturnType<typeof createLucia>;
 declare module "lucia" {
   interface Register {
     Lucia: AppLucia;
-    DatabaseUserAttributes: UserRow;
+    DatabaseUserAttributes: Omit<sessions.SessionUserRow, keyof sessions.SessionRow>;
   }
 }
 

@@ -1,5 +1,5 @@
 import "server-only";
-import { db } from "@/db";
+import { clearFailures, failureCounts, forgetAttempt, recordAttempt } from "@/db/queries/sessions";
 import { HttpError } from "@/lib/errors";
 
 /**
@@ -54,15 +54,6 @@ export interface Attempt {
   succeeded(): Promise<void>;
 }
 
-interface Counts {
-  pair_n: string;
-  pair_age_ms: string | null;
-  client_n: string;
-  client_age_ms: string | null;
-  account_n: string;
-  account_age_ms: string | null;
-}
-
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 function tooMany(waitMs: number, what: string): HttpError {
@@ -85,25 +76,9 @@ export async function beginAttempt(
   opts: { what?: string; accountMax?: number } = {},
 ): Promise<Attempt> {
   const what = opts.what ?? "sign-ins";
-  const [row] = await db()("sign_in_failures").insert({ account, client }).returning("id");
-  const own = (row as { id: string | number }).id;
-  const forget = async () => {
-    await db()("sign_in_failures").where({ id: own }).delete();
-  };
-  const { rows } = await db().raw(
-    `SELECT count(*) FILTER (WHERE account = :account AND client = :client) AS pair_n,
-            extract(epoch FROM now() - max(at) FILTER (WHERE account = :account AND client = :client)) * 1000 AS pair_age_ms,
-            count(*) FILTER (WHERE client = :client) AS client_n,
-            extract(epoch FROM now() - max(at) FILTER (WHERE client = :client)) * 1000 AS client_age_ms,
-            count(*) FILTER (WHERE account = :account) AS account_n,
-            extract(epoch FROM now() - min(at) FILTER (WHERE account = :account)) * 1000 AS account_age_ms
-       FROM sign_in_failures
-      WHERE at > now() - make_interval(secs => :windowSecs)
-        AND id <> :own
-        AND (account = :account OR client = :client)`,
-    { account, client, own, windowSecs: WINDOW_MS / 1000 },
-  );
-  const c = rows[0] as Counts;
+  const own = await recordAttempt(account, client);
+  const forget = () => forgetAttempt(own);
+  const c = await failureCounts(account, client, own, WINDOW_MS / 1000);
   const n = (v: string | null) => Number(v ?? 0);
 
   const waits = [
@@ -122,7 +97,7 @@ export async function beginAttempt(
   if (delay > 0) await sleep(delay);
   return {
     async succeeded() {
-      await db()("sign_in_failures").where({ account, client }).orWhere({ id: own }).delete();
+      await clearFailures(account, client, own);
     },
   };
 }

@@ -1,6 +1,6 @@
 import "server-only";
 import path from "node:path";
-import { db } from "@/db";
+import { recordMail } from "@/db/queries/outbox";
 import { HttpError } from "@/lib/errors";
 import { mailConfig } from "./config";
 import { deliver, type Delivered, type OutgoingMail } from "./transport";
@@ -28,7 +28,7 @@ export async function sendMail(
   };
   try {
     const sent = await deliver(config, mail);
-    await db()("mail_outbox").insert({
+    await recordMail({
       ...row,
       status: "sent",
       message_id: sent.messageId,
@@ -37,7 +37,7 @@ export async function sendMail(
     return sent;
   } catch (e) {
     const reason = e instanceof Error ? e.message : String(e);
-    await db()("mail_outbox").insert({ ...row, status: "failed", error: reason.slice(0, 500) });
+    await recordMail({ ...row, status: "failed", error: reason.slice(0, 500) });
     throw new HttpError(502, `The mail could not be sent: ${reason.slice(0, 200)}`);
   }
 }

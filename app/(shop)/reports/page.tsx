@@ -1,3 +1,4 @@
+import { formatMoney, plural } from "@/lib/format";
 import type { Metadata } from "next";
 import type { ReactNode } from "react";
 import { requirePage } from "@/lib/auth/guard";
@@ -37,7 +38,7 @@ const LOSS_COLOURS: Record<(typeof LOSS_KINDS)[number], string> = {
   reject: COLOURS.wire,
 };
 const m3 = (v: number) => v.toLocaleString("en", { minimumFractionDigits: 2, maximumFractionDigits: 2 });
-const money = (v: number) => v.toLocaleString("en", { style: "currency", currency: "USD", maximumFractionDigits: 0 });
+const money = (v: number) => formatMoney(v, { whole: true });
 const isDate = (v: string | undefined) => Boolean(v && /^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(v)));
 
 export default async function ReportsPage({ searchParams }: { searchParams: Promise<{ from?: string; to?: string }> }) {
@@ -197,7 +198,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
           id="suppliers"
           title="Supplier quality"
           csv={csv("suppliers")}
-          lead="Blocks delivered in the period: defect zones found per m³, and measured density below the grade's minimum."
+          lead="Blocks delivered in the period: defect zones found per m³, measured density below the grade's minimum and blocks on hold; claims opened in the period and what the supplier answered."
         >
           <div className="grid gap-5 lg:grid-cols-2">
             <ReportChart
@@ -209,7 +210,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
               series={[{ key: "defects", label: "Defects per m³", colour: COLOURS.ember }]}
             />
             <Table
-              head={["Supplier", "Blocks", "m³", "Defects", "per m³", "Under density"]}
+              head={["Supplier", "Blocks", "m³", "Defects", "per m³", "Under density", "On hold"]}
               rows={suppliers.bySupplier.map((s) => [
                 s.supplier,
                 String(s.blocks),
@@ -217,8 +218,40 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
                 String(s.defects),
                 s.defectsPerM3?.toFixed(3) ?? "–",
                 `${s.belowMinDensity} of ${s.weighed}`,
+                String(s.onHold),
               ])}
             />
+          </div>
+          <div className="mt-4">
+            <h3 className="mb-2 text-base font-semibold">Claims to suppliers</h3>
+            {suppliers.claims.length === 0 ? (
+              <p className="text-[15px] text-ink-soft">No claims opened in the period.</p>
+            ) : (
+              <Table
+                head={[
+                  "Supplier",
+                  "Claims",
+                  "Blocks",
+                  "Open",
+                  "Accepted",
+                  "Rejected",
+                  "Accepted share",
+                  "Credit asked",
+                  "Credit received",
+                ]}
+                rows={suppliers.claims.map((c) => [
+                  c.supplier,
+                  String(c.claims),
+                  String(c.blocks),
+                  String(c.open),
+                  String(c.accepted),
+                  String(c.rejected),
+                  c.acceptedPct === null ? "–" : `${c.acceptedPct} %`,
+                  money(c.creditAsked),
+                  money(c.creditReceived),
+                ])}
+              />
+            )}
           </div>
           <details className="mt-4">
             <summary className="cursor-pointer py-3 text-sm font-medium text-kerf">
@@ -243,7 +276,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
           {suppliers.lowDensity.length > 0 && (
             <div className="mt-4">
               <Notice tone="caution" title="Below the grade's minimum density">
-                {suppliers.lowDensity.length} blocks weighed under their grade&apos;s minimum:{" "}
+                {plural(suppliers.lowDensity.length, "block")} weighed under their grade&apos;s minimum:{" "}
                 {suppliers.lowDensity
                   .slice(0, 6)
                   .map(

@@ -1,3 +1,4 @@
+import { formatDate, formatMoney, plural } from "@/lib/format";
 import { planSteps, stepProblems } from "@/db/queries/at-the-machine";
 import { RunTable } from "@/components/plans/job-runs";
 import { rowLinkClass } from "@/components/ui/button";
@@ -6,7 +7,8 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requirePage } from "@/lib/auth/guard";
-import { allows } from "@/lib/auth/policy";
+import { Figure } from "@/components/ui/figure";
+import { allows, seesMoney } from "@/lib/auth/policy";
 import { getRun, listRuns } from "@/db/queries/runs";
 import { owedByRun } from "@/db/queries/owed";
 import { getShopSettings } from "@/db/queries/settings";
@@ -20,6 +22,7 @@ import { HotWireCaution } from "@/components/shell/safety-note";
 import { stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
+import { leftOutLine } from "@/lib/planning/usable";
 
 export async function generateMetadata({ params }: { params: Promise<{ runId: string }> }): Promise<Metadata> {
   return { title: `Plan #${(await params).runId}` };
@@ -27,6 +30,7 @@ export async function generateMetadata({ params }: { params: Promise<{ runId: st
 
 export default async function RunPage({ params }: { params: Promise<{ runId: string }> }) {
   const user = await requirePage("/plans/[runId]");
+  const money = seesMoney(user.roles);
   const id = Number((await params).runId);
   if (!Number.isInteger(id) || id <= 0) notFound();
   const run = await getRun(id);
@@ -113,35 +117,68 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
             This plan was stopped or released{plan ? "; the best plan found before then is shown." : "."}
           </Notice>
         )}
+        {run.zoneChanges.length > 0 && (
+          <Notice tone="caution" title="Defect zones changed after this plan was made">
+            <ul className="list-disc pl-5" data-testid="changed-zones">
+              {run.zoneChanges.map((z) => (
+                <li key={z.zone}>
+                  Zone {z.zone} on <Link href={`/stock/${encodeURIComponent(z.blockCode)}`}>{z.blockCode}</Link>{" "}
+                  {z.change} after this plan was made ({z.by ?? "someone"}, {formatDate(z.at)}).
+                </li>
+              ))}
+            </ul>
+            <p className="mt-2">
+              The plan keeps clear of the zones as they were when it was made. Check those blocks, and plan the job
+              again if a part now sits on a defect or the change frees room.
+            </p>
+          </Notice>
+        )}
+        {run.leftOut.length > 0 && (
+          <Notice
+            tone="info"
+            title={`${run.leftOut.length} chosen ${run.leftOut.length === 1 ? "block was" : "blocks were"} left out of this plan`}
+          >
+            <ul className="list-disc pl-5" data-testid="left-out">
+              {run.leftOut.map((l) => (
+                <li key={l.id}>{leftOutLine(l)}.</li>
+              ))}
+            </ul>
+          </Notice>
+        )}
 
         {plan && (
           <>
-            <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5" data-testid="plan-figures">
-              <Fig label="Yield" value={`${(plan.stats.yield * 100).toFixed(1)} %`} />
-              <Fig label="Blocks" value={`${plan.stats.blocksUsed}`} note={`at least ${plan.stats.lowerBoundBlocks}`} />
-              <Fig
-                label="Stock cost"
-                value={(run.cost ?? 0).toLocaleString("en", { style: "currency", currency: "USD" })}
+            <dl className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5" data-testid="plan-figures">
+              <Figure boxed label="Yield" value={`${(plan.stats.yield * 100).toFixed(1)} %`} />
+              <Figure
+                boxed
+                label="Blocks"
+                value={`${plan.stats.blocksUsed}`}
+                note={`at least ${plan.stats.lowerBoundBlocks}`}
               />
-              <Fig
+              {money && <Figure boxed label="Stock cost" value={formatMoney(run.cost ?? 0)} />}
+              <Figure
+                boxed
                 label="Offcuts kept"
                 value={`${(plan.stats.offcutVolume / 1e9).toFixed(3)} m³`}
-                note={`${plan.offcuts.length} pieces`}
+                note={plural(plan.offcuts.length, "piece")}
               />
               {timed.length > 0 && untimed.length === 0 ? (
-                <Fig
+                <Figure
+                  boxed
                   label="Cut time (estimate)"
                   value={`${Math.round(stepMinutes)} min`}
                   note={`on ${steps.machine.name}: ${placements} placement${placements === 1 ? "" : "s"}, ${turns} turn${turns === 1 ? "" : "s"}`}
                 />
               ) : (
-                <Fig
+                <Figure
+                  boxed
                   label="Cut time (estimate)"
                   value={`${Math.round(totalMinutes)} min`}
                   note={`${(totalLength / 1000).toFixed(1)} m of wire travel at ${settings.feedMmPerMin} mm/min`}
                 />
               )}
-            </div>
+            </dl>
             {plan.unplaced.length > 0 && (
               <Notice tone="caution" title="Not everything fits">
                 <ul className="list-disc pl-5">
@@ -157,7 +194,10 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
               const gap = boundGap(run.problem, plan);
               if (!gap) return null;
               return (
-                <Notice tone="info" title={`${gap.used} blocks, where no plan can use fewer than ${gap.bound}`}>
+                <Notice
+                  tone="info"
+                  title={`${plural(gap.used, "block")}, where no plan can use fewer than ${gap.bound}`}
+                >
                   <p>
                     The parts fill {gap.partBlocks.toFixed(2)} of the largest block used, by volume (before kerf and
                     trim). What keeps this plan above the bound:
@@ -290,20 +330,16 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
 
         {siblings.length > 1 && (
           <Card title="Runs for the same job, side by side">
-            <RunTable runs={siblings} feedMmPerMin={settings.feedMmPerMin} currentId={run.id} testId="run-compare" />
+            <RunTable
+              runs={siblings}
+              feedMmPerMin={settings.feedMmPerMin}
+              currentId={run.id}
+              testId="run-compare"
+              money={money}
+            />
           </Card>
         )}
       </div>
     </>
-  );
-}
-
-function Fig({ label, value, note }: { label: string; value: string; note?: string }) {
-  return (
-    <div className="rounded-card border border-bead bg-paper-raised p-4 shadow-card">
-      <p className="text-xs uppercase tracking-wide text-ink-faint">{label}</p>
-      <p className="text-xl font-semibold">{value}</p>
-      {note && <p className="text-xs text-ink-faint">{note}</p>}
-    </div>
   );
 }
