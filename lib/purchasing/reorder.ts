@@ -94,6 +94,17 @@ export function economicOrderQuantity(annualDemand: number, orderCost: number, h
 }
 
 /**
+ * The yearly cost of ordering Q at a time: ordering (D/Q orders × S) plus holding (Q/2 on average
+ * × H). At the EOQ the two halves are equal; away from it the total rises slowly (EOQ is robust).
+ *
+ *   annualInventoryCost(1000, 200, 10, 0.5)  // 100
+ */
+export function annualInventoryCost(annualDemand: number, q: number, orderCost: number, holdingCost: number): number {
+  if (!(q > 0)) throw new RangeError("order quantity must be more than 0");
+  return (annualDemand / q) * orderCost + (q / 2) * holdingCost;
+}
+
+/**
  * Mean and sample standard deviation (n − 1) of a series of daily quantities. Days with no
  * movement must be in the series as 0, or the mean comes out too high.
  *

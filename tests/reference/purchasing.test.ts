@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import {
+  annualInventoryCost,
   economicOrderQuantity,
   planReorder,
   reorderPoint,
@@ -26,6 +27,20 @@ describe("economic order quantity", () => {
   it("gives 219 units when demand rises to 1,200 (arithmetic on the EOQ formula, not the book's example)", () => {
     expect(economicOrderQuantity(1200, 10, 0.5)).toBeCloseTo(Math.sqrt(48_000), 9);
     expect(Math.round(economicOrderQuantity(1200, 10, 0.5))).toBe(219);
+  });
+
+  // Source: Heizer & Render, Operations Management, EOQ chapter, the robustness of the EOQ model —
+  // keeping Q = 200 of the example when D rises to 1,500 (from memory; edition not confirmed, the
+  // trade brief does not give it). By hand: 1,500/200 × $10 + 200/2 × $0.50 = $75 + $50 = $125 a
+  // year, against √(2 × 1,500 × 10 × 0.5) = $122.47 at the new EOQ √60,000 = 244.9: about 2 % more.
+  it("costs $125 a year to keep Q = 200 when D rises to 1,500, about 2 % above the new EOQ's $122.47", () => {
+    expect(annualInventoryCost(1500, 200, 10, 0.5)).toBeCloseTo(125, 9);
+    const eoq = economicOrderQuantity(1500, 10, 0.5);
+    expect(eoq).toBeCloseTo(244.95, 2);
+    expect(annualInventoryCost(1500, eoq, 10, 0.5)).toBeCloseTo(Math.sqrt(15_000), 9);
+    expect(annualInventoryCost(1500, 200, 10, 0.5) / annualInventoryCost(1500, eoq, 10, 0.5)).toBeCloseTo(1.0206, 3);
+    // The example itself: at the EOQ the ordering and holding halves are equal, $50 + $50.
+    expect(annualInventoryCost(1000, 200, 10, 0.5)).toBeCloseTo(100, 9);
   });
 });
 
