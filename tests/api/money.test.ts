@@ -58,7 +58,10 @@ describe("money figures follow one rule", () => {
       expect(cutter.status, url).toBe(200);
       const hidden = valuesOf(cutter.body, keys);
       expect(hidden.length, `${url} carries ${keys.join("/")}`).toBeGreaterThan(0);
-      expect(hidden.every((v) => v === null), `${url} for a cutter`).toBe(true);
+      expect(
+        hidden.every((v) => v === null),
+        `${url} for a cutter`,
+      ).toBe(true);
       for (const role of ["buyer", "planner"]) {
         const res = await signed[role]!.get(url);
         if (res.status === 403) continue; // a route this role cannot read at all
