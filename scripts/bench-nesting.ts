@@ -20,7 +20,7 @@ import {
   problemOf,
   readCsv,
 } from "./lib-bench/loaders";
-import { perfectPacking, shopCase } from "./lib-bench/generate";
+import { multiBlockCount, perfectMultiBlock, perfectPacking, shopCase } from "./lib-bench/generate";
 import { cutRegions, piecesOf } from "@/lib/planning/cut-regions";
 
 const args = process.argv.slice(2);
@@ -37,6 +37,11 @@ const want = (set: string): boolean => !only || only.includes(set);
 
 let invalid = 0;
 const invalidNotes: string[] = [];
+/** Runs whose wall time passed their budget (settings.timeLimitMs) by more than a second: failures. */
+let overruns = 0;
+const overrunNotes: string[] = [];
+/** The most a run may take beyond its budget. */
+const OVERRUN_MS = 1000;
 mkdirSync("bench-results", { recursive: true });
 const LOG = "bench-results/nesting-log.txt";
 writeFileSync(LOG, "");
@@ -50,6 +55,10 @@ function solve(problem: Problem, label: string): { plan: Plan; ms: number } {
   const ms = performance.now() - t0;
   log(`${label}: ${plan.stats.blocksUsed} blocks, ${plan.unplaced.length} unplaced lines, ${ms.toFixed(0)} ms`);
   check(problem, plan, label);
+  if (ms > problem.settings.timeLimitMs + OVERRUN_MS) {
+    overruns++;
+    overrunNotes.push(`${label}: ${ms.toFixed(0)} ms on a ${problem.settings.timeLimitMs} ms budget`);
+  }
   return { plan, ms };
 }
 
@@ -467,6 +476,62 @@ function benchPerfect(): void {
   results.perfect = { optimum: opt, peerOptimum: peerOpt, count };
 }
 
+/**
+ * Multi-block perfect packings (`perfectMultiBlock`): k = 2–5 blocks of 2400 × 1200 × 600 cut into
+ * 8–40 pieces each (kerf 1.5), mixed, k + 2 blocks offered, 2 s budget; seeds 1–50 (1–10 quick).
+ * An instance counts at the optimum when it uses k blocks, places everything, is valid and returns
+ * within its budget + 1 s (a later return counts as a failure whatever the plan).
+ */
+function benchPerfectMulti(): void {
+  const count = quick ? 10 : 50;
+  const budget = 2000;
+  let opt = 0;
+  let above1 = 0;
+  let worse = 0;
+  let late = 0;
+  let peerOpt = 0;
+  const times: number[] = [];
+  for (let s = 1; s <= count; s++) {
+    const k = multiBlockCount(s);
+    const problem = perfectMultiBlock(s, k, budget);
+    const invalidBefore = invalid;
+    const r = solve(problem, `perfect-multi #${s} (k ${k}, ${problem.parts.length} parts)`);
+    times.push(r.ms);
+    const over = r.ms > budget + OVERRUN_MS;
+    if (over) late++;
+    const used = r.plan.unplaced.length === 0 ? r.plan.stats.blocksUsed : Number.POSITIVE_INFINITY;
+    if (used === k && !over && invalid === invalidBefore) opt++;
+    else if (used === k + 1) above1++;
+    else if (used > k + 1) worse++;
+    const kerf = problem.settings.kerf;
+    const peer = binpackingjs3D(
+      problem.blocks[0]!.size.map((v) => v + kerf) as Vec3,
+      problem.parts.map((p) => ({ dims: p.size.map((v) => v + kerf) as Vec3 })),
+      problem.blocks.length,
+    );
+    if (peer.used === k && peer.unfit === 0) peerOpt++;
+  }
+  const sorted = [...times].sort((a, b) => a - b);
+  const mean = times.reduce((a, b) => a + b, 0) / count;
+  const median = sorted[Math.floor(count / 2)]!;
+  const max = sorted[count - 1]!;
+  const row: Row = {
+    set: "3D perfect, k = 2–5 blocks (guil.)",
+    instances: count,
+    blockyard: `${opt} at optimum`,
+    ratio: `${((100 * opt) / count).toFixed(0)}%`,
+    peer: `binpackingjs ${peerOpt}`,
+    peerRatio: `${((100 * peerOpt) / count).toFixed(0)}%`,
+    msPerInstance: mean,
+    note:
+      `k + 1: ${above1}, worse: ${worse}, over budget + 1 s: ${late}; time median ${median.toFixed(0)} ms, ` +
+      `max ${max.toFixed(0)} ms (budget 2000); 16–200 parts, kerf 1.5; target ≥ 95%, none above k + 1`,
+  };
+  rows.push(row);
+  printRow(row);
+  results.perfectMulti = { optimum: opt, kPlus1: above1, worse, overBudget: late, peerOptimum: peerOpt, count, times };
+}
+
 async function benchShop(): Promise<void> {
   const problem = shopCase(42, 3000);
   const t0 = performance.now();
@@ -603,6 +668,7 @@ async function main(): Promise<void> {
     if (want("br")) benchBr(dir);
   }
   if (want("perfect")) benchPerfect();
+  if (want("perfect-multi")) benchPerfectMulti();
   if (want("shop")) await benchShop();
   if (want("large")) await benchLarge();
   console.log(
@@ -611,11 +677,14 @@ async function main(): Promise<void> {
   console.log(
     `invalid plans (or below the bound): ${invalid}${invalidNotes.length ? `\n  ${invalidNotes.slice(0, 10).join("\n  ")}` : ""}`,
   );
+  console.log(
+    `runs over their budget + 1 s (failures): ${overruns}${overrunNotes.length ? `\n  ${overrunNotes.slice(0, 10).join("\n  ")}` : ""}`,
+  );
   console.log(`total time ${((performance.now() - t0) / 1000).toFixed(0)} s`);
   mkdirSync("bench-results", { recursive: true });
   writeFileSync(
     "bench-results/nesting.json",
-    `${JSON.stringify({ quick, rows, results, invalid, invalidNotes }, null, 2)}\n`,
+    `${JSON.stringify({ quick, rows, results, invalid, invalidNotes, overruns, overrunNotes }, null, 2)}\n`,
   );
   if (!dir) return;
 }

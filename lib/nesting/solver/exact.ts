@@ -607,3 +607,305 @@ export function packAllByTable(
     packedVolume: items.reduce((s, it) => s + types[it.type]!.volume, 0),
   };
 }
+
+/** The glue search over several blocks is tried for up to this many pieces. */
+export const MAX_PARTITION_PIECES = 240;
+
+/**
+ * The glue search over several identical blocks: when the parts (grown by the kerf) fill `k` of the
+ * block's usable boxes exactly — as when they were cut from k such blocks and mixed — it partitions
+ * the order into k exact fills without choosing the subsets first. Every block's cut tree is a stack
+ * of slabs across one axis (its first through cuts), each spanning the block's other two sides, so
+ * it works in two stages: boxes that share a face are glued into one (as in `packAllByMerging`)
+ * until every piece is in a slab — a box that spans two sides of the block is set aside as soon as
+ * it forms, never glued on — and then the slabs are shared out among the k blocks so that each
+ * block's stack fills its length exactly (a subset sum per block). Gluing slabs into blocks early
+ * is what lost the glue search its way: it is a bin packing of slab lengths, settled here apart.
+ * Failed states are remembered; with `r`, equally good glues are tried in a shuffled order
+ * (restarts). Blocks without defects only; at most `MAX_PARTITION_PIECES` pieces; bounded by
+ * `nodeLimit` (glues and subset steps) and `stop`. Returns one fill per block, all with `block`'s
+ * index (the caller assigns the blocks), or undefined.
+ * @example packAllIntoBlocks(block, types, counts, 3, 20_000) // → BlockFill[] (3) | undefined
+ */
+export function packAllIntoBlocks(
+  block: BlockInfo,
+  types: readonly ItemType[],
+  counts: readonly number[],
+  k: number,
+  nodeLimit: number,
+  stop: () => boolean = () => false,
+  r?: Rng,
+  learned: Set<string> = new Set(),
+): BlockFill[] | undefined {
+  if (block.obstacles.length > 0 || k < 1) return undefined;
+  const target = block.usable.size;
+  const targetVol = vol(target);
+  const targetSorted = ascending(target);
+  const leaves: MergeNode[] = [];
+  let need = 0;
+  counts.forEach((c, t) => {
+    if (c <= 0) return;
+    const type = types[t]!;
+    const base = type.dims[0]!;
+    let mask = 0;
+    for (let p = 0; p < PERMS.length; p++) if (type.dims.some((d) => sameVec(d, permute(p, base)))) mask |= 1 << p;
+    for (let i = 0; i < c; i++) leaves.push(mergeNode(base, mask, { type: t }));
+    need += c * vol(base);
+  });
+  if (
+    leaves.length === 0 ||
+    leaves.length > MAX_PARTITION_PIECES ||
+    Math.abs(need - k * targetVol) > 1e-6 * k * targetVol
+  )
+    return undefined;
+  if (leaves.some((l) => !atLeastSorted(target, l.sorted))) return undefined;
+  /** Every distinct box that gluing a and b can give (as in `packAllByMerging`). */
+  const glue = (a: MergeNode, b: MergeNode): MergeNode[] => {
+    const out = new Map<string, MergeNode>();
+    for (let pa = 0; pa < PERMS.length; pa++) {
+      if (!(a.mask & (1 << pa))) continue;
+      const da = permute(pa, a.dims);
+      for (let pb = 0; pb < PERMS.length; pb++) {
+        if (!(b.mask & (1 << pb))) continue;
+        const db = permute(pb, b.dims);
+        for (let ax = 0; ax < 3; ax++) {
+          const o1 = (ax + 1) % 3;
+          const o2 = (ax + 2) % 3;
+          if (!near(da[o1]!, db[o1]!) || !near(da[o2]!, db[o2]!)) continue;
+          const dims = [...da] as Vec3;
+          dims[ax] = da[ax]! + db[ax]!;
+          if (!atLeastSorted(target, dims)) continue;
+          let mask = 0;
+          for (let q = 0; q < PERMS.length; q++)
+            if (a.mask & (1 << AFTER[q]![pa]!) && b.mask & (1 << AFTER[q]![pb]!)) mask |= 1 << q;
+          const at: Vec3 = [0, 0, 0];
+          at[ax] = da[ax]!;
+          const node = mergeNode(dims, mask, {
+            kids: [
+              { node: a, perm: pa, at: [0, 0, 0] },
+              { node: b, perm: pb, at },
+            ],
+          });
+          if (!out.has(node.key)) out.set(node.key, node);
+        }
+      }
+    }
+    return [...out.values()];
+  };
+
+  /** A box that spans two sides of the block (as its turns allow): the ways it can stand as a slab. */
+  const slabWays = (n: MergeNode): { axis: number; length: number; perm: number }[] => {
+    const ways: { axis: number; length: number; perm: number }[] = [];
+    for (let p = 0; p < PERMS.length; p++) {
+      if (!(n.mask & (1 << p))) continue;
+      const d = permute(p, n.dims);
+      for (let a = 0; a < 3; a++) {
+        if (!near(d[(a + 1) % 3]!, target[(a + 1) % 3]!) || !near(d[(a + 2) % 3]!, target[(a + 2) % 3]!)) continue;
+        if (d[a]! > target[a]! + EPS || ways.some((w) => w.axis === a && near(w.length, d[a]!))) continue;
+        ways.push({ axis: a, length: d[a]!, perm: p });
+      }
+    }
+    return ways;
+  };
+
+  interface Slab {
+    node: MergeNode;
+    ways: { axis: number; length: number; perm: number }[];
+  }
+  /** A finished block: slabs stacked along `axis` (one slab of full length is a whole block). */
+  interface Stack {
+    axis: number;
+    slabs: { slab: Slab; perm: number; length: number }[];
+  }
+  const closed: Stack[] = [];
+  const slabs: Slab[] = [];
+  const open: MergeNode[] = [];
+  for (const l of leaves) {
+    const ways = slabWays(l);
+    ways.length > 0 ? slabs.push({ node: l, ways }) : open.push(l);
+  }
+  const failed = new Set<number>();
+  const MAX_REMEMBERED = 200_000;
+  // The glues of a pair of boxes, kept: most pairs of a state are pairs of the state before it.
+  const glued = new Map<MergeNode, Map<MergeNode, MergeNode[]>>();
+  let gluedPairs = 0;
+  const glueOnce = (a: MergeNode, b: MergeNode): MergeNode[] => {
+    let row = glued.get(a);
+    const hit = row?.get(b);
+    if (hit) return hit;
+    if (gluedPairs > 400_000) {
+      glued.clear();
+      gluedPairs = 0;
+      row = undefined;
+    }
+    const out = glue(a, b);
+    if (!row) glued.set(a, (row = new Map()));
+    row.set(b, out);
+    gluedPairs++;
+    return out;
+  };
+  let nodes = 0;
+  let aborted = false;
+  const tick = (): boolean => {
+    if (++nodes > nodeLimit || stop()) aborted = true;
+    return aborted;
+  };
+
+  /**
+   * Every block is a stack of slabs across one axis (its first through cuts). With all pieces in
+   * slabs, the slabs are shared out among the blocks so each stack fills its block's length exactly
+   * (a subset sum per block, longest slab first).
+   */
+  const stackSlabs = (left: Slab[], blocks: number): boolean => {
+    if (left.length === 0) return blocks === 0;
+    if (blocks === 0 || tick()) return false;
+    // The slab with the fewest ways and then the longest starts the next block.
+    let fi = 0;
+    for (let i = 1; i < left.length; i++) {
+      const a = left[i]!;
+      const b = left[fi]!;
+      if (a.ways.length < b.ways.length || (a.ways.length === b.ways.length && a.node.volume > b.node.volume)) fi = i;
+    }
+    const first = left[fi]!;
+    for (const w of first.ways) {
+      const rest = left.filter((_, i) => i !== fi);
+      const cands = rest
+        .map((slab) => ({ slab, way: slab.ways.find((v) => v.axis === w.axis) }))
+        .filter((c): c is { slab: Slab; way: Slab["ways"][number] } => c.way !== undefined)
+        .sort((x, y) => y.way.length - x.way.length);
+      const chosen: { slab: Slab; perm: number; length: number }[] = [{ slab: first, perm: w.perm, length: w.length }];
+      const fill = (from: number, room: number): boolean => {
+        if (Math.abs(room) <= EPS * 100) {
+          const used = new Set(chosen.map((c) => c.slab));
+          closed.push({ axis: w.axis, slabs: [...chosen] });
+          if (
+            stackSlabs(
+              rest.filter((x) => !used.has(x)),
+              blocks - 1,
+            )
+          )
+            return true;
+          closed.pop();
+          return false;
+        }
+        if (tick()) return false;
+        let prev = Number.NaN;
+        for (let i = from; i < cands.length; i++) {
+          const c = cands[i]!;
+          // Equal lengths are interchangeable here: try the first of a run only.
+          if (near(c.way.length, prev) || c.way.length > room + EPS * 100) continue;
+          prev = c.way.length;
+          chosen.push({ slab: c.slab, perm: c.way.perm, length: c.way.length });
+          if (fill(i + 1, room - c.way.length)) return true;
+          chosen.pop();
+          if (aborted) return false;
+        }
+        return false;
+      };
+      if (fill(0, target[w.axis]! - w.length)) return true;
+      if (aborted) return false;
+    }
+    return false;
+  };
+
+  /** The glues on the way to the current state, for blaming a dead end. */
+  const path: { a: MergeNode; b: MergeNode }[] = [];
+  const pairKey = (a: MergeNode, b: MergeNode): string => (a.key < b.key ? `${a.key}/${b.key}` : `${b.key}/${a.key}`);
+  /**
+   * A dead end (open boxes, and no two of them glue): blame, for each stuck box, the latest glue
+   * that used up a box it could have been glued to. Such glues go last from then on (in this call
+   * and in later calls given the same `learned`): a glue of boxes from different blocks whose
+   * sides match by chance is what leads the search astray.
+   */
+  const blame = (stuck: readonly MergeNode[]): void => {
+    for (const d of stuck)
+      for (let q = path.length - 1; q >= 0; q--) {
+        const { a, b } = path[q]!;
+        if (shareTwoSides(a.sorted, d.sorted) || shareTwoSides(b.sorted, d.sorted)) {
+          if (learned.size < 10_000) learned.add(pairKey(a, b));
+          break;
+        }
+      }
+  };
+
+  const dfs = (boxes: MergeNode[]): boolean => {
+    if (boxes.length === 0) return stackSlabs(slabs, k);
+    if (tick()) return false;
+    const stateKey = stateHash([...boxes, ...slabs.map((x) => x.node)]);
+    if (failed.has(stateKey)) return false;
+    // j < 0: box i glued to slab -j - 1 (see below).
+    const moves: { i: number; j: number; node: MergeNode; score: number }[] = [];
+    const pairs = new Set<string>();
+    for (let i = 0; i < boxes.length; i++)
+      for (let j = i + 1; j < boxes.length; j++) {
+        const a = boxes[i]!;
+        const b = boxes[j]!;
+        if (!shareTwoSides(a.sorted, b.sorted) || a.volume + b.volume > targetVol * (1 + 1e-9)) continue;
+        const pk = pairKey(a, b);
+        if (pairs.has(pk)) continue;
+        pairs.add(pk);
+        const blamed = learned.has(pk) ? 4e12 : 0;
+        for (const node of glueOnce(a, b)) {
+          const whole = node.sorted.filter((v) => targetSorted.some((t) => near(v, t))).length;
+          moves.push({ i, j, node, score: whole * 1e12 - blamed - node.volume * (r ? 0.5 + r() : 1) });
+        }
+      }
+    // A box set aside as a slab may still be part of a smaller box in its block, when its sides
+    // equal the block's only by chance (a piece of 1200 mm in a strip across a 2400 mm block): such
+    // glues come after all others, so the search stays complete.
+    for (let i = 0; i < boxes.length; i++)
+      for (let q = 0; q < slabs.length; q++) {
+        const a = boxes[i]!;
+        const b = slabs[q]!.node;
+        if (!shareTwoSides(a.sorted, b.sorted) || a.volume + b.volume > targetVol * (1 + 1e-9)) continue;
+        const pk = `${pairKey(a, b)}#`;
+        if (pairs.has(pk)) continue;
+        pairs.add(pk);
+        for (const node of glueOnce(a, b)) moves.push({ i, j: -q - 1, node, score: -8e12 - node.volume });
+      }
+    if (moves.length === 0) blame(boxes);
+    moves.sort((x, y) => y.score - x.score);
+    for (const m of moves) {
+      const next = boxes.filter((_, q) => q !== m.i && q !== m.j);
+      const at = m.j < 0 ? -m.j - 1 : -1;
+      const taken = at >= 0 ? slabs.splice(at, 1)[0]! : undefined;
+      const ways = slabWays(m.node);
+      if (ways.length > 0) slabs.push({ node: m.node, ways });
+      else next.push(m.node);
+      path.push({ a: boxes[m.i]!, b: taken ? taken.node : boxes[m.j]! });
+      if (dfs(next)) return true;
+      path.pop();
+      if (ways.length > 0) slabs.pop();
+      if (taken) slabs.splice(at, 0, taken);
+      if (aborted) return false;
+    }
+    if (failed.size < MAX_REMEMBERED) failed.add(stateKey);
+    return false;
+  };
+  if (!dfs(open) || closed.length !== k) return undefined;
+
+  return closed.map((stack) => {
+    const items: PackedItem[] = [];
+    const place = (n: MergeNode, perm: number, origin: Vec3): void => {
+      if (n.type !== undefined) {
+        items.push({ type: n.type, origin, dims: permute(perm, n.dims) });
+        return;
+      }
+      for (const kid of n.kids!) {
+        const at = permute(perm, kid.at);
+        place(kid.node, AFTER[perm]![kid.perm]!, [origin[0] + at[0], origin[1] + at[1], origin[2] + at[2]]);
+      }
+    };
+    const origin = [...block.usable.origin] as Vec3;
+    for (const s of stack.slabs) {
+      place(s.slab.node, s.perm, [...origin] as Vec3);
+      origin[stack.axis] = origin[stack.axis]! + s.length;
+    }
+    return {
+      block: block.index,
+      items,
+      leftovers: [],
+      packedVolume: items.reduce((s, it) => s + types[it.type]!.volume, 0),
+    };
+  });
+}

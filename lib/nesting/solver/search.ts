@@ -9,7 +9,14 @@ import { assemblePlan, keptOffcuts } from "./assemble";
 import { fillBlockGuillotine, type SplitRule } from "./guillotine3d";
 import { fillBlockMaxRects, fillBlockMaxRectsPackage, layerDims, type RectRule } from "./maxrects2d";
 import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
-import { packAllByCuts, packAllByMerging, packAllByTable, packAllInBlock } from "./exact";
+import {
+  MAX_PARTITION_PIECES,
+  packAllByCuts,
+  packAllByMerging,
+  packAllByTable,
+  packAllInBlock,
+  packAllIntoBlocks,
+} from "./exact";
 import { eliminateBlocks } from "./improve";
 import { fillBlockFree } from "./freefill";
 import { packLayerPerfect } from "./perfect2d";
@@ -60,6 +67,18 @@ const DEFAULT: PassParams = {
 /** Share of passes (once `reusable`) that start from remembered dense fillings. */
 const REUSE_SHARE = 0.8;
 
+/** Share of the time budget that the search for exact fills over several blocks may take in all. */
+const PARTITION_SHARE = 0.6;
+
+/** Glue steps of the first exact-fills-over-several-blocks attempt (the later ones: 4–8 per piece). */
+const PARTITION_NODES = 2000;
+
+/** Attempts per pass at exact fills over several blocks when there is no clock (a pass budget)... */
+const PARTITION_TRIES = 8;
+
+/** ...in this many passes at most (the attempts cost as much as many passes). */
+const PARTITION_PASSES = 3;
+
 /** The perfect-layer search is tried for up to this many pieces (beyond, it rarely ends in time). */
 const MAX_PERFECT_PIECES = 40;
 
@@ -95,6 +114,11 @@ export class Search {
   private readonly fillMost: boolean;
   /** Share of passes that fill blocks in free layout (maximal empty boxes); 0 unless the layout is free. */
   private readonly freeShare: number;
+  /**
+   * The order fills `k` ≥ 2 identical blocks exactly (no waste at all, by volume): the blocks it
+   * would take, the attempts so far and their time, and the glues blamed for dead ends.
+   */
+  private partition?: { blocks: number[]; spentMs: number; attempts: number; learned: Set<string> };
 
   constructor(
     problem: Problem,
@@ -130,6 +154,7 @@ export class Search {
     this.fillMost = modest && !oneLayer && (this.model.blocks.length === 1 || cargo >= capacity);
     this.freeShare = problem.settings.layout === "free" ? 0.7 : 0;
     this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
+    this.partition = this.exactBlocks(cargo);
     if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
       const w = opts.warmStart;
       this.best = {
@@ -139,6 +164,83 @@ export class Search {
         unplaced: w.unplaced.reduce((n, u) => n + u.count, 0),
       };
     }
+  }
+
+  /**
+   * When the parts (grown by the kerf) fill a whole number k ≥ 2 of identical blocks exactly, the
+   * cheapest k such blocks (blocks without defects, taking every part); otherwise undefined.
+   */
+  private exactBlocks(cargo: number): Search["partition"] {
+    const m = this.model;
+    const pieces = m.types.reduce((s, t) => s + t.count, 0);
+    if (pieces > MAX_PARTITION_PIECES || !this.typeFitsSomewhere.every(Boolean)) return undefined;
+    const byClass = new Map<string, number[]>();
+    for (const b of this.blockOrder(DEFAULT)) {
+      const info = m.blocks[b]!;
+      if (info.obstacles.length > 0 || m.compatible[b]!.length < m.types.length) continue;
+      byClass.set(info.classKey, [...(byClass.get(info.classKey) ?? []), b]);
+    }
+    let best: { blocks: number[]; cost: number } | undefined;
+    for (const group of byClass.values()) {
+      const info = m.blocks[group[0]!]!;
+      const cap = volume(info.usable.size);
+      const k = Math.round(cargo / cap);
+      if (k < 2 || k > group.length || Math.abs(cargo - k * cap) > 1e-6 * k * cap) continue;
+      if (!best || k * info.cost < best.cost) best = { blocks: group.slice(0, k), cost: k * info.cost };
+    }
+    return best && { blocks: best.blocks, spentMs: 0, attempts: 0, learned: new Set() };
+  }
+
+  /**
+   * Attempts at exact fills over several blocks (`packAllIntoBlocks`), while the best plan uses more
+   * blocks than that and the attempts have spent less than their share of the budget: the first
+   * glues in a fixed order with `PARTITION_NODES` steps, the later ones (restarts) shuffle equally
+   * good glues with a few steps per piece, and glues blamed for dead ends in earlier attempts go
+   * last. With a clock, one call takes up to a third of the budget; without one (a pass budget),
+   * `PARTITION_TRIES` attempts in each of the first `PARTITION_PASSES` calls, so runs stay
+   * deterministic and a long pass budget does not repeat them.
+   */
+  private tryPartition(): void {
+    const part = this.partition;
+    if (!part) return;
+    const s = this.best?.score;
+    const k = part.blocks.length;
+    if (s && s.blocksUsed <= k && this.allPlaced(s)) {
+      this.partition = undefined;
+      return;
+    }
+    const m = this.model;
+    const counts = m.types.map((t) => t.count);
+    const pieces = counts.reduce((a, c) => a + c, 0);
+    const limitMs = this.opts.timeLimitMs * PARTITION_SHARE;
+    const t0 = this.elapsed();
+    const sliceMs = this.opts.timeLimitMs / 3;
+    const over = (): boolean =>
+      this.fraction() >= 1 ||
+      (!!this.opts.now && (part.spentMs + this.elapsed() - t0 >= limitMs || this.elapsed() - t0 >= sliceMs));
+    // Without a clock the attempts are counted instead: PARTITION_TRIES per pass, in the first passes.
+    const cap = this.opts.now ? 1000 : PARTITION_PASSES * PARTITION_TRIES;
+    for (let tries = 0; tries < PARTITION_TRIES || this.opts.now; tries++) {
+      if (over() || part.attempts >= cap) break;
+      const nodes = part.attempts === 0 ? PARTITION_NODES : Math.round(4 * pieces * (1 + part.attempts / 10));
+      const fills = packAllIntoBlocks(
+        m.blocks[part.blocks[0]!]!,
+        m.types,
+        counts,
+        k,
+        nodes,
+        over,
+        part.attempts > 0 ? this.r : undefined,
+        part.learned,
+      );
+      part.attempts++;
+      if (fills) {
+        this.offer(fills.map((f, i) => ({ ...f, block: part.blocks[i]! })));
+        this.partition = undefined;
+        return;
+      }
+    }
+    part.spentMs += this.elapsed() - t0;
   }
 
   elapsed(): number {
@@ -157,10 +259,19 @@ export class Search {
     return this.iteration > 1 && !!this.opts.now && this.fraction() >= 1;
   }
 
+  /**
+   * Whether a plan places every part that fits somewhere: its part volume, summed in another order,
+   * may differ from `placeable` by rounding (relatively, not by a fixed amount: volumes in mm³ of
+   * a hundred parts run to 1e10).
+   */
+  private allPlaced(s: Score): boolean {
+    return s.placedVolume >= this.placeable - Math.max(1e-6, 1e-9 * this.placeable);
+  }
+
   /** True when nothing better can be found: everything placed in as few blocks as the bound. */
   atBound(): boolean {
     const s = this.best?.score;
-    return !!s && s.placedVolume >= this.placeable - 1e-6 && s.blocksUsed <= this.lowerBound;
+    return !!s && this.allPlaced(s) && s.blocksUsed <= this.lowerBound;
   }
 
   done(signal?: AbortSignal): boolean {
@@ -177,6 +288,12 @@ export class Search {
     const p = { ...(this.iteration === 0 ? DEFAULT : this.randomParams()) };
     if (this.reusable() && this.r() < REUSE_SHARE) p.reuse = 0.3 + 0.6 * this.r();
     this.iteration++;
+    // After the first pass (so a plan exists at once): exact fills over several blocks, when the
+    // order fills a whole number of blocks by volume.
+    if (this.iteration > 1) {
+      this.tryPartition();
+      if (this.atBound()) return;
+    }
     const fills = this.pass(p);
     if (!fills) return;
     this.offer(fills);
@@ -198,8 +315,7 @@ export class Search {
    */
   private reusable(): boolean {
     const s = this.best?.score;
-    if (!s || this.iteration < 4 || this.pool.size < 4 || this.atBound() || s.placedVolume < this.placeable - 1e-6)
-      return false;
+    if (!s || this.iteration < 4 || this.pool.size < 4 || this.atBound() || !this.allPlaced(s)) return false;
     return this.model.blocks.every((b) => b.classKey === this.model.blocks[0]!.classKey) && s.blocksUsed > 1;
   }
 
@@ -215,7 +331,7 @@ export class Search {
   /** Recombines remembered fillings by set cover when everything fits but above the bound. */
   private cover(): void {
     const s = this.best?.score;
-    if (!s || this.atBound() || s.placedVolume < this.placeable - 1e-6 || this.pool.size < 2) return;
+    if (!s || this.atBound() || !this.allPlaced(s) || this.pool.size < 2) return;
     const demand = this.model.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
     // Keep the linear program modest: at most 80 part lines.
     if (demand.filter((d) => d > 0).length > 80) return;
