@@ -29,6 +29,20 @@ export const ppmToMgM3 = (ppm: number, molarMass: number) => (ppm * molarMass) /
 /** Pentane's lower explosive (flammable) limit in air, % by volume (common practice, no source in the trade brief). */
 export const PENTANE_LEL_PCT = 1.5;
 
+/**
+ * n-Pentane, the blowing agent fresh EPS gives off: United States exposure limits as the NIOSH
+ * Pocket Guide to Chemical Hazards lists them (from memory: the trade brief gives no pentane
+ * limits). IDLH 1,500 ppm is set at 10 % of the lower explosive limit, not by toxicity.
+ */
+export const PENTANE = {
+  oshaPelTwaPpm: 1000,
+  nioshRelTwaPpm: 120,
+  nioshCeilingPpm: 610,
+  idlhPpm: 1500,
+  /** g/mol: C5H12 = 5 × 12.011 + 12 × 1.008 (arithmetic on standard atomic weights). */
+  molarMass: 72.15,
+} as const;
+
 export const HIGH_PILED = {
   /** IFC 2018 ch. 32: storage above this height is high-piled. */
   generalFt: 12,

@@ -32,6 +32,10 @@ describe("the safety page opens without signing in", () => {
     expect(res.status, res.headers.location).toBe(200);
     const h = headings(res.text);
     expect(h).toContain("Safety cautions and their sources");
+    // Pentane's exposure limits beside styrene's (NIOSH Pocket Guide; lib/safety/limits.ts PENTANE):
+    // 1,000 ppm is 2,951 mg/m³ at 25 °C (1000 × 72.15 ÷ 24.45).
+    expect(h).toContain("Pentane limits (United States)");
+    expect(res.text).toMatch(/1,000<\/td><td[^>]*>2,951</);
     for (const s of SAFETY_SECTIONS) expect(h).toContain(s.title);
     expect(h).toEqual(
       expect.arrayContaining([

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { MOLAR_VOLUME_25C_L, PENTANE_LEL_PCT, SAFETY_SOURCES, STYRENE, ppmToMgM3 } from "@/lib/safety/limits";
+import { MOLAR_VOLUME_25C_L, PENTANE, PENTANE_LEL_PCT, SAFETY_SOURCES, STYRENE, ppmToMgM3 } from "@/lib/safety/limits";
 
 describe("styrene in mg/m³", () => {
   // mg/m³ = ppm × molar mass ÷ 24.45 (litres per mole of gas at 25 °C, 1 atm), the basis of
@@ -18,7 +18,23 @@ describe("styrene in mg/m³", () => {
 });
 
 describe("pentane", () => {
-  // The app shows no pentane exposure limits (the trade brief gives none); it shows the lower
+  // Source: NIOSH Pocket Guide to Chemical Hazards, n-pentane — from memory (the trade brief gives
+  // no pentane limits): OSHA PEL TWA 1000 ppm (2950 mg/m³), NIOSH REL TWA 120 ppm (350 mg/m³),
+  // ceiling 610 ppm (1800 mg/m³) for 15 minutes, IDLH 1500 ppm (10 % of the LEL).
+  it("holds the NIOSH Pocket Guide's pentane limits, and the app's mg/m³ agree with the Guide's within 1.5 %", () => {
+    expect(PENTANE.molarMass).toBeCloseTo(5 * 12.011 + 12 * 1.008, 2);
+    const printed: [number, number][] = [
+      [PENTANE.oshaPelTwaPpm, 2950],
+      [PENTANE.nioshRelTwaPpm, 350],
+      [PENTANE.nioshCeilingPpm, 1800],
+    ];
+    expect(printed.map(([ppm]) => ppm)).toEqual([1000, 120, 610]);
+    for (const [ppm, mg] of printed) expect(Math.abs(ppmToMgM3(ppm, PENTANE.molarMass) - mg) / mg).toBeLessThan(0.015);
+    // The IDLH is 10 % of the lower explosive limit: 1.5 % by volume = 15,000 ppm.
+    expect(PENTANE.idlhPpm).toBe((PENTANE_LEL_PCT / 100) * 1e6 * 0.1);
+  });
+
+  // Besides the exposure limits above (safety page, "Pentane limits"), the app shows the lower
   // explosive limit, 1.5 % by volume, marked "common practice, no source" on the page.
   it("states pentane's lower explosive limit as 1.5 % and marks it without a source", () => {
     expect(PENTANE_LEL_PCT).toBe(1.5);

@@ -4,6 +4,8 @@ import { Card, Notice, PageHeader } from "@/components/ui/card";
 import {
   DEFER,
   HIGH_PILED,
+  PENTANE,
+  PENTANE_LEL_PCT,
   SAFETY_SECTIONS,
   SAFETY_SOURCES,
   STYRENE,
@@ -24,6 +26,13 @@ const PRINT_CSS = `
   .safety-page a { color: inherit !important; text-decoration: none !important; }
 }
 `;
+
+const PENTANE_LIMITS: { label: string; ppm: number; by: "OSHA" | "NIOSH" }[] = [
+  { label: "Permissible exposure limit, 8-hour TWA", ppm: PENTANE.oshaPelTwaPpm, by: "OSHA" },
+  { label: "Recommended exposure limit, TWA", ppm: PENTANE.nioshRelTwaPpm, by: "NIOSH" },
+  { label: "Ceiling (15 minutes)", ppm: PENTANE.nioshCeilingPpm, by: "NIOSH" },
+  { label: "Immediately dangerous to life or health (10 % of the LEL)", ppm: PENTANE.idlhPpm, by: "NIOSH" },
+];
 
 const LIMITS: { label: string; ppm: number; by: "OSHA" | "NIOSH"; testId?: string }[] = [
   { label: "Permissible exposure limit, 8-hour TWA", ppm: STYRENE.oshaPelTwaPpm, by: "OSHA", testId: "osha-pel" },
@@ -92,6 +101,35 @@ export default async function SafetyPage() {
           <p className="mt-3 text-xs text-ink-faint">
             mg/m³ converted at 25 °C and 1 atm (ppm × {STYRENE.molarMass} ÷ 24.45); published tables round their own
             conversions and may differ by a few mg/m³. Other countries set their own limits.
+          </p>
+        </Card>
+        <Card title="Pentane limits (United States)">
+          <table data-testid="pentane-limits">
+            <thead className="border-b border-bead">
+              <tr>
+                <th className="py-2 pr-3">Limit</th>
+                <th className="px-3 py-2 text-right">ppm</th>
+                <th className="px-3 py-2 text-right">mg/m³</th>
+                <th className="py-2 pl-3">Set by</th>
+              </tr>
+            </thead>
+            <tbody>
+              {PENTANE_LIMITS.map((l) => (
+                <tr key={l.label} className="border-b border-bead/60 last:border-0">
+                  <td className="py-2 pr-3">{l.label}</td>
+                  <td className="px-3 py-2 text-right tabular-nums">{l.ppm.toLocaleString("en")}</td>
+                  <td className="px-3 py-2 text-right tabular-nums">
+                    {Math.round(ppmToMgM3(l.ppm, PENTANE.molarMass)).toLocaleString("en")}
+                  </td>
+                  <td className="py-2 pl-3">{l.by}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <p className="mt-3 text-xs text-ink-faint">
+            Fresh EPS gives off pentane as it cures. Source: NIOSH Pocket Guide to Chemical Hazards, n-pentane (values
+            from memory; check the current edition). Its fire risk starts far below these: it burns in air from{" "}
+            {PENTANE_LEL_PCT} % (15,000 ppm).
           </p>
         </Card>
         <Card title="Storage heights">
