@@ -72,12 +72,17 @@ describe("at the machine, on a tablet", () => {
     // Part-cut: asks first, then says what went back to stock.
     await second.getByRole("button", { name: "Record part-cut…" }).click();
     await second.getByRole("button", { name: /^Yes, record .+ part-cut$/ }).click();
-    const done = second.getByText(/Uncut pieces back in stock: /);
-    await done.waitFor();
-    const text = (await done.textContent()) ?? "";
-    const codes = [
-      ...text.matchAll(new RegExp(`${block.code.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}\\.\\d+`, "g")),
-    ].map((m) => m[0]);
+    // The answer names the uncut pieces; the page then refreshes and lists them with the offcuts
+    // (either way the codes are on the page): read the codes once the block shows as part-cut.
+    await second
+      .getByText(/is recorded part-cut/)
+      .first()
+      .waitFor();
+    const text = (await second.locator("main").textContent()) ?? "";
+    // Only the codes the notice lists as in stock ("… in stock: HF-1.4, HF-1.5."), not the step list's.
+    const codes = [...text.matchAll(/in stock: ((?:[A-Za-z0-9-]+\.\d+(?:, )?)+)/g)]
+      .flatMap((m) => m[1]!.split(", "))
+      .filter((c) => c.startsWith(`${block.code}.`));
     expect(codes.length).toBeGreaterThan(0);
     await screenshot(second, "machine-part-cut-tablet");
     const rejected = await testDb()("cut_parts").where({ run_id: runId }).sum({ n: "rejected_count" }).first();

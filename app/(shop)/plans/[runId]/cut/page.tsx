@@ -131,7 +131,8 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
                     <Notice tone="success" title={b.partial ? `${b.code} is recorded part-cut` : `${b.code} is cut`}>
                       {offcutsOf.get(b.id)?.length ? (
                         <>
-                          Offcuts now in stock: {offcutsOf.get(b.id)!.join(", ")}.{" "}
+                          {b.partial ? "Offcuts and uncut pieces now in stock" : "Offcuts now in stock"}:{" "}
+                          {offcutsOf.get(b.id)!.join(", ")}.{" "}
                           <Link href={`/labels?codes=${encodeURIComponent(offcutsOf.get(b.id)!.join(","))}`}>
                             Print their labels
                           </Link>
