@@ -157,3 +157,29 @@ export function isStorageDown(e: unknown): boolean {
     ["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "ENOTFOUND"].includes(err.code ?? "") || err.name === "TimeoutError"
   );
 }
+
+/**
+ * The files of a photo upload (multipart/form-data, field "photos"), refused before reading when
+ * the request is not multipart (415) or larger than MAX_UPLOAD_BYTES (413), or unreadable (400).
+ * Shared by the defect and claim photo routes.
+ */
+export async function readPhotoUpload(req: Request): Promise<File[]> {
+  if (!(req.headers.get("content-type") ?? "").toLowerCase().startsWith("multipart/form-data")) {
+    throw new HttpError(415, 'Send the photos as multipart/form-data, in a field named "photos".');
+  }
+  const length = Number(req.headers.get("content-length") ?? 0);
+  if (length > MAX_UPLOAD_BYTES) {
+    throw new HttpError(
+      413,
+      `This upload is ${Math.ceil(length / 1024 / 1024)} MB; send at most ${Math.floor(MAX_UPLOAD_BYTES / 1024 / 1024)} MB at a time.`,
+      { photos: "Too much at once: send fewer photos per upload." },
+    );
+  }
+  let form: FormData;
+  try {
+    form = await req.formData();
+  } catch {
+    throw new HttpError(400, "The upload could not be read as a form; try again.");
+  }
+  return form.getAll("photos").filter((v): v is File => typeof v !== "string");
+}

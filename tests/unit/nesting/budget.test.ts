@@ -10,9 +10,9 @@ import { existsSync, readFileSync } from "node:fs";
 import path from "node:path";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import type { Problem, Vec3 } from "@/lib/nesting";
+import type { Problem } from "@/lib/nesting";
 import { solveCover } from "@/lib/nesting/solver/lp";
-import { rng } from "@/scripts/lib-bench/generate";
+import { perfectMultiBlock as perfectBlocks } from "@/scripts/lib-bench/generate";
 
 const repoRoot = path.resolve(__dirname, "../../..");
 const reproFile = [
@@ -88,62 +88,6 @@ function nestInChild(
     });
     child.stdin.end(JSON.stringify(problems));
   });
-}
-
-/**
- * `k` blocks of 2400 × 1200 × 600 each cut by random guillotine cuts (kerf 1.5, sizes to 0.1 mm)
- * into 8–40 pieces; the pieces of all blocks mixed, turned at random, and k + 2 blocks offered.
- */
-function perfectBlocks(seed: number, k: number, timeLimitMs: number): Problem {
-  const r = rng(seed);
-  const block: Vec3 = [2400, 1200, 600];
-  const kerf = 1.5;
-  const pieces: Vec3[] = [];
-  for (let b = 0; b < k; b++) {
-    const want = 8 + Math.floor(r() * 33);
-    const boxes: Vec3[] = [block];
-    let guard = 0;
-    while (boxes.length < want && guard++ < 10_000) {
-      boxes.sort((x, y) => y[0] * y[1] * y[2] - x[0] * x[1] * x[2]);
-      const i = Math.floor(r() * Math.min(boxes.length, 3));
-      const box = boxes[i]!;
-      const axes = [0, 1, 2].filter((a) => box[a]! >= 2 * 40 + kerf);
-      if (axes.length === 0) continue;
-      const a = axes[Math.floor(r() * axes.length)]!;
-      const at = Math.round((40 + r() * (box[a]! - 2 * 40 - kerf)) * 10) / 10;
-      const left = [...box] as Vec3;
-      const right = [...box] as Vec3;
-      left[a] = at;
-      right[a] = Math.round((box[a]! - at - kerf) * 10) / 10;
-      boxes.splice(i, 1, left, right);
-    }
-    pieces.push(...boxes);
-  }
-  // Mix the pieces of all blocks.
-  for (let i = pieces.length - 1; i > 0; i--) {
-    const j = Math.floor(r() * (i + 1));
-    [pieces[i], pieces[j]] = [pieces[j]!, pieces[i]!];
-  }
-  return {
-    version: 1,
-    settings: { kerf, trim: 0, defectMargin: 0, minOffcut: [100, 100, 25], layout: "guillotine", timeLimitMs },
-    blocks: Array.from({ length: k + 2 }, (_, i) => ({
-      id: `S${i + 1}`,
-      size: block,
-      grade: "EPS-22",
-      cost: 100,
-      offcut: false,
-      trim: 0,
-      defects: [],
-    })),
-    parts: pieces.map((s, i) => ({
-      id: `p${i + 1}`,
-      size: [...s].sort(() => r() - 0.5) as Vec3,
-      quantity: 1,
-      grade: "EPS-22",
-      rotate: "any" as const,
-    })),
-  } as Problem;
 }
 
 if (!reproFile) {
