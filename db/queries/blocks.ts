@@ -251,7 +251,7 @@ export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<Bloc
       )) as Row[])
     : [];
   const byId = new Map(rows.map((r) => [r.id, r]));
-  const items = ids.map((r) => toSummary(byId.get(r.id)!, today)).filter(Boolean);
+  const items = ids.map((r) => toSummary(byId.get(r.id)!, today));
   await attachFifo(items, today);
   const first = ids[0];
   const last = ids.at(-1);
