@@ -4,15 +4,19 @@
  * Pure: no I/O.
  */
 import { ProfileError, parseNaca, sectionArea, sectionBox } from "./naca";
-import { checkPolygon, polygonArea, polygonBounds, type Point } from "./polygon";
+import { checkOutline, outlineArea, polygonBounds, type Point } from "./polygon";
 
 export type Size3 = [number, number, number];
 
 /** A 2-axis part: one outline in the cutting plane, extruded along the wire. */
 export interface PolygonProfile {
   kind: "polygon";
-  /** Outline in the cutting plane, mm: first coordinate across the block, second up. */
+  /** Outer loop in the cutting plane, mm: first coordinate across the block, second up. */
   points: Point[];
+  /** Holes (letters "O", "A", a window in a frame), each a loop inside `points`; absent: none. */
+  holes?: Point[][];
+  /** Where the outline came from, for people: "drawing.dxf", "SVG path", "text “OPEN” in Blockyard Sans". */
+  source?: string;
   extrudeMm: number;
 }
 
@@ -78,17 +82,20 @@ export function nacaPanelGeometry(p: NacaProfile): PartGeometry {
 }
 
 /**
- * A polygon extrusion's box and volume: area × extrusion length.
+ * A polygon extrusion's box and volume: (outer area − holes) × extrusion length.
  *
  *   polygonPartGeometry({ kind: "polygon", points: [[0, 0], [300, 0], [0, 400]], extrudeMm: 50 })
  *   // { size: [50, 300, 400], trueVolumeMm3: 3_000_000 }
  */
 export function polygonPartGeometry(p: PolygonProfile): PartGeometry {
-  const problem = checkPolygon(p.points);
+  const problem = checkOutline(p.points, p.holes ?? []);
   if (problem) throw new ProfileError(problem);
   if (!(p.extrudeMm > 0)) throw new ProfileError("The extrusion length must be more than 0 mm.");
   const b = polygonBounds(p.points);
-  return { size: [p.extrudeMm, b.size[0], b.size[1]], trueVolumeMm3: Math.abs(polygonArea(p.points)) * p.extrudeMm };
+  return {
+    size: [p.extrudeMm, b.size[0], b.size[1]],
+    trueVolumeMm3: outlineArea(p.points, p.holes ?? []) * p.extrudeMm,
+  };
 }
 
 /**

@@ -96,6 +96,57 @@ export function checkPolygon(points: readonly Point[]): string | null {
   return null;
 }
 
+/** Is `p` strictly inside the polygon (even-odd ray cast; points on an edge count as outside)? */
+export function pointInPolygon(p: Point, poly: readonly Point[]): boolean {
+  let inside = false;
+  for (let i = 0, j = poly.length - 1; i < poly.length; j = i++) {
+    const [xi, yi] = poly[i]!;
+    const [xj, yj] = poly[j]!;
+    if (yi > p[1] !== yj > p[1] && p[0] < ((xj - xi) * (p[1] - yi)) / (yj - yi) + xi) inside = !inside;
+  }
+  return inside;
+}
+
+/**
+ * Why an outer loop with holes is not a profile a wire can cut, or null when it is: each loop a
+ * simple polygon (`checkPolygon`), every hole inside the outer loop, no two loops crossing or
+ * touching, no hole inside another hole.
+ *
+ *   checkOutline(square(100), [square(200)])  // "Hole 1 is not inside the outer loop."
+ */
+export function checkOutline(outer: readonly Point[], holes: readonly (readonly Point[])[] = []): string | null {
+  const own = checkPolygon(outer);
+  if (own) return holes.length ? `Outer loop: ${own}` : own;
+  for (const [h, hole] of holes.entries()) {
+    const problem = checkPolygon(hole);
+    if (problem) return `Hole ${h + 1}: ${problem}`;
+    const loops: [string, readonly Point[]][] = [
+      ["the outer loop", outer],
+      ...holes.slice(0, h).map((o, i): [string, readonly Point[]] => [`hole ${i + 1}`, o]),
+    ];
+    for (const [name, loop] of loops) {
+      for (let i = 0; i < hole.length; i++) {
+        for (let j = 0; j < loop.length; j++) {
+          if (segmentsMeet(hole[i]!, hole[(i + 1) % hole.length]!, loop[j]!, loop[(j + 1) % loop.length]!)) {
+            return `Hole ${h + 1} crosses or touches ${name}.`;
+          }
+        }
+      }
+    }
+    if (!pointInPolygon(hole[0]!, outer)) return `Hole ${h + 1} is not inside the outer loop.`;
+    for (const [i, other] of holes.slice(0, h).entries()) {
+      if (pointInPolygon(hole[0]!, other) || pointInPolygon(other[0]!, hole))
+        return `Holes ${i + 1} and ${h + 1} lie one inside the other.`;
+    }
+  }
+  return null;
+}
+
+/** Area of an outer loop less its holes, unsigned. */
+export function outlineArea(outer: readonly Point[], holes: readonly (readonly Point[])[] = []): number {
+  return Math.abs(polygonArea(outer)) - holes.reduce((s, h) => s + Math.abs(polygonArea(h)), 0);
+}
+
 /**
  * Reads "x y; x y; …" (commas also accepted between the two numbers of a point).
  *

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { JOB_STATUSES, ROTATE_RULES } from "@/lib/job-terms";
-import { checkPolygon, parseNaca } from "@/lib/profiles";
+import { checkOutline, checkPolygon, parseNaca } from "@/lib/profiles";
 
 const text = (label: string, max = 200) =>
   z
@@ -34,23 +34,32 @@ export const sizeSchema = z.tuple([mm("Length"), mm("Width"), mm("Height")], {
   error: "Give the size as [length, width, height] in mm.",
 });
 
-export const polygonProfileSchema = z.object({
-  kind: z.literal("polygon"),
-  points: z
-    .array(
-      z.tuple([
-        z.number({ error: "Each coordinate must be a number." }).finite().min(-30_000).max(30_000),
-        z.number({ error: "Each coordinate must be a number." }).finite().min(-30_000).max(30_000),
-      ]),
-      { error: "Give the outline as a list of [x, y] points." },
-    )
-    .max(2_000, "At most 2,000 points.")
-    .superRefine((pts, ctx) => {
+const coordinate = z.number({ error: "Each coordinate must be a number." }).finite().min(-30_000).max(30_000);
+const loopSchema = z.array(z.tuple([coordinate, coordinate]), {
+  error: "Give the outline as a list of [x, y] points.",
+});
+
+export const polygonProfileSchema = z
+  .object({
+    kind: z.literal("polygon"),
+    points: loopSchema.max(2_000, "At most 2,000 points.").superRefine((pts, ctx) => {
       const problem = checkPolygon(pts);
       if (problem) ctx.addIssue({ code: "custom", message: problem });
     }),
-  extrudeMm: mm("Extrusion length"),
-});
+    holes: z
+      .array(loopSchema.max(2_000, "At most 2,000 points per hole."), {
+        error: "Give the holes as a list of outlines.",
+      })
+      .max(200, "At most 200 holes.")
+      .optional(),
+    source: z.string().trim().max(200, "The source is at most 200 characters.").optional(),
+    extrudeMm: mm("Extrusion length"),
+  })
+  .superRefine((p, ctx) => {
+    if (!p.holes?.length) return;
+    const problem = checkOutline(p.points, p.holes);
+    if (problem) ctx.addIssue({ code: "custom", path: ["holes"], message: problem });
+  });
 
 export const nacaProfileSchema = z.object({
   kind: z.literal("naca"),
