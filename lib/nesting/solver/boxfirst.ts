@@ -1,7 +1,7 @@
 import { volume as vol, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
-import { GRID_ORDERS, split, type SplitRule } from "./guillotine3d";
+import { GRID_ORDERS, split, type SplitRule } from "./split";
 import { gridItems, type ItemType, type PackedItem } from "./model";
 
 /** Budget for lookahead: moves judged x part lines x pieces (about 150 moves for 10 lines of 130 pieces). */

@@ -6,7 +6,8 @@ import { rng as makeRng, type Rng } from "../rng";
 import type { Plan, Problem } from "../types";
 import { validatePlan } from "../validate";
 import { assemblePlan, keptOffcuts } from "./assemble";
-import { fillBlockGuillotine, type SplitRule } from "./guillotine3d";
+import { fillBlockGuillotine } from "./guillotine3d";
+import type { SplitRule } from "./split";
 import { fillBlockMaxRects, fillBlockMaxRectsPackage, layerDims, type RectRule } from "./maxrects2d";
 import { buildModel, fitsIn, type BlockFill, type Model } from "./model";
 import {

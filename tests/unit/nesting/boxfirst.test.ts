@@ -8,7 +8,7 @@ import { describe, expect, it } from "vitest";
 import { nestSync, validatePlan } from "@/lib/nesting";
 import { buildModel } from "@/lib/nesting/solver/model";
 import { fillBoxFirst } from "@/lib/nesting/solver/boxfirst";
-import { split } from "@/lib/nesting/solver/guillotine3d";
+import { split } from "@/lib/nesting/solver/split";
 import { rng } from "@/lib/nesting/rng";
 import { problem } from "./helpers";
 
