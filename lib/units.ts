@@ -43,8 +43,17 @@ export function formatSize(size: readonly number[], unit: LengthUnit): string {
   return `${parts.join(" × ")} ${unit}`;
 }
 
-export function formatVolume(m3: number): string {
-  return `${m3.toLocaleString("en", { maximumFractionDigits: 3 })} m³ · ${Math.round(m3ToBoardFeet(m3)).toLocaleString("en")} BF`;
+/**
+ * A volume as the shop reads it, written once for every page: cubic metres to `digits` places
+ * (thousands grouped), and board feet beside them when asked.
+ *
+ *   formatVolume(1.5)                                // "1.500 m³"
+ *   formatVolume(0.576, { digits: 2, boardFeet: true }) // "0.58 m³ · 244 BF"
+ */
+export function formatVolume(m3: number, opts: { digits?: number; boardFeet?: boolean } = {}): string {
+  const d = opts.digits ?? 3;
+  const text = `${m3.toLocaleString("en", { minimumFractionDigits: d, maximumFractionDigits: d })} m³`;
+  return opts.boardFeet ? `${text} · ${Math.round(m3ToBoardFeet(m3)).toLocaleString("en")} BF` : text;
 }
 
 function trimZeros(s: string): string {

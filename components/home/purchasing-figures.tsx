@@ -3,6 +3,7 @@ import { listDueGrades } from "@/db/queries/reorder";
 import { countOpenOrders } from "@/db/queries/purchase-orders";
 import { yieldThisMonthVsLast } from "@/db/queries/reports";
 import { Figure } from "@/components/ui/figure";
+import { formatVolume } from "@/lib/units";
 
 /** The buyer's home figures: grades to reorder and the orders still open. */
 export async function BuyerFigures() {
@@ -23,7 +24,7 @@ export async function BuyerFigures() {
                 {g.gradeCode}
               </span>
               <span className="text-ink-soft tabular-nums">
-                {g.result.position.toFixed(1)} of {g.result.reorderPoint.toFixed(1)} m³
+                {g.result.position.toFixed(1)} of {formatVolume(g.result.reorderPoint, { digits: 1 })}
               </span>
             </li>
           ))}

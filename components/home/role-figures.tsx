@@ -1,6 +1,7 @@
 import Link from "next/link";
 import { cutterFigures, plannerFigures } from "@/db/queries/home";
 import { isoDate } from "@/lib/stock";
+import { formatVolume } from "@/lib/units";
 
 export async function PlannerFigures() {
   const { jobs, ready } = await plannerFigures();
@@ -33,7 +34,7 @@ export async function PlannerFigures() {
           {ready.map((r) => (
             <li key={r.grade}>
               <span className="mr-1 inline-block size-3 rounded-sm align-middle" style={{ background: r.colour }} />
-              {r.grade}: {r.pieces} pcs · {r.m3.toFixed(1)} m³
+              {r.grade}: {r.pieces} pcs · {formatVolume(r.m3, { digits: 1 })}
             </li>
           ))}
         </ul>

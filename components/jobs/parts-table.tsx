@@ -5,7 +5,7 @@ import { useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
-import { formatSize, type LengthUnit } from "@/lib/units";
+import { formatSize, formatVolume, type LengthUnit } from "@/lib/units";
 import type { RotateRule } from "@/lib/job-terms";
 import type { Profile } from "@/lib/profiles";
 import { RotateLabel, describeProfile } from "./labels";
@@ -187,7 +187,7 @@ export function PartsTable({
         <p className="text-sm text-ink-soft" data-testid="job-totals">
           <strong>{parts.length}</strong> {parts.length === 1 ? "line" : "lines"} ·{" "}
           <strong>{totalPieces.toLocaleString("en")}</strong> {totalPieces === 1 ? "piece" : "pieces"} ·{" "}
-          <strong>{totalM3.toFixed(3)} m³</strong> of foam in the parts
+          <strong>{formatVolume(totalM3)}</strong> of foam in the parts
           <span className="text-ink-faint"> (* no profile: the box counts)</span>
         </p>
       )}

@@ -12,6 +12,7 @@ import { BUDGET_S, type RunSettings, secondsToMs } from "@/lib/validations/runs"
 import { formatDate } from "@/lib/format";
 import type { Candidate } from "@/db/queries/runs";
 import { leftOutLine, type LeftOut } from "@/lib/planning/usable";
+import { formatVolume } from "@/lib/units";
 
 /** Choose the stock (proposed: ready, right grade, oldest first) and the settings, then start. */
 export function NewRunForm({
@@ -69,7 +70,7 @@ export function NewRunForm({
     >
       {message && <Notice tone={message.tone}>{message.text}</Notice>}
       <Card
-        title={`Stock to plan into (${chosen.size} of ${candidates.length}, ${volume.toFixed(2)} m³)`}
+        title={`Stock to plan into (${chosen.size} of ${candidates.length}, ${formatVolume(volume, { digits: 2 })})`}
         action={<span className="text-sm text-ink-faint">ready, right grade, oldest first</span>}
       >
         {fields.blockIds && <p className="mb-2 text-sm text-ember">{fields.blockIds}</p>}

@@ -7,6 +7,7 @@ import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { LiveNotice } from "@/components/ui/result-notice";
 import { useAnnounce } from "@/components/ui/announcer";
+import { formatVolume } from "@/lib/units";
 
 /** The live progress of a nesting run: a bar, the best plan's figures so far, and Stop. */
 export function RunLive({ initial, canCancel }: { initial: RunLiveData; canCancel: boolean }) {
@@ -82,7 +83,7 @@ export function RunLive({ initial, canCancel }: { initial: RunLiveData; canCance
           </div>
           <div>
             <dt className="text-xs text-ink-faint">Parts placed</dt>
-            <dd className="font-semibold">{(run.best.placedVolume / 1e9).toFixed(3)} m³</dd>
+            <dd className="font-semibold">{formatVolume(run.best.placedVolume / 1e9)}</dd>
           </div>
           <div>
             <dt className="text-xs text-ink-faint">Not yet placed</dt>

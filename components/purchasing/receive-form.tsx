@@ -7,6 +7,7 @@ import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
+import { formatVolume } from "@/lib/units";
 
 interface LineView {
   id: number;
@@ -155,7 +156,7 @@ export function ReceiveForm({
                 <span className="absolute inset-y-[-3px] w-0.5 bg-ink" style={{ left: `${(110 / 120) * 100}%` }} />
               </span>
               <span className={`tabular-nums ${t.over ? "font-semibold text-ember" : ""}`}>
-                {Math.round(t.pct)} % of {t.l.volumeM3.toFixed(2)} m³
+                {Math.round(t.pct)} % of {formatVolume(t.l.volumeM3, { digits: 2 })}
                 {t.over ? " — over the terms" : t.pct >= 90 ? " — filled" : ""}
               </span>
               {fields[`lines.${t.l.id}`] && <span className="w-full text-ember">{fields[`lines.${t.l.id}`]}</span>}

@@ -12,6 +12,7 @@ import { addDays, isoDate } from "@/lib/stock";
 import type { LengthUnit } from "@/lib/units";
 import { lengthMmOrNull } from "@/lib/forms";
 import { receivedCodeProblem } from "@/lib/block-code";
+import { formatVolume } from "@/lib/units";
 
 interface GradeOption {
   id: number;
@@ -323,7 +324,7 @@ export function ReceiveForm({
                 </div>
                 <div className="mt-2 flex flex-wrap items-center justify-between gap-2 text-xs">
                   <span className="text-ink-soft">
-                    {vol !== null && <>{vol.toFixed(3)} m³ · </>}
+                    {vol !== null && <>{formatVolume(vol)} · </>}
                     {density !== null && (
                       <span className={low ? "font-semibold text-ember" : ""}>
                         {density.toFixed(1)} kg/m³{low && ` — below the ${grade!.code} minimum ${grade!.minDensity}`} ·{" "}

@@ -1,7 +1,7 @@
 import { formatMoney, plural } from "@/lib/format";
 import { poFileName, purchaseOrderCsv, type PurchaseOrder } from "@/lib/purchasing/orders";
 import { PRICE_UNIT_LABEL } from "@/lib/purchasing/pricing";
-import { m3ToBoardFeet } from "@/lib/units";
+import { formatVolume, m3ToBoardFeet } from "@/lib/units";
 import type { OutgoingMail } from "./transport";
 
 const money = formatMoney;
@@ -15,14 +15,14 @@ export function purchaseOrderMail(po: PurchaseOrder, shopName: string): Outgoing
   if (!po.supplierEmail) throw new Error(`${po.supplier} has no e-mail address`);
   const lines = po.lines.map(
     (l, i) =>
-      `${i + 1}. ${l.quantity} × ${l.gradeCode} (${l.gradeLabel}), ${l.size.join(" × ")} mm — ${l.volumeM3.toFixed(3)} m³ / ${Math.round(m3ToBoardFeet(l.volumeM3))} BF at ${l.price} ${PRICE_UNIT_LABEL[l.priceUnit]} = ${money(l.value)}`,
+      `${i + 1}. ${l.quantity} × ${l.gradeCode} (${l.gradeLabel}), ${l.size.join(" × ")} mm — ${formatVolume(l.volumeM3)} / ${Math.round(m3ToBoardFeet(l.volumeM3))} BF at ${l.price} ${PRICE_UNIT_LABEL[l.priceUnit]} = ${money(l.value)}`,
   );
   const text = [
     `Purchase order ${po.number} from ${shopName}`,
     "",
     ...lines,
     "",
-    `Total: ${po.volumeM3.toFixed(3)} m³, ${money(po.value)}`,
+    `Total: ${formatVolume(po.volumeM3)}, ${money(po.value)}`,
     po.expectedOn ? `Wanted by: ${po.expectedOn}` : "Wanted by: please tell us your date.",
     po.notes ? `Notes: ${po.notes}` : "",
     "",
@@ -31,7 +31,7 @@ export function purchaseOrderMail(po: PurchaseOrder, shopName: string): Outgoing
   ]
     .filter((l, i, all) => l !== "" || all[i - 1] !== "")
     .join("\n");
-  const html = `<p>Purchase order <strong>${esc(po.number)}</strong> from ${esc(shopName)}</p><ol>${lines.map((l) => `<li>${esc(l.replace(/^\d+\. /, ""))}</li>`).join("")}</ol><p>Total: ${po.volumeM3.toFixed(3)} m³, ${money(po.value)}<br>${po.expectedOn ? `Wanted by: ${esc(po.expectedOn)}` : "Wanted by: please tell us your date."}</p>${po.notes ? `<p>${esc(po.notes)}</p>` : ""}<p>Quantities within ±10 % of each line are accepted on delivery. Please quote the order number on the delivery note and give each block's lot and moulding date.</p>`;
+  const html = `<p>Purchase order <strong>${esc(po.number)}</strong> from ${esc(shopName)}</p><ol>${lines.map((l) => `<li>${esc(l.replace(/^\d+\. /, ""))}</li>`).join("")}</ol><p>Total: ${formatVolume(po.volumeM3)}, ${money(po.value)}<br>${po.expectedOn ? `Wanted by: ${esc(po.expectedOn)}` : "Wanted by: please tell us your date."}</p>${po.notes ? `<p>${esc(po.notes)}</p>` : ""}<p>Quantities within ±10 % of each line are accepted on delivery. Please quote the order number on the delivery note and give each block's lot and moulding date.</p>`;
   return {
     to: po.supplierEmail,
     subject: `Purchase order ${po.number} — ${shopName}`,
@@ -54,7 +54,7 @@ export interface LowStockLine {
 export function lowStockMail(to: string, items: LowStockLine[], shopName: string, appUrl: string | null): OutgoingMail {
   const lines = items.map(
     (g) =>
-      `- ${g.gradeCode}: ${g.position.toFixed(2)} m³ on hand and on order, reorder point ${g.reorderPoint.toFixed(2)} m³; suggest ${g.suggestedBlocks !== null ? `${plural(g.suggestedBlocks, "block")} (${g.suggestedM3.toFixed(2)} m³)` : `${g.suggestedM3.toFixed(2)} m³`}${g.supplier ? ` from ${g.supplier}` : ""}`,
+      `- ${g.gradeCode}: ${formatVolume(g.position, { digits: 2 })} on hand and on order, reorder point ${formatVolume(g.reorderPoint, { digits: 2 })}; suggest ${g.suggestedBlocks !== null ? `${plural(g.suggestedBlocks, "block")} (${formatVolume(g.suggestedM3, { digits: 2 })})` : formatVolume(g.suggestedM3, { digits: 2 })}${g.supplier ? ` from ${g.supplier}` : ""}`,
   );
   return {
     to,

@@ -4,6 +4,7 @@ import { createElement } from "react";
 import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it, vi } from "vitest";
 import { formatDate, formatDateTime, formatMoney, formatPercent, formatTime, noun, plural } from "@/lib/format";
+import { formatVolume } from "@/lib/units";
 
 vi.mock("next/navigation", () => ({ useRouter: () => ({ push() {}, refresh() {} }) }));
 
@@ -121,6 +122,27 @@ describe("money and percent, written once", () => {
       .flatMap(walk)
       .filter((f) => !f.endsWith(path.join("lib", "format.ts")))
       .filter((f) => /style:\s*"currency"/.test(fs.readFileSync(f, "utf8")));
+    expect(offenders).toEqual([]);
+  });
+});
+
+describe("volume, written once", () => {
+  it("writes cubic metres to fixed places with thousands grouped, board feet on request", () => {
+    expect(formatVolume(1.5)).toBe("1.500 m³");
+    expect(formatVolume(1234.5678, { digits: 2 })).toBe("1,234.57 m³");
+    // 1 m³ = 423.776 BF (144 in³ per board foot, 25.4 mm per inch; exact definitions)
+    expect(formatVolume(1, { digits: 0, boardFeet: true })).toBe("1 m³ · 424 BF");
+  });
+
+  it('no page, component or module writes "m³" after a hand-rounded number', () => {
+    const walk = (dir: string): string[] =>
+      fs.readdirSync(dir, { withFileTypes: true }).flatMap((e) => {
+        const p = path.join(dir, e.name);
+        return e.isDirectory() ? walk(p) : /\.tsx?$/.test(e.name) ? [p] : [];
+      });
+    const offenders = ["app", "components", "lib"]
+      .flatMap(walk)
+      .filter((f) => /toFixed\(\d\)\s*\}?\s*m³/.test(fs.readFileSync(f, "utf8")));
     expect(offenders).toEqual([]);
   });
 });

@@ -19,6 +19,7 @@ import { Badge, Card, PageHeader } from "@/components/ui/card";
 import { rowLinkClass } from "@/components/ui/button";
 import { ClaimForm } from "@/components/claims/claim-form";
 import { ClaimDecision } from "@/components/claims/claim-decision";
+import { formatVolume } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Supplier claims" };
 
@@ -119,7 +120,10 @@ export default async function ClaimsPage({
                     </Link>
                   ))}
                   <span className="self-center text-ink-soft">
-                    {c.blocks.reduce((s, b) => s + b.volumeM3, 0).toFixed(2)} m³
+                    {formatVolume(
+                      c.blocks.reduce((s, b) => s + b.volumeM3, 0),
+                      { digits: 2 },
+                    )}
                   </span>
                 </dd>
                 <dt className="text-ink-soft">Credit asked</dt>

@@ -7,7 +7,7 @@ import { ledgerQuery } from "@/lib/validations/stock";
 import { PageHeader } from "@/components/ui/card";
 import { buttonClass, rowLinkClass } from "@/components/ui/button";
 import { LEDGER_KINDS, LEDGER_LABELS } from "@/lib/stock";
-import { m3ToBoardFeet } from "@/lib/units";
+import { formatVolume } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Stock ledger" };
 
@@ -42,7 +42,7 @@ export default async function LedgerPage({ searchParams }: { searchParams: Promi
     <>
       <PageHeader
         title="Stock ledger"
-        lead={`Every movement of stock, never edited. On hand by the ledger: ${onHand.m3.toFixed(2)} m³ (${Math.round(m3ToBoardFeet(onHand.m3)).toLocaleString("en")} BF), value ${formatMoney(onHand.value)}.`}
+        lead={`Every movement of stock, never edited. On hand by the ledger: ${formatVolume(onHand.m3, { digits: 2, boardFeet: true })}, value ${formatMoney(onHand.value)}.`}
         actions={
           <a className={buttonClass("secondary")} href={`/api/ledger/export?${qs}`} download>
             Export CSV

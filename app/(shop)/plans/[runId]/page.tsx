@@ -23,6 +23,7 @@ import { stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
 import { leftOutLine } from "@/lib/planning/usable";
+import { formatVolume } from "@/lib/units";
 
 export async function generateMetadata({ params }: { params: Promise<{ runId: string }> }): Promise<Metadata> {
   return { title: `Plan #${(await params).runId}` };
@@ -160,7 +161,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
               <Figure
                 boxed
                 label="Offcuts kept"
-                value={`${(plan.stats.offcutVolume / 1e9).toFixed(3)} m³`}
+                value={formatVolume(plan.stats.offcutVolume / 1e9)}
                 note={plural(plan.offcuts.length, "piece")}
               />
               {timed.length > 0 && untimed.length === 0 ? (

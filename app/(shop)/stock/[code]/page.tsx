@@ -16,7 +16,7 @@ import { FaceViews } from "@/components/stock/face-views";
 import { ZoneEdit } from "@/components/stock/zone-edit";
 import { buttonClass } from "@/components/ui/button";
 import { DEFECT_LABELS, HOLD_LABELS, LEDGER_LABELS, STATUS_LABELS } from "@/lib/stock";
-import { formatLength, formatSize, m3ToBoardFeet } from "@/lib/units";
+import { formatLength, formatSize, formatVolume } from "@/lib/units";
 
 export async function generateMetadata({ params }: { params: Promise<{ code: string }> }): Promise<Metadata> {
   return { title: decodeURIComponent((await params).code) };
@@ -102,9 +102,7 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
               <dt className="text-ink-faint">Nominal</dt>
               <dd>{formatSize(block.nominalSize, unit)}</dd>
               <dt className="text-ink-faint">Volume</dt>
-              <dd>
-                {block.volumeM3.toFixed(3)} m³ · {m3ToBoardFeet(block.volumeM3).toFixed(0)} BF
-              </dd>
+              <dd>{formatVolume(block.volumeM3, { boardFeet: true })}</dd>
               <dt className="text-ink-faint">Weight</dt>
               <dd>{block.weightKg === null ? "not weighed" : `${block.weightKg} kg`}</dd>
               <dt className="text-ink-faint">Density</dt>
@@ -264,7 +262,7 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
                     {e.reason && <span className="text-ink-soft"> · {e.reason}</span>}
                   </span>
                   <span className="text-ink-faint">
-                    {e.deltaM3 !== 0 && `${e.deltaM3 > 0 ? "+" : ""}${e.deltaM3.toFixed(3)} m³ · `}
+                    {e.deltaM3 !== 0 && `${e.deltaM3 > 0 ? "+" : ""}${formatVolume(e.deltaM3)} · `}
                     {e.user ?? "system"} · {formatDate(e.at)}
                   </span>
                 </li>

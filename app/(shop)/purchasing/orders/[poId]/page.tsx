@@ -13,7 +13,7 @@ import { PoStatusBadge } from "@/components/purchasing/po-status";
 import { PoActions } from "@/components/purchasing/po-actions";
 import { PoForm } from "@/components/purchasing/po-form";
 import { PRICE_UNIT_LABEL } from "@/lib/purchasing/pricing";
-import { m3ToBoardFeet } from "@/lib/units";
+import { formatVolume, m3ToBoardFeet } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Purchase order" };
 
@@ -100,7 +100,7 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
                       <td className="whitespace-nowrap px-3 py-2 tabular-nums">{l.size.join(" × ")}</td>
                       <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{l.quantity}</td>
                       <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">
-                        {l.volumeM3.toFixed(3)} m³
+                        {formatVolume(l.volumeM3)}
                         <p className="text-xs text-ink-faint">
                           {Math.round(m3ToBoardFeet(l.volumeM3)).toLocaleString("en")} BF
                         </p>
@@ -130,7 +130,7 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
                   <td className="px-3 py-2" colSpan={4}>
                     Total
                   </td>
-                  <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{po.volumeM3.toFixed(3)} m³</td>
+                  <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{formatVolume(po.volumeM3)}</td>
                   <td />
                   <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">{money(po.value)}</td>
                   <td className="whitespace-nowrap px-3 py-2 text-right tabular-nums">
@@ -152,7 +152,7 @@ export default async function OrderPage({ params }: { params: Promise<{ poId: st
             <ul className="divide-y divide-bead text-sm">
               {deliveries.map((d) => (
                 <li key={d.id} className="py-2">
-                  {d.receivedOn} · lot {d.lot} · {plural(d.blocks, "block")} · {d.volumeM3.toFixed(3)} m³
+                  {d.receivedOn} · lot {d.lot} · {plural(d.blocks, "block")} · {formatVolume(d.volumeM3)}
                 </li>
               ))}
             </ul>
