@@ -390,3 +390,52 @@ describe("outputs", () => {
     });
   });
 });
+
+describe("a plan fetched in pages of whole blocks", () => {
+  it("pages by ?offset&limit, pages a huge plan by itself, and refuses a bad page number", async () => {
+    const made = await makePlannedBlock();
+    // Swap in a plan of 6,000 pieces over three blocks (2,500 + 2,500 + 1,000): only its size matters here.
+    const piece = (block: string, i: number) => ({ part: "p", block, origin: [i, 0, 0], size: [1, 1, 1] });
+    const placements = [
+      ...Array.from({ length: 2_500 }, (_, i) => piece("B-A", i)),
+      ...Array.from({ length: 2_500 }, (_, i) => piece("B-B", i)),
+      ...Array.from({ length: 1_000 }, (_, i) => piece("B-C", i)),
+    ];
+    const big = { ...made.plan, placements, offcuts: [], cuts: { "B-A": [], "B-B": [], "B-C": [] } };
+    await testDb()("nesting_runs")
+      .where({ id: made.runId })
+      .update({ plan: JSON.stringify(big) });
+
+    // Asked without paging, a plan over 5,000 pieces comes as its first page, whole blocks only.
+    const first = await planner.get(`/api/runs/${made.runId}/plan`);
+    expect(first.status).toBe(200);
+    expect(first.body.page).toMatchObject({
+      offset: 0,
+      blocks: ["B-A", "B-B"],
+      totalBlocks: 3,
+      totalPieces: 6_000,
+      nextOffset: 2,
+    });
+    expect(first.body.run.plan.placements).toHaveLength(5_000);
+    const rest = await planner.get(`/api/runs/${made.runId}/plan?offset=2`);
+    expect(rest.body.page).toMatchObject({ offset: 2, blocks: ["B-C"], nextOffset: null });
+    expect(rest.body.run.plan.placements.every((p: { block: string }) => p.block === "B-C")).toBe(true);
+    // One block per page on request.
+    const one = await planner.get(`/api/runs/${made.runId}/plan?offset=1&limit=1`);
+    expect(one.body.page.blocks).toEqual(["B-B"]);
+    expect(one.body.run.plan.placements).toHaveLength(2_500);
+
+    for (const q of ["offset=-1", "offset=abc", "limit=0", "limit=99999999"]) {
+      const bad = await planner.get(`/api/runs/${made.runId}/plan?${q}`);
+      expect(bad.status, q).toBe(400);
+      expect(bad.body.error, q).toMatch(/offset|limit/);
+    }
+  });
+
+  it("gives a small plan whole, with no page", async () => {
+    const made = await makePlannedBlock();
+    const res = await planner.get(`/api/runs/${made.runId}/plan`);
+    expect(res.body.page).toBeNull();
+    expect(res.body.run.plan.placements).toHaveLength(made.plan.placements.length);
+  });
+});
