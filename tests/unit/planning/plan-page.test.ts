@@ -11,7 +11,15 @@ const plan = (counts: number[]): Plan => ({
   unplaced: [{ part: "q", count: 2, reason: "no block left" }],
   offcuts: counts.map((_, b) => ({ block: `B${b}`, origin: [500, 0, 0], size: [10, 10, 10] })),
   cuts: Object.fromEntries(counts.map((_, b) => [`B${b}`, [{ axis: "x", at: 499 }]])),
-  stats: { blocksUsed: counts.length, partVolume: 1, stockVolume: 1, offcutVolume: 0, yield: 1, elapsedMs: 0, lowerBoundBlocks: counts.length },
+  stats: {
+    blocksUsed: counts.length,
+    partVolume: 1,
+    stockVolume: 1,
+    offcutVolume: 0,
+    yield: 1,
+    elapsedMs: 0,
+    lowerBoundBlocks: counts.length,
+  },
 });
 
 describe("plan pages", () => {
