@@ -6,7 +6,7 @@
  */
 export async function register(): Promise<void> {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
-  const { failStaleRuns } = await import("@/db/queries/runs");
+  const { failStaleRuns } = await import("@/db/queries/run-worker");
   const stale = Number(process.env.RUN_STALE_SECONDS ?? 90);
   const every = Math.max(1, Number(process.env.RUN_SWEEP_SECONDS ?? 30)) * 1000;
   const sweep = async () => {

@@ -2,6 +2,9 @@
 // A test checks it against the migrations (tests/api/db-types.test.ts).
 import type { Knex } from "knex";
 
+/** A value as an insert or update writes it: the value itself, or SQL such as `db.fn.now()` (a Knex.Raw). */
+type W<T> = T | Knex.Raw;
+
 export interface AuditLogRow {
   id: number;
   actor_id: string | null;
@@ -9,6 +12,15 @@ export interface AuditLogRow {
   subject: string | null;
   detail: unknown | null;
   at: Date;
+}
+
+export interface AuditLogInsert {
+  id?: W<number>;
+  actor_id?: W<string | null>;
+  action: W<string>;
+  subject?: W<string | null>;
+  detail?: W<unknown>;
+  at?: W<Date | string>;
 }
 
 export interface BlocksRow {
@@ -30,16 +42,45 @@ export interface BlocksRow {
   location: string;
   moulded_on: string | null;
   cut_not_before: string;
-  status: string;
+  status: "in_stock" | "earmarked" | "on_hold" | "cut" | "written_off";
   notes: string | null;
   created_at: Date;
   updated_at: Date;
   volume_m3: number | null;
   fifo_on: string | null;
-  hold_reason: string | null;
+  hold_reason: "under_density" | "over_density" | "wet" | "damaged" | "reweigh" | null;
   hold_note: string | null;
   held_at: Date | null;
   held_by: string | null;
+}
+
+export interface BlocksInsert {
+  id?: W<number>;
+  code: W<string>;
+  grade_id: W<number>;
+  lot: W<string>;
+  delivery_id?: W<number | null>;
+  parent_id?: W<number | null>;
+  origin_in_parent?: W<number[] | null>;
+  nominal_x: W<number>;
+  nominal_y: W<number>;
+  nominal_z: W<number>;
+  size_x: W<number>;
+  size_y: W<number>;
+  size_z: W<number>;
+  weight_kg?: W<number | null>;
+  cost?: W<number>;
+  location?: W<string>;
+  moulded_on?: W<string | null>;
+  cut_not_before: W<string>;
+  status?: W<"in_stock" | "earmarked" | "on_hold" | "cut" | "written_off">;
+  notes?: W<string | null>;
+  created_at?: W<Date | string>;
+  updated_at?: W<Date | string>;
+  hold_reason?: W<"under_density" | "over_density" | "wet" | "damaged" | "reweigh" | null>;
+  hold_note?: W<string | null>;
+  held_at?: W<Date | string | null>;
+  held_by?: W<string | null>;
 }
 
 export interface CsvImportsRow {
@@ -49,6 +90,15 @@ export interface CsvImportsRow {
   rows: number;
   imported_by: string | null;
   at: Date;
+}
+
+export interface CsvImportsInsert {
+  id?: W<number>;
+  kind: W<string>;
+  file_name?: W<string | null>;
+  rows: W<number>;
+  imported_by?: W<string | null>;
+  at?: W<Date | string>;
 }
 
 export interface CutPartsRow {
@@ -66,6 +116,21 @@ export interface CutPartsRow {
   not_cut_count: number;
 }
 
+export interface CutPartsInsert {
+  id?: W<number>;
+  run_id: W<number>;
+  block_id: W<number>;
+  job_part_id: W<number>;
+  good_count: W<number>;
+  rejected_count?: W<number>;
+  reject_reason?: W<string | null>;
+  part_volume_m3: W<number>;
+  volume_basis: W<string>;
+  recorded_by?: W<string | null>;
+  recorded_at?: W<Date | string>;
+  not_cut_count?: W<number>;
+}
+
 export interface DefectPhotosRow {
   id: number;
   defect_id: number;
@@ -79,10 +144,23 @@ export interface DefectPhotosRow {
   uploaded_at: Date;
 }
 
+export interface DefectPhotosInsert {
+  id?: W<number>;
+  defect_id: W<number>;
+  object_key: W<string>;
+  thumb_key: W<string>;
+  content_type: W<string>;
+  bytes: W<number>;
+  width?: W<number | null>;
+  height?: W<number | null>;
+  uploaded_by?: W<string | null>;
+  uploaded_at?: W<Date | string>;
+}
+
 export interface DefectZonesRow {
   id: number;
   block_id: number;
-  kind: string;
+  kind: "void" | "poor_fusion" | "crush" | "wet_core" | "inclusion" | "off_density" | "other";
   min_x: number;
   min_y: number;
   min_z: number;
@@ -99,6 +177,26 @@ export interface DefectZonesRow {
   removed_by: string | null;
 }
 
+export interface DefectZonesInsert {
+  id?: W<number>;
+  block_id: W<number>;
+  kind: W<"void" | "poor_fusion" | "crush" | "wet_core" | "inclusion" | "off_density" | "other">;
+  min_x: W<number>;
+  min_y: W<number>;
+  min_z: W<number>;
+  max_x: W<number>;
+  max_y: W<number>;
+  max_z: W<number>;
+  found_by?: W<string | null>;
+  found_at?: W<Date | string>;
+  note?: W<string | null>;
+  inherited_from?: W<number | null>;
+  updated_at?: W<Date | string | null>;
+  updated_by?: W<string | null>;
+  removed_at?: W<Date | string | null>;
+  removed_by?: W<string | null>;
+}
+
 export interface DeliveriesRow {
   id: number;
   supplier_id: number;
@@ -109,6 +207,18 @@ export interface DeliveriesRow {
   notes: string | null;
   created_at: Date;
   purchase_order_id: number | null;
+}
+
+export interface DeliveriesInsert {
+  id?: W<number>;
+  supplier_id: W<number>;
+  received_on: W<string>;
+  po_ref?: W<string | null>;
+  lot: W<string>;
+  received_by?: W<string | null>;
+  notes?: W<string | null>;
+  created_at?: W<Date | string>;
+  purchase_order_id?: W<number | null>;
 }
 
 export interface GradeReorderRow {
@@ -127,10 +237,26 @@ export interface GradeReorderRow {
   updated_by: string | null;
 }
 
+export interface GradeReorderInsert {
+  grade_id: W<number>;
+  supplier_id?: W<number | null>;
+  lead_time_days?: W<number | null>;
+  service_level?: W<number | null>;
+  daily_demand_m3?: W<number | null>;
+  demand_sd_m3?: W<number | null>;
+  order_cost?: W<number | null>;
+  holding_cost_m3_year?: W<number | null>;
+  reorder_point_m3?: W<number | null>;
+  order_qty_m3?: W<number | null>;
+  note?: W<string | null>;
+  updated_at?: W<Date | string>;
+  updated_by?: W<string | null>;
+}
+
 export interface GradesRow {
   id: number;
   code: string;
-  material: string;
+  material: "EPS" | "XPS" | "EPP" | "PU";
   grade_system: string;
   grade: string;
   nominal_density_kg_m3: number | null;
@@ -138,9 +264,25 @@ export interface GradesRow {
   cure_days: number;
   never_hot_wire: boolean;
   colour: string;
-  price_unit: string;
+  price_unit: "m3" | "bf";
   notes: string | null;
   active: boolean;
+}
+
+export interface GradesInsert {
+  id?: W<number>;
+  code: W<string>;
+  material: W<"EPS" | "XPS" | "EPP" | "PU">;
+  grade_system: W<string>;
+  grade: W<string>;
+  nominal_density_kg_m3?: W<number | null>;
+  min_density_kg_m3?: W<number | null>;
+  cure_days?: W<number>;
+  never_hot_wire?: W<boolean>;
+  colour?: W<string>;
+  price_unit?: W<"m3" | "bf">;
+  notes?: W<string | null>;
+  active?: W<boolean>;
 }
 
 export interface JobPartsRow {
@@ -153,9 +295,24 @@ export interface JobPartsRow {
   size_y: number;
   size_z: number;
   grade_id: number | null;
-  rotate: string;
+  rotate: "any" | "z" | "none";
   profile: unknown | null;
   true_volume_mm3: number | null;
+}
+
+export interface JobPartsInsert {
+  id?: W<number>;
+  job_id: W<number>;
+  library_part_id?: W<number | null>;
+  name: W<string>;
+  quantity: W<number>;
+  size_x: W<number>;
+  size_y: W<number>;
+  size_z: W<number>;
+  grade_id?: W<number | null>;
+  rotate?: W<"any" | "z" | "none">;
+  profile?: W<unknown>;
+  true_volume_mm3?: W<number | null>;
 }
 
 export interface JobsRow {
@@ -163,10 +320,21 @@ export interface JobsRow {
   name: string;
   customer: string | null;
   due_on: string | null;
-  status: string;
+  status: "open" | "planned" | "cutting" | "done" | "cancelled";
   notes: string | null;
   created_by: string | null;
   created_at: Date;
+}
+
+export interface JobsInsert {
+  id?: W<number>;
+  name: W<string>;
+  customer?: W<string | null>;
+  due_on?: W<string | null>;
+  status?: W<"open" | "planned" | "cutting" | "done" | "cancelled">;
+  notes?: W<string | null>;
+  created_by?: W<string | null>;
+  created_at?: W<Date | string>;
 }
 
 export interface LibraryPartsRow {
@@ -185,6 +353,22 @@ export interface LibraryPartsRow {
   active: boolean;
 }
 
+export interface LibraryPartsInsert {
+  id?: W<number>;
+  kit?: W<string | null>;
+  name: W<string>;
+  size_x: W<number>;
+  size_y: W<number>;
+  size_z: W<number>;
+  grade_id?: W<number | null>;
+  rotate?: W<string>;
+  profile?: W<unknown>;
+  true_volume_mm3?: W<number | null>;
+  default_quantity?: W<number>;
+  notes?: W<string | null>;
+  active?: W<boolean>;
+}
+
 export interface MachineGradesRow {
   machine_id: number;
   grade_id: number;
@@ -192,11 +376,18 @@ export interface MachineGradesRow {
   feed_mm_per_min: number;
 }
 
+export interface MachineGradesInsert {
+  machine_id: W<number>;
+  grade_id: W<number>;
+  kerf_mm: W<number>;
+  feed_mm_per_min: W<number>;
+}
+
 export interface MachinesRow {
   id: number;
   name: string;
-  kind: string;
-  wire: string;
+  kind: "block" | "profile";
+  wire: "horizontal" | "vertical";
   wire_length_mm: number;
   travel_x_mm: number;
   travel_y_mm: number;
@@ -207,7 +398,7 @@ export interface MachinesRow {
   rapid_mm_per_min: number;
   heat_up_s: number;
   handling_s: number;
-  unit_words: string;
+  unit_words: "G20/G21" | "G70/G71";
   inch: boolean;
   heat_on: string | null;
   heat_off: string | null;
@@ -217,6 +408,39 @@ export interface MachinesRow {
   active: boolean;
   created_at: Date;
   updated_at: Date;
+  four_axis: boolean;
+  axis_u: string | null;
+  axis_v: string | null;
+}
+
+export interface MachinesInsert {
+  id?: W<number>;
+  name: W<string>;
+  kind?: W<"block" | "profile">;
+  wire?: W<"horizontal" | "vertical">;
+  wire_length_mm: W<number>;
+  travel_x_mm: W<number>;
+  travel_y_mm: W<number>;
+  max_length_mm: W<number>;
+  max_width_mm: W<number>;
+  max_height_mm: W<number>;
+  turntable?: W<boolean>;
+  rapid_mm_per_min?: W<number>;
+  heat_up_s?: W<number>;
+  handling_s?: W<number>;
+  unit_words?: W<"G20/G21" | "G70/G71">;
+  inch?: W<boolean>;
+  heat_on?: W<string | null>;
+  heat_off?: W<string | null>;
+  axis_x?: W<string>;
+  axis_y?: W<string>;
+  line_numbers?: W<boolean>;
+  active?: W<boolean>;
+  created_at?: W<Date | string>;
+  updated_at?: W<Date | string>;
+  four_axis?: W<boolean>;
+  axis_u?: W<string | null>;
+  axis_v?: W<string | null>;
 }
 
 export interface MailOutboxRow {
@@ -225,7 +449,7 @@ export interface MailOutboxRow {
   to_address: string;
   subject: string;
   transport: string;
-  status: string;
+  status: "sent" | "failed";
   message_id: string | null;
   file: string | null;
   attachments: unknown;
@@ -235,15 +459,31 @@ export interface MailOutboxRow {
   at: Date;
 }
 
+export interface MailOutboxInsert {
+  id?: W<number>;
+  kind: W<string>;
+  to_address: W<string>;
+  subject: W<string>;
+  transport: W<string>;
+  status: W<"sent" | "failed">;
+  message_id?: W<string | null>;
+  file?: W<string | null>;
+  attachments?: W<unknown>;
+  error?: W<string | null>;
+  ref?: W<string | null>;
+  sent_by?: W<string | null>;
+  at?: W<Date | string>;
+}
+
 export interface NestingRunsRow {
   id: number;
-  status: string;
+  status: "queued" | "running" | "done" | "failed" | "cancelled" | "approved" | "closed";
   job_ids: number[];
   block_ids: number[];
   settings: unknown;
   problem: import("@/lib/nesting").Problem;
   plan: import("@/lib/nesting").Plan | null;
-  best: unknown | null;
+  best: import("@/lib/planning/plan-figures").RunFigures | null;
   progress: number;
   error: string | null;
   attempts: number;
@@ -255,10 +495,36 @@ export interface NestingRunsRow {
   approved_by: string | null;
   approved_at: Date | null;
   heartbeat_at: Date | null;
-  summary: unknown | null;
+  summary: import("@/lib/planning/plan-figures").PlanFigures | null;
   machine_id: number | null;
-  left_out: unknown;
+  left_out: import("@/lib/planning/usable").LeftOut[];
   worker: string | null;
+}
+
+export interface NestingRunsInsert {
+  id?: W<number>;
+  status?: W<"queued" | "running" | "done" | "failed" | "cancelled" | "approved" | "closed">;
+  job_ids: W<number[]>;
+  block_ids: W<number[]>;
+  settings: W<unknown>;
+  problem: W<import("@/lib/nesting").Problem | string>;
+  plan?: W<import("@/lib/nesting").Plan | null | string>;
+  best?: W<import("@/lib/planning/plan-figures").RunFigures | null | string>;
+  progress?: W<number>;
+  error?: W<string | null>;
+  attempts?: W<number>;
+  parent_run_id?: W<number | null>;
+  created_by?: W<string | null>;
+  created_at?: W<Date | string>;
+  started_at?: W<Date | string | null>;
+  finished_at?: W<Date | string | null>;
+  approved_by?: W<string | null>;
+  approved_at?: W<Date | string | null>;
+  heartbeat_at?: W<Date | string | null>;
+  summary?: W<import("@/lib/planning/plan-figures").PlanFigures | null | string>;
+  machine_id?: W<number | null>;
+  left_out?: W<string>;
+  worker?: W<string | null>;
 }
 
 export interface PlanBlockStepsRow {
@@ -267,14 +533,23 @@ export interface PlanBlockStepsRow {
   step: number;
   done_by: string | null;
   done_at: Date;
-  rejects: unknown;
+  rejects: { jobPartId: number; count: number; reason: string }[];
+}
+
+export interface PlanBlockStepsInsert {
+  run_id: W<number>;
+  block_id: W<number>;
+  step: W<number>;
+  done_by?: W<string | null>;
+  done_at?: W<Date | string>;
+  rejects?: W<string>;
 }
 
 export interface PlanBlocksRow {
   id: number;
   run_id: number;
   block_id: number;
-  status: string;
+  status: "reserved" | "cut" | "released";
   cut_at: Date | null;
   cut_by: string | null;
   block_volume_m3: number | null;
@@ -290,11 +565,38 @@ export interface PlanBlocksRow {
   undone_count: number;
 }
 
+export interface PlanBlocksInsert {
+  id?: W<number>;
+  run_id: W<number>;
+  block_id: W<number>;
+  status?: W<"reserved" | "cut" | "released">;
+  cut_at?: W<Date | string | null>;
+  cut_by?: W<string | null>;
+  block_volume_m3?: W<number | null>;
+  part_volume_m3?: W<number | null>;
+  offcut_volume_m3?: W<number | null>;
+  loss_trim_m3?: W<number | null>;
+  loss_kerf_m3?: W<number | null>;
+  loss_defect_m3?: W<number | null>;
+  loss_unusable_m3?: W<number | null>;
+  loss_reject_m3?: W<number | null>;
+  volume_basis?: W<string | null>;
+  partial?: W<boolean>;
+  undone_count?: W<number>;
+}
+
 export interface PlanOffcutCodesRow {
   run_id: number;
   block_id: number;
   offcut_index: number;
   code: string;
+}
+
+export interface PlanOffcutCodesInsert {
+  run_id: W<number>;
+  block_id: W<number>;
+  offcut_index: W<number>;
+  code: W<string>;
 }
 
 export interface PurchaseOrderLinesRow {
@@ -306,9 +608,22 @@ export interface PurchaseOrderLinesRow {
   size_z: number;
   quantity: number;
   price: number;
-  price_unit: string;
+  price_unit: "m3" | "bf";
   note: string | null;
   volume_m3: number | null;
+}
+
+export interface PurchaseOrderLinesInsert {
+  id?: W<number>;
+  purchase_order_id: W<number>;
+  grade_id: W<number>;
+  size_x: W<number>;
+  size_y: W<number>;
+  size_z: W<number>;
+  quantity: W<number>;
+  price: W<number>;
+  price_unit: W<"m3" | "bf">;
+  note?: W<string | null>;
 }
 
 export interface PurchaseOrderReceiptsRow {
@@ -324,11 +639,24 @@ export interface PurchaseOrderReceiptsRow {
   at: Date;
 }
 
+export interface PurchaseOrderReceiptsInsert {
+  id?: W<number>;
+  purchase_order_id: W<number>;
+  line_id: W<number>;
+  delivery_id: W<number>;
+  blocks: W<number>;
+  volume_m3: W<number>;
+  over_tolerance?: W<boolean>;
+  over_reason?: W<string | null>;
+  received_by?: W<string | null>;
+  at?: W<Date | string>;
+}
+
 export interface PurchaseOrdersRow {
   id: number;
   number: string;
   supplier_id: number;
-  status: string;
+  status: "draft" | "sent" | "part_received" | "closed" | "cancelled";
   expected_on: string | null;
   notes: string | null;
   created_by: string | null;
@@ -336,6 +664,20 @@ export interface PurchaseOrdersRow {
   sent_at: Date | null;
   closed_at: Date | null;
   cancel_reason: string | null;
+}
+
+export interface PurchaseOrdersInsert {
+  id?: W<number>;
+  number: W<string>;
+  supplier_id: W<number>;
+  status?: W<"draft" | "sent" | "part_received" | "closed" | "cancelled">;
+  expected_on?: W<string | null>;
+  notes?: W<string | null>;
+  created_by?: W<string | null>;
+  created_at?: W<Date | string>;
+  sent_at?: W<Date | string | null>;
+  closed_at?: W<Date | string | null>;
+  cancel_reason?: W<string | null>;
 }
 
 export interface ReorderSettingsRow {
@@ -349,21 +691,49 @@ export interface ReorderSettingsRow {
   working_days: number[];
 }
 
+export interface ReorderSettingsInsert {
+  id?: W<number>;
+  service_level?: W<number>;
+  history_days?: W<number>;
+  order_cost?: W<number>;
+  holding_cost_m3_year?: W<number>;
+  updated_at?: W<Date | string>;
+  updated_by?: W<string | null>;
+  working_days?: W<number[]>;
+}
+
 export interface ShopSettingsRow {
   id: number;
   shop_name: string;
-  display_units: string;
+  display_units: "mm" | "in";
   kerf_mm: number;
   trim_mm: number;
   defect_margin_mm: number;
   min_offcut_x_mm: number;
   min_offcut_y_mm: number;
   min_offcut_z_mm: number;
-  layout: string;
+  layout: "guillotine" | "layers" | "free";
   feed_mm_per_min: number;
   nesting_time_limit_ms: number;
   updated_at: Date;
   updated_by: string | null;
+}
+
+export interface ShopSettingsInsert {
+  id?: W<number>;
+  shop_name: W<string>;
+  display_units?: W<"mm" | "in">;
+  kerf_mm?: W<number>;
+  trim_mm?: W<number>;
+  defect_margin_mm?: W<number>;
+  min_offcut_x_mm?: W<number>;
+  min_offcut_y_mm?: W<number>;
+  min_offcut_z_mm?: W<number>;
+  layout?: W<"guillotine" | "layers" | "free">;
+  feed_mm_per_min?: W<number>;
+  nesting_time_limit_ms?: W<number>;
+  updated_at?: W<Date | string>;
+  updated_by?: W<string | null>;
 }
 
 export interface SignInFailuresRow {
@@ -373,10 +743,27 @@ export interface SignInFailuresRow {
   at: Date;
 }
 
+export interface SignInFailuresInsert {
+  id?: W<number>;
+  account: W<string>;
+  client: W<string>;
+  at?: W<Date | string>;
+}
+
 export interface StockLedgerRow {
   id: number;
   block_id: number;
-  kind: string;
+  kind:
+    | "received"
+    | "reserved"
+    | "released"
+    | "consumed"
+    | "offcut_created"
+    | "scrapped"
+    | "adjusted"
+    | "reversed"
+    | "held"
+    | "hold_released";
   volume_m3: number;
   delta_m3: number;
   value: number;
@@ -387,9 +774,39 @@ export interface StockLedgerRow {
   ref: string | null;
 }
 
+export interface StockLedgerInsert {
+  id?: W<number>;
+  block_id: W<number>;
+  kind: W<
+    | "received"
+    | "reserved"
+    | "released"
+    | "consumed"
+    | "offcut_created"
+    | "scrapped"
+    | "adjusted"
+    | "reversed"
+    | "held"
+    | "hold_released"
+  >;
+  volume_m3: W<number>;
+  delta_m3: W<number>;
+  value?: W<number>;
+  delta_value?: W<number>;
+  user_id?: W<string | null>;
+  at?: W<Date | string>;
+  reason?: W<string | null>;
+  ref?: W<string | null>;
+}
+
 export interface SupplierClaimBlocksRow {
   claim_id: number;
   block_id: number;
+}
+
+export interface SupplierClaimBlocksInsert {
+  claim_id: W<number>;
+  block_id: W<number>;
 }
 
 export interface SupplierClaimPhotosRow {
@@ -405,19 +822,47 @@ export interface SupplierClaimPhotosRow {
   uploaded_at: Date;
 }
 
+export interface SupplierClaimPhotosInsert {
+  id?: W<number>;
+  claim_id: W<number>;
+  object_key: W<string>;
+  thumb_key: W<string>;
+  content_type: W<string>;
+  bytes: W<number>;
+  width?: W<number | null>;
+  height?: W<number | null>;
+  uploaded_by?: W<string | null>;
+  uploaded_at?: W<Date | string>;
+}
+
 export interface SupplierClaimsRow {
   id: number;
   supplier_id: number;
-  reason: string;
+  reason: "under_density" | "over_density" | "wet" | "damaged" | "wrong_size" | "other";
   note: string | null;
   credit_asked: number;
-  status: string;
+  status: "open" | "accepted" | "rejected" | "credited";
   credit_received: number | null;
   decision_note: string | null;
   decided_at: Date | null;
   decided_by: string | null;
   created_by: string | null;
   created_at: Date;
+}
+
+export interface SupplierClaimsInsert {
+  id?: W<number>;
+  supplier_id: W<number>;
+  reason: W<"under_density" | "over_density" | "wet" | "damaged" | "wrong_size" | "other">;
+  note?: W<string | null>;
+  credit_asked?: W<number>;
+  status?: W<"open" | "accepted" | "rejected" | "credited">;
+  credit_received?: W<number | null>;
+  decision_note?: W<string | null>;
+  decided_at?: W<Date | string | null>;
+  decided_by?: W<string | null>;
+  created_by?: W<string | null>;
+  created_at?: W<Date | string>;
 }
 
 export interface SuppliersRow {
@@ -432,9 +877,26 @@ export interface SuppliersRow {
   lead_time_sd_days: number;
 }
 
+export interface SuppliersInsert {
+  id?: W<number>;
+  name: W<string>;
+  contact?: W<string | null>;
+  email?: W<string | null>;
+  phone?: W<string | null>;
+  lead_time_days?: W<number>;
+  notes?: W<string | null>;
+  active?: W<boolean>;
+  lead_time_sd_days?: W<number>;
+}
+
 export interface UserRolesRow {
   user_id: string;
-  role: string;
+  role: "admin" | "buyer" | "cutter" | "planner" | "manager";
+}
+
+export interface UserRolesInsert {
+  user_id: W<string>;
+  role: W<"admin" | "buyer" | "cutter" | "planner" | "manager">;
 }
 
 export interface UserSessionsRow {
@@ -444,6 +906,13 @@ export interface UserSessionsRow {
   created_at: Date;
 }
 
+export interface UserSessionsInsert {
+  id: W<string>;
+  user_id: W<string>;
+  expires_at: W<Date | string>;
+  created_at?: W<Date | string>;
+}
+
 export interface UsersRow {
   id: string;
   email: string;
@@ -451,43 +920,59 @@ export interface UsersRow {
   password_hash: string;
   active: boolean;
   must_change_password: boolean;
-  display_units: string | null;
+  display_units: "mm" | "in" | null;
   created_at: Date;
   updated_at: Date;
 }
 
-export interface Tables {
-  audit_log: Knex.CompositeTableType<AuditLogRow, Partial<AuditLogRow>>;
-  blocks: Knex.CompositeTableType<BlocksRow, Partial<BlocksRow>>;
-  csv_imports: Knex.CompositeTableType<CsvImportsRow, Partial<CsvImportsRow>>;
-  cut_parts: Knex.CompositeTableType<CutPartsRow, Partial<CutPartsRow>>;
-  defect_photos: Knex.CompositeTableType<DefectPhotosRow, Partial<DefectPhotosRow>>;
-  defect_zones: Knex.CompositeTableType<DefectZonesRow, Partial<DefectZonesRow>>;
-  deliveries: Knex.CompositeTableType<DeliveriesRow, Partial<DeliveriesRow>>;
-  grade_reorder: Knex.CompositeTableType<GradeReorderRow, Partial<GradeReorderRow>>;
-  grades: Knex.CompositeTableType<GradesRow, Partial<GradesRow>>;
-  job_parts: Knex.CompositeTableType<JobPartsRow, Partial<JobPartsRow>>;
-  jobs: Knex.CompositeTableType<JobsRow, Partial<JobsRow>>;
-  library_parts: Knex.CompositeTableType<LibraryPartsRow, Partial<LibraryPartsRow>>;
-  machine_grades: Knex.CompositeTableType<MachineGradesRow, Partial<MachineGradesRow>>;
-  machines: Knex.CompositeTableType<MachinesRow, Partial<MachinesRow>>;
-  mail_outbox: Knex.CompositeTableType<MailOutboxRow, Partial<MailOutboxRow>>;
-  nesting_runs: Knex.CompositeTableType<NestingRunsRow, Partial<NestingRunsRow>>;
-  plan_block_steps: Knex.CompositeTableType<PlanBlockStepsRow, Partial<PlanBlockStepsRow>>;
-  plan_blocks: Knex.CompositeTableType<PlanBlocksRow, Partial<PlanBlocksRow>>;
-  plan_offcut_codes: Knex.CompositeTableType<PlanOffcutCodesRow, Partial<PlanOffcutCodesRow>>;
-  purchase_order_lines: Knex.CompositeTableType<PurchaseOrderLinesRow, Partial<PurchaseOrderLinesRow>>;
-  purchase_order_receipts: Knex.CompositeTableType<PurchaseOrderReceiptsRow, Partial<PurchaseOrderReceiptsRow>>;
-  purchase_orders: Knex.CompositeTableType<PurchaseOrdersRow, Partial<PurchaseOrdersRow>>;
-  reorder_settings: Knex.CompositeTableType<ReorderSettingsRow, Partial<ReorderSettingsRow>>;
-  shop_settings: Knex.CompositeTableType<ShopSettingsRow, Partial<ShopSettingsRow>>;
-  sign_in_failures: Knex.CompositeTableType<SignInFailuresRow, Partial<SignInFailuresRow>>;
-  stock_ledger: Knex.CompositeTableType<StockLedgerRow, Partial<StockLedgerRow>>;
-  supplier_claim_blocks: Knex.CompositeTableType<SupplierClaimBlocksRow, Partial<SupplierClaimBlocksRow>>;
-  supplier_claim_photos: Knex.CompositeTableType<SupplierClaimPhotosRow, Partial<SupplierClaimPhotosRow>>;
-  supplier_claims: Knex.CompositeTableType<SupplierClaimsRow, Partial<SupplierClaimsRow>>;
-  suppliers: Knex.CompositeTableType<SuppliersRow, Partial<SuppliersRow>>;
-  user_roles: Knex.CompositeTableType<UserRolesRow, Partial<UserRolesRow>>;
-  user_sessions: Knex.CompositeTableType<UserSessionsRow, Partial<UserSessionsRow>>;
-  users: Knex.CompositeTableType<UsersRow, Partial<UsersRow>>;
+export interface UsersInsert {
+  id: W<string>;
+  email: W<string>;
+  name: W<string>;
+  password_hash: W<string>;
+  active?: W<boolean>;
+  must_change_password?: W<boolean>;
+  display_units?: W<"mm" | "in" | null>;
+  created_at?: W<Date | string>;
+  updated_at?: W<Date | string>;
+}
+
+export interface DbTables {
+  audit_log: Knex.CompositeTableType<AuditLogRow, AuditLogInsert>;
+  blocks: Knex.CompositeTableType<BlocksRow, BlocksInsert>;
+  csv_imports: Knex.CompositeTableType<CsvImportsRow, CsvImportsInsert>;
+  cut_parts: Knex.CompositeTableType<CutPartsRow, CutPartsInsert>;
+  defect_photos: Knex.CompositeTableType<DefectPhotosRow, DefectPhotosInsert>;
+  defect_zones: Knex.CompositeTableType<DefectZonesRow, DefectZonesInsert>;
+  deliveries: Knex.CompositeTableType<DeliveriesRow, DeliveriesInsert>;
+  grade_reorder: Knex.CompositeTableType<GradeReorderRow, GradeReorderInsert>;
+  grades: Knex.CompositeTableType<GradesRow, GradesInsert>;
+  job_parts: Knex.CompositeTableType<JobPartsRow, JobPartsInsert>;
+  jobs: Knex.CompositeTableType<JobsRow, JobsInsert>;
+  library_parts: Knex.CompositeTableType<LibraryPartsRow, LibraryPartsInsert>;
+  machine_grades: Knex.CompositeTableType<MachineGradesRow, MachineGradesInsert>;
+  machines: Knex.CompositeTableType<MachinesRow, MachinesInsert>;
+  mail_outbox: Knex.CompositeTableType<MailOutboxRow, MailOutboxInsert>;
+  nesting_runs: Knex.CompositeTableType<NestingRunsRow, NestingRunsInsert>;
+  plan_block_steps: Knex.CompositeTableType<PlanBlockStepsRow, PlanBlockStepsInsert>;
+  plan_blocks: Knex.CompositeTableType<PlanBlocksRow, PlanBlocksInsert>;
+  plan_offcut_codes: Knex.CompositeTableType<PlanOffcutCodesRow, PlanOffcutCodesInsert>;
+  purchase_order_lines: Knex.CompositeTableType<PurchaseOrderLinesRow, PurchaseOrderLinesInsert>;
+  purchase_order_receipts: Knex.CompositeTableType<PurchaseOrderReceiptsRow, PurchaseOrderReceiptsInsert>;
+  purchase_orders: Knex.CompositeTableType<PurchaseOrdersRow, PurchaseOrdersInsert>;
+  reorder_settings: Knex.CompositeTableType<ReorderSettingsRow, ReorderSettingsInsert>;
+  shop_settings: Knex.CompositeTableType<ShopSettingsRow, ShopSettingsInsert>;
+  sign_in_failures: Knex.CompositeTableType<SignInFailuresRow, SignInFailuresInsert>;
+  stock_ledger: Knex.CompositeTableType<StockLedgerRow, StockLedgerInsert>;
+  supplier_claim_blocks: Knex.CompositeTableType<SupplierClaimBlocksRow, SupplierClaimBlocksInsert>;
+  supplier_claim_photos: Knex.CompositeTableType<SupplierClaimPhotosRow, SupplierClaimPhotosInsert>;
+  supplier_claims: Knex.CompositeTableType<SupplierClaimsRow, SupplierClaimsInsert>;
+  suppliers: Knex.CompositeTableType<SuppliersRow, SuppliersInsert>;
+  user_roles: Knex.CompositeTableType<UserRolesRow, UserRolesInsert>;
+  user_sessions: Knex.CompositeTableType<UserSessionsRow, UserSessionsInsert>;
+  users: Knex.CompositeTableType<UsersRow, UsersInsert>;
+}
+
+declare module "knex/types/tables" {
+  interface Tables extends DbTables {}
 }

@@ -2,7 +2,8 @@ import pg from "pg";
 
 /**
  * How column values arrive from PostgreSQL, set once for every connection of the process (the app,
- * the worker, the scripts and the tests all load this through db/index.ts or knexfile.ts):
+ * the worker, the scripts and the tests all load this through db/index.ts, knexfile.ts or
+ * tests/support/db.ts):
  * - NUMERIC (oid 1700) and BIGINT (20, e.g. count(*)) as numbers — sizes, volumes, money and counts
  *   here stay far inside a double's exact range;
  * - DATE (1082) as its 'YYYY-MM-DD' text: a calendar day has no time zone, and a Date object would

@@ -47,9 +47,10 @@ async function arrange(databaseUrl: string): Promise<Fixtures> {
     const emails: string[] = [];
     for (let i = 0; i < USERS; i++) emails.push((await makeUser(["planner"])).email);
     const existing = await testDb()("nesting_runs").whereNotNull("plan").orderBy("id").first("id");
-    const runId = (existing?.id as number | undefined) ?? (await makePlannedBlock()).runId;
+    const runId = existing?.id ?? (await makePlannedBlock()).runId;
     const block = await testDb()("blocks").where({ status: "in_stock" }).orderBy("id").first("code");
-    return { emails, password: TEST_PASSWORD, blockCode: block.code as string, runId };
+    if (!block) throw new Error("The bench needs a block in stock.");
+    return { emails, password: TEST_PASSWORD, blockCode: block.code, runId };
   } finally {
     await closeTestDb();
     delete process.env.DATABASE_URL;

@@ -67,7 +67,7 @@ async function main() {
   try {
     const cookie = await signIn(stack.url, "admin@demo.blockyard.test", DEMO_PASSWORD);
     const k = knex({ client: "pg", connection: stack.databaseUrl });
-    const grade = (await k("grades").where({ code: "EPS-II" }).first("id")).id as number;
+    const grade = (await k("grades").where({ code: "EPS-II" }).first("id"))!.id;
     // The cursor the 599th page of the default list hands on: its last row (as listBlocks encodes it).
     const row = (
       await k.raw(

@@ -5,7 +5,7 @@
  */
 import { createBoss } from "@/lib/jobs/boss";
 import { jobDefinitions } from "@/lib/jobs/registry";
-import { failStaleRuns } from "@/db/queries/runs";
+import { failStaleRuns } from "@/db/queries/run-worker";
 
 // A worker that dies mid-run leaves its run "running" with a stale heartbeat: every worker sweeps
 // such runs to "failed" at start and then periodically, so nobody waits on a dead one for ever.

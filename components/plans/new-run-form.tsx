@@ -10,7 +10,7 @@ import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { BUDGET_S, type RunSettings, secondsToMs } from "@/lib/validations/runs";
 import { formatDate } from "@/lib/format";
-import type { Candidate } from "@/db/queries/runs";
+import type { Candidate } from "@/db/queries/run-plan";
 import { leftOutLine, type LeftOut } from "@/lib/planning/usable";
 import { formatVolume } from "@/lib/units";
 

@@ -8,6 +8,7 @@ import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { priceFor } from "@/lib/purchasing/pricing";
 import { formatMoney } from "@/lib/format";
+import type { PoLine } from "@/lib/purchasing/orders";
 
 interface GradeOpt {
   id: number;
@@ -30,7 +31,7 @@ export interface PoFormInitial {
   supplierId: number | null;
   expectedOn: string | null;
   notes: string | null;
-  lines: { gradeId: number; size: [number, number, number]; quantity: number; price: number; note: string | null }[];
+  lines: Pick<PoLine, "gradeId" | "size" | "quantity" | "price" | "note">[];
 }
 
 const money = formatMoney;

@@ -8,17 +8,15 @@ import { Button } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { formatVolume } from "@/lib/units";
+import type { PoLine } from "@/lib/purchasing/orders";
 
-interface LineView {
-  id: number;
+/** An order line as the form shows it: the server's PoLine fields it needs and its number on the order. */
+type LineView = Pick<
+  PoLine,
+  "id" | "gradeCode" | "size" | "quantity" | "volumeM3" | "receivedM3" | "receivedBlocks"
+> & {
   no: number;
-  gradeCode: string;
-  size: [number, number, number];
-  quantity: number;
-  volumeM3: number;
-  receivedM3: number;
-  receivedBlocks: number;
-}
+};
 interface Row {
   lineId: string;
   code: string;

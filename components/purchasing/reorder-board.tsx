@@ -12,65 +12,15 @@ import { Badge, Card } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { m3ToBoardFeet } from "@/lib/units";
 import { ResultNotice } from "@/components/ui/result-notice";
+// The server's types for what the page hands over (type-only imports: erased from the client bundle).
+import type { ReorderInput, ReorderRow } from "@/db/queries/reorder";
+import type { Source } from "@/lib/purchasing/reorder";
+import type { ReorderSettings } from "@/lib/validations/purchasing";
 
-type Src = "ledger" | "supplier" | "deliveries" | "settings" | "jobs" | "override" | "none";
-interface In {
-  value: number;
-  source: Src;
-}
-export interface ReorderView {
-  gradeId: number;
-  gradeCode: string;
-  gradeLabel: string;
-  colour: string;
-  priceUnit: "m3" | "bf";
-  neverHotWire: boolean;
-  supplier: { id: number; name: string } | null;
-  supplierSource: Src;
-  dailyDemand: In;
-  demandSd: In;
-  historyDays: number;
-  historyWorkingDays: number;
-  leadTimeDays: In;
-  leadTimeSd: In;
-  lateness: { orders: number; meanDays: number; sdDays: number } | null;
-  leadTimeEnds: string;
-  workingDays: number[];
-  serviceLevel: In;
-  committed: In & { dueBy: string; jobs: number; pieces: number; kerfMm: number };
-  orderCost: In;
-  holdingCost: In;
-  onHand: number;
-  onOrder: number;
-  inDraft: number;
-  blockSize: [number, number, number] | null;
-  blockVolume: number;
-  lastPrice: number | null;
-  reorderPointOverride: number | null;
-  orderQtyOverride: number | null;
-  note: string | null;
-  result: {
-    z: number;
-    safetyStock: number;
-    forecast: number;
-    leadTimeDemand: number;
-    demandRule: "forecast" | "committed";
-    reorderPoint: number;
-    annualDemand: number;
-    eoq: number;
-    position: number;
-    due: boolean;
-    suggestedM3: number;
-    suggestedBlocks: number | null;
-  };
-}
-interface Settings {
-  serviceLevel: number;
-  historyDays: number;
-  orderCost: number;
-  holdingCost: number;
-  workingDays: number[];
-}
+type Src = Source;
+type In = ReorderInput<number>;
+export type ReorderView = ReorderRow;
+type Settings = ReorderSettings;
 
 const SOURCE: Record<Src, string> = {
   ledger: "from the ledger",

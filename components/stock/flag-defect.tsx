@@ -4,7 +4,7 @@ import { formatDate } from "@/lib/format";
 import { useEffect, useRef, useState, type FormEvent } from "react";
 import Link from "next/link";
 import { ApiError, fetcher, readResponse, send } from "@/lib/swr/fetcher";
-import { DEFECT_KINDS, DEFECT_LABELS, STATUS_LABELS, type DefectKind, type ShownStatus } from "@/lib/stock";
+import { DEFECT_KINDS, DEFECT_LABELS, STATUS_LABELS, type DefectKind } from "@/lib/stock";
 import { formatSize, type LengthUnit } from "@/lib/units";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
@@ -15,36 +15,14 @@ import { FACE_AT, depthRange, zoneFromMark } from "@/lib/defect-zone";
 import { FaceViews, type DrawnRect, type Vec3 } from "./face-views";
 import { QrScanner } from "./qr-scanner";
 import { ZoneEdit } from "./zone-edit";
+// What this page reads from the API, as the server types it (type-only imports: erased from the
+// client bundle). A block found by a search is a list row; one opened is its detail (parent code too).
+import type { BlockDetail } from "@/db/queries/blocks";
+import type { Defect } from "@/db/queries/defects";
+import type { BlockSummary } from "@/lib/stock-types";
 
-// What this page reads from the API (client components never import db/).
-interface FoundBlock {
-  id: number;
-  code: string;
-  gradeCode: string;
-  colour: string;
-  lot: string;
-  size: Vec3;
-  location: string;
-  shown: ShownStatus;
-  isOffcut: boolean;
-  parentCode?: string | null;
-}
-interface Photo {
-  id: number;
-  contentType: string;
-  bytes: number;
-}
-interface Zone {
-  id: number;
-  kind: DefectKind;
-  min: Vec3;
-  max: Vec3;
-  foundBy: string | null;
-  foundById: string | null;
-  foundAt: string;
-  note: string | null;
-  photos: Photo[];
-}
+type FoundBlock = BlockSummary & Partial<Pick<BlockDetail, "parentCode">>;
+type Zone = Defect;
 
 /** Who is looking: the cutter who flagged a zone, or a planner, may correct or remove it. */
 export interface Viewer {

@@ -3,6 +3,7 @@
 import { numberOrNull as num } from "@/lib/forms";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
+import type { Grade } from "@/db/queries/grades";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { Badge, Card } from "@/components/ui/card";
@@ -11,22 +12,10 @@ import { MATERIALS, type Material } from "@/lib/stock";
 import { c578Minimum, formatCompressive } from "@/lib/astm-c578";
 import { LiveNotice, ResultNotice } from "@/components/ui/result-notice";
 
-export interface GradeView {
-  id: number;
-  code: string;
-  material: Material;
-  gradeSystem: string;
-  grade: string;
-  nominalDensity: number | null;
-  minDensity: number | null;
-  cureDays: number;
-  neverHotWire: boolean;
-  colour: string;
-  priceUnit: "m3" | "bf";
-  notes: string | null;
-}
+/** A grade as the server's query module types it (a type-only import: erased from the client bundle). */
+export type GradeView = Grade;
 
-const EMPTY: Omit<GradeView, "id"> = {
+const EMPTY: Omit<GradeView, "id" | "active"> = {
   code: "",
   material: "EPS",
   gradeSystem: "ASTM C578",

@@ -13,14 +13,10 @@ import type { LengthUnit } from "@/lib/units";
 import { lengthMmOrNull } from "@/lib/forms";
 import { receivedCodeProblem } from "@/lib/block-code";
 import { formatVolume } from "@/lib/units";
+import type { Grade } from "@/db/queries/grades";
 
-interface GradeOption {
-  id: number;
-  code: string;
-  minDensity: number | null;
-  cureDays: number;
-  neverHotWire: boolean;
-}
+/** What the form needs of a grade (the server's Grade; a type-only import, erased from the client bundle). */
+type GradeOption = Pick<Grade, "id" | "code" | "minDensity" | "cureDays" | "neverHotWire">;
 export interface Row {
   /** The row's own identity for React and for edits: never shared, never reused. */
   key: number;

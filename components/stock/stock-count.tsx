@@ -2,6 +2,7 @@
 
 import Link from "next/link";
 import { useEffect, useState, type FormEvent } from "react";
+import type { CountedLine, ScanCountReport } from "@/db/queries/stock-counts";
 import { ApiError, fetcher, send } from "@/lib/swr/fetcher";
 import { codeFromScan } from "@/lib/block-code";
 import { plural } from "@/lib/format";
@@ -13,35 +14,10 @@ import { ResultNotice } from "@/components/ui/result-notice";
 import { QrScanner } from "./qr-scanner";
 
 type Size = [number, number, number];
-
-// What this page reads from the API (client components never import db/).
-interface CheckedBlock {
-  code: string;
-  gradeCode: string;
-  status: string;
-  size: Size;
-  recordedLocation: string;
-  location: string;
-}
-interface CountedLine extends CheckedBlock {
-  moved: boolean;
-  remeasured: Size | null;
-}
-interface MissingLine {
-  code: string;
-  gradeCode: string;
-  size: Size;
-  location: string;
-  earmarked: boolean;
-}
-interface CountReport {
-  committed: boolean;
-  ref: string | null;
-  location: string | null;
-  counted: CountedLine[];
-  missing: MissingLine[];
-  summary: { counted: number; moved: number; remeasured: number; missing: number; writtenOff: number };
-}
+// What this page reads from the API, as the server's query module types it (type-only imports are
+// erased from the client bundle): a scanned block is checked into a CountedLine.
+type CheckedBlock = CountedLine;
+type CountReport = ScanCountReport;
 
 /** One block counted on this tablet, kept until the count is reconciled. */
 interface Counted {

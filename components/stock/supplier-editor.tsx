@@ -3,23 +3,15 @@
 import { plural } from "@/lib/format";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
+import type { Supplier } from "@/db/queries/suppliers";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { Badge, Card } from "@/components/ui/card";
 import { Field, Input } from "@/components/ui/field";
 import { ResultNotice } from "@/components/ui/result-notice";
 
-export interface SupplierView {
-  id: number;
-  name: string;
-  contact: string | null;
-  email: string | null;
-  phone: string | null;
-  leadTimeDays: number;
-  leadTimeSdDays?: number;
-  notes: string | null;
-  active: boolean;
-}
+/** A supplier as the server's query module types it (a type-only import: erased from the client bundle). */
+export type SupplierView = Supplier;
 
 export function SupplierEditor({ suppliers }: { suppliers: SupplierView[] }) {
   const router = useRouter();

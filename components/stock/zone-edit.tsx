@@ -3,21 +3,17 @@
 import { useRouter } from "next/navigation";
 import { useState, type FormEvent } from "react";
 import { send } from "@/lib/swr/fetcher";
-import { DEFECT_KINDS, DEFECT_LABELS, type DefectKind } from "@/lib/stock";
+import { DEFECT_KINDS, DEFECT_LABELS } from "@/lib/stock";
 import { Button } from "@/components/ui/button";
 import { ResultNotice } from "@/components/ui/result-notice";
 import { Field, Input, Select } from "@/components/ui/field";
 import { useSubmit } from "@/components/ui/use-submit";
+import type { Defect } from "@/db/queries/defects";
 
 type Vec3 = [number, number, number];
 
-export interface EditableZone {
-  id: number;
-  kind: DefectKind;
-  min: Vec3;
-  max: Vec3;
-  note: string | null;
-}
+/** What a correction needs of a zone (the server's Defect; a type-only import, erased from the client bundle). */
+export type EditableZone = Pick<Defect, "id" | "kind" | "min" | "max" | "note">;
 
 const AXES = [
   { key: "x", name: "length" },

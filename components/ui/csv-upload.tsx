@@ -6,21 +6,10 @@ import { useAnnounce } from "./announcer";
 import { Button } from "./button";
 import { Card } from "./card";
 import { ResultNotice } from "./result-notice";
+import type { ImportReport } from "@/db/queries/imports";
 
-export interface CsvProblem {
-  row: number;
-  column?: string;
-  message: string;
-}
-export interface CsvReport {
-  committed: boolean;
-  rows: number;
-  problems: CsvProblem[];
-  problemCount: number;
-  warnings: CsvProblem[];
-  summary: Record<string, number>;
-  error?: string;
-}
+/** The server's check of a file, as its query module types it (a type-only import: erased from the client bundle). */
+export type CsvReport = ImportReport;
 
 /** Sends the file with XHR so the bar can show upload progress, then the server's check. */
 function upload(

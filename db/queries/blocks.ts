@@ -1,6 +1,7 @@
 import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
+import type { BlocksRow, DeliveriesRow, GradesRow } from "@/db/tables";
 import { appendLedger } from "./ledger";
 import { HttpError } from "@/lib/errors";
 import {
@@ -12,7 +13,6 @@ import {
   shownStatus,
   type BlockStatus,
   type HoldReason,
-  type Material,
 } from "@/lib/stock";
 import type { BlockQuery } from "@/lib/validations/stock";
 
@@ -31,45 +31,26 @@ export interface BlockDetail extends BlockSummary {
   gradeLabel: string;
 }
 
-interface Row {
-  id: number;
-  code: string;
-  grade_id: number;
-  grade_code: string;
-  material: Material;
-  never_hot_wire: boolean;
-  colour: string;
-  lot: string;
-  size_x: string;
-  size_y: string;
-  size_z: string;
-  volume_m3: string;
-  weight_kg: string | null;
-  min_density_kg_m3: string | null;
-  cost: string;
-  location: string;
-  moulded_on: Date | string | null;
-  cut_not_before: Date | string;
-  status: BlockStatus;
-  parent_id: number | null;
-  defect_count: string | number;
-  fifo: string | number | null;
-  received_on: Date | string | null;
-  supplier_name: string | null;
-  hold_reason: HoldReason | null;
-  hold_note: string | null;
-  held_at: Date | null;
-  held_by_name: string | null;
-}
-
-const day = (v: Date | string | null): string | null =>
-  v === null ? null : typeof v === "string" ? v.slice(0, 10) : isoDate(v);
+/** A block as selectBlocks reads it: the block, its grade, its delivery (none for an offcut) and who holds it. */
+type Row = BlocksRow &
+  Pick<GradesRow, "material" | "never_hot_wire" | "colour" | "min_density_kg_m3" | "cure_days" | "grade_system"> & {
+    grade_code: string;
+    grade_name: string;
+    received_on: DeliveriesRow["received_on"] | null;
+    po_ref: DeliveriesRow["po_ref"];
+    supplier_name: string | null;
+    held_by_name: string | null;
+    /** count(*): BIGINT, a number (db/types.ts). */
+    defect_count: number;
+    fifo?: number | null;
+  };
 
 function toSummary(r: Row, today: string): BlockSummary {
   const size: Size = [Number(r.size_x), Number(r.size_y), Number(r.size_z)];
   const volume = Number(r.volume_m3);
   const weight = r.weight_kg === null ? null : Number(r.weight_kg);
-  const cnb = day(r.cut_not_before)!;
+  // DATE columns arrive as their 'YYYY-MM-DD' text (db/types.ts).
+  const cnb = r.cut_not_before;
   return {
     id: r.id,
     code: r.code,
@@ -86,7 +67,7 @@ function toSummary(r: Row, today: string): BlockSummary {
     minDensity: r.min_density_kg_m3 === null ? null : Number(r.min_density_kg_m3),
     cost: Number(r.cost),
     location: r.location,
-    mouldedOn: day(r.moulded_on),
+    mouldedOn: r.moulded_on,
     cutNotBefore: cnb,
     status: r.status,
     shown: shownStatus(r.status, cnb, today),
@@ -94,7 +75,7 @@ function toSummary(r: Row, today: string): BlockSummary {
     parentId: r.parent_id,
     defectCount: Number(r.defect_count ?? 0),
     fifo: r.fifo === null || r.fifo === undefined ? null : Number(r.fifo),
-    receivedOn: day(r.received_on),
+    receivedOn: r.received_on,
     supplier: r.supplier_name,
     hold:
       r.status === "on_hold" && r.hold_reason && r.held_at
@@ -239,7 +220,7 @@ export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<Bloc
     filtered
       .clone()
       .select(k.raw("count(*) AS n, coalesce(sum(b.volume_m3), 0) AS v, coalesce(sum(b.cost), 0) AS c"))
-      .first() as Promise<{ n: string; v: string; c: string } | undefined>,
+      .first() as Promise<{ n: number; v: number; c: number } | undefined>,
   ]);
   const more = found.length > f.pageSize;
   const ids = found.slice(0, f.pageSize);
@@ -296,7 +277,7 @@ async function attachFifo(items: BlockSummary[], today: string) {
     .select("id", "fifo")
     .from("ranked")
     .whereIn("id", ids);
-  const byId = new Map((rows as { id: number; fifo: string }[]).map((r) => [r.id, Number(r.fifo)]));
+  const byId = new Map((rows as { id: number; fifo: number }[]).map((r) => [r.id, r.fifo]));
   for (const b of ready) b.fifo = byId.get(b.id) ?? null;
 }
 
@@ -325,12 +306,7 @@ export async function listChildren(
   parentId: number,
 ): Promise<{ id: number; code: string; size: Size; status: BlockStatus }[]> {
   const rows = await db()("blocks").where({ parent_id: parentId }).orderBy("id");
-  return rows.map((r: Record<string, unknown>) => ({
-    id: r.id as number,
-    code: r.code as string,
-    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as Size,
-    status: r.status as BlockStatus,
-  }));
+  return rows.map((r) => ({ id: r.id, code: r.code, size: [r.size_x, r.size_y, r.size_z] as Size, status: r.status }));
 }
 
 export async function listLocations(): Promise<string[]> {
@@ -356,15 +332,7 @@ async function lockAvailable(trx: Knex.Transaction, id: number) {
   if (b.status === "cut" || b.status === "written_off")
     throw new HttpError(409, `Block ${b.code} is no longer in stock.`);
   if (b.status === "earmarked") throw new HttpError(409, `Block ${b.code} is earmarked for a plan; release it first.`);
-  return b as {
-    id: number;
-    code: string;
-    volume_m3: string;
-    cost: string;
-    size_x: string;
-    size_y: string;
-    size_z: string;
-  };
+  return b;
 }
 
 /** Writes a block off (damaged, lost): no hard deletes, the ledger keeps the reason. */
@@ -389,7 +357,7 @@ export async function adjustBlock(id: number, size: Size, reason: string, actorI
       .where({ id })
       .update({ size_x: size[0], size_y: size[1], size_z: size[2], updated_at: trx.fn.now() })
       .returning("volume_m3");
-    const delta = Number(after.volume_m3) - before;
+    const delta = Number(after!.volume_m3) - before;
     await appendLedger(trx, [{ blockId: id, kind: "adjusted", volumeM3: delta, value: 0, userId: actorId, reason }]);
   });
 }

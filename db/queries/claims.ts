@@ -56,9 +56,9 @@ interface ClaimRow {
   supplier_name: string;
   reason: ClaimReason;
   note: string | null;
-  credit_asked: string;
+  credit_asked: number;
   status: ClaimStatus;
-  credit_received: string | null;
+  credit_received: number | null;
   decision_note: string | null;
   decided_at: Date | null;
   decided_by_name: string | null;
@@ -99,7 +99,7 @@ async function withDetails(k: Knex | Knex.Transaction, rows: ClaimRow[]): Promis
         code: string;
         grade_code: string;
         lot: string;
-        volume_m3: string;
+        volume_m3: number;
         status: BlockStatus;
         hold_reason: HoldReason | null;
       }[]
@@ -251,6 +251,7 @@ export async function createClaim(input: ClaimInput, actorId: string): Promise<S
         created_by: actorId,
       })
       .returning("id");
+    if (!claim) throw new Error("The claim was not saved.");
     await trx("supplier_claim_blocks").insert(found.map((b) => ({ claim_id: claim.id, block_id: b.id })));
     await trx("audit_log").insert({
       actor_id: actorId,

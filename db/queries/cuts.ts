@@ -1,13 +1,22 @@
 import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
+import type { BlocksInsert, DefectZonesRow } from "@/db/tables";
 import { HttpError } from "@/lib/errors";
 import type { Plan, Problem, Vec3 } from "@/lib/nesting";
 import type { Box } from "@/lib/nesting/geometry";
 import { blockProcedure } from "@/lib/planning/block-steps";
 import { lossBreakdown } from "@/lib/planning/losses";
-import { partIdFromKey } from "@/lib/planning/problem";
-import { clipZone, cutState, shareValue } from "@/lib/planning/recording";
+import {
+  clipZone,
+  countParts,
+  cutState,
+  partLine,
+  rejectedSizes,
+  shareValue,
+  tallyRejects,
+  volumeBasis,
+} from "@/lib/planning/recording";
 import type { RecordCutInput, RunSettings } from "@/lib/validations/runs";
 import { machineForRun } from "./at-the-machine";
 import { appendLedger } from "./ledger";
@@ -54,6 +63,7 @@ export async function recordCut(
         pb.status === "cut" ? "That block is already marked cut." : "That block was released from this plan.",
       );
     const block = await trx("blocks").where({ id: blockId }).forUpdate().first();
+    if (!block) throw new HttpError(404, "That block was not found.");
     const plan = run.plan as Plan;
     const problem = run.problem as Problem;
     const settings = run.settings as RunSettings;
@@ -91,49 +101,28 @@ export async function recordCut(
     }
 
     // Rejects: those of the steps counted, then the form's; never more than came off.
-    const placedAll = new Map<number, number>();
-    for (const p of plan.placements.filter((x) => x.block === block.code))
-      placedAll.set(partIdFromKey(p.part), (placedAll.get(partIdFromKey(p.part)) ?? 0) + 1);
-    const cutCount = new Map<number, number>();
-    for (const p of parts) cutCount.set(partIdFromKey(p.part), (cutCount.get(partIdFromKey(p.part)) ?? 0) + 1);
-    const rejectCount = new Map<number, { count: number; reasons: string[] }>();
-    const fields: Record<string, string> = {};
-    const addReject = (r: { jobPartId: number; count: number; reason: string }, field: string) => {
-      const came = cutCount.get(r.jobPartId) ?? 0;
-      const already = rejectCount.get(r.jobPartId)?.count ?? 0;
-      if (!came)
-        fields[`${field}.jobPartId`] = placedAll.get(r.jobPartId)
-          ? "That part has not come off this block in the steps done."
-          : "That part is not cut from this block.";
-      else if (already + r.count > came) fields[`${field}.count`] = `Only ${came} of that part came off this block.`;
-      else
-        rejectCount.set(r.jobPartId, {
-          count: already + r.count,
-          reasons: [...(rejectCount.get(r.jobPartId)?.reasons ?? []), r.reason],
-        });
-    };
-    for (const s of stepRows.filter((r) => countedSteps.has(r.step)))
-      s.rejects.forEach((r, i) => addReject(r, `steps.${s.step}.rejects.${i}`));
-    input.rejects.forEach((r, i) => addReject(r, `rejects.${i}`));
+    const placedAll = countParts(plan.placements.filter((x) => x.block === block.code).map((p) => p.part));
+    const cutCount = countParts(parts.map((p) => p.part));
+    const { rejects: rejectCount, fields } = tallyRejects(
+      [
+        ...stepRows
+          .filter((r) => countedSteps.has(r.step))
+          .flatMap((s) => s.rejects.map((reject, i) => ({ reject, field: `steps.${s.step}.rejects.${i}` }))),
+        ...input.rejects.map((reject, i) => ({ reject, field: `rejects.${i}` })),
+      ],
+      cutCount,
+      placedAll,
+    );
     if (Object.keys(fields).length) throw new HttpError(400, "Some rejects need attention.", fields);
 
     const size: Vec3 = [Number(block.size_x), Number(block.size_y), Number(block.size_z)];
     const problemBlock = problem.blocks.find((b) => b.id === block.code);
     const trim = problemBlock?.trim ?? (block.parent_id ? 0 : settings.trim);
     const defects = await trx("defect_zones").where({ block_id: blockId }).whereNull("removed_at").orderBy("id");
-    const zone = (d: Record<string, unknown>, grow = 0) => ({
-      min: [Number(d.min_x) - grow, Number(d.min_y) - grow, Number(d.min_z) - grow] as Vec3,
-      max: [Number(d.max_x) + grow, Number(d.max_y) + grow, Number(d.max_z) + grow] as Vec3,
+    const zone = (d: DefectZonesRow, grow = 0) => ({
+      min: [d.min_x - grow, d.min_y - grow, d.min_z - grow] as Vec3,
+      max: [d.max_x + grow, d.max_y + grow, d.max_z + grow] as Vec3,
     });
-    const rejectedSizes: Vec3[] = [];
-    const remaining = new Map([...rejectCount].map(([k, v]) => [k, v.count]));
-    for (const p of parts) {
-      const id = partIdFromKey(p.part);
-      if ((remaining.get(id) ?? 0) > 0) {
-        rejectedSizes.push(p.box.size);
-        remaining.set(id, remaining.get(id)! - 1);
-      }
-    }
     const returned = [...offcuts.map((o) => o.box), ...remainders.map((r) => r.box)];
     const losses = lossBreakdown({
       size,
@@ -141,9 +130,9 @@ export async function recordCut(
       kerf: settings.kerf,
       cuts,
       blanks: parts.map((p) => p.box.size),
-      rejected: rejectedSizes,
+      rejected: rejectedSizes(parts, rejectCount),
       offcuts: returned.map((b) => ({ origin: b.origin, size: b.size })),
-      defects: defects.map((d: Record<string, unknown>) => zone(d, settings.defectMargin)),
+      defects: defects.map((d) => zone(d, settings.defectMargin)),
     });
 
     // The block leaves stock.
@@ -185,7 +174,7 @@ export async function recordCut(
     ];
     for (const [i, piece] of into.entries()) {
       const o = piece.box;
-      const row = {
+      const row: BlocksInsert = {
         code: piece.code,
         grade_id: block.grade_id,
         lot: block.lot,
@@ -214,6 +203,7 @@ export async function recordCut(
       const [child] = undone
         ? await trx("blocks").where({ id: undone.id }).update(row).returning(["id", "volume_m3"])
         : await trx("blocks").insert(row).returning(["id", "volume_m3"]);
+      if (!child) throw new Error(`Offcut ${piece.code} was not saved.`);
       await appendLedger(trx, [
         {
           blockId: child.id,
@@ -253,33 +243,32 @@ export async function recordCut(
     }
 
     // What was cut, part by part; yield counts the true volume where a profile exists.
-    const partRows = (await trx("job_parts")
+    const partRows = await trx("job_parts")
       .whereIn("id", [...placedAll.keys()])
-      .select("id", "size_x", "size_y", "size_z", "true_volume_mm3")) as Record<string, string | number | null>[];
+      .select("id", "size_x", "size_y", "size_z", "true_volume_mm3");
     let partVolume = 0;
-    const bases = new Set<string>();
+    const bases: string[] = [];
     for (const p of partRows) {
-      const id = p.id as number;
-      const rejected = rejectCount.get(id)?.count ?? 0;
-      const came = cutCount.get(id) ?? 0;
-      const good = came - rejected;
-      const basis = p.true_volume_mm3 !== null ? "profile" : "box";
-      bases.add(basis);
-      const each =
-        basis === "profile"
-          ? Number(p.true_volume_mm3) / 1e9
-          : (Number(p.size_x) * Number(p.size_y) * Number(p.size_z)) / 1e9;
-      partVolume += each * good;
+      const line = partLine(
+        { size: [p.size_x, p.size_y, p.size_z], trueVolumeMm3: p.true_volume_mm3 },
+        {
+          placed: placedAll.get(p.id) ?? 0,
+          came: cutCount.get(p.id) ?? 0,
+          rejected: rejectCount.get(p.id)?.count ?? 0,
+        },
+      );
+      bases.push(line.basis);
+      partVolume += line.volumeM3;
       await trx("cut_parts").insert({
         run_id: runId,
         block_id: blockId,
-        job_part_id: id,
-        good_count: good,
-        rejected_count: rejected,
-        not_cut_count: (placedAll.get(id) ?? 0) - came,
-        reject_reason: rejectCount.get(id)?.reasons.join("; ") ?? null,
-        part_volume_m3: each * good,
-        volume_basis: basis,
+        job_part_id: p.id,
+        good_count: line.good,
+        rejected_count: line.rejected,
+        not_cut_count: line.notCut,
+        reject_reason: rejectCount.get(p.id)?.reasons.join("; ") ?? null,
+        part_volume_m3: line.volumeM3,
+        volume_basis: line.basis,
         recorded_by: actorId,
       });
     }
@@ -298,7 +287,7 @@ export async function recordCut(
         loss_defect_m3: losses.defect,
         loss_unusable_m3: losses.unusable,
         loss_reject_m3: losses.rejects,
-        volume_basis: bases.size > 1 ? "mixed" : ([...bases][0] ?? "box"),
+        volume_basis: volumeBasis(bases),
       });
     if (input.note)
       await trx("audit_log").insert({
@@ -332,7 +321,7 @@ async function lastOffcutNumber(trx: Knex.Transaction, code: string, blockId: nu
 async function settleRunAndJobs(trx: Knex.Transaction, runId: number, jobIds: number[]): Promise<void> {
   const open = await trx("plan_blocks")
     .where({ run_id: runId, status: "reserved" })
-    .count<{ n: string }[]>({ n: "*" })
+    .count<{ n: number }[]>({ n: "*" })
     .first();
   await trx("nesting_runs")
     .where({ id: runId })
@@ -371,8 +360,9 @@ export async function undoCut(
     const pb = await trx("plan_blocks").where({ run_id: runId, block_id: blockId }).forUpdate().first();
     if (!pb) throw new HttpError(404, "That block is not in this plan.");
     const block = await trx("blocks").where({ id: blockId }).forUpdate().first();
+    if (!block) throw new HttpError(404, "That block was not found.");
     if (pb.status !== "cut") throw new HttpError(409, `${block.code} is not recorded as cut in this plan.`);
-    const age = (now.getTime() - new Date(pb.cut_at).getTime()) / 60_000;
+    const age = (now.getTime() - (pb.cut_at?.getTime() ?? 0)) / 60_000;
     if (age > UNDO_MINUTES)
       throw new HttpError(
         409,

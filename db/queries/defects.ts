@@ -1,6 +1,7 @@
 import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
+import type { DefectZonesRow } from "@/db/tables";
 import { allows } from "@/lib/auth/policy";
 import { HttpError } from "@/lib/errors";
 import type { Role } from "@/lib/roles";
@@ -35,24 +36,8 @@ export interface Defect {
   photos: DefectPhoto[];
 }
 
-interface Row {
-  id: number;
-  block_id: number;
-  kind: DefectKind;
-  min_x: string;
-  min_y: string;
-  min_z: string;
-  max_x: string;
-  max_y: string;
-  max_z: string;
-  found_by: string | null;
-  found_by_name: string | null;
-  found_at: Date;
-  note: string | null;
-  inherited_from: number | null;
-  updated_at: Date | null;
-  updated_by_name: string | null;
-}
+/** A zone with the names of who flagged it and who last corrected it. */
+type Row = DefectZonesRow & { found_by_name: string | null; updated_by_name: string | null };
 
 /**
  *   listDefects(blockId) → the block's defect zones (boxes in the block's frame, mm) with photos;
@@ -136,13 +121,14 @@ export async function createDefect(blockId: number, d: DefectInput, actorId: str
         note: d.note ?? null,
       })
       .returning("id");
+    if (!row) throw new Error("The defect zone was not saved.");
     await trx("audit_log").insert({
       actor_id: actorId,
       action: "defect.create",
       subject: `block:${blockId}`,
       detail: { defect: row.id, ...d },
     });
-    return row.id as number;
+    return row.id;
   });
 }
 

@@ -1,11 +1,12 @@
 import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
+import type { BlocksInsert, BlocksRow } from "@/db/tables";
 import { appendLedger } from "./ledger";
 import { nextBlockCodes } from "./blocks";
 import { HttpError } from "@/lib/errors";
 import { receivedCodeProblem } from "@/lib/block-code";
-import { HOLD_LABELS, OVER_DENSITY_FACTOR, addDays, densityHold, isoDate, type HoldReason } from "@/lib/stock";
+import { HOLD_LABELS, OVER_DENSITY_FACTOR, addDays, densityHold, type HoldReason } from "@/lib/stock";
 import type { DeliveryInput } from "@/lib/validations/stock";
 
 export interface DeliverySummary {
@@ -34,7 +35,7 @@ interface GradeFacts {
   id: number;
   code: string;
   cure_days: number;
-  min_density_kg_m3: string | null;
+  min_density_kg_m3: number | null;
 }
 
 /**
@@ -95,10 +96,11 @@ export async function receiveDelivery(
       notes: input.notes ?? null,
     })
     .returning("id");
+  if (!delivery) throw new Error("The delivery was not saved.");
   const generated = await nextBlockCodes(trx, input.blocks.filter((b) => !b.code).length);
   const warnings: ReceiveResult["warnings"] = [];
   const holds = new Map<number, { reason: HoldReason; note: string }>();
-  const rows = input.blocks.map((b, i) => {
+  const rows = input.blocks.map((b, i): BlocksInsert => {
     const grade = grades.get(b.gradeId)!;
     const nominal = b.nominalSize ?? b.size;
     const volume = (b.size[0] * b.size[1] * b.size[2]) / 1e9;
@@ -137,7 +139,7 @@ export async function receiveDelivery(
       held_by: held ? actorId : null,
     };
   });
-  const inserted: { id: number; code: string; volume_m3: string; cost: string }[] = [];
+  const inserted: Pick<BlocksRow, "id" | "code" | "volume_m3" | "cost">[] = [];
   for (let i = 0; i < rows.length; i += 1000) {
     inserted.push(
       ...(await trx("blocks")
@@ -214,21 +216,21 @@ type DeliveryRow = {
   id: number;
   supplier_id: number;
   supplier_name: string;
-  received_on: Date | string;
+  received_on: string;
   po_ref: string | null;
   lot: string;
   received_by_name: string | null;
   notes: string | null;
-  n: string;
-  v: string;
-  c: string;
+  n: number;
+  v: number;
+  c: number;
 };
 
 const toDelivery = (r: DeliveryRow): DeliverySummary => ({
   id: r.id,
   supplierId: r.supplier_id,
   supplier: r.supplier_name,
-  receivedOn: typeof r.received_on === "string" ? r.received_on.slice(0, 10) : isoDate(r.received_on),
+  receivedOn: r.received_on, // DATE: its 'YYYY-MM-DD' text (db/types.ts)
   poRef: r.po_ref,
   lot: r.lot,
   receivedBy: r.received_by_name,
@@ -253,7 +255,7 @@ export async function listDeliveries(
   }
   const [rows, count] = await Promise.all([
     q.limit(pageSize).offset(((opts.page ?? 1) - 1) * pageSize),
-    c.count<{ n: string }[]>({ n: "*" }).first(),
+    c.count<{ n: number }[]>({ n: "*" }).first(),
   ]);
   return { items: (rows as DeliveryRow[]).map(toDelivery), total: Number(count?.n ?? 0) };
 }

@@ -1,5 +1,6 @@
 import "server-only";
 import { db } from "@/db";
+import type { GradesRow, GradesInsert } from "@/db/tables";
 import type { GradeInput } from "@/lib/validations/stock";
 import type { Material } from "@/lib/stock";
 import { HttpError } from "@/lib/errors";
@@ -20,33 +21,15 @@ export interface Grade {
   active: boolean;
 }
 
-interface Row {
-  id: number;
-  code: string;
-  material: Material;
-  grade_system: string;
-  grade: string;
-  nominal_density_kg_m3: string | null;
-  min_density_kg_m3: string | null;
-  cure_days: number;
-  never_hot_wire: boolean;
-  colour: string;
-  price_unit: "m3" | "bf";
-  notes: string | null;
-  active: boolean;
-}
-
-const num = (v: string | null) => (v === null ? null : Number(v));
-
-function toGrade(r: Row): Grade {
+function toGrade(r: GradesRow): Grade {
   return {
     id: r.id,
     code: r.code,
     material: r.material,
     gradeSystem: r.grade_system,
     grade: r.grade,
-    nominalDensity: num(r.nominal_density_kg_m3),
-    minDensity: num(r.min_density_kg_m3),
+    nominalDensity: r.nominal_density_kg_m3,
+    minDensity: r.min_density_kg_m3,
     cureDays: r.cure_days,
     neverHotWire: r.never_hot_wire,
     colour: r.colour,
@@ -56,7 +39,7 @@ function toGrade(r: Row): Grade {
   };
 }
 
-function toRow(g: GradeInput) {
+function toRow(g: GradeInput): GradesInsert {
   return {
     code: g.code,
     material: g.material,
@@ -97,8 +80,13 @@ export async function createGrade(g: GradeInput, actorId: string): Promise<Grade
   await assertCodeFree(g.code);
   return db().transaction(async (trx) => {
     const [row] = await trx("grades").insert(toRow(g)).returning("*");
-    await trx("audit_log").insert({ actor_id: actorId, action: "grade.create", subject: `grade:${row.id}`, detail: g });
-    return toGrade(row);
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "grade.create",
+      subject: `grade:${row!.id}`,
+      detail: g,
+    });
+    return toGrade(row!);
   });
 }
 

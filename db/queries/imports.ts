@@ -76,12 +76,10 @@ export async function importDeliveries(
     return report(false, rows.length, problems, warnings, {});
   }
   const grades = new Map<string, { id: number; min: number | null }>(
-    (await db()("grades").select("id", "code", "min_density_kg_m3")).map(
-      (g: { id: number; code: string; min_density_kg_m3: string | null }) => [
-        g.code.toLowerCase(),
-        { id: g.id, min: g.min_density_kg_m3 === null ? null : Number(g.min_density_kg_m3) },
-      ],
-    ),
+    (await db()("grades").select("id", "code", "min_density_kg_m3")).map((g) => [
+      g.code.toLowerCase(),
+      { id: g.id, min: g.min_density_kg_m3 },
+    ]),
   );
   const suppliers = new Map<string, number>(
     (await db()("suppliers").select("id", "name")).map((s: { id: number; name: string }) => [
@@ -190,7 +188,7 @@ export async function importDeliveries(
     const [imp] = await trx("csv_imports")
       .insert({ kind: "deliveries", file_name: fileName, rows: rows.length, imported_by: actorId })
       .returning("id");
-    for (const g of groups.values()) await receiveDelivery(trx, g, actorId, `import:${imp.id}`);
+    for (const g of groups.values()) await receiveDelivery(trx, g, actorId, `import:${imp!.id}`);
   });
   return report(true, rows.length, problems, warnings, summary);
 }
@@ -258,7 +256,7 @@ export async function importStockCount(
     const [imp] = await trx("csv_imports")
       .insert({ kind: "stock_count", file_name: fileName, rows: rows.length, imported_by: actorId })
       .returning("id");
-    await applyCount(trx, changes, `count:${imp.id}`, actorId);
+    await applyCount(trx, changes, `count:${imp!.id}`, actorId);
   });
   return report(true, rows.length, problems, warnings, summary);
 }

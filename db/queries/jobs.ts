@@ -45,14 +45,14 @@ interface JobRow {
   id: number;
   name: string;
   customer: string | null;
-  due_on: Date | string | null;
+  due_on: string | null;
   status: JobStatus;
   notes: string | null;
   created_at: Date;
   created_by: string | null;
-  line_count: string | number;
-  piece_count: string | number | null;
-  part_volume_mm3: string | number | null;
+  line_count: number;
+  piece_count: number | null;
+  part_volume_mm3: number | null;
 }
 
 interface PartRow {
@@ -61,31 +61,22 @@ interface PartRow {
   library_part_id: number | null;
   name: string;
   quantity: number;
-  size_x: string;
-  size_y: string;
-  size_z: string;
+  size_x: number;
+  size_y: number;
+  size_z: number;
   rotate: RotateRule;
   grade_id: number | null;
   grade_code: string | null;
   profile: Profile | null;
-  true_volume_mm3: string | null;
+  true_volume_mm3: number | null;
 }
-
-const pad = (n: number) => String(n).padStart(2, "0");
-// A DATE column comes back as local midnight: read it back as the calendar day it was.
-const day = (v: Date | string | null) =>
-  v === null
-    ? null
-    : typeof v === "string"
-      ? v.slice(0, 10)
-      : `${v.getFullYear()}-${pad(v.getMonth() + 1)}-${pad(v.getDate())}`;
 
 function toJob(r: JobRow): Job {
   return {
     id: r.id,
     name: r.name,
     customer: r.customer,
-    dueOn: day(r.due_on),
+    dueOn: r.due_on, // DATE: its 'YYYY-MM-DD' text (db/types.ts)
     status: r.status,
     notes: r.notes,
     createdAt: new Date(r.created_at).toISOString(),
@@ -139,7 +130,7 @@ function applyFilters(q: Knex.QueryBuilder, f: JobQuery) {
  */
 export async function listJobs(f: JobQuery): Promise<{ items: Job[]; total: number; page: number; pageSize: number }> {
   const k = db();
-  const [count] = await applyFilters(k("jobs as j"), f).count<{ n: string }[]>({ n: "*" });
+  const [count] = await applyFilters(k("jobs as j"), f).count<{ n: number }[]>({ n: "*" });
   const rows = await applyFilters(selectJobs(k), f)
     .orderByRaw("j.due_on ASC NULLS LAST, j.id ASC")
     .limit(f.pageSize)
@@ -220,8 +211,13 @@ export async function createJob(input: JobInput, actorId: string): Promise<Job> 
         created_by: actorId,
       })
       .returning("id");
-    await trx("audit_log").insert({ actor_id: actorId, action: "job.create", subject: `job:${row.id}`, detail: input });
-    return (await getJob(row.id, trx))!;
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "job.create",
+      subject: `job:${row!.id}`,
+      detail: input,
+    });
+    return (await getJob(row!.id, trx))!;
   });
 }
 
@@ -286,9 +282,53 @@ export async function addJobPart(jobId: number, input: PartInput, actorId: strin
       actor_id: actorId,
       action: "job_part.add",
       subject: `job:${jobId}`,
-      detail: { partId: row.id, ...input },
+      detail: { partId: row!.id, ...input },
     });
-    return (await listJobParts([jobId], trx)).find((p) => p.id === row.id)!;
+    return (await listJobParts([jobId], trx)).find((p) => p.id === row!.id)!;
+  });
+}
+
+/**
+ * Adds several parts entered at once (the profiles of one drawing, the letters of a word): every
+ * part's box and volume from its profile, all added or none (a bad one is named by its index).
+ *
+ *   addJobParts(3, [{ name: "Letter O", quantity: 2, profile, rotate: "any" }, …], actorId)
+ */
+export async function addJobParts(jobId: number, inputs: PartInput[], actorId: string): Promise<JobPart[]> {
+  const fields: Record<string, string> = {};
+  const geometries = inputs.map((input, i) => {
+    try {
+      return resolveGeometry(input);
+    } catch (e) {
+      if (!(e instanceof HttpError) || !e.fields) throw e;
+      for (const [k, v] of Object.entries(e.fields)) fields[`parts.${i}.${k}`] ??= v;
+      return null;
+    }
+  });
+  if (Object.keys(fields).length) throw new HttpError(400, "Some fields need attention.", fields);
+  const grades = new Map<number, number>();
+  inputs.forEach((p, i) => {
+    if (p.gradeId != null && !grades.has(p.gradeId)) grades.set(p.gradeId, i);
+  });
+  for (const [gradeId, i] of grades) await assertGrade(gradeId, `parts.${i}.gradeId`);
+  return db().transaction(async (trx) => {
+    await openJob(trx, jobId);
+    const rows: { id: number }[] = await trx("job_parts")
+      .insert(
+        inputs.map((input, i) =>
+          partRow(jobId, { ...input, gradeId: input.gradeId ?? null, profile: input.profile ?? null }, geometries[i]!),
+        ),
+      )
+      .returning("id");
+    const ids = rows.map((r) => r.id);
+    await trx("audit_log").insert({
+      actor_id: actorId,
+      action: "job_part.add",
+      subject: `job:${jobId}`,
+      detail: { partIds: ids, names: inputs.map((p) => p.name) },
+    });
+    const byId = new Map((await listJobParts([jobId], trx)).map((p) => [p.id, p]));
+    return ids.map((id) => byId.get(id)!);
   });
 }
 
@@ -319,13 +359,13 @@ export async function addLibraryParts(
       const l = lib.get(it.libraryPartId)! as {
         id: number;
         name: string;
-        size_x: string;
-        size_y: string;
-        size_z: string;
+        size_x: number;
+        size_y: number;
+        size_z: number;
         grade_id: number | null;
         rotate: RotateRule;
         profile: Profile | null;
-        true_volume_mm3: string | null;
+        true_volume_mm3: number | null;
       };
       return partRow(
         jobId,
@@ -561,7 +601,7 @@ export async function importJobParts(
       actor_id: actorId,
       action: "job_parts.import",
       subject: `job:${jobId}`,
-      detail: { import: imp.id, rows: parts.length, fileName },
+      detail: { import: imp!.id, rows: parts.length, fileName },
     });
   });
   return done(true, summary);

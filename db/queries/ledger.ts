@@ -63,14 +63,14 @@ export interface LedgerEntry {
 }
 
 interface Row {
-  id: string;
+  id: number;
   block_id: number;
   code: string;
   kind: LedgerKind;
-  volume_m3: string;
-  delta_m3: string;
-  value: string;
-  delta_value: string;
+  volume_m3: number;
+  delta_m3: number;
+  value: number;
+  delta_value: number;
   user_name: string | null;
   at: Date;
   reason: string | null;
@@ -127,7 +127,7 @@ export async function listLedger(
   const [rows, count] = await Promise.all([
     listLedgerEntries({ ...q, pageSize: pageSize + 1 }),
     ledgerBase({ ...q, before: undefined })
-      .count<{ n: string }[]>({ n: "*" })
+      .count<{ n: number }[]>({ n: "*" })
       .first(),
   ]);
   const items = rows.slice(0, pageSize);

@@ -13,14 +13,14 @@ interface Row {
   id: number;
   kit: string | null;
   name: string;
-  size_x: string;
-  size_y: string;
-  size_z: string;
+  size_x: number;
+  size_y: number;
+  size_z: number;
   grade_id: number | null;
   grade_code: string | null;
   rotate: RotateRule;
   profile: Profile | null;
-  true_volume_mm3: string | null;
+  true_volume_mm3: number | null;
   default_quantity: number;
   notes: string | null;
   active: boolean;
@@ -92,10 +92,69 @@ export async function createLibraryPart(input: LibraryPartInput, actorId: string
     await trx("audit_log").insert({
       actor_id: actorId,
       action: "library_part.create",
-      subject: `library_part:${row.id}`,
+      subject: `library_part:${row!.id}`,
       detail: input,
     });
-    return toPart(await select(trx).where("l.id", row.id).first());
+    return toPart(await select(trx).where("l.id", row!.id).first());
+  });
+}
+
+const profileSummary = (p: Profile | null) =>
+  p?.kind === "polygon" ? { kind: p.kind, source: p.source, points: p.points.length, holes: p.holes?.length ?? 0 } : p;
+
+/**
+ * Adds several library parts at once (the profiles of one drawing, the letters of a word): all or
+ * none, a bad one named by its index.
+ */
+export async function createLibraryParts(inputs: LibraryPartInput[], actorId: string): Promise<LibraryPart[]> {
+  const fields: Record<string, string> = {};
+  const geometries = inputs.map((input, i) => {
+    try {
+      return resolveGeometry(input);
+    } catch (e) {
+      if (!(e instanceof HttpError) || !e.fields) throw e;
+      for (const [k, v] of Object.entries(e.fields)) fields[`parts.${i}.${k}`] ??= v;
+      return null;
+    }
+  });
+  if (Object.keys(fields).length) throw new HttpError(400, "Some fields need attention.", fields);
+  const grades = new Map<number, number>();
+  inputs.forEach((p, i) => {
+    if (p.gradeId != null && !grades.has(p.gradeId)) grades.set(p.gradeId, i);
+  });
+  for (const [gradeId, i] of grades) await assertGrade(gradeId, `parts.${i}.gradeId`);
+  return db().transaction(async (trx) => {
+    const rows: { id: number }[] = await trx("library_parts")
+      .insert(
+        inputs.map((input, i) => ({
+          kit: input.kit,
+          name: input.name,
+          size_x: geometries[i]!.size[0],
+          size_y: geometries[i]!.size[1],
+          size_z: geometries[i]!.size[2],
+          grade_id: input.gradeId ?? null,
+          rotate: input.rotate,
+          profile: input.profile ? JSON.stringify(input.profile) : null,
+          true_volume_mm3: geometries[i]!.trueVolumeMm3,
+          default_quantity: input.defaultQuantity,
+          notes: input.notes,
+          active: input.active ?? true,
+        })),
+      )
+      .returning("id");
+    const ids = rows.map((r) => r.id);
+    await trx("audit_log").insert(
+      ids.map((id, i) => ({
+        actor_id: actorId,
+        action: "library_part.create",
+        subject: `library_part:${id}`,
+        // The outline itself is on the part; the log keeps what it was and where it came from.
+        detail: { ...inputs[i]!, profile: profileSummary(inputs[i]!.profile ?? null) },
+      })),
+    );
+    const made = await select(trx).whereIn("l.id", ids);
+    const byId = new Map(made.map((r: Row) => [r.id, toPart(r)]));
+    return ids.map((id) => byId.get(id)!);
   });
 }
 

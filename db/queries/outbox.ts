@@ -49,7 +49,7 @@ export async function listOutbox(
       ])
       .limit(pageSize)
       .offset(((opts.page ?? 1) - 1) * pageSize),
-    k("mail_outbox").count<{ n: string }[]>({ n: "*" }).first(),
+    k("mail_outbox").count<{ n: number }[]>({ n: "*" }).first(),
   ]);
   return {
     items: rows.map((r: Record<string, unknown>) => ({

@@ -26,7 +26,7 @@ interface PoRow {
   supplier_name: string;
   supplier_email: string | null;
   status: PoStatus;
-  expected_on: Date | string | null;
+  expected_on: string | null;
   notes: string | null;
   created_by_name: string | null;
   created_at: Date;
@@ -41,20 +41,18 @@ interface LineRow {
   grade_code: string;
   grade_system: string;
   grade: string;
-  size_x: string;
-  size_y: string;
-  size_z: string;
+  size_x: number;
+  size_y: number;
+  size_z: number;
   quantity: number;
-  price: string;
+  price: number;
   price_unit: PriceUnit;
-  volume_m3: string;
+  volume_m3: number;
   note: string | null;
   got_blocks: string | null;
-  got_m3: string | null;
+  got_m3: number | null;
   over: boolean | null;
 }
-
-const day = (v: Date | string | null) => (v === null ? null : typeof v === "string" ? v.slice(0, 10) : isoDate(v));
 
 function toOrder(r: PoRow, lines: LineRow[]): PurchaseOrder {
   const ls: PoLine[] = lines.map((l) => {
@@ -83,7 +81,7 @@ function toOrder(r: PoRow, lines: LineRow[]): PurchaseOrder {
     supplier: r.supplier_name,
     supplierEmail: r.supplier_email,
     status: r.status,
-    expectedOn: day(r.expected_on),
+    expectedOn: r.expected_on, // DATE: its 'YYYY-MM-DD' text (db/types.ts)
     notes: r.notes,
     createdBy: r.created_by_name,
     createdAt: r.created_at.toISOString(),
@@ -152,7 +150,7 @@ export async function listPurchaseOrders(
       ])
       .limit(pageSize)
       .offset(((opts.page ?? 1) - 1) * pageSize),
-    filter(k("purchase_orders as p")).count<{ n: string }[]>({ n: "*" }).first(),
+    filter(k("purchase_orders as p")).count<{ n: number }[]>({ n: "*" }).first(),
   ]);
   const lines = await linesFor(
     k,
@@ -261,14 +259,14 @@ async function insertOrder(
       created_by: actorId,
     })
     .returning("id");
-  await trx("purchase_order_lines").insert(lineRows(po.id, input, units));
+  await trx("purchase_order_lines").insert(lineRows(po!.id, input, units));
   await trx("audit_log").insert({
     actor_id: actorId,
     action: "po.create",
-    subject: `po:${po.id}`,
+    subject: `po:${po!.id}`,
     detail: { number, how, ...input },
   });
-  return po.id as number;
+  return po!.id;
 }
 
 /** A draft order written by hand. */
@@ -539,10 +537,10 @@ export async function listOrderDeliveries(
       "d.lot",
       k.raw("count(b.id) AS n"),
       k.raw("coalesce(sum(b.volume_m3), 0) AS v"),
-    )) as { id: number; received_on: Date | string; lot: string; n: string; v: string }[];
+    )) as { id: number; received_on: string; lot: string; n: number; v: number }[];
   return rows.map((r) => ({
     id: r.id,
-    receivedOn: day(r.received_on)!,
+    receivedOn: r.received_on,
     lot: r.lot,
     blocks: Number(r.n),
     volumeM3: Number(r.v),

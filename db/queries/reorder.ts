@@ -1,6 +1,7 @@
 import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
+import type { GradeReorderRow } from "@/db/tables";
 import { HttpError } from "@/lib/errors";
 import {
   DEFAULT_WORKING_DAYS,
@@ -177,15 +178,7 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
 
   const gradesQ = k("grades").where({ active: true }).orderBy(["material", "code"]);
   if (opts.gradeIds) gradesQ.whereIn("id", opts.gradeIds);
-  const grades = (await gradesQ) as {
-    id: number;
-    code: string;
-    grade_system: string;
-    grade: string;
-    colour: string;
-    price_unit: "m3" | "bf";
-    never_hot_wire: boolean;
-  }[];
+  const grades = await gradesQ;
   if (!grades.length) return [];
   const ids = grades.map((g) => g.id);
 
@@ -196,7 +189,7 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
         .whereIn("grade_id", ids)
         .whereIn("status", ["in_stock", "earmarked"])
         .groupBy("grade_id")
-        .select("grade_id", k.raw("sum(volume_m3) AS m3")),
+        .select<{ grade_id: number; m3: number }[]>("grade_id", k.raw("sum(volume_m3) AS m3")),
       k("purchase_order_lines as l")
         .join("purchase_orders as p", "p.id", "l.purchase_order_id")
         .leftJoin(
@@ -264,19 +257,19 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
     ]);
 
   const by = <T extends { grade_id: number }>(rows: T[]) => new Map(rows.map((r) => [r.grade_id, r]));
-  const ov = by(overrides as { grade_id: number; [k: string]: unknown }[]);
-  const hand = by(onHand as { grade_id: number; m3: string }[]);
-  const order = by(onOrder as { grade_id: number; m3: string }[]);
-  const draft = by(inDraft as { grade_id: number; m3: string }[]);
+  const ov = by(overrides);
+  const hand = by(onHand);
+  const order = by(onOrder as { grade_id: number; m3: number }[]);
+  const draft = by(inDraft as { grade_id: number; m3: number }[]);
   const usualSupplier = by(usual as { grade_id: number; supplier_id: number }[]);
   const last = by(
     lastBlocks as {
       grade_id: number;
-      nominal_x: string;
-      nominal_y: string;
-      nominal_z: string;
-      cost: string;
-      volume_m3: string;
+      nominal_x: number;
+      nominal_y: number;
+      nominal_z: number;
+      cost: number;
+      volume_m3: number;
     }[],
   );
   const supplierById = new Map(
@@ -286,7 +279,7 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
         name: string;
         email: string | null;
         lead_time_days: number;
-        lead_time_sd_days: number | string;
+        lead_time_sd_days: number;
       }[]
     ).map((s) => [s.id, s]),
   );
@@ -300,9 +293,9 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
   const shopKerf = kerfs.shop;
 
   return grades.map((g) => {
-    const o: Record<string, unknown> = ov.get(g.id) ?? {};
+    const o: Partial<GradeReorderRow> = ov.get(g.id) ?? {};
     const byDate = new Map<string, number>();
-    for (const u of usage as { grade_id: number; day: string; m3: string }[])
+    for (const u of usage as { grade_id: number; day: string; m3: number }[])
       if (u.grade_id === g.id) byDate.set(u.day, Math.max(0, Number(u.m3)));
     const series = workingDaySeries(byDate, since, today, cal);
     const stats = dailyStats(series);
@@ -439,9 +432,9 @@ async function openJobParts(k: Knex, gradeIds: number[]): Promise<OpenPart[]> {
     job_id: number;
     grade_id: number;
     due_on: string | null;
-    size_x: string;
-    size_y: string;
-    size_z: string;
+    size_x: number;
+    size_y: number;
+    size_z: number;
     owed: string | number;
   }[];
   return rows.map((r) => ({

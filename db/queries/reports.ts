@@ -94,9 +94,9 @@ export async function yieldReport(p: Period): Promise<YieldReport> {
     grade_id: number;
     volume_basis: string | null;
     week: string;
-    part: string;
-    issued: string;
-    offcut: string;
+    part: number;
+    issued: number;
+    offcut: number;
   }[];
 
   const group = <K extends string>(
@@ -157,7 +157,7 @@ export async function yieldReport(p: Period): Promise<YieldReport> {
         job_name: string;
         customer: string | null;
         pb_id: number;
-        part_volume_m3: string;
+        part_volume_m3: number;
         volume_basis: string;
       }[])
     : [];
@@ -272,8 +272,8 @@ export async function offcutReport(p: Period, today = isoDate()): Promise<Offcut
     .whereIn("status", ["in_stock", "earmarked"])
     .select(k.raw("(?::date - created_at::date) AS age", [today]), "volume_m3", "cost")) as {
     age: number;
-    volume_m3: string;
-    cost: string;
+    volume_m3: number;
+    cost: number;
   }[];
   const byAge = AGE_BUCKETS.map((b, i) => {
     const lo = i === 0 ? -Infinity : AGE_BUCKETS[i - 1]!.max;
@@ -292,8 +292,8 @@ export async function offcutReport(p: Period, today = isoDate()): Promise<Offcut
     .groupBy("status")
     .select("status", k.raw("count(*) AS n"), k.raw("sum(volume_m3) AS m3"))) as {
     status: string;
-    n: string;
-    m3: string;
+    n: number;
+    m3: number;
   }[];
   const get = (...s: string[]) =>
     made
@@ -375,12 +375,12 @@ export async function supplierQualityReport(p: Period): Promise<{
     supplier_id: number;
     name: string;
     lot?: string;
-    blocks: string;
-    m3: string;
-    defects: string;
-    weighed: string;
-    low: string;
-    held: string;
+    blocks: number;
+    m3: number;
+    defects: number;
+    weighed: number;
+    low: number;
+    held: number;
   };
   const toRow = (r: Raw): SupplierQualityRow => ({
     supplierId: r.supplier_id,
@@ -436,14 +436,14 @@ export async function supplierQualityReport(p: Period): Promise<{
       {
         supplier_id: number;
         name: string;
-        claims: string;
-        blocks: string;
-        open: string;
-        accepted: string;
-        rejected: string;
-        credited: string;
-        asked: string;
-        received: string;
+        claims: number;
+        blocks: number;
+        open: number;
+        accepted: number;
+        rejected: number;
+        credited: number;
+        asked: number;
+        received: number;
       }[]
     >,
   ]);
@@ -523,9 +523,9 @@ export async function stockValueReport(p: Period): Promise<{
     .havingRaw("abs(sum(l.m3)) > 0.0000001 OR abs(sum(l.value)) > 0.001")) as {
     grade: string;
     location: string;
-    blocks: string;
-    m3: string;
-    value: string;
+    blocks: number;
+    m3: number;
+    value: number;
   }[];
   const toRow = (grade: string, location: string, blocks: number, m3: number, value: number): StockValueRow => ({
     grade,

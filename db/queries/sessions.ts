@@ -60,22 +60,23 @@ export async function deleteExpiredSessions(now = new Date()): Promise<void> {
 
 // ---- sign-in failures (lib/auth/throttle.ts) ----
 
+/** Counts (BIGINT) and ages (NUMERIC, ms) arrive as numbers (db/types.ts); an age is null when there is no failure. */
 export interface FailureCounts {
-  pair_n: string | null;
-  pair_age_ms: string | null;
-  client_n: string | null;
-  client_age_ms: string | null;
-  account_n: string | null;
-  account_age_ms: string | null;
+  pair_n: number;
+  pair_age_ms: number | null;
+  client_n: number;
+  client_age_ms: number | null;
+  account_n: number;
+  account_age_ms: number | null;
 }
 
 /** Records one attempt (a failure until forgotten); its id. */
-export async function recordAttempt(account: string, client: string): Promise<string | number> {
+export async function recordAttempt(account: string, client: string): Promise<number> {
   const [row] = await db()("sign_in_failures").insert({ account, client }).returning("id");
-  return (row as { id: string | number }).id;
+  return row!.id;
 }
 
-export async function forgetAttempt(id: string | number): Promise<void> {
+export async function forgetAttempt(id: number): Promise<void> {
   await db()("sign_in_failures").where({ id }).delete();
 }
 
@@ -83,7 +84,7 @@ export async function forgetAttempt(id: string | number): Promise<void> {
 export async function failureCounts(
   account: string,
   client: string,
-  own: string | number,
+  own: number,
   windowSecs: number,
 ): Promise<FailureCounts> {
   const { rows } = await db().raw(
@@ -103,6 +104,6 @@ export async function failureCounts(
 }
 
 /** A right password clears the pair's failures and the attempt itself. */
-export async function clearFailures(account: string, client: string, own: string | number): Promise<void> {
+export async function clearFailures(account: string, client: string, own: number): Promise<void> {
   await db()("sign_in_failures").where({ account, client }).orWhere({ id: own }).delete();
 }

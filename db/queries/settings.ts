@@ -3,20 +3,6 @@ import { cache } from "react";
 import { db } from "@/db";
 import type { ShopSettings } from "@/lib/validations/settings";
 
-interface Row {
-  shop_name: string;
-  display_units: "mm" | "in";
-  kerf_mm: string;
-  trim_mm: string;
-  defect_margin_mm: string;
-  min_offcut_x_mm: string;
-  min_offcut_y_mm: string;
-  min_offcut_z_mm: string;
-  layout: "guillotine" | "layers" | "free";
-  feed_mm_per_min: string;
-  nesting_time_limit_ms: number;
-}
-
 export const FALLBACK_SETTINGS: ShopSettings = {
   shopName: "Blockyard",
   displayUnits: "mm",
@@ -31,7 +17,7 @@ export const FALLBACK_SETTINGS: ShopSettings = {
 
 /** The shop's settings, read once per page render (layout and page share it; React cache). */
 export const getShopSettings = cache(async function getShopSettings(): Promise<ShopSettings> {
-  const r = await db()("shop_settings").where({ id: 1 }).first<Row | undefined>();
+  const r = await db()("shop_settings").where({ id: 1 }).first();
   if (!r) return FALLBACK_SETTINGS;
   return {
     shopName: r.shop_name,

@@ -1,6 +1,7 @@
 import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
+import type { BlocksInsert } from "@/db/tables";
 import { appendLedger } from "./ledger";
 import { describeCharacter } from "@/lib/block-code";
 import { HttpError } from "@/lib/errors";
@@ -44,11 +45,11 @@ interface BlockRow {
   code: string;
   status: string;
   location: string;
-  size_x: string;
-  size_y: string;
-  size_z: string;
-  volume_m3: string;
-  cost: string;
+  size_x: number;
+  size_y: number;
+  size_z: number;
+  volume_m3: number;
+  cost: number;
   grade_code: string;
 }
 
@@ -142,7 +143,7 @@ export async function applyCount(
       writtenOff.push(b.code);
       continue;
     }
-    const patch: Record<string, unknown> = {};
+    const patch: Partial<BlocksInsert> = {};
     if (ch.location !== b.location) {
       patch.location = ch.location;
       moved.push({ code: b.code, from: b.location, to: ch.location });
@@ -157,7 +158,7 @@ export async function applyCount(
       .where({ id: b.id })
       .update({ ...patch, updated_at: trx.fn.now() })
       .returning("volume_m3");
-    const delta = Number(after.volume_m3) - b.volume;
+    const delta = Number(after!.volume_m3) - b.volume;
     if (Math.abs(delta) > 0) {
       await appendLedger(trx, [
         {
@@ -348,7 +349,7 @@ export async function reconcileScanCount(
         imported_by: actorId,
       })
       .returning("id");
-    const ref = `count:${row.id}`;
+    const ref = `count:${row!.id}`;
     const changes: CountChange[] = [
       ...input.counted.map((c, i) => ({
         block: blocks.get(codes[i]!)!,

@@ -1,5 +1,6 @@
 import "server-only";
 import { db } from "@/db";
+import type { SuppliersInsert, SuppliersRow } from "@/db/tables";
 import type { SupplierInput } from "@/lib/validations/stock";
 import { HttpError } from "@/lib/errors";
 
@@ -17,31 +18,19 @@ export interface Supplier {
   active: boolean;
 }
 
-interface Row {
-  id: number;
-  name: string;
-  contact: string | null;
-  email: string | null;
-  phone: string | null;
-  lead_time_days: number;
-  lead_time_sd_days: number | string;
-  notes: string | null;
-  active: boolean;
-}
-
-const toSupplier = (r: Row): Supplier => ({
+const toSupplier = (r: SuppliersRow): Supplier => ({
   id: r.id,
   name: r.name,
   contact: r.contact,
   email: r.email,
   phone: r.phone,
   leadTimeDays: r.lead_time_days,
-  leadTimeSdDays: Number(r.lead_time_sd_days ?? 0),
+  leadTimeSdDays: r.lead_time_sd_days,
   notes: r.notes,
   active: r.active,
 });
 
-const toRow = (s: SupplierInput) => ({
+const toRow = (s: SupplierInput): SuppliersInsert => ({
   name: s.name,
   contact: s.contact ?? null,
   email: s.email ?? null,
@@ -75,10 +64,10 @@ export async function createSupplier(s: SupplierInput, actorId: string): Promise
     await trx("audit_log").insert({
       actor_id: actorId,
       action: "supplier.create",
-      subject: `supplier:${row.id}`,
+      subject: `supplier:${row!.id}`,
       detail: s,
     });
-    return toSupplier(row);
+    return toSupplier(row!);
   });
 }
 

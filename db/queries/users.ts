@@ -142,6 +142,6 @@ export async function countActiveAdmins(exceptId?: string): Promise<number> {
     .join("user_roles as r", "r.user_id", "u.id")
     .where({ "u.active": true, "r.role": "admin" });
   if (exceptId) q.whereNot("u.id", exceptId);
-  const row = await q.countDistinct<{ n: string }[]>({ n: "u.id" }).first();
+  const row = await q.countDistinct<{ n: number }[]>({ n: "u.id" }).first();
   return Number(row?.n ?? 0);
 }

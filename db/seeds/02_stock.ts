@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import type { StockLedgerInsert } from "../tables";
 
 /**
  * Demo stock for Hollowfield Foamworks (invented): grades, three invented suppliers, about 60
@@ -164,7 +165,7 @@ export async function seed(knex: Knex): Promise<void> {
   // Twelve deliveries over the last ~95 days, newest ones still settling.
   const offsets = [-95, -88, -80, -71, -63, -55, -47, -38, -29, -20, -9, -3];
   let blockNo = 1001;
-  const ledger: Record<string, unknown>[] = [];
+  const ledger: StockLedgerInsert[] = [];
 
   for (const [i, off] of offsets.entries()) {
     const supplier = suppliers[i % suppliers.length]!;
@@ -182,6 +183,7 @@ export async function seed(knex: Knex): Promise<void> {
         created_at: receivedOn,
       })
       .returning("id");
+    if (!delivery) throw new Error("The delivery was not saved.");
     const count = grade.material === "PU" ? 2 : 4 + Math.floor(r() * 3);
     for (let j = 0; j < count; j++) {
       const size =
@@ -226,6 +228,7 @@ export async function seed(knex: Knex): Promise<void> {
           ...(cutAt ? { updated_at: cutAt } : {}),
         })
         .returning(["id", "volume_m3"]);
+      if (!block || block.volume_m3 === null) throw new Error(`Block ${code} was not saved.`);
       ledger.push({
         block_id: block.id,
         kind: "received",
@@ -244,7 +247,7 @@ export async function seed(knex: Knex): Promise<void> {
           block_id: block.id,
           kind: "scrapped",
           volume_m3: block.volume_m3,
-          delta_m3: `-${block.volume_m3}`,
+          delta_m3: -block.volume_m3,
           value: cost,
           delta_value: -cost,
           user_id: users.buyer,
@@ -264,12 +267,12 @@ export async function seed(knex: Knex): Promise<void> {
         await knex("defect_zones").insert({
           block_id: block.id,
           kind: pick(KINDS),
-          min_x: x.toFixed(0),
-          min_y: y.toFixed(0),
-          min_z: z.toFixed(0),
-          max_x: Math.min(measured[0], x + w).toFixed(0),
-          max_y: Math.min(measured[1], y + h).toFixed(0),
-          max_z: Math.min(measured[2], z + d).toFixed(0),
+          min_x: Number(x.toFixed(0)),
+          min_y: Number(y.toFixed(0)),
+          min_z: Number(z.toFixed(0)),
+          max_x: Number(Math.min(measured[0], x + w).toFixed(0)),
+          max_y: Number(Math.min(measured[1], y + h).toFixed(0)),
+          max_z: Number(Math.min(measured[2], z + d).toFixed(0)),
           found_by: users.cutter,
           found_at: day(off + 2),
           note: "Seen on the end face after squaring.",

@@ -70,7 +70,7 @@ export async function seed(knex: Knex): Promise<void> {
   }
   try {
     // The stock seed emptied defect_photos: whatever is still in the bucket belongs to nobody.
-    const left = await knex("defect_photos").count<{ n: string }[]>({ n: "*" }).first();
+    const left = await knex("defect_photos").count<{ n: number }[]>({ n: "*" }).first();
     if (Number(left?.n ?? 0) === 0) await deleteObjects(await listKeys("defects/"));
 
     const zones = (await knex("defect_zones as z")

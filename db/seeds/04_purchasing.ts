@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import type { PurchaseOrdersRow } from "../tables";
 import path from "node:path";
 import { deliver } from "../../lib/mail/transport";
 import { lowStockMail, purchaseOrderMail } from "../../lib/mail/messages";
@@ -44,17 +45,13 @@ export async function seed(knex: Knex): Promise<void> {
   });
 
   const grades = new Map<string, { id: number; unit: "m3" | "bf"; label: string }>(
-    (await knex("grades").select("id", "code", "price_unit", "grade_system", "grade")).map(
-      (g: { id: number; code: string; price_unit: "m3" | "bf"; grade_system: string; grade: string }) => [
-        g.code,
-        { id: g.id, unit: g.price_unit, label: `${g.grade_system} ${g.grade}` },
-      ],
-    ),
+    (await knex("grades").select("id", "code", "price_unit", "grade_system", "grade")).map((g) => [
+      g.code,
+      { id: g.id, unit: g.price_unit, label: `${g.grade_system} ${g.grade}` },
+    ]),
   );
   const suppliers = new Map<string, { id: number; email: string | null }>(
-    (await knex("suppliers").select("id", "name", "email")).map(
-      (s: { id: number; name: string; email: string | null }) => [s.name, { id: s.id, email: s.email }],
-    ),
+    (await knex("suppliers").select("id", "name", "email")).map((s) => [s.name, { id: s.id, email: s.email }]),
   );
   const ash = suppliers.get("Ashcombe Bead & Block")!;
   const north = suppliers.get("Northgate Moulders")!;
@@ -85,7 +82,7 @@ export async function seed(knex: Knex): Promise<void> {
   let seq = 0;
   const order = async (o: {
     supplierId: number;
-    status: string;
+    status: PurchaseOrdersRow["status"];
     created: number;
     expected: number | null;
     sent?: number;
@@ -110,6 +107,7 @@ export async function seed(knex: Knex): Promise<void> {
         cancel_reason: o.cancel ?? null,
       })
       .returning(["id", "number"]);
+    if (!po) throw new Error(`Order ${number} was not saved.`);
     const lines = await knex("purchase_order_lines")
       .insert(
         o.lines.map((l) => ({
@@ -132,19 +130,7 @@ export async function seed(knex: Knex): Promise<void> {
       detail: { number, seeded: true },
       at: day(o.created),
     });
-    return {
-      id: po.id as number,
-      number: po.number as string,
-      lines: lines as {
-        id: number;
-        grade_id: number;
-        size_x: string;
-        size_y: string;
-        size_z: string;
-        quantity: number;
-        volume_m3: string;
-      }[],
-    };
+    return { id: po.id, number: po.number, lines };
   };
 
   // The orders behind the two newest EPS deliveries of the stock seed: one filled and closed,
@@ -160,7 +146,7 @@ export async function seed(knex: Knex): Promise<void> {
     id: number;
     supplier_id: number;
     po_ref: string | null;
-    received_on: string | Date; // text where db/types.ts parses DATE, a Date elsewhere
+    received_on: string; // DATE as its text (db/types.ts)
     created_at: Date;
   }[];
   for (const [i, d] of recent.reverse().entries()) {
@@ -170,11 +156,11 @@ export async function seed(knex: Knex): Promise<void> {
       .whereNull("b.parent_id")
       .select("g.code", "b.nominal_x", "b.nominal_y", "b.nominal_z", "b.volume_m3", "b.cost")) as {
       code: string;
-      nominal_x: string;
-      nominal_y: string;
-      nominal_z: string;
-      volume_m3: string;
-      cost: string;
+      nominal_x: number;
+      nominal_y: number;
+      nominal_z: number;
+      volume_m3: number;
+      cost: number;
     }[];
     const groups = new Map<
       string,
@@ -195,7 +181,7 @@ export async function seed(knex: Knex): Promise<void> {
       groups.set(key, g);
     }
     const open = i === 1; // the newest stays partly received
-    const received = typeof d.received_on === "string" ? d.received_on : iso(d.received_on);
+    const received = d.received_on;
     const created = Math.round((new Date(`${received}T12:00:00`).getTime() - Date.now()) / 86400_000) - 16;
     const po = await order({
       supplierId: d.supplier_id,
@@ -283,13 +269,13 @@ export async function seed(knex: Knex): Promise<void> {
       id: number;
       grade_id: number;
       code: string;
-      size_x: string;
-      size_y: string;
-      size_z: string;
+      size_x: number;
+      size_y: number;
+      size_z: number;
       quantity: number;
-      price: string;
+      price: number;
       price_unit: "m3" | "bf";
-      volume_m3: string;
+      volume_m3: number;
     }) => ({
       id: l.id,
       gradeId: l.grade_id,

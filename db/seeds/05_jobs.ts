@@ -188,7 +188,7 @@ export async function seed(knex: Knex): Promise<void> {
         notes: p.notes ?? null,
       })
       .returning("id");
-    libIds.set(p.name, l.id);
+    libIds.set(p.name, l!.id);
   }
 
   const job = async (
@@ -201,6 +201,7 @@ export async function seed(knex: Knex): Promise<void> {
     const [j] = await knex("jobs")
       .insert({ name, customer, due_on: day(due), status: "open", notes, created_by: "u-planner" })
       .returning("id");
+    if (!j) throw new Error(`Job ${name} was not saved.`);
     await knex("job_parts").insert(
       parts.map((p) => ({
         ...row(p, p.grade ? grades.get(p.grade)! : null),

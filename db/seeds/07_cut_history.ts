@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import type { BlocksInsert, DefectZonesInsert, DefectZonesRow } from "../tables";
 import { nestSync, parseProblem, type Plan, type Problem, type Vec3 } from "../../lib/nesting";
 import { lossBreakdown } from "../../lib/planning/losses";
 import { bestFigures, planFigures } from "../../lib/planning/plan-figures";
@@ -52,20 +53,20 @@ interface CutBlock {
   code: string;
   grade_id: number;
   grade_code: string;
-  lot: string | null;
+  lot: string;
   delivery_id: number | null;
   size: Vec3;
   cost: number;
   volume_m3: number;
-  moulded_on: Date | null;
-  cut_not_before: Date;
+  moulded_on: string | null;
+  cut_not_before: string;
   at: Date;
 }
 
 interface Zone {
   id: number;
   block_id: number;
-  kind: string;
+  kind: DefectZonesRow["kind"];
   min: Vec3;
   max: Vec3;
   found_by: string | null;
@@ -150,13 +151,13 @@ export async function seed(knex: Knex): Promise<void> {
     code: b.code as string,
     grade_id: b.grade_id as number,
     grade_code: b.grade_code as string,
-    lot: b.lot as string | null,
+    lot: b.lot as string,
     delivery_id: b.delivery_id as number | null,
     size: [Number(b.size_x), Number(b.size_y), Number(b.size_z)],
     cost: Number(b.cost),
     volume_m3: Number(b.volume_m3),
-    moulded_on: b.moulded_on as Date | null,
-    cut_not_before: b.cut_not_before as Date,
+    moulded_on: b.moulded_on as string | null,
+    cut_not_before: b.cut_not_before as string,
     at: b.updated_at as Date,
   }));
   if (!cut.length) return;
@@ -178,32 +179,30 @@ export async function seed(knex: Knex): Promise<void> {
   const machine = await knex("machines").where({ kind: "block", active: true }).orderBy("id").first("id");
   const kerfOf = new Map<number, number>(
     machine
-      ? (
-          (await knex("machine_grades").where({ machine_id: machine.id }).select("grade_id", "kerf_mm")) as {
-            grade_id: number;
-            kerf_mm: string;
-          }[]
-        ).map((g) => [g.grade_id, Number(g.kerf_mm)])
+      ? (await knex("machine_grades").where({ machine_id: machine.id }).select("grade_id", "kerf_mm")).map((g) => [
+          g.grade_id,
+          g.kerf_mm,
+        ])
       : [],
   );
   const zones = (
-    (await knex("defect_zones")
+    await knex("defect_zones")
       .whereIn(
         "block_id",
         cut.map((b) => b.id),
       )
       .whereNull("removed_at")
-      .orderBy("id")) as Record<string, unknown>[]
+      .orderBy("id")
   ).map(
     (z): Zone => ({
-      id: z.id as number,
-      block_id: z.block_id as number,
-      kind: z.kind as string,
-      min: [Number(z.min_x), Number(z.min_y), Number(z.min_z)],
-      max: [Number(z.max_x), Number(z.max_y), Number(z.max_z)],
-      found_by: z.found_by as string | null,
-      found_at: z.found_at as Date,
-      note: z.note as string | null,
+      id: z.id,
+      block_id: z.block_id,
+      kind: z.kind,
+      min: [z.min_x, z.min_y, z.min_z],
+      max: [z.max_x, z.max_y, z.max_z],
+      found_by: z.found_by,
+      found_at: z.found_at,
+      note: z.note,
     }),
   );
 
@@ -228,9 +227,10 @@ export async function seed(knex: Knex): Promise<void> {
         created_at: new Date(first - 4 * DAY),
       })
       .returning("id");
+    if (!job) throw new Error(`The job of ${month} was not saved.`);
     const chosen = [PARTS[n % PARTS.length]!, PARTS[(n + 2) % PARTS.length]!];
     // Any hot-wireable grade will do for these parts: the month's blocks are of several grades.
-    const rows = (await knex("job_parts")
+    const rows = await knex("job_parts")
       .insert(
         chosen.map((p) => ({
           job_id: job.id,
@@ -244,12 +244,12 @@ export async function seed(knex: Knex): Promise<void> {
           true_volume_mm3: p.profiled ? Math.round(p.size[0] * p.size[1] * p.size[2] * (0.62 + r() * 0.2)) : null,
         })),
       )
-      .returning(["id", "name", "size_x", "size_y", "size_z", "true_volume_mm3"])) as Record<string, string | number>[];
+      .returning(["id", "name", "size_x", "size_y", "size_z", "true_volume_mm3"]);
     const parts: JobPart[] = rows.map((p) => ({
-      id: p.id as number,
-      name: p.name as string,
-      size: [Number(p.size_x), Number(p.size_y), Number(p.size_z)],
-      trueVolumeMm3: p.true_volume_mm3 === null ? null : Number(p.true_volume_mm3),
+      id: p.id,
+      name: p.name,
+      size: [p.size_x, p.size_y, p.size_z],
+      trueVolumeMm3: p.true_volume_mm3,
     }));
     const good = new Map<number, number>();
 
@@ -289,6 +289,7 @@ export async function seed(knex: Knex): Promise<void> {
           approved_at: approved,
         })
         .returning("id");
+      if (!run) throw new Error(`The plan of ${b.code} was not saved.`);
       const ref = `run:${run.id}`;
 
       // Approved: the block earmarked for the plan, the offcut codes fixed.
@@ -345,34 +346,36 @@ export async function seed(knex: Knex): Promise<void> {
         offcuts.map((o) => o.size),
       );
       const children = offcuts.length
-        ? ((await knex("blocks")
+        ? await knex("blocks")
             .insert(
-              offcuts.map((o, i) => ({
-                code: codes[i],
-                grade_id: b.grade_id,
-                lot: b.lot,
-                delivery_id: b.delivery_id,
-                parent_id: b.id,
-                origin_in_parent: knex.raw("?::numeric[]", [`{${o.origin.join(",")}}`]),
-                nominal_x: o.size[0],
-                nominal_y: o.size[1],
-                nominal_z: o.size[2],
-                size_x: o.size[0],
-                size_y: o.size[1],
-                size_z: o.size[2],
-                cost: values[i],
-                location: "Bay C – offcut shelves",
-                moulded_on: b.moulded_on,
-                cut_not_before: b.cut_not_before,
-                status: "in_stock",
-                notes: `Offcut of ${b.code}, plan #${run.id}`,
-                created_at: b.at,
-                updated_at: b.at,
-              })),
+              offcuts.map(
+                (o, i): BlocksInsert => ({
+                  code: codes[i]!,
+                  grade_id: b.grade_id,
+                  lot: b.lot,
+                  delivery_id: b.delivery_id,
+                  parent_id: b.id,
+                  origin_in_parent: knex.raw("?::numeric[]", [`{${o.origin.join(",")}}`]),
+                  nominal_x: o.size[0],
+                  nominal_y: o.size[1],
+                  nominal_z: o.size[2],
+                  size_x: o.size[0],
+                  size_y: o.size[1],
+                  size_z: o.size[2],
+                  cost: values[i]!,
+                  location: "Bay C – offcut shelves",
+                  moulded_on: b.moulded_on,
+                  cut_not_before: b.cut_not_before,
+                  status: "in_stock",
+                  notes: `Offcut of ${b.code}, plan #${run.id}`,
+                  created_at: b.at,
+                  updated_at: b.at,
+                }),
+              ),
             )
-            .returning(["id", "code", "volume_m3"])) as { id: number; code: string; volume_m3: string }[])
+            .returning(["id", "code", "volume_m3"])
         : [];
-      const inherited: Record<string, unknown>[] = [];
+      const inherited: DefectZonesInsert[] = [];
       for (const [i, o] of offcuts.entries()) {
         const child = children.find((c) => c.code === codes[i])!;
         ledger.push(

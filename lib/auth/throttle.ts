@@ -79,7 +79,7 @@ export async function beginAttempt(
   const own = await recordAttempt(account, client);
   const forget = () => forgetAttempt(own);
   const c = await failureCounts(account, client, own, WINDOW_MS / 1000);
-  const n = (v: string | null) => Number(v ?? 0);
+  const n = (v: number | null) => v ?? 0;
 
   const waits = [
     backoffMs(n(c.pair_n), PAIR_FREE, PAIR_BASE_MS) - n(c.pair_age_ms),

@@ -6,6 +6,7 @@
 import type { Vec3 } from "@/lib/nesting";
 import type { Box } from "@/lib/nesting/geometry";
 import type { OkProcedure } from "./procedure";
+import { partIdFromKey } from "./problem";
 
 export interface CutState {
   /** Parts that came off in the steps done: the plan's part key and its box (block frame). */
@@ -80,4 +81,108 @@ export function shareValue(blockValue: number, blockVolumeM3: number, sizes: rea
     const v = (s[0] * s[1] * s[2]) / 1e9;
     return blockVolumeM3 > 0 ? Math.round(((blockValue * v) / blockVolumeM3) * 100) / 100 : 0;
   });
+}
+
+/** A reject as the form or a checked-off step gives it. */
+export interface Reject {
+  jobPartId: number;
+  count: number;
+  reason: string;
+}
+
+/**
+ * How many pieces of each job part a list of plan part keys holds ("jp-7" is job part 7).
+ *
+ *   countParts(["jp-7", "jp-7", "jp-9"])  // → Map { 7 → 2, 9 → 1 }
+ */
+export function countParts(keys: readonly string[]): Map<number, number> {
+  const n = new Map<number, number>();
+  for (const k of keys) n.set(partIdFromKey(k), (n.get(partIdFromKey(k)) ?? 0) + 1);
+  return n;
+}
+
+/**
+ * Rejects checked against what came off a block, in the order given (the steps' rejects, then the
+ * form's): an entry for a part that did not come off, or one taking the rejects of a part past what
+ * came off, is a problem under `<field>.jobPartId` or `<field>.count`; the others add up per part
+ * with their reasons. `placed` (the plan's pieces in the block) tells "not cut from this block"
+ * from "not come off in the steps done".
+ *
+ *   tallyRejects([{ reject: { jobPartId: 7, count: 3, reason: "void" }, field: "rejects.0" }], new Map([[7, 2]]), new Map([[7, 2]]))
+ *   // → { rejects: Map {}, fields: { "rejects.0.count": "Only 2 of that part came off this block." } }
+ */
+export function tallyRejects(
+  entries: readonly { reject: Reject; field: string }[],
+  cameOff: ReadonlyMap<number, number>,
+  placed: ReadonlyMap<number, number>,
+): { rejects: Map<number, { count: number; reasons: string[] }>; fields: Record<string, string> } {
+  const rejects = new Map<number, { count: number; reasons: string[] }>();
+  const fields: Record<string, string> = {};
+  for (const { reject: r, field } of entries) {
+    const came = cameOff.get(r.jobPartId) ?? 0;
+    const already = rejects.get(r.jobPartId)?.count ?? 0;
+    if (!came)
+      fields[`${field}.jobPartId`] = placed.get(r.jobPartId)
+        ? "That part has not come off this block in the steps done."
+        : "That part is not cut from this block.";
+    else if (already + r.count > came) fields[`${field}.count`] = `Only ${came} of that part came off this block.`;
+    else
+      rejects.set(r.jobPartId, {
+        count: already + r.count,
+        reasons: [...(rejects.get(r.jobPartId)?.reasons ?? []), r.reason],
+      });
+  }
+  return { rejects, fields };
+}
+
+/**
+ * The sizes of the rejected pieces: for each part, its first `count` pieces in the order they came
+ * off (they count as rejects in the loss breakdown, not as parts made).
+ *
+ *   rejectedSizes([{ part: "jp-7", box: b1 }, { part: "jp-7", box: b2 }], new Map([[7, { count: 1 }]]))  // → [b1.size]
+ */
+export function rejectedSizes(
+  parts: readonly { part: string; box: Box }[],
+  rejects: ReadonlyMap<number, { count: number }>,
+): Vec3[] {
+  const sizes: Vec3[] = [];
+  const remaining = new Map([...rejects].map(([k, v]) => [k, v.count]));
+  for (const p of parts) {
+    const id = partIdFromKey(p.part);
+    if ((remaining.get(id) ?? 0) > 0) {
+      sizes.push(p.box.size);
+      remaining.set(id, remaining.get(id)! - 1);
+    }
+  }
+  return sizes;
+}
+
+/**
+ * One job part's line of a recording: good = came off less rejected; not cut = placed in the block
+ * but not come off (owed again); its volume on the true volume where the part has a profile, else
+ * on its box ("basis"), m³.
+ *
+ *   partLine({ size: [100, 100, 100], trueVolumeMm3: null }, { placed: 3, came: 2, rejected: 1 })
+ *   // → { good: 1, rejected: 1, notCut: 1, basis: "box", eachM3: 0.001, volumeM3: 0.001 }
+ */
+export function partLine(
+  part: { size: Vec3; trueVolumeMm3: number | null },
+  n: { placed: number; came: number; rejected: number },
+): { good: number; rejected: number; notCut: number; basis: "profile" | "box"; eachM3: number; volumeM3: number } {
+  const good = n.came - n.rejected;
+  const basis = part.trueVolumeMm3 !== null ? "profile" : "box";
+  const eachM3 =
+    part.trueVolumeMm3 !== null ? part.trueVolumeMm3 / 1e9 : (part.size[0] * part.size[1] * part.size[2]) / 1e9;
+  return { good, rejected: n.rejected, notCut: n.placed - n.came, basis, eachM3, volumeM3: eachM3 * good };
+}
+
+/**
+ * The volume basis of a block's recording: "profile" or "box" when all its parts agree, else "mixed"
+ * ("box" with no parts).
+ *
+ *   volumeBasis(["box", "profile"])  // → "mixed"
+ */
+export function volumeBasis(bases: readonly string[]): string {
+  const set = new Set(bases);
+  return set.size > 1 ? "mixed" : ([...set][0] ?? "box");
 }

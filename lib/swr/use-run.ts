@@ -2,20 +2,10 @@
 
 import useSWR from "swr";
 import { fetcher } from "./fetcher";
+import type { RunSummary } from "@/db/queries/runs";
 
-export interface RunLiveData {
-  id: number;
-  status: "queued" | "running" | "done" | "failed" | "cancelled" | "approved" | "closed";
-  progress: number;
-  best: {
-    placedVolume: number;
-    blocksUsed: number;
-    yield: number;
-    unplacedCount: number;
-    lowerBoundBlocks: number;
-  } | null;
-  error: string | null;
-}
+/** What a progress bar reads of a run (the server's RunSummary; a type-only import, erased from the client bundle). */
+export type RunLiveData = Pick<RunSummary, "id" | "status" | "progress" | "best" | "error">;
 
 /** A run, polled twice a second while a worker is on it. */
 export function useRun(id: number, fallback: RunLiveData) {

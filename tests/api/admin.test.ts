@@ -116,7 +116,7 @@ describe("people (admin)", () => {
     await admin.patch(`/api/admin/users/${u.id}`, { name: "Renamed Person" });
     const rows = await testDb()("audit_log").where({ subject: u.id, action: "user.update" });
     expect(rows).toHaveLength(1);
-    expect(rows[0].actor_id).toBe("u-admin");
+    expect(rows[0]!.actor_id).toBe("u-admin");
   });
 });
 

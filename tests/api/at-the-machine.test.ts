@@ -34,7 +34,7 @@ describe("at the machine", () => {
     expect(res.status).toBe(400);
     expect(res.body.fields.confirm).toMatch(/Confirm that the whole block is cut/);
     expect(await tableCounts()).toEqual(before);
-    expect((await testDb()("blocks").where({ id: block.id }).first("status")).status).toBe("earmarked");
+    expect((await testDb()("blocks").where({ id: block.id }).first("status"))!.status).toBe("earmarked");
   });
 
   it("stores checked steps, so another tablet carries on from them", async () => {
@@ -114,7 +114,7 @@ describe("at the machine", () => {
       .insert({ name: `Kerf job ${Date.now()}` })
       .returning("id");
     await testDb()("job_parts").insert({
-      job_id: job.id,
+      job_id: job!.id,
       name: "Kerf panel",
       quantity: 1,
       size_x: 500,
@@ -123,7 +123,7 @@ describe("at the machine", () => {
       grade_id: grade.id,
     });
     const res = await planner.post("/api/runs", {
-      jobIds: [job.id],
+      jobIds: [job!.id],
       blockIds: [block.id],
       machineId: m.body.machine.id,
       settings: {
@@ -137,19 +137,19 @@ describe("at the machine", () => {
     });
     expect(res.status).toBe(201);
     const run = await testDb()("nesting_runs").where({ id: res.body.id }).first("settings", "problem", "machine_id");
-    expect(run.machine_id).toBe(m.body.machine.id);
-    expect(run.settings.kerf).toBe(2.4);
-    expect(run.problem.settings.kerf).toBe(2.4);
+    expect(run!.machine_id).toBe(m.body.machine.id);
+    expect((run!.settings as { kerf: number }).kerf).toBe(2.4);
+    expect(run!.problem.settings.kerf).toBe(2.4);
     // A profile cutter is refused, naming the field.
     const profile = await planner.post("/api/machines", {
       ...machineBody(`Profile ${Date.now().toString(36)}`),
       kind: "profile",
     });
     const bad = await planner.post("/api/runs", {
-      jobIds: [job.id],
+      jobIds: [job!.id],
       blockIds: [block.id],
       machineId: profile.body.machine.id,
-      settings: run.settings,
+      settings: run!.settings,
     });
     expect(bad.status).toBe(400);
     expect(bad.body.fields.machineId).toMatch(/profile cutter/);
@@ -176,30 +176,36 @@ describe("at the machine", () => {
       .filter((n) => n.what.kind === "step")
       .map((n) => n.box.size.map(Number).join("x"))
       .sort();
-    const rest = (await k("blocks").whereIn("code", res.body.remainderCodes)) as Record<string, unknown>[];
+    const rest = await k("blocks").whereIn("code", res.body.remainderCodes);
     expect(rest.map((b) => [b.size_x, b.size_y, b.size_z].map(Number).join("x")).sort()).toEqual(waiting);
     expect(rest.every((b) => b.status === "in_stock" && b.parent_id === block.id && b.lot === "TEST-LOT")).toBe(true);
     // Parts not freed by step 1 are owed again.
-    const placed = (await k("nesting_runs").where({ id: runId }).first("plan")).plan.placements.length;
+    const placed = (await k("nesting_runs").where({ id: runId }).first("plan"))!.plan!.placements.length;
     const sums = await k("cut_parts")
       .where({ run_id: runId, block_id: block.id })
-      .select(k.raw("sum(good_count)::int AS good"), k.raw("sum(not_cut_count)::int AS not_cut"))
+      .select<{ good: number; not_cut: number }[]>(
+        k.raw("sum(good_count)::int AS good"),
+        k.raw("sum(not_cut_count)::int AS not_cut"),
+      )
       .first();
-    expect(sums.good + sums.not_cut).toBe(placed);
-    expect((await k("jobs").where({ id: jobId }).first("status")).status).not.toBe("done");
+    expect(sums!.good + sums!.not_cut).toBe(placed);
+    expect((await k("jobs").where({ id: jobId }).first("status"))!.status).not.toBe("done");
     expect(await ledgerGap()).toEqual({ m3: expect.closeTo(0, 6), value: expect.closeTo(0, 2) });
 
     // Undo: the block is back in the plan, its pieces written off, every sum back where it was.
     const undo = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/undo`);
     expect(undo.status).toBe(200);
     expect(undo.body.writtenOff.sort()).toEqual([...res.body.remainderCodes].sort());
-    expect((await k("blocks").where({ id: block.id }).first("status")).status).toBe("earmarked");
-    expect((await k("plan_blocks").where({ run_id: runId, block_id: block.id }).first("status")).status).toBe(
+    expect((await k("blocks").where({ id: block.id }).first("status"))!.status).toBe("earmarked");
+    expect((await k("plan_blocks").where({ run_id: runId, block_id: block.id }).first("status"))!.status).toBe(
       "reserved",
     );
     const after = await k("cut_parts")
       .where({ run_id: runId, block_id: block.id })
-      .select(k.raw("sum(good_count)::int AS good"), k.raw("sum(not_cut_count)::int AS not_cut"))
+      .select<{ good: number; not_cut: number }[]>(
+        k.raw("sum(good_count)::int AS good"),
+        k.raw("sum(not_cut_count)::int AS not_cut"),
+      )
       .first();
     expect(after).toEqual({ good: 0, not_cut: 0 });
     // Nothing deleted: the ledger only grew, with a reversal per movement.

@@ -116,7 +116,7 @@ describe("sign-in and sign-out", () => {
     expect((await victim.get("/api/me")).status).toBe(401);
     const again = await client().post("/api/auth/sign-in", { email, password: TEST_PASSWORD });
     expect(again.status).toBe(401);
-    const sessions = await testDb()("user_sessions").where({ user_id: id }).count<{ n: string }[]>({ n: "*" }).first();
+    const sessions = await testDb()("user_sessions").where({ user_id: id }).count<{ n: number }[]>({ n: "*" }).first();
     expect(Number(sessions?.n)).toBe(0);
   });
 

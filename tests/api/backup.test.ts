@@ -39,7 +39,7 @@ async function census(k: Knex) {
     .orderBy(["schemaname", "tablename"])) as { schemaname: string; tablename: string }[];
   const counts: Record<string, number> = {};
   for (const t of tables) {
-    const r = await k.withSchema(t.schemaname).from(t.tablename).count<{ n: string }[]>({ n: "*" }).first();
+    const r = await k.withSchema(t.schemaname).from(t.tablename).count<{ n: number }[]>({ n: "*" }).first();
     counts[`${t.schemaname}.${t.tablename}`] = Number(r?.n ?? 0);
   }
   const ledger = await k("stock_ledger")
@@ -79,7 +79,7 @@ describe("backup and restore", () => {
     await expect(restoreDatabase(file, url, TARGET)).rejects.toThrow(/not empty.*--force/);
     const target = await restoreDatabase(file, url, TARGET, { force: true });
     const restored = open(target);
-    expect(Number((await restored("blocks").count<{ n: string }[]>({ n: "*" }).first())?.n)).toBeGreaterThan(0);
+    expect(Number((await restored("blocks").count<{ n: number }[]>({ n: "*" }).first())?.n)).toBeGreaterThan(0);
     await expect(restoreDatabase(file, url, "bad name; DROP")).rejects.toThrow(/not a database name/);
   }, 120_000);
 });

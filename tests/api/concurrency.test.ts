@@ -22,7 +22,7 @@ beforeAll(async () => {
 });
 
 const count = async (table: string, where: Record<string, unknown> = {}) =>
-  Number((await testDb()(table).where(where).count<{ n: string }[]>({ n: "*" }).first())?.n ?? 0);
+  Number((await testDb()(table).where(where).count<{ n: number }[]>({ n: "*" }).first())?.n ?? 0);
 
 describe("approvals racing for one block", () => {
   it("100 parallel approvals of plans using the same block: exactly one wins, 99 get 409, one reservation", async () => {
@@ -37,13 +37,13 @@ describe("approvals racing for one block", () => {
       .insert(
         Array.from({ length: 99 }, () => ({
           status: "done",
-          job_ids: row.job_ids,
-          block_ids: row.block_ids,
-          settings: row.settings,
-          problem: JSON.stringify(row.problem),
-          plan: JSON.stringify(row.plan),
+          job_ids: row!.job_ids,
+          block_ids: row!.block_ids,
+          settings: row!.settings,
+          problem: JSON.stringify(row!.problem),
+          plan: JSON.stringify(row!.plan),
           progress: 1,
-          finished_at: row.finished_at,
+          finished_at: row!.finished_at,
         })),
       )
       .returning("id");
@@ -65,7 +65,7 @@ describe("approvals racing for one block", () => {
     expect(await testDb()("plan_blocks").where({ block_id: block.id }).select("run_id", "status")).toEqual([
       { run_id: winner, status: "reserved" },
     ]);
-    expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("earmarked");
+    expect((await testDb()("blocks").where({ id: block.id }).first())!.status).toBe("earmarked");
     expect(await count("nesting_runs", { status: "approved", id: winner })).toBe(1);
     expect(await testDb()("nesting_runs").whereIn("id", runIds).where("status", "approved").pluck("id")).toEqual([
       winner,
@@ -145,7 +145,7 @@ describe("imports and cuts at the same time", () => {
         expect(
           await testDb()("blocks")
             .whereIn("code", f.codes)
-            .count<{ n: string }[]>({ n: "*" })
+            .count<{ n: number }[]>({ n: "*" })
             .first()
             .then((r) => Number(r?.n)),
         ).toBe(f.codes.length);
@@ -155,7 +155,7 @@ describe("imports and cuts at the same time", () => {
     expect(await count("csv_imports")).toBe(importsBefore + winners);
     expect(await count("stock_ledger", { kind: "received" })).toBe(receivedBefore + 30 * winners);
     // Every cut block left stock; its offcuts came in, each with its ledger row.
-    for (const a of approved) expect((await testDb()("blocks").where({ id: a.block.id }).first()).status).toBe("cut");
+    for (const a of approved) expect((await testDb()("blocks").where({ id: a.block.id }).first())!.status).toBe("cut");
     const offcuts = await testDb()("blocks")
       .whereIn(
         "parent_id",
@@ -170,7 +170,7 @@ describe("imports and cuts at the same time", () => {
             await testDb()("stock_ledger")
               .whereIn("block_id", offcuts)
               .where({ kind: "offcut_created" })
-              .count<{ n: string }[]>({ n: "*" })
+              .count<{ n: number }[]>({ n: "*" })
               .first()
           )?.n,
         ),

@@ -37,11 +37,14 @@ async function flagZone(size: [number, number, number] = [2000, 1000, 500]) {
   return { block, zoneId: res.body.id as number };
 }
 const zoneRow = (id: number) => testDb()("defect_zones").where({ id }).first();
-const audit = (id: number) =>
-  testDb()("audit_log")
-    .whereRaw("detail->>'defect' = ?", [String(id)])
-    .whereIn("action", ["defect.update", "defect.remove"])
-    .orderBy("id");
+/** The zone's audit entries; `detail` is the JSON the route wrote (its before and after). */
+const audit = async (id: number) =>
+  (
+    await testDb()("audit_log")
+      .whereRaw("detail->>'defect' = ?", [String(id)])
+      .whereIn("action", ["defect.update", "defect.remove"])
+      .orderBy("id")
+  ).map((a) => ({ ...a, detail: a.detail as Record<string, unknown> }));
 
 describe("correcting and removing a defect zone", () => {
   it("lets the cutter who flagged it correct it, kept in the audit trail with who and when", async () => {
@@ -56,13 +59,13 @@ describe("correcting and removing a defect zone", () => {
       note: "Seen on the top face.",
     });
     const row = await zoneRow(zoneId);
-    expect(row.updated_by).toBe(flaggerId);
-    expect(row.updated_at).toBeTruthy();
+    expect(row!.updated_by).toBe(flaggerId);
+    expect(row!.updated_at).toBeTruthy();
     const [entry] = await audit(zoneId);
     expect(entry).toMatchObject({ actor_id: flaggerId, action: "defect.update", subject: `block:${block.id}` });
-    expect(entry.at).toBeTruthy();
-    expect(entry.detail.before).toMatchObject({ kind: "void", min: [400, 300, 420] });
-    expect(entry.detail.after).toMatchObject({ kind: "crush", min: [400, 300, 440] });
+    expect(entry!.at).toBeTruthy();
+    expect(entry!.detail.before).toMatchObject({ kind: "void", min: [400, 300, 420] });
+    expect(entry!.detail.after).toMatchObject({ kind: "crush", min: [400, 300, 440] });
     // The block page shows the correction with who made it.
     const page = await planner.get(`/stock/${encodeURIComponent(block.code)}`);
     const text = page.text.replace(/<!-- -->/g, "");
@@ -74,14 +77,14 @@ describe("correcting and removing a defect zone", () => {
     const { zoneId } = await flagZone();
     const fix = await planner.patch(`/api/defects/${zoneId}`, { max: [470, 380, 500], note: null });
     expect(fix.status, JSON.stringify(fix.body)).toBe(200);
-    expect((await zoneRow(zoneId)).updated_by).toBe(plannerId);
+    expect((await zoneRow(zoneId))!.updated_by).toBe(plannerId);
     const gone = await planner.delete(`/api/defects/${zoneId}`);
     expect(gone.status, JSON.stringify(gone.body)).toBe(200);
     expect(gone.body.items.map((z: { id: number }) => z.id)).not.toContain(zoneId);
     const row = await zoneRow(zoneId);
-    expect(row.removed_by).toBe(plannerId);
-    expect(row.removed_at).toBeTruthy();
-    expect((await audit(zoneId)).map((a: { action: string; actor_id: string }) => [a.action, a.actor_id])).toEqual([
+    expect(row!.removed_by).toBe(plannerId);
+    expect(row!.removed_at).toBeTruthy();
+    expect((await audit(zoneId)).map((a) => [a.action, a.actor_id])).toEqual([
       ["defect.update", plannerId],
       ["defect.remove", plannerId],
     ]);
@@ -93,10 +96,10 @@ describe("correcting and removing a defect zone", () => {
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     const listed = await flagger.get(`/api/blocks/${block.id}/defects`);
     expect(listed.body.items).toEqual([]);
-    expect((await zoneRow(zoneId)).removed_by).toBe(flaggerId);
+    expect((await zoneRow(zoneId))!.removed_by).toBe(flaggerId);
     const [entry] = await audit(zoneId);
     expect(entry).toMatchObject({ action: "defect.remove", actor_id: flaggerId });
-    expect(entry.detail.before).toMatchObject({ kind: "void", max: [460, 380, 500] });
+    expect(entry!.detail.before).toMatchObject({ kind: "void", max: [460, 380, 500] });
     // Taken back once: a second removal or a correction says so and changes nothing.
     expect((await flagger.delete(`/api/defects/${zoneId}`)).status).toBe(409);
     const again = await flagger.patch(`/api/defects/${zoneId}`, { note: "x" });
@@ -161,13 +164,13 @@ describe("correcting and removing a defect zone", () => {
     ]);
     const { runId } = await makeDoneRun(jobId, [block]);
     expect((await planner.get(`/api/runs/${runId}/plan`)).body.run.zoneChanges).toEqual([]);
-    expect((await flagger.patch(`/api/defects/${zone.id}`, { max: [300, 200, 200] })).status).toBe(200);
+    expect((await flagger.patch(`/api/defects/${zone!.id}`, { max: [300, 200, 200] })).status).toBe(200);
     const run = (await planner.get(`/api/runs/${runId}/plan`)).body.run;
     expect(run.zoneChanges).toEqual([
-      { zone: zone.id, blockCode: block.code, change: "changed", at: expect.any(String), by: "Test cutter" },
+      { zone: zone!.id, blockCode: block.code, change: "changed", at: expect.any(String), by: "Test cutter" },
     ]);
     const page = await planner.get(`/plans/${runId}`);
     const text = page.text.replace(/<!-- -->/g, "").replace(/<[^>]+>/g, "");
-    expect(text).toContain(`Zone ${zone.id} on ${block.code} changed after this plan was made`);
+    expect(text).toContain(`Zone ${zone!.id} on ${block.code} changed after this plan was made`);
   });
 });

@@ -182,7 +182,7 @@ describe("the app is killed in the middle of an import", () => {
     expect(
       await testDb()("blocks")
         .where({ lot })
-        .count<{ n: string }[]>({ n: "*" })
+        .count<{ n: number }[]>({ n: "*" })
         .first()
         .then((r) => Number(r?.n)),
     ).toBe(0);
@@ -201,7 +201,7 @@ describe("the app is killed in the middle of an import", () => {
     expect(
       await testDb()("blocks")
         .where({ lot })
-        .count<{ n: string }[]>({ n: "*" })
+        .count<{ n: number }[]>({ n: "*" })
         .first()
         .then((r) => Number(r?.n)),
     ).toBe(rows);
@@ -260,16 +260,16 @@ describe("a worker is killed in the middle of a nesting run", () => {
       const runId = created.body.run?.id ?? created.body.id ?? created.body.runId;
       await until(
         "the run to start",
-        async () => (await testDb()("nesting_runs").where({ id: runId }).first("status")).status === "running",
+        async () => (await testDb()("nesting_runs").where({ id: runId }).first("status"))!.status === "running",
         60_000,
       );
       killGroup(worker, "SIGKILL");
       // A progress write the worker sent just before it died may still commit: let it land first.
       await sleep(500);
-      const h1 = (await testDb()("nesting_runs").where({ id: runId }).first("heartbeat_at")).heartbeat_at as Date;
+      const h1 = (await testDb()("nesting_runs").where({ id: runId }).first("heartbeat_at"))!.heartbeat_at as Date;
       await sleep(2500);
       const row = await testDb()("nesting_runs").where({ id: runId }).first("status", "heartbeat_at");
-      if (row.status === "running" && (row.heartbeat_at as Date).getTime() === h1.getTime()) orphan = runId;
+      if (row!.status === "running" && (row!.heartbeat_at as Date).getTime() === h1.getTime()) orphan = runId;
       else await planner.post(`/api/runs/${runId}/cancel`); // the shared worker had it: stop it, try again
     }
     pauseSharedWorker(false);
@@ -281,7 +281,7 @@ describe("a worker is killed in the middle of a nesting run", () => {
       "the stalled run to be swept",
       async () => {
         const r = await testDb()("nesting_runs").where({ id: orphan }).first("status", "error", "finished_at");
-        return r.status !== "running" ? r : undefined;
+        return r!.status !== "running" ? r : undefined;
       },
       60_000,
       250,

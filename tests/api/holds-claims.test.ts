@@ -33,8 +33,8 @@ const codes: { good: string; under: string; over: string; under2: string } = {
   over: "",
   under2: "",
 };
-const idOf = async (code: string) => (await testDb()("blocks").where({ code }).first("id")).id as number;
-const statusOf = async (code: string) => (await testDb()("blocks").where({ code }).first("status")).status as string;
+const idOf = async (code: string) => (await testDb()("blocks").where({ code }).first("id"))!.id as number;
+const statusOf = async (code: string) => (await testDb()("blocks").where({ code }).first("status"))!.status as string;
 
 beforeAll(async () => {
   buyer = client();
@@ -48,7 +48,7 @@ beforeAll(async () => {
   const k = testDb();
   // A grade and a supplier of this file's own, so the shop's other stock and orders cannot move
   // its figures; its reorder point is set by hand (1.5 m³) so only on hand decides "due".
-  [{ id: gradeId }] = await k("grades")
+  [{ id: gradeId }] = (await k("grades")
     .insert({
       code: GRADE,
       material: "EPS",
@@ -59,10 +59,10 @@ beforeAll(async () => {
       cure_days: 0,
       colour: "#8aa5a9",
     })
-    .returning("id");
-  [{ id: supplierId }] = await k("suppliers")
+    .returning("id")) as [{ id: number }];
+  [{ id: supplierId }] = (await k("suppliers")
     .insert({ name: `Hold test supplier ${tag}` })
-    .returning("id");
+    .returning("id")) as [{ id: number }];
   await k("grade_reorder").insert({ grade_id: gradeId, reorder_point_m3: 1.5, order_qty_m3: 2 });
 });
 
@@ -169,9 +169,9 @@ describe("holding suspect blocks", () => {
       hold: { reason: "wet", note: "Water in the core at the saw" },
     });
     const ledger = await testDb()("stock_ledger").where({ block_id: good }).orderBy("id", "desc").first();
-    expect(ledger.kind).toBe("held");
-    expect(Number(ledger.delta_m3)).toBe(0);
-    expect(ledger.user_id).toBeTruthy();
+    expect(ledger!.kind).toBe("held");
+    expect(Number(ledger!.delta_m3)).toBe(0);
+    expect(ledger!.user_id).toBeTruthy();
     expect(await candidates(jobIds[0]!)).not.toContain(codes.good);
     expect((await reorderRow()).onHand).toBeCloseTo(0, 6);
 
@@ -209,8 +209,8 @@ describe("holding suspect blocks", () => {
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     expect(res.body.block).toMatchObject({ status: "in_stock", shown: "ready", hold: null, weightKg: 21 });
     const last = await testDb()("stock_ledger").where({ block_id: under }).orderBy("id", "desc").first();
-    expect(last.kind).toBe("hold_released");
-    expect(last.reason).toMatch(/re-weighed 21 kg/);
+    expect(last!.kind).toBe("hold_released");
+    expect(last!.reason).toMatch(/re-weighed 21 kg/);
     const good = await buyer.post(`/api/blocks/${await idOf(codes.good)}/release`, { note: "Dried out overnight" });
     expect(good.status, JSON.stringify(good.body)).toBe(200);
 

@@ -658,21 +658,21 @@ describe("hostile stored data", () => {
       .returning("id");
     const admin = await k("users").where({ email: adminEmail }).first("id");
     await k("cut_parts").insert({
-      run_id: run.id,
+      run_id: run!.id,
       block_id: block.id,
-      job_part_id: partIds[0],
+      job_part_id: partIds[0]!,
       good_count: 1,
       rejected_count: 1,
       reject_reason: "test",
       part_volume_m3: 0.018,
       volume_basis: "box",
-      recorded_by: admin.id,
+      recorded_by: admin!.id,
     });
-    const res = await (await freshAdmin()).post(`/api/runs/${run.id}/replan`);
+    const res = await (await freshAdmin()).post(`/api/runs/${run!.id}/replan`);
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     const child = await k("nesting_runs").where({ id: res.body.id }).first("settings", "parent_run_id");
-    expect(child.parent_run_id).toBe(run.id);
-    expect(child.settings.minOffcut).toHaveLength(3);
+    expect(child!.parent_run_id).toBe(run!.id);
+    expect((child!.settings as { minOffcut: number[] }).minOffcut).toHaveLength(3);
     expect(spare.id).toBeGreaterThan(0);
   });
 });

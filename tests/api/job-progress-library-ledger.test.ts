@@ -58,7 +58,7 @@ describe("the part library's search", () => {
   const tag = `Zq${Date.now().toString(36)}`;
 
   it("finds parts by words of the name, the kit or the grade code (?q=), in the API and on the page", async () => {
-    const eps9 = (await testDb()("grades").where({ code: "EPS-IX" }).first("id")).id as number;
+    const eps9 = (await testDb()("grades").where({ code: "EPS-IX" }).first("id"))!.id as number;
     const make = (name: string, kit: string, gradeId: number | null = null) =>
       planner.post("/api/library", { name, kit, size: [400, 200, 30], gradeId, defaultQuantity: 1 });
     expect((await make(`${tag} wing rib`, `${tag} glider`)).status).toBe(201);

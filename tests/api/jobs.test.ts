@@ -21,7 +21,7 @@ beforeAll(async () => {
   await buyer.signIn(demoEmail("buyer"));
 });
 
-const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id")).id as number;
+const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id"))!.id as number;
 const postCsv = (c: Client, path: string, body: string) =>
   c.call("post", path).set("content-type", "text/csv").send(body);
 

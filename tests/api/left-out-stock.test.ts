@@ -80,8 +80,8 @@ describe("stock that cannot hold any part", () => {
     expect(run.status, run.error).toBe("done");
     expect(run.leftOut.map((l: { code: string }) => l.code)).toEqual([offcut.code, skin.code]);
     const stored = await testDb()("nesting_runs").where({ id: res.body.id }).first("problem", "block_ids");
-    expect((stored.problem as Problem).blocks.map((b) => b.id)).toEqual([good.code]);
-    expect(stored.block_ids).toEqual([good.id]);
+    expect((stored!.problem as Problem).blocks.map((b) => b.id)).toEqual([good.code]);
+    expect(stored!.block_ids).toEqual([good.id]);
     const page = text((await planner.get(`/plans/${res.body.id}`)).text);
     expect(page).toContain(`${offcut.code} left out: too small for any part (1200 × 600 × 18 mm).`);
     expect(page).toContain(`${skin.code} left out: the 6 mm face trim leaves no usable material`);

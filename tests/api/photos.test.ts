@@ -128,8 +128,8 @@ describe("defect photos: upload", () => {
     for (const [i, item] of items.entries()) {
       const row = await testDb()("defect_photos").where({ id: item.id }).first();
       const [stored, thumb] = await Promise.all([
-        getObject(row.object_key).then(streamBytes),
-        getObject(row.thumb_key).then(streamBytes),
+        getObject(row!.object_key).then(streamBytes),
+        getObject(row!.thumb_key).then(streamBytes),
       ]);
       const name = files[i]!.name;
       expect(stored.length, name).toBe(item.bytes);
@@ -140,7 +140,7 @@ describe("defect photos: upload", () => {
         const meta = await sharp(b).metadata();
         expect(meta.exif ?? meta.comments ?? meta.xmp ?? null, name).toBeNull();
       }
-      if (row.content_type === "image/jpeg") expect([...stored.subarray(-2)], name).toEqual([0xff, 0xd9]);
+      if (row!.content_type === "image/jpeg") expect([...stored.subarray(-2)], name).toEqual([0xff, 0xd9]);
       else {
         expect(
           pngChunkTypes(stored).filter((t) => !["IHDR", "PLTE", "tRNS", "pHYs", "IDAT", "IEND"].includes(t)),
@@ -210,8 +210,8 @@ describe("defect photos: upload", () => {
     expect(res.status).toBe(201);
     const id = res.body.items[0].id as number;
     const row = await testDb()("defect_photos").where({ id }).first();
-    expect(row.content_type).toBe("image/jpeg");
-    expect(row.object_key).toMatch(/\.jpg$/);
+    expect(row!.content_type).toBe("image/jpeg");
+    expect(row!.object_key).toMatch(/\.jpg$/);
     const full = await cutter.get(`/api/photos/${id}`);
     expect(full.headers["content-type"]).toBe("image/jpeg");
   });
@@ -222,7 +222,7 @@ describe("defect photos: upload", () => {
     ]);
     expect(res.status).toBe(201);
     const row = await testDb()("defect_photos").where({ id: res.body.items[0].id }).first();
-    for (const key of [row.object_key, row.thumb_key]) {
+    for (const key of [row!.object_key, row!.thumb_key]) {
       expect(key).toMatch(new RegExp(`^defects/${defectId}/[0-9a-f-]{36}\\.(jpg|thumb\\.webp)$`));
       expect(key).not.toMatch(/secret-name|\.\./);
     }

@@ -27,8 +27,8 @@ beforeAll(async () => {
 });
 afterAll(closeTestDb);
 
-const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id")).id as number;
-const supplierId = async (name: string) => (await testDb()("suppliers").where({ name }).first("id")).id as number;
+const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id"))!.id as number;
+const supplierId = async (name: string) => (await testDb()("suppliers").where({ name }).first("id"))!.id as number;
 const block = (lineId: number, size: [number, number, number] = [2000, 1000, 500]) => ({
   lineId,
   size,
@@ -108,8 +108,8 @@ describe("sending an order", () => {
       transport: "outbox",
       to_address: "orders@ashcombe-bead.test",
     });
-    expect(row.attachments).toEqual([`${po.number}.csv`]);
-    const eml = parseMime(fs.readFileSync(row.file, "utf8"));
+    expect(row!.attachments).toEqual([`${po.number}.csv`]);
+    const eml = parseMime(fs.readFileSync(row!.file!, "utf8"));
     const csv = Papa.parse<Record<string, string>>(
       attachment(eml, `${po.number}.csv`)!
         .body.toString("utf8")
@@ -131,11 +131,11 @@ describe("sending an order", () => {
       .insert({ name: `No Mail Foams ${Date.now()}` })
       .returning("id");
     const po = await makeOrder();
-    await testDb()("purchase_orders").where({ id: po.id }).update({ supplier_id: s.id });
+    await testDb()("purchase_orders").where({ id: po.id }).update({ supplier_id: s!.id });
     const res = await buyer.post(`/api/purchase-orders/${po.id}/send`, { email: true });
     expect(res.status).toBe(400);
     expect(res.body.error).toMatch(/no e-mail address/);
-    expect((await testDb()("purchase_orders").where({ id: po.id }).first()).status).toBe("draft");
+    expect((await testDb()("purchase_orders").where({ id: po.id }).first())!.status).toBe("draft");
   });
 
   it("exports the order as CSV with formula-looking text escaped", async () => {
@@ -229,7 +229,7 @@ describe("receiving against an order, ±10 % (domain brief §6, common trade ter
   // Ten blocks of 2000 × 1000 × 500 mm = 10 m³ ordered.
   it("accepts 90 % as filled and closes the order, with stock, ledger and delivery linked", async () => {
     const po = await makeOrder({ status: "sent", quantity: 10 });
-    const before = await testDb()("stock_ledger").count<{ n: string }[]>({ n: "*" }).first();
+    const before = await testDb()("stock_ledger").count<{ n: number }[]>({ n: "*" }).first();
     const res = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
       receivedOn: "2026-11-30",
       lot: "L-TOL-90",
@@ -241,11 +241,11 @@ describe("receiving against an order, ±10 % (domain brief §6, common trade ter
     expect(res.body.codes).toHaveLength(9);
     const delivery = await testDb()("deliveries").where({ id: res.body.deliveryId }).first();
     expect(delivery).toMatchObject({ purchase_order_id: po.id, po_ref: po.number, lot: "L-TOL-90" });
-    const after = await testDb()("stock_ledger").count<{ n: string }[]>({ n: "*" }).first();
+    const after = await testDb()("stock_ledger").count<{ n: number }[]>({ n: "*" }).first();
     expect(Number(after!.n) - Number(before!.n)).toBe(9);
     // Cost from the line's price: 1 m³ at $0.40 per board foot.
     const b = await testDb()("blocks").where({ code: res.body.codes[0] }).first();
-    expect(Number(b.cost)).toBeCloseTo(423.776 * 0.4, 1);
+    expect(Number(b!.cost)).toBeCloseTo(423.776 * 0.4, 1);
     expect((await ledgerGap()).m3).toBeCloseTo(0, 6);
   });
 
@@ -329,7 +329,7 @@ describe("receiving against an order, ±10 % (domain brief §6, common trade ter
     const dup = await buyer.post(`/api/purchase-orders/${po.id}/receive`, {
       receivedOn: "2026-11-30",
       lot: "L-BAD",
-      blocks: [{ ...block(po.lineId), code: existing.code }],
+      blocks: [{ ...block(po.lineId), code: existing!.code }],
     });
     expect(dup.status).toBe(400);
     expect(dup.body.fields["blocks.0.code"]).toMatch(/already in stock/);
@@ -393,7 +393,7 @@ describe("the reorder list", () => {
       .where({ kind: "low_stock", to_address: "buyer@demo.blockyard.test" })
       .orderBy("id", "desc")
       .first();
-    expect(row.subject).toMatch(/reorder point/);
+    expect(row!.subject).toMatch(/reorder point/);
     await buyer.put(`/api/reorder/${viii}`, {});
   });
 

@@ -32,7 +32,7 @@ afterAll(async () => {
   await closeTestDb();
 });
 
-const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id")).id as number;
+const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id"))!.id as number;
 const itemOf = async (code: string) =>
   ((await buyer.get("/api/reorder")).body.items as ReorderRow[]).find((r) => r.gradeCode === code)!;
 
@@ -48,9 +48,9 @@ async function jobWith(
   const [j] = await k("jobs")
     .insert({ name: `Reorder test ${Date.now()}`, due_on: dueOn, status: "open" })
     .returning("id");
-  jobs.push(j.id);
+  jobs.push(j!.id);
   await k("job_parts").insert({
-    job_id: j.id,
+    job_id: j!.id,
     name: "Reorder test part",
     quantity,
     size_x: size[0],
@@ -60,7 +60,7 @@ async function jobWith(
     rotate: "any",
     true_volume_mm3: trueVolumeMm3,
   });
-  return j.id as number;
+  return j!.id as number;
 }
 
 describe("demand over the lead time", () => {
@@ -134,9 +134,9 @@ describe("working days and lead-time spread", () => {
         })
         .returning("id");
       const [d] = await k("deliveries")
-        .insert({ supplier_id: supplierId, received_on: came, lot: `RT-${came}`, purchase_order_id: po.id })
+        .insert({ supplier_id: supplierId, received_on: came, lot: `RT-${came}`, purchase_order_id: po!.id })
         .returning("id");
-      deliveries.push(d.id);
+      deliveries.push(d!.id);
     }
     const item = await itemOf("EPS-VIII");
     // By hand: lateness 1, 0, −2; mean −1/3; squares (4/3)² + (1/3)² + (5/3)² = 42/9; ÷ (3 − 1) → σL = √(7/3) = 1.528.

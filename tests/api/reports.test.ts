@@ -86,7 +86,7 @@ describe("yield and losses", () => {
       .returning("id");
     const bf = 1e6 / (144 * 2.54 ** 3); // board feet per m³
     await k("plan_blocks").insert({
-      run_id: run.id,
+      run_id: run!.id,
       block_id: b.id,
       status: "cut",
       cut_at: "2019-03-06T10:00:00Z",
@@ -118,9 +118,12 @@ describe("yield and losses", () => {
     const sql = await k("plan_blocks")
       .where({ status: "cut" })
       .where("cut_at", ">=", from)
-      .select(k.raw("sum(part_volume_m3) AS p"), k.raw("sum(block_volume_m3 - offcut_volume_m3) AS n"))
+      .select<{ p: number; n: number }[]>(
+        k.raw("sum(part_volume_m3) AS p"),
+        k.raw("sum(block_volume_m3 - offcut_volume_m3) AS n"),
+      )
       .first();
-    expect(res.body.total.yieldPct).toBeCloseTo((Number(sql.p) / Number(sql.n)) * 100, 1);
+    expect(res.body.total.yieldPct).toBeCloseTo((Number(sql!.p) / Number(sql!.n)) * 100, 1);
     const grades = res.body.byGrade.reduce((s: number, r: { partM3: number }) => s + r.partM3, 0);
     expect(grades).toBeCloseTo(res.body.total.partM3, 3);
     expect(res.body.byJob.length).toBeGreaterThan(0);
@@ -148,13 +151,13 @@ describe("offcuts and supplier quality", () => {
     const inStock = await testDb()("blocks")
       .whereNotNull("parent_id")
       .whereIn("status", ["in_stock", "earmarked"])
-      .count<{ n: string }[]>({ n: "*" })
+      .count<{ n: number }[]>({ n: "*" })
       .first();
     expect(res.body.byAge.reduce((s: number, a: { count: number }) => s + a.count, 0)).toBe(Number(inStock!.n));
     const used = await testDb()("blocks")
       .whereNotNull("parent_id")
       .where({ status: "cut" })
-      .count<{ n: string }[]>({ n: "*" })
+      .count<{ n: number }[]>({ n: "*" })
       .first();
     expect(res.body.fate.find((f: { key: string }) => f.key === "used").count).toBe(Number(used!.n));
   });

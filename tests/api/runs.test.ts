@@ -65,7 +65,7 @@ describe("nesting runs in the background worker", () => {
     expect(run.best.blocksUsed).toBe(plan.stats.blocksUsed);
     // Lists read the figures stored with the plan, not the plan itself.
     const stored = await testDb()("nesting_runs").where({ id: run.id }).first("summary");
-    expect(stored.summary.stats).toEqual(plan.stats);
+    expect(stored!.summary!.stats).toEqual(plan.stats);
     const list = await planner.get(`/api/runs?job=${jobId}`);
     const item = list.body.items.find((r: { id: number }) => r.id === run.id);
     expect(item).toMatchObject({ stats: plan.stats, cost: run.cost, cutLengthMm: run.cutLengthMm });
@@ -91,14 +91,14 @@ describe("nesting runs in the background worker", () => {
 
   it("works out and keeps the figures of a run planned before they were stored with the plan", async () => {
     const made = await makePlannedBlock();
-    expect((await testDb()("nesting_runs").where({ id: made.runId }).first("summary")).summary).toBeNull();
+    expect((await testDb()("nesting_runs").where({ id: made.runId }).first("summary"))!.summary).toBeNull();
     const detail = (await planner.get(`/api/runs/${made.runId}`)).body.run;
     const list = await planner.get(`/api/runs?job=${made.jobId}`);
     expect(list.status).toBe(200);
     const item = list.body.items.find((r: { id: number }) => r.id === made.runId);
     expect(item).toMatchObject({ stats: made.plan.stats, cost: detail.cost, cutLengthMm: detail.cutLengthMm });
     expect(item.cost).toBeGreaterThan(0);
-    const stored = (await testDb()("nesting_runs").where({ id: made.runId }).first("summary")).summary;
+    const stored = (await testDb()("nesting_runs").where({ id: made.runId }).first("summary"))!.summary;
     expect(stored).toMatchObject({ stats: made.plan.stats, cost: detail.cost, cutLengthMm: detail.cutLengthMm });
   });
 
@@ -222,7 +222,7 @@ describe("approval", () => {
     expect(loser.body.error).toMatch(/earmarked|Another plan/);
     const holds = await testDb()("plan_blocks").where({ block_id: block.id, status: "reserved" });
     expect(holds).toHaveLength(1);
-    expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("earmarked");
+    expect((await testDb()("blocks").where({ id: block.id }).first())!.status).toBe("earmarked");
     expect(await testDb()("stock_ledger").where({ block_id: block.id, kind: "reserved" })).toHaveLength(1);
     expect((await ledgerGap()).m3).toBeCloseTo(gap.m3, 9);
   });
@@ -238,7 +238,7 @@ describe("approval", () => {
     const more = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [spare.id], settings: SETTINGS });
     expect(more.status).toBe(201);
     const stored = await testDb()("nesting_runs").where({ id: more.body.id }).first("problem");
-    expect((stored.problem as Problem).parts.map((p) => p.quantity)).toEqual([3]);
+    expect((stored!.problem as Problem).parts.map((p) => p.quantity)).toEqual([3]);
     await waitFor(more.body.id, ["done", "failed"]);
   });
 
@@ -252,7 +252,7 @@ describe("approval", () => {
     expect(res.body.error).toContain("Test panel");
     expect(res.body.error).toContain(`plan #${runId}`);
     expect(await tableCounts()).toEqual(before);
-    expect((await testDb()("blocks").where({ id: other.id }).first()).status).toBe("in_stock");
+    expect((await testDb()("blocks").where({ id: other.id }).first())!.status).toBe("in_stock");
     // Released, the first plan no longer holds them: the second can be approved.
     expect((await planner.post(`/api/runs/${runId}/release`)).status).toBe(200);
     expect((await planner.post(`/api/runs/${second.runId}/approve`)).status).toBe(200);
@@ -270,7 +270,7 @@ describe("approval", () => {
     expect(res.body.error).toContain(`Block ${block.code}`);
     expect(res.body.error).toMatch(/guillotine or layers/);
     expect(await tableCounts()).toEqual(before);
-    expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("in_stock");
+    expect((await testDb()("blocks").where({ id: block.id }).first())!.status).toBe("in_stock");
   });
 
   it("releases an approved plan's blocks back to stock", async () => {
@@ -278,7 +278,7 @@ describe("approval", () => {
     const res = await planner.post(`/api/runs/${runId}/release`);
     expect(res.status).toBe(200);
     expect(res.body.run.status).toBe("cancelled");
-    expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("in_stock");
+    expect((await testDb()("blocks").where({ id: block.id }).first())!.status).toBe("in_stock");
     expect((await planner.post(`/api/runs/${runId}/release`)).status).toBe(409);
   });
 });
@@ -296,12 +296,12 @@ describe("at the machine", () => {
     await testDb()("defect_zones").insert({
       block_id: block.id,
       kind: "void",
-      min_x: d.min[0],
-      min_y: d.min[1],
-      min_z: d.min[2],
-      max_x: d.max[0],
-      max_y: d.max[1],
-      max_z: d.max[2],
+      min_x: d.min[0]!,
+      min_y: d.min[1]!,
+      min_z: d.min[2]!,
+      max_x: d.max[0]!,
+      max_y: d.max[1]!,
+      max_z: d.max[2]!,
     });
     const gap = await ledgerGap();
     const res = await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, {
@@ -312,7 +312,7 @@ describe("at the machine", () => {
     const l = res.body.losses;
     expect(l.goodBlanks + l.rejects + l.offcuts + l.trim + l.kerf + l.defect + l.unusable).toBeCloseTo(l.block, 9);
     expect(l.rejects).toBeCloseTo((900 * 400 * 200) / 1e9, 9);
-    expect((await testDb()("blocks").where({ id: block.id }).first()).status).toBe("cut");
+    expect((await testDb()("blocks").where({ id: block.id }).first())!.status).toBe("cut");
     const children = await testDb()("blocks").where({ parent_id: block.id });
     expect(children.map((c: { code: string }) => c.code).sort()).toEqual(res.body.offcutCodes.sort());
     const inherited = await testDb()("defect_zones").whereIn(
@@ -320,7 +320,7 @@ describe("at the machine", () => {
       children.map((c: { id: number }) => c.id),
     );
     expect(inherited.length).toBeGreaterThan(0);
-    expect(inherited[0].inherited_from).toBeTruthy();
+    expect(inherited[0]!.inherited_from).toBeTruthy();
     const kinds = await testDb()("stock_ledger").where({ block_id: block.id }).orderBy("id").pluck("kind");
     expect(kinds).toEqual(["received", "reserved", "consumed"]);
     // Block volume = parts + offcuts + losses, and the ledger still reconciles with the stock.
@@ -328,7 +328,7 @@ describe("at the machine", () => {
     const cut = await testDb()("cut_parts").where({ run_id: runId });
     expect(cut.reduce((s: number, r: { good_count: number }) => s + r.good_count, 0)).toBe(1);
     expect(cut.reduce((s: number, r: { rejected_count: number }) => s + r.rejected_count, 0)).toBe(1);
-    expect((await testDb()("nesting_runs").where({ id: runId }).first()).status).toBe("closed");
+    expect((await testDb()("nesting_runs").where({ id: runId }).first())!.status).toBe("closed");
     expect(
       (await cutter.post(`/api/runs/${runId}/blocks/${block.id}/cut`, { rejects: [], confirm: true })).status,
     ).toBe(409);
@@ -356,8 +356,8 @@ describe("at the machine", () => {
     const res = await planner.post(`/api/runs/${runId}/replan`);
     expect(res.status).toBe(201);
     const next = await testDb()("nesting_runs").where({ id: res.body.id }).first();
-    expect(next.parent_run_id).toBe(runId);
-    expect(next.problem.parts).toEqual([expect.objectContaining({ id: `jp-${partIds[0]}`, quantity: 2 })]);
+    expect(next!.parent_run_id).toBe(runId);
+    expect(next!.problem.parts).toEqual([expect.objectContaining({ id: `jp-${partIds[0]}`, quantity: 2 })]);
   });
 });
 

@@ -322,11 +322,9 @@ describe("who changed what", () => {
     return q.first();
   };
   const userId = async (role: string) =>
-    (
-      await testDb()("users")
-        .where({ email: demoEmail(role) })
-        .first("id")
-    ).id as string;
+    (await testDb()("users")
+      .where({ email: demoEmail(role) })
+      .first("id"))!.id;
 
   it("records the actor of settings, grade, supplier and block changes in the audit log", async () => {
     const adminId = await userId("admin");

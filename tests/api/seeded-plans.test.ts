@@ -87,11 +87,13 @@ describe("the demo's recorded plans", () => {
         const pb = await k("plan_blocks").where({ run_id: run.id, block_id: b.id }).first();
         expect(pb?.status, `${b.code} in plan #${run.id}`).toBe("cut");
         // Block volume = parts (and rejects) + offcuts + losses, as a recording at the machine leaves it.
-        const sum = ["part_volume_m3", "offcut_volume_m3", "loss_trim_m3", "loss_kerf_m3", "loss_defect_m3"]
-          .concat(["loss_unusable_m3", "loss_reject_m3"])
-          .reduce((s, c) => s + Number(pb[c]), 0);
-        expect(sum).toBeLessThanOrEqual(Number(pb.block_volume_m3) + 1e-6);
-        expect(Number(pb.offcut_volume_m3)).toBeGreaterThanOrEqual(0);
+        const parts = ["part_volume_m3", "offcut_volume_m3", "loss_trim_m3", "loss_kerf_m3", "loss_defect_m3"] as const;
+        const sum = [...parts, "loss_unusable_m3" as const, "loss_reject_m3" as const].reduce(
+          (s, c) => s + Number(pb![c]),
+          0,
+        );
+        expect(sum).toBeLessThanOrEqual(Number(pb!.block_volume_m3) + 1e-6);
+        expect(Number(pb!.offcut_volume_m3)).toBeGreaterThanOrEqual(0);
         const ledger = await k("stock_ledger").where({ block_id: b.id }).orderBy("at").pluck("kind");
         expect(ledger).toEqual(["received", "reserved", "consumed"]);
         expect(await k("stock_ledger").where({ block_id: b.id, kind: "consumed" }).first("ref")).toEqual({

@@ -151,23 +151,23 @@ describe("a stock count by scanning", () => {
 
     expect(await block(y.found.id)).toMatchObject({ status: "in_stock", location: y.bay });
     expect(await block(y.elsewhere.id)).toMatchObject({ status: "in_stock", location: y.bay });
-    expect(Number((await block(y.remeasured.id)).size_x)).toBe(990);
-    expect((await block(y.lost.id)).status).toBe("written_off");
-    expect((await block(y.planned.id)).status).toBe("earmarked"); // kept for the planner to release
+    expect(Number((await block(y.remeasured.id))!.size_x)).toBe(990);
+    expect((await block(y.lost.id))!.status).toBe("written_off");
+    expect((await block(y.planned.id))!.status).toBe("earmarked"); // kept for the planner to release
 
     const entries = await testDb()("stock_ledger").where({ ref: done.body.ref }).orderBy("id");
     expect(entries.map((e) => [e.block_id, e.kind])).toEqual([
       [y.remeasured.id, "adjusted"],
       [y.lost.id, "scrapped"],
     ]);
-    expect(Number(entries[0].delta_m3)).toBeCloseTo(-0.01, 9); // 10 mm off a 1 m cube
-    expect(Number(entries[1].delta_m3)).toBeCloseTo(-0.6, 9);
-    expect(Number(entries[1].delta_value)).toBe(-80);
-    expect(entries[1].reason).toBe(`Not found at stock count at ${y.bay}`);
+    expect(Number(entries[0]!.delta_m3)).toBeCloseTo(-0.01, 9); // 10 mm off a 1 m cube
+    expect(Number(entries[1]!.delta_m3)).toBeCloseTo(-0.6, 9);
+    expect(Number(entries[1]!.delta_value)).toBe(-80);
+    expect(entries[1]!.reason).toBe(`Not found at stock count at ${y.bay}`);
     // Stock on hand still equals the ledger's sum.
     expect((await ledgerGap()).m3).toBeCloseTo(gapBefore.m3, 9);
     const audit = await testDb()("audit_log").where({ action: "stock_count", subject: done.body.ref }).first();
-    expect(audit.detail).toEqual({
+    expect(audit!.detail).toEqual({
       moved: [{ code: y.elsewhere.code, from: y.other, to: y.bay }],
       writtenOff: [y.lost.code],
     });

@@ -84,7 +84,7 @@ describe("stock list API", () => {
   });
 
   it("shows FIFO positions among ready blocks of a grade, oldest first", async () => {
-    const gradeId = (await testDb()("grades").where({ code: "EPS-II" }).first("id")).id;
+    const gradeId = (await testDb()("grades").where({ code: "EPS-II" }).first("id"))!.id;
     const res = await planner.get(`/api/blocks?status=ready&grade=${gradeId}&sort=received&pageSize=200`);
     const fifo = res.body.items.map((b: { fifo: number }) => b.fifo);
     expect(fifo.every((f: number | null) => typeof f === "number")).toBe(true);
@@ -99,7 +99,7 @@ describe("stock list API", () => {
 
   it("gives a block with its defects and offcuts, and 404 for a stranger id", async () => {
     const parent = await testDb()("blocks").whereNotNull("parent_id").first("parent_id");
-    const res = await cutter.get(`/api/blocks/${parent.parent_id}`);
+    const res = await cutter.get(`/api/blocks/${parent!.parent_id}`);
     expect(res.status).toBe(200);
     expect(res.body.offcuts.length).toBeGreaterThan(0);
     expect((await cutter.get("/api/blocks/99999999")).status).toBe(404);
@@ -118,14 +118,14 @@ describe("receiving a delivery", () => {
       poRef: "PO-9001",
       blocks: [
         {
-          gradeId: grade.id,
+          gradeId: grade!.id,
           size: [4877, 1219, 1219],
           weightKg: 210,
           cost: 640,
           location: "Curing room",
           mouldedOn: "2026-11-18",
         },
-        { gradeId: grade.id, size: [4877, 1219, 1219], weightKg: 160, cost: 640, location: "Curing room" },
+        { gradeId: grade!.id, size: [4877, 1219, 1219], weightKg: 160, cost: 640, location: "Curing room" },
       ],
     });
     expect(res.status).toBe(201);
@@ -136,11 +136,9 @@ describe("receiving a delivery", () => {
     expect(res.body.warnings[0].index).toBe(1);
     expect(res.body.held).toEqual([{ index: 1, code: res.body.codes[1], reason: "under_density" }]);
     const blocks = await testDb()("blocks").whereIn("code", res.body.codes).orderBy("id");
-    expect(blocks[0].cut_not_before.toISOString?.().slice(0, 10) ?? blocks[0].cut_not_before).toBeTruthy();
-    const cnb = (b: { cut_not_before: Date }) =>
-      `${b.cut_not_before.getFullYear()}-${String(b.cut_not_before.getMonth() + 1).padStart(2, "0")}-${String(b.cut_not_before.getDate()).padStart(2, "0")}`;
-    expect(cnb(blocks[0])).toBe(addDays("2026-11-18", grade.cure_days));
-    expect(cnb(blocks[1])).toBe(addDays("2026-11-20", grade.cure_days));
+    // DATE arrives as its 'YYYY-MM-DD' text (db/types.ts).
+    expect(blocks[0]!.cut_not_before).toBe(addDays("2026-11-18", grade!.cure_days));
+    expect(blocks[1]!.cut_not_before).toBe(addDays("2026-11-20", grade!.cure_days));
     const ledger = await testDb()("stock_ledger")
       .whereIn(
         "block_id",
@@ -165,7 +163,7 @@ describe("receiving a delivery", () => {
       lot: "LOT-DUP",
       blocks: [
         { code: "NEW-1", gradeId, size: [1000, 1000, 1000], cost: 10, location: "A" },
-        { code: existing.code, gradeId, size: [1000, 1000, 1000], cost: 10, location: "A" },
+        { code: existing!.code, gradeId, size: [1000, 1000, 1000], cost: 10, location: "A" },
         { code: "new-1", gradeId, size: [1000, 1000, 1000], cost: 10, location: "A" },
       ],
     });
@@ -312,8 +310,8 @@ describe("CSV import and export", () => {
     const commit = await postCsv(buyer, "/api/imports/deliveries?commit=1&name=ok.csv", file);
     expect(commit.status).toBe(201);
     expect(
-      await testDb()("blocks").where("code", "like", "CSVOK-%").count<{ n: string }[]>({ n: "*" }).first(),
-    ).toEqual({ n: "40" });
+      await testDb()("blocks").where("code", "like", "CSVOK-%").count<{ n: number }[]>({ n: "*" }).first(),
+    ).toEqual({ n: 40 });
     expect((await ledgerGap()).m3).toBeCloseTo(gapBefore.m3, 9);
   });
 
@@ -440,7 +438,7 @@ describe("CSV import and export", () => {
     );
     expect(bad.status).toBe(422);
     expect(bad.body.problems).toEqual([{ row: 3, column: "code", message: "No block NOPE-1 in the register." }]);
-    expect((await testDb()("blocks").where({ id: a.id }).first()).location).toBe("Test bay");
+    expect((await testDb()("blocks").where({ id: a.id }).first())!.location).toBe("Test bay");
 
     const ok = await postCsv(
       buyer,
@@ -454,8 +452,8 @@ describe("CSV import and export", () => {
     );
     expect(ok.status).toBe(201);
     expect(ok.body.summary).toEqual({ confirmed: 2, moved: 1, remeasured: 1, missing: 1 });
-    expect((await testDb()("blocks").where({ id: a.id }).first()).location).toBe("Bay C");
-    expect((await testDb()("blocks").where({ id: c.id }).first()).status).toBe("written_off");
+    expect((await testDb()("blocks").where({ id: a.id }).first())!.location).toBe("Bay C");
+    expect((await testDb()("blocks").where({ id: c.id }).first())!.status).toBe("written_off");
     expect((await ledgerGap()).m3).toBeCloseTo(gapBefore.m3, 9);
   });
 

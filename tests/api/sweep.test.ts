@@ -24,13 +24,13 @@ describe("stalled nesting runs", () => {
     pause(true);
     try {
       await expect
-        .poll(async () => (await k("nesting_runs").where({ id: run.id }).first("status")).status, {
+        .poll(async () => (await k("nesting_runs").where({ id: run!.id }).first("status"))!.status, {
           timeout: 15_000,
           interval: 500,
         })
         .toBe("failed");
-      const row = await k("nesting_runs").where({ id: run.id }).first("error");
-      expect(row.error).toBe("The worker stopped while planning. Start the run again.");
+      const row = await k("nesting_runs").where({ id: run!.id }).first("error");
+      expect(row!.error).toBe("The worker stopped while planning. Start the run again.");
     } finally {
       pause(false);
     }

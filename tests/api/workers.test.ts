@@ -81,7 +81,7 @@ describe("several nesting workers on one queue", () => {
         "the long run to start",
         async () => {
           const r = await testDb()("nesting_runs").where({ id: longId }).first("status", "worker");
-          return r.status === "running" && r.worker ? (r.worker as keyof typeof workers) : undefined;
+          return r!.status === "running" && r!.worker ? (r!.worker as keyof typeof workers) : undefined;
         },
         90_000,
       );

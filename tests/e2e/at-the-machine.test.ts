@@ -101,8 +101,8 @@ describe("at the machine, on a tablet", () => {
     await second.getByRole("button", { name: /^Yes, undo / }).click();
     await second.getByText(/is back in the plan, to be cut/).waitFor();
     await screenshot(second, "machine-undone-tablet");
-    expect((await testDb()("blocks").where({ id: block.id }).first("status")).status).toBe("earmarked");
-    expect((await testDb()("blocks").where({ code: codes[0] }).first("status")).status).toBe("written_off");
+    expect((await testDb()("blocks").where({ id: block.id }).first("status"))!.status).toBe("earmarked");
+    expect((await testDb()("blocks").where({ code: codes[0] }).first("status"))!.status).toBe("written_off");
     await second.goto(`${BASE_URL}/jobs/${jobId}`);
     await second.getByText("Planned").first().waitFor();
     await second.context().close();

@@ -94,10 +94,10 @@ describe("flag a defect", () => {
 
     const rows = await testDb()("defect_zones").where({ block_id: block.id, kind: "void" });
     expect(rows).toHaveLength(1);
-    expect([Number(rows[0].min_z), Number(rows[0].max_z)]).toEqual([430, 610]);
+    expect([Number(rows[0]!.min_z), Number(rows[0]!.max_z)]).toEqual([430, 610]);
     expect(
-      await testDb()("defect_photos").where({ defect_id: rows[0].id }).count<{ n: string }[]>({ n: "*" }).first(),
-    ).toEqual({ n: "1" });
+      await testDb()("defect_photos").where({ defect_id: rows[0]!.id }).count<{ n: number }[]>({ n: "*" }).first(),
+    ).toEqual({ n: 1 });
 
     await page.mouse.move(0, 0);
     const file = await screenshot(page, "flag-defect-tablet");
@@ -105,17 +105,17 @@ describe("flag a defect", () => {
 
     // The cutter who flagged it corrects the depth, then takes the zone back; the older zone (someone
     // else's) offers neither.
-    const edit = page.getByTestId(`edit-zone-${rows[0].id}`);
-    await edit.getByRole("button", { name: `Correct zone ${rows[0].id}` }).click();
+    const edit = page.getByTestId(`edit-zone-${rows[0]!.id}`);
+    await edit.getByRole("button", { name: `Correct zone ${rows[0]!.id}` }).click();
     await edit.getByLabel("z · height from (mm)").fill("500");
     await edit.getByRole("button", { name: "Save the correction" }).click();
-    await page.getByRole("main").getByText(`Zone ${rows[0].id} on ${block.code} corrected.`).waitFor();
-    expect(Number((await testDb()("defect_zones").where({ id: rows[0].id }).first()).min_z)).toBe(500);
-    await edit.getByRole("button", { name: `Remove zone ${rows[0].id}` }).click();
-    await edit.getByRole("button", { name: `Remove zone ${rows[0].id}` }).click();
-    await page.getByTestId(`zone-${rows[0].id}`).waitFor({ state: "detached" });
+    await page.getByRole("main").getByText(`Zone ${rows[0]!.id} on ${block.code} corrected.`).waitFor();
+    expect(Number((await testDb()("defect_zones").where({ id: rows[0]!.id }).first())!.min_z)).toBe(500);
+    await edit.getByRole("button", { name: `Remove zone ${rows[0]!.id}` }).click();
+    await edit.getByRole("button", { name: `Remove zone ${rows[0]!.id}` }).click();
+    await page.getByTestId(`zone-${rows[0]!.id}`).waitFor({ state: "detached" });
     expect(await page.locator('[data-testid^="edit-zone-"]').count()).toBe(0);
-    expect((await testDb()("defect_zones").where({ id: rows[0].id }).first()).removed_at).toBeTruthy();
+    expect((await testDb()("defect_zones").where({ id: rows[0]!.id }).first())!.removed_at).toBeTruthy();
     await context.close();
   });
 

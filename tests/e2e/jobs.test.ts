@@ -84,7 +84,7 @@ describe("a planner imports a part list into a job", () => {
     await jobs.submitPart();
     await expect.poll(() => jobs.partRows().count()).toBe(1);
     const row = await testDb()("job_parts").where({ job_id: jobId }).first("size_x", "size_y", "size_z", "quantity");
-    expect([Number(row.size_x), Number(row.size_y), Number(row.size_z)]).toEqual([609.6, 457.2, 50.8]);
+    expect([Number(row!.size_x), Number(row!.size_y), Number(row!.size_z)]).toEqual([609.6, 457.2, 50.8]);
     expect(await page.getByTestId("job-parts").textContent()).toMatch(/24 × 18 × 2 in/);
     // A wing panel typed in inches: the computed box is shown in inches too.
     await jobs.addNacaPart("Stabiliser", 2, "0012", 6, 6, 16, "in");
@@ -118,15 +118,15 @@ describe("a planner imports a part list into a job", () => {
       .first()
       .waitFor();
     await screenshot(page, "library-edit-refused-wide");
-    expect(Number((await testDb()("library_parts").where({ id: made.id }).first("size_x")).size_x)).toBe(600);
+    expect(Number((await testDb()("library_parts").where({ id: made!.id }).first("size_x"))!.size_x)).toBe(600);
 
     await form.getByLabel("Length mm").fill("650");
     await form.getByLabel("Part name").fill("Plinth blank, tall");
     await form.getByLabel("Usual quantity").fill("3");
     await form.getByRole("button", { name: "Save the part" }).click();
     await page.getByText("Plinth blank, tall").waitFor();
-    const row = await testDb()("library_parts").where({ id: made.id }).first("name", "size_x", "default_quantity");
-    expect([row.name, Number(row.size_x), row.default_quantity]).toEqual(["Plinth blank, tall", 650, 3]);
+    const row = await testDb()("library_parts").where({ id: made!.id }).first("name", "size_x", "default_quantity");
+    expect([row!.name, Number(row!.size_x), row!.default_quantity]).toEqual(["Plinth blank, tall", 650, 3]);
     await screenshot(page, "library-edited-wide");
     await page.context().close();
   });

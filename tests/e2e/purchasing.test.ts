@@ -13,7 +13,7 @@ beforeAll(async () => {
   await seedPurchasing(testDb());
   // Other files add EPS-II test blocks by the hundred; a forecast that outruns them keeps EPS-II due.
   const epsII = await testDb()("grades").where({ code: "EPS-II" }).first("id");
-  await testDb()("grade_reorder").where({ grade_id: epsII.id }).update({ daily_demand_m3: 500 });
+  await testDb()("grade_reorder").where({ grade_id: epsII!.id }).update({ daily_demand_m3: 500 });
   browser = await launch();
 });
 afterAll(async () => {

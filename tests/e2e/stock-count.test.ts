@@ -74,18 +74,18 @@ describe("a stock count by scanning on the tablet", () => {
     const review = page.getByTestId("count-review");
     await review.getByText("Not found: written off when you reconcile (1)").waitFor();
     expect(await review.textContent()).toContain(lost.code);
-    expect((await testDb()("blocks").where({ id: lost.id }).first()).status).toBe("in_stock"); // nothing yet
+    expect((await testDb()("blocks").where({ id: lost.id }).first())!.status).toBe("in_stock"); // nothing yet
     await screenshot(page, "stock-count-review-tablet");
 
     await page.getByRole("button", { name: "Reconcile and write off 1 block" }).click();
     await main
       .getByText(`Count of ${bay} reconciled: 1 block confirmed, 0 moved, 0 re-measured, 1 written off.`)
       .waitFor();
-    expect((await testDb()("blocks").where({ id: found.id }).first()).status).toBe("in_stock");
-    expect((await testDb()("blocks").where({ id: lost.id }).first()).status).toBe("written_off");
+    expect((await testDb()("blocks").where({ id: found.id }).first())!.status).toBe("in_stock");
+    expect((await testDb()("blocks").where({ id: lost.id }).first())!.status).toBe("written_off");
     const entry = await testDb()("stock_ledger").where({ block_id: lost.id, kind: "scrapped" }).first();
-    expect(entry.ref).toMatch(/^count:\d+$/);
-    expect(entry.reason).toBe(`Not found at stock count at ${bay}`);
+    expect(entry!.ref).toMatch(/^count:\d+$/);
+    expect(entry!.reason).toBe(`Not found at stock count at ${bay}`);
     await page.context().close();
   });
 });

@@ -79,8 +79,8 @@ describe("the buyer receives a delivery", () => {
 
   it("refuses a delivery with a block code already in stock, naming the row, and saves nothing", async () => {
     const page = await signedIn("buyer", VIEWPORTS.wide);
-    const existing = (await testDb()("blocks").orderBy("id").first("code")).code as string;
-    const before = Number((await testDb()("blocks").count<{ n: string }[]>({ n: "*" }).first())?.n);
+    const existing = (await testDb()("blocks").orderBy("id").first("code"))!.code as string;
+    const before = Number((await testDb()("blocks").count<{ n: number }[]>({ n: "*" }).first())?.n);
     await page.goto(`${BASE_URL}/deliveries/new`);
     await page.getByLabel("Supplier").selectOption({ label: "Northgate Moulders" });
     await page.getByLabel("Lot").fill("DUP-LOT");
@@ -95,7 +95,7 @@ describe("the buyer receives a delivery", () => {
       await page.getByLabel(`Block 1 ${f}`).fill(v!);
     await page.getByRole("button", { name: "Receive 1 block" }).click();
     await page.getByText(`Code ${existing} is already in stock.`).waitFor();
-    expect(Number((await testDb()("blocks").count<{ n: string }[]>({ n: "*" }).first())?.n)).toBe(before);
+    expect(Number((await testDb()("blocks").count<{ n: number }[]>({ n: "*" }).first())?.n)).toBe(before);
   });
 });
 

@@ -91,6 +91,7 @@ describe("grade catalogue against ASTM C578", () => {
       colour: "#ffffff",
       priceUnit: "bf" as const,
       notes: null,
+      active: true,
     });
     const html = renderToStaticMarkup(
       createElement(GradeEditor, {

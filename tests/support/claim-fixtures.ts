@@ -16,11 +16,11 @@ export async function makeDeliveredBlock(
   const k = testDb();
   const supplierId =
     opts.supplierId ??
-    ((
+    (
       await k("suppliers")
         .insert({ name: `Claim supplier ${tag()}` })
         .returning("id")
-    )[0].id as number);
+    )[0]!.id;
   const grade = await k("grades")
     .where({ code: opts.gradeCode ?? "EPS-II" })
     .first("id");
@@ -30,9 +30,9 @@ export async function makeDeliveredBlock(
   const [block] = await k("blocks")
     .insert({
       code: `CB-${tag()}`,
-      grade_id: grade.id,
-      lot: delivery.lot,
-      delivery_id: delivery.id,
+      grade_id: grade!.id,
+      lot: delivery!.lot,
+      delivery_id: delivery!.id,
       nominal_x: 2000,
       nominal_y: 1000,
       nominal_z: 500,
@@ -48,15 +48,15 @@ export async function makeDeliveredBlock(
     })
     .returning(["id", "code", "volume_m3"]);
   await k("stock_ledger").insert({
-    block_id: block.id,
+    block_id: block!.id,
     kind: "received",
-    volume_m3: block.volume_m3,
-    delta_m3: block.volume_m3,
+    volume_m3: block!.volume_m3!,
+    delta_m3: block!.volume_m3!,
     value: 120,
     delta_value: 120,
     reason: "test fixture",
   });
-  return { id: block.id as number, code: block.code as string, supplierId };
+  return { id: block!.id as number, code: block!.code as string, supplierId };
 }
 
 /** An open claim for one delivered block (straight into the database). */
@@ -74,8 +74,8 @@ export async function makeClaim(opts: { status?: "open" | "accepted" | "rejected
       decided_at: status === "open" ? null : k.fn.now(),
     })
     .returning("id");
-  await k("supplier_claim_blocks").insert({ claim_id: claim.id, block_id: block.id });
-  return { id: claim.id as number, block };
+  await k("supplier_claim_blocks").insert({ claim_id: claim!.id, block_id: block.id });
+  return { id: claim!.id as number, block };
 }
 
 /** A claim photo already in the bucket and the table, for routes that only read it. */
@@ -97,5 +97,5 @@ export async function makeClaimPhoto(claimId: number) {
       height: 240,
     })
     .returning("id");
-  return { id: row.id as number, ...keys };
+  return { id: row!.id as number, ...keys };
 }

@@ -2,6 +2,8 @@ import knex, { type Knex } from "knex";
 import crypto from "node:crypto";
 import { hashPassword } from "@/lib/auth/password";
 import type { Role } from "@/lib/roles";
+// Rows arrive as the app reads them (NUMERIC as numbers, DATE as 'YYYY-MM-DD'), as db/tables.ts says.
+import "@/db/types";
 
 let k: Knex | undefined;
 
@@ -44,7 +46,7 @@ export async function tableCounts(): Promise<Record<string, number>> {
     .whereNotIn("tablename", ["knex_migrations", "knex_migrations_lock", "sign_in_failures", "user_sessions"]);
   const out: Record<string, number> = {};
   for (const { tablename } of tables as { tablename: string }[]) {
-    const row = await testDb()(tablename).count<{ n: string }[]>({ n: "*" }).first();
+    const row = await testDb()(tablename).count<{ n: number }[]>({ n: "*" }).first();
     out[tablename] = Number(row?.n ?? 0);
   }
   return out;
@@ -65,9 +67,9 @@ export async function makeBlock(
   } = {},
 ) {
   const k = testDb();
-  const grade = await k("grades")
+  const grade = (await k("grades")
     .where({ code: opts.gradeCode ?? "EPS-II" })
-    .first("id");
+    .first("id"))!;
   const size = opts.size ?? [2000, 1000, 500];
   const code = opts.code ?? `T-${process.pid}-${Date.now().toString(36)}-${++blockSeq}`.toUpperCase();
   const [b] = await k("blocks")
@@ -88,15 +90,15 @@ export async function makeBlock(
     })
     .returning(["id", "code", "volume_m3"]);
   await k("stock_ledger").insert({
-    block_id: b.id,
+    block_id: b!.id,
     kind: "received",
-    volume_m3: b.volume_m3,
-    delta_m3: b.volume_m3,
+    volume_m3: b!.volume_m3!,
+    delta_m3: b!.volume_m3!,
     value: opts.cost ?? 100,
     delta_value: opts.cost ?? 100,
     reason: "test fixture",
   });
-  return { id: b.id as number, code: b.code as string };
+  return { id: b!.id, code: b!.code };
 }
 
 /**

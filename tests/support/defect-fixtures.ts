@@ -1,6 +1,7 @@
 import crypto from "node:crypto";
 import sharp from "sharp";
 import { testDb } from "./db";
+import type { DefectZonesRow } from "@/db/tables";
 import { putObject } from "@/lib/storage/client";
 import { photoKeys } from "@/lib/storage/images";
 
@@ -25,7 +26,7 @@ export async function makeBlock(opts: { size?: [number, number, number]; code?: 
   const [block] = await k("blocks")
     .insert({
       code,
-      grade_id: grade.id,
+      grade_id: grade!.id,
       lot: `L-${tag()}`,
       parent_id: opts.parentId ?? null,
       nominal_x: x,
@@ -42,22 +43,22 @@ export async function makeBlock(opts: { size?: [number, number, number]; code?: 
   // Received through the ledger like every block in stock, so tests that reconcile the ledger
   // with the stock (run beside these) still find them equal.
   await k("stock_ledger").insert({
-    block_id: block.id,
+    block_id: block!.id,
     kind: "received",
-    volume_m3: block.volume_m3,
-    delta_m3: block.volume_m3,
+    volume_m3: block!.volume_m3!,
+    delta_m3: block!.volume_m3!,
     value: 100,
     delta_value: 100,
     reason: "test fixture",
   });
-  return { id: block.id as number, code: block.code as string, gradeCode: grade.code as string };
+  return { id: block!.id, code: block!.code, gradeCode: grade!.code };
 }
 
-export async function makeDefect(blockId: number, kind = "void") {
+export async function makeDefect(blockId: number, kind: DefectZonesRow["kind"] = "void") {
   const [row] = await testDb()("defect_zones")
     .insert({ block_id: blockId, kind, min_x: 400, min_y: 300, min_z: 100, max_x: 460, max_y: 380, max_z: 150 })
     .returning("id");
-  return row.id as number;
+  return row!.id;
 }
 
 /** A real JPEG (grey foam with a dark spot) made with sharp; `width` controls the pixel size. */
@@ -95,5 +96,5 @@ export async function makePhoto(defectId: number) {
       height: 240,
     })
     .returning("id");
-  return { id: row.id as number, ...keys };
+  return { id: row!.id as number, ...keys };
 }

@@ -14,7 +14,7 @@ export async function makeJob(
       status: opts.status ?? "open",
     })
     .returning("id");
-  return j.id as number;
+  return j!.id as number;
 }
 
 /** A plain box part on a job. */
@@ -34,7 +34,7 @@ export async function makeJobPart(
       rotate: "any",
     })
     .returning("id");
-  return p.id as number;
+  return p!.id as number;
 }
 
 /** A library part (a plain box) straight in the database. */
@@ -50,5 +50,5 @@ export async function makeLibraryPart(opts: { active?: boolean } = {}): Promise<
       active: opts.active ?? true,
     })
     .returning("id");
-  return l.id as number;
+  return l!.id as number;
 }

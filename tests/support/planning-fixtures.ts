@@ -31,7 +31,7 @@ export async function makeJobWithParts(
     const grade = p.gradeCode ? await k("grades").where({ code: p.gradeCode }).first("id") : null;
     const [row] = await k("job_parts")
       .insert({
-        job_id: job.id,
+        job_id: job!.id,
         name: p.name,
         quantity: p.quantity,
         size_x: p.size[0],
@@ -42,9 +42,9 @@ export async function makeJobWithParts(
         true_volume_mm3: p.trueVolumeMm3 ?? null,
       })
       .returning("id");
-    partIds.push(row.id);
+    partIds.push(row!.id);
   }
-  return { jobId: job.id as number, partIds };
+  return { jobId: job!.id as number, partIds };
 }
 
 /** A finished run (status done) whose plan is computed here with the real solver. */
@@ -101,7 +101,7 @@ export async function makeDoneRun(
       finished_at: k.fn.now(),
     })
     .returning("id");
-  return { runId: run.id as number, plan, problem: parsed.problem };
+  return { runId: run!.id as number, plan, problem: parsed.problem };
 }
 
 /** A job of one part and a fresh block, planned: the smallest thing that can be approved and cut. */
@@ -124,9 +124,9 @@ export async function makeApprovedRun() {
   await k("stock_ledger").insert({
     block_id: made.block.id,
     kind: "reserved",
-    volume_m3: b.volume_m3,
+    volume_m3: b!.volume_m3!,
     delta_m3: 0,
-    value: b.cost,
+    value: b!.cost,
     delta_value: 0,
     reason: "test fixture",
   });

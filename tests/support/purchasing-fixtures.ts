@@ -28,7 +28,7 @@ export async function makeOrder(
   const [po] = await k("purchase_orders")
     .insert({
       number: `PO-T-${process.pid}-${Date.now().toString(36)}-${++seq}`,
-      supplier_id: supplier.id,
+      supplier_id: supplier!.id,
       status: opts.status ?? "draft",
       expected_on: "2026-12-20",
       created_by: "u-buyer",
@@ -36,39 +36,39 @@ export async function makeOrder(
     .returning(["id", "number"]);
   const [line] = await k("purchase_order_lines")
     .insert({
-      purchase_order_id: po.id,
-      grade_id: grade.id,
+      purchase_order_id: po!.id,
+      grade_id: grade!.id,
       size_x: size[0],
       size_y: size[1],
       size_z: size[2],
       quantity: opts.quantity ?? 10,
       price: opts.price ?? 0.4,
-      price_unit: grade.price_unit,
+      price_unit: grade!.price_unit,
     })
     .returning(["id", "volume_m3"]);
   if (opts.receivedM3) {
     const [d] = await k("deliveries")
       .insert({
-        supplier_id: supplier.id,
+        supplier_id: supplier!.id,
         received_on: "2026-11-30",
         lot: `PO-FIX-${seq}`,
-        po_ref: po.number,
-        purchase_order_id: po.id,
+        po_ref: po!.number,
+        purchase_order_id: po!.id,
       })
       .returning("id");
     await k("purchase_order_receipts").insert({
-      purchase_order_id: po.id,
-      line_id: line.id,
-      delivery_id: d.id,
+      purchase_order_id: po!.id,
+      line_id: line!.id,
+      delivery_id: d!.id,
       blocks: 1,
       volume_m3: opts.receivedM3,
     });
   }
   return {
-    id: po.id as number,
-    number: po.number as string,
-    lineId: line.id as number,
-    lineM3: Number(line.volume_m3),
-    gradeId: grade.id as number,
+    id: po!.id as number,
+    number: po!.number as string,
+    lineId: line!.id as number,
+    lineM3: Number(line!.volume_m3),
+    gradeId: grade!.id as number,
   };
 }

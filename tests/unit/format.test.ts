@@ -58,6 +58,7 @@ describe("plurals", () => {
       email: null,
       phone: null,
       leadTimeDays,
+      leadTimeSdDays: 0,
       notes: null,
       active: true,
     });

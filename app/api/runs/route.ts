@@ -1,7 +1,8 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
 import { api, parseWith, readJson } from "@/lib/auth/guard";
-import { createRun, listRuns, type RunStatus } from "@/db/queries/runs";
+import { listRuns, type RunStatus } from "@/db/queries/runs";
+import { createRun } from "@/db/queries/run-plan";
 import { createRunSchema } from "@/lib/validations/runs";
 import { enqueue } from "@/lib/jobs/boss";
 import { QUEUES } from "@/lib/jobs/queues";

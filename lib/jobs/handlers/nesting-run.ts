@@ -3,7 +3,7 @@ import { performance } from "node:perf_hooks";
 import { nest } from "@/lib/nesting";
 import { QUEUES } from "@/lib/jobs/queues";
 import type { JobDefinition } from "@/lib/jobs/registry";
-import { claimRun, failRun, failStaleRuns, finishRun, saveProgress } from "@/db/queries/runs";
+import { claimRun, failRun, failStaleRuns, finishRun, saveProgress } from "@/db/queries/run-worker";
 
 /** This worker's name on the runs it holds: NESTING_WORKER_NAME, or host:pid. */
 export const workerName = (): string => process.env.NESTING_WORKER_NAME || `${os.hostname()}:${process.pid}`;

@@ -2,7 +2,16 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { overlaps } from "@/lib/nesting/geometry";
 import { procedure } from "@/lib/planning/procedure";
-import { clipZone, cutState, shareValue } from "@/lib/planning/recording";
+import {
+  clipZone,
+  countParts,
+  cutState,
+  partLine,
+  rejectedSizes,
+  shareValue,
+  tallyRejects,
+  volumeBasis,
+} from "@/lib/planning/recording";
 import { huge, machine, ok, part, randomPlan } from "../../support/procedure-fixtures";
 
 const vol = (b: { size: readonly number[] }) => b.size[0]! * b.size[1]! * b.size[2]!;
@@ -96,5 +105,94 @@ describe("clipZone and shareValue", () => {
         [300, 300, 300],
       ]),
     ).toEqual([6.55, 1.77]); // 118.5 × 0.1 / 1.81 = 6.547; 118.5 × 0.027 / 1.81 = 1.768;
+  });
+});
+
+describe("rejects and part lines of a recording", () => {
+  // A block whose plan places three of job part 7 and one of part 9; two of part 7 came off in the
+  // steps done, part 9 not yet.
+  const placed = countParts(["jp-7", "jp-7", "jp-7", "jp-9"]);
+  const came = countParts(["jp-7", "jp-7"]);
+
+  it("counts pieces per job part from the plan's part keys", () => {
+    expect([...placed]).toEqual([
+      [7, 3],
+      [9, 1],
+    ]);
+  });
+
+  it("adds rejects up per part with their reasons, in the order given", () => {
+    const { rejects, fields } = tallyRejects(
+      [
+        { reject: { jobPartId: 7, count: 1, reason: "void in the face" }, field: "steps.1.rejects.0" },
+        { reject: { jobPartId: 7, count: 1, reason: "wire wander" }, field: "rejects.0" },
+      ],
+      came,
+      placed,
+    );
+    expect(fields).toEqual({});
+    expect(rejects.get(7)).toEqual({ count: 2, reasons: ["void in the face", "wire wander"] });
+  });
+
+  it("names each field that asks too much, and which kind of missing part it is", () => {
+    const { rejects, fields } = tallyRejects(
+      [
+        { reject: { jobPartId: 7, count: 2, reason: "a" }, field: "rejects.0" },
+        { reject: { jobPartId: 7, count: 1, reason: "b" }, field: "rejects.1" }, // 3 > the 2 that came off
+        { reject: { jobPartId: 9, count: 1, reason: "c" }, field: "rejects.2" }, // placed, not come off yet
+        { reject: { jobPartId: 11, count: 1, reason: "d" }, field: "rejects.3" }, // not in this block
+      ],
+      came,
+      placed,
+    );
+    expect(fields).toEqual({
+      "rejects.1.count": "Only 2 of that part came off this block.",
+      "rejects.2.jobPartId": "That part has not come off this block in the steps done.",
+      "rejects.3.jobPartId": "That part is not cut from this block.",
+    });
+    expect(rejects.get(7)).toEqual({ count: 2, reasons: ["a"] });
+  });
+
+  it("takes the first pieces of a rejected part, in the order they came off", () => {
+    const box = (x: number) => ({
+      origin: [x, 0, 0] as [number, number, number],
+      size: [x + 1, 2, 3] as [number, number, number],
+    });
+    const parts = [
+      { part: "jp-7", box: box(10) },
+      { part: "jp-9", box: box(20) },
+      { part: "jp-7", box: box(30) },
+      { part: "jp-7", box: box(40) },
+    ];
+    expect(rejectedSizes(parts, new Map([[7, { count: 2 }]]))).toEqual([
+      [11, 2, 3],
+      [31, 2, 3],
+    ]);
+    expect(rejectedSizes(parts, new Map())).toEqual([]);
+  });
+
+  it("works a part's line out by hand: good, not cut, and its volume on the box or the profile", () => {
+    // Box 600 × 400 × 100 mm = 0.024 m³ each; 3 placed, 2 came off, 1 rejected → 1 good, 1 owed again.
+    expect(partLine({ size: [600, 400, 100], trueVolumeMm3: null }, { placed: 3, came: 2, rejected: 1 })).toEqual({
+      good: 1,
+      rejected: 1,
+      notCut: 1,
+      basis: "box",
+      eachM3: 0.024,
+      volumeM3: 0.024,
+    });
+    // A profiled part counts its true volume: 15,000,000 mm³ = 0.015 m³ each, 2 good.
+    const profiled = partLine(
+      { size: [600, 400, 100], trueVolumeMm3: 15_000_000 },
+      { placed: 2, came: 2, rejected: 0 },
+    );
+    expect(profiled).toMatchObject({ good: 2, notCut: 0, basis: "profile" });
+    expect(profiled.volumeM3).toBeCloseTo(0.03, 12);
+  });
+
+  it("says mixed when the parts' bases differ", () => {
+    expect(volumeBasis([])).toBe("box");
+    expect(volumeBasis(["profile", "profile"])).toBe("profile");
+    expect(volumeBasis(["box", "profile"])).toBe("mixed");
   });
 });

@@ -1,7 +1,8 @@
 import { listMachines } from "@/db/queries/machines";
 import type { Metadata } from "next";
 import { requirePage } from "@/lib/auth/guard";
-import { candidateStock, jobNames } from "@/db/queries/runs";
+import { jobNames } from "@/db/queries/runs";
+import { candidateStock } from "@/db/queries/run-plan";
 import { getShopSettings } from "@/db/queries/settings";
 import { listJobs } from "@/db/queries/jobs";
 import { JOB_STATUS_LABELS } from "@/lib/job-terms";

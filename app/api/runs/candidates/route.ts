@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { api, parseWith } from "@/lib/auth/guard";
-import { candidateStock } from "@/db/queries/runs";
+import { candidateStock } from "@/db/queries/run-plan";
 
 const query = z.object({
   jobs: z

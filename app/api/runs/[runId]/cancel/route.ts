@@ -1,5 +1,6 @@
 import { api } from "@/lib/auth/guard";
-import { getRun, cancelRun } from "@/db/queries/runs";
+import { getRun } from "@/db/queries/runs";
+import { cancelRun } from "@/db/queries/run-approval";
 import { idParam } from "@/lib/params";
 
 type P = { runId: string };

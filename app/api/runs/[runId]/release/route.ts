@@ -1,5 +1,6 @@
 import { api } from "@/lib/auth/guard";
-import { getRun, releaseRun } from "@/db/queries/runs";
+import { getRun } from "@/db/queries/runs";
+import { releaseRun } from "@/db/queries/run-approval";
 import { idParam } from "@/lib/params";
 
 type P = { runId: string };

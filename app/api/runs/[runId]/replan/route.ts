@@ -1,6 +1,6 @@
 import { NextResponse } from "next/server";
 import { api } from "@/lib/auth/guard";
-import { replanRun } from "@/db/queries/runs";
+import { replanRun } from "@/db/queries/run-approval";
 import { enqueue } from "@/lib/jobs/boss";
 import { QUEUES } from "@/lib/jobs/queues";
 import { idParam } from "@/lib/params";
