@@ -12,8 +12,10 @@ import { formatSize, lengthToMm, type LengthUnit } from "@/lib/units";
 import { fieldError, lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
 import { SectionPreview } from "./section-preview";
 import { ResultNotice } from "@/components/ui/result-notice";
+import { ProfileImport, type ImportPreview } from "./profile-import";
+import { WingPanelFields } from "./wing-panel-fields";
 
-type Shape = "box" | "polygon" | "naca";
+type Shape = "box" | "polygon" | "naca" | "drawing" | "text";
 
 interface Props {
   /** Where the part goes: a job's part list, or the library. */
@@ -25,9 +27,11 @@ interface Props {
 }
 
 /**
- * Adds a part by hand: a plain box, a polygon extruded along the wire, or a NACA wing panel (a tip
- * chord different from the root makes it a tapered 4-axis panel). The drawing and the computed box
- * follow the fields as they are typed; the server computes them again before saving.
+ * Adds a part by hand: a plain box, a polygon extruded along the wire, a NACA wing panel (a tip
+ * chord different from the root makes it a tapered 4-axis panel), the outlines of a DXF or SVG
+ * drawing, or letters. The drawing and the computed box follow the fields as they are typed; the
+ * server computes them again before saving. A drawing or a word adds one part per profile, all in
+ * one request (all or none).
  */
 export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
   const len = (s: string | undefined) => lengthMmOrNull(s ?? "", unit);
@@ -47,6 +51,8 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
   const [fields, setFields] = useState<Record<string, string>>({});
   const [msg, setMsg] = useState<{ tone: "success" | "danger"; text: string } | null>(null);
   const [busy, setBusy] = useState(false);
+  const [preview, setPreview] = useState<ImportPreview | null>(null);
+  const imported = shape === "drawing" || shape === "text";
   const set = (k: string) => (e: { target: { value: string } }) => setV((s) => ({ ...s, [k]: e.target.value }));
 
   // biome-ignore lint/correctness/useExhaustiveDependencies: recomputed from the form values it reads
@@ -92,10 +98,62 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
     }
   }, [profile]);
 
+  /** Each imported profile's part name: its own, or the typed name (in front of it when there are several). */
+  const importedName = (own: string, count: number) => {
+    const typed = (v.name ?? "").trim();
+    return (typed ? (count === 1 ? typed : `${typed} — ${own}`) : own).slice(0, 120);
+  };
+
+  async function submitImported() {
+    const profiles = preview?.profiles ?? [];
+    if (!profiles.length) {
+      setMsg({
+        tone: "danger",
+        text:
+          shape === "drawing"
+            ? "Read a drawing first: choose a DXF or SVG file, or paste a path."
+            : "Draw the letters first.",
+      });
+      return;
+    }
+    const extrudeMm = len(v.extrudeMm);
+    const quantity = num(v.quantity ?? "");
+    const parts = profiles.map((p) => ({
+      name: importedName(p.name, profiles.length),
+      gradeId: v.gradeId ? Number(v.gradeId) : null,
+      rotate: v.rotate,
+      profile: { kind: "polygon", points: p.points, holes: p.holes, source: p.source, extrudeMm },
+      ...(target.kind === "job" ? { quantity } : { kit: v.kit ?? null, defaultQuantity: quantity ?? 1 }),
+    }));
+    await send(target.kind === "job" ? `/api/jobs/${target.jobId}/parts` : "/api/library", "POST", { parts });
+    setMsg({
+      tone: "success",
+      text: `${parts.length === 1 ? parts[0]!.name : `${parts.length} parts (${parts.map((p) => p.name).join(", ")})`} added.`,
+    });
+    setPreview(null);
+  }
+
   async function submit() {
     setFields({});
     setMsg(null);
     setBusy(true);
+    if (imported) {
+      try {
+        await submitImported();
+        router.refresh();
+      } catch (err) {
+        if (err instanceof ApiError) {
+          // "parts.2.profile.extrudeMm" is shown where "profile.extrudeMm" would be.
+          const f: Record<string, string> = {};
+          for (const [k, m] of Object.entries(err.fields ?? {})) f[k.replace(/^parts\.\d+\./, "")] ??= m;
+          setFields(f);
+          setMsg({ tone: "danger", text: err.message });
+        }
+      } finally {
+        setBusy(false);
+      }
+      return;
+    }
     const base = {
       name: v.name ?? "",
       gradeId: v.gradeId ? Number(v.gradeId) : null,
@@ -127,6 +185,37 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
 
   const err = (...keys: string[]) => fieldError(fields, ...keys);
   const qtyField = target.kind === "job" ? "quantity" : "defaultQuantity";
+  const extrudeField = (
+    <Field
+      label={`Extrusion ${unit} (along the wire)`}
+      name="extrudeMm"
+      error={err("profile.extrudeMm")}
+      hint={imported ? "The thickness of each part: how far the wire runs through it." : undefined}
+    >
+      <Input
+        name="extrudeMm"
+        inputMode="decimal"
+        value={v.extrudeMm ?? ""}
+        onChange={set("extrudeMm")}
+        error={err("profile.extrudeMm")}
+      />
+    </Field>
+  );
+  const computedBox = (
+    <div className="text-xs text-ink-soft" data-testid="computed-box">
+      {profile.error ? (
+        <span className="text-ember">{profile.error}</span>
+      ) : computed && "size" in computed && computed.size ? (
+        <>
+          Box {formatSize(computed.size, unit)}
+          <br />
+          Foam {(computed.trueVolumeMm3 / 1e6).toFixed(3)} dm³ each
+        </>
+      ) : computed?.error ? (
+        <span className="text-ember">{computed.error}</span>
+      ) : null}
+    </div>
+  );
 
   return (
     <form
@@ -148,7 +237,12 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
             </datalist>
           </Field>
         )}
-        <Field label="Part name" name="name" error={err("name")}>
+        <Field
+          label="Part name"
+          name="name"
+          error={err("name")}
+          hint={imported ? "Empty: each profile's own name. With several, this goes in front." : undefined}
+        >
           <Input name="name" value={v.name ?? ""} onChange={set("name")} error={err("name")} />
         </Field>
         <Field label={target.kind === "job" ? "Quantity" : "Usual quantity"} name={qtyField} error={err(qtyField)}>
@@ -189,6 +283,8 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
               ["box", "Box"],
               ["polygon", "Polygon profile"],
               ["naca", "NACA wing panel"],
+              ["drawing", "From a drawing"],
+              ["text", "Text"],
             ] as const
           ).map(([k, label]) => (
             <label
@@ -200,7 +296,10 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
                 name="shape"
                 value={k}
                 checked={shape === k}
-                onChange={() => setShape(k)}
+                onChange={() => {
+                  setShape(k);
+                  setPreview(null);
+                }}
                 className="accent-kerf"
               />{" "}
               {label}
@@ -241,122 +340,90 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
         </div>
       )}
 
-      {shape !== "box" && (
+      {shape === "naca" && (
+        <>
+          <WingPanelFields
+            v={v}
+            set={set}
+            err={err}
+            unit={unit}
+            profile={profile.profile?.kind === "naca" ? profile.profile : null}
+            computed={computedBox}
+          />
+          {fields.profile && (
+            <p id="profile-error" className="text-sm text-ember">
+              {fields.profile}
+            </p>
+          )}
+        </>
+      )}
+
+      {shape === "polygon" && (
         <div className="grid gap-4 md:grid-cols-[1fr_auto]">
           <div className="grid content-start gap-3 sm:grid-cols-2">
-            {shape === "naca" ? (
-              <>
-                <Field label="NACA code" name="code" error={err("profile.code")} hint="Four digits, e.g. 2412 or 0012.">
-                  <Input name="code" value={v.code ?? ""} onChange={set("code")} error={err("profile.code")} />
-                </Field>
-                <Field label={`Span ${unit} (along the wire)`} name="spanMm" error={err("profile.spanMm")}>
-                  <Input
-                    name="spanMm"
-                    inputMode="decimal"
-                    value={v.spanMm ?? ""}
-                    onChange={set("spanMm")}
-                    error={err("profile.spanMm")}
-                  />
-                </Field>
-                <Field label={`Root chord ${unit}`} name="chordMm" error={err("profile.chordMm")}>
-                  <Input
-                    name="chordMm"
-                    inputMode="decimal"
-                    value={v.chordMm ?? ""}
-                    onChange={set("chordMm")}
-                    error={err("profile.chordMm")}
-                  />
-                </Field>
-                <Field
-                  label={`Tip chord ${unit}`}
-                  name="tipChordMm"
-                  error={err("profile.tipChordMm")}
-                  hint="Empty: same as the root (a 2-axis cut)."
-                >
-                  <Input
-                    name="tipChordMm"
-                    inputMode="decimal"
-                    value={v.tipChordMm ?? ""}
-                    onChange={set("tipChordMm")}
-                    error={err("profile.tipChordMm")}
-                  />
-                </Field>
-                <Field
-                  label={`Sweep ${unit}`}
-                  name="sweepMm"
-                  error={err("profile.sweepMm")}
-                  hint="How far the tip's leading edge sits behind the root's. Empty: straight."
-                >
-                  <Input
-                    name="sweepMm"
-                    inputMode="decimal"
-                    value={v.sweepMm ?? ""}
-                    onChange={set("sweepMm")}
-                    error={err("profile.sweepMm")}
-                  />
-                </Field>
-              </>
-            ) : (
-              <>
-                <div className="sm:col-span-2">
-                  <Field
-                    label={`Outline points (${unit})`}
-                    name="points"
-                    error={err("profile.points", "profile")}
-                    hint="“x y; x y; …” in the cutting plane, in order round the outline."
-                  >
-                    <textarea
-                      id="points"
-                      name="points"
-                      rows={3}
-                      value={v.points ?? ""}
-                      onChange={set("points")}
-                      className="block w-full rounded-md border border-bead-strong bg-paper-raised px-3 py-2 font-mono text-sm"
-                      placeholder="0 0; 180 0; 180 90; 90 140; 0 90"
-                    />
-                  </Field>
-                </div>
-                <Field label={`Extrusion ${unit} (along the wire)`} name="extrudeMm" error={err("profile.extrudeMm")}>
-                  <Input
-                    name="extrudeMm"
-                    inputMode="decimal"
-                    value={v.extrudeMm ?? ""}
-                    onChange={set("extrudeMm")}
-                    error={err("profile.extrudeMm")}
-                  />
-                </Field>
-              </>
-            )}
+            <div className="sm:col-span-2">
+              <Field
+                label={`Outline points (${unit})`}
+                name="points"
+                error={err("profile.points", "profile")}
+                hint="“x y; x y; …” in the cutting plane, in order round the outline."
+              >
+                <textarea
+                  id="points"
+                  name="points"
+                  rows={3}
+                  value={v.points ?? ""}
+                  onChange={set("points")}
+                  aria-invalid={err("profile.points", "profile") ? true : undefined}
+                  aria-describedby={err("profile.points", "profile") ? "points-error" : undefined}
+                  className="block w-full rounded-md border border-bead-strong bg-paper-raised px-3 py-2 font-mono text-sm"
+                  placeholder="0 0; 180 0; 180 90; 90 140; 0 90"
+                />
+              </Field>
+            </div>
+            {extrudeField}
           </div>
           <div className="space-y-2">
             <SectionPreview
               profile={profile.profile}
-              label={shape === "naca" ? `NACA ${v.code} section` : "Polygon outline"}
+              label="Polygon outline"
+              width={260}
+              height={170}
+              dims
+              unit={unit}
             />
-            <div className="text-xs text-ink-soft" data-testid="computed-box">
-              {profile.error ? (
-                <span className="text-ember">{profile.error}</span>
-              ) : computed && "size" in computed && computed.size ? (
-                <>
-                  Box {formatSize(computed.size, unit)}
-                  <br />
-                  Foam {(computed.trueVolumeMm3 / 1e6).toFixed(3)} dm³ each
-                </>
-              ) : computed?.error ? (
-                <span className="text-ember">{computed.error}</span>
-              ) : null}
-            </div>
-            {shape === "naca" && fields.profile && (
-              <p id="profile-error" className="text-sm text-ember">
-                {fields.profile}
+            {computedBox}
+          </div>
+        </div>
+      )}
+
+      {imported && (
+        <div className="@container space-y-3">
+          <ProfileImport key={shape} mode={shape} unit={unit} preview={preview} onPreview={setPreview} />
+          <div className="grid gap-3 sm:grid-cols-2">
+            {extrudeField}
+            {preview && (
+              <p className="self-end text-sm text-ink-soft" data-testid="import-volume">
+                {importedFoam(preview, len(v.extrudeMm))}
               </p>
             )}
           </div>
         </div>
       )}
       <Button type="submit" disabled={busy}>
-        {target.kind === "job" ? "Add the part" : "Add to the library"}
+        {imported && (preview?.profiles.length ?? 0) > 1
+          ? `Add ${preview!.profiles.length} parts${target.kind === "library" ? " to the library" : ""}`
+          : target.kind === "job"
+            ? "Add the part"
+            : "Add to the library"}
       </Button>
     </form>
   );
+}
+
+/** Foam in the imported parts at this extrusion: "Foam each: Letter O 2.1 dm³, …". */
+function importedFoam(preview: ImportPreview, extrudeMm: number | null): string {
+  if (!extrudeMm || !(extrudeMm > 0)) return "Give the extrusion to see the foam in each part.";
+  const each = preview.profiles.map((p) => `${p.name} ${((p.areaMm2 * extrudeMm) / 1e6).toFixed(3)} dm³`);
+  return `Foam each: ${each.join(", ")}.`;
 }

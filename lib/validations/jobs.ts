@@ -106,6 +106,14 @@ export const partSchema = z
   });
 export type PartInput = z.infer<typeof partSchema>;
 
+/** Several parts at once (the profiles of one drawing, the letters of a word): added all or none. */
+export const partsSchema = z.object({
+  parts: z
+    .array(partSchema, { error: "Send the parts as a list." })
+    .min(1, "Send at least one part.")
+    .max(200, "At most 200 parts at once."),
+});
+
 export const libraryPartSchema = z
   .object({
     kit: optionalText("Kit", 120),
@@ -123,6 +131,14 @@ export const libraryPartSchema = z
       ctx.addIssue({ code: "custom", path: ["size"], message: "Give a size, or a profile to compute it from." });
   });
 export type LibraryPartInput = z.infer<typeof libraryPartSchema>;
+
+/** Several library parts at once (the profiles of one drawing, the letters of a word): all or none. */
+export const libraryPartsSchema = z.object({
+  parts: z
+    .array(libraryPartSchema, { error: "Send the parts as a list." })
+    .min(1, "Send at least one part.")
+    .max(200, "At most 200 parts at once."),
+});
 
 export const libraryPatchSchema = z
   .object({

@@ -15,6 +15,7 @@ import { buttonClass } from "@/components/ui/button";
 import { JobStatusBadge } from "@/components/jobs/labels";
 import { JobStatusControl, PartsImport } from "@/components/jobs/job-forms";
 import { PartsTable } from "@/components/jobs/parts-table";
+import { listMachines } from "@/db/queries/machines";
 import { PartForm } from "@/components/jobs/part-form";
 import { AddFromLibrary } from "@/components/jobs/add-from-library";
 import { formatSize } from "@/lib/units";
@@ -36,13 +37,17 @@ export default async function JobPage({ params }: Params) {
   if (!job) notFound();
   const canEdit = allows(["planner"], user.roles);
   const open = job.status === "open";
-  const [parts, progress, unit, grades, library] = await Promise.all([
+  const cuts = allows(["planner", "cutter"], user.roles);
+  const [parts, progress, unit, grades, library, machines] = await Promise.all([
     listJobParts([job.id]),
     jobPartProgress(job.id),
     displayUnit(user),
     canEdit && open ? listGrades() : Promise.resolve([]),
     canEdit && open ? listLibraryParts() : Promise.resolve([]),
+    cuts ? listMachines({ activeOnly: true }) : Promise.resolve([]),
   ]);
+  // Profile programs for the shop's first profile cutter, for who plans and who cuts.
+  const profileCutter = machines.find((m) => m.kind === "profile");
 
   return (
     <>
@@ -73,7 +78,13 @@ export default async function JobPage({ params }: Params) {
         )}
 
         <Card title="Parts">
-          <PartsTable jobId={job.id} parts={JSON.parse(JSON.stringify(parts))} unit={unit} editable={canEdit && open} />
+          <PartsTable
+            jobId={job.id}
+            parts={JSON.parse(JSON.stringify(parts))}
+            unit={unit}
+            editable={canEdit && open}
+            programs={profileCutter ? { machineId: profileCutter.id, machineName: profileCutter.name } : null}
+          />
         </Card>
 
         {progress.length > 0 && (
@@ -102,7 +113,7 @@ export default async function JobPage({ params }: Params) {
         {canEdit && open && (
           <>
             <div className="grid gap-5 lg:grid-cols-[1fr_22rem]">
-              <Card title="Add a part by hand">
+              <Card title="Add a part">
                 <PartForm target={{ kind: "job", jobId: job.id }} unit={unit} grades={partGradeChoices(grades)} />
               </Card>
               <Card title="Add from the part library">
