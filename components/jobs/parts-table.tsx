@@ -6,22 +6,15 @@ import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { formatSize, formatVolume, type LengthUnit } from "@/lib/units";
-import type { RotateRule } from "@/lib/job-terms";
-import type { Profile } from "@/lib/profiles";
+import type { JobPart } from "@/db/queries/jobs";
 import { RotateLabel, describeProfile } from "./labels";
 import { SectionPreview } from "./section-preview";
 
-export interface PartRow {
-  id: number;
-  name: string;
-  quantity: number;
-  size: [number, number, number];
-  rotate: RotateRule;
-  gradeCode: string | null;
-  profile: Profile | null;
-  trueVolumeMm3: number | null;
-  libraryPartId: number | null;
-}
+/** A part as the table shows it (the server's JobPart; a type-only import, erased from the client bundle). */
+export type PartRow = Pick<
+  JobPart,
+  "id" | "name" | "quantity" | "size" | "rotate" | "gradeCode" | "profile" | "trueVolumeMm3" | "libraryPartId"
+>;
 
 /** The job's part list; while the job takes parts, the planner can change a quantity or remove a line. */
 export function PartsTable({
@@ -29,11 +22,14 @@ export function PartsTable({
   parts,
   unit,
   editable,
+  programs = null,
 }: {
   jobId: number;
   parts: PartRow[];
   unit: LengthUnit;
   editable: boolean;
+  /** The profile cutter whose programs a profile part links to; null: no links. */
+  programs?: { machineId: number; machineName: string } | null;
 }) {
   const router = useRouter();
   const [editing, setEditing] = useState<number | null>(null);
@@ -87,6 +83,27 @@ export function PartsTable({
                   <span className="font-medium">{p.name}</span>
                   {p.libraryPartId && <span className="ml-1 text-xs text-ink-faint">library</span>}
                   <span className="block text-xs text-ink-soft">{describeProfile(p.profile)}</span>
+                  {programs && p.profile && (
+                    <span className="flex gap-3 text-xs" data-testid={`part-${p.id}-program`}>
+                      <a
+                        className="inline-flex min-h-11 items-center"
+                        href={`/api/jobs/${jobId}/parts/${p.id}/program?machineId=${programs.machineId}`}
+                        download
+                        title={`Profile program for ${programs.machineName}`}
+                      >
+                        G-code
+                      </a>
+                      <a
+                        className="inline-flex min-h-11 items-center"
+                        href={`/api/jobs/${jobId}/parts/${p.id}/program?machineId=${programs.machineId}&format=svg`}
+                        target="_blank"
+                        rel="noopener"
+                        title={`The wire's path on ${programs.machineName}, to scale`}
+                      >
+                        Path drawing
+                      </a>
+                    </span>
+                  )}
                 </td>
                 <td className="pr-3">
                   <SectionPreview

@@ -47,8 +47,11 @@ export function MachineForm({ initial }: { initial?: StoredMachine }) {
             heatOn: text(g("heatOn")),
             heatOff: text(g("heatOff")),
             axes: [String(g("axis.0") ?? "").trim(), String(g("axis.1") ?? "").trim()],
+            towerAxes:
+              g("fourAxis") === "yes" ? [String(g("axis.2") ?? "").trim(), String(g("axis.3") ?? "").trim()] : null,
             lineNumbers: g("lineNumbers") === "yes",
           },
+          fourAxis: g("fourAxis") === "yes",
           active: g("active") !== "no",
         };
         const ok = await submit(() => send(m ? `/api/machines/${m.id}` : "/api/machines", m ? "PUT" : "POST", body), {
@@ -144,6 +147,28 @@ export function MachineForm({ initial }: { initial?: StoredMachine }) {
         </Field>
         <Field label="Second axis letter" name={id("axis.1")} error={f("dialect.axes.1")}>
           <Input name={id("axis.1")} defaultValue={m?.dialect.axes[1] ?? "Y"} error={f("dialect.axes.1")} />
+        </Field>
+        <Field
+          label="Axes"
+          name={id("fourAxis")}
+          error={f("fourAxis")}
+          hint="4-axis: two towers, the wire length apart, move apart for tapered parts."
+        >
+          <Select name={id("fourAxis")} defaultValue={m?.fourAxis ? "yes" : "no"}>
+            <option value="no">2-axis</option>
+            <option value="yes">4-axis (profile cutter)</option>
+          </Select>
+        </Field>
+        <Field
+          label="Second tower: first letter"
+          name={id("axis.2")}
+          error={f("dialect.towerAxes.0")}
+          hint="4-axis only."
+        >
+          <Input name={id("axis.2")} defaultValue={m?.dialect.towerAxes?.[0] ?? "U"} error={f("dialect.towerAxes.0")} />
+        </Field>
+        <Field label="Second tower: second letter" name={id("axis.3")} error={f("dialect.towerAxes.1")}>
+          <Input name={id("axis.3")} defaultValue={m?.dialect.towerAxes?.[1] ?? "V"} error={f("dialect.towerAxes.1")} />
         </Field>
         <Field label="Line numbers" name={id("lineNumbers")} error={f("dialect.lineNumbers")}>
           <Select name={id("lineNumbers")} defaultValue={m?.dialect.lineNumbers ? "yes" : "no"}>

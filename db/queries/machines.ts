@@ -32,8 +32,10 @@ function toMachine(r: MachinesRow, grades: MachineGradesRow[]): StoredMachine {
       heatOn: r.heat_on,
       heatOff: r.heat_off,
       axes: [r.axis_x, r.axis_y],
+      towerAxes: r.four_axis && r.axis_u && r.axis_v ? [r.axis_u, r.axis_v] : null,
       lineNumbers: r.line_numbers,
     },
+    fourAxis: r.four_axis,
     active: r.active,
     grades: grades
       .filter((g) => g.machine_id === r.id)
@@ -63,6 +65,9 @@ function toRow(m: MachineInput): Partial<MachinesRow> {
     axis_x: m.dialect.axes[0],
     axis_y: m.dialect.axes[1],
     line_numbers: m.dialect.lineNumbers,
+    four_axis: m.fourAxis,
+    axis_u: m.fourAxis ? (m.dialect.towerAxes?.[0] ?? null) : null,
+    axis_v: m.fourAxis ? (m.dialect.towerAxes?.[1] ?? null) : null,
     active: m.active,
   };
 }

@@ -52,6 +52,9 @@ export async function seed(knex: Knex): Promise<void> {
     axis_x: "X",
     axis_y: "Y",
     line_numbers: true,
+    four_axis: true,
+    axis_u: "U",
+    axis_v: "V",
   });
   const grades = (await knex("grades").select("id", "code")) as { id: number; code: string }[];
   const calibrated: Record<string, [number, number]> = {

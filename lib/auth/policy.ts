@@ -97,9 +97,13 @@ export const API_POLICY = {
   "PATCH /api/jobs/[jobId]/parts/[partId]": ["planner"],
   "DELETE /api/jobs/[jobId]/parts/[partId]": ["planner"],
   "POST /api/jobs/[jobId]/parts/import": ["planner"],
+  // A part's profile program and its drawing: for who plans and who cuts.
+  "GET /api/jobs/[jobId]/parts/[partId]/program": ["planner", "cutter"],
   "GET /api/library": ["planner", "cutter", "manager"],
   "POST /api/library": ["planner"],
   "PATCH /api/library/[partId]": ["planner"],
+  // A drawing, SVG path or text turned into profiles to look at before adding parts: stores nothing.
+  "POST /api/profiles/import": ["planner"],
 
   // The shop's cutters: the admin and the planner keep them (kerf and feed per grade too).
   "GET /api/machines": "signed-in",
@@ -124,6 +128,7 @@ export const API_POLICY = {
   "PUT /api/runs/[runId]/blocks/[blockId]/steps/[step]": ["cutter"],
   "GET /api/runs/[runId]/cut-list": "signed-in",
   "GET /api/runs/[runId]/gcode": ["cutter", "planner"],
+  "GET /api/runs/[runId]/profile-programs": ["cutter", "planner"],
 } as const satisfies Record<string, Access>;
 
 export type RouteKey = keyof typeof API_POLICY;

@@ -17,6 +17,8 @@ export interface GcodeDialect {
   heatOff: string | null;
   /** Axis letters of the cutting plane: horizontal travel and the second axis (vertical for a horizontal wire). */
   axes: [string, string];
+  /** A 4-axis profile cutter's second tower, e.g. ["U", "V"] (the first tower moves on `axes`); absent: 2-axis. */
+  towerAxes?: [string, string] | null;
   /** N words before each line. */
   lineNumbers: boolean;
 }
@@ -41,6 +43,8 @@ export interface Machine {
   heatUpS: number;
   /** Handling time per placement (place, square up, take off), s. */
   handlingS: number;
+  /** A profile cutter whose two towers move apart (tapered parts); its towers stand `wireLength` apart. Absent: no. */
+  fourAxis?: boolean;
   dialect: GcodeDialect;
 }
 

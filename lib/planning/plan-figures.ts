@@ -16,6 +16,8 @@ export interface PlanFigures {
   stuckBlocks?: string[];
   /** The cutting steps on the run's machine (absent before machines, or past the steps' piece limit). */
   steps?: { machine: string; placements: number; turns: number; minutes: number };
+  /** The profile parts' slab programs on the shop's profile cutter (their minutes are in `steps.minutes` too). */
+  profiles?: { machine: string; slabs: number; lengthMm: number; minutes: number };
 }
 
 /** A run's best-plan figures (`nesting_runs.best`), as progress reports give them. */

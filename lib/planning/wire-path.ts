@@ -9,6 +9,7 @@
  */
 import { AXIS_NAMES } from "@/lib/nesting/geometry";
 import { ENTRY_CLEARANCE, mm, type Machine } from "./machine";
+import { gcodeWriter, HOT_WIRE_CAUTIONS } from "./gcode";
 import type { OkProcedure, Step, StepCut } from "./procedure";
 
 export type XY = [number, number];
@@ -299,14 +300,6 @@ export interface ProgramOptions {
   steps?: number;
 }
 
-const sanitize = (s: string) =>
-  s
-    .toUpperCase()
-    .replace(/×/g, "X")
-    .replace(/;/g, ",")
-    .replace(/\(/g, "- ")
-    .replace(/[^A-Z0-9 .,:=\-/]/g, "");
-
 /**
  * One placement's G-code program in the machine's dialect: comments naming the block, step and
  * piece and how to place it, the cautions, the unit word and G90, rapids (G0) and feeds (G1 with
@@ -319,20 +312,8 @@ const sanitize = (s: string) =>
 export function program(step: Step, path: WirePath, machine: Machine, opts: ProgramOptions): string {
   const d = machine.dialect;
   const [X, Y] = d.axes.map((a) => a.toUpperCase());
-  const scale = d.inch ? 1 / 25.4 : 1;
-  const digits = d.inch ? 4 : 3;
-  const num = (v: number) => {
-    const s = (v * scale).toFixed(digits).replace(/\.?0+$/, "");
-    return s === "-0" || s === "" ? "0" : s;
-  };
-  const units = d.unitWords === "G20/G21" ? (d.inch ? "G20" : "G21") : d.inch ? "G70" : "G71";
-  const out: string[] = [];
-  let n = 0;
-  const code = (s: string) => {
-    n += 10;
-    out.push(d.lineNumbers ? `N${n} ${s}` : s);
-  };
-  const note = (s: string) => out.push(`(${sanitize(s)})`);
+  const w = gcodeWriter(d);
+  const { code, note, num, units } = w;
   const of = opts.steps ? ` OF ${opts.steps}` : "";
   note(`Blockyard hot-wire program: block ${opts.blockCode}, step ${step.n}${of}, piece ${step.piece}`);
   note(`${machine.name}, ${machine.wire} wire`);
@@ -341,8 +322,7 @@ export function program(step: Step, path: WirePath, machine: Machine, opts: Prog
     `Piece ${mm(step.size[0])} x ${mm(step.size[1])} x ${mm(step.size[2])} mm, kerf ${mm(opts.kerf)} mm, feed ${mm(opts.feed)} mm/min${opts.grade ? `, grade ${opts.grade}` : ""}`,
   );
   note("Caution: straight cuts only. Dry-run with the wire cold before cutting.");
-  note("Caution: ventilate. Never leave a hot wire unattended.");
-  note("Caution: never hot-wire polyurethane, PVC or PIR foams.");
+  for (const c of HOT_WIRE_CAUTIONS) note(c);
   note(`Start with the wire at machine zero. Units: ${d.inch ? "inch" : "mm"}.`);
   code(units);
   code("G90");
@@ -352,15 +332,7 @@ export function program(step: Step, path: WirePath, machine: Machine, opts: Prog
   const last = feeds.at(-1) ?? -1;
   const cuts = new Map(step.cuts.map((c) => [c.n, c]));
   path.moves.forEach((m, i) => {
-    if (i === first) {
-      if (d.heatOn) {
-        code(sanitize(d.heatOn));
-        code(`G4 P${machine.heatUpS}`);
-      } else {
-        note(`Switch the wire heat on, let it heat up ${machine.heatUpS} s, then press start`);
-        code("M0");
-      }
-    }
+    if (i === first) w.heatOn(machine.heatUpS);
     if (m.cut !== undefined) {
       const c = cuts.get(m.cut);
       if (c)
@@ -371,16 +343,10 @@ export function program(step: Step, path: WirePath, machine: Machine, opts: Prog
     const word = m.kind === "feed" ? "G1" : "G0";
     const f = m.kind === "feed" ? ` F${num(opts.feed)}` : "";
     code(`${word} ${X}${num(m.to[0])} ${Y}${num(m.to[1])}${f}`);
-    if (i === last) {
-      if (d.heatOff) code(sanitize(d.heatOff));
-      else {
-        note("Switch the wire heat off, then press start");
-        code("M0");
-      }
-    }
+    if (i === last) w.heatOff();
   });
   code("M2");
-  return `${out.join("\n")}\n`;
+  return w.text();
 }
 
 export interface CutTime {

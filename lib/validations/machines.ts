@@ -51,8 +51,15 @@ export const machineSchema = z
       heatOn: code("Heat on"),
       heatOff: code("Heat off"),
       axes: z.tuple([axis("First axis letter"), axis("Second axis letter")]),
+      /** A 4-axis cutter's second tower (e.g. U V); ignored on a 2-axis machine. */
+      towerAxes: z
+        .tuple([axis("Second tower, first axis letter"), axis("Second tower, second axis letter")])
+        .nullable()
+        .default(null),
       lineNumbers: z.boolean({ error: "Say whether lines are numbered." }),
     }),
+    /** Two towers moving apart (tapered parts): a profile cutter only; the towers stand the wire length apart. */
+    fourAxis: z.boolean({ error: "Say whether the machine cuts on 4 axes." }).default(false),
     active: z.boolean().default(true),
   })
   .superRefine((m, ctx) => {
@@ -64,6 +71,28 @@ export const machineSchema = z
       });
     if (m.dialect.axes[0] === m.dialect.axes[1])
       ctx.addIssue({ code: "custom", path: ["dialect", "axes", 1], message: "The two axis letters must differ." });
+    if (m.fourAxis) {
+      if (m.kind !== "profile")
+        ctx.addIssue({ code: "custom", path: ["fourAxis"], message: "Only a profile cutter cuts on 4 axes." });
+      const tower = m.dialect.towerAxes;
+      if (!tower)
+        ctx.addIssue({
+          code: "custom",
+          path: ["dialect", "towerAxes", 0],
+          message: "Give the second tower's two axis letters, such as U and V.",
+        });
+      else {
+        const all = [...m.dialect.axes, ...tower];
+        tower.forEach((a, i) => {
+          if (all.indexOf(a) !== 2 + i)
+            ctx.addIssue({
+              code: "custom",
+              path: ["dialect", "towerAxes", i],
+              message: "The four axis letters must all differ.",
+            });
+        });
+      }
+    }
   });
 
 export type MachineInput = z.infer<typeof machineSchema>;

@@ -60,7 +60,7 @@ describe("machines", () => {
   it("a cutter may read machines but not add or change them", async () => {
     expect((await cutter.post("/api/machines", machineBody(`Nope ${Date.now()}`))).status).toBe(403);
     const [m] = await testDb()("machines").select("id").limit(1);
-    expect((await cutter.put(`/api/machines/${m.id}/grades`, { grades: [] })).status).toBe(403);
+    expect((await cutter.put(`/api/machines/${m!.id}/grades`, { grades: [] })).status).toBe(403);
   });
 
   it("calibrates kerf and feed per grade, naming a grade listed twice", async () => {

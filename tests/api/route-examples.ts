@@ -5,6 +5,7 @@ import { SETTINGS, makeApprovedRun, makeJobWithParts, makePlannedBlock } from ".
 import { jpegBytes, makeDefect, makePhoto } from "../support/defect-fixtures";
 import { makeJob, makeJobPart, makeLibraryPart } from "../support/job-fixtures";
 import { makeOrder } from "../support/purchasing-fixtures";
+import { LETTER_O, makeProfilePart, makeProfileRun } from "../support/profile-fixtures";
 import { makeClaim, makeClaimPhoto, makeDeliveredBlock } from "../support/claim-fixtures";
 
 export interface ExampleCtx {
@@ -52,7 +53,7 @@ const machineRow = {
   max_length_mm: 5000,
   max_width_mm: 1300,
   max_height_mm: 1250,
-};
+} as const;
 
 let n = 0;
 const unique = () => `${Date.now().toString(36)}-${++n}`;
@@ -108,7 +109,7 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     const [m] = await testDb()("machines")
       .insert({ ...machineRow, name: `Cutter ${unique()}` })
       .returning("id");
-    return { params: { machineId: String(m.id) }, body: machineBody(`Cutter ${unique()}`) };
+    return { params: { machineId: String(m!.id) }, body: machineBody(`Cutter ${unique()}`) };
   },
   "PUT /api/machines/[machineId]/grades": async () => ({
     params: { machineId: String(await firstId("machines")) },
@@ -119,7 +120,7 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     const [g] = await testDb()("grades")
       .insert({ code: `G-${unique()}`, material: "EPS", grade_system: "shop", grade: "test", cure_days: 1 })
       .returning("id");
-    return { params: { gradeId: String(g.id) }, body: gradeBody(`G-${unique()}`) };
+    return { params: { gradeId: String(g!.id) }, body: gradeBody(`G-${unique()}`) };
   },
   "POST /api/suppliers": async () => ({ body: { name: `Supplier ${unique()}`, leadTimeDays: 10 }, expect: 201 }),
   "GET /api/suppliers/[supplierId]": async () => ({ params: { supplierId: String(await firstId("suppliers")) } }),
@@ -127,7 +128,7 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     const [s] = await testDb()("suppliers")
       .insert({ name: `Supplier ${unique()}` })
       .returning("id");
-    return { params: { supplierId: String(s.id) }, body: { name: `Supplier ${unique()}`, leadTimeDays: 7 } };
+    return { params: { supplierId: String(s!.id) }, body: { name: `Supplier ${unique()}`, leadTimeDays: 7 } };
   },
   "POST /api/deliveries": async () => ({
     body: {
@@ -224,7 +225,7 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
   "POST /api/runs/[runId]/replan": async () => {
     const { runId, partIds } = await makeApprovedRun();
     const run = await testDb()("nesting_runs").where({ id: runId }).first("plan");
-    const plan = run.plan;
+    const plan = run!.plan!;
     plan.unplaced = [{ part: `jp-${partIds[0]}`, count: 1, reason: "test" }];
     await testDb()("nesting_runs")
       .where({ id: runId })
@@ -252,6 +253,13 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     return { params: { runId: String(runId), blockId: String(block.id), step: "1" }, body: { done: true } };
   },
   "GET /api/runs/[runId]/cut-list": async () => ({ params: { runId: String((await makePlannedBlock()).runId) } }),
+  "GET /api/runs/[runId]/profile-programs": async () => ({
+    params: { runId: String((await makeProfileRun()).runId) },
+  }),
+  "GET /api/jobs/[jobId]/parts/[partId]/program": async () => {
+    const jobId = await makeJob();
+    return { params: { jobId: String(jobId), partId: String(await makeProfilePart(jobId, LETTER_O)) } };
+  },
   "GET /api/runs/[runId]/gcode": async () => {
     const { runId, block } = await makePlannedBlock();
     return { params: { runId: String(runId) }, query: `block=${encodeURIComponent(block.code)}&step=1` };
@@ -320,6 +328,18 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     params: { partId: String(await makeLibraryPart()) },
     body: { defaultQuantity: 3 },
   }),
+  "POST /api/profiles/import": async () => ({
+    files: [
+      {
+        field: "file",
+        name: "square.dxf",
+        contentType: "application/dxf",
+        content: Buffer.from(
+          "0\nSECTION\n2\nHEADER\n9\n$INSUNITS\n70\n4\n0\nENDSEC\n0\nSECTION\n2\nENTITIES\n0\nLWPOLYLINE\n5\n1F\n8\n0\n90\n4\n70\n1\n10\n0\n20\n0\n10\n50\n20\n0\n10\n50\n20\n50\n10\n0\n20\n50\n0\nENDSEC\n0\nEOF\n",
+        ),
+      },
+    ],
+  }),
   "PUT /api/reorder/settings": async () => ({
     body: { serviceLevel: 0.95, historyDays: 90, orderCost: 75, holdingCost: 18 },
   }),
@@ -328,7 +348,7 @@ export const EXAMPLES: Partial<Record<RouteKey, (ctx: ExampleCtx) => Promise<Exa
     body: { leadTimeDays: null, note: "role check" },
   }),
   "POST /api/reorder/draft": async () => ({
-    body: { gradeIds: [(await testDb()("grades").where({ code: "EPS-II" }).first("id")).id] },
+    body: { gradeIds: [(await testDb()("grades").where({ code: "EPS-II" }).first("id"))!.id] },
     expect: 201,
   }),
   "POST /api/reorder/alert": async () => ({}),

@@ -50,6 +50,9 @@ export default async function MachinesPage() {
                 <dt className="inline text-ink-soft">Travel: </dt>
                 <dd className="inline">
                   {m.dialect.axes[0]} {mm(m.travel[0])} mm · {m.dialect.axes[1]} {mm(m.travel[1])} mm
+                  {m.fourAxis && m.dialect.towerAxes
+                    ? ` · 4-axis: second tower ${m.dialect.towerAxes.join(" ")}, ${mm(m.wireLength)} mm apart`
+                    : ""}
                 </dd>
               </div>
               <div>

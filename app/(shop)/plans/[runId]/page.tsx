@@ -23,6 +23,7 @@ import { stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
 import { leftOutLine } from "@/lib/planning/usable";
+import { planProfiles, profileTime } from "@/db/queries/profile-programs";
 import { formatVolume } from "@/lib/units";
 
 export async function generateMetadata({ params }: { params: Promise<{ runId: string }> }): Promise<Metadata> {
@@ -36,12 +37,24 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   if (!Number.isInteger(id) || id <= 0) notFound();
   const run = await getRun(id);
   if (!run) notFound();
-  const [settings, siblings, owed, steps] = await Promise.all([
+  const [settings, siblings, owed, steps, profiles] = await Promise.all([
     getShopSettings(),
     listRuns({ jobId: run.jobIds[0], limit: 8 }),
     owedByRun(id, run.plan),
     planSteps(run),
+    run.plan ? planProfiles(run) : Promise.resolve(null),
   ]);
+  // Profile parts: their slab programs on the shop's profile cutter add to the cut time.
+  // A large plan: the figures stored when it finished (the programs are worked out on download).
+  const profTime = !profiles
+    ? null
+    : profiles.listOnly
+      ? (run.profiles ?? null)
+      : profileTime(profiles.machine, profiles.slabs);
+  const profMinutes = profTime?.minutes ?? 0;
+  const profNote = profTime?.slabs
+    ? `; profiles ${Math.round(profMinutes)} min (${profTime.slabs} slab${profTime.slabs === 1 ? "" : "s"}) on ${profTime.machine}`
+    : "";
   const stepsOf = new Map(steps.blocks.map((b) => [b.code, b]));
   const cannotCut = stepProblems(steps.blocks);
   // Cut time from the cutting steps where they were worked out, else from the stored wire travel.
@@ -61,6 +74,15 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   const totalLength = run.cutLengthMm ?? 0;
   const totalMinutes = settings.feedMmPerMin > 0 ? totalLength / settings.feedMmPerMin : 0;
   const owes = [...owed.values()].some((n) => n > 0);
+  // The plan's yield counts the parts' boxes; with profile parts, the foam actually kept too (holes out).
+  const trueVolume = new Map(run.parts.map((p) => [p.id, p.trueVolumeMm3]));
+  const trueYield =
+    plan && plan.stats.stockVolume > 0 && run.parts.some((p) => p.trueVolumeMm3 !== null)
+      ? plan.placements.reduce(
+          (s, p) => s + (trueVolume.get(partIdFromKey(p.part)) ?? p.size[0] * p.size[1] * p.size[2]),
+          0,
+        ) / plan.stats.stockVolume
+      : null;
 
   return (
     <>
@@ -150,7 +172,12 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
         {plan && (
           <>
             <dl className="grid gap-4 sm:grid-cols-2 lg:grid-cols-5" data-testid="plan-figures">
-              <Figure boxed label="Yield" value={`${(plan.stats.yield * 100).toFixed(1)} %`} />
+              <Figure
+                boxed
+                label="Yield"
+                value={`${(plan.stats.yield * 100).toFixed(1)} %`}
+                note={trueYield === null ? undefined : `${(trueYield * 100).toFixed(1)} % by the parts' true shapes`}
+              />
               <Figure
                 boxed
                 label="Blocks"
@@ -168,15 +195,15 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                 <Figure
                   boxed
                   label="Cut time (estimate)"
-                  value={`${Math.round(stepMinutes)} min`}
-                  note={`on ${steps.machine.name}: ${placements} placement${placements === 1 ? "" : "s"}, ${turns} turn${turns === 1 ? "" : "s"}`}
+                  value={`${Math.round(stepMinutes + profMinutes)} min`}
+                  note={`on ${steps.machine.name}: ${placements} placement${placements === 1 ? "" : "s"}, ${turns} turn${turns === 1 ? "" : "s"}${profNote}`}
                 />
               ) : (
                 <Figure
                   boxed
                   label="Cut time (estimate)"
-                  value={`${Math.round(totalMinutes)} min`}
-                  note={`${(totalLength / 1000).toFixed(1)} m of wire travel at ${settings.feedMmPerMin} mm/min`}
+                  value={`${Math.round(totalMinutes + profMinutes)} min`}
+                  note={`${(totalLength / 1000).toFixed(1)} m of wire travel at ${settings.feedMmPerMin} mm/min${profNote}`}
                 />
               )}
             </dl>
@@ -298,6 +325,55 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                       ))}
                     </p>
                   )}
+                  {(cutter || planner) &&
+                    profiles?.slabs.some((s) => s.slab.block === b.id) &&
+                    (() => {
+                      const mine = profiles.slabs.filter((s) => s.slab.block === b.id);
+                      const base = `/api/runs/${run.id}/profile-programs?machineId=${profiles.machine.id}&slab=`;
+                      return (
+                        <div className="mb-3 text-sm" data-testid={`profile-programs-${b.id}`}>
+                          <span className="text-ink-soft">Profile programs for {profiles.machine.name}:</span>
+                          <ul className="mt-1 space-y-1">
+                            {mine.map((s) => (
+                              <li key={s.label} className="flex flex-wrap items-center gap-x-3">
+                                <span>
+                                  slab {s.slab.n} ({s.names.join(", ")})
+                                </span>
+                                {s.program || profiles.listOnly ? (
+                                  <>
+                                    <a
+                                      className="inline-flex min-h-11 items-center"
+                                      href={`${base}${encodeURIComponent(s.label)}`}
+                                      download
+                                    >
+                                      G-code
+                                    </a>
+                                    <a
+                                      className="inline-flex min-h-11 items-center"
+                                      href={`${base}${encodeURIComponent(s.label)}&format=svg`}
+                                      target="_blank"
+                                      rel="noopener"
+                                    >
+                                      path drawing
+                                    </a>
+                                    {s.program && (
+                                      <span className="text-ink-faint">
+                                        about {Math.max(1, Math.round(s.program.minutes.total))} min
+                                        {s.program.warnings.length
+                                          ? ` · ${s.program.warnings.length} note${s.program.warnings.length === 1 ? "" : "s"} in the program`
+                                          : ""}
+                                      </span>
+                                    )}
+                                  </>
+                                ) : (
+                                  <span className="text-ember">cannot be cut there: {s.problem}</span>
+                                )}
+                              </li>
+                            ))}
+                          </ul>
+                        </div>
+                      );
+                    })()}
                   {uncuttable.includes(b.id) && (
                     <div className="mb-3">
                       <NotCuttable count={stuckPieces(plan, b.id, run.settings.kerf)} />

@@ -1,0 +1,228 @@
+/**
+ * Slabs of a box-nested plan and the programs made from them (lib/profiles/slabs.ts, program.ts):
+ * grouping, placing a turned part, the dialect's words, refusals and the cut time worked by hand.
+ */
+import { describe, expect, it } from "vitest";
+import type { Plan } from "@/lib/nesting";
+import type { Machine } from "@/lib/planning/machine";
+import { partGeometry, type Point, type Profile } from "@/lib/profiles";
+import { ProgramError, profileProgram } from "@/lib/profiles/program";
+import { orientation, partSections, planSlabs } from "@/lib/profiles/slabs";
+
+const cutter = (over: Partial<Machine> = {}, dialect: Partial<Machine["dialect"]> = {}): Machine => ({
+  name: "Bench cutter",
+  kind: "profile",
+  wire: "horizontal",
+  wireLength: 1000,
+  travel: [1200, 600],
+  maxPiece: [1000, 1000, 600],
+  turntable: false,
+  rapid: 1500,
+  heatUpS: 10,
+  handlingS: 60,
+  dialect: {
+    unitWords: "G20/G21",
+    inch: false,
+    heatOn: "M3",
+    heatOff: "M5",
+    axes: ["X", "Y"],
+    lineNumbers: false,
+    ...dialect,
+  },
+  ...over,
+});
+
+const rect = (w: number, h: number): Point[] => [
+  [0, 0],
+  [w, 0],
+  [w, h],
+  [0, h],
+];
+const plate = (w: number, h: number, extrude: number): Profile => ({
+  kind: "polygon",
+  points: rect(w, h),
+  extrudeMm: extrude,
+});
+
+describe("slabs of a plan", () => {
+  const letter: Profile = {
+    kind: "polygon",
+    points: rect(120, 80),
+    holes: [
+      [
+        [30, 20],
+        [60, 20],
+        [60, 60],
+        [30, 60],
+      ],
+    ],
+    extrudeMm: 50,
+  };
+  const parts = new Map([
+    ["jp-1", { size: partGeometry(letter).size, profile: letter }],
+    ["jp-2", { size: [50, 60, 40] as [number, number, number], profile: plate(60, 40, 50) }],
+    ["jp-3", { size: [300, 200, 100] as [number, number, number], profile: null }],
+  ]);
+  const plan: Pick<Plan, "placements"> = {
+    placements: [
+      { part: "jp-1", block: "HF-1", origin: [6, 6, 6], size: [50, 120, 80] },
+      { part: "jp-2", block: "HF-1", origin: [6, 127.5, 6], size: [50, 60, 40] },
+      // Turned a quarter in the block: its 60 mm across now stands up, its 40 mm lies across.
+      { part: "jp-2", block: "HF-1", origin: [6, 189, 6], size: [50, 40, 60] },
+      { part: "jp-1", block: "HF-1", origin: [57.5, 6, 6], size: [50, 120, 80] },
+      { part: "jp-3", block: "HF-1", origin: [6, 6, 100], size: [300, 200, 100] },
+    ],
+  };
+
+  it("groups the profile parts of one block by the extent along the wire; plain boxes stay out", () => {
+    const slabs = planSlabs(plan, parts);
+    expect(slabs.map((s) => [s.block, s.n, s.wire, s.along, s.parts.length])).toEqual([
+      ["HF-1", 1, "x", [6, 56], 3],
+      ["HF-1", 2, "x", [57.5, 107.5], 1],
+    ]);
+    expect(slabs[0]!.plane).toEqual(["y", "z"]);
+    expect(slabs[0]!.origin).toEqual([6, 6]);
+    expect(slabs[0]!.size).toEqual([223, 80]);
+  });
+
+  it("places each section where its box sits, a turned part turned (never mirrored)", () => {
+    const [first] = planSlabs(plan, parts);
+    const [a, b, c] = first!.parts;
+    expect(a!.root.outer).toEqual(rect(120, 80));
+    expect(b!.root.outer[0]).toEqual([121.5, 0]);
+    expect(orientation([50, 60, 40], [50, 40, 60])).toEqual({ wire: "x", plane: ["y", "z"], quarter: true });
+    // (u, v) → (h − v, u) with h = 40: the 60 × 40 plate's corners land in the 40 × 60 box at 183.
+    expect(c!.root.outer).toEqual([
+      [183 + 40, 0],
+      [183 + 40, 60],
+      [183, 60],
+      [183, 0],
+    ]);
+    expect(c!.blank).toEqual({ min: [183, 0], max: [223, 60] });
+  });
+
+  it("NACA sections sit in their box: the root's leading edge at the front, the tip swept back", () => {
+    const s = partSections({ kind: "naca", code: "0012", chordMm: 200, tipChordMm: 120, spanMm: 400, sweepMm: 50 });
+    expect(s.tapered).toBe(true);
+    const minU = (l: Point[]) => Math.min(...l.map((q) => q[0]));
+    const maxU = (l: Point[]) => Math.max(...l.map((q) => q[0]));
+    expect(minU(s.root.outer)).toBeCloseTo(0, 6);
+    expect(maxU(s.root.outer)).toBeCloseTo(200, 3);
+    expect(minU(s.tip.outer)).toBeCloseTo(50, 6);
+    expect(maxU(s.tip.outer)).toBeCloseTo(170, 3);
+  });
+});
+
+describe("profile programs", () => {
+  const part = { name: "Plate", ...partSections(plate(100, 50, 40)) };
+  const input = {
+    title: "part Plate, job 1",
+    size: [100, 50] as Point,
+    thickness: 40,
+    parts: [part],
+    kerf: 2,
+    feed: 250,
+  };
+
+  // Worked by hand: the plate fills its blank, so the path (1 mm outside) reaches past every face
+  // and the lead-in comes from the left (the first face tried), at the middle of that side: from
+  // the air at X0 Y35 to X9 Y35, 9 mm; once round, 2·(100 + 50) + 2π·1 = 306.28 mm (the arcs as
+  // chords, 0.02 mm shorter); back out 9 mm. Rapids: up from machine zero to Y35 and back, 70 mm.
+  // Feed 324.28 mm / 250 = 1.2971 min; rapid 70 / 1500 = 0.0467 min; heat-up 10 s, handling 60 s.
+  it("a 100 × 50 mm plate: path length and cut time worked by hand", () => {
+    const p = profileProgram(input, cutter());
+    expect(p.parts[0]!.root.leadIn).toEqual({ face: "left", from: [9, 35], to: [9, 35] });
+    expect(p.feedMm).toBeCloseTo(324.28, 1);
+    expect(p.rapidMm).toBeCloseTo(70, 6);
+    expect(p.minutes.feed).toBeCloseTo(324.28 / 250, 3);
+    expect(p.minutes.rapid).toBeCloseTo(70 / 1500, 6);
+    expect(p.minutes.heat).toBeCloseTo(10 / 60, 9);
+    expect(p.minutes.handling).toBe(1);
+    expect(p.minutes.total).toBeCloseTo(324.28 / 250 + 70 / 1500 + 10 / 60 + 1, 3);
+  });
+
+  it("writes the dialect: DIN units, numbered lines, the heat by hand, cautions and the set-up", () => {
+    const p = profileProgram(
+      input,
+      cutter({}, { unitWords: "G70/G71", lineNumbers: true, heatOn: null, heatOff: null }),
+    );
+    const lines = p.gcode.trim().split("\n");
+    expect(lines[0]).toBe("(BLOCKYARD PROFILE PROGRAM: PART PLATE, JOB 1)");
+    expect(p.gcode).toMatch(/\(CAUTION: VENTILATE\. NEVER LEAVE A HOT WIRE UNATTENDED\.\)/);
+    expect(p.gcode).toMatch(/\(CAUTION: NEVER HOT-WIRE POLYURETHANE, PVC OR PIR FOAMS\.\)/);
+    expect(p.gcode).toMatch(/LOWER FACE ON A WASTE SHEET OR SPACERS 10 MM HIGH, ITS LEFT FACE 10 MM FROM X0/);
+    const code = lines.filter((l) => !l.startsWith("("));
+    expect(code[0]).toBe("N10 G71");
+    expect(code.every((l, i) => l.startsWith(`N${(i + 1) * 10} `))).toBe(true);
+    expect(code.filter((l) => / M0$/.test(l))).toHaveLength(2);
+    expect(code.at(-1)).toMatch(/ M2$/);
+  });
+
+  it("in inches on an inch machine", () => {
+    const p = profileProgram(input, cutter({}, { inch: true }));
+    expect(p.gcode).toMatch(/^G20$/m);
+    expect(p.gcode).toMatch(/^G1 X0\.3543 Y1\.378 F9\.8425$/m); // 9 mm, 35 mm, 250 mm/min in inches
+  });
+
+  it("refuses a block cutter, a slab longer than the wire or wider than the travel, naming the limit", () => {
+    expect(() => profileProgram(input, cutter({ kind: "block" }))).toThrow(
+      new ProgramError("Bench cutter is a block cutter: choose a profile cutter."),
+    );
+    expect(() => profileProgram({ ...input, thickness: 1200 }, cutter())).toThrow(
+      "The slab is 1200 mm long along the wire; Bench cutter's wire spans 1000 mm.",
+    );
+    expect(() => profileProgram(input, cutter({ travel: [110, 600] }))).toThrow(
+      "The slab needs 120 mm along X (10 mm of air each side); Bench cutter travels 110 mm.",
+    );
+    expect(() => profileProgram(input, cutter({ travel: [1200, 60] }))).toThrow(
+      "The slab needs 70 mm along Y (10 mm of air above and a 10 mm waste sheet below); Bench cutter travels 60 mm.",
+    );
+  });
+
+  it("cuts a slab's parts in one program, each from its own lead-in, in the order round the ring", () => {
+    const a = partSections(plate(40, 30, 40));
+    const p = profileProgram(
+      {
+        title: "plan 1, block HF-1, slab 1 of 1",
+        size: [200, 60],
+        thickness: 40,
+        parts: [
+          {
+            name: "Right",
+            root: { outer: a.root.outer.map(([u, v]) => [u + 150, v + 10] as Point), holes: [] },
+            tip: a.root,
+            tapered: false,
+          },
+          {
+            name: "Left",
+            root: { outer: a.root.outer.map(([u, v]) => [u + 5, v + 15] as Point), holes: [] },
+            tip: a.root,
+            tapered: false,
+          },
+          {
+            name: "Middle",
+            root: { outer: a.root.outer.map(([u, v]) => [u + 80, v + 5] as Point), holes: [] },
+            tip: a.root,
+            tapered: false,
+          },
+        ],
+        kerf: 1.5,
+        feed: 250,
+      },
+      cutter(),
+    );
+    expect(p.parts.map((q) => [q.name, q.root.leadIn.face, q.order])).toEqual([
+      ["Right", "right", 3],
+      ["Left", "left", 1],
+      ["Middle", "top", 2],
+    ]);
+    const heads = p.gcode.split("\n").filter((l) => l.startsWith("(PART"));
+    expect(heads).toEqual([
+      "(PART 1: LEFT. LEAD-IN FROM THE LEFT FACE, ANTICLOCKWISE)",
+      "(PART 2: MIDDLE. LEAD-IN FROM THE TOP FACE, ANTICLOCKWISE)",
+      "(PART 3: RIGHT. LEAD-IN FROM THE RIGHT FACE, ANTICLOCKWISE)",
+    ]);
+    expect((p.gcode.match(/^M3$/gm) ?? []).length).toBe(1);
+    expect(p.svg).toMatch(/^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg" width="[\d.]+mm" height="[\d.]+mm"/);
+  });
+});
