@@ -1,3 +1,4 @@
+import type { Vec3 } from "@/lib/nesting";
 /**
  * A defect zone marked on one face of a block: the face gives two sides of the box; the third (the
  * depth) cannot be drawn. Until the cutter types it, the zone goes in from the face it was marked
@@ -7,7 +8,6 @@
  *   zoneFromMark({ view: "top", axes: [0, 1], min: [400, 300], max: [460, 380] }, [2440, 1220, 610])
  *   // → { min: [400, 300, 530], max: [460, 380, 610], depthAxis: 2, depth: 80 }
  */
-export type Vec3 = [number, number, number];
 export type Axis = 0 | 1 | 2;
 export type FaceName = "top" | "front" | "side";
 

@@ -1,4 +1,5 @@
-import type { Profile, Size3 } from "@/lib/profiles";
+import type { Profile } from "@/lib/profiles";
+import type { Vec3 } from "@/lib/nesting";
 /** Job and part vocabulary shared by server and client: statuses, rotation rules and their names. */
 export const JOB_STATUSES = ["open", "planned", "cutting", "done", "cancelled"] as const;
 export type JobStatus = (typeof JOB_STATUSES)[number];
@@ -53,7 +54,7 @@ export interface LibraryPart {
   id: number;
   kit: string | null;
   name: string;
-  size: Size3;
+  size: Vec3;
   gradeId: number | null;
   gradeCode: string | null;
   rotate: RotateRule;

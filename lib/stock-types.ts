@@ -1,7 +1,6 @@
 /** Shapes of stock records as the API sends them; shared by query modules and client components. */
 import type { BlockStatus, HoldReason, Material, ShownStatus } from "@/lib/stock";
-
-export type Size = [number, number, number];
+import type { Vec3 } from "@/lib/nesting";
 
 export interface BlockSummary {
   id: number;
@@ -12,7 +11,7 @@ export interface BlockSummary {
   neverHotWire: boolean;
   colour: string;
   lot: string;
-  size: Size;
+  size: Vec3;
   volumeM3: number;
   weightKg: number | null;
   densityKgM3: number | null;

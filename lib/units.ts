@@ -1,3 +1,4 @@
+import type { Vec3 } from "@/lib/nesting";
 /**
  * Lengths are stored in millimetres; volumes derive from them. Display follows the user's choice.
  *
@@ -28,7 +29,7 @@ export const boardFeet = (mm3: number) => mm3 / 1e3 / CM3_PER_BOARD_FOOT;
 export const m3ToBoardFeet = (m3: number) => m3 * BOARD_FEET_PER_M3;
 
 /** kg/m³ from a weight in kg and a size in mm. */
-export const densityKgM3 = (kg: number, size: [number, number, number]) => kg / cubicMetres(...size);
+export const densityKgM3 = (kg: number, size: Vec3) => kg / cubicMetres(...size);
 export const kgM3ToLbFt3 = (kgm3: number) => kgm3 / KG_M3_PER_LB_FT3;
 /** Pressure (compressive resistance) in psi as kPa. */
 export const psiToKpa = (psi: number) => psi * KPA_PER_PSI;

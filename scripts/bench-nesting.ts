@@ -371,7 +371,7 @@ function benchMpv(dir: string): void {
   results.mpv = out;
 }
 
-function brAllowed(flags: [number, number, number]): RotationType[] {
+function brAllowed(flags: Vec3): RotationType[] {
   // binpackingjs: width = l, height (vertical) = h, depth = w; a rotation's 2nd letter is vertical.
   const may: Record<string, number> = { W: flags[0], H: flags[2], D: flags[1] };
   const names = ["WHD", "HWD", "HDW", "DHW", "DWH", "WDH"];

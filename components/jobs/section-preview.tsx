@@ -3,6 +3,7 @@
 import { useEffect, useRef, useState } from "react";
 import { outline, parseNaca, checkOutline, type Point, type Profile } from "@/lib/profiles";
 import { formatLength, mmToIn, type LengthUnit } from "@/lib/units";
+import type { Vec3 } from "@/lib/nesting";
 
 /**
  * A length for a scale bar: the largest 1, 2 or 5 × 10ⁿ in the person's unit not over `maxMm`,
@@ -131,7 +132,7 @@ export function SectionPreview({
   unit = "mm",
 }: {
   profile: Profile | null;
-  size?: [number, number, number];
+  size?: Vec3;
   width?: number;
   height?: number;
   label?: string;

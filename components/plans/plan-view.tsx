@@ -10,8 +10,9 @@
  * darker orange (5.6:1 on the block's paper colour, WCAG 2.1 AA for text).
  */
 import { cutRegions, type RegionCut } from "@/lib/planning/cut-regions";
+import type { Vec3 } from "@/lib/nesting";
 
-type V3 = [number, number, number];
+type V3 = Vec3;
 
 export interface PlanViewProps {
   block: { id: string; size: V3; defects: { min: V3; max: V3 }[] };

@@ -9,12 +9,13 @@ import { Field, Input, Select } from "@/components/ui/field";
 import { priceFor } from "@/lib/purchasing/pricing";
 import { formatMoney } from "@/lib/format";
 import type { PoLine } from "@/lib/purchasing/orders";
+import type { Vec3 } from "@/lib/nesting";
 
 interface GradeOpt {
   id: number;
   code: string;
   priceUnit: "m3" | "bf";
-  blockSize: [number, number, number] | null;
+  blockSize: Vec3 | null;
   lastPrice: number | null;
 }
 interface Line {

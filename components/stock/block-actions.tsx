@@ -6,12 +6,13 @@ import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { ResultNotice } from "@/components/ui/result-notice";
+import type { Vec3 } from "@/lib/nesting";
 
 interface Props {
   blockId: number;
   code: string;
   location: string;
-  size: [number, number, number];
+  size: Vec3;
   canMove: boolean;
   canCorrect: boolean;
   inStock: boolean;

@@ -3,8 +3,8 @@
 import { useId, useRef, useState, type PointerEvent as ReactPointerEvent } from "react";
 import { DEFECT_LABELS, type DefectKind } from "@/lib/stock";
 import { formatLength, type LengthUnit } from "@/lib/units";
+import type { Vec3 } from "@/lib/nesting";
 
-export type Vec3 = [number, number, number];
 export type ViewName = "top" | "front" | "side";
 type Axis = 0 | 1 | 2;
 

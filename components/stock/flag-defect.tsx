@@ -12,7 +12,8 @@ import { LiveNotice, ResultNotice } from "@/components/ui/result-notice";
 import { useAnnounce } from "@/components/ui/announcer";
 import { Field, Input, Select } from "@/components/ui/field";
 import { FACE_AT, depthRange, zoneFromMark } from "@/lib/defect-zone";
-import { FaceViews, type DrawnRect, type Vec3 } from "./face-views";
+import { FaceViews, type DrawnRect } from "./face-views";
+import type { Vec3 } from "@/lib/nesting";
 import { QrScanner } from "./qr-scanner";
 import { ZoneEdit } from "./zone-edit";
 // What this page reads from the API, as the server types it (type-only imports: erased from the

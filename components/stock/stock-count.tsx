@@ -12,8 +12,8 @@ import { Badge, Card } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { ResultNotice } from "@/components/ui/result-notice";
 import { QrScanner } from "./qr-scanner";
+import type { Vec3 } from "@/lib/nesting";
 
-type Size = [number, number, number];
 // What this page reads from the API, as the server's query module types it (type-only imports are
 // erased from the client bundle): a scanned block is checked into a CountedLine.
 type CheckedBlock = CountedLine;
@@ -23,12 +23,12 @@ type CountReport = ScanCountReport;
 interface Counted {
   code: string;
   gradeCode: string;
-  size: Size;
+  size: Vec3;
   recordedLocation: string;
   /** Where it was found. */
   location: string;
   /** The measured size when it was not the register's (mm). */
-  measured: Size | null;
+  measured: Vec3 | null;
 }
 
 interface Saved {
@@ -357,7 +357,7 @@ function ConfirmBlock({
     const where = location.trim();
     if (!where) errors.location = "Say where the block is.";
     else if (where.length > 60) errors.location = "At most 60 characters.";
-    let size: Size | null = null;
+    let size: Vec3 | null = null;
     if (!sizeRight) {
       const mm = measured.map((s, i) => {
         const n = Number(s.trim().replace(/\s/g, ""));
@@ -369,7 +369,7 @@ function ConfirmBlock({
         if (v > 30_000) errors[`size.${i}`] = `${AXES[i]}: at most 30 000 mm.`;
         return v;
       });
-      size = mm as Size;
+      size = mm as Vec3;
     }
     setFields(errors);
     if (Object.keys(errors).length) return;

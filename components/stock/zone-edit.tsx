@@ -9,8 +9,7 @@ import { ResultNotice } from "@/components/ui/result-notice";
 import { Field, Input, Select } from "@/components/ui/field";
 import { useSubmit } from "@/components/ui/use-submit";
 import type { Defect } from "@/db/queries/defects";
-
-type Vec3 = [number, number, number];
+import type { Vec3 } from "@/lib/nesting";
 
 /** What a correction needs of a zone (the server's Defect; a type-only import, erased from the client bundle). */
 export type EditableZone = Pick<Defect, "id" | "kind" | "min" | "max" | "note">;

@@ -16,15 +16,16 @@ import {
 } from "@/lib/stock";
 import type { BlockQuery } from "@/lib/validations/stock";
 
-import type { BlockSummary, Size } from "@/lib/stock-types";
+import type { Vec3 } from "@/lib/nesting";
+import type { BlockSummary } from "@/lib/stock-types";
 
-export type { BlockSummary, Size };
+export type { BlockSummary };
 
 export interface BlockDetail extends BlockSummary {
-  nominalSize: Size;
+  nominalSize: Vec3;
   deliveryId: number | null;
   parentCode: string | null;
-  originInParent: Size | null;
+  originInParent: Vec3 | null;
   notes: string | null;
   poRef: string | null;
   cureDays: number;
@@ -46,7 +47,7 @@ type Row = BlocksRow &
   };
 
 function toSummary(r: Row, today: string): BlockSummary {
-  const size: Size = [Number(r.size_x), Number(r.size_y), Number(r.size_z)];
+  const size: Vec3 = [Number(r.size_x), Number(r.size_y), Number(r.size_z)];
   const volume = Number(r.volume_m3);
   const weight = r.weight_kg === null ? null : Number(r.weight_kg);
   // DATE columns arrive as their 'YYYY-MM-DD' text (db/types.ts).
@@ -294,7 +295,7 @@ export async function getBlock(idOrCode: number | string, today = isoDate()): Pr
     nominalSize: [Number(r.nominal_x), Number(r.nominal_y), Number(r.nominal_z)],
     deliveryId: r.delivery_id,
     parentCode: r.parent_code ?? null,
-    originInParent: r.origin_in_parent ? (r.origin_in_parent.map(Number) as Size) : null,
+    originInParent: r.origin_in_parent ? (r.origin_in_parent.map(Number) as Vec3) : null,
     notes: r.notes,
     poRef: r.po_ref ?? null,
     cureDays: r.cure_days,
@@ -304,9 +305,9 @@ export async function getBlock(idOrCode: number | string, today = isoDate()): Pr
 
 export async function listChildren(
   parentId: number,
-): Promise<{ id: number; code: string; size: Size; status: BlockStatus }[]> {
+): Promise<{ id: number; code: string; size: Vec3; status: BlockStatus }[]> {
   const rows = await db()("blocks").where({ parent_id: parentId }).orderBy("id");
-  return rows.map((r) => ({ id: r.id, code: r.code, size: [r.size_x, r.size_y, r.size_z] as Size, status: r.status }));
+  return rows.map((r) => ({ id: r.id, code: r.code, size: [r.size_x, r.size_y, r.size_z] as Vec3, status: r.status }));
 }
 
 export async function listLocations(): Promise<string[]> {
@@ -349,7 +350,7 @@ export async function scrapBlock(id: number, reason: string, actorId: string) {
 }
 
 /** Re-measures a block; the ledger records the change in volume. */
-export async function adjustBlock(id: number, size: Size, reason: string, actorId: string) {
+export async function adjustBlock(id: number, size: Vec3, reason: string, actorId: string) {
   await db().transaction(async (trx) => {
     const b = await lockAvailable(trx, id);
     const before = Number(b.volume_m3);

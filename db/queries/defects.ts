@@ -7,7 +7,7 @@ import { HttpError } from "@/lib/errors";
 import type { Role } from "@/lib/roles";
 import { DEFECT_LABELS, type DefectKind } from "@/lib/stock";
 import type { DefectInput, DefectPatch } from "@/lib/validations/stock";
-import type { Size } from "./blocks";
+import type { Vec3 } from "@/lib/nesting";
 
 export interface DefectPhoto {
   id: number;
@@ -22,8 +22,8 @@ export interface Defect {
   id: number;
   blockId: number;
   kind: DefectKind;
-  min: Size;
-  max: Size;
+  min: Vec3;
+  max: Vec3;
   foundBy: string | null;
   /** The user id of who flagged it (they may correct or remove it, as may a planner). */
   foundById: string | null;
@@ -151,8 +151,8 @@ export function mayChangeZone(zone: { foundById: string | null }, user: { id: st
 type ZoneRow = Record<string, unknown> & { id: number; block_id: number; found_by: string | null };
 const boxOf = (r: ZoneRow) => ({
   kind: r.kind as DefectKind,
-  min: [Number(r.min_x), Number(r.min_y), Number(r.min_z)] as Size,
-  max: [Number(r.max_x), Number(r.max_y), Number(r.max_z)] as Size,
+  min: [Number(r.min_x), Number(r.min_y), Number(r.min_z)] as Vec3,
+  max: [Number(r.max_x), Number(r.max_y), Number(r.max_z)] as Vec3,
   note: (r.note as string | null) ?? null,
 });
 
@@ -161,7 +161,7 @@ async function zoneForChange(
   trx: Knex.Transaction,
   id: number,
   user: { id: string; roles: readonly Role[] },
-): Promise<ZoneRow & { code: string; size: Size }> {
+): Promise<ZoneRow & { code: string; size: Vec3 }> {
   const z = (await trx("defect_zones as z")
     .join("blocks as b", "b.id", "z.block_id")
     .where("z.id", id)

@@ -5,6 +5,7 @@ import { applyCount, countBlocks, countProblem, type CountChange } from "./stock
 import { cellReader, parseCsv, problemSummary, type CsvProblem } from "@/lib/csv";
 import { receivedCodeProblem } from "@/lib/block-code";
 import type { DeliveryInput } from "@/lib/validations/stock";
+import type { Vec3 } from "@/lib/nesting";
 
 export const DELIVERY_COLUMNS = {
   required: ["supplier", "received_on", "lot", "grade", "length_mm", "width_mm", "height_mm", "cost", "location"],
@@ -140,7 +141,7 @@ export async function importDeliveries(
       problems.push({ row, column: "nominal_length_mm", message: "Give all three nominal sizes, or none." });
     }
     if (problems.length > before) return;
-    const s = size as [number, number, number];
+    const s = size as Vec3;
     const v = (s[0] * s[1] * s[2]) / 1e9;
     if (weight && grade!.min !== null && weight / v < grade!.min) {
       warnings.push({
@@ -161,7 +162,7 @@ export async function importDeliveries(
       code,
       gradeId: grade!.id,
       size: s,
-      nominalSize: nominalCells.every((x) => x !== null) ? (nominalCells as [number, number, number]) : null,
+      nominalSize: nominalCells.every((x) => x !== null) ? (nominalCells as Vec3) : null,
       weightKg: weight,
       cost: price!,
       location: location!,
@@ -240,7 +241,7 @@ export async function importStockCount(
       block,
       location: location!,
       present,
-      size: dims.every((d) => d !== null) ? (dims as [number, number, number]) : null,
+      size: dims.every((d) => d !== null) ? (dims as Vec3) : null,
       note,
     });
   });

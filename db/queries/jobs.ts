@@ -4,9 +4,10 @@ import { db } from "@/db";
 import { HttpError } from "@/lib/errors";
 import { cellReader, parseCsv, problemSummary, type CsvProblem } from "@/lib/csv";
 import { PART_CSV_COLUMNS, ROTATE_RULES, type JobStatus, type RotateRule } from "@/lib/job-terms";
-import { ProfileError, partGeometry, parsePoints, parseNaca, type Profile, type Size3 } from "@/lib/profiles";
+import { ProfileError, partGeometry, parsePoints, parseNaca, type Profile } from "@/lib/profiles";
 import type { ImportReport } from "./imports";
 import type { JobInput, JobPartPatch, JobPatch, JobQuery, PartInput } from "@/lib/validations/jobs";
+import type { Vec3 } from "@/lib/nesting";
 
 export interface Job {
   id: number;
@@ -32,7 +33,7 @@ export interface JobPart {
   name: string;
   quantity: number;
   /** Bounding box for nesting, mm: x along the wire. */
-  size: Size3;
+  size: Vec3;
   rotate: RotateRule;
   gradeId: number | null;
   gradeCode: string | null;
@@ -161,8 +162,8 @@ export async function listJobParts(jobIds: number[], k: Knex = db()): Promise<Jo
  * The nesting box and true volume of a part: from its profile when it has one (a size sent with a
  * profile is ignored), else the size given. A bad profile is a 400 naming the profile field.
  */
-export function resolveGeometry(p: { size?: Size3 | null; profile?: Profile | null }): {
-  size: Size3;
+export function resolveGeometry(p: { size?: Vec3 | null; profile?: Profile | null }): {
+  size: Vec3;
   trueVolumeMm3: number | null;
 } {
   if (p.profile) {
@@ -252,7 +253,7 @@ function partRow(
     profile: Profile | null;
     libraryPartId?: number | null;
   },
-  g: { size: Size3; trueVolumeMm3: number | null },
+  g: { size: Vec3; trueVolumeMm3: number | null },
 ) {
   return {
     job_id: jobId,
@@ -523,7 +524,7 @@ export async function importJobParts(
     }
 
     let profile: Profile | null = null;
-    let size: Size3 | null = null;
+    let size: Vec3 | null = null;
     if (naca) {
       try {
         parseNaca(naca);
@@ -555,7 +556,7 @@ export async function importJobParts(
         (v, k) => v === null && add(names[k]!, "Required for a plain part (or give a NACA section or a polygon)."),
       );
       if (problems.length > before) return;
-      size = box as Size3;
+      size = box as Vec3;
     }
     for (const [col, v] of [
       ["tip_chord_mm", tip],
@@ -568,7 +569,7 @@ export async function importJobParts(
     if (extrude !== null && !polygon) add("extrude_mm", "Only used with a polygon; leave it empty.");
     if (problems.length > before) return;
 
-    let g: { size: Size3; trueVolumeMm3: number | null } = { size: size!, trueVolumeMm3: null };
+    let g: { size: Vec3; trueVolumeMm3: number | null } = { size: size!, trueVolumeMm3: null };
     if (profile) {
       try {
         g = partGeometry(profile);

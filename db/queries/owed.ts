@@ -3,6 +3,7 @@ import type { Knex } from "knex";
 import { db } from "@/db";
 import type { Plan } from "@/lib/nesting";
 import { partIdFromKey, type PartForPlan } from "@/lib/planning/problem";
+import type { Vec3 } from "@/lib/nesting";
 
 /** Parts of jobs with how many are still owed (ordered minus good parts already cut). */
 export async function owedParts(
@@ -31,7 +32,7 @@ export async function owedParts(
     jobId: r.job_id as number,
     name: r.name as string,
     quantity: Math.max(0, (r.quantity as number) - Number(r.done)),
-    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as [number, number, number],
+    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as Vec3,
     rotate: r.rotate as PartForPlan["rotate"],
     gradeCode: (r.grade_code as string | null) ?? null,
     trueVolumeMm3: r.true_volume_mm3 === null ? null : Number(r.true_volume_mm3),

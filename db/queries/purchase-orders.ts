@@ -16,6 +16,7 @@ import { receivingCheck } from "@/lib/purchasing/reorder";
 import { addDays, isoDate } from "@/lib/stock";
 import type { PurchaseOrderInput, ReceivePoInput } from "@/lib/validations/purchasing";
 import type { DeliveryInput } from "@/lib/validations/stock";
+import type { Vec3 } from "@/lib/nesting";
 
 type Db = Knex | Knex.Transaction;
 
@@ -464,7 +465,7 @@ export async function receiveAgainstOrder(
           code: b.code ?? null,
           gradeId: l.grade_id,
           size: b.size,
-          nominalSize: [Number(l.size_x), Number(l.size_y), Number(l.size_z)] as [number, number, number],
+          nominalSize: [Number(l.size_x), Number(l.size_y), Number(l.size_z)] as Vec3,
           weightKg: b.weightKg ?? null,
           cost: b.cost ?? priceFor(volume, Number(l.price), l.price_unit),
           location: b.location,

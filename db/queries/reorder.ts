@@ -14,6 +14,7 @@ import { dailyStats, partStockM3, planReorder, type ReorderResult, type Source }
 import { addDays, isoDate } from "@/lib/stock";
 import { m3ToBoardFeet } from "@/lib/units";
 import type { GradeReorderInput, ReorderSettings, ReorderSettingsInput } from "@/lib/validations/purchasing";
+import type { Vec3 } from "@/lib/nesting";
 
 export const DEFAULT_REORDER_SETTINGS: ReorderSettings = {
   serviceLevel: 0.95,
@@ -144,7 +145,7 @@ export interface ReorderRow {
   onHand: number;
   onOrder: number;
   inDraft: number;
-  blockSize: [number, number, number] | null;
+  blockSize: Vec3 | null;
   blockVolume: number;
   /** What the shop last paid, in the grade's price unit (from the newest delivered block). */
   lastPrice: number | null;
@@ -305,9 +306,7 @@ export async function listReorder(opts: { today?: string; gradeIds?: number[] } 
     const pick = (override: unknown, computed: number, source: Source): ReorderInput<number> =>
       n(override) !== null ? { value: n(override)!, source: "override" } : { value: computed, source };
     const lb = last.get(g.id);
-    const blockSize = lb
-      ? ([Number(lb.nominal_x), Number(lb.nominal_y), Number(lb.nominal_z)] as [number, number, number])
-      : null;
+    const blockSize = lb ? ([Number(lb.nominal_x), Number(lb.nominal_y), Number(lb.nominal_z)] as Vec3) : null;
     const blockVolume = blockSize ? (blockSize[0] * blockSize[1] * blockSize[2]) / 1e9 : 0;
     const lastPrice =
       lb && Number(lb.volume_m3) > 0
@@ -404,7 +403,7 @@ interface OpenPart {
   jobId: number;
   gradeId: number;
   dueOn: string | null;
-  size: [number, number, number];
+  size: Vec3;
   /** Ordered less good parts cut (rejects and parts not cut stay owed). */
   owed: number;
 }

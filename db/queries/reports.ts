@@ -4,6 +4,7 @@ import { db } from "@/db";
 import { combineBasis, materialYield, type VolumeBasis } from "@/lib/reports/yield";
 import { addDays, isoDate } from "@/lib/stock";
 import { m3ToBoardFeet } from "@/lib/units";
+import type { Vec3 } from "@/lib/nesting";
 
 /** A report period, inclusive dates. */
 export interface Period {
@@ -126,7 +127,7 @@ export async function yieldReport(p: Period): Promise<YieldReport> {
   const total = yieldRow(
     "total",
     "All blocks cut",
-    ...blocks.reduce<[number, number, number]>(
+    ...blocks.reduce<Vec3>(
       (s, b) => [s[0] + Number(b.part), s[1] + Number(b.issued), s[2] + Number(b.offcut)],
       [0, 0, 0],
     ),

@@ -11,6 +11,7 @@ import { MAX_PIECES } from "@/lib/nesting/parse";
 import { buildProblem, partIdFromKey, partKey, type StockForPlan } from "@/lib/planning/problem";
 import type { RunSettings } from "@/lib/validations/runs";
 import { leftOutLine, whyUnusable, type LeftOut } from "@/lib/planning/usable";
+import type { Vec3 } from "@/lib/nesting";
 
 /** Planning a nesting run: the stock it may use, the parts still owed, and the queued run itself. */
 
@@ -63,7 +64,7 @@ async function stockForPlan(
   return rows.map((r: Record<string, unknown>) => ({
     id: r.id as number,
     code: r.code as string,
-    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as [number, number, number],
+    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as Vec3,
     gradeCode: r.grade_code as string,
     cost: Number(r.cost),
     isOffcut: r.parent_id !== null,
@@ -74,8 +75,8 @@ async function stockForPlan(
       .filter((d: { block_id: number }) => d.block_id === r.id)
       .map((d) => ({
         id: d.id,
-        min: [d.min_x, d.min_y, d.min_z] as [number, number, number],
-        max: [d.max_x, d.max_y, d.max_z] as [number, number, number],
+        min: [d.min_x, d.min_y, d.min_z] as Vec3,
+        max: [d.max_x, d.max_y, d.max_z] as Vec3,
       })),
   }));
 }
@@ -84,7 +85,7 @@ export interface Candidate {
   id: number;
   code: string;
   gradeCode: string;
-  size: [number, number, number];
+  size: Vec3;
   volumeM3: number;
   cost: number;
   isOffcut: boolean;
@@ -140,7 +141,7 @@ export async function candidateStock(
     id: r.id as number,
     code: r.code as string,
     gradeCode: r.grade_code as string,
-    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as [number, number, number],
+    size: [Number(r.size_x), Number(r.size_y), Number(r.size_z)] as Vec3,
     volumeM3: Number(r.volume_m3),
     cost: Number(r.cost),
     isOffcut: r.parent_id !== null,

@@ -5,8 +5,8 @@ import type { BlocksInsert } from "@/db/tables";
 import { appendLedger } from "./ledger";
 import { describeCharacter } from "@/lib/block-code";
 import { HttpError } from "@/lib/errors";
-import type { Size } from "@/lib/stock-types";
 import type { ScanCountInput } from "@/lib/validations/stock-count";
+import type { Vec3 } from "@/lib/nesting";
 
 /**
  * Stock counts: what a count found, checked against the register and reconciled in the ledger.
@@ -23,7 +23,7 @@ export interface CountBlock {
   code: string;
   status: string;
   location: string;
-  size: Size;
+  size: Vec3;
   volume: number;
   cost: number;
   gradeCode: string;
@@ -36,7 +36,7 @@ export interface CountChange {
   location: string;
   present: boolean;
   /** The measured size, when someone measured it. */
-  size: Size | null;
+  size: Vec3 | null;
   note: string | null;
 }
 
@@ -191,21 +191,21 @@ export interface CountedLine {
   gradeCode: string;
   status: string;
   /** The size in the register (mm). */
-  size: Size;
+  size: Vec3;
   /** Where the register has it. */
   recordedLocation: string;
   /** Where it was found. */
   location: string;
   moved: boolean;
   /** The measured size when it differs from the register's. */
-  remeasured: Size | null;
+  remeasured: Vec3 | null;
 }
 
 /** A block of the place counted that nobody counted. */
 export interface MissingLine {
   code: string;
   gradeCode: string;
-  size: Size;
+  size: Vec3;
   location: string;
   /** Earmarked for a plan: listed, not written off (the planner releases it first). */
   earmarked: boolean;
@@ -235,7 +235,7 @@ export async function checkCountedBlock(code: string): Promise<CountedLine> {
   return line(block, block.location, null);
 }
 
-function line(block: CountBlock, location: string, size: Size | null): CountedLine {
+function line(block: CountBlock, location: string, size: Vec3 | null): CountedLine {
   const remeasured = size?.some((v, i) => Math.abs(v - block.size[i]!) > 1e-6) ? size : null;
   return {
     code: block.code,

@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import type { StockLedgerInsert } from "../tables";
+import type { Vec3 } from "../../lib/nesting";
 
 /**
  * Demo stock for Hollowfield Foamworks (invented): grades, three invented suppliers, about 60
@@ -127,7 +128,7 @@ const SUPPLIERS = [
 ];
 
 const LOCATIONS = ["Bay A – rack 1", "Bay A – rack 2", "Bay B – floor", "Bay C – offcut shelves", "Curing room"];
-const SIZES: [number, number, number][] = [
+const SIZES: Vec3[] = [
   [4877, 1219, 1219], // 16 × 4 × 4 ft
   [3658, 1219, 610], // 12 × 4 × 2 ft
   [4000, 1200, 1000],
@@ -188,11 +189,11 @@ export async function seed(knex: Knex): Promise<void> {
     for (let j = 0; j < count; j++) {
       const size =
         grade.material === "XPS"
-          ? ([2440, 1220, 100] as [number, number, number])
+          ? ([2440, 1220, 100] as Vec3)
           : grade.material === "PU"
-            ? ([1220, 610, 150] as [number, number, number])
+            ? ([1220, 610, 150] as Vec3)
             : pick(SIZES);
-      const measured = size.map((s) => Math.round(s * (0.997 + r() * 0.004))) as [number, number, number];
+      const measured = size.map((s) => Math.round(s * (0.997 + r() * 0.004))) as Vec3;
       const vol = (measured[0] * measured[1] * measured[2]) / 1e9;
       const density = Number(grade.nominal_density_kg_m3) * (0.93 + r() * 0.12);
       const pricePerM3 = grade.material === "PU" ? 2900 : 55 + Number(grade.nominal_density_kg_m3) * 2.2;

@@ -5,6 +5,7 @@ import { deliver } from "../../lib/mail/transport";
 import { lowStockMail, purchaseOrderMail } from "../../lib/mail/messages";
 import { priceFor } from "../../lib/purchasing/pricing";
 import type { PoLine, PurchaseOrder } from "../../lib/purchasing/orders";
+import type { Vec3 } from "../../lib/nesting";
 
 /**
  * Demo purchasing for Hollowfield Foamworks (invented): reorder settings with two grade
@@ -20,7 +21,7 @@ const day = (offset: number) => {
 const iso = (d: Date) =>
   `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, "0")}-${String(d.getDate()).padStart(2, "0")}`;
 
-type LineSeed = { grade: string; size: [number, number, number]; quantity: number; price: number; note?: string };
+type LineSeed = { grade: string; size: Vec3; quantity: number; price: number; note?: string };
 
 export async function seed(knex: Knex): Promise<void> {
   // DELETE, not TRUNCATE … CASCADE: deliveries refer to orders, and a cascade would empty the stock.
@@ -162,15 +163,12 @@ export async function seed(knex: Knex): Promise<void> {
       volume_m3: number;
       cost: number;
     }[];
-    const groups = new Map<
-      string,
-      { grade: string; size: [number, number, number]; n: number; m3: number; cost: number }
-    >();
+    const groups = new Map<string, { grade: string; size: Vec3; n: number; m3: number; cost: number }>();
     for (const b of blocks) {
       const key = `${b.code}|${b.nominal_x}|${b.nominal_y}|${b.nominal_z}`;
       const g = groups.get(key) ?? {
         grade: b.code,
-        size: [Number(b.nominal_x), Number(b.nominal_y), Number(b.nominal_z)] as [number, number, number],
+        size: [Number(b.nominal_x), Number(b.nominal_y), Number(b.nominal_z)] as Vec3,
         n: 0,
         m3: 0,
         cost: 0,
@@ -220,7 +218,7 @@ export async function seed(knex: Knex): Promise<void> {
     );
   }
 
-  const big: [number, number, number] = [4877, 1219, 1219];
+  const big: Vec3 = [4877, 1219, 1219];
   const sent = await order({
     supplierId: north.id,
     status: "sent",

@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import { partGeometry, type Point, type Profile } from "../../lib/profiles";
+import type { Vec3 } from "../../lib/nesting";
 
 /**
  * Demo jobs for Hollowfield Foamworks (all invented): a part library with the "Kestrel 1.6 m"
@@ -10,7 +11,7 @@ import { partGeometry, type Point, type Profile } from "../../lib/profiles";
 
 type Part = {
   name: string;
-  size?: [number, number, number];
+  size?: Vec3;
   profile?: Profile;
   rotate?: "any" | "z" | "none";
   quantity: number;

@@ -1,7 +1,8 @@
 import type { Cut } from "@/lib/nesting";
 import { AXIS_NAMES, separate } from "@/lib/nesting/geometry";
+import type { Vec3 } from "@/lib/nesting";
 
-type V3 = [number, number, number];
+type V3 = Vec3;
 export interface Box {
   min: V3;
   max: V3;

@@ -1,3 +1,4 @@
+import type { Vec3 } from "@/lib/nesting";
 /**
  * Where a block's volume went when it was cut: good part blanks, rejected blanks, offcuts kept,
  * face trim, kerf, defect cut-outs and unusable leftovers. The parts add up to the block exactly.
@@ -5,7 +6,7 @@
  *   lossBreakdown({ size: [1000, 1000, 1000], trim: 0, kerf: 0, cuts: [], blanks: [[1000, 1000, 500]],
  *                   rejected: [], offcuts: [], defects: [] }).unusable  // 0.5 (m³)
  */
-type V3 = [number, number, number];
+type V3 = Vec3;
 
 export interface LossInput {
   size: V3;

@@ -1,20 +1,21 @@
 import type { Problem } from "@/lib/nesting";
 import type { RunSettings } from "@/lib/validations/runs";
+import type { Vec3 } from "@/lib/nesting";
 
 export interface StockForPlan {
   id: number;
   code: string;
-  size: [number, number, number];
+  size: Vec3;
   gradeCode: string;
   cost: number;
   isOffcut: boolean;
-  defects: { id: number; min: [number, number, number]; max: [number, number, number] }[];
+  defects: { id: number; min: Vec3; max: Vec3 }[];
 }
 
 export interface PartForPlan {
   id: number;
   name: string;
-  size: [number, number, number];
+  size: Vec3;
   quantity: number;
   gradeCode: string | null;
   rotate: "any" | "z" | "none";
@@ -33,7 +34,7 @@ export const partIdFromKey = (key: string) => Number(key.replace(/^jp-/, ""));
 export function buildProblem(parts: PartForPlan[], stock: StockForPlan[], settings: RunSettings): Problem {
   return {
     version: 1,
-    settings: { ...settings, minOffcut: [...settings.minOffcut] as [number, number, number] },
+    settings: { ...settings, minOffcut: [...settings.minOffcut] as Vec3 },
     blocks: stock.map((b) => ({
       id: b.code,
       size: b.size,

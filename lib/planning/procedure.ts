@@ -100,7 +100,7 @@ export type Procedure =
 export type OkProcedure = Extract<Procedure, { ok: true }>;
 
 /** Block axis indices along [X, wire, Y]. */
-type O = [number, number, number];
+type O = Vec3;
 const ORIENTS: readonly O[] = [
   [0, 1, 2],
   [1, 0, 2],

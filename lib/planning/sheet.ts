@@ -1,6 +1,7 @@
 import type { Cut } from "@/lib/nesting";
+import type { Vec3 } from "@/lib/nesting";
 
-type V3 = [number, number, number];
+type V3 = Vec3;
 
 /** One line of a cut sheet's parts table: a part in one orientation, how many, and where. */
 export interface PartLine {

@@ -1,4 +1,5 @@
 import { orientations } from "@/lib/nesting/geometry";
+import type { Vec3 } from "@/lib/nesting";
 
 /** A block a plan leaves out of its problem, and why (in the shop's words, naming it by code). */
 export interface LeftOut {
@@ -9,13 +10,13 @@ export interface LeftOut {
 
 interface BlockLike {
   code: string;
-  size: [number, number, number];
+  size: Vec3;
   gradeCode: string | null;
   isOffcut: boolean;
 }
 
 interface PartLike {
-  size: [number, number, number];
+  size: Vec3;
   rotate: "any" | "z" | "none";
   gradeCode: string | null;
   quantity: number;
@@ -32,7 +33,7 @@ interface PartLike {
  */
 export function whyUnusable(block: BlockLike, parts: PartLike[], trim: number): string | null {
   const t = block.isOffcut ? 0 : trim;
-  const usable = block.size.map((s) => s - 2 * t) as [number, number, number];
+  const usable = block.size.map((s) => s - 2 * t) as Vec3;
   const size = `${block.size.join(" × ")} mm`;
   if (usable.some((u) => u <= 0)) return `the ${t} mm face trim leaves no usable material (${size})`;
   const owed = parts.filter((p) => p.quantity > 0);

@@ -1,5 +1,6 @@
 import type { Cut } from "@/lib/nesting";
 import { cutRegions, travelAcross, type Box } from "./cut-regions";
+import type { Vec3 } from "@/lib/nesting";
 
 /**
  * Wire travel for a block's through cuts (mm) and the time at `feed` mm/min: each cut crosses the
@@ -7,7 +8,7 @@ import { cutRegions, travelAcross, type Box } from "./cut-regions";
  * whole block is assumed for every cut, which errs high.
  */
 export function cutEstimate(
-  size: [number, number, number],
+  size: Vec3,
   cuts: Cut[],
   feed: number,
   clearance = 10,

@@ -31,6 +31,7 @@ import {
   type Piece,
 } from "./import-common";
 import type { Point } from "./polygon";
+import type { Vec3 } from "@/lib/nesting";
 
 export interface DxfImportOptions {
   /** The file's name, for the profiles' names and source. */
@@ -380,16 +381,11 @@ export function bulgeArc(a: Point, b: Point, bulge: number, tol: number): Point[
  * A B-spline's point at u by de Boor's algorithm, in homogeneous coordinates so rational splines
  * (weights) come out right (Piegl & Tiller, The NURBS Book, algorithm A4.1 in spirit; from memory).
  */
-export function deBoor(
-  u: number,
-  degree: number,
-  knots: readonly number[],
-  ctrl: readonly [number, number, number][],
-): Point {
+export function deBoor(u: number, degree: number, knots: readonly number[], ctrl: readonly Vec3[]): Point {
   const n = ctrl.length;
   let s = degree;
   while (s < n - 1 && u >= knots[s + 1]!) s++;
-  const d = Array.from({ length: degree + 1 }, (_, j) => [...ctrl[j + s - degree]!] as [number, number, number]);
+  const d = Array.from({ length: degree + 1 }, (_, j) => [...ctrl[j + s - degree]!] as Vec3);
   for (let r = 1; r <= degree; r++) {
     for (let j = degree; j >= r; j--) {
       const i = j + s - degree;
@@ -423,7 +419,7 @@ function splinePoints(e: AnyEntity, weights: number[], tol: number, label: strin
   if (ctrlPts.length >= 2 && knots.length === ctrlPts.length + degree + 1 && degree >= 1) {
     const w = weights.length === ctrlPts.length ? weights : ctrlPts.map(() => 1);
     if (w.some((v) => !(v > 0))) return `${label} has a weight that is not positive.`;
-    const ctrl = ctrlPts.map((p, i): [number, number, number] => [p.x * w[i]!, p.y * w[i]!, w[i]!]);
+    const ctrl = ctrlPts.map((p, i): Vec3 => [p.x * w[i]!, p.y * w[i]!, w[i]!]);
     const lo = knots[degree]!,
       hi = knots[ctrlPts.length]!;
     if (!(hi > lo)) return `${label} has no length: its knots do not span anything.`;

@@ -5,8 +5,7 @@
  */
 import { ProfileError, parseNaca, sectionArea, sectionBox } from "./naca";
 import { checkOutline, outlineArea, polygonBounds, type Point } from "./polygon";
-
-export type Size3 = [number, number, number];
+import type { Vec3 } from "@/lib/nesting";
 
 /** A 2-axis part: one outline in the cutting plane, extruded along the wire. */
 export interface PolygonProfile {
@@ -39,7 +38,7 @@ export type Profile = PolygonProfile | NacaProfile;
 
 export interface PartGeometry {
   /** Bounding box for nesting, mm: x along the wire, y across, z up. */
-  size: Size3;
+  size: Vec3;
   /** Foam in the finished part, mm³. */
   trueVolumeMm3: number;
 }
@@ -106,5 +105,5 @@ export function polygonPartGeometry(p: PolygonProfile): PartGeometry {
 export function partGeometry(p: Profile): PartGeometry {
   const g = p.kind === "naca" ? nacaPanelGeometry(p) : polygonPartGeometry(p);
   // Rounded up to 0.01 mm (the database's precision) so the box always contains the part.
-  return { size: g.size.map((v) => Math.ceil(v * 100 - 1e-6) / 100) as Size3, trueVolumeMm3: g.trueVolumeMm3 };
+  return { size: g.size.map((v) => Math.ceil(v * 100 - 1e-6) / 100) as Vec3, trueVolumeMm3: g.trueVolumeMm3 };
 }

@@ -8,6 +8,7 @@
 import { toCsv } from "@/lib/csv";
 import { m3ToBoardFeet } from "@/lib/units";
 import type { PriceUnit } from "./pricing";
+import type { Vec3 } from "@/lib/nesting";
 
 export const PO_STATUSES = ["draft", "sent", "part_received", "closed", "cancelled"] as const;
 export type PoStatus = (typeof PO_STATUSES)[number];
@@ -59,7 +60,7 @@ export interface PoLine {
   gradeId: number;
   gradeCode: string;
   gradeLabel: string;
-  size: [number, number, number];
+  size: Vec3;
   quantity: number;
   price: number;
   priceUnit: PriceUnit;

@@ -1,3 +1,4 @@
+import type { Vec3 } from "@/lib/nesting";
 /**
  * Reorder arithmetic, pure: no database, no clock. Quantities in m³ of foam; time in working days
  * of the shop calendar (lib/purchasing/calendar.ts): d and σd per working day, L and σL in working
@@ -76,7 +77,7 @@ export function reorderPoint(dailyDemand: number, leadTimeDays: number, safety: 
  *
  *   partStockM3([1000, 500, 100], 2)  // 1.002 × 0.502 × 0.102 = 0.05131
  */
-export function partStockM3(size: readonly [number, number, number], kerfMm: number): number {
+export function partStockM3(size: Readonly<Vec3>, kerfMm: number): number {
   const k = Math.max(0, kerfMm);
   return ((size[0] + k) * (size[1] + k) * (size[2] + k)) / 1e9;
 }

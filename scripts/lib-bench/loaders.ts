@@ -138,7 +138,7 @@ export function loadMpv(dir: string, classes: number[]): Mpv[] {
 
 export interface BrBox {
   dims: Vec3; // l, w, h
-  flags: [number, number, number]; // may be vertical: l, w, h
+  flags: Vec3; // may be vertical: l, w, h
   count: number;
 }
 

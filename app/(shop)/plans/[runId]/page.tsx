@@ -25,6 +25,7 @@ import { partIdFromKey } from "@/lib/planning/problem";
 import { leftOutLine } from "@/lib/planning/usable";
 import { planProfiles, profileTime } from "@/db/queries/profile-programs";
 import { formatVolume } from "@/lib/units";
+import type { Vec3 } from "@/lib/nesting";
 
 export async function generateMetadata({ params }: { params: Promise<{ runId: string }> }): Promise<Metadata> {
   return { title: `Plan #${(await params).runId}` };
@@ -384,7 +385,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                       id: b.id,
                       size: b.size,
                       defects: b.defects.map((d) => ({
-                        min: d.min.map((v) => Math.max(0, v - run.settings.defectMargin)) as [number, number, number],
+                        min: d.min.map((v) => Math.max(0, v - run.settings.defectMargin)) as Vec3,
                         max: d.max.map((v, i) => Math.min(b.size[i]!, v + run.settings.defectMargin)) as [
                           number,
                           number,
