@@ -111,6 +111,9 @@ describe("the planner's and the cutter's loop", () => {
       { name: "Arch segment", quantity: 2, size: [900, 300, 200], gradeCode: "EPS-II" },
     ]);
     const b = await makeJobWithParts([{ name: "Plinth", quantity: 1, size: [600, 600, 300], gradeCode: "EPS-II" }]);
+    // Due before any other job, so they head the chooser (soonest due first) however many jobs
+    // other test files have left open; the chooser's search is tested below.
+    await testDb()("jobs").whereIn("id", [a.jobId, b.jobId]).update({ due_on: "2001-01-01" });
     const names = await testDb()("jobs").whereIn("id", [a.jobId, b.jobId]).orderBy("id").pluck("name");
     for (const viewport of [VIEWPORTS.tablet, VIEWPORTS.wide]) {
       const planner = await signedIn("planner", viewport);
@@ -125,6 +128,15 @@ describe("the planner's and the cutter's loop", () => {
       for (const name of names) expect(lead).toContain(name);
       await planner.close();
     }
+    // The chooser's search finds a job by name, and only the jobs that match.
+    const planner = await signedIn("planner", VIEWPORTS.tablet);
+    await planner.goto(`${BASE_URL}/plans/new`);
+    await planner.getByLabel("Find a job by name or customer").fill(names[1]!);
+    await planner.getByRole("button", { name: "Find", exact: true }).click();
+    await planner.waitForURL(/\/plans\/new\?q=/);
+    await planner.getByRole("checkbox", { name: new RegExp(names[1]!) }).waitFor();
+    expect(await planner.getByRole("checkbox").count()).toBe(1);
+    await planner.close();
   });
 });
 

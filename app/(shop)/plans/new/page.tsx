@@ -12,6 +12,9 @@ import { NewRunForm } from "@/components/plans/new-run-form";
 
 export const metadata: Metadata = { title: "New plan" };
 
+/** Open jobs listed in the chooser at most, soonest due first; the rest are found by name. */
+const JOBS_SHOWN = 300;
+
 /** `?jobs=3,5` (from a job's page) or `?job=3&job=5` (from the chooser below). */
 function chosenJobs(q: { jobs?: string; job?: string | string[] }): number[] {
   const raw = [q.jobs ?? "", ...[q.job ?? []].flat()].join(",");
@@ -28,12 +31,14 @@ function chosenJobs(q: { jobs?: string; job?: string | string[] }): number[] {
 export default async function NewPlanPage({
   searchParams,
 }: {
-  searchParams: Promise<{ jobs?: string; job?: string | string[] }>;
+  searchParams: Promise<{ jobs?: string; job?: string | string[]; q?: string }>;
 }) {
   await requirePage("/plans/new");
-  const jobIds = chosenJobs(await searchParams);
+  const sp = await searchParams;
+  const jobIds = chosenJobs(sp);
   if (!jobIds.length) {
-    const { items } = await listJobs({ status: "active", page: 1, pageSize: 200 });
+    const q = typeof sp.q === "string" ? sp.q.trim().slice(0, 60) : "";
+    const { items, total } = await listJobs({ status: "active", page: 1, pageSize: JOBS_SHOWN, q: q || undefined });
     const open = items.filter((j) => j.pieceCount > 0);
     return (
       <>
@@ -41,8 +46,32 @@ export default async function NewPlanPage({
           title="New plan"
           lead="Choose the jobs to nest together: their parts share the stock you pick next."
         />
+        <form method="get" action="/plans/new" className="mb-4 flex flex-wrap items-end gap-2">
+          <label className="flex flex-col text-sm font-medium text-ink-soft">
+            Find a job by name or customer
+            <input
+              type="search"
+              name="q"
+              defaultValue={q}
+              maxLength={60}
+              className="mt-1 min-h-11 rounded border border-bead px-3 text-base text-ink"
+            />
+          </label>
+          <button type="submit" className={buttonClass("secondary")}>
+            Find
+          </button>
+        </form>
+        {total > items.length && (
+          <p className="mb-2 text-sm text-ink-soft">
+            Showing the {items.length} soonest due of {total} open jobs; find a job by name to see others.
+          </p>
+        )}
         {open.length === 0 ? (
-          <Notice tone="caution">No open job has parts to plan. Add a job and its parts on the Jobs page first.</Notice>
+          <Notice tone="caution">
+            {q
+              ? `No open job with parts matches “${q}”.`
+              : "No open job has parts to plan. Add a job and its parts on the Jobs page first."}
+          </Notice>
         ) : (
           <Card>
             <form method="get" action="/plans/new" className="space-y-3">
