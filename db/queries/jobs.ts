@@ -290,12 +290,13 @@ export async function addJobPart(jobId: number, input: PartInput, actorId: strin
 }
 
 /**
- * Adds several parts entered at once (the profiles of one drawing, the letters of a word): every
- * part's box and volume from its profile, all added or none (a bad one is named by its index).
- *
- *   addJobParts(3, [{ name: "Letter O", quantity: 2, profile, rotate: "any" }, …], actorId)
+ * Checks several parts entered at once before any is added: each one's box and volume from its
+ * profile, and its grade. Every problem is named by the part's index (`parts.2.profile`); one bad
+ * part refuses them all. Shared by job parts and library parts.
  */
-export async function addJobParts(jobId: number, inputs: PartInput[], actorId: string): Promise<JobPart[]> {
+export async function checkParts(
+  inputs: { size?: Vec3 | null; profile?: Profile | null; gradeId?: number | null }[],
+): Promise<ReturnType<typeof resolveGeometry>[]> {
   const fields: Record<string, string> = {};
   const geometries = inputs.map((input, i) => {
     try {
@@ -312,6 +313,17 @@ export async function addJobParts(jobId: number, inputs: PartInput[], actorId: s
     if (p.gradeId != null && !grades.has(p.gradeId)) grades.set(p.gradeId, i);
   });
   for (const [gradeId, i] of grades) await assertGrade(gradeId, `parts.${i}.gradeId`);
+  return geometries as ReturnType<typeof resolveGeometry>[];
+}
+
+/**
+ * Adds several parts entered at once (the profiles of one drawing, the letters of a word): every
+ * part's box and volume from its profile, all added or none (a bad one is named by its index).
+ *
+ *   addJobParts(3, [{ name: "Letter O", quantity: 2, profile, rotate: "any" }, …], actorId)
+ */
+export async function addJobParts(jobId: number, inputs: PartInput[], actorId: string): Promise<JobPart[]> {
+  const geometries = await checkParts(inputs);
   return db().transaction(async (trx) => {
     await openJob(trx, jobId);
     const rows: { id: number }[] = await trx("job_parts")

@@ -5,7 +5,7 @@ import { HttpError } from "@/lib/errors";
 import type { LibraryPart, RotateRule } from "@/lib/job-terms";
 import type { Profile } from "@/lib/profiles";
 import type { LibraryPartInput, LibraryPatch } from "@/lib/validations/jobs";
-import { resolveGeometry, assertGrade } from "./jobs";
+import { assertGrade, checkParts, resolveGeometry } from "./jobs";
 
 export type { LibraryPart };
 
@@ -107,22 +107,7 @@ const profileSummary = (p: Profile | null) =>
  * none, a bad one named by its index.
  */
 export async function createLibraryParts(inputs: LibraryPartInput[], actorId: string): Promise<LibraryPart[]> {
-  const fields: Record<string, string> = {};
-  const geometries = inputs.map((input, i) => {
-    try {
-      return resolveGeometry(input);
-    } catch (e) {
-      if (!(e instanceof HttpError) || !e.fields) throw e;
-      for (const [k, v] of Object.entries(e.fields)) fields[`parts.${i}.${k}`] ??= v;
-      return null;
-    }
-  });
-  if (Object.keys(fields).length) throw new HttpError(400, "Some fields need attention.", fields);
-  const grades = new Map<number, number>();
-  inputs.forEach((p, i) => {
-    if (p.gradeId != null && !grades.has(p.gradeId)) grades.set(p.gradeId, i);
-  });
-  for (const [gradeId, i] of grades) await assertGrade(gradeId, `parts.${i}.gradeId`);
+  const geometries = await checkParts(inputs);
   return db().transaction(async (trx) => {
     const rows: { id: number }[] = await trx("library_parts")
       .insert(
