@@ -1,7 +1,6 @@
 import fc from "fast-check";
-// @ts-expect-error -- gcode-interpreter 3.0.0 ships no type declarations.
-import GcodeInterpreter from "gcode-interpreter";
 import { describe, expect, it } from "vitest";
+import { type Args, cmdOf, type Event, readBack } from "../support/gcode";
 import { randomPlan } from "../support/procedure-fixtures";
 import type { Vec3 } from "@/lib/nesting";
 import { ENTRY_CLEARANCE, type GcodeDialect, type Machine } from "@/lib/planning/machine";
@@ -20,40 +19,6 @@ import { program, wirePath } from "@/lib/planning/wire-path";
 // - DIN 66025 (from memory): G70 inch and G71 metric dimensions in place of G20 / G21; the rest of
 //   the words used here (G0, G1, G4, G90, M0, M2) as above. The dwell's address (P) is as in
 //   RS274/NGC; a DIN controller may want another (from memory, not checked).
-
-type Args = Record<string, number>;
-type Event = { kind: "word"; cmd: string; args: Args; line: number } | { kind: "comment"; text: string; line: number };
-const Interpreter = GcodeInterpreter as new (opts: {
-  handlers: Record<string, (args: Args) => void>;
-  defaultHandler?: (cmd: string, args: Args) => void;
-}) => {
-  loadFromStringSync(text: string, cb?: (data: { ln?: number; comments?: string[] }, i: number) => void): unknown;
-};
-
-function readBack(text: string): { events: Event[]; lineNumbers: (number | undefined)[] } {
-  const events: Event[] = [];
-  const lineNumbers: (number | undefined)[] = [];
-  let line = 0;
-  const word = (cmd: string) => (args: Args) => events.push({ kind: "word", cmd, args, line });
-  const handlers = Object.fromEntries(
-    ["G0", "G1", "G4", "G20", "G21", "G70", "G71", "G90", "M0", "M2", "M3", "M5"].map((c) => [c, word(c)]),
-  );
-  new Interpreter({
-    handlers,
-    defaultHandler: (cmd, args) => events.push({ kind: "word", cmd, args, line }),
-  }).loadFromStringSync(text, (data, i) => {
-    for (const c of data.comments ?? []) events.push({ kind: "comment", text: c, line: i });
-    lineNumbers.push(data.ln);
-    line = i + 1;
-  });
-  return { events, lineNumbers };
-}
-
-/** The first word of a code such as "M3" or "M03 S50", as the interpreter names it. */
-const cmdOf = (code: string) => {
-  const m = /^([A-Z])0*(\d+)/.exec(code.trim().toUpperCase())!;
-  return `${m[1]}${m[2]}`;
-};
 
 const notAligned = (what: string): never => {
   throw new Error(`${what} not along an axis`);

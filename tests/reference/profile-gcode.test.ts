@@ -1,5 +1,3 @@
-// @ts-expect-error -- gcode-interpreter 3.0.0 ships no type declarations.
-import GcodeInterpreter from "gcode-interpreter";
 import polygonClipping, { type MultiPolygon, type Polygon, type Ring } from "polygon-clipping";
 import { describe, expect, it } from "vitest";
 import type { Plan } from "@/lib/nesting";
@@ -7,6 +5,7 @@ import type { GcodeDialect, Machine } from "@/lib/planning/machine";
 import { partGeometry, type Point, type Profile } from "@/lib/profiles";
 import { type ProfileProgramInput, profileProgram } from "@/lib/profiles/program";
 import { partSections, planSlabs, type Section } from "@/lib/profiles/slabs";
+import { type Args, cmdOf, type Event, readBack } from "../support/gcode";
 
 // Profile programs read back with an interpreter that is not ours (cncjs gcode-interpreter 3.0.0),
 // and the wire's replayed path checked against the parts with a second, independent polygon
@@ -25,33 +24,6 @@ import { partSections, planSlabs, type Section } from "@/lib/profiles/slabs";
 // the region it encloses is the part grown by r = kerf / 2 — the set of points within r of the part,
 // which is the part united with a band of half-width r along each edge and a disc of radius r at
 // each corner (the Minkowski sum of the part and a disc; built here with polygon-clipping).
-
-type Args = Record<string, number>;
-type Event = { kind: "word"; cmd: string; args: Args } | { kind: "comment"; text: string };
-const Interpreter = GcodeInterpreter as new (opts: {
-  handlers: Record<string, (args: Args) => void>;
-  defaultHandler?: (cmd: string, args: Args) => void;
-}) => {
-  loadFromStringSync(text: string, cb?: (data: { ln?: number; comments?: string[] }, i: number) => void): unknown;
-};
-
-function readBack(text: string): { events: Event[]; lineNumbers: (number | undefined)[] } {
-  const events: Event[] = [];
-  const lineNumbers: (number | undefined)[] = [];
-  new Interpreter({
-    handlers: {},
-    defaultHandler: (cmd, args) => events.push({ kind: "word", cmd, args }),
-  }).loadFromStringSync(text, (data) => {
-    for (const c of data.comments ?? []) events.push({ kind: "comment", text: c });
-    lineNumbers.push(data.ln);
-  });
-  return { events, lineNumbers };
-}
-
-const cmdOf = (code: string) => {
-  const m = /^([A-Z])0*(\d+)/.exec(code.trim().toUpperCase())!;
-  return `${m[1]}${m[2]}`;
-};
 
 // ---- plain geometry, written here ----
 const dist = (a: Point, b: Point) => Math.hypot(a[0] - b[0], a[1] - b[1]);
