@@ -5,7 +5,7 @@ import { useMemo, useState } from "react";
 import { ApiError, send } from "@/lib/swr/fetcher";
 import { Button } from "@/components/ui/button";
 
-import { Field, Input, Select } from "@/components/ui/field";
+import { Choices, Field, Input, Select } from "@/components/ui/field";
 import { ROTATE_LABELS, ROTATE_RULES } from "@/lib/job-terms";
 import { partGeometry, parsePoints, type Profile } from "@/lib/profiles";
 import { formatSize, lengthToMm, type LengthUnit } from "@/lib/units";
@@ -16,6 +16,13 @@ import { ProfileImport, type ImportPreview } from "./profile-import";
 import { WingPanelFields } from "./wing-panel-fields";
 
 type Shape = "box" | "polygon" | "naca" | "drawing" | "text";
+const SHAPES: [Shape, string][] = [
+  ["box", "Box"],
+  ["polygon", "Polygon profile"],
+  ["naca", "NACA wing panel"],
+  ["drawing", "From a drawing"],
+  ["text", "Text"],
+];
 
 interface Props {
   /** Where the part goes: a job's part list, or the library. */
@@ -275,38 +282,16 @@ export function PartForm({ target, grades, kits = [], unit = "mm" }: Props) {
         </Field>
       </div>
 
-      <fieldset>
-        <legend className="text-sm font-medium text-ink-soft">Shape</legend>
-        <div className="mt-1 flex flex-wrap gap-2" role="radiogroup">
-          {(
-            [
-              ["box", "Box"],
-              ["polygon", "Polygon profile"],
-              ["naca", "NACA wing panel"],
-              ["drawing", "From a drawing"],
-              ["text", "Text"],
-            ] as const
-          ).map(([k, label]) => (
-            <label
-              key={k}
-              className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 text-sm ${shape === k ? "border-kerf bg-kerf-light" : "border-bead-strong bg-paper-raised"}`}
-            >
-              <input
-                type="radio"
-                name="shape"
-                value={k}
-                checked={shape === k}
-                onChange={() => {
-                  setShape(k);
-                  setPreview(null);
-                }}
-                className="accent-kerf"
-              />{" "}
-              {label}
-            </label>
-          ))}
-        </div>
-      </fieldset>
+      <Choices
+        legend="Shape"
+        name="shape"
+        options={SHAPES}
+        value={shape}
+        onChange={(k) => {
+          setShape(k);
+          setPreview(null);
+        }}
+      />
 
       {shape === "box" && (
         <div className="grid grid-cols-3 gap-3">

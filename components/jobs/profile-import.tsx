@@ -2,7 +2,7 @@
 
 import { useRef, useState, type KeyboardEvent } from "react";
 import { Button } from "@/components/ui/button";
-import { Field, Input, Select } from "@/components/ui/field";
+import { Choices, Field, Input, Select } from "@/components/ui/field";
 import { LiveNotice } from "@/components/ui/result-notice";
 import { plural } from "@/lib/format";
 import type { Point } from "@/lib/profiles";
@@ -57,6 +57,15 @@ const UNITS = [
  * draws what comes back to scale, each profile named. Problems show beside the control they belong
  * to; a drawing without a unit asks for one. The parent form adds the parts.
  */
+const JOINED: [string, string][] = [
+  ["0", "Each letter a part"],
+  ["1", "One joined part"],
+];
+const FONTS: [string, string][] = [
+  ["shipped", "Inter Bold (comes with Blockyard, SIL Open Font License)"],
+  ["upload", "A font file of the shop's"],
+];
+
 export function ProfileImport({
   mode,
   unit,
@@ -266,58 +275,22 @@ export function ProfileImport({
               error={fields.letterSpacing}
             />
           </Field>
-          <fieldset>
-            <legend className="text-sm font-medium text-ink-soft">Parts</legend>
-            <div className="mt-1 flex flex-wrap gap-2">
-              {(
-                [
-                  ["0", "Each letter a part"],
-                  ["1", "One joined part"],
-                ] as const
-              ).map(([k, label]) => (
-                <label
-                  key={k}
-                  className="flex min-h-11 cursor-pointer items-center gap-2 rounded-md border border-bead-strong px-3 text-sm"
-                >
-                  <input
-                    type="radio"
-                    name="joined"
-                    value={k}
-                    checked={v.joined === k}
-                    onChange={() => setV((s) => ({ ...s, joined: k }))}
-                    className="accent-kerf"
-                  />
-                  {label}
-                </label>
-              ))}
-            </div>
-            <p className="mt-1 text-xs text-ink-faint">Joined letters that do not touch stand on a base rail.</p>
-          </fieldset>
-          <fieldset className="@lg:col-span-2">
-            <legend className="text-sm font-medium text-ink-soft">Font</legend>
-            <div className="mt-1 flex flex-wrap items-center gap-2">
-              {(
-                [
-                  ["shipped", "Inter Bold (comes with Blockyard, SIL Open Font License)"],
-                  ["upload", "A font file of the shop's"],
-                ] as const
-              ).map(([k, label]) => (
-                <label
-                  key={k}
-                  className="flex min-h-11 cursor-pointer items-center gap-2 rounded-md border border-bead-strong px-3 text-sm"
-                >
-                  <input
-                    type="radio"
-                    name="font"
-                    value={k}
-                    checked={v.font === k}
-                    onChange={() => setV((s) => ({ ...s, font: k }))}
-                    className="accent-kerf"
-                  />
-                  {label}
-                </label>
-              ))}
-            </div>
+          <Choices
+            legend="Parts"
+            name="joined"
+            options={JOINED}
+            value={v.joined ?? "0"}
+            onChange={(joined) => setV((s) => ({ ...s, joined }))}
+            hint="Joined letters that do not touch stand on a base rail."
+          />
+          <div className="@lg:col-span-2">
+            <Choices
+              legend="Font"
+              name="font"
+              options={FONTS}
+              value={v.font ?? "shipped"}
+              onChange={(font) => setV((s) => ({ ...s, font }))}
+            />
             {v.font === "upload" && (
               <div className="mt-2 max-w-md">
                 <Field label="Font file (TTF, OTF or WOFF)" name="fontFile" error={fields.fontFile}>
@@ -333,7 +306,7 @@ export function ProfileImport({
                 </Field>
               </div>
             )}
-          </fieldset>
+          </div>
         </div>
       )}
       <div className="flex flex-wrap items-center gap-3">

@@ -62,3 +62,54 @@ export const errorId = (path: string) => `${path.replace(/[^A-Za-z0-9_-]/g, "-")
 export function tiedError(fields: Record<string, string | undefined>, path: string) {
   return fields[path] ? { "aria-invalid": true as const, "aria-describedby": errorId(path) } : {};
 }
+
+interface ChoicesProps<K extends string> {
+  legend: string;
+  name: string;
+  options: readonly (readonly [K, ReactNode])[];
+  value: K;
+  onChange: (value: K) => void;
+  hint?: ReactNode;
+  className?: string;
+}
+
+/**
+ * A row of radio buttons, each a touch-sized labelled pill, under a legend; the chosen one is marked.
+ *
+ *   <Choices legend="Parts" name="joined" options={[["0", "Each letter a part"], ["1", "One joined part"]]}
+ *     value={v.joined} onChange={(joined) => setV({ ...v, joined })} />
+ */
+export function Choices<K extends string>({
+  legend,
+  name,
+  options,
+  value,
+  onChange,
+  hint,
+  className,
+}: ChoicesProps<K>) {
+  return (
+    <fieldset className={className}>
+      <legend className="text-sm font-medium text-ink-soft">{legend}</legend>
+      <div className="mt-1 flex flex-wrap gap-2">
+        {options.map(([k, label]) => (
+          <label
+            key={k}
+            className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 text-sm ${value === k ? "border-kerf bg-kerf-light" : "border-bead-strong bg-paper-raised"}`}
+          >
+            <input
+              type="radio"
+              name={name}
+              value={k}
+              checked={value === k}
+              onChange={() => onChange(k)}
+              className="accent-kerf"
+            />
+            {label}
+          </label>
+        ))}
+      </div>
+      {hint && <p className="mt-1 text-xs text-ink-faint">{hint}</p>}
+    </fieldset>
+  );
+}

@@ -27,14 +27,22 @@ const PRINT_CSS = `
 }
 `;
 
-const PENTANE_LIMITS: { label: string; ppm: number; by: "OSHA" | "NIOSH" }[] = [
+/** One row of an exposure-limit table. */
+interface Limit {
+  label: string;
+  ppm: number;
+  by: "OSHA" | "NIOSH";
+  testId?: string;
+}
+
+const PENTANE_LIMITS: Limit[] = [
   { label: "Permissible exposure limit, 8-hour TWA", ppm: PENTANE.oshaPelTwaPpm, by: "OSHA" },
   { label: "Recommended exposure limit, TWA", ppm: PENTANE.nioshRelTwaPpm, by: "NIOSH" },
   { label: "Ceiling (15 minutes)", ppm: PENTANE.nioshCeilingPpm, by: "NIOSH" },
   { label: "Immediately dangerous to life or health (10 % of the LEL)", ppm: PENTANE.idlhPpm, by: "NIOSH" },
 ];
 
-const LIMITS: { label: string; ppm: number; by: "OSHA" | "NIOSH"; testId?: string }[] = [
+const LIMITS: Limit[] = [
   { label: "Permissible exposure limit, 8-hour TWA", ppm: STYRENE.oshaPelTwaPpm, by: "OSHA", testId: "osha-pel" },
   { label: "Ceiling", ppm: STYRENE.oshaCeilingPpm, by: "OSHA" },
   { label: "Peak", ppm: STYRENE.oshaPeakPpm, by: "OSHA" },
@@ -42,6 +50,36 @@ const LIMITS: { label: string; ppm: number; by: "OSHA" | "NIOSH"; testId?: strin
   { label: "Short-term exposure limit", ppm: STYRENE.nioshStelPpm, by: "NIOSH" },
   { label: "Immediately dangerous to life or health", ppm: STYRENE.idlhPpm, by: "NIOSH", testId: "idlh" },
 ];
+
+/** A substance's exposure limits in ppm and, converted at 25 °C and 1 atm, in mg/m³. */
+function LimitTable({ limits, molarMass, testId }: { limits: Limit[]; molarMass: number; testId?: string }) {
+  return (
+    <table data-testid={testId}>
+      <thead className="border-b border-bead">
+        <tr>
+          <th className="py-2 pr-3">Limit</th>
+          <th className="px-3 py-2 text-right">ppm</th>
+          <th className="px-3 py-2 text-right">mg/m³</th>
+          <th className="py-2 pl-3">Set by</th>
+        </tr>
+      </thead>
+      <tbody>
+        {limits.map((l) => (
+          <tr key={l.label} className="border-b border-bead/60 last:border-0">
+            <td className="py-2 pr-3">{l.label}</td>
+            <td className="px-3 py-2 text-right tabular-nums" data-testid={l.testId}>
+              {l.ppm.toLocaleString("en")}
+            </td>
+            <td className="px-3 py-2 text-right tabular-nums">
+              {Math.round(ppmToMgM3(l.ppm, molarMass)).toLocaleString("en")}
+            </td>
+            <td className="py-2 pl-3">{l.by}</td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
 
 function Caution({ s }: { s: SafetySource }) {
   return (
@@ -74,58 +112,14 @@ export default async function SafetyPage() {
       </div>
       <div className="grid gap-5 lg:grid-cols-2">
         <Card title="Styrene limits (United States)">
-          <table>
-            <thead className="border-b border-bead">
-              <tr>
-                <th className="py-2 pr-3">Limit</th>
-                <th className="px-3 py-2 text-right">ppm</th>
-                <th className="px-3 py-2 text-right">mg/m³</th>
-                <th className="py-2 pl-3">Set by</th>
-              </tr>
-            </thead>
-            <tbody>
-              {LIMITS.map((l) => (
-                <tr key={l.label} className="border-b border-bead/60 last:border-0">
-                  <td className="py-2 pr-3">{l.label}</td>
-                  <td className="px-3 py-2 text-right tabular-nums" data-testid={l.testId}>
-                    {l.ppm}
-                  </td>
-                  <td className="px-3 py-2 text-right tabular-nums">
-                    {Math.round(ppmToMgM3(l.ppm, STYRENE.molarMass))}
-                  </td>
-                  <td className="py-2 pl-3">{l.by}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
+          <LimitTable limits={LIMITS} molarMass={STYRENE.molarMass} />
           <p className="mt-3 text-xs text-ink-faint">
             mg/m³ converted at 25 °C and 1 atm (ppm × {STYRENE.molarMass} ÷ 24.45); published tables round their own
             conversions and may differ by a few mg/m³. Other countries set their own limits.
           </p>
         </Card>
         <Card title="Pentane limits (United States)">
-          <table data-testid="pentane-limits">
-            <thead className="border-b border-bead">
-              <tr>
-                <th className="py-2 pr-3">Limit</th>
-                <th className="px-3 py-2 text-right">ppm</th>
-                <th className="px-3 py-2 text-right">mg/m³</th>
-                <th className="py-2 pl-3">Set by</th>
-              </tr>
-            </thead>
-            <tbody>
-              {PENTANE_LIMITS.map((l) => (
-                <tr key={l.label} className="border-b border-bead/60 last:border-0">
-                  <td className="py-2 pr-3">{l.label}</td>
-                  <td className="px-3 py-2 text-right tabular-nums">{l.ppm.toLocaleString("en")}</td>
-                  <td className="px-3 py-2 text-right tabular-nums">
-                    {Math.round(ppmToMgM3(l.ppm, PENTANE.molarMass)).toLocaleString("en")}
-                  </td>
-                  <td className="py-2 pl-3">{l.by}</td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
+          <LimitTable limits={PENTANE_LIMITS} molarMass={PENTANE.molarMass} testId="pentane-limits" />
           <p className="mt-3 text-xs text-ink-faint">
             Fresh EPS gives off pentane as it cures. Source: NIOSH Pocket Guide to Chemical Hazards, n-pentane (values
             from memory; check the current edition). Its fire risk starts far below these: it burns in air from{" "}
