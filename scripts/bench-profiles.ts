@@ -1,5 +1,6 @@
 /**
- * True-shape nesting benchmark: `npm run bench:profiles [-- --budget 60 --only albano,fu --seed 1 --data DIR]`.
+ * True-shape nesting benchmark: `npm run bench:profiles [-- --budget 60 --only albano,fu --seed 1 --data DIR]`
+ * (`-- --shop`: the shop case instead, scripts/bench-shop.ts).
  * Runs the irregular engine on the 12 instances of ../shared/benchmarks/2d-irregular-strip (or
  * BENCH_DATA / --data) and prints, per instance, the length, length ÷ record, density and time,
  * beside the length of the bounding-box packing (every piece replaced by its box, packed by
@@ -19,8 +20,14 @@ import {
   loadStripInstances,
   STRIP_SET,
 } from "./lib-bench/irregular";
+import { runShopBench } from "./bench-shop";
 
 const args = process.argv.slice(2);
+if (args.includes("--shop")) {
+  // The shop case of issue 20 (slabs of letters and wing cores against box nesting), not the published instances.
+  runShopBench(args);
+  process.exit();
+}
 const opt = (name: string): string | undefined => {
   const i = args.indexOf(name);
   return i >= 0 ? args[i + 1] : undefined;

@@ -4,6 +4,7 @@
  */
 import { parseProblem, parseProblemText, type ParseResult } from "./parse";
 import { Search } from "./solver/search";
+import { nestTrueShape, nestTrueShapeSync, usesTrueShape } from "./true-shape";
 import type { NestOptions, Plan, Problem } from "./types";
 
 export type * from "./types";
@@ -20,6 +21,7 @@ export {
   type Dff,
 } from "./bounds";
 export { comparePlans, compareScores, scorePlan, type Score } from "./objective";
+export { usesTrueShape } from "./true-shape";
 
 const DEFAULT_ITERATIONS = 200;
 
@@ -49,6 +51,12 @@ function report(search: Search, options: NestOptions): void {
  * const plan = await nest(problem, { seed: 1, now: () => performance.now(), onProgress: (p) => bar(p.fraction) });
  */
 export async function nest(problem: Problem, options: NestOptions = {}): Promise<Plan> {
+  // settings.trueShape: slabs of profile parts first (README, "Slabs of true-shape nested profiles").
+  if (usesTrueShape(problem)) return nestTrueShape(problem, options, nestBoxes);
+  return nestBoxes(problem, options);
+}
+
+async function nestBoxes(problem: Problem, options: NestOptions): Promise<Plan> {
   const search = makeSearch(problem, options);
   let lastYield = options.now?.() ?? 0;
   let lastReport = -Infinity;
@@ -74,6 +82,11 @@ export async function nest(problem: Problem, options: NestOptions = {}): Promise
  * @example const plan = nestSync(problem, { seed: 3, iterations: 50 });
  */
 export function nestSync(problem: Problem, options: NestOptions = {}): Plan {
+  if (usesTrueShape(problem)) return nestTrueShapeSync(problem, options, nestBoxesSync);
+  return nestBoxesSync(problem, options);
+}
+
+function nestBoxesSync(problem: Problem, options: NestOptions): Plan {
   const search = makeSearch(problem, options);
   while (!search.done(options.signal)) {
     search.step();

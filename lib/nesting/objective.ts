@@ -41,7 +41,8 @@ export function scorePlan(problem: Problem, plan: Plan): Score {
   const blockIndex = new Map(problem.blocks.map((b, i) => [b.id, i]));
   const partVol = new Map(problem.parts.map((p) => [p.id, p.size[0] * p.size[1] * p.size[2]]));
   let placedVolume = 0;
-  for (const pl of plan.placements) placedVolume += partVol.get(pl.part) ?? 0;
+  for (const pl of plan.placements)
+    placedVolume += pl.slab ? pl.slab.size[0] * pl.slab.size[1] * pl.slab.size[2] : (partVol.get(pl.part) ?? 0);
   return scoreOf(problem, {
     placedVolume,
     usedBlocks: plan.placements.map((p) => blockIndex.get(p.block)!),

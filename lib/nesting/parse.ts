@@ -1,3 +1,4 @@
+import { readOutline } from "./slab";
 import type { Block, Defect, Layout, Part, Problem, Rotate, Settings, Vec3 } from "./types";
 
 export type ParseResult = { ok: true; problem: Problem } | { ok: false; errors: string[] };
@@ -60,7 +61,7 @@ class Reader {
 
 function readSettings(r: Reader, raw: unknown): Settings {
   const s: Obj = raw === undefined ? {} : isObj(raw) ? raw : (r.err("settings", "must be an object"), {});
-  return {
+  const settings: Settings = {
     kerf: r.num(s, "kerf", "settings", "nonneg", 1.5),
     trim: r.num(s, "trim", "settings", "nonneg", 0),
     defectMargin: r.num(s, "defectMargin", "settings", "nonneg", 0),
@@ -68,6 +69,12 @@ function readSettings(r: Reader, raw: unknown): Settings {
     layout: r.oneOf(s, "layout", "settings", LAYOUTS, "guillotine"),
     timeLimitMs: r.num(s, "timeLimitMs", "settings", "pos", 3000),
   };
+  // Optional (README, "Slabs of true-shape nested profiles"): absent stays absent.
+  if (s.trueShape !== undefined) {
+    if (typeof s.trueShape !== "boolean") r.err("settings.trueShape", "must be true or false");
+    else settings.trueShape = s.trueShape;
+  }
+  return settings;
 }
 
 function readDefect(r: Reader, raw: unknown, path: string, size: Vec3): Defect | undefined {
@@ -151,7 +158,13 @@ function readPart(r: Reader, raw: unknown, i: number): Part | undefined {
   }
   const grade = r.str(raw, "grade", path, false);
   const rotate = r.oneOf(raw, "rotate", path, ROTATES, "any");
-  return { id, size, quantity, ...(grade !== undefined ? { grade } : {}), rotate };
+  const part: Part = { id, size, quantity, ...(grade !== undefined ? { grade } : {}), rotate };
+  if (raw.outline !== undefined) {
+    const got = readOutline(raw.outline, `${path}.outline`, size);
+    for (const e of got.errors) r.errors.push(e);
+    if (got.outline) part.outline = got.outline;
+  }
+  return part;
 }
 
 function checkUnique(r: Reader, ids: (string | undefined)[], what: string): void {

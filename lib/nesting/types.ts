@@ -12,6 +12,12 @@ export interface Settings {
   minOffcut: Vec3;
   layout: Layout;
   timeLimitMs: number;
+  /**
+   * Optional (absent: false). Profile parts (those with an `outline`) are nested by their outlines
+   * in the faces of slabs, and each slab enters the block nesting as one box (see README, "Slabs of
+   * true-shape nested profiles").
+   */
+  trueShape?: boolean;
 }
 
 export interface Defect {
@@ -38,6 +44,42 @@ export interface Part {
   quantity: number;
   grade?: string;
   rotate: Rotate;
+  /** Optional: the part's profile in its y–z face (for `settings.trueShape`); absent: a plain box part. */
+  outline?: PartOutline;
+}
+
+/** A point `[u, v]` in a part's or a slab's face, mm. */
+export type FacePoint = [number, number];
+
+/**
+ * A profile part's section(s) in its box's y–z face: u along the box's y, v along its z, from the
+ * box's corner (x is along the wire). `tip`: the other end's section of a tapered (4-axis) part.
+ */
+export interface PartOutline {
+  outer: FacePoint[];
+  holes?: FacePoint[][];
+  tip?: { outer: FacePoint[]; holes?: FacePoint[][] };
+}
+
+/** The faces of a slab a lead-in may start from (never the bottom: a horizontal wire cannot come up through the table). */
+export type LeadInFace = "left" | "right" | "top";
+
+/** A profile part in a slab's face: its outline turned by `rotation` (degrees anticlockwise) and moved by `at`. */
+export interface SlabMember {
+  part: string;
+  rotation: number;
+  at: FacePoint;
+  /** The lead-in corridor: a straight slot, kerf wide, from `face` perpendicular to the point `to` on the wire's path round the part. */
+  leadIn: { face: LeadInFace; to: FacePoint };
+}
+
+/** A slab of true-shape nested profile parts, carried by the placement of its box. */
+export interface SlabLayout {
+  /** The slab's box before the placement turns it: [thickness along the wire, face u extent, face v extent]. */
+  size: Vec3;
+  grade?: string;
+  rotate: Rotate;
+  members: SlabMember[];
 }
 
 /** A problem with every default filled in (what `parseProblem` returns). */
@@ -53,6 +95,8 @@ export interface Placement {
   block: string;
   origin: Vec3;
   size: Vec3;
+  /** Optional: this placement is a slab of true-shape nested profile parts (`part` is then the slab's own id). */
+  slab?: SlabLayout;
 }
 
 export interface Unplaced {

@@ -9,6 +9,7 @@ import {
   separate,
   type Box,
 } from "./geometry";
+import { checkSlab } from "./slab";
 import type { Block, Part, Plan, Problem, Vec3 } from "./types";
 
 const fmt = (v: readonly number[]): string => `[${v.map((x) => +x.toFixed(4)).join(", ")}]`;
@@ -37,7 +38,26 @@ export function validatePlan(problem: Problem, plan: Plan): string[] {
 
   (plan.placements ?? []).forEach((pl, i) => {
     const name = `placements[${i}]`;
-    const part = parts.get(pl.part);
+    // A slab of true-shape nested profiles (optional field): its members count as placed parts, and
+    // its box is checked below like a part's.
+    let slabPart: Part | undefined;
+    if (pl.slab !== undefined) {
+      if (typeof pl.slab !== "object" || pl.slab === null) return void errors.push(`${name}.slab: must be an object`);
+      if (parts.has(pl.part))
+        errors.push(`${name}.part: a slab needs its own id, "${pl.part}" is a part of the problem`);
+      const check = checkSlab(problem, pl.slab, `${name}.slab`);
+      errors.push(...check.errors);
+      for (const [id, n] of check.counts) placedCount.set(id, (placedCount.get(id) ?? 0) + n);
+      if (!finiteVec(pl.slab.size)) return;
+      slabPart = {
+        id: pl.part,
+        size: pl.slab.size,
+        quantity: 1,
+        rotate: pl.slab.rotate,
+        ...(pl.slab.grade !== undefined ? { grade: pl.slab.grade } : {}),
+      };
+    }
+    const part = slabPart ?? parts.get(pl.part);
     const block = blocks.get(pl.block);
     if (!part) errors.push(`${name}: unknown part "${pl.part}"`);
     if (!block) errors.push(`${name}: unknown block "${pl.block}"`);

@@ -1,0 +1,441 @@
+/**
+ * True-shape nesting for the shop (`settings.trueShape`): profile parts cut through the same slab
+ * thickness (same grade, same extent along the wire) are nested by their outlines in the faces of
+ * slabs with the irregular engine, kerf apart, each with a clear lead-in corridor; every slab then
+ * enters the block nesting as one box. Pure: no I/O; the clock and the seed are handed in. See
+ * README, "Slabs of true-shape nested profiles", and the rules in `./slab.ts`.
+ */
+import {
+  EndType,
+  FillRule,
+  differenceD,
+  inflatePathsD,
+  JoinType,
+  type PathD,
+  simplifyPathsD,
+} from "@countertype/clipper2-ts";
+import { nestIrregular, nestIrregularSync, type IrregularRunOptions } from "./irregular";
+import { bboxOf, signedArea } from "./irregular/geometry";
+import type { IrregularItem, IrregularProblem, IrregularSolution } from "./irregular/types";
+import {
+  checkSlab,
+  faceRotations,
+  findLeadIn,
+  memberLoop,
+  occupiedOutline,
+  type PlacedMember,
+  ROTATE_RANK,
+} from "./slab";
+import type {
+  FacePoint,
+  NestOptions,
+  Part,
+  Placement,
+  Plan,
+  Problem,
+  Rotate,
+  SlabLayout,
+  SlabMember,
+  Unplaced,
+  Vec3,
+} from "./types";
+
+/** Share of the time budget the slab nesting gets (the block nesting has the rest). */
+const SLAB_SHARE = 0.8;
+/** Piece moves of each slab nesting when no clock is handed in (keeps a seed's plan the same). */
+const SLAB_MOVES = 1500;
+/** Strip widths tried per group of parts. */
+const MAX_WIDTHS = 2;
+/** Slabs per group at most (a guard; each slab holds at least one part). */
+const MAX_SLABS = 200;
+/** Share of a slab's face the parts' boxes are expected to fill (sets how many parts one slab is given). */
+const SLAB_FILL = 0.85;
+
+/**
+ * Whether a problem asks for true-shape nesting and has a part to nest so.
+ * @example usesTrueShape({ ...problem, settings: { ...problem.settings, trueShape: true } }) // → true when a part has an outline
+ */
+export function usesTrueShape(problem: Problem): boolean {
+  return problem.settings.trueShape === true && problem.parts.some((p) => p.outline);
+}
+
+type Step =
+  | { kind: "slab"; problem: IrregularProblem; options: IrregularRunOptions }
+  | { kind: "boxes"; problem: Problem; options: NestOptions };
+
+interface Group {
+  key: string;
+  parts: Part[];
+  thickness: number;
+  grade: string | undefined;
+  rotate: Rotate;
+}
+
+export interface SlabPlanned {
+  id: string;
+  layout: SlabLayout;
+}
+
+const toPath = (l: readonly FacePoint[]): PathD => l.map(([x, y]) => ({ x, y }));
+const fromPath = (p: PathD): FacePoint[] => p.map((q) => [q.x, q.y]);
+
+/** Vertices the engine's outline of a part aims at: no-fit polygons grow with the product of two parts' vertices. */
+const NEST_VERTICES = 16;
+
+/**
+ * The outline the engine nests for a part: the occupied loop grown by e and simplified within e,
+ * so it contains the true loop with far fewer vertices; e starts at 0.4 % of the part's larger
+ * side and doubles (to at most 3 %) until the loop has at most 16 vertices. The true loop when
+ * no simplified one contains it.
+ */
+function nestingLoop(occupied: readonly FacePoint[]): FacePoint[] {
+  const b = bboxOf([occupied]);
+  const side = Math.max(b.maxX - b.minX, b.maxY - b.minY);
+  let best: FacePoint[] = [...occupied];
+  for (let e = Math.max(0.1, 0.004 * side); e <= 0.03 * side; e *= 2) {
+    const grown = inflatePathsD([toPath(occupied)], e, JoinType.Miter, EndType.Polygon, 3, 4);
+    const simple = simplifyPathsD(grown, e, true);
+    const outers = simple.map(fromPath).filter((l) => l.length >= 3 && signedArea(l) > 0);
+    if (outers.length !== 1) continue;
+    const left = differenceD([toPath(occupied)], [toPath(outers[0]!)], FillRule.NonZero, 4);
+    if (left.reduce((s, p) => s + Math.abs(signedArea(fromPath(p))), 0) > 1e-9) continue;
+    best = outers[0]!;
+    if (best.length <= NEST_VERTICES) break;
+  }
+  return best;
+}
+
+/** Strip widths and the longest slab for them, from the blocks the group may use. */
+function stripSizes(problem: Problem, g: Group): { width: number; length: number }[] {
+  const seen = new Map<string, { width: number; length: number }>();
+  const t = g.thickness;
+  for (const b of problem.blocks) {
+    if (g.grade !== undefined && b.grade !== g.grade) continue;
+    const D = b.size.map((v) => v - 2 * b.trim) as Vec3;
+    const pairs: [number, number][] = [];
+    if (g.rotate === "none") {
+      if (D[0] >= t) pairs.push([D[2], D[1]]);
+    } else if (g.rotate === "z") {
+      if (D[0] >= t) pairs.push([D[2], D[1]]);
+      if (D[1] >= t) pairs.push([D[2], D[0]]);
+    } else
+      for (let a = 0; a < 3; a++) {
+        if (D[a]! < t) continue;
+        const [p, q] = [0, 1, 2].filter((i) => i !== a).map((i) => D[i]!) as [number, number];
+        pairs.push([p, q], [q, p]);
+      }
+    for (const [width, length] of pairs) {
+      if (!(width > 0 && length > 0)) continue;
+      const k = `${width.toFixed(2)}|${length.toFixed(2)}`;
+      if (!seen.has(k)) seen.set(k, { width, length });
+    }
+  }
+  // One size per width (the longest), then spread over the widths: widest, narrowest, middle.
+  const byWidth = new Map<string, { width: number; length: number }>();
+  for (const s of seen.values()) {
+    const k = s.width.toFixed(2);
+    const had = byWidth.get(k);
+    if (!had || s.length > had.length) byWidth.set(k, s);
+  }
+  const list = [...byWidth.values()].sort((a, b) => b.width - a.width || b.length - a.length);
+  if (list.length <= MAX_WIDTHS) return list;
+  // The widest and the one nearest half of it (a narrower slab stands beside others in a block).
+  const half = list.reduce(
+    (best, s) => (Math.abs(s.width - list[0]!.width / 2) < Math.abs(best.width - list[0]!.width / 2) ? s : best),
+    list[1]!,
+  );
+  return [list[0]!, half];
+}
+
+interface Pack {
+  slabs: SlabLayout[];
+  volume: number;
+  /** Copies no slab could take (to be nested as boxes). */
+  left: Map<string, number>;
+}
+
+/** Members of a layout with their corridors; members without one (or breaking a rule) are taken out, repeatedly. */
+function settle(
+  problem: Problem,
+  g: Group,
+  loops: { part: string; rotation: number; at: FacePoint; loop: FacePoint[] }[],
+): { layout: SlabLayout | null; out: string[] } {
+  const out: string[] = [];
+  let keep = [...loops];
+  for (let round = 0; round < 20 && keep.length; round++) {
+    const bb = bboxOf(keep.map((m) => m.loop));
+    // The used face, exactly (rounding up could make a slab longer than the block it was sized for).
+    const uv: [number, number] = [bb.maxX, bb.maxY];
+    const placed: PlacedMember[] = keep.map((m) => ({
+      loop: m.loop,
+      bb: bboxOf([m.loop]),
+      area: Math.abs(signedArea(m.loop)),
+    }));
+    const leads = keep.map((_, k) => findLeadIn(placed, k, uv, problem.settings.kerf));
+    let blocked = leads.map((l, k) => (l ? -1 : k)).filter((k) => k >= 0);
+    if (blocked.length === keep.length) blocked = blocked.slice(1); // the first one stays; alone it is always reachable
+    if (blocked.length) {
+      out.push(...blocked.map((k) => keep[k]!.part));
+      keep = keep.filter((_, k) => !blocked.includes(k));
+      continue;
+    }
+    const layout: SlabLayout = {
+      size: [g.thickness, uv[0], uv[1]],
+      ...(g.grade !== undefined ? { grade: g.grade } : {}),
+      rotate: g.rotate,
+      members: keep.map((m, k): SlabMember => ({ part: m.part, rotation: m.rotation, at: m.at, leadIn: leads[k]! })),
+    };
+    const check = checkSlab(problem, layout, "slab");
+    if (!check.errors.length) return { layout, out };
+    const bad = check.bad.size ? check.bad : new Set([keep.length - 1]);
+    out.push(...[...bad].map((k) => keep[k]!.part));
+    keep = keep.filter((_, k) => !bad.has(k));
+  }
+  out.push(...keep.map((m) => m.part));
+  return { layout: null, out };
+}
+
+/** The parts of a group into slabs of one strip size: strip after strip, each cut to the longest slab, until every copy has a slab. */
+function* packGroup(
+  problem: Problem,
+  g: Group,
+  size: { width: number; length: number },
+  items: Map<string, FacePoint[]>,
+  budget: (slabsLeft: number) => IrregularRunOptions,
+): Generator<Step, Pack, IrregularSolution | Plan> {
+  const pool = new Map(g.parts.map((p) => [p.id, p.quantity]));
+  const slabs: SlabLayout[] = [];
+  const left = new Map<string, number>();
+  let volume = 0;
+  const area = (id: string) => {
+    const b = bboxOf([items.get(id)!]);
+    return (b.maxX - b.minX) * (b.maxY - b.minY);
+  };
+  for (let n = 0; n < MAX_SLABS && [...pool.values()].some((q) => q > 0); n++) {
+    // This slab's share: the copies left, split evenly over the slabs they need (their boxes at
+    // SLAB_FILL of the slab's face), taken part by part in turn so shapes mix.
+    const remaining = g.parts.reduce((s, p) => s + area(p.id) * (pool.get(p.id) ?? 0), 0);
+    const target = remaining / Math.max(1, Math.ceil(remaining / (SLAB_FILL * size.width * size.length)));
+    const take = new Map<string, number>();
+    const order = g.parts
+      .filter((p) => (pool.get(p.id) ?? 0) > 0)
+      .sort((a, b) => area(b.id) - area(a.id) || a.id.localeCompare(b.id));
+    let got = 0;
+    for (let round = 0; got < target; round++) {
+      let any = false;
+      for (const p of order) {
+        if (got >= target) break;
+        if ((take.get(p.id) ?? 0) >= pool.get(p.id)! || round >= pool.get(p.id)!) continue;
+        take.set(p.id, (take.get(p.id) ?? 0) + 1);
+        got += area(p.id);
+        any = true;
+      }
+      if (!any) break;
+    }
+    const list = order.filter((p) => take.has(p.id));
+    const irr: IrregularProblem = {
+      width: size.width,
+      kerf: problem.settings.kerf,
+      margin: 0,
+      items: list.map(
+        (p): IrregularItem => ({
+          id: p.id,
+          outer: items.get(p.id)!,
+          holes: [],
+          quantity: take.get(p.id)!,
+          rotations: faceRotations(p.rotate),
+        }),
+      ),
+    };
+    const need = remaining;
+    const sol = (yield {
+      kind: "slab",
+      problem: irr,
+      options: budget(Math.max(1, Math.ceil(need / (0.6 * size.width * size.length)))),
+    }) as IrregularSolution;
+    const byId = new Map(list.map((p) => [p.id, p]));
+    const loops = sol.placements.map((pl) => ({
+      part: pl.item,
+      rotation: pl.rotation,
+      at: [pl.x, pl.y] as FacePoint,
+      loop: memberLoop(occupiedOutline(byId.get(pl.item)!.outline!), pl.rotation, [pl.x, pl.y]),
+    }));
+    // The strip is nested open (where the engine packs densest); what lies within the longest slab
+    // is this slab, and the pieces beyond go back to the pool for the next strip.
+    const within = loops.filter((m) => bboxOf([m.loop]).maxX <= size.length);
+    if (!within.length) break;
+    const { layout } = settle(problem, g, within);
+    if (!layout) break;
+    slabs.push(layout);
+    volume += layout.size[0] * layout.size[1] * layout.size[2];
+    for (const m of layout.members) pool.set(m.part, pool.get(m.part)! - 1);
+  }
+  for (const [id, q] of pool) if (q > 0) left.set(id, q);
+  return { slabs, volume, left };
+}
+
+/** The whole plan, as steps a driver runs (slab nestings, then the block nesting). */
+function* trueShapeSteps(problem: Problem, options: NestOptions): Generator<Step, Plan, IrregularSolution | Plan> {
+  const now = options.now;
+  const t0 = now?.() ?? 0;
+  const total = problem.settings.timeLimitMs;
+  const seed = options.seed ?? 1;
+  let calls = 0;
+
+  // Groups: profile parts by grade and thickness (to 0.01 mm).
+  const groups = new Map<string, Group>();
+  for (const p of problem.parts) {
+    if (!p.outline) continue;
+    const key = `${p.grade ?? ""}|${Math.round(p.size[0] * 100)}`;
+    const g = groups.get(key) ?? { key, parts: [], thickness: 0, grade: p.grade, rotate: "any" as Rotate };
+    g.parts.push(p);
+    g.thickness = Math.max(g.thickness, p.size[0]);
+    if (ROTATE_RANK[p.rotate] > ROTATE_RANK[g.rotate]) g.rotate = p.rotate;
+    groups.set(key, g);
+  }
+  const pieces = [...groups.values()].reduce((s, g) => s + g.parts.reduce((t, p) => t + p.quantity, 0), 0);
+  const slabBudget = total * SLAB_SHARE;
+
+  const chosen: { g: Group; pack: Pack }[] = [];
+  let doneShare = 0;
+  for (const g of groups.values()) {
+    const items = new Map(g.parts.map((p) => [p.id, nestingLoop(occupiedOutline(p.outline!))]));
+    const sizes = stripSizes(problem, g);
+    const share = g.parts.reduce((t, p) => t + p.quantity, 0) / Math.max(1, pieces);
+    let best: Pack | null = null;
+    for (const size of sizes) {
+      const start = now?.() ?? 0;
+      const perSize = (slabBudget * share) / sizes.length;
+      const budget = (slabsLeft: number): IrregularRunOptions => {
+        calls++;
+        const base = { seed: seed * 1000 + calls, ...(options.signal ? { signal: options.signal } : {}) };
+        if (!now) return { ...base, maxMoves: SLAB_MOVES };
+        const remaining = Math.max(0, perSize - (now() - start));
+        return { ...base, now, timeLimitMs: Math.max(100, remaining / slabsLeft) };
+      };
+      const pack: Pack = yield* packGroup(problem, g, size, items, budget);
+      const placed = (p: Pack) =>
+        g.parts.reduce((t, q) => t + q.quantity, 0) - [...p.left.values()].reduce((a, b) => a + b, 0);
+      if (!best || placed(pack) > placed(best) || (placed(pack) === placed(best) && pack.volume < best.volume))
+        best = pack;
+    }
+    doneShare += share;
+    options.onProgress?.({
+      fraction: SLAB_SHARE * doneShare,
+      best: { placedVolume: 0, blocksUsed: 0, yield: 0, unplacedCount: pieces, lowerBoundBlocks: 0 },
+    });
+    chosen.push({ g, pack: best ?? { slabs: [], volume: 0, left: new Map(g.parts.map((p) => [p.id, p.quantity])) } });
+  }
+
+  // The block problem: plain parts, copies no slab took (as boxes), and one box per slab.
+  const taken = new Set(problem.parts.map((p) => p.id));
+  const slabs: SlabPlanned[] = [];
+  let n = 0;
+  for (const { pack } of chosen)
+    for (const layout of pack.slabs) {
+      let id: string;
+      do id = `slab-${++n}`;
+      while (taken.has(id));
+      slabs.push({ id, layout });
+    }
+  const leftOver = new Map<string, number>();
+  for (const { pack } of chosen) for (const [id, q] of pack.left) leftOver.set(id, q);
+  const boxParts: Part[] = [];
+  for (const p of problem.parts) {
+    if (!p.outline) boxParts.push(p);
+    else if (leftOver.get(p.id)) boxParts.push({ ...p, quantity: leftOver.get(p.id)! });
+  }
+  for (const s of slabs)
+    boxParts.push({
+      id: s.id,
+      size: s.layout.size,
+      quantity: 1,
+      rotate: s.layout.rotate,
+      ...(s.layout.grade !== undefined ? { grade: s.layout.grade } : {}),
+    });
+  const { trueShape: _off, ...plainSettings } = problem.settings;
+  const used = (now?.() ?? 0) - t0;
+  const boxProblem: Problem = {
+    version: 1,
+    settings: { ...plainSettings, timeLimitMs: now ? Math.max(total - used, total * (1 - SLAB_SHARE)) : total },
+    blocks: problem.blocks,
+    parts: boxParts,
+  };
+  const f0 = SLAB_SHARE;
+  const onProgress = options.onProgress;
+  const plan = (yield {
+    kind: "boxes",
+    problem: boxProblem,
+    options: {
+      ...options,
+      ...(onProgress ? { onProgress: (p) => onProgress({ ...p, fraction: f0 + (1 - f0) * p.fraction }) } : {}),
+    },
+  }) as Plan;
+  return withSlabs(plan, slabs);
+}
+
+/** Puts each slab's layout on its placement, and turns unplaced slabs into their members, unplaced. */
+function withSlabs(plan: Plan, slabs: readonly SlabPlanned[]): Plan {
+  const byId = new Map(slabs.map((s) => [s.id, s]));
+  const placements: Placement[] = plan.placements.map((pl) => {
+    const s = byId.get(pl.part);
+    return s ? { ...pl, slab: s.layout } : pl;
+  });
+  const unplaced: Unplaced[] = [];
+  const extra = new Map<string, { count: number; reason: string }>();
+  for (const u of plan.unplaced) {
+    const s = byId.get(u.part);
+    if (!s) {
+      unplaced.push(u);
+      continue;
+    }
+    for (const m of s.layout.members) {
+      const e = extra.get(m.part) ?? {
+        count: 0,
+        reason: `its slab ${s.id} (${s.layout.size.join(" × ")} mm) found no room: ${u.reason}`,
+      };
+      e.count++;
+      extra.set(m.part, e);
+    }
+  }
+  for (const [part, e] of extra) {
+    const had = unplaced.find((u) => u.part === part);
+    if (had) had.count += e.count;
+    else unplaced.push({ part, count: e.count, reason: e.reason });
+  }
+  return { ...plan, placements, unplaced };
+}
+
+type BoxNest = (problem: Problem, options: NestOptions) => Promise<Plan>;
+type BoxNestSync = (problem: Problem, options: NestOptions) => Plan;
+
+/**
+ * Nests a problem with `settings.trueShape`: slabs of profile parts first, then the block nesting
+ * by `boxes` (the box nesting of `nest`). Deterministic for a seed and move budget.
+ * @example const plan = await nestTrueShape(problem, { seed: 1 }, nestBoxes); validatePlan(problem, plan) // → []
+ */
+export async function nestTrueShape(problem: Problem, options: NestOptions, boxes: BoxNest): Promise<Plan> {
+  const steps = trueShapeSteps(problem, options);
+  let step = steps.next();
+  while (!step.done) {
+    const s = step.value;
+    step = steps.next(
+      s.kind === "slab" ? await nestIrregular(s.problem, s.options) : await boxes(s.problem, s.options),
+    );
+  }
+  return step.value;
+}
+
+/**
+ * The same as `nestTrueShape`, without yielding to the event loop.
+ * @example const plan = nestTrueShapeSync(problem, { seed: 2 }, nestBoxesSync);
+ */
+export function nestTrueShapeSync(problem: Problem, options: NestOptions, boxes: BoxNestSync): Plan {
+  const steps = trueShapeSteps(problem, options);
+  let step = steps.next();
+  while (!step.done) {
+    const s = step.value;
+    step = steps.next(s.kind === "slab" ? nestIrregularSync(s.problem, s.options) : boxes(s.problem, s.options));
+  }
+  return step.value;
+}

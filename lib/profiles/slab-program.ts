@@ -1,0 +1,67 @@
+/**
+ * The program input of a true-shape nested slab (a plan placement carrying `slab`, see
+ * lib/nesting/README.md, "Slabs of true-shape nested profiles"): every member's root and tip
+ * sections where the slab holds them, each entered at its planned lead-in corridor. The slab lies on
+ * the profile cutter as its face frame says (u across, v up), so its corridors, which never start
+ * at the bottom face, suit a horizontal wire as well as an upright one. Pure: no I/O.
+ */
+import type { FacePoint, Part, SlabLayout } from "@/lib/nesting";
+import { rotateLoop } from "@/lib/nesting/irregular/geometry";
+import type { Point } from "./polygon";
+import type { ProfileProgramInput, ProgramPart } from "./program";
+import type { Section } from "./slabs";
+
+const place = (loop: readonly FacePoint[], rotation: number, at: FacePoint): Point[] =>
+  rotateLoop(loop, rotation).map(([x, y]) => [x + at[0], y + at[1]] as Point);
+
+/**
+ * The parts of one program for a slab: names from `names` (part id → a name for people), sections
+ * turned and moved as the slab's members are, lead-ins at their corridors' ends.
+ *
+ *   slabProgramParts(placement.slab, partsById, (id) => `part ${id}`)
+ *   // → [{ name: "part L", root: { outer: [...], holes: [] }, tip: …, tapered: false, leadIn: [61, 91.75] }, …]
+ */
+export function slabProgramParts(
+  slab: SlabLayout,
+  parts: ReadonlyMap<string, Part>,
+  names: (partId: string, k: number) => string,
+): ProgramPart[] {
+  return slab.members.map((m, k): ProgramPart => {
+    const o = parts.get(m.part)?.outline;
+    if (!o) throw new Error(`slab member ${k}: part ${m.part} has no outline`);
+    const root: Section = {
+      outer: place(o.outer, m.rotation, m.at),
+      holes: (o.holes ?? []).map((h) => place(h, m.rotation, m.at)),
+    };
+    const tip: Section = o.tip
+      ? {
+          outer: place(o.tip.outer, m.rotation, m.at),
+          holes: (o.tip.holes ?? []).map((h) => place(h, m.rotation, m.at)),
+        }
+      : root;
+    return { name: names(m.part, k), root, tip, tapered: !!o.tip, leadIn: [m.leadIn.to[0], m.leadIn.to[1]] };
+  });
+}
+
+/**
+ * The whole program input of a slab (its face as the program's size, its thickness along the wire).
+ *
+ *   profileProgram(slabProgramInput("plan 15, block HF-1001, slab-1", slab, parts, name, { kerf: 1.5, feed: 250 }), machine)
+ */
+export function slabProgramInput(
+  title: string,
+  slab: SlabLayout,
+  parts: ReadonlyMap<string, Part>,
+  names: (partId: string, k: number) => string,
+  cut: { kerf: number; feed: number; grade?: string | null },
+): ProfileProgramInput {
+  return {
+    title,
+    size: [slab.size[1], slab.size[2]],
+    thickness: slab.size[0],
+    parts: slabProgramParts(slab, parts, names),
+    kerf: cut.kerf,
+    feed: cut.feed,
+    ...(cut.grade !== undefined ? { grade: cut.grade } : {}),
+  };
+}

@@ -1,0 +1,459 @@
+/**
+ * True-shape nesting for the shop (settings.trueShape, lib/nesting/true-shape.ts and slab.ts):
+ * profile parts nested by their outlines in slabs that enter the block nesting as boxes. Overlaps
+ * and containment are checked again with polygon-clipping (scripts/lib-bench/shop-case.ts), not
+ * the library the planner uses.
+ */
+import polygonClipping, { type Polygon } from "polygon-clipping";
+import { describe, expect, it } from "vitest";
+import { type FacePoint, nestSync, type Plan, parseProblem, type Problem, validatePlan } from "@/lib/nesting";
+import { findLeadIn, memberLoop, occupiedOutline, type PlacedMember } from "@/lib/nesting/slab";
+import { bboxOf } from "@/lib/nesting/irregular/geometry";
+import type { Machine } from "@/lib/planning/machine";
+import { partGeometry } from "@/lib/profiles/part";
+import { profileProgram } from "@/lib/profiles/program";
+import { slabProgramInput } from "@/lib/profiles/slab-program";
+import { partSections } from "@/lib/profiles/slabs";
+import { checkSlabsIndependently } from "@/scripts/lib-bench/shop-case";
+
+const parse = (json: unknown): Problem => {
+  const r = parseProblem(json);
+  if (!r.ok) throw new Error(r.errors.join("\n"));
+  return r.problem;
+};
+
+/** An L of legs 120 × 40 and 40 × 90 (hand-drawn), in its box 120 × 90. */
+const L: FacePoint[] = [
+  [0, 0],
+  [120, 0],
+  [120, 40],
+  [40, 40],
+  [40, 90],
+  [0, 90],
+];
+
+const lProblem = (extra: Record<string, unknown> = {}) => ({
+  settings: { kerf: 2, trueShape: true, timeLimitMs: 1000, ...extra },
+  blocks: [{ id: "B1", size: [500, 600, 400], grade: "EPS" }],
+  parts: [
+    { id: "L", size: [60, 120, 90], quantity: 6, grade: "EPS", outline: { outer: L } },
+    { id: "box", size: [100, 100, 100], quantity: 2, grade: "EPS" },
+  ],
+});
+
+const ring = (l: readonly FacePoint[]): [number, number][] => [
+  ...l.map(([x, y]) => [x, y] as [number, number]),
+  [l[0]![0], l[0]![1]],
+];
+
+describe("settings.trueShape and part outlines (optional fields)", () => {
+  const v1 = {
+    settings: { kerf: 1.5, timeLimitMs: 500 },
+    blocks: [{ id: "B", size: [800, 600, 400] }],
+    parts: [
+      { id: "a", size: [300, 200, 100], quantity: 3 },
+      { id: "b", size: [150, 150, 150], quantity: 4, rotate: "z" },
+    ],
+  };
+
+  it("reads a v1 problem without them to the same problem as before (no new keys)", () => {
+    const p = parse(v1);
+    expect("trueShape" in p.settings).toBe(false);
+    expect(p.parts.every((q) => !("outline" in q))).toBe(true);
+  });
+
+  it("plans a v1 problem exactly as before: trueShape without outlines, or outlines without trueShape, change nothing", () => {
+    const plain = nestSync(parse(v1), { seed: 4, iterations: 30 });
+    const flagged = nestSync(parse({ ...v1, settings: { ...v1.settings, trueShape: true } }), {
+      seed: 4,
+      iterations: 30,
+    });
+    const outlined = nestSync(
+      parse({
+        ...v1,
+        parts: v1.parts.map((q) => ({
+          ...q,
+          outline: {
+            outer: [
+              [0, 0],
+              [q.size[1], 0],
+              [0, q.size[2]],
+            ],
+          },
+        })),
+      }),
+      { seed: 4, iterations: 30 },
+    );
+    const strip = (p: Plan) => ({ ...p, stats: { ...p.stats, elapsedMs: 0 } });
+    expect(strip(flagged)).toEqual(strip(plain));
+    expect(strip(outlined)).toEqual(strip(plain));
+    expect(plain.placements.some((x) => x.slab)).toBe(false);
+  });
+
+  it("refuses bad values naming their path", () => {
+    const bad = parseProblem({
+      settings: { trueShape: "yes" },
+      blocks: [{ id: "B", size: [100, 100, 100] }],
+      parts: [
+        {
+          id: "p",
+          size: [10, 50, 50],
+          outline: {
+            outer: [
+              [0, 0],
+              [60, 0],
+              [0, 40],
+            ],
+          },
+        },
+        {
+          id: "q",
+          size: [10, 50, 50],
+          outline: {
+            outer: [
+              [0, 0],
+              [40, 40],
+              [40, 0],
+              [0, 40],
+            ],
+          },
+        },
+        {
+          id: "r",
+          size: [10, 50, 50],
+          outline: {
+            outer: [
+              [0, 0],
+              [40, 0],
+              [0, 40],
+            ],
+            holes: [
+              [
+                [45, 45],
+                [48, 45],
+                [45, 48],
+              ],
+            ],
+          },
+        },
+      ],
+    });
+    expect(bad.ok).toBe(false);
+    const errors = bad.ok ? [] : bad.errors;
+    expect(errors).toContain("settings.trueShape: must be true or false");
+    expect(errors.some((e) => e.startsWith("parts[0].outline.outer: reaches past the part's face"))).toBe(true);
+    expect(errors.some((e) => e.startsWith("parts[1].outline.outer: edges"))).toBe(true);
+    expect(errors).toContain("parts[2].outline.holes[0]: must lie inside the outer loop");
+  });
+});
+
+describe("slabs of profile parts", () => {
+  const problem = parse(lProblem());
+  const plan = nestSync(problem, { seed: 1 });
+
+  it("makes a valid, cuttable plan whose slabs hold every L, kerf apart, with clear lead-ins", () => {
+    expect(validatePlan(problem, plan)).toEqual([]);
+    const slabs = plan.placements.filter((p) => p.slab);
+    expect(slabs.length).toBeGreaterThan(0);
+    expect(slabs.reduce((n, p) => n + p.slab!.members.length, 0)).toBe(6);
+    expect(plan.placements.filter((p) => p.part === "box")).toHaveLength(2);
+    expect(checkSlabsIndependently(problem, plan).errors).toEqual([]);
+    // Thickness along the wire: the parts' 60 mm.
+    for (const s of slabs) expect(s.slab!.size[0]).toBe(60);
+  });
+
+  it("uses less face than the parts' boxes: two Ls interlock", () => {
+    const face = plan.placements.filter((p) => p.slab).reduce((a, p) => a + p.slab!.size[1] * p.slab!.size[2], 0);
+    expect(face).toBeLessThan(6 * 120 * 90);
+  });
+
+  it("is deterministic for a seed", () => {
+    const again = nestSync(problem, { seed: 1 });
+    expect(JSON.stringify({ ...again.placements })).toBe(JSON.stringify({ ...plan.placements }));
+  });
+
+  it("never puts a part in another part's hole (the shop rule): the holes stay the host's", () => {
+    const frame = parse({
+      settings: { kerf: 1, trueShape: true, timeLimitMs: 1000 },
+      blocks: [{ id: "B1", size: [400, 400, 300] }],
+      parts: [
+        {
+          id: "frame",
+          size: [50, 200, 200],
+          outline: {
+            outer: [
+              [0, 0],
+              [200, 0],
+              [200, 200],
+              [0, 200],
+            ],
+            holes: [
+              [
+                [20, 20],
+                [20, 180],
+                [180, 180],
+                [180, 20],
+              ],
+            ],
+          },
+        },
+        {
+          id: "tile",
+          size: [50, 40, 40],
+          quantity: 4,
+          outline: {
+            outer: [
+              [0, 0],
+              [40, 0],
+              [40, 40],
+              [0, 40],
+            ],
+          },
+        },
+      ],
+    });
+    const p = nestSync(frame, { seed: 2 });
+    expect(validatePlan(frame, p)).toEqual([]);
+    for (const pl of p.placements.filter((x) => x.slab)) {
+      const parts = new Map(frame.parts.map((q) => [q.id, q]));
+      const hostM = pl.slab!.members.find((m) => m.part === "frame");
+      if (!hostM) continue;
+      const host: Polygon = [ring(memberLoop(occupiedOutline(parts.get("frame")!.outline!), hostM.rotation, hostM.at))];
+      for (const m of pl.slab!.members.filter((x) => x.part === "tile")) {
+        const tile: Polygon = [ring(memberLoop(occupiedOutline(parts.get("tile")!.outline!), m.rotation, m.at))];
+        expect(polygonClipping.intersection(host, tile)).toEqual([]);
+      }
+    }
+  });
+
+  it("nests a tapered part by the union of its root and tip sections", () => {
+    const root: FacePoint[] = [
+      [0, 0],
+      [100, 0],
+      [100, 20],
+      [0, 20],
+    ];
+    const tip: FacePoint[] = [
+      [30, 0],
+      [90, 0],
+      [90, 30],
+      [30, 30],
+    ];
+    const occ = occupiedOutline({ outer: root, tip: { outer: tip } });
+    const u: Polygon = [ring(occ)];
+    for (const s of [root, tip]) expect(polygonClipping.difference([ring(s)], u)).toEqual([]);
+    // 100 × 20 + the tip's 60 × 10 above it (hand-worked).
+    const area = Math.abs(
+      occ.reduce((a, p, i) => a + p[0] * occ[(i + 1) % occ.length]![1] - occ[(i + 1) % occ.length]![0] * p[1], 0) / 2,
+    );
+    expect(area).toBeCloseTo(2600, 6);
+  });
+
+  it("turns the parts only as their rotate rule allows (rotate z: never in the face)", () => {
+    const p = parse(lProblem());
+    p.parts[0]!.rotate = "z";
+    const got = nestSync(p, { seed: 3 });
+    expect(validatePlan(p, got)).toEqual([]);
+    const slabs = got.placements.filter((x) => x.slab);
+    for (const s of slabs) {
+      expect(s.slab!.rotate).toBe("z");
+      for (const m of s.slab!.members) expect(m.rotation).toBe(0);
+    }
+  });
+});
+
+describe("lead-in corridors", () => {
+  const sq = (x: number, y: number, w: number, h: number): PlacedMember => {
+    const loop: FacePoint[] = [
+      [x, y],
+      [x + w, y],
+      [x + w, y + h],
+      [x, y + h],
+    ];
+    return { loop, bb: bboxOf([loop]), area: w * h };
+  };
+
+  it("finds none for a part boxed in on the left, right and top (the bottom is never a lead-in face)", () => {
+    // A cup upside down over a small square: walls left and right, a roof above.
+    const members = [sq(40, 0, 20, 20), sq(0, 0, 30, 100), sq(70, 0, 30, 100), sq(0, 30, 100, 70)];
+    expect(findLeadIn(members, 0, [100, 100], 2)).toBeNull();
+    // Take the roof away: a slot from the top, straight down to the wire's path 1 mm above the square.
+    const open = findLeadIn(members.slice(0, 3), 0, [100, 100], 2);
+    expect(open?.face).toBe("top");
+    expect(open!.to[1]).toBeCloseTo(21, 6);
+  });
+});
+
+describe("the validator on slab members", () => {
+  const problem = parse(lProblem());
+  const plan = nestSync(problem, { seed: 1 });
+  const idx = plan.placements.findIndex((p) => p.slab && p.slab.members.length >= 2);
+
+  const mutate = (f: (p: Plan) => void): string[] => {
+    const copy = structuredClone(plan);
+    f(copy);
+    return validatePlan(problem, copy);
+  };
+
+  it("refuses two overlapping members, naming the path", () => {
+    expect(idx).toBeGreaterThanOrEqual(0);
+    const errs = mutate((p) => {
+      const m = p.placements[idx]!.slab!.members;
+      m[1]!.at = [...m[0]!.at];
+      m[1]!.rotation = m[0]!.rotation;
+    });
+    expect(errs.some((e) => e.startsWith(`placements[${idx}].slab.members[0]`) && e.includes("overlap"))).toBe(true);
+  });
+
+  it("refuses a member outside its slab", () => {
+    const errs = mutate((p) => {
+      p.placements[idx]!.slab!.members[0]!.at = [-30, 0];
+    });
+    expect(
+      errs.some((e) => e.startsWith(`placements[${idx}].slab.members[0]: part L lies outside the slab's face`)),
+    ).toBe(true);
+  });
+
+  it("refuses a rotation not in the list", () => {
+    const errs = mutate((p) => {
+      p.placements[idx]!.slab!.members[0]!.rotation = 45;
+    });
+    expect(errs).toContain(
+      `placements[${idx}].slab.members[0]: rotation 45° is not allowed for part L (allowed 0, 90, 180, 270)`,
+    );
+  });
+
+  it("refuses a blocked lead-in corridor", () => {
+    // Two squares one above the other; the lower one's lead-in from the top runs through the upper one.
+    const sqProblem = parse({
+      settings: { kerf: 2, trueShape: true },
+      blocks: [{ id: "B1", size: [500, 500, 500] }],
+      parts: [
+        {
+          id: "s",
+          size: [40, 50, 50],
+          quantity: 2,
+          outline: {
+            outer: [
+              [0, 0],
+              [50, 0],
+              [50, 50],
+              [0, 50],
+            ],
+          },
+        },
+      ],
+    });
+    const bad: Plan = {
+      version: 1,
+      placements: [
+        {
+          part: "slab-1",
+          block: "B1",
+          origin: [0, 0, 0],
+          size: [40, 50, 102],
+          slab: {
+            size: [40, 50, 102],
+            rotate: "any",
+            members: [
+              { part: "s", rotation: 0, at: [0, 0], leadIn: { face: "top", to: [25, 51] } },
+              { part: "s", rotation: 0, at: [0, 52], leadIn: { face: "top", to: [25, 103] } },
+            ],
+          },
+        },
+      ],
+      unplaced: [],
+      offcuts: [],
+      cuts: {},
+      stats: {
+        blocksUsed: 1,
+        partVolume: 40 * 50 * 102,
+        stockVolume: 0,
+        offcutVolume: 0,
+        yield: 0,
+        elapsedMs: 0,
+        lowerBoundBlocks: 1,
+      },
+    };
+    const errs = validatePlan(sqProblem, bad);
+    expect(
+      errs.some(
+        (e) =>
+          e.startsWith("placements[0].slab.members[0]: the lead-in corridor from the top face") &&
+          e.includes("blocked by members[1] (s)"),
+      ),
+    ).toBe(true);
+    expect(errs.filter((e) => e.includes("members[1]:"))).toEqual([]);
+    // The same slab with the lower square entered from the left is valid.
+    bad.placements[0]!.slab!.members[0]!.leadIn = { face: "left", to: [-1, 25] };
+    expect(validatePlan(sqProblem, bad)).toEqual([]);
+  });
+});
+
+describe("one program per true-shape slab", () => {
+  const cutter = (over: Partial<Machine> = {}): Machine => ({
+    name: "Test profile cutter",
+    kind: "profile",
+    wire: "horizontal",
+    wireLength: 1000,
+    travel: [1500, 1500],
+    maxPiece: [1500, 1500, 1000],
+    turntable: false,
+    rapid: 1500,
+    heatUpS: 10,
+    handlingS: 60,
+    fourAxis: true,
+    dialect: {
+      unitWords: "G20/G21",
+      inch: false,
+      heatOn: "M3",
+      heatOff: "M5",
+      axes: ["X", "Y"],
+      towerAxes: ["U", "V"],
+      lineNumbers: false,
+    },
+    ...over,
+  });
+
+  it("cuts every member of a slab in one program, each entered at its planned corridor without cutting another", () => {
+    const problem = parse(lProblem());
+    const plan = nestSync(problem, { seed: 1 });
+    const parts = new Map(problem.parts.map((p) => [p.id, p]));
+    const slabs = plan.placements.filter((p) => p.slab);
+    expect(slabs.length).toBeGreaterThan(0);
+    for (const pl of slabs) {
+      const input = slabProgramInput(pl.part, pl.slab!, parts, (id, k) => `${id} ${k + 1}`, { kerf: 2, feed: 250 });
+      const prog = profileProgram(input, cutter({ fourAxis: false }));
+      expect(prog.parts).toHaveLength(pl.slab!.members.length);
+      for (const [k, m] of pl.slab!.members.entries()) {
+        const made = prog.parts.find((p) => p.name === `${m.part} ${k + 1}`)!;
+        // The program frame puts the slab 10 mm (ENTRY_CLEARANCE) from machine zero.
+        const entry = made.root.leadIn.to;
+        expect(Math.hypot(entry[0] - 10 - m.leadIn.to[0], entry[1] - 10 - m.leadIn.to[1])).toBeLessThan(0.05);
+        expect(made.root.leadIn.face).not.toBe("bottom");
+      }
+      expect(prog.gcode).toContain("M3");
+    }
+  });
+
+  it("cuts a slab of tapered wing cores on a 4-axis cutter", () => {
+    const root = partSections({ kind: "naca", code: "2412", chordMm: 300, tipChordMm: 180, spanMm: 500 });
+    const size = partGeometry({ kind: "naca", code: "2412", chordMm: 300, tipChordMm: 180, spanMm: 500 }).size;
+    const problem = parse({
+      settings: { kerf: 1.5, trueShape: true, timeLimitMs: 1000 },
+      blocks: [{ id: "B1", size: [600, 700, 400] }],
+      parts: [{ id: "core", size, quantity: 4, outline: { outer: root.root.outer, tip: { outer: root.tip.outer } } }],
+    });
+    const plan = nestSync(problem, { seed: 1 });
+    expect(validatePlan(problem, plan)).toEqual([]);
+    const parts = new Map(problem.parts.map((p) => [p.id, p]));
+    for (const pl of plan.placements.filter((p) => p.slab)) {
+      const prog = profileProgram(
+        slabProgramInput(pl.part, pl.slab!, parts, (id, k) => `${id} ${k + 1}`, { kerf: 1.5, feed: 250 }),
+        cutter(),
+      );
+      expect(prog.parts.every((p) => p.root !== p.tip)).toBe(true);
+      expect(prog.frame.fourAxis).toBe(true);
+    }
+  });
+});
