@@ -100,17 +100,34 @@ export function shopCase(seed: number, timeLimitMs: number): Problem {
   };
 }
 
+/** What the wide check varies in `perfectMultiBlock` (defaults: the benchmark's set). */
+export interface MultiBlockVariant {
+  /** Block size in mm (default 2400 × 1200 × 600). */
+  block?: Vec3;
+  /** Kerf in mm (default 1.5; 0 allowed). */
+  kerf?: number;
+  /** Layout rule (default "guillotine"; the cut trees are guillotine either way). */
+  layout?: "guillotine" | "layers" | "free";
+}
+
 /**
  * Multi-block perfect packings: `k` blocks of 2400 × 1200 × 600 mm, each cut by random guillotine
  * through cuts (kerf 1.5 mm, sizes to 0.1 mm) into 8–40 pieces; the pieces of all blocks mixed,
  * turned at random, and k + 2 blocks offered. The optimum is k blocks (the pieces grown by the kerf
  * fill k usable boxes exactly), and a plan the cutter can follow exists (guillotine layout).
- * The same generator as the budget test's (tests/unit/nesting/budget.test.ts).
+ * The same generator as the budget test's (tests/unit/nesting/budget.test.ts). `variant` changes the
+ * block size, kerf and layout rule (the wide check, `scripts/check-multiblock.ts`).
+ * @example perfectMultiBlock(87, 5, 2000, { kerf: 3, block: [2000, 1000, 500], layout: "layers" })
  */
-export function perfectMultiBlock(seed: number, k: number, timeLimitMs: number): Problem {
+export function perfectMultiBlock(
+  seed: number,
+  k: number,
+  timeLimitMs: number,
+  variant: MultiBlockVariant = {},
+): Problem {
   const r = rng(seed);
-  const block: Vec3 = [2400, 1200, 600];
-  const kerf = 1.5;
+  const block: Vec3 = variant.block ?? [2400, 1200, 600];
+  const kerf = variant.kerf ?? 1.5;
   const pieces: Vec3[] = [];
   for (let b = 0; b < k; b++) {
     const want = 8 + Math.floor(r() * 33);
@@ -139,7 +156,14 @@ export function perfectMultiBlock(seed: number, k: number, timeLimitMs: number):
   }
   return {
     version: 1,
-    settings: { kerf, trim: 0, defectMargin: 0, minOffcut: [100, 100, 25], layout: "guillotine", timeLimitMs },
+    settings: {
+      kerf,
+      trim: 0,
+      defectMargin: 0,
+      minOffcut: [100, 100, 25],
+      layout: variant.layout ?? "guillotine",
+      timeLimitMs,
+    },
     blocks: Array.from({ length: k + 2 }, (_, i) => ({
       id: `S${i + 1}`,
       size: block,

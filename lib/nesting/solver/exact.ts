@@ -1,7 +1,7 @@
 import { EPS, atLeastSorted, guillotineSplits, sameVec, volume as vol, type Box } from "../geometry";
 import type { Rng } from "../rng";
 import type { Vec3 } from "../types";
-import { carveObstacles } from "./guillotine3d";
+import { carveObstacles, fillBlockGuillotine } from "./guillotine3d";
 import { fitsIn, type BlockFill, type BlockInfo, type ItemType, type PackedItem } from "./model";
 
 /** The distinct three-box guillotine splits of `f` around a piece `d` at its corner. */
@@ -636,6 +636,7 @@ export function packAllIntoBlocks(
   stop: () => boolean = () => false,
   r?: Rng,
   learned: Set<string> = new Set(),
+  partial?: { fills: BlockFill[]; rest?: BlockFill[] },
 ): BlockFill[] | undefined {
   if (block.obstacles.length > 0 || k < 1) return undefined;
   const target = block.usable.size;
@@ -828,7 +829,14 @@ export function packAllIntoBlocks(
       }
   };
 
+  /** The slabs of the state with the fewest open boxes so far (for `partial`). */
+  let deepest = { open: [] as MergeNode[], slabs: [] as Slab[] };
+  let deepestOpen = Number.POSITIVE_INFINITY;
   const dfs = (boxes: MergeNode[]): boolean => {
+    if (partial && boxes.length < deepestOpen) {
+      deepestOpen = boxes.length;
+      deepest = { open: boxes, slabs: [...slabs] };
+    }
     if (boxes.length === 0) return stackSlabs(slabs, k);
     if (tick()) return false;
     const stateKey = stateHash([...boxes, ...slabs.map((x) => x.node)]);
@@ -882,30 +890,195 @@ export function packAllIntoBlocks(
     if (failed.size < MAX_REMEMBERED) failed.add(stateKey);
     return false;
   };
-  if (!dfs(open) || closed.length !== k) return undefined;
-
-  return closed.map((stack) => {
+  /** The pieces of a glued box turned by `perm` with its corner at `origin`, into `items`. */
+  const place = (items: PackedItem[], n: MergeNode, perm: number, origin: Vec3): void => {
+    if (n.type !== undefined) {
+      items.push({ type: n.type, origin, dims: permute(perm, n.dims) });
+      return;
+    }
+    for (const kid of n.kids!) {
+      const at = permute(perm, kid.at);
+      place(items, kid.node, AFTER[perm]![kid.perm]!, [origin[0] + at[0], origin[1] + at[1], origin[2] + at[2]]);
+    }
+  };
+  const fillOf = (items: PackedItem[]): BlockFill => ({
+    block: block.index,
+    items,
+    leftovers: [],
+    packedVolume: items.reduce((s, it) => s + types[it.type]!.volume, 0),
+  });
+  /** A stack of slabs as a fill of the block. */
+  const toFill = (stack: Stack): BlockFill => {
     const items: PackedItem[] = [];
-    const place = (n: MergeNode, perm: number, origin: Vec3): void => {
-      if (n.type !== undefined) {
-        items.push({ type: n.type, origin, dims: permute(perm, n.dims) });
-        return;
-      }
-      for (const kid of n.kids!) {
-        const at = permute(perm, kid.at);
-        place(kid.node, AFTER[perm]![kid.perm]!, [origin[0] + at[0], origin[1] + at[1], origin[2] + at[2]]);
-      }
-    };
     const origin = [...block.usable.origin] as Vec3;
     for (const s of stack.slabs) {
-      place(s.slab.node, s.perm, [...origin] as Vec3);
+      place(items, s.slab.node, s.perm, [...origin] as Vec3);
       origin[stack.axis] = origin[stack.axis]! + s.length;
     }
-    return {
-      block: block.index,
-      items,
-      leftovers: [],
-      packedVolume: items.reduce((s, it) => s + types[it.type]!.volume, 0),
+    return fillOf(items);
+  };
+
+  /**
+   * The boxes glued so far (each a finished cut tree with no waste), packed whole into at most
+   * `most` blocks: the slabs stacked first-fit by decreasing length (each block a stack across one
+   * axis, as in a bin packing of lengths), then the open boxes into the room left at the end of each
+   * stack and into further blocks by the guillotine greedy, largest first. Undefined when they do
+   * not all fit.
+   */
+  const packGlued = (
+    slabsLeft: readonly Slab[],
+    openLeft: readonly MergeNode[],
+    most: number,
+  ): BlockFill[] | undefined => {
+    const bins: Stack[] = [];
+    const room = (st: Stack): number => target[st.axis]! - st.slabs.reduce((s, c) => s + c.length, 0);
+    for (const slab of [...slabsLeft].sort((x, y) => y.node.volume - x.node.volume)) {
+      let put = false;
+      for (const st of bins) {
+        const w = slab.ways.find((v) => v.axis === st.axis && v.length <= room(st) + EPS * 100);
+        if (!w) continue;
+        st.slabs.push({ slab, perm: w.perm, length: w.length });
+        put = true;
+        break;
+      }
+      if (put) continue;
+      const w = slab.ways[0]!;
+      bins.push({ axis: w.axis, slabs: [{ slab, perm: w.perm, length: w.length }] });
+    }
+    if (bins.length > most) return undefined;
+    const glued: ItemType[] = openLeft.map((n, index) => {
+      const dims: Vec3[] = [];
+      for (let p = 0; p < PERMS.length; p++) {
+        const d = permute(p, n.dims);
+        if (n.mask & (1 << p) && !dims.some((e) => sameVec(e, d))) dims.push(d);
+      }
+      return {
+        index,
+        id: `glued ${index}`,
+        count: 1,
+        volume: n.volume,
+        dims,
+        minSide: n.sorted[0]!,
+        maxSide: n.sorted[2]!,
+      };
+    });
+    const remaining = glued.map(() => 1);
+    const order = glued.map((_, i) => i).sort((x, y) => glued[y]!.volume - glued[x]!.volume || x - y);
+    /**
+     * The open boxes the greedy puts into `space` (a block, or the room at the end of a stack); the
+     * room it leaves goes to `leftovers` (kept as offcuts where large enough).
+     */
+    const fillSpace = (space: Box, items: PackedItem[], leftovers: Box[]): void => {
+      if (!remaining.some((c) => c > 0)) {
+        leftovers.push(space);
+        return;
+      }
+      const info: BlockInfo = { ...block, usable: space, obstacles: [] };
+      const f = fillBlockGuillotine(info, glued, remaining, {
+        order,
+        grid: false,
+        split: "biggest",
+        thinSlabs: true,
+        boxFirst: false,
+        lookahead: 0,
+        rng: r ?? (() => 0.5),
+      });
+      leftovers.push(...f.leftovers);
+      for (const it of f.items) {
+        const n = openLeft[it.type]!;
+        const perm = PERMS.findIndex((_, p) => n.mask & (1 << p) && sameVec(permute(p, n.dims), it.dims));
+        place(items, n, perm, it.origin);
+      }
     };
-  });
+    const out: BlockFill[] = [];
+    for (const st of bins) {
+      const fill = toFill(st);
+      const used = target[st.axis]! - room(st);
+      const origin = [...block.usable.origin] as Vec3;
+      origin[st.axis] = origin[st.axis]! + used;
+      const size = [...target] as Vec3;
+      size[st.axis] = room(st);
+      const leftovers: Box[] = [];
+      if (size[st.axis]! > EPS) fillSpace({ origin, size }, fill.items, leftovers);
+      out.push({ ...fillOf(fill.items), leftovers });
+    }
+    while (remaining.some((c) => c > 0) && out.length < most) {
+      const items: PackedItem[] = [];
+      const leftovers: Box[] = [];
+      fillSpace(block.usable, items, leftovers);
+      if (items.length === 0) return undefined;
+      out.push({ ...fillOf(items), leftovers });
+    }
+    return remaining.some((c) => c > 0) ? undefined : out;
+  };
+
+  /**
+   * After a failed search: as many blocks as the slabs of the deepest state fill exactly, one stack
+   * after another (a subset sum per block, at most `PARTIAL_STEPS` steps in all). Slabs glued across
+   * blocks by a chance match stay out; the blocks they spoil are left to the caller.
+   */
+  const someStacks = (pool: Slab[]): Stack[] => {
+    const out: Stack[] = [];
+    let steps = 0;
+    let left = [...pool].sort((a, b) => a.ways.length - b.ways.length || b.node.volume - a.node.volume);
+    for (let fi = 0; fi < left.length && out.length < k - 1; ) {
+      const first = left[fi]!;
+      let found: Stack | undefined;
+      for (const w of first.ways) {
+        const cands = left
+          .filter((x) => x !== first)
+          .map((slab) => ({ slab, way: slab.ways.find((v) => v.axis === w.axis) }))
+          .filter((c): c is { slab: Slab; way: Slab["ways"][number] } => c.way !== undefined)
+          .sort((x, y) => y.way.length - x.way.length);
+        const chosen: Stack["slabs"] = [{ slab: first, perm: w.perm, length: w.length }];
+        const fill = (from: number, room: number): boolean => {
+          if (Math.abs(room) <= EPS * 100) return true;
+          if (++steps > PARTIAL_STEPS) return false;
+          let prev = Number.NaN;
+          for (let i = from; i < cands.length; i++) {
+            const c = cands[i]!;
+            if (near(c.way.length, prev) || c.way.length > room + EPS * 100) continue;
+            prev = c.way.length;
+            chosen.push({ slab: c.slab, perm: c.way.perm, length: c.way.length });
+            if (fill(i + 1, room - c.way.length)) return true;
+            chosen.pop();
+          }
+          return false;
+        };
+        if (fill(0, target[w.axis]! - w.length)) {
+          found = { axis: w.axis, slabs: chosen };
+          break;
+        }
+      }
+      if (!found) {
+        fi++;
+        continue;
+      }
+      out.push(found);
+      const used = new Set(found.slabs.map((c) => c.slab));
+      left = left.filter((x) => !used.has(x));
+      fi = 0;
+    }
+    return out;
+  };
+
+  if (!dfs(open) || closed.length !== k) {
+    if (partial) {
+      const stacks = someStacks(deepest.slabs);
+      partial.fills = stacks.map(toFill);
+      // The rest: the k - j blocks' worth of glued boxes, in k - j + 1 blocks at most.
+      const used = new Set(stacks.flatMap((st) => st.slabs.map((c) => c.slab)));
+      const slabsLeft = deepest.slabs.filter((x) => !used.has(x));
+      const more =
+        slabsLeft.length + deepest.open.length > 0
+          ? packGlued(slabsLeft, deepest.open, k - stacks.length + 1)
+          : undefined;
+      if (more) partial.rest = more;
+    }
+    return undefined;
+  }
+  return closed.map(toFill);
 }
+
+/** Subset-sum steps for the blocks filled exactly after a failed search over several blocks. */
+const PARTIAL_STEPS = 20_000;

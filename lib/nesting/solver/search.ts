@@ -119,7 +119,25 @@ export class Search {
    * The order fills `k` ≥ 2 identical blocks exactly (no waste at all, by volume): the blocks it
    * would take, the attempts so far and their time, and the glues blamed for dead ends.
    */
-  private partition?: { blocks: number[]; spentMs: number; attempts: number; learned: Set<string> };
+  private partition?: {
+    blocks: number[];
+    /** One more block of the same kind, if offered: the k + 1st of the fallback. */
+    spare: number[];
+    spentMs: number;
+    attempts: number;
+    learned: Set<string>;
+    /** The glues blamed in searches of the rest of the order (after `exactPart`). */
+    learnedRest: Set<string>;
+  };
+  /**
+   * The k + 1 fallback: blocks that a failed attempt at exact fills over several blocks did fill
+   * exactly (the most so far). Passes start from them on alternate iterations, so the rest of the
+   * order (a whole number of blocks by volume, mixed up by a chance match) is packed by the general
+   * search: at most k + 1 blocks as long as the rest takes one block more than its volume.
+   */
+  private exactPart?: BlockFill[];
+  /** The order fills k identical blocks exactly: fewer blocks first (see `compare`). */
+  private readonly fewerBlocksFirst: boolean;
 
   constructor(
     problem: Problem,
@@ -156,6 +174,7 @@ export class Search {
     this.freeShare = problem.settings.layout === "free" ? 0.7 : 0;
     this.placeable = this.model.types.reduce((s, t, i) => s + (this.typeFitsSomewhere[i] ? t.volume * t.count : 0), 0);
     this.partition = this.exactBlocks(cargo);
+    this.fewerBlocksFirst = !!this.partition;
     if (opts.warmStart && validatePlan(problem, opts.warmStart).length === 0) {
       const w = opts.warmStart;
       this.best = {
@@ -181,15 +200,25 @@ export class Search {
       if (info.obstacles.length > 0 || m.compatible[b]!.length < m.types.length) continue;
       byClass.set(info.classKey, [...(byClass.get(info.classKey) ?? []), b]);
     }
-    let best: { blocks: number[]; cost: number } | undefined;
+    let best: { blocks: number[]; cost: number; spare: number[] } | undefined;
     for (const group of byClass.values()) {
       const info = m.blocks[group[0]!]!;
       const cap = volume(info.usable.size);
       const k = Math.round(cargo / cap);
       if (k < 2 || k > group.length || Math.abs(cargo - k * cap) > 1e-6 * k * cap) continue;
-      if (!best || k * info.cost < best.cost) best = { blocks: group.slice(0, k), cost: k * info.cost };
+      if (!best || k * info.cost < best.cost)
+        best = { blocks: group.slice(0, k), cost: k * info.cost, spare: group.slice(k, k + 1) };
     }
-    return best && { blocks: best.blocks, spentMs: 0, attempts: 0, learned: new Set() };
+    return (
+      best && {
+        blocks: best.blocks,
+        spare: best.spare,
+        spentMs: 0,
+        attempts: 0,
+        learned: new Set(),
+        learnedRest: new Set(),
+      }
+    );
   }
 
   /**
@@ -224,6 +253,32 @@ export class Search {
     for (let tries = 0; tries < PARTITION_TRIES || this.opts.now; tries++) {
       if (over() || part.attempts >= cap) break;
       const nodes = part.attempts === 0 ? PARTITION_NODES : Math.round(4 * pieces * (1 + part.attempts / 10));
+      // With blocks already filled exactly (the fallback), every other attempt searches only the rest
+      // of the order over the other blocks: fewer pieces, and the chance match may be gone with them.
+      const kept = this.exactPart;
+      if (kept && kept.length <= k - 2 && part.attempts % 2 === 1) {
+        const rest = [...counts];
+        for (const f of kept) for (const it of f.items) rest[it.type]!--;
+        const more = packAllIntoBlocks(
+          m.blocks[part.blocks[0]!]!,
+          m.types,
+          rest,
+          k - kept.length,
+          Math.round(4 * pieces * (1 + part.attempts / 10)),
+          over,
+          this.r,
+          part.learnedRest,
+        );
+        part.attempts++;
+        if (more) {
+          this.offer([...kept, ...more.map((f, i) => ({ ...f, block: part.blocks[kept.length + i]! }))]);
+          this.partition = undefined;
+          this.exactPart = undefined;
+          return;
+        }
+        continue;
+      }
+      const partial: { fills: BlockFill[]; rest?: BlockFill[] } = { fills: [] };
       const fills = packAllIntoBlocks(
         m.blocks[part.blocks[0]!]!,
         m.types,
@@ -233,12 +288,27 @@ export class Search {
         over,
         part.attempts > 0 ? this.r : undefined,
         part.learned,
+        partial,
       );
       part.attempts++;
       if (fills) {
         this.offer(fills.map((f, i) => ({ ...f, block: part.blocks[i]! })));
         this.partition = undefined;
+        this.exactPart = undefined;
         return;
+      }
+      // The k + 1 fallback at once: the blocks filled exactly, and the boxes glued so far packed whole
+      // into the other blocks (k - j + 1 at most).
+      const all = [...part.blocks, ...part.spare];
+      if (partial.rest && partial.fills.length + partial.rest.length <= all.length)
+        this.offer([...partial.fills, ...partial.rest].map((f, i) => ({ ...f, block: all[i]! })));
+      if (partial.fills.length > (this.exactPart?.length ?? 0)) {
+        // More blocks filled exactly than before: keep them, and pack the rest at once (so a plan of
+        // at most k + 1 blocks exists early, whatever the remaining budget).
+        this.exactPart = partial.fills.map((f, i) => ({ ...f, block: part.blocks[i]! }));
+        part.learnedRest = new Set();
+        const rest = this.pass({ ...DEFAULT, boxFirst: true, lookahead: 24 }, this.exactPart);
+        if (rest) this.offer(rest);
       }
     }
     part.spentMs += this.elapsed() - t0;
@@ -295,7 +365,8 @@ export class Search {
       this.tryPartition();
       if (this.atBound()) return;
     }
-    const fills = this.pass(p);
+    // The k + 1 fallback: alternate passes start from the blocks filled exactly.
+    const fills = this.pass(p, this.iteration % 2 === 0 ? this.exactPart : undefined);
     if (!fills) return;
     this.offer(fills);
     if (
@@ -350,12 +421,23 @@ export class Search {
     );
     const placedVolume = fills.reduce((s, f) => s + f.packedVolume, 0);
     const score = scoreOf(this.model.problem, { placedVolume, usedBlocks: fills.map((f) => f.block), offcuts });
-    if (this.best && compareScores(score, this.best.score) >= 0) return;
+    if (this.best && this.compare(score, this.best.score) >= 0) return;
     const net =
       fills.reduce((s, f) => s + this.model.blocks[f.block]!.volume, 0) - offcuts.reduce((s, o) => s + o.volume, 0);
     const placed = fills.reduce((s, f) => s + f.items.length, 0);
     const demand = this.model.types.reduce((s, t) => s + t.count, 0);
     this.best = { score, fills, yield: net > 0 ? placedVolume / net : 0, unplaced: demand - placed };
+  }
+
+  /**
+   * The objective's order, except for orders that fill k identical blocks exactly: there, of two
+   * plans that place everything, the one with fewer blocks wins first (spread over more blocks with
+   * their offcuts kept, a plan may consume no more stock, but it is not what the order was cut for).
+   */
+  private compare(a: Score, b: Score): number {
+    if (this.fewerBlocksFirst && this.allPlaced(a) && this.allPlaced(b) && a.blocksUsed !== b.blocksUsed)
+      return a.blocksUsed - b.blocksUsed;
+    return compareScores(a, b);
   }
 
   /** Figures of the best plan so far, for progress reports. */
@@ -538,12 +620,20 @@ export class Search {
     return undefined;
   }
 
-  /** One greedy pass: block after block, each filled as well as the pass's settings manage. */
-  private pass(p: PassParams): BlockFill[] | undefined {
+  /**
+   * One greedy pass: block after block, each filled as well as the pass's settings manage; with
+   * `fixed`, starting from those fills (their parts and blocks taken).
+   */
+  private pass(p: PassParams, fixed?: readonly BlockFill[]): BlockFill[] | undefined {
     const m = this.model;
     const remaining = m.types.map((t, i) => (this.typeFitsSomewhere[i] ? t.count : 0));
     let unused = this.blockOrder(p);
-    const fills: BlockFill[] = p.reuse > 0 ? this.reuseFills(p.reuse, remaining, unused) : [];
+    if (fixed) {
+      for (const f of fixed) for (const it of f.items) remaining[it.type]!--;
+      const taken = new Set(fixed.map((f) => f.block));
+      unused = unused.filter((b) => !taken.has(b));
+    }
+    const fills: BlockFill[] = fixed ? [...fixed] : p.reuse > 0 ? this.reuseFills(p.reuse, remaining, unused) : [];
     const left = (): number => remaining.reduce((s, v) => s + v, 0);
     while (left() > 0 && unused.length > 0) {
       // Out of time: drop this pass (the first one always completes, so a plan exists).

@@ -154,6 +154,22 @@ describe("nest() honours its time budget within a second (real clock)", () => {
       expect(o.ms, o.name).toBeLessThan(2000);
     }
   }, 60_000);
+
+  it("orders of 5 blocks whose exact split can fail (seed 87: a side of two blocks matches by chance) keep the 2 s budget + 1 s and end at most one block above k", async () => {
+    const cases = [87, 3].map((seed) => ({ name: `seed ${seed}, 5 blocks`, problem: perfectBlocks(seed, 5, 2000) }));
+    const { outcomes, killed, stderr } = await nestInChild(cases, 30_000);
+    expect(
+      killed ? cases.slice(outcomes.length).map((c) => c.name) : [],
+      `did not return within 30 s: ${stderr}`,
+    ).toEqual([]);
+    expect(outcomes).toHaveLength(cases.length);
+    for (const o of outcomes) {
+      expect(o.errors, o.name).toEqual([]);
+      expect(o.unplaced, o.name).toBe(0);
+      expect(o.ms, o.name).toBeLessThan(3000);
+      expect(o.blocksUsed, o.name).toBeLessThanOrEqual(6);
+    }
+  }, 60_000);
 });
 
 describe("solveCover: the set cover's linear program", () => {

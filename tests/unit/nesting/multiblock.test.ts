@@ -10,8 +10,9 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { nestSync, parseProblem, validatePlan, type Plan, type Problem } from "@/lib/nesting";
 import { packAllIntoBlocks } from "@/lib/nesting/solver/exact";
-import { buildModel } from "@/lib/nesting/solver/model";
-import { multiBlockCount, perfectMultiBlock } from "@/scripts/lib-bench/generate";
+import { assemblePlan } from "@/lib/nesting/solver/assemble";
+import { buildModel, type BlockFill } from "@/lib/nesting/solver/model";
+import { multiBlockCount, perfectMultiBlock, type MultiBlockVariant } from "@/scripts/lib-bench/generate";
 
 /** Seeds of the benchmark's generator (k = 2 + seed mod 4), 16–153 pieces; all at the optimum. */
 const SEEDS = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17, 18, 19, 20] as const;
@@ -19,12 +20,36 @@ const SEEDS = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17, 18, 19
 /** Passes per run: the first is the plain greedy plan, the exact fills over blocks come after it. */
 const PASSES = 4;
 
-function instance(seed: number): { problem: Problem; k: number } {
-  const k = multiBlockCount(seed);
-  const parsed = parseProblem(perfectMultiBlock(seed, k, 2000));
+function instance(
+  seed: number,
+  variant: MultiBlockVariant = {},
+  blocks = multiBlockCount(seed),
+): { problem: Problem; k: number } {
+  const parsed = parseProblem(perfectMultiBlock(seed, blocks, 2000, variant));
   if (!parsed.ok) throw new Error(parsed.errors.join("; "));
-  return { problem: parsed.problem, k };
+  return { problem: parsed.problem, k: blocks };
 }
+
+/**
+ * Orders whose exact split into k blocks is not found within the pass budget (a side of two
+ * blocks matches by chance, so the glue search mixes their pieces): the k + 1 fallback keeps the
+ * blocks that were filled exactly and packs the rest whole into one block more than its volume.
+ * Seed 87 (k = 5, 121 pieces) ended at k + 2 = 7 blocks before the fallback, also under a 2 s clock.
+ */
+const FALLBACK_SEEDS = [87] as const;
+
+/**
+ * Further orders that missed k in the wide check (`scripts/check-multiblock.ts`, 2 s clock,
+ * 2026-12-04) and ended at k + 1 there (274 and 229 at k + 2 before the fallback): seed, k, variant.
+ */
+const WIDE_MISSES: [number, number, MultiBlockVariant][] = [
+  [274, 4, {}],
+  [229, 5, {}],
+  // k + 2 = 7 blocks before the fallback (2 s clock).
+  [248, 5, {}],
+  [20, 2, { block: [3000, 1500, 1000] }],
+  [13, 3, { kerf: 0, block: [2440, 1220, 610], layout: "layers" }],
+];
 
 const run = (problem: Problem, seed = 1): Plan => nestSync(problem, { seed, iterations: PASSES });
 
@@ -56,19 +81,79 @@ describe("exact fills over several blocks (multi-block perfect packings)", () =>
     expect([...seen].sort((a, b) => a - b)).toEqual([...SEEDS]);
   }, 240_000);
 
-  it("property: on fresh seeds of the generator the plan is valid and at most one block above k", () => {
+  it("property: on fresh seeds, kerfs, block sizes and layout rules the plan is valid, at most one block above k, and deterministic", () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1000, max: 1_000_000 }), (seed) => {
-        const { problem, k } = instance(seed);
-        const plan = run(problem);
-        expect(validatePlan(problem, plan), `seed ${seed}`).toEqual([]);
-        expect(plan.unplaced, `seed ${seed}`).toEqual([]);
-        expect(plan.stats.blocksUsed, `seed ${seed}`).toBeLessThanOrEqual(k + 1);
-        expect(plan.stats.blocksUsed).toBeGreaterThanOrEqual(k);
-      }),
-      { numRuns: 4, seed: 21 },
+      fc.property(
+        fc.integer({ min: 1000, max: 1_000_000 }),
+        fc.integer({ min: 2, max: 4 }),
+        fc.constantFrom(0, 1.5, 3),
+        fc.constantFrom<[number, number, number]>([2400, 1200, 600], [2000, 1000, 500], [3000, 1500, 1000]),
+        fc.constantFrom("guillotine" as const, "layers" as const),
+        (seed, k, kerf, block, layout) => {
+          const { problem } = instance(seed, { kerf, block, layout }, k);
+          const label = `seed ${seed}, k ${k}, kerf ${kerf}, ${block.join("×")}, ${layout}`;
+          const plan = run(problem);
+          expect(validatePlan(problem, plan), label).toEqual([]);
+          expect(plan.unplaced, label).toEqual([]);
+          expect(plan.stats.blocksUsed, label).toBeLessThanOrEqual(k + 1);
+          expect(plan.stats.blocksUsed, label).toBeGreaterThanOrEqual(k);
+          expect(JSON.stringify(run(problem)), label).toBe(JSON.stringify(plan));
+        },
+      ),
+      { numRuns: 12, seed: 21 },
     );
   }, 240_000);
+
+  it.each(FALLBACK_SEEDS)(
+    "regression: seed %i, whose exact split is not found, ends at most one block above k",
+    (seed) => {
+      const { problem, k } = instance(seed);
+      const plan = run(problem);
+      expect(validatePlan(problem, plan)).toEqual([]);
+      expect(plan.unplaced).toEqual([]);
+      expect(plan.stats.blocksUsed, `${problem.parts.length} parts, k ${k}`).toBeLessThanOrEqual(k + 1);
+      expect(JSON.stringify(run(problem))).toBe(JSON.stringify(plan));
+    },
+    120_000,
+  );
+
+  it.each(WIDE_MISSES)(
+    "regression: seed %i, k %i %o (a miss of the wide check) ends valid and at most one block above k",
+    (seed, k, variant) => {
+      const { problem } = instance(seed, variant, k);
+      const plan = run(problem);
+      expect(validatePlan(problem, plan)).toEqual([]);
+      expect(plan.unplaced).toEqual([]);
+      expect(plan.stats.blocksUsed, `${problem.parts.length} parts`).toBeLessThanOrEqual(k + 1);
+    },
+    120_000,
+  );
+
+  it("packAllIntoBlocks, when it fails, hands back the blocks it filled exactly and the rest packed whole in k - j + 1 blocks", () => {
+    const { problem, k } = instance(87);
+    const m = buildModel(problem);
+    const counts = m.types.map((t) => t.count);
+    const partial: { fills: BlockFill[]; rest?: BlockFill[] } = { fills: [] };
+    expect(
+      packAllIntoBlocks(m.blocks[0]!, m.types, counts, k, 2000, undefined, undefined, undefined, partial),
+    ).toBeUndefined();
+    const usable = m.blocks[0]!.usable;
+    const cap = usable.size[0] * usable.size[1] * usable.size[2];
+    // The exact blocks are full (grown by the kerf); with the rest, every piece is placed once.
+    expect(partial.fills.length).toBeGreaterThan(0);
+    for (const f of partial.fills) {
+      const v = f.items.reduce((s, it) => s + it.dims[0] * it.dims[1] * it.dims[2], 0);
+      expect(Math.abs(v - cap) / cap).toBeLessThan(1e-9);
+    }
+    expect(partial.rest).toBeDefined();
+    expect(partial.fills.length + partial.rest!.length).toBeLessThanOrEqual(k + 1);
+    const placed = new Array<number>(m.types.length).fill(0);
+    for (const f of [...partial.fills, ...partial.rest!]) for (const it of f.items) placed[it.type]!++;
+    expect(placed).toEqual(counts);
+    // As a plan (blocks 1..n), the result passes the project's validator.
+    const fills = [...partial.fills, ...partial.rest!].map((f, i) => ({ ...f, block: i }));
+    expect(validatePlan(problem, assemblePlan(m, fills, 0, k))).toEqual([]);
+  });
 
   it.skipIf(!reproFile)(
     "the overrun repro (77 pieces, one 1,200 mm side by chance) fills its optimum of 3 blocks",
