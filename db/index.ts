@@ -1,6 +1,7 @@
 import "server-only";
 import knex, { type Knex } from "knex";
 import { env } from "@/lib/env";
+import { poolMax } from "./pool-size";
 import "./types";
 
 // The one Knex instance for the app, kept on globalThis so dev reloads do not open new pools.
@@ -11,7 +12,8 @@ export function db(): Knex {
     globalForDb.blockyardDb = knex({
       client: "pg",
       connection: env().DATABASE_URL,
-      pool: { min: 0, max: Number(process.env.DB_POOL_MAX ?? 10) },
+      // Sized per process: app processes and nesting workers need different numbers (pool-size.ts).
+      pool: { min: 0, max: poolMax(process.env.BLOCKYARD_PROCESS === "worker" ? "worker" : "app", process.env) },
       acquireConnectionTimeout: 5_000,
     });
   }

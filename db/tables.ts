@@ -799,6 +799,16 @@ export interface StockLedgerInsert {
   ref?: W<string | null>;
 }
 
+export interface StockVersionRow {
+  id: number;
+  v: number;
+}
+
+export interface StockVersionInsert {
+  id: W<number>;
+  v?: W<number>;
+}
+
 export interface SupplierClaimBlocksRow {
   claim_id: number;
   block_id: number;
@@ -964,6 +974,7 @@ export interface DbTables {
   shop_settings: Knex.CompositeTableType<ShopSettingsRow, ShopSettingsInsert>;
   sign_in_failures: Knex.CompositeTableType<SignInFailuresRow, SignInFailuresInsert>;
   stock_ledger: Knex.CompositeTableType<StockLedgerRow, StockLedgerInsert>;
+  stock_version: Knex.CompositeTableType<StockVersionRow, StockVersionInsert>;
   supplier_claim_blocks: Knex.CompositeTableType<SupplierClaimBlocksRow, SupplierClaimBlocksInsert>;
   supplier_claim_photos: Knex.CompositeTableType<SupplierClaimPhotosRow, SupplierClaimPhotosInsert>;
   supplier_claims: Knex.CompositeTableType<SupplierClaimsRow, SupplierClaimsInsert>;

@@ -14,13 +14,19 @@
  * users thinking ~1 s. Starts its own cluster, S3 fake and app (TEST_SLOT, default 5) and stops
  * them when done; each run lasts a fixed time (default 20 s) after a short warm-up.
  *
+ * With `--before DIR` (a checkout of an older commit, see scripts/bench-stack.ts) both are served
+ * and each scenario's saturation run is repeated `--rounds` times (default 3), old and new
+ * alternately (the order swapped every round), so both sides meet the same load from the rest of
+ * the machine; the report gives each side's median req/s with the load average beside each run.
+ *
  *   npm run bench:load
  *   npm run bench:load -- --duration 10 --connections 50
+ *   npm run bench:load -- --before /tmp/before --only "stock list API,block page" --duration 10
  *   WEB_WORKERS=1 npm run bench:load    # one app process, like `next start`
  */
 import os from "node:os";
 import autocannon from "autocannon";
-import { BENCH_SLOT, ms, percentile, runBench, saveReport, signIn, startBenchStack } from "./bench-stack";
+import { BENCH_SLOT, beforeDirArg, ms, percentile, runBench, saveReport, signIn, startBenchStack } from "./bench-stack";
 
 const arg = (name: string, fallback: number) => {
   const i = process.argv.indexOf(`--${name}`);
@@ -30,6 +36,17 @@ const DURATION = arg("duration", 20);
 const CONNECTIONS = arg("connections", 50);
 const USERS = arg("users", 50);
 const RATE = arg("rate", 1); // requests per second per user in the think-time model
+const BEFORE = beforeDirArg();
+const ROUNDS = arg("rounds", BEFORE ? 3 : 1);
+const ONLY = (() => {
+  const i = process.argv.indexOf("--only");
+  return i > 0 ? new Set(process.argv[i + 1]!.split(",").map((s) => s.trim())) : null;
+})();
+const loadavg = () =>
+  os
+    .loadavg()
+    .map((l) => l.toFixed(1))
+    .join(" ");
 
 interface Fixtures {
   emails: string[];
@@ -170,43 +187,86 @@ async function withThinkTime(url: string, cookies: string[]): Promise<Run> {
   return summarise(times, (performance.now() - started) / 1000, counts);
 }
 
-async function main() {
-  let fixtures: Fixtures | undefined;
-  const stack = await startBenchStack("bench-load", {
-    beforeServe: async (databaseUrl) => {
-      fixtures = await arrange(databaseUrl);
-    },
-  });
-  try {
-    const f = fixtures!;
-    const t = performance.now();
-    const cookies: string[] = [];
-    for (const [i, email] of f.emails.entries())
-      cookies.push(await signIn(stack.url, email, f.password, `10.61.${Math.floor(i / 200)}.${i % 200}`));
-    process.stderr.write(
-      `[bench] ${cookies.length} users signed in in ${((performance.now() - t) / 1000).toFixed(1)} s\n`,
-    );
-    const scenarios: [string, string][] = [
+/** One side of the comparison: an app, its users' cookies and its fixtures. */
+interface Side {
+  label: "before" | "after";
+  url: string;
+  cookies: string[];
+  fixtures: Fixtures;
+}
+
+async function signInAll(url: string, f: Fixtures): Promise<string[]> {
+  const t = performance.now();
+  const cookies: string[] = [];
+  for (const [i, email] of f.emails.entries())
+    cookies.push(await signIn(url, email, f.password, `10.61.${Math.floor(i / 200)}.${i % 200}`));
+  process.stderr.write(
+    `[bench] ${cookies.length} users signed in in ${((performance.now() - t) / 1000).toFixed(1)} s\n`,
+  );
+  return cookies;
+}
+
+const scenarioPaths = (f: Fixtures): [string, string][] =>
+  (
+    [
       ["stock list API", "/api/blocks?status=available&sort=received"],
       ["stock list page", "/stock"],
       ["block page", `/stock/${encodeURIComponent(f.blockCode)}`],
       ["plan view", `/plans/${f.runId}`],
-    ];
+    ] as [string, string][]
+  ).filter(([name]) => !ONLY || ONLY.has(name));
+
+async function warm(url: string, cookies: string[]) {
+  // Not counted: the first compile of each route, and enough requests for every app process's JIT
+  // to settle (a server that has been running a while).
+  for (let i = 0; i < 3; i++) await fetch(url, { headers: { cookie: cookies[0]! } }).then((r) => r.arrayBuffer());
+  await saturation(url, cookies.slice(0, 10), 3);
+}
+
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)]!;
+
+async function main() {
+  const fixtures = new Map<string, Fixtures>();
+  const stack = await startBenchStack("bench-load", {
+    before: BEFORE,
+    beforeServe: async (databaseUrl) => {
+      fixtures.set(databaseUrl, await arrange(databaseUrl));
+    },
+  });
+  try {
+    const sides: Side[] = [];
+    if (stack.before) {
+      const f = fixtures.get(stack.before.databaseUrl)!;
+      sides.push({
+        label: "before",
+        url: stack.before.url,
+        cookies: await signInAll(stack.before.url, f),
+        fixtures: f,
+      });
+    }
+    const f = fixtures.get(stack.databaseUrl)!;
+    sides.push({ label: "after", url: stack.url, cookies: await signInAll(stack.url, f), fixtures: f });
+    const after = sides.at(-1)!;
+    const load = loadavg();
     const rows: Figures[] = [];
-    const load = os
-      .loadavg()
-      .map((l) => l.toFixed(1))
-      .join(" ");
-    for (const [name, path] of scenarios) {
-      const url = `${stack.url}${path}`;
-      // Warm-up, not counted: the first compile of each route, and enough requests for every app
-      // process's JIT to settle (a server that has been running a while).
-      for (let i = 0; i < 3; i++) await fetch(url, { headers: { cookie: cookies[0]! } }).then((r) => r.arrayBuffer());
-      await saturation(url, cookies.slice(0, 10), 3);
-      const single = await alone(url, cookies[0]!);
-      const users = await withThinkTime(url, cookies);
-      const sat = await saturation(url, cookies);
-      rows.push({ name, path, alone: single, users, saturation: sat });
+    /** Saturation rounds per scenario and side: req/s, errors and the 1-minute load average at its end. */
+    const rounds: { name: string; side: Side["label"]; run: Run; load: string }[] = [];
+    for (const [i, [name]] of scenarioPaths(after.fixtures).entries()) {
+      const paths = new Map(sides.map((s) => [s.label, `${s.url}${scenarioPaths(s.fixtures)[i]![1]}`]));
+      for (const s of sides) await warm(paths.get(s.label)!, s.cookies);
+      const url = paths.get("after")!;
+      const single = await alone(url, after.cookies[0]!);
+      const users = await withThinkTime(url, after.cookies);
+      let sat: Run | undefined;
+      for (let r = 0; r < ROUNDS; r++) {
+        // Old and new alternately, the order swapped every round.
+        for (const s of r % 2 ? [...sides].reverse() : sides) {
+          const run = await saturation(paths.get(s.label)!, s.cookies);
+          rounds.push({ name, side: s.label, run, load: loadavg() });
+          if (s.label === "after") sat = run;
+        }
+      }
+      rows.push({ name, path: new URL(url).pathname + new URL(url).search, alone: single, users, saturation: sat! });
       process.stderr.write(`[bench] ${name} done\n`);
     }
     const ok = (r: Run) => r.non2xx + r.errors + r.timeouts === 0;
@@ -214,12 +274,9 @@ async function main() {
     const int = (n: number) => Math.round(n).toLocaleString("en");
     const workers = process.env.WEB_WORKERS ?? String(os.availableParallelism());
     const lines = [
-      `bench:load — ${new Date().toISOString()} — ${cookies.length} signed-in users, ${DURATION} s per run, app processes ${workers}, slot ${BENCH_SLOT}, ${os.cpus().length} cores, load average before ${load}, after ${os
-        .loadavg()
-        .map((l) => l.toFixed(1))
-        .join(" ")}`,
+      `bench:load — ${new Date().toISOString()} — ${after.cookies.length} signed-in users, ${DURATION} s per run, app processes ${workers}, slot ${BENCH_SLOT}, ${os.cpus().length} cores, load average before ${load}, after ${loadavg()}`,
       "",
-      `Target model — ${cookies.length} users, each one request at a time with ~${(1 / RATE).toFixed(1)} s think time (${RATE} request/s per user, autocannon connectionRate):`,
+      `Target model — ${after.cookies.length} users, each one request at a time with ~${(1 / RATE).toFixed(1)} s think time (${RATE} request/s per user, autocannon connectionRate):`,
       "",
       "| scenario | path | alone p50 | requests | req/s | p50 | p95 | p99 | non-2xx | errors | timeouts |",
       "| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |",
@@ -240,10 +297,36 @@ async function main() {
       "alone p50: one user, one request at a time. With no think time every connection always has a request queued, so",
       `latency ≈ ${CONNECTIONS} / throughput: a p95 under 150 ms there would need more than ${int(CONNECTIONS / 0.15)} requests/s.`,
       "",
-      `target (judged on the ${cookies.length}-users-with-think-time model): p95 < 150 ms and 0 errors — ${met ? "met" : "NOT met"}; saturation errors: ${rows.every((r) => ok(r.saturation)) ? "none" : "SOME"}`,
+      `target (judged on the ${after.cookies.length}-users-with-think-time model): p95 < 150 ms and 0 errors — ${met ? "met" : "NOT met"}; saturation errors: ${rows.every((r) => ok(r.saturation)) ? "none" : "SOME"}`,
     ];
+    if (stack.before) {
+      lines.push(
+        "",
+        `Before (${stack.before.dir}) and after (this tree), saturation rounds alternated in one run (${ROUNDS} rounds × ${DURATION} s per side; errors = non-2xx + errors + timeouts; load = 1-minute load average at the end of the run):`,
+        "",
+        "| scenario | round | side | req/s | p50 | errors | load |",
+        "| --- | --- | --- | --- | --- | --- | --- |",
+        ...rounds.map(
+          (r, i) =>
+            `| ${r.name} | ${Math.floor((i % (2 * ROUNDS)) / 2) + 1} | ${r.side} | ${r.run.rps.toFixed(0)} | ${ms(r.run.p50)} | ${r.run.non2xx + r.run.errors + r.run.timeouts} | ${r.load} |`,
+        ),
+        "",
+        "| scenario | before req/s (median) | after req/s (median) | after / before | errors before, after |",
+        "| --- | --- | --- | --- | --- |",
+        ...rows.map((row) => {
+          const of = (side: Side["label"]) => rounds.filter((r) => r.name === row.name && r.side === side);
+          const b = median(of("before").map((r) => r.run.rps));
+          const a = median(of("after").map((r) => r.run.rps));
+          const errs = (side: Side["label"]) =>
+            of(side).reduce((n, r) => n + r.run.non2xx + r.run.errors + r.run.timeouts, 0);
+          return `| ${row.name} | ${b.toFixed(0)} | ${a.toFixed(0)} | ${(a / b).toFixed(2)} × | ${errs("before")}, ${errs("after")} |`;
+        }),
+        "",
+        "Target: after / before ≥ 1.5 on the stock API and the block page, 0 errors. Absolute figures are from a shared, loaded 2-core machine.",
+      );
+    }
     console.log(lines.join("\n"));
-    saveReport("load", lines);
+    saveReport(stack.before ? "load-before-after" : "load", lines);
   } finally {
     await stack.stop();
   }

@@ -7,6 +7,9 @@ import { createBoss } from "@/lib/jobs/boss";
 import { jobDefinitions } from "@/lib/jobs/registry";
 import { failStaleRuns } from "@/db/queries/run-worker";
 
+// A worker's database pool is sized as a worker's (db/pool-size.ts); the pool opens on first use.
+process.env.BLOCKYARD_PROCESS ??= "worker";
+
 // A worker that dies mid-run leaves its run "running" with a stale heartbeat: every worker sweeps
 // such runs to "failed" at start and then periodically, so nobody waits on a dead one for ever.
 const STALE_SECONDS = Number(process.env.RUN_STALE_SECONDS ?? 90);

@@ -3,6 +3,7 @@ import type { Knex } from "knex";
 import { db } from "@/db";
 import type { BlocksRow, DeliveriesRow, GradesRow } from "@/db/tables";
 import { appendLedger } from "./ledger";
+import { STOCK_VERSION_SQL, byStockVersion, hasKept, keep, keptAt } from "./stock-version";
 import { HttpError } from "@/lib/errors";
 import {
   HOLD_LABELS,
@@ -185,65 +186,92 @@ function decodeCursor(sort: BlockQuery["sort"], cursor: string, param: "after" |
 export type { BlockList } from "@/lib/stock-types";
 import type { BlockList } from "@/lib/stock-types";
 
+/** The count and totals of everything a filter matches. */
+interface Totals {
+  n: number;
+  v: number;
+  c: number;
+}
+
+/** Everything that decides which rows match (not their order or page), and the day `ready` is judged on. */
+function filterKey(f: BlockQuery, today: string): string {
+  const { q, grade, status, location, minLength, maxLength, minVolume, offcuts } = f;
+  return `totals:${today}:${JSON.stringify([q, grade, status, location, minLength, maxLength, minVolume, offcuts])}`;
+}
+
 /**
  *   listBlocks({ status: "ready", grade: 2, sort: "received", page: 1, pageSize: 50 })
  *   listBlocks({ ..., after: list.next })   // the next page, by keyset
  * One page of stock, with the count and totals of everything the filters match. With `after` or
  * `before` the page is found by keyset (the row the cursor names, then the index onwards), so a
  * deep page costs what the first does; `page` alone is offset paging, kept for links people saved.
+ *
+ * One statement reads the page's ids and then their rows with grade, supplier, defect count and
+ * the stock version; the count and totals (a pass over every matching row) and the FIFO positions are kept
+ * per filter and stock version (stock-version.ts), so they are read again only after a write to
+ * `blocks`: while stock stands still, a page is that one statement.
  */
 export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<BlockList> {
   const k = db();
   const col = SORT_COLUMNS[f.sort];
-  // No filter reads the grade: counting and totals need the blocks alone (a covering index).
-  const filtered = applyFilters(k("blocks as b"), f, today);
   const backwards = !f.after && !!f.before;
   const dir = backwards ? (f.dir === "asc" ? "desc" : "asc") : f.dir;
-  // The page's ids first, from the narrow index, so a deep page does not build (and count the
-  // defects of) every row it skips; then the full rows of those ids only. One row more than the
-  // page tells whether there is a page beyond.
-  const idsQ = applyFilters(
+  const cursor = f.after ?? f.before;
+  // The page's ids from the narrow index (or a sort of narrow rows, for a column without one), then
+  // the full rows of those ids only, in the same statement: a deep page does not build (or count
+  // the defects of) any row it skips. One row more than the page tells whether there is a page beyond.
+  const ids = applyFilters(
     f.sort === "grade" ? k("blocks as b").join("grades as g", "g.id", "b.grade_id") : k("blocks as b"),
     f,
     today,
   )
-    .select("b.id", k.raw(`${col}::text AS sort_key`))
+    .select("b.id")
     .orderBy(col, dir)
     .orderBy("b.id", dir)
     .limit(f.pageSize + 1);
-  const cursor = f.after ?? f.before;
   if (cursor) {
     const [key, id] = decodeCursor(f.sort, cursor, f.after ? "after" : "before");
-    idsQ.whereRaw(`(${col}, b.id) ${dir === "asc" ? ">" : "<"} (CAST(? AS ${SORT_TYPES[f.sort]}), ?)`, [key, id]);
-  } else idsQ.offset((f.page - 1) * f.pageSize);
-  const [found, totals] = await Promise.all([
-    idsQ as Promise<{ id: number; sort_key: string }[]>,
-    filtered
-      .clone()
-      .select(k.raw("count(*) AS n, coalesce(sum(b.volume_m3), 0) AS v, coalesce(sum(b.cost), 0) AS c"))
-      .first() as Promise<{ n: number; v: number; c: number } | undefined>,
-  ]);
+    ids.whereRaw(`(${col}, b.id) ${dir === "asc" ? ">" : "<"} (CAST(? AS ${SORT_TYPES[f.sort]}), ?)`, [key, id]);
+  } else ids.offset((f.page - 1) * f.pageSize);
+  const page = selectBlocks(k)
+    .select(k.raw(`${col}::text AS sort_key`), k.raw(`${STOCK_VERSION_SQL} AS stock_v`))
+    .whereIn("b.id", ids)
+    .orderBy(col, dir)
+    .orderBy("b.id", dir);
+  const key = filterKey(f, today);
+  const readTotals = async (): Promise<Totals> => {
+    const r = (await applyFilters(k("blocks as b"), f, today)
+      .select(
+        k.raw(
+          `count(*) AS n, coalesce(sum(b.volume_m3), 0) AS v, coalesce(sum(b.cost), 0) AS c, ${STOCK_VERSION_SQL} AS stock_v`,
+        ),
+      )
+      .first()) as (Totals & { stock_v: number }) | undefined;
+    const t = { n: Number(r?.n ?? 0), v: Number(r?.v ?? 0), c: Number(r?.c ?? 0) };
+    keep(key, Number(r?.stock_v ?? -1), t);
+    return t;
+  };
+  // Kept totals are checked against the version the page's statement read; none kept: both at once.
+  const rowsQ = page as unknown as Promise<(Row & { sort_key: string; stock_v: number })[]>;
+  const [found, fresh] = await Promise.all([rowsQ, hasKept(key) ? null : readTotals()]);
+  const v = Number(found[0]?.stock_v ?? -1);
+  // An empty first page is the answer's totals too: nothing matches (same filters, same snapshot).
+  const none = !found.length && !cursor && f.page === 1 ? { n: 0, v: 0, c: 0 } : undefined;
+  const totals = fresh ?? none ?? keptAt<Totals>(key, v) ?? (await readTotals());
   const more = found.length > f.pageSize;
-  const ids = found.slice(0, f.pageSize);
-  if (backwards) ids.reverse();
-  const rows = ids.length
-    ? ((await selectBlocks(k).whereIn(
-        "b.id",
-        ids.map((r) => r.id),
-      )) as Row[])
-    : [];
-  const byId = new Map(rows.map((r) => [r.id, r]));
-  const items = ids.map((r) => toSummary(byId.get(r.id)!, today));
-  await attachFifo(items, today);
-  const first = ids[0];
-  const last = ids.at(-1);
+  const rows = found.slice(0, f.pageSize);
+  if (backwards) rows.reverse();
+  const items = rows.map((r) => toSummary(r, today));
+  await withFifo(items, today, v);
+  const first = rows[0];
+  const last = rows.at(-1);
   // Forwards, a page beyond exists when the extra row came; backwards, when it came the other way.
   const hasNext = backwards ? true : more;
   const hasPrev = backwards ? more : !!f.after || (!cursor && f.page > 1);
   return {
     items,
-    total: Number(totals?.n ?? 0),
-    totals: { volumeM3: Number(totals?.v ?? 0), value: Number(totals?.c ?? 0) },
+    total: totals.n,
+    totals: { volumeM3: totals.v, value: totals.c },
     page: f.page,
     pageSize: f.pageSize,
     next: hasNext && last ? encodeCursor(f.sort, last.sort_key, last.id) : null,
@@ -252,44 +280,44 @@ export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<Bloc
 }
 
 /**
- * First-in, first-out position among ready stock of the same grade (oldest moulding/receipt first,
- * `fifo_on`). Ranks in the order of the blocks_fifo index, and only up to the page's latest block
- * in each grade: nothing after it can change the positions shown.
+ *   await withFifo(rows, today, v)
+ * Sets each ready row's first-in, first-out position among ready stock of the same grade (oldest
+ * moulding/receipt first, `fifo_on`, then id; the blocks_fifo index order). The positions of the
+ * whole register are ranked in one statement and kept per stock version and day, so while stock
+ * does not change a page at any depth costs no ranking at all.
  */
-async function attachFifo(items: BlockSummary[], today: string) {
+async function withFifo(items: BlockSummary[], today: string, v: number): Promise<void> {
   const ready = items.filter((b) => b.shown === "ready");
   if (!ready.length) return;
-  const ids = ready.map((b) => b.id);
-  const rows = await db()
-    .with(
-      "upto",
-      db()("blocks").whereIn("id", ids).groupBy("grade_id").select("grade_id", db().raw("max(fifo_on) AS fifo_on")),
-    )
-    .with(
-      "ranked",
-      db()("upto as u")
-        .join("blocks as b", function () {
-          this.on("b.grade_id", "u.grade_id").andOn("b.fifo_on", "<=", "u.fifo_on");
-        })
-        .select("b.id", db().raw("row_number() OVER (PARTITION BY b.grade_id ORDER BY b.fifo_on, b.id) AS fifo"))
-        .where("b.status", "in_stock")
-        .where("b.cut_not_before", "<=", today),
-    )
-    .select("id", "fifo")
-    .from("ranked")
-    .whereIn("id", ids);
-  const byId = new Map((rows as { id: number; fifo: number }[]).map((r) => [r.id, r.fifo]));
-  for (const b of ready) b.fifo = byId.get(b.id) ?? null;
+  const key = `fifo:${today}`;
+  let positions = keptAt<Map<number, number>>(key, v);
+  if (!positions) {
+    // The version in the same statement as the ranking (a row even when nothing is ready).
+    const r = (await db().raw(
+      `SELECT sv.v AS stock_v, f.id, f.fifo
+         FROM stock_version sv
+         LEFT JOIN (SELECT id, row_number() OVER (PARTITION BY grade_id ORDER BY fifo_on, id) AS fifo
+                      FROM blocks WHERE status = 'in_stock' AND cut_not_before <= ?) f ON true
+        WHERE sv.id = 1`,
+      [today],
+    )) as { rows: { stock_v: number; id: number | null; fifo: number | null }[] };
+    positions = new Map();
+    for (const row of r.rows) if (row.id !== null) positions.set(row.id, Number(row.fifo));
+    keep(key, Number(r.rows[0]?.stock_v ?? -1), positions);
+  }
+  for (const b of ready) b.fifo = positions.get(b.id) ?? null;
 }
 
 export async function getBlock(idOrCode: number | string, today = isoDate()): Promise<BlockDetail | undefined> {
-  const q = selectBlocks(db()).select("p.code as parent_code").leftJoin("blocks as p", "p.id", "b.parent_id");
+  const q = selectBlocks(db())
+    .select("p.code as parent_code", db().raw(`${STOCK_VERSION_SQL} AS stock_v`))
+    .leftJoin("blocks as p", "p.id", "b.parent_id");
   if (typeof idOrCode === "number") q.where("b.id", idOrCode);
   else q.whereRaw("upper(b.code) = upper(?)", [idOrCode]);
   const r = await q.first();
   if (!r) return undefined;
   const s = toSummary(r as Row, today);
-  await attachFifo([s], today);
+  await withFifo([s], today, Number(r.stock_v));
   return {
     ...s,
     nominalSize: [Number(r.nominal_x), Number(r.nominal_y), Number(r.nominal_z)],
@@ -310,9 +338,13 @@ export async function listChildren(
   return rows.map((r) => ({ id: r.id, code: r.code, size: [r.size_x, r.size_y, r.size_z] as Vec3, status: r.status }));
 }
 
+/** Where stock stands now, A to Z (kept per stock version: it is a pass over every block in stock). */
 export async function listLocations(): Promise<string[]> {
-  const rows = await db()("blocks").distinct("location").whereIn("status", PHYSICAL_STATUSES).orderBy("location");
-  return rows.map((r: { location: string }) => r.location);
+  const kept = await byStockVersion("locations", async () => {
+    const rows = await db()("blocks").distinct("location").whereIn("status", PHYSICAL_STATUSES).orderBy("location");
+    return rows.map((r: { location: string }) => r.location);
+  });
+  return kept.slice();
 }
 
 export async function updateBlock(id: number, patch: { location?: string; notes?: string | null }, actorId: string) {

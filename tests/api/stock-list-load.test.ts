@@ -1,0 +1,149 @@
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { client, demoEmail, type Client } from "../support/http";
+import { closeTestDb, makeBlock, testDb } from "../support/db";
+import { makeDoneRun, makeJobWithParts } from "../support/planning-fixtures";
+
+// The query modules are read here in this process too (to see the SQL they send); outside Next,
+// the "server-only" marker would refuse to load.
+vi.mock("server-only", () => ({}));
+
+const { db } = await import("@/db");
+const { listBlocks } = await import("@/db/queries/blocks");
+const { listRuns } = await import("@/db/queries/runs");
+const { blockQuerySchema } = await import("@/lib/validations/stock");
+
+afterAll(async () => {
+  await closeTestDb();
+  await db().destroy();
+});
+
+let buyer: Client;
+beforeAll(async () => {
+  buyer = client();
+  await buyer.signIn(demoEmail("buyer"));
+});
+
+/** The SQL of every statement `run` sends through the app's Knex instance. */
+async function statementsOf(run: () => Promise<unknown>): Promise<string[]> {
+  const sql: string[] = [];
+  const on = (q: { sql: string }) => sql.push(q.sql);
+  db().on("query", on);
+  try {
+    await run();
+  } finally {
+    db().off("query", on);
+  }
+  return sql;
+}
+
+const totalsOf = async (query: string) => {
+  const res = await buyer.get(`/api/blocks?${query}`);
+  expect(res.status).toBe(200);
+  return { total: res.body.total as number, volume: res.body.totals.volumeM3 as number, codes: res.body.items };
+};
+
+describe("stock list under load: one statement per page, totals kept until stock changes", () => {
+  it("reads a page (first, keyset or offset) in one statement once the filter's totals are kept", async () => {
+    const f = blockQuerySchema.parse({ status: "all", sort: "code", pageSize: 5 });
+    const first = await listBlocks(f);
+    expect(first.items).toHaveLength(5);
+    // The same filter again, and the keyset and offset pages after it: the totals are kept.
+    const again = await statementsOf(() => listBlocks(f));
+    expect(again).toHaveLength(1);
+    const keyset = await statementsOf(() => listBlocks({ ...f, after: first.next! }));
+    expect(keyset).toHaveLength(1);
+    const offset = await statementsOf(() => listBlocks({ ...f, page: 2 }));
+    expect(offset).toHaveLength(1);
+    // Keyset and offset agree on what page 2 is.
+    const [byKeyset, byOffset] = await Promise.all([
+      listBlocks({ ...f, after: first.next! }),
+      listBlocks({ ...f, page: 2 }),
+    ]);
+    expect(byKeyset.items.map((b) => b.code)).toEqual(byOffset.items.map((b) => b.code));
+    expect(byKeyset.total).toBe(first.total);
+  });
+
+  it("answers the next request with the new count and totals after any write to stock, from any process", async () => {
+    const q = `status=all&location=${encodeURIComponent(`Load bay ${Date.now()}`)}`;
+    const location = decodeURIComponent(q.split("location=")[1]!);
+    const before = await totalsOf(q);
+    expect(before.total).toBe(0);
+    await totalsOf(q); // kept now
+    // Written by another process (this test's own connection), not through the app.
+    const a = await makeBlock({ location, size: [1000, 1000, 1000] });
+    const one = await totalsOf(q);
+    expect(one.total).toBe(1);
+    expect(one.volume).toBeCloseTo(1, 6);
+    await makeBlock({ location, size: [2000, 1000, 1000] });
+    expect((await totalsOf(q)).volume).toBeCloseTo(3, 6);
+    // Through the app: a block written off leaves the stock in the yard.
+    const avail = `location=${encodeURIComponent(location)}`;
+    expect((await totalsOf(avail)).total).toBe(2);
+    expect((await buyer.post(`/api/blocks/${a.id}/scrap`, { reason: "Load test" })).status).toBe(200);
+    const after = await totalsOf(avail);
+    expect(after.total).toBe(1);
+    expect(after.volume).toBeCloseTo(2, 6);
+    // A change of a column no filter reads still counts as a write (the version is per commit).
+    await testDb()("blocks").where({ id: a.id }).update({ notes: "seen" });
+    expect((await totalsOf(avail)).total).toBe(1);
+  });
+
+  it("reads the totals again in a process that kept them, once another process wrote a block", async () => {
+    const location = `Load yard ${Date.now()}`;
+    const f = blockQuerySchema.parse({ status: "all", location });
+    expect((await listBlocks(f)).total).toBe(0);
+    expect(await statementsOf(() => listBlocks(f))).toHaveLength(1); // kept
+    await makeBlock({ location, size: [1000, 1000, 500] });
+    const after = await listBlocks(f);
+    expect(after.total).toBe(1);
+    expect(after.totals.volumeM3).toBeCloseTo(0.5, 6);
+    expect(after.items.map((b) => b.location)).toEqual([location]);
+  });
+
+  it("offers a new location in the stock page's filter as soon as a block stands there", async () => {
+    const location = `Load rack ${Date.now()}`;
+    const page = async () => (await buyer.get("/stock")).text;
+    expect(await page()).not.toContain(location);
+    await makeBlock({ location });
+    expect(await page()).toContain(location);
+  });
+
+  it("bumps the stock version once per transaction, at its commit", async () => {
+    const version = async () => Number((await testDb()("stock_version").where({ id: 1 }).first("v"))!.v);
+    const b = await makeBlock();
+    const v0 = await version();
+    const trx = await testDb().transaction();
+    await trx("blocks").where({ id: b.id }).update({ notes: "one" });
+    await trx("blocks").where({ id: b.id }).update({ notes: "two" });
+    // Not yet committed: others still read the old version (and the totals kept under it hold).
+    expect(await version()).toBe(v0);
+    await trx.commit();
+    expect(await version()).toBe(v0 + 1);
+    await testDb()
+      .transaction(async (t) => {
+        await t("blocks").where({ id: b.id }).update({ notes: "rolled back" });
+        await t.rollback();
+      })
+      .catch(() => undefined);
+    expect(await version()).toBe(v0 + 1);
+  });
+});
+
+describe("the plan page's runs of the same job", () => {
+  it("are read without any run's problem or plan", async () => {
+    const block = await makeBlock({ size: [2000, 1000, 600] });
+    const { jobId } = await makeJobWithParts([{ name: "Load panel", quantity: 2, size: [900, 400, 200] }]);
+    for (let i = 0; i < 3; i++) await makeDoneRun(jobId, [block]);
+    // Runs stored before figures were kept with the plan get them worked out once, on first read.
+    await listRuns({ jobId, limit: 8 });
+    let runs: Awaited<ReturnType<typeof listRuns>> = [];
+    const sql = await statementsOf(async () => {
+      runs = await listRuns({ jobId, limit: 8 });
+    });
+    expect(runs).toHaveLength(3);
+    for (const r of runs) expect(r.stats).not.toBeNull();
+    for (const s of sql) {
+      expect(s).not.toMatch(/"r"\.\*|"problem"|"plan"(?!\s+IS NOT NULL)|\bselect \*/i);
+    }
+  });
+});
