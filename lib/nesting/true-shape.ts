@@ -41,11 +41,17 @@ import type {
 } from "./types";
 
 /** Share of the time budget the slab nesting gets (the block nesting has the rest). */
-const SLAB_SHARE = 0.8;
+const SLAB_SHARE = 0.9;
 /** Piece moves of each slab nesting when no clock is handed in (keeps a seed's plan the same). */
 const SLAB_MOVES = 1500;
 /** Strip widths tried per group of parts. */
-const MAX_WIDTHS = 2;
+const MAX_WIDTHS = 3;
+/** Narrower strips tried after a strip's first nesting, each NARROW_STEP of the used width. */
+const NARROW_TRIES = 4;
+const NARROW_STEP = 0.85;
+/** Share of a strip's time its first nesting gets, and each narrower retry (of what is then left). */
+const NARROW_FIRST = 0.6;
+const NARROW_RETRY = 0.35;
 /** Slabs per group at most (a guard; each slab holds at least one part). */
 const MAX_SLABS = 200;
 /** Share of a slab's face the parts' boxes are expected to fill (sets how many parts one slab is given). */
@@ -105,6 +111,16 @@ function nestingLoop(occupied: readonly FacePoint[]): FacePoint[] {
   return best;
 }
 
+/** The least height of a loop over the given rotations (quarter turns: the smaller side of its box). */
+function minCrossing(loop: readonly FacePoint[], rotations: readonly number[]): number {
+  const b = bboxOf([loop]);
+  const w = b.maxX - b.minX;
+  const h = b.maxY - b.minY;
+  return rotations.some((r) => ((Math.round(r) % 180) + 180) % 180 === 90) ? Math.min(w, h) : h;
+}
+
+const boxVolume = (p: Part) => p.size[0] * p.size[1] * p.size[2];
+
 /** Strip widths and the longest slab for them, from the blocks the group may use. */
 function stripSizes(problem: Problem, g: Group): { width: number; length: number }[] {
   const seen = new Map<string, { width: number; length: number }>();
@@ -139,18 +155,19 @@ function stripSizes(problem: Problem, g: Group): { width: number; length: number
   }
   const list = [...byWidth.values()].sort((a, b) => b.width - a.width || b.length - a.length);
   if (list.length <= MAX_WIDTHS) return list;
-  // The widest and the one nearest half of it (a narrower slab stands beside others in a block).
+  // The two widest and the one nearest half of the widest (a narrower slab stands beside others in a block).
   const half = list.reduce(
     (best, s) => (Math.abs(s.width - list[0]!.width / 2) < Math.abs(best.width - list[0]!.width / 2) ? s : best),
     list[1]!,
   );
-  return [list[0]!, half];
+  return [...new Set([list[0]!, list[1]!, half])];
 }
 
 interface Pack {
   slabs: SlabLayout[];
+  /** Volume of the slabs plus the boxes of the copies left (mm³). */
   volume: number;
-  /** Copies no slab could take (to be nested as boxes). */
+  /** Copies no slab could take, or whose slab would not be smaller than their boxes (to be nested as boxes). */
   left: Map<string, number>;
 }
 
@@ -195,18 +212,22 @@ function settle(
   return { layout: null, out };
 }
 
-/** The parts of a group into slabs of one strip size: strip after strip, each cut to the longest slab, until every copy has a slab. */
+/**
+ * The parts of a group into slabs of one strip size: strip after strip, each cut to the longest
+ * slab and nested again in narrower strips while its face shrinks, until every copy has a slab or
+ * is left to the box nesting (a slab no smaller than its members' boxes is not made).
+ */
 function* packGroup(
   problem: Problem,
   g: Group,
   size: { width: number; length: number },
   items: Map<string, FacePoint[]>,
-  budget: (slabsLeft: number) => IrregularRunOptions,
+  budget: (share: number) => IrregularRunOptions,
+  timeLeft: () => number,
 ): Generator<Step, Pack, IrregularSolution | Plan> {
   const pool = new Map(g.parts.map((p) => [p.id, p.quantity]));
   const slabs: SlabLayout[] = [];
   const left = new Map<string, number>();
-  let volume = 0;
   const area = (id: string) => {
     const b = bboxOf([items.get(id)!]);
     return (b.maxX - b.minX) * (b.maxY - b.minY);
@@ -233,8 +254,9 @@ function* packGroup(
       if (!any) break;
     }
     const list = order.filter((p) => take.has(p.id));
-    const irr: IrregularProblem = {
-      width: size.width,
+    const byId = new Map(list.map((p) => [p.id, p]));
+    const stripOf = (width: number): IrregularProblem => ({
+      width,
       kerf: problem.settings.kerf,
       margin: 0,
       items: list.map(
@@ -246,31 +268,68 @@ function* packGroup(
           rotations: faceRotations(p.rotate),
         }),
       ),
-    };
-    const need = remaining;
-    const sol = (yield {
-      kind: "slab",
-      problem: irr,
-      options: budget(Math.max(1, Math.ceil(need / (0.6 * size.width * size.length)))),
-    }) as IrregularSolution;
-    const byId = new Map(list.map((p) => [p.id, p]));
-    const loops = sol.placements.map((pl) => ({
-      part: pl.item,
-      rotation: pl.rotation,
-      at: [pl.x, pl.y] as FacePoint,
-      loop: memberLoop(occupiedOutline(byId.get(pl.item)!.outline!), pl.rotation, [pl.x, pl.y]),
-    }));
+    });
     // The strip is nested open (where the engine packs densest); what lies within the longest slab
     // is this slab, and the pieces beyond go back to the pool for the next strip.
-    const within = loops.filter((m) => bboxOf([m.loop]).maxX <= size.length);
+    const withinOf = (sol: IrregularSolution) =>
+      sol.placements
+        .map((pl) => ({
+          part: pl.item,
+          rotation: pl.rotation,
+          at: [pl.x, pl.y] as FacePoint,
+          loop: memberLoop(occupiedOutline(byId.get(pl.item)!.outline!), pl.rotation, [pl.x, pl.y]),
+        }))
+        .filter((m) => bboxOf([m.loop]).maxX <= size.length);
+    const faceArea = (w: ReturnType<typeof withinOf>) => {
+      const b = bboxOf(w.map((m) => m.loop));
+      return b.maxX * b.maxY;
+    };
+    // This strip's share of the time left for the size: its copies over the copies left; the first
+    // nesting takes most of it, narrower strips the rest.
+    const inPool = [...pool.values()].reduce((a, b) => a + b, 0);
+    const part = [...take.values()].reduce((a, b) => a + b, 0) / Math.max(1, inPool);
+    const first = (yield {
+      kind: "slab",
+      problem: stripOf(size.width),
+      options: budget(part * NARROW_FIRST),
+    }) as IrregularSolution;
+    let within = withinOf(first);
     if (!within.length) break;
+    // The engine shortens the strip and may spread the parts across its width, while a slab takes
+    // both: nest again in narrower strips (NARROW_STEP of the used width) while the slab's face
+    // shrinks with every part still inside it and time is left.
+    const narrowest = Math.max(...list.map((p) => minCrossing(items.get(p.id)!, faceRotations(p.rotate))));
+    for (let k = 0, cost = first.stats.firstMs ?? 0; k < NARROW_TRIES; k++) {
+      const w = NARROW_STEP * bboxOf(within.map((m) => m.loop)).maxY;
+      if (w < narrowest + problem.settings.kerf || timeLeft() * part < cost) break;
+      const sol = (yield {
+        kind: "slab",
+        problem: stripOf(w),
+        options: budget(part * NARROW_RETRY),
+      }) as IrregularSolution;
+      cost = Math.max(cost, sol.stats.firstMs ?? 0);
+      const next = withinOf(sol);
+      if (next.length < within.length || faceArea(next) >= faceArea(within)) break;
+      within = next;
+    }
     const { layout } = settle(problem, g, within);
     if (!layout) break;
-    slabs.push(layout);
-    volume += layout.size[0] * layout.size[1] * layout.size[2];
     for (const m of layout.members) pool.set(m.part, pool.get(m.part)! - 1);
+    // A slab no smaller than its members' boxes saves nothing: they are nested as boxes instead.
+    const slabVolume = layout.size[0] * layout.size[1] * layout.size[2];
+    const boxes = layout.members.reduce((s, m) => s + boxVolume(byId.get(m.part)!), 0);
+    if (slabVolume >= boxes) {
+      for (const m of layout.members) left.set(m.part, (left.get(m.part) ?? 0) + 1);
+      continue;
+    }
+    slabs.push(layout);
   }
-  for (const [id, q] of pool) if (q > 0) left.set(id, q);
+  for (const [id, q] of pool) if (q > 0) left.set(id, (left.get(id) ?? 0) + q);
+  // What the group takes: its slabs, and the boxes of the copies left to the box nesting.
+  const parts = new Map(g.parts.map((p) => [p.id, p]));
+  const volume =
+    slabs.reduce((s, l) => s + l.size[0] * l.size[1] * l.size[2], 0) +
+    [...left].reduce((s, [id, q]) => s + q * boxVolume(parts.get(id)!), 0);
   return { slabs, volume, left };
 }
 
@@ -294,30 +353,37 @@ function* trueShapeSteps(problem: Problem, options: NestOptions): Generator<Step
     groups.set(key, g);
   }
   const pieces = [...groups.values()].reduce((s, g) => s + g.parts.reduce((t, p) => t + p.quantity, 0), 0);
-  const slabBudget = total * SLAB_SHARE;
+  // The slabs' time ends at SLAB_SHARE of the budget; what a nesting leaves unused goes to the next
+  // ones. Each (group, width) gets the time left in proportion to the group's boxes' volume (the
+  // foam there is to save), each strip its share of the group's copies.
+  const slabEnd = t0 + total * SLAB_SHARE;
+  const copies = (g: Group) => g.parts.reduce((t, p) => t + p.quantity, 0);
+  const weight = (g: Group) => g.parts.reduce((t, p) => t + p.quantity * boxVolume(p), 0);
+  const sizesOf = new Map([...groups.values()].map((g) => [g.key, stripSizes(problem, g)]));
+  let weightLeft = [...groups.values()].reduce((s, g) => s + weight(g) * sizesOf.get(g.key)!.length, 0);
 
   const chosen: { g: Group; pack: Pack }[] = [];
   let doneShare = 0;
   for (const g of groups.values()) {
     const items = new Map(g.parts.map((p) => [p.id, nestingLoop(occupiedOutline(p.outline!))]));
-    const sizes = stripSizes(problem, g);
-    const share = g.parts.reduce((t, p) => t + p.quantity, 0) / Math.max(1, pieces);
+    const sizes = sizesOf.get(g.key)!;
+    const share = copies(g) / Math.max(1, pieces);
     let best: Pack | null = null;
     for (const size of sizes) {
       const start = now?.() ?? 0;
-      const perSize = (slabBudget * share) / sizes.length;
-      const budget = (slabsLeft: number): IrregularRunOptions => {
+      const perSize = weightLeft > 0 ? ((slabEnd - start) * weight(g)) / weightLeft : 0;
+      weightLeft -= weight(g);
+      const budget = (part: number): IrregularRunOptions => {
         calls++;
         const base = { seed: seed * 1000 + calls, ...(options.signal ? { signal: options.signal } : {}) };
         if (!now) return { ...base, maxMoves: SLAB_MOVES };
         const remaining = Math.max(0, perSize - (now() - start));
-        return { ...base, now, timeLimitMs: Math.max(100, remaining / slabsLeft) };
+        return { ...base, now, timeLimitMs: Math.max(100, remaining * part) };
       };
-      const pack: Pack = yield* packGroup(problem, g, size, items, budget);
-      const placed = (p: Pack) =>
-        g.parts.reduce((t, q) => t + q.quantity, 0) - [...p.left.values()].reduce((a, b) => a + b, 0);
-      if (!best || placed(pack) > placed(best) || (placed(pack) === placed(best) && pack.volume < best.volume))
-        best = pack;
+      const timeLeft = () => (now ? Math.max(0, perSize - (now() - start)) : Infinity);
+      const pack: Pack = yield* packGroup(problem, g, size, items, budget, timeLeft);
+      // Every copy is in a slab or left to the box nesting: the least volume wins.
+      if (!best || pack.volume < best.volume) best = pack;
     }
     doneShare += share;
     options.onProgress?.({
@@ -403,7 +469,9 @@ function withSlabs(plan: Plan, slabs: readonly SlabPlanned[]): Plan {
     if (had) had.count += e.count;
     else unplaced.push({ part, count: e.count, reason: e.reason });
   }
-  return { ...plan, placements, unplaced };
+  // A plan with a slab placement is version 2 (a v1 reader would meet a part id not in the problem); without one it stays v1.
+  const version = placements.some((pl) => pl.slab) ? 2 : plan.version;
+  return { ...plan, version, placements, unplaced };
 }
 
 type BoxNest = (problem: Problem, options: NestOptions) => Promise<Plan>;

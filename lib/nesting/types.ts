@@ -127,7 +127,8 @@ export interface PlanStats {
 }
 
 export interface Plan {
-  version: 1;
+  /** 1, or 2 when a placement is a slab (`placements[i].slab`): a v1 reader would see a part id that is not in the problem. */
+  version: 1 | 2;
   placements: Placement[];
   unplaced: Unplaced[];
   offcuts: Offcut[];

@@ -30,7 +30,9 @@ export function validatePlan(problem: Problem, plan: Plan): string[] {
   const { kerf, defectMargin, minOffcut, layout } = problem.settings;
   const blocks = new Map<string, Block>(problem.blocks.map((b) => [b.id, b]));
   const parts = new Map<string, Part>(problem.parts.map((p) => [p.id, p]));
-  if (plan.version !== 1) errors.push("version: must be 1");
+  if (plan.version !== 1 && plan.version !== 2) errors.push("version: must be 1 or 2");
+  else if (plan.version === 1 && (plan.placements ?? []).some((pl) => pl.slab !== undefined))
+    errors.push("version: must be 2 when a placement is a slab (a v1 reader does not know slab ids)");
   const pieces = new Map<string, Piece[]>();
   const placedCount = new Map<string, number>();
   const seen = new Map<string, number>();

@@ -184,6 +184,7 @@ function toSolution(
     stats: {
       elapsedMs: search.elapsed(),
       firstLength: search.firstLen / S,
+      firstMs: search.firstMs,
       evaluations: search.L.evaluations,
       moves: search.moves,
       improvements: search.improvements,

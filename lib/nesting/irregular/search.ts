@@ -68,6 +68,8 @@ export class IrregularSearch {
   /** Used length (scaled) of the best layout. */
   bestLen = Infinity;
   firstLen = Infinity;
+  /** Time the construction took (ms, 0 without a clock). */
+  firstMs = 0;
   improvements = 0;
   /** Total area of the pieces (problem units). */
   readonly pieceArea: number;
@@ -148,6 +150,7 @@ export class IrregularSearch {
       L.len = L.usedLength();
       this.accept();
       this.firstLen = this.bestLen;
+      this.firstMs = this.elapsed();
       this.phase = L.n > 1 ? "explore" : "done";
       return;
     }

@@ -56,6 +56,8 @@ export interface IrregularStats {
   elapsedMs: number;
   /** Length of the first (constructive) solution. */
   firstLength: number;
+  /** Time the first solution took, ms (0 without a clock). */
+  firstMs?: number;
   /** Overlap evaluations of one piece at one position. */
   evaluations: number;
   /** Pieces moved by the overlap-minimisation phase. */

@@ -345,7 +345,7 @@ describe("the validator on slab members", () => {
       ],
     });
     const bad: Plan = {
-      version: 1,
+      version: 2,
       placements: [
         {
           part: "slab-1",
@@ -455,5 +455,33 @@ describe("one program per true-shape slab", () => {
       expect(prog.parts.every((p) => p.root !== p.tip)).toBe(true);
       expect(prog.frame.fourAxis).toBe(true);
     }
+  });
+});
+
+describe("the plan's version (nesting-format.md, 'Extending the format', rules 4 and 6)", () => {
+  const problem = parse(lProblem());
+  const plan = nestSync(problem, { seed: 1 });
+  const plainProblem = parse({ ...lProblem(), settings: { kerf: 2, timeLimitMs: 1000 } });
+  const plain = nestSync(plainProblem, { seed: 1 });
+
+  it("is 2 for a plan with a slab placement (a v1 reader would meet a slab id not in the problem)", () => {
+    expect(plan.placements.some((p) => p.slab)).toBe(true);
+    expect(plan.version).toBe(2);
+    expect(validatePlan(problem, plan)).toEqual([]);
+  });
+
+  it("stays 1 for a plan without slabs, and the validator still reads it", () => {
+    expect(plain.placements.some((p) => p.slab)).toBe(false);
+    expect(plain.version).toBe(1);
+    expect(validatePlan(plainProblem, plain)).toEqual([]);
+  });
+
+  it("refuses a plan with slabs that says version 1, and any version but 1 or 2", () => {
+    expect(validatePlan(problem, { ...plan, version: 1 })).toContain(
+      "version: must be 2 when a placement is a slab (a v1 reader does not know slab ids)",
+    );
+    expect(validatePlan(plainProblem, { ...plain, version: 3 } as unknown as Plan)).toContain(
+      "version: must be 1 or 2",
+    );
   });
 });
