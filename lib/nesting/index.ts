@@ -3,6 +3,7 @@
  * Pure: no I/O, no clock or randomness that is not handed in.
  */
 import { parseProblem, parseProblemText, type ParseResult } from "./parse";
+import { runAnytime } from "./anytime";
 import { Search } from "./solver/search";
 import { nestTrueShape, nestTrueShapeSync, usesTrueShape } from "./true-shape";
 import type { NestOptions, Plan, Problem } from "./types";
@@ -58,21 +59,7 @@ export async function nest(problem: Problem, options: NestOptions = {}): Promise
 
 async function nestBoxes(problem: Problem, options: NestOptions): Promise<Plan> {
   const search = makeSearch(problem, options);
-  let lastYield = options.now?.() ?? 0;
-  let lastReport = -Infinity;
-  while (!search.done(options.signal)) {
-    search.step();
-    const t = options.now?.() ?? 0;
-    if (options.onProgress && (!options.now || t - lastReport >= 100)) {
-      report(search, options);
-      lastReport = t;
-    }
-    if (!options.now || t - lastYield >= 20) {
-      await new Promise<void>((resolve) => setTimeout(resolve, 0));
-      lastYield = options.now?.() ?? 0;
-    }
-  }
-  report(search, options);
+  await runAnytime(search, options, () => report(search, options));
   return search.result();
 }
 

@@ -3,6 +3,7 @@
  * without overlap, minimising the length used. Pure: no I/O, no clock or randomness that is not
  * handed in. See lib/nesting/README.md, section "True-shape nesting".
  */
+import { runAnytime } from "../anytime";
 import { bestPosition } from "./construct";
 import type { Snapshot } from "./layout";
 import { parseIrregular, type IrregularParseResult } from "./parse";
@@ -64,21 +65,7 @@ export async function nestIrregular(
   options: IrregularRunOptions = {},
 ): Promise<IrregularSolution> {
   const search = makeSearch(problem, options);
-  let lastYield = options.now?.() ?? 0;
-  let lastReport = -Infinity;
-  while (!search.done(options.signal)) {
-    search.step();
-    const t = options.now?.() ?? 0;
-    if (options.onProgress && (!options.now || t - lastReport >= 100)) {
-      report(search, options);
-      lastReport = t;
-    }
-    if (!options.now || t - lastYield >= 20) {
-      await new Promise<void>((resolve) => setTimeout(resolve, 0));
-      lastYield = options.now?.() ?? 0;
-    }
-  }
-  report(search, options);
+  await runAnytime(search, options, () => report(search, options));
   return finish(search);
 }
 
