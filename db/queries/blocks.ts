@@ -3,7 +3,7 @@ import type { Knex } from "knex";
 import { db } from "@/db";
 import type { BlocksRow, DeliveriesRow, GradesRow } from "@/db/tables";
 import { appendLedger } from "./ledger";
-import { STOCK_VERSION_SQL, byStockVersion, hasKept, keep, keptAt } from "./stock-version";
+import { byStockVersion, hasKept, keep, keptAt } from "./stock-version";
 import { HttpError } from "@/lib/errors";
 import {
   HOLD_LABELS,
@@ -234,7 +234,7 @@ export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<Bloc
     ids.whereRaw(`(${col}, b.id) ${dir === "asc" ? ">" : "<"} (CAST(? AS ${SORT_TYPES[f.sort]}), ?)`, [key, id]);
   } else ids.offset((f.page - 1) * f.pageSize);
   const page = selectBlocks(k)
-    .select(k.raw(`${col}::text AS sort_key`), k.raw(`${STOCK_VERSION_SQL} AS stock_v`))
+    .select(k.raw(`${col}::text AS sort_key`), k.raw(`(SELECT v FROM stock_version WHERE id = 1) AS stock_v`))
     .whereIn("b.id", ids)
     .orderBy(col, dir)
     .orderBy("b.id", dir);
@@ -243,7 +243,7 @@ export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<Bloc
     const r = (await applyFilters(k("blocks as b"), f, today)
       .select(
         k.raw(
-          `count(*) AS n, coalesce(sum(b.volume_m3), 0) AS v, coalesce(sum(b.cost), 0) AS c, ${STOCK_VERSION_SQL} AS stock_v`,
+          `count(*) AS n, coalesce(sum(b.volume_m3), 0) AS v, coalesce(sum(b.cost), 0) AS c, (SELECT v FROM stock_version WHERE id = 1) AS stock_v`,
         ),
       )
       .first()) as (Totals & { stock_v: number }) | undefined;
@@ -310,7 +310,7 @@ async function withFifo(items: BlockSummary[], today: string, v: number): Promis
 
 export async function getBlock(idOrCode: number | string, today = isoDate()): Promise<BlockDetail | undefined> {
   const q = selectBlocks(db())
-    .select("p.code as parent_code", db().raw(`${STOCK_VERSION_SQL} AS stock_v`))
+    .select("p.code as parent_code", db().raw(`(SELECT v FROM stock_version WHERE id = 1) AS stock_v`))
     .leftJoin("blocks as p", "p.id", "b.parent_id");
   if (typeof idOrCode === "number") q.where("b.id", idOrCode);
   else q.whereRaw("upper(b.code) = upper(?)", [idOrCode]);

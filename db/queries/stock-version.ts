@@ -11,15 +11,17 @@ import { db } from "@/db";
 const kept = new Map<string, { v: number; value: unknown }>();
 const MAX_KEPT = 500;
 
-/** The SQL of the version, to select beside other columns: `(SELECT v FROM stock_version …) AS stock_v`. */
-export const STOCK_VERSION_SQL = "(SELECT v FROM stock_version WHERE id = 1)";
+// The version is selected beside other columns as the literal `(SELECT v FROM stock_version WHERE id = 1)`
+// (written out where used: SQL text is never built from variables; tests/api/security.test.ts).
 
 /**
  *   const v = await stockVersion();   // 412
  * The register's version now (one row, by primary key).
  */
 export async function stockVersion(): Promise<number> {
-  const r = (await db().raw(`SELECT ${STOCK_VERSION_SQL} AS v`)) as { rows: { v: number | null }[] };
+  const r = (await db().raw(`SELECT (SELECT v FROM stock_version WHERE id = 1) AS v`)) as {
+    rows: { v: number | null }[];
+  };
   return Number(r.rows[0]?.v ?? 0);
 }
 
