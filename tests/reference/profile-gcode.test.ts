@@ -6,6 +6,8 @@ import { partGeometry, type Point, type Profile } from "@/lib/profiles";
 import { type ProfileProgramInput, profileProgram } from "@/lib/profiles/program";
 import { partSections, planSlabs, type Section } from "@/lib/profiles/slabs";
 import { type Args, cmdOf, type Event, readBack } from "../support/gcode";
+import { loopDistance } from "../support/plane";
+import { profileCutter } from "../support/procedure-fixtures";
 
 // Profile programs read back with an interpreter that is not ours (cncjs gcode-interpreter 3.0.0),
 // and the wire's replayed path checked against the parts with a second, independent polygon
@@ -27,13 +29,6 @@ import { type Args, cmdOf, type Event, readBack } from "../support/gcode";
 
 // ---- plain geometry, written here ----
 const dist = (a: Point, b: Point) => Math.hypot(a[0] - b[0], a[1] - b[1]);
-function toSegment(p: Point, a: Point, b: Point): number {
-  const vx = b[0] - a[0];
-  const vy = b[1] - a[1];
-  const l2 = vx * vx + vy * vy;
-  const t = l2 ? Math.max(0, Math.min(1, ((p[0] - a[0]) * vx + (p[1] - a[1]) * vy) / l2)) : 0;
-  return Math.hypot(p[0] - a[0] - t * vx, p[1] - a[1] - t * vy);
-}
 function inRing(p: Point, ring: readonly Point[]): boolean {
   let inside = false;
   for (let i = 0, j = ring.length - 1; i < ring.length; j = i++) {
@@ -47,10 +42,7 @@ function inRing(p: Point, ring: readonly Point[]): boolean {
 function toSolid(p: Point, s: Section): number {
   const inside = inRing(p, s.outer) && !s.holes.some((h) => inRing(p, h));
   if (inside) return 0;
-  let d = Infinity;
-  for (const loop of [s.outer, ...s.holes])
-    for (let i = 0; i < loop.length; i++) d = Math.min(d, toSegment(p, loop[i]!, loop[(i + 1) % loop.length]!));
-  return d;
+  return Math.min(...[s.outer, ...s.holes].map((loop) => loopDistance(p, loop)));
 }
 const ringArea = (r: readonly Point[]) =>
   Math.abs(r.reduce((s, p, i) => s + p[0] * r[(i + 1) % r.length]![1] - r[(i + 1) % r.length]![0] * p[1], 0)) / 2;
@@ -311,20 +303,8 @@ const dialect = (over: Partial<GcodeDialect>): GcodeDialect => ({
   lineNumbers: false,
   ...over,
 });
-const machine = (over: Partial<Machine>): Machine => ({
-  name: "Test profile cutter",
-  kind: "profile",
-  wire: "horizontal",
-  wireLength: 1000,
-  travel: [1250, 650],
-  maxPiece: [1200, 1000, 600],
-  turntable: false,
-  rapid: 1500,
-  heatUpS: 10,
-  handlingS: 60,
-  dialect: dialect({}),
-  ...over,
-});
+const machine = (over: Partial<Machine>): Machine =>
+  profileCutter({ travel: [1250, 650], maxPiece: [1200, 1000, 600], dialect: dialect({}), ...over });
 
 const ring = (r: number, n: number, c: Point, phase = 0): Point[] =>
   Array.from({ length: n }, (_, i) => [

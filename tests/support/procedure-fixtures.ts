@@ -19,6 +19,34 @@ export const machine = (over: Partial<Machine> = {}): Machine => ({
   dialect: { unitWords: "G20/G21", inch: false, heatOn: "M3", heatOff: "M5", axes: ["X", "Y"], lineNumbers: false },
   ...over,
 });
+/**
+ * An invented profile cutter: 1,000 mm of wire, 1,200 × 600 mm of travel, 2 axes (X Y) unless
+ * `over` says `fourAxis` and `dialect` names tower axes.
+ *
+ *   profileCutter({ fourAxis: true }, { towerAxes: ["U", "V"] })
+ */
+export const profileCutter = (over: Partial<Machine> = {}, dialect: Partial<Machine["dialect"]> = {}): Machine => ({
+  name: "Test profile cutter",
+  kind: "profile",
+  wire: "horizontal",
+  wireLength: 1000,
+  travel: [1200, 600],
+  maxPiece: [1000, 1000, 600],
+  turntable: false,
+  rapid: 1500,
+  heatUpS: 10,
+  handlingS: 60,
+  dialect: {
+    unitWords: "G20/G21",
+    inch: false,
+    heatOn: "M3",
+    heatOff: "M5",
+    axes: ["X", "Y"],
+    lineNumbers: false,
+    ...dialect,
+  },
+  ...over,
+});
 export const huge = (wire: Machine["wire"]) =>
   machine({ wire, wireLength: 1e5, travel: [1e5, 1e5], maxPiece: [1e5, 1e5, 1e5] });
 

@@ -18,6 +18,7 @@ import { NfpCache, penetration } from "@/lib/nesting/irregular/nfp";
 import { prepare } from "@/lib/nesting/irregular/shapes";
 import { checkIndependently } from "@/scripts/lib-bench/irregular";
 import polygonClipping from "polygon-clipping";
+import { outlineGap } from "../../support/plane";
 
 /** A star-shaped loop around the origin; angular gaps stay under 120°, so a square of half-side r·0.25 fits inside. */
 const starArb = fc
@@ -82,14 +83,6 @@ const problemArb = fc
     return r.problem;
   });
 
-function segDist(p: Pt, a: Pt, b: Pt): number {
-  const dx = b[0] - a[0];
-  const dy = b[1] - a[1];
-  const l2 = dx * dx + dy * dy;
-  const t = l2 > 0 ? Math.max(0, Math.min(1, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / l2)) : 0;
-  return Math.hypot(a[0] + t * dx - p[0], a[1] + t * dy - p[1]);
-}
-
 /** Placed loops of every copy, computed here from the problem (rotation about the item's origin, then the move). */
 function placed(problem: IrregularProblem, sol: IrregularSolution): { label: string; loops: Pt[][] }[] {
   return sol.placements.map((p) => {
@@ -102,19 +95,6 @@ function placed(problem: IrregularProblem, sol: IrregularSolution): { label: str
     );
     return { label: `${p.item}#${p.copy}`, loops };
   });
-}
-
-/** Smallest vertex-to-edge distance between two placed outlines (the closest approach of non-crossing loops is at a vertex). */
-function outlineGap(a: Pt[][], b: Pt[][]): number {
-  let d = Infinity;
-  for (const la of a)
-    for (const lb of b) {
-      for (const p of la)
-        for (let j = 0; j < lb.length; j++) d = Math.min(d, segDist(p, lb[j]!, lb[(j + 1) % lb.length]!));
-      for (const p of lb)
-        for (let j = 0; j < la.length; j++) d = Math.min(d, segDist(p, la[j]!, la[(j + 1) % la.length]!));
-    }
-  return d;
 }
 
 describe("true-shape nesting over random outlines", () => {

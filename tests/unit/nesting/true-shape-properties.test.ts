@@ -9,6 +9,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { type FacePoint, nestSync, parseProblem, type Problem, validatePlan } from "@/lib/nesting";
 import { checkSlabsIndependently } from "@/scripts/lib-bench/shop-case";
+import { outlineGap } from "../../support/plane";
 
 const starArb = fc
   .record({
@@ -87,25 +88,6 @@ const problemArb = fc
     return r.problem;
   });
 
-function segDist(p: FacePoint, a: FacePoint, b: FacePoint): number {
-  const dx = b[0] - a[0];
-  const dy = b[1] - a[1];
-  const l2 = dx * dx + dy * dy;
-  const t = l2 > 0 ? Math.max(0, Math.min(1, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / l2)) : 0;
-  return Math.hypot(a[0] + t * dx - p[0], a[1] + t * dy - p[1]);
-}
-
-/** Smallest vertex-to-edge distance between two loops (non-crossing loops come closest at a vertex). */
-function gap(a: FacePoint[], b: FacePoint[]): number {
-  let d = Infinity;
-  for (const [p, q] of [
-    [a, b],
-    [b, a],
-  ] as const)
-    for (const v of p) for (let j = 0; j < q.length; j++) d = Math.min(d, segDist(v, q[j]!, q[(j + 1) % q.length]!));
-  return d;
-}
-
 /** A loop turned by a quarter-turn multiple, then moved (written out here, not the planner's). */
 function place(l: FacePoint[], deg: number, at: FacePoint): FacePoint[] {
   const q = ((deg % 360) + 360) % 360;
@@ -140,7 +122,7 @@ describe("slab nesting over random profile parts", () => {
           if (problem.settings.kerf > 0)
             for (let i = 0; i < loops.length; i++)
               for (let j = i + 1; j < loops.length; j++)
-                expect(gap(loops[i]!, loops[j]!)).toBeGreaterThanOrEqual(problem.settings.kerf * (1 - 1e-6));
+                expect(outlineGap([loops[i]!], [loops[j]!])).toBeGreaterThanOrEqual(problem.settings.kerf * (1 - 1e-6));
         }
         const unplaced = plan.unplaced.filter((u) => parts.get(u.part)?.outline).reduce((n, u) => n + u.count, 0);
         expect(copies + unplaced).toBe(problem.parts.filter((p) => p.outline).reduce((n, p) => n + p.quantity, 0));

@@ -15,6 +15,7 @@ import { profileProgram } from "@/lib/profiles/program";
 import { slabProgramInput } from "@/lib/profiles/slab-program";
 import { partSections } from "@/lib/profiles/slabs";
 import { checkSlabsIndependently } from "@/scripts/lib-bench/shop-case";
+import { profileCutter } from "../../support/procedure-fixtures";
 
 const parse = (json: unknown): Problem => {
   const r = parseProblem(json);
@@ -391,29 +392,11 @@ describe("the validator on slab members", () => {
 });
 
 describe("one program per true-shape slab", () => {
-  const cutter = (over: Partial<Machine> = {}): Machine => ({
-    name: "Test profile cutter",
-    kind: "profile",
-    wire: "horizontal",
-    wireLength: 1000,
-    travel: [1500, 1500],
-    maxPiece: [1500, 1500, 1000],
-    turntable: false,
-    rapid: 1500,
-    heatUpS: 10,
-    handlingS: 60,
-    fourAxis: true,
-    dialect: {
-      unitWords: "G20/G21",
-      inch: false,
-      heatOn: "M3",
-      heatOff: "M5",
-      axes: ["X", "Y"],
-      towerAxes: ["U", "V"],
-      lineNumbers: false,
-    },
-    ...over,
-  });
+  const cutter = (over: Partial<Machine> = {}): Machine =>
+    profileCutter(
+      { fourAxis: true, travel: [1500, 1500], maxPiece: [1500, 1500, 1000], ...over },
+      { towerAxes: ["U", "V"] },
+    );
 
   it("cuts every member of a slab in one program, each entered at its planned corridor without cutting another", () => {
     const problem = parse(lProblem());

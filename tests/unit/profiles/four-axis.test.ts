@@ -10,30 +10,10 @@ import { FourAxisError, matchByShare, toTowers, towerProblem, wireAt } from "@/l
 import { ProgramError, profileProgram } from "@/lib/profiles/program";
 import { partSections } from "@/lib/profiles/slabs";
 import { toolpath } from "@/lib/profiles/toolpath";
+import { profileCutter } from "../../support/procedure-fixtures";
 
-const cutter = (over: Partial<Machine> = {}): Machine => ({
-  name: "Test profile cutter",
-  kind: "profile",
-  wire: "horizontal",
-  wireLength: 1000,
-  travel: [1200, 600],
-  maxPiece: [1000, 1000, 600],
-  turntable: false,
-  rapid: 1500,
-  heatUpS: 10,
-  handlingS: 60,
-  fourAxis: true,
-  dialect: {
-    unitWords: "G20/G21",
-    inch: false,
-    heatOn: "M3",
-    heatOff: "M5",
-    axes: ["X", "Y"],
-    towerAxes: ["U", "V"],
-    lineNumbers: false,
-  },
-  ...over,
-});
+const cutter = (over: Partial<Machine> = {}): Machine =>
+  profileCutter({ fourAxis: true, ...over }, { towerAxes: ["U", "V"] });
 
 describe("the wire's line carried to the towers", () => {
   // Worked by hand (similar triangles). Towers 1000 mm apart; the root face 200 mm from the first

@@ -8,29 +8,10 @@ import type { Machine } from "@/lib/planning/machine";
 import { partGeometry, type Point, type Profile } from "@/lib/profiles";
 import { ProgramError, profileProgram } from "@/lib/profiles/program";
 import { orientation, partSections, planSlabs } from "@/lib/profiles/slabs";
+import { profileCutter } from "../../support/procedure-fixtures";
 
-const cutter = (over: Partial<Machine> = {}, dialect: Partial<Machine["dialect"]> = {}): Machine => ({
-  name: "Bench cutter",
-  kind: "profile",
-  wire: "horizontal",
-  wireLength: 1000,
-  travel: [1200, 600],
-  maxPiece: [1000, 1000, 600],
-  turntable: false,
-  rapid: 1500,
-  heatUpS: 10,
-  handlingS: 60,
-  dialect: {
-    unitWords: "G20/G21",
-    inch: false,
-    heatOn: "M3",
-    heatOff: "M5",
-    axes: ["X", "Y"],
-    lineNumbers: false,
-    ...dialect,
-  },
-  ...over,
-});
+const cutter = (over: Partial<Machine> = {}, dialect: Partial<Machine["dialect"]> = {}): Machine =>
+  profileCutter({ name: "Bench cutter", ...over }, dialect);
 
 const rect = (w: number, h: number): Point[] => [
   [0, 0],
