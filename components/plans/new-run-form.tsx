@@ -61,6 +61,7 @@ export function NewRunForm({
                 layout: fd.get("layout"),
                 // Typed in seconds; the API keeps milliseconds.
                 timeLimitMs: secondsToMs(num(fd.get("timeBudgetS"))),
+                trueShape: fd.get("trueShape") === "on",
               },
             }),
           { failed: "The run was not started." },
@@ -203,6 +204,19 @@ export function NewRunForm({
             <Input name="timeBudgetS" inputMode="decimal" defaultValue={defaults.timeLimitMs / 1000} />
           </Field>
         </div>
+        <label className="mt-4 flex min-h-11 items-start gap-3">
+          <input type="checkbox" name="trueShape" className="mt-1 size-5" data-testid="true-shape" />
+          <span>
+            <span className="block font-medium">Nest profiles by their true shape</span>
+            <span className="block text-sm text-ink-soft">
+              Letters, wing cores and other profiles share slabs by their outlines instead of taking a whole box each;
+              the run also nests them as boxes and shows how much foam each way uses.
+            </span>
+            {fields["settings.trueShape"] && (
+              <span className="block text-sm text-ember">{fields["settings.trueShape"]}</span>
+            )}
+          </span>
+        </label>
       </Card>
       <Button type="submit" disabled={busy || chosen.size === 0}>
         {busy ? "Starting…" : "Start nesting"}

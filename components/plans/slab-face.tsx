@@ -7,7 +7,6 @@
  */
 import type { FacePoint, LeadInFace, PartOutline, SlabLayout } from "@/lib/nesting";
 import { slabFaceDrawing } from "@/lib/planning/slab-face";
-import { DRAWING_TEXT } from "./plan-view";
 
 export interface SlabFaceProps {
   /** The slab's id in the plan, e.g. "slab-2". */
@@ -46,7 +45,8 @@ export function SlabFace({ id, slab, outlines, kerf, partName, facts = true }: S
   const d = slabFaceDrawing(slab, outlines);
   const [, U, V] = slab.size;
   const pad = Math.max(U, V) * 0.04;
-  const font = Math.max(DRAWING_TEXT * (Math.max(U, V) / 640), Math.min(U, V) / 40);
+  // About 1/30 of the longer side: the drawing is shown at most 75 % of the screen high, so ~20 px.
+  const font = Math.max(U, V) / 30;
   return (
     <figure className="space-y-2">
       <figcaption className="text-xs font-medium uppercase tracking-wide text-ink-faint">

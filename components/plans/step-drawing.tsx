@@ -9,7 +9,10 @@ const AX = { x: 0, y: 1, z: 2 } as const;
 export function describeNext(n: Next, partName: (k: string) => string, offcutCodes: readonly string[]): string {
   switch (n.what.kind) {
     case "part":
-      return `${partName(n.what.part)} → part bin`;
+      // A slab of a true-shape plan goes on to the profile cutter, which cuts its parts out.
+      return n.what.part.startsWith("slab-")
+        ? `${partName(n.what.part)} → profile cutter`
+        : `${partName(n.what.part)} → part bin`;
     case "offcut":
       return `offcut ${offcutCodes[n.what.index] ?? `#${n.what.index + 1}`} → offcut rack`;
     case "scrap":

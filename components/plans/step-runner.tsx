@@ -8,6 +8,7 @@ import type { BlockSteps } from "@/db/queries/at-the-machine";
 import { ApiError, fetcher, send } from "@/lib/swr/fetcher";
 import { dims, mm } from "@/lib/planning/machine";
 import { partIdFromKey } from "@/lib/planning/problem";
+import { expandKeys } from "@/lib/planning/slabs";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { StepDrawing, describeNext } from "./step-drawing";
@@ -173,9 +174,13 @@ export function StepRunner({
         </ol>
         {(() => {
           // Parts this step frees: a reject found as it comes off is recorded here, on its step.
+          // A slab (true-shape plan) comes off whole: a reject is one of its members.
           const freed = new Map<string, number>();
-          for (const n of step.next)
-            if (n.what.kind === "part") freed.set(n.what.part, (freed.get(n.what.part) ?? 0) + 1);
+          const freedKeys = expandKeys(
+            step.next.flatMap((n) => (n.what.kind === "part" ? [n.what.part] : [])),
+            s.slabs ?? {},
+          );
+          for (const k of freedKeys) freed.set(k, (freed.get(k) ?? 0) + 1);
           const recorded = doneBy?.rejects ?? [];
           const nameOf = (id: number) => partName([...freed.keys()].find((k) => partIdFromKey(k) === id) ?? `jp-${id}`);
           if (!freed.size) return null;

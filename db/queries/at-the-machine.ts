@@ -6,7 +6,7 @@ import { anyBlockCutter, blockProcedure } from "@/lib/planning/block-steps";
 import type { Machine } from "@/lib/planning/machine";
 import type { Procedure } from "@/lib/planning/procedure";
 import { cutTime, type CutTime } from "@/lib/planning/wire-path";
-import { partIdFromKey } from "@/lib/planning/problem";
+import { countByPart, slabIndex, type SlabIndex } from "@/lib/planning/slabs";
 import { stuckPieces } from "@/lib/planning/cut-regions";
 import { getMachine, kerfAndFeed, listMachines, type StoredMachine } from "./machines";
 import { offcutCodesOf } from "./offcut-codes";
@@ -51,6 +51,8 @@ export interface BlockSteps {
   time: CutTime | null;
   /** Offcut codes by the offcut's index in this block (fixed at approval; empty before). */
   offcutCodes: string[];
+  /** The slabs of a true-shape plan in this block: slab key → its members' part keys (empty otherwise). */
+  slabs: SlabIndex;
   done: {
     step: number;
     by: string | null;
@@ -89,6 +91,7 @@ export async function blockSteps(run: RunDetail, blockId: number): Promise<Block
     feed,
     time: proc.ok ? cutTime(proc, machine, feed, run.settings.kerf) : null,
     offcutCodes: (await offcutCodesOf(run.id)).get(blockId) ?? [],
+    slabs: slabIndex({ placements: (run.plan as Plan).placements.filter((p) => p.block === b.code) }),
     done: done.map((d) => ({ step: d.step, by: d.by, at: d.at.toISOString(), rejects: d.rejects })),
   };
 }
@@ -119,9 +122,11 @@ export async function setStepDone(
     throw new HttpError(404, `${steps.code} has ${count} step${count === 1 ? "" : "s"}; there is no step ${step}.`);
   // Rejects belong to the step where the part came off: only parts this step frees, at most as many.
   const st = steps.procedure.ok ? steps.procedure.steps[step - 1]! : undefined;
-  const freed = new Map<number, number>();
-  for (const n of st?.next ?? [])
-    if (n.what.kind === "part") freed.set(partIdFromKey(n.what.part), (freed.get(partIdFromKey(n.what.part)) ?? 0) + 1);
+  // A slab (true-shape plan) comes off whole: its members are the parts it frees.
+  const freed = countByPart(
+    (st?.next ?? []).flatMap((n) => (n.what.kind === "part" ? [n.what.part] : [])),
+    slabIndex(run.plan),
+  );
   const fields: Record<string, string> = {};
   const sum = new Map<number, number>();
   rejects.forEach((r, i) => {

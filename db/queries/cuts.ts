@@ -17,6 +17,7 @@ import {
   tallyRejects,
   volumeBasis,
 } from "@/lib/planning/recording";
+import { memberPieces, slabIndex } from "@/lib/planning/slabs";
 import type { RecordCutInput, RunSettings } from "@/lib/validations/runs";
 import { machineForRun } from "./at-the-machine";
 import { appendLedger } from "./ledger";
@@ -101,8 +102,16 @@ export async function recordCut(
     }
 
     // Rejects: those of the steps counted, then the form's; never more than came off.
-    const placedAll = countParts(plan.placements.filter((x) => x.block === block.code).map((p) => p.part));
-    const cutCount = countParts(parts.map((p) => p.part));
+    // A slab (true-shape plan) counts as its members: each is good or rejected on its own.
+    const slabs = slabIndex(plan);
+    const placedAll = countParts(
+      plan.placements.filter((x) => x.block === block.code).map((p) => p.part),
+      slabs,
+    );
+    const cutCount = countParts(
+      parts.map((p) => p.part),
+      slabs,
+    );
     const { rejects: rejectCount, fields } = tallyRejects(
       [
         ...stepRows
@@ -130,7 +139,10 @@ export async function recordCut(
       kerf: settings.kerf,
       cuts,
       blanks: parts.map((p) => p.box.size),
-      rejected: rejectedSizes(parts, rejectCount),
+      rejected: rejectedSizes(
+        memberPieces(parts, slabs, (k) => problem.parts.find((x) => x.id === k)?.size),
+        rejectCount,
+      ),
       offcuts: returned.map((b) => ({ origin: b.origin, size: b.size })),
       defects: defects.map((d) => zone(d, settings.defectMargin)),
     });

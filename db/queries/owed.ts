@@ -4,6 +4,7 @@ import { db } from "@/db";
 import type { Plan } from "@/lib/nesting";
 import { partIdFromKey, type PartForPlan } from "@/lib/planning/problem";
 import type { Vec3 } from "@/lib/nesting";
+import type { Profile } from "@/lib/profiles/part";
 
 /** Parts of jobs with how many are still owed (ordered minus good parts already cut). */
 export async function owedParts(
@@ -23,6 +24,7 @@ export async function owedParts(
       "p.size_z",
       "p.rotate",
       "p.true_volume_mm3",
+      "p.profile",
       "g.code as grade_code",
       trx.raw("(SELECT coalesce(sum(c.good_count), 0) FROM cut_parts c WHERE c.job_part_id = p.id) AS done"),
     )
@@ -36,6 +38,7 @@ export async function owedParts(
     rotate: r.rotate as PartForPlan["rotate"],
     gradeCode: (r.grade_code as string | null) ?? null,
     trueVolumeMm3: r.true_volume_mm3 === null ? null : Number(r.true_volume_mm3),
+    profile: (r.profile as Profile | null) ?? null,
   }));
 }
 

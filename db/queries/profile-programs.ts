@@ -1,12 +1,13 @@
 import "server-only";
 import { db } from "@/db";
 import { HttpError } from "@/lib/errors";
-import type { Plan, Problem, Vec3 } from "@/lib/nesting";
+import type { Plan, Problem, SlabLayout, Vec3 } from "@/lib/nesting";
 import { partIdFromKey } from "@/lib/planning/problem";
 import type { Profile } from "@/lib/profiles";
 import { FourAxisError } from "@/lib/profiles/four-axis";
 import { type ProfileProgram, type ProgramPart, ProgramError, profileProgram } from "@/lib/profiles/program";
-import { partSections, planSlabs, type Slab } from "@/lib/profiles/slabs";
+import { orientation, partSections, planSlabs, type Slab } from "@/lib/profiles/slabs";
+import { slabProgramInput, slabProgramParts } from "@/lib/profiles/slab-program";
 import { type Dwell, ToolpathError } from "@/lib/profiles/toolpath";
 import type { Point } from "@/lib/profiles/polygon";
 import { getMachine, kerfAndFeed, listMachines, type StoredMachine } from "./machines";
@@ -152,6 +153,55 @@ async function profilesOf(
 }
 
 /**
+ * The slabs of a true-shape plan (placements carrying `slab`) as the slab list shows them: one per
+ * slab placement, numbered after the box-nested slabs of its block, its members' sections where the
+ * slab's face holds them (the program itself is made from the layout by `slabProgramInput`).
+ */
+function trueShapeSlabs(plan: Plan, problem: Problem, boxSlabs: readonly Slab[]): { slab: Slab; layout: SlabLayout }[] {
+  const out: { slab: Slab; layout: SlabLayout }[] = [];
+  const n = new Map<string, number>();
+  for (const s of boxSlabs) n.set(s.block, Math.max(n.get(s.block) ?? 0, s.n));
+  const partsById = new Map(problem.parts.map((p) => [p.id, p]));
+  const AXI = { x: 0, y: 1, z: 2 } as const;
+  plan.placements.forEach((pl, index) => {
+    if (!pl.slab) return;
+    const o = orientation(pl.slab.size, pl.size);
+    const w = AXI[o.wire];
+    const face = slabProgramParts(pl.slab, partsById, (id) => id);
+    const k = (n.get(pl.block) ?? 0) + 1;
+    n.set(pl.block, k);
+    out.push({
+      layout: pl.slab,
+      slab: {
+        block: pl.block,
+        n: k,
+        wire: o.wire,
+        plane: o.plane,
+        along: [pl.origin[w], pl.origin[w] + pl.size[w]],
+        origin: [pl.origin[AXI[o.plane[0]]], pl.origin[AXI[o.plane[1]]]],
+        size: [pl.slab.size[1], pl.slab.size[2]],
+        parts: pl.slab.members.map((m, i) => {
+          const f = face[i]!;
+          // The member's "blank": the box round its placed sections (it is cut from the slab, not freed as a box).
+          const pts = [...f.root.outer, ...f.tip.outer];
+          const us = pts.map((q) => q[0]);
+          const vs = pts.map((q) => q[1]);
+          return {
+            part: m.part,
+            placement: index,
+            root: f.root,
+            tip: f.tip,
+            tapered: f.tapered,
+            blank: { min: [Math.min(...us), Math.min(...vs)], max: [Math.max(...us), Math.max(...vs)] },
+          };
+        }),
+      },
+    });
+  });
+  return out;
+}
+
+/**
  * Every slab of a plan's profile parts with its program on a profile cutter (kerf and feed of the
  * block's grade on that machine). A slab the machine cannot cut comes back with the limit named
  * instead of a program.
@@ -179,15 +229,45 @@ export async function slabPrograms(
   const run = { problem, plan };
   const parts = await profilesOf(problem);
   if (!run.plan) throw new HttpError(409, "This plan has no layout yet: wait for it to finish.");
+  // A box-nested plan: its profile parts grouped into slabs by block and layer. A true-shape plan
+  // (version 2): each slab placement is one slab, its members where the nesting put them.
   const slabs = planSlabs(run.plan, parts);
-  if (!slabs.length) throw new HttpError(409, "This plan has no profile parts: every part is a plain box.");
+  const shaped = trueShapeSlabs(run.plan, problem, slabs);
+  if (!slabs.length && !shaped.length)
+    throw new HttpError(409, "This plan has no profile parts: every part is a plain box.");
   const machine = await profileMachine(machineId);
   const gradeIds = new Map(
     ((await db()("grades").select("id", "code")) as { id: number; code: string }[]).map((g) => [g.code, g.id]),
   );
   const out: SlabProgram[] = [];
   const perBlock = new Map<string, number>();
-  for (const s of slabs) perBlock.set(s.block, (perBlock.get(s.block) ?? 0) + 1);
+  for (const s of [...slabs, ...shaped.map((t) => t.slab)]) perBlock.set(s.block, (perBlock.get(s.block) ?? 0) + 1);
+  const partsById = new Map(problem.parts.map((p) => [p.id, p]));
+  for (const { slab: s, layout } of shaped) {
+    const grade = run.problem.blocks.find((b) => b.id === s.block)?.grade;
+    const { kerf, feed } = await kerfFeed(machine, grade ? (gradeIds.get(grade) ?? null) : null);
+    const label = `${s.block} slab ${s.n}`;
+    const names = layout.members.map((m) => parts.get(m.part)?.name ?? m.part);
+    if (choices.listOnly) {
+      out.push({ slab: s, label, program: null, problem: null, names });
+      continue;
+    }
+    try {
+      const input = slabProgramInput(
+        `plan ${runId}, block ${s.block}, slab ${s.n} of ${perBlock.get(s.block)} (true shape)`,
+        layout,
+        partsById,
+        (_id, k) => names[k]!,
+        { kerf, feed, grade: grade ?? null },
+      );
+      const program = profileProgram({ ...input, direction: choices.direction, dwell: choices.dwell }, machine);
+      out.push({ slab: s, label, program, problem: null, names });
+    } catch (e) {
+      if (e instanceof ProgramError || e instanceof FourAxisError || e instanceof ToolpathError)
+        out.push({ slab: s, label, program: null, problem: e.message, names });
+      else throw e;
+    }
+  }
   for (const s of slabs) {
     const grade = run.problem.blocks.find((b) => b.id === s.block)?.grade;
     const { kerf, feed } = await kerfFeed(machine, grade ? (gradeIds.get(grade) ?? null) : null);
@@ -274,7 +354,10 @@ export async function planProfiles(run: {
   plan: Plan | null;
 }): Promise<{ machine: StoredMachine; slabs: SlabProgram[]; listOnly: boolean } | null> {
   const parts = await profilesOf(run.problem);
-  const count = (run.plan?.placements ?? []).filter((p) => parts.get(p.part)?.profile).length;
+  const count = (run.plan?.placements ?? []).reduce(
+    (n, p) => n + (p.slab ? p.slab.members.length : parts.get(p.part)?.profile ? 1 : 0),
+    0,
+  );
   const listOnly = count > PROFILE_PAGE_LIMIT;
   try {
     return { ...(await slabPrograms(run.id, run.problem, run.plan, null, { listOnly })), listOnly };

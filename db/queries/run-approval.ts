@@ -2,7 +2,7 @@ import "server-only";
 import { db } from "@/db";
 import { HttpError } from "@/lib/errors";
 import type { Plan, Problem } from "@/lib/nesting";
-import { partIdFromKey } from "@/lib/planning/problem";
+import { placedByPart } from "@/lib/planning/slabs";
 import { blocksInPlan, stuckBlocks } from "@/lib/planning/plan-figures";
 import { runSettingsSchema, type RunSettings } from "@/lib/validations/runs";
 import { leftOutLine } from "@/lib/planning/usable";
@@ -90,11 +90,8 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
       }
       // One approval per job at a time, so two plans cannot both claim the same owed parts.
       await trx("jobs").whereIn("id", run.job_ids).orderBy("id").forUpdate().select("id");
-      const placed = new Map<number, number>();
-      for (const pl of plan.placements) {
-        const partId = partIdFromKey(pl.part);
-        placed.set(partId, (placed.get(partId) ?? 0) + 1);
-      }
+      // A slab (true-shape plan) reserves its members: each counts against what its part still owes.
+      const placed = placedByPart(plan.placements);
       const owed = new Map((await owedParts(trx, run.job_ids)).map((p) => [p.id, p]));
       const held = await heldByApprovedPlans(trx, [...placed.keys()], id);
       for (const [partId, n] of placed) {

@@ -26,13 +26,19 @@ export async function heldByApprovedPlans(
 ): Promise<Map<number, { count: number; runs: number[] }>> {
   const held = new Map<number, { count: number; runs: number[] }>();
   if (!partIds.length) return held;
+  // A slab placement (true-shape plan, `pl.slab`) holds its members: one row per member.
   const { rows } = await trx.raw(
-    `SELECT pl->>'part' AS part, r.id AS run_id, count(*)::int AS n
+    `SELECT pc.part, r.id AS run_id, count(*)::int AS n
        FROM plan_blocks pb
        JOIN nesting_runs r ON r.id = pb.run_id
        JOIN blocks b ON b.id = pb.block_id
        CROSS JOIN LATERAL jsonb_array_elements(r.plan->'placements') AS pl
-      WHERE pb.status = 'reserved' AND r.status = 'approved' AND r.id <> ? AND pl->>'block' = b.code AND pl->>'part' = ANY(?)
+       CROSS JOIN LATERAL (
+         SELECT m->>'part' AS part FROM jsonb_array_elements(pl->'slab'->'members') AS m WHERE pl->'slab' IS NOT NULL
+         UNION ALL
+         SELECT pl->>'part' WHERE pl->'slab' IS NULL
+       ) AS pc
+      WHERE pb.status = 'reserved' AND r.status = 'approved' AND r.id <> ? AND pl->>'block' = b.code AND pc.part = ANY(?)
       GROUP BY 1, 2
       ORDER BY 2`,
     [exceptRunId ?? -1, partIds.map(partKey)],

@@ -1,7 +1,7 @@
 import "server-only";
 import { db } from "@/db";
 import type { Plan, Problem } from "@/lib/nesting";
-import { bestFigures, planFigures, type RunFigures } from "@/lib/planning/plan-figures";
+import { bestFigures, planFigures, type PlanFigures, type RunFigures } from "@/lib/planning/plan-figures";
 import type { RunSettings } from "@/lib/validations/runs";
 import { planSteps } from "./at-the-machine";
 import { planProfileTime } from "./profile-programs";
@@ -57,11 +57,18 @@ export async function saveProgress(
 }
 
 /**
- * Stores a run's plan with the figures lists show; `problem` is the one `worker` claimed. Nothing is
- * written when another worker holds the run now (this one was taken for dead).
+ * Stores a run's plan with the figures lists show (and `extra` ones: a true-shape run's comparison
+ * with box nesting); `problem` is the one `worker` claimed. Nothing is written when another worker
+ * holds the run now (this one was taken for dead).
  */
-export async function finishRun(id: number, worker: string, problem: Problem, plan: Plan): Promise<void> {
-  const figures = planFigures(problem, plan);
+export async function finishRun(
+  id: number,
+  worker: string,
+  problem: Problem,
+  plan: Plan,
+  extra: Pick<PlanFigures, "shapes"> = {},
+): Promise<void> {
+  const figures: PlanFigures = { ...planFigures(problem, plan), ...extra };
   // The cutting steps on the run's machine, for comparing plans by placements and time.
   try {
     const row = await db()("nesting_runs").where({ id }).first("machine_id", "settings");

@@ -40,6 +40,8 @@ export interface RunSummary {
   steps: PlanFigures["steps"] | null;
   /** The profile parts' slab programs on the shop's profile cutter, when worked out at finish. */
   profiles: PlanFigures["profiles"] | null;
+  /** A true-shape run: foam used by its plan and by box nesting of the same parts, when worked out at finish. */
+  shapes: PlanFigures["shapes"] | null;
   /** Blocks holding pieces no cut can free (free layout only); such a plan cannot be approved. */
   stuckBlocks: string[];
   /** Chosen blocks the run left out of its problem, each with the reason. */
@@ -117,6 +119,7 @@ function toSummary(r: RunRow, names: Map<number, string>): RunSummary {
     cutLengthMm: figures?.cutLengthMm ?? null,
     steps: figures?.steps ?? null,
     profiles: figures?.profiles ?? null,
+    shapes: figures?.shapes ?? null,
     // Figures stored before plans could be uncuttable lack it: ask the plan when it is at hand.
     stuckBlocks: figures?.stuckBlocks ?? (r.plan && r.problem ? stuckBlocks(r.problem, r.plan) : []),
     leftOut: r.left_out ?? [],

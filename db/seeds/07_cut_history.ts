@@ -4,6 +4,7 @@ import { nestSync, parseProblem, type Plan, type Problem, type Vec3 } from "../.
 import { lossBreakdown } from "../../lib/planning/losses";
 import { bestFigures, planFigures } from "../../lib/planning/plan-figures";
 import { buildProblem, partIdFromKey, type PartForPlan, type StockForPlan } from "../../lib/planning/problem";
+import { placedByPart } from "../../lib/planning/slabs";
 import { clipZone, shareValue } from "../../lib/planning/recording";
 import type { RunSettings } from "../../lib/validations/runs";
 
@@ -128,8 +129,7 @@ function planBlock(
   if (!plan.placements.length) throw new Error(`cut history: no part fits ${block.code}`);
   if (plan.unplaced.length) {
     // The planner asks for what fits in this block: the same layout, now complete, is where the core starts.
-    const placed = new Map<number, number>();
-    for (const pl of plan.placements) placed.set(partIdFromKey(pl.part), (placed.get(partIdFromKey(pl.part)) ?? 0) + 1);
+    const placed = placedByPart(plan.placements);
     problem = parse(forPlan((p) => placed.get(p.id) ?? 0));
     plan = nestSync(problem, { seed, iterations: ITERATIONS, warmStart: { ...plan, unplaced: [] } });
   }
@@ -317,8 +317,7 @@ export async function seed(knex: Knex): Promise<void> {
       // Cut: every placed part came off; now and then one was rejected (never on a month's last block,
       // so the job ends with every part delivered).
       const placements = plan.placements.filter((p) => p.block === b.code);
-      const placed = new Map<number, number>();
-      for (const p of placements) placed.set(partIdFromKey(p.part), (placed.get(partIdFromKey(p.part)) ?? 0) + 1);
+      const placed = placedByPart(placements); // box plans: no slabs in the demo history
       const rejectPart = parts[0]!.id;
       const rejected = k < blocks.length - 1 && (placed.get(rejectPart) ?? 0) >= 2 && r() < 0.5 ? 1 : 0;
       const rejectedSizes = placements

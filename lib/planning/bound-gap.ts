@@ -28,14 +28,14 @@ export function boundGap(problem: Problem, plan: Plan): BoundGap | undefined {
   const codes = new Set(plan.placements.map((p) => p.block));
   const blocks = problem.blocks.filter((b) => codes.has(b.id));
   const biggest = Math.max(...blocks.map((b) => vol(b.size.map((v) => v - 2 * b.trim))));
-  const count = new Map<string, number>();
-  for (const p of plan.placements) count.set(p.part, (count.get(p.part) ?? 0) + 1);
-  const partVolume = problem.parts.reduce((s, p) => s + vol(p.size) * (count.get(p.id) ?? 0), 0);
-  const largest = problem.parts
-    .filter((p) => count.has(p.id))
-    .sort((a, b) => vol(b.size) - vol(a.size))
+  // By the placed boxes: a part's box turned, or a true-shape slab's box (its key "slab-N", one of a kind).
+  const count = new Map<string, { n: number; each: number }>();
+  for (const p of plan.placements) count.set(p.part, { n: (count.get(p.part)?.n ?? 0) + 1, each: vol(p.size) });
+  const partVolume = [...count.values()].reduce((s, c) => s + c.each * c.n, 0);
+  const largest = [...count]
+    .sort((a, b) => b[1].each - a[1].each)
     .slice(0, 3)
-    .map((p) => ({ part: p.id, count: count.get(p.id)!, share: vol(p.size) / biggest }));
+    .map(([part, c]) => ({ part, count: c.n, share: c.each / biggest }));
   return {
     used,
     bound,

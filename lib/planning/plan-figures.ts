@@ -1,5 +1,6 @@
 import type { Plan, Problem } from "@/lib/nesting";
 import { piecesOf, stuckPieces } from "./cut-regions";
+import type { ShapeComparison } from "./slabs";
 import { cutEstimate } from "./wire-travel";
 
 /**
@@ -18,6 +19,8 @@ export interface PlanFigures {
   steps?: { machine: string; placements: number; turns: number; minutes: number };
   /** The profile parts' slab programs on the shop's profile cutter (their minutes are in `steps.minutes` too). */
   profiles?: { machine: string; slabs: number; lengthMm: number; minutes: number };
+  /** A true-shape run (`settings.trueShape`): its foam against box nesting of the same parts (./slabs). */
+  shapes?: ShapeComparison;
 }
 
 /** A run's best-plan figures (`nesting_runs.best`), as progress reports give them. */

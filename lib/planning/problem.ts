@@ -1,6 +1,13 @@
 import type { Problem } from "@/lib/nesting";
 import type { RunSettings } from "@/lib/validations/runs";
 import type { Vec3 } from "@/lib/nesting";
+import type { Profile } from "@/lib/profiles/part";
+import { profileOutline } from "./slabs";
+
+const outlineOf = (profile: Profile, size: Vec3) => {
+  const outline = profileOutline(profile, size);
+  return outline ? { outline } : {};
+};
 
 export interface StockForPlan {
   id: number;
@@ -19,22 +26,37 @@ export interface PartForPlan {
   quantity: number;
   gradeCode: string | null;
   rotate: "any" | "z" | "none";
+  /** The part's profile, if it has one: with `settings.trueShape` it is nested by its outline. */
+  profile?: Profile | null;
 }
 
 /** Ids inside a plan: parts as "jp-<job part id>", blocks by their printed code. */
 export const partKey = (id: number) => `jp-${id}`;
-export const partIdFromKey = (key: string) => Number(key.replace(/^jp-/, ""));
+/**
+ * The job part id of a part key. A slab's key ("slab-2", plan version 2) names no part: expand it
+ * with `lib/planning/slabs.ts` first; this throws rather than give NaN.
+ *
+ *   partIdFromKey("jp-12")  // → 12
+ */
+export const partIdFromKey = (key: string): number => {
+  const m = /^jp-(\d+)$/.exec(key);
+  if (!m) throw new Error(`${key} is not a part key${key.startsWith("slab-") ? " (a slab: count its members)" : ""}`);
+  return Number(m[1]);
+};
 
 /**
  * The nesting problem (format v1) for a run: the chosen stock with its defect zones, the parts
- * still owed, and the run's settings.
+ * still owed, and the run's settings. With `settings.trueShape`, each part with a profile carries
+ * its `outline` (parts without one, or whose profile does not fit its box, stay boxes).
  *
  *   buildProblem(parts, stock, settings).blocks[0].id  // "HF-1003"
  */
 export function buildProblem(parts: PartForPlan[], stock: StockForPlan[], settings: RunSettings): Problem {
+  // `trueShape` only when on: a box run's problem stays exactly what it was.
+  const { trueShape, ...rest } = settings;
   return {
     version: 1,
-    settings: { ...settings, minOffcut: [...settings.minOffcut] as Vec3 },
+    settings: { ...rest, minOffcut: [...settings.minOffcut] as Vec3, ...(trueShape ? { trueShape: true } : {}) },
     blocks: stock.map((b) => ({
       id: b.code,
       size: b.size,
@@ -52,6 +74,7 @@ export function buildProblem(parts: PartForPlan[], stock: StockForPlan[], settin
         quantity: p.quantity,
         rotate: p.rotate,
         ...(p.gradeCode ? { grade: p.gradeCode } : {}),
+        ...(trueShape && p.profile ? outlineOf(p.profile, p.size) : {}),
       })),
   };
 }

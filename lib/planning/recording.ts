@@ -7,6 +7,7 @@ import type { Vec3 } from "@/lib/nesting";
 import type { Box } from "@/lib/nesting/geometry";
 import type { OkProcedure } from "./procedure";
 import { partIdFromKey } from "./problem";
+import { countByPart, type SlabIndex } from "./slabs";
 
 export interface CutState {
   /** Parts that came off in the steps done: the plan's part key and its box (block frame). */
@@ -91,14 +92,13 @@ export interface Reject {
 }
 
 /**
- * How many pieces of each job part a list of plan part keys holds ("jp-7" is job part 7).
+ * How many pieces of each job part a list of plan part keys holds ("jp-7" is job part 7); a slab's
+ * key ("slab-1", a true-shape plan) counts its members, from `slabs` (`slabIndex(plan)`).
  *
  *   countParts(["jp-7", "jp-7", "jp-9"])  // → Map { 7 → 2, 9 → 1 }
  */
-export function countParts(keys: readonly string[]): Map<number, number> {
-  const n = new Map<number, number>();
-  for (const k of keys) n.set(partIdFromKey(k), (n.get(partIdFromKey(k)) ?? 0) + 1);
-  return n;
+export function countParts(keys: readonly string[], slabs: SlabIndex = {}): Map<number, number> {
+  return countByPart(keys, slabs);
 }
 
 /**
@@ -137,7 +137,8 @@ export function tallyRejects(
 
 /**
  * The sizes of the rejected pieces: for each part, its first `count` pieces in the order they came
- * off (they count as rejects in the loss breakdown, not as parts made).
+ * off (they count as rejects in the loss breakdown, not as parts made). Slabs must be expanded to
+ * their members first (`memberPieces` in ./slabs).
  *
  *   rejectedSizes([{ part: "jp-7", box: b1 }, { part: "jp-7", box: b2 }], new Map([[7, { count: 1 }]]))  // → [b1.size]
  */

@@ -29,6 +29,11 @@ export const runSettingsSchema = z.object({
     .int("Time budget must be a whole number of milliseconds.")
     .min(BUDGET_S.min * 1000, `Time budget must be at least ${BUDGET_S.min} s.`)
     .max(BUDGET_S.max * 1000, `Time budget must be at most ${BUDGET_S.max} s.`),
+  /**
+   * Nest profile parts by their true shape in slabs (plan version 2); the worker also nests the
+   * same parts as boxes and stores both figures. Absent: false.
+   */
+  trueShape: z.boolean({ error: "True-shape nesting is on (true) or off (false)." }).optional(),
 });
 export type RunSettings = z.infer<typeof runSettingsSchema>;
 

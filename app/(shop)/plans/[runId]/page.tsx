@@ -22,6 +22,8 @@ import { HotWireCaution } from "@/components/shell/safety-note";
 import { stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
+import { SlabFace } from "@/components/plans/slab-face";
+import { keyNamer, memberList, slabMembers } from "@/lib/planning/slabs";
 import { leftOutLine } from "@/lib/planning/usable";
 import { planProfiles, profileTime } from "@/db/queries/profile-programs";
 import { formatVolume } from "@/lib/units";
@@ -67,8 +69,10 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   const planner = allows(["planner"], user.roles);
   const cutter = allows(["cutter"], user.roles);
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
-  const partName = (key: string) => names.get(partIdFromKey(key)) ?? key;
   const plan = run.plan;
+  // A slab (true-shape plan) is named "slab for N parts"; its members are listed under its block.
+  const partName = keyNamer(plan, names);
+  const outlines = new Map(run.problem.parts.flatMap((q) => (q.outline ? [[q.id, q.outline] as const] : [])));
   const used = plan ? run.problem.blocks.filter((b) => plan.placements.some((p) => p.block === b.id)) : [];
   const uncuttable = run.stuckBlocks;
   // Wire travel was worked out once, when the run finished (the run's figures); time follows from the feed.
@@ -77,12 +81,18 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   const owes = [...owed.values()].some((n) => n > 0);
   // The plan's yield counts the parts' boxes; with profile parts, the foam actually kept too (holes out).
   const trueVolume = new Map(run.parts.map((p) => [p.id, p.trueVolumeMm3]));
+  // The same denominator as the plan's yield (lib/nesting/solver/assemble.ts): stock used less the offcuts kept.
+  const netStock = plan ? plan.stats.stockVolume - plan.stats.offcutVolume : 0;
   const trueYield =
-    plan && plan.stats.stockVolume > 0 && run.parts.some((p) => p.trueVolumeMm3 !== null)
+    plan && netStock > 0 && run.parts.some((p) => p.trueVolumeMm3 !== null)
       ? plan.placements.reduce(
-          (s, p) => s + (trueVolume.get(partIdFromKey(p.part)) ?? p.size[0] * p.size[1] * p.size[2]),
+          (s, p) =>
+            s +
+            (p.slab
+              ? slabMembers(p).reduce((v, k) => v + (trueVolume.get(partIdFromKey(k)) ?? 0), 0)
+              : (trueVolume.get(partIdFromKey(p.part)) ?? p.size[0] * p.size[1] * p.size[2])),
           0,
-        ) / plan.stats.stockVolume
+        ) / netStock
       : null;
 
   return (
@@ -208,6 +218,25 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                 />
               )}
             </dl>
+            {run.shapes && (
+              <p className="text-sm text-ink-soft" data-testid="shape-comparison">
+                {(() => {
+                  const c = run.shapes;
+                  const used = (m3: number) => formatVolume(m3, { digits: 3 });
+                  const diff =
+                    c.savedPct >= 0
+                      ? `${c.savedPct.toFixed(1)} % less by true shape`
+                      : `${(-c.savedPct).toFixed(1)} % more by true shape`;
+                  const unlike =
+                    c.unplaced.trueShape !== c.unplaced.box
+                      ? ` Not like for like: ${c.unplaced.trueShape} piece(s) left unplaced by true shape, ${c.unplaced.box} as boxes.`
+                      : "";
+                  return c.slabs === 0
+                    ? `Foam used: ${used(c.trueShapeM3)}. No slab of profiles took less foam than their boxes, so every part is nested as a box (box nesting alone: ${used(c.boxM3)}).${unlike}`
+                    : `Foam used: ${used(c.trueShapeM3)} nested by true shape (${plural(c.slabs, "slab")}), ${used(c.boxM3)} with the same parts as boxes: ${diff}.${unlike}`;
+                })()}
+              </p>
+            )}
             {plan.unplaced.length > 0 && (
               <Notice tone="caution" title="Not everything fits">
                 <ul className="list-disc pl-5">
@@ -338,7 +367,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                             {mine.map((s) => (
                               <li key={s.label} className="flex flex-wrap items-center gap-x-3">
                                 <span>
-                                  slab {s.slab.n} ({s.names.join(", ")})
+                                  slab {s.slab.n} ({memberList(s.names, (n) => n)})
                                 </span>
                                 {s.program || profiles.listOnly ? (
                                   <>
@@ -375,6 +404,46 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                         </div>
                       );
                     })()}
+                  {plan.placements.some((p) => p.block === b.id && p.slab) && (
+                    <div className="mb-3 text-sm" data-testid={`slabs-${b.id}`}>
+                      <p className="text-ink-soft">
+                        True-shape slabs: the through cuts free each slab whole; the profile cutter then cuts its parts
+                        out, each from its own lead-in.
+                      </p>
+                      <ul className="mt-1 space-y-2">
+                        {plan.placements
+                          .map((p, i) => ({ p, i }))
+                          .filter(({ p }) => p.block === b.id && p.slab)
+                          .map(({ p, i }, k) => {
+                            // Named as its profile program is ("HF-1001 slab 2"), else by its order in the block.
+                            const label =
+                              profiles?.slabs.find((s) => s.slab.block === b.id && s.slab.parts[0]?.placement === i)
+                                ?.label ?? `${b.id} slab ${k + 1}`;
+                            const [t, u, v] = p.slab!.size.map((x) => Math.round(x * 10) / 10);
+                            return (
+                              <li key={p.part}>
+                                <span className="font-medium">
+                                  {label}: {partName(p.part)}
+                                </span>{" "}
+                                <span className="text-ink-soft">
+                                  ({t} mm thick, face {u} × {v} mm) — {memberList(slabMembers(p), partName)}
+                                </span>
+                                <details className="mt-1" open={k < 4}>
+                                  <summary className="cursor-pointer text-sm text-ink-soft">Face drawing</summary>
+                                  <SlabFace
+                                    id={label}
+                                    slab={p.slab!}
+                                    outlines={outlines}
+                                    kerf={run.settings.kerf}
+                                    partName={partName}
+                                  />
+                                </details>
+                              </li>
+                            );
+                          })}
+                      </ul>
+                    </div>
+                  )}
                   {uncuttable.includes(b.id) && (
                     <div className="mb-3">
                       <NotCuttable count={stuckPieces(plan, b.id, run.settings.kerf)} />

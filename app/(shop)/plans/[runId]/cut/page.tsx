@@ -9,7 +9,7 @@ import { Badge, Card, Notice, PageHeader } from "@/components/ui/card";
 import { HotWireCaution } from "@/components/shell/safety-note";
 import { PlanView } from "@/components/plans/plan-view";
 import { CutBlockForm } from "@/components/plans/cut-block-form";
-import { partIdFromKey } from "@/lib/planning/problem";
+import { keyNamer, placedByPart, slabMembers } from "@/lib/planning/slabs";
 import { stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { StepRunner } from "@/components/plans/step-runner";
@@ -27,9 +27,12 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
   if (!run?.plan) notFound();
   const plan = run.plan;
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
-  const partName = (k: string) => names.get(partIdFromKey(k)) ?? k;
+  // A slab (true-shape plan) is named "slab for N parts"; its members by their parts' names.
+  const partName = keyNamer(plan, names);
   const inPlan = run.blocks.filter((b) => b.planStatus);
-  const partNames = Object.fromEntries(plan.placements.map((p) => [p.part, partName(p.part)]));
+  const partNames = Object.fromEntries(
+    plan.placements.flatMap((p) => [p.part, ...(p.slab ? slabMembers(p) : [])]).map((k) => [k, partName(k)]),
+  );
   const stepsOf = new Map(
     await Promise.all(
       inPlan.filter((b) => b.planStatus === "reserved").map(async (b) => [b.id, await blockSteps(run, b.id)] as const),
@@ -63,8 +66,7 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
           const pb = run.problem.blocks.find((x) => x.id === b.code)!;
           const placements = plan.placements.filter((p) => p.block === b.code);
           const stuck = stuckPieces(plan, b.code, run.settings.kerf);
-          const counts = new Map<number, number>();
-          for (const p of placements) counts.set(partIdFromKey(p.part), (counts.get(partIdFromKey(p.part)) ?? 0) + 1);
+          const counts = placedByPart(placements);
           return (
             <Card
               key={b.id}

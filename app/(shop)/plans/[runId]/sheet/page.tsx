@@ -15,7 +15,7 @@ import { PrintButton } from "@/components/stock/print-button";
 import { cutEstimate } from "@/lib/planning/wire-travel";
 import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
-import { partIdFromKey } from "@/lib/planning/problem";
+import { keyNamer, memberList, slabIndex } from "@/lib/planning/slabs";
 import { cutRuns, groupPlacements } from "@/lib/planning/sheet";
 
 export const metadata: Metadata = { title: "Cut sheet" };
@@ -33,7 +33,10 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
   const plan = run.plan;
   const settings = await getShopSettings();
   const names = new Map(run.parts.map((p) => [p.id, p.name]));
-  const partName = (k: string) => names.get(partIdFromKey(k)) ?? k;
+  // A slab (true-shape plan) is named "slab for N parts"; the table lists its members.
+  const partName = keyNamer(plan, names);
+  const slabs = slabIndex(plan);
+  const memberNames = (k: string) => (slabs[k] ? memberList(slabs[k], partName) : null);
   const used = run.problem.blocks.filter((b) => plan.placements.some((p) => p.block === b.id));
   // Codes are fixed when the plan is approved; before that they are the next free numbers.
   const fixedCodes = await offcutCodesOf(run.id);
@@ -195,7 +198,14 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                   <tbody>
                     {groupPlacements(plan.placements.filter((p) => p.block === b.id)).map((l, i) => (
                       <tr key={i} className="border-t border-bead/60 align-top [&>td]:pr-4">
-                        <td>{partName(l.part)}</td>
+                        <td>
+                          {partName(l.part)}
+                          {memberNames(l.part) && (
+                            <span className="block text-xs text-ink-soft">
+                              to the profile cutter: {memberNames(l.part)}
+                            </span>
+                          )}
+                        </td>
                         <td className="text-right tabular-nums">{l.count}</td>
                         <td className="whitespace-nowrap">{dims(l.size)}</td>
                         <td>
