@@ -200,3 +200,91 @@ export function dedupe(loop: readonly Pt[]): Pt[] {
   while (out.length > 1 && out[0]![0] === out[out.length - 1]![0] && out[0]![1] === out[out.length - 1]![1]) out.pop();
   return out;
 }
+
+/**
+ * A loop with at most `maxVertices` vertices that contains the given (simple, counter-clockwise)
+ * loop, adding little area: greedily, the cheapest of (a) dropping a reflex vertex (adds the
+ * triangle it cut in) and (b) replacing an edge bc by the point where the lines ab and dc meet
+ * beyond b and c (adds the triangle b–meet–c) — both only grow the loop. A step is skipped when its
+ * triangle would take in another vertex or its new edges would meet another edge, so the loop
+ * stays simple. Stops at `maxVertices`, or when the next step would add more than `maxAdd` area.
+ * @example outwardSimplify([[0, 0], [4, 0], [4, 4], [2, 3.9], [0, 4]], 4) // → [[0, 0], [4, 0], [4, 4], [0, 4]]
+ */
+export function outwardSimplify(loop: readonly Pt[], maxVertices: number, maxAdd = Infinity): Pt[] {
+  let p: Pt[] = loop.map(([x, y]) => [x, y]);
+  const banned = new Set<string>();
+  const key = (q: Pt) => `${q[0]},${q[1]}`;
+  const tri = (a: Pt, b: Pt, c: Pt) => ((b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0])) / 2;
+  const inTri = (q: Pt, a: Pt, b: Pt, c: Pt) => {
+    const s = Math.sign(tri(a, b, c));
+    return s !== 0 && s * tri(a, b, q) >= 0 && s * tri(b, c, q) >= 0 && s * tri(c, a, q) >= 0;
+  };
+  while (p.length > Math.max(3, maxVertices)) {
+    const n = p.length;
+    let best: { cost: number; i: number; meet?: Pt } | undefined;
+    for (let i = 0; i < n; i++) {
+      const a = p[(i - 1 + n) % n]!;
+      const b = p[i]!;
+      const c = p[(i + 1) % n]!;
+      const d = p[(i + 2) % n]!;
+      const cr = tri(a, b, c);
+      if (cr <= 0 && !banned.has(`r${key(b)}`)) {
+        const cost = -cr;
+        if (!best || cost < best.cost) best = { cost, i };
+      }
+      // Lines a→b and d→c meet at b + t(b − a) = c + s(c − d) with t, s > 0.
+      const ux = b[0] - a[0];
+      const uy = b[1] - a[1];
+      const vx = c[0] - d[0];
+      const vy = c[1] - d[1];
+      const den = ux * vy - uy * vx;
+      if (den === 0 || banned.has(`e${key(b)}`)) continue;
+      const wx = c[0] - b[0];
+      const wy = c[1] - b[1];
+      const t = (wx * vy - wy * vx) / den;
+      const s = (wx * uy - wy * ux) / den;
+      if (!(t > 0 && s > 0)) continue;
+      const meet: Pt = [b[0] + t * ux, b[1] + t * uy];
+      // The triangle must lie outside (right of b→c on a counter-clockwise loop), else it would cut in.
+      if (tri(b, c, meet) >= 0) continue;
+      const cost = Math.abs(tri(b, meet, c));
+      if (!best || cost < best.cost) best = { cost, i, meet };
+    }
+    if (!best || best.cost > maxAdd) break;
+    const { i, meet } = best;
+    const b = p[i]!;
+    const c = p[(i + 1) % n]!;
+    // The triangle added and the new edges, checked against the rest of the loop.
+    let next: Pt[];
+    let ok = true;
+    if (meet) {
+      const a = p[(i - 1 + n) % n]!;
+      const d = p[(i + 2) % n]!;
+      next = p.filter((_, k) => k !== i && k !== (i + 1) % n);
+      next.splice(i < (i + 1) % n ? i : i - 1, 0, meet);
+      for (let k = 0; k < n && ok; k++) {
+        const q = p[k]!;
+        if (q === a || q === b || q === c || q === d) continue;
+        if (inTri(q, b, meet, c)) ok = false;
+        const r = p[(k + 1) % n]!;
+        if (r === a || r === b || r === c || r === d) continue;
+        if (segmentsMeet(a, meet, q, r) || segmentsMeet(meet, d, q, r)) ok = false;
+      }
+      if (!ok) banned.add(`e${key(b)}`);
+    } else {
+      const a = p[(i - 1 + n) % n]!;
+      next = p.filter((_, k) => k !== i);
+      for (let k = 0; k < n && ok; k++) {
+        const q = p[k]!;
+        if (q === a || q === b || q === c) continue;
+        if (inTri(q, a, b, c)) ok = false;
+        const r = p[(k + 1) % n]!;
+        if (r === a || r === b || r === c) continue;
+        if (segmentsMeet(a, c, q, r)) ok = false;
+      }
+      if (!ok) banned.add(`r${key(b)}`);
+    }
+    if (ok) p = next;
+  }
+  return p;
+}

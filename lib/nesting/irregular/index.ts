@@ -8,6 +8,7 @@ import { bestPosition } from "./construct";
 import type { Snapshot } from "./layout";
 import { parseIrregular, type IrregularParseResult } from "./parse";
 import { IrregularSearch, type SearchConfig } from "./search";
+import { NfpStore } from "./nfp";
 import { prepare, type Prepared } from "./shapes";
 import type {
   IrregularOptions,
@@ -18,7 +19,7 @@ import type {
 } from "./types";
 
 export type * from "./types";
-export { parseIrregular, type IrregularParseResult };
+export { parseIrregular, type IrregularParseResult, NfpStore };
 export { validateIrregular, placedOutlines, intersectionArea, OVERLAP_SHARE } from "./validate";
 
 const DEFAULT_TIME_MS = 10_000;
@@ -27,6 +28,8 @@ const DEFAULT_MOVES = 20_000;
 /** Options plus tuning knobs of the search (for experiments; the defaults are the measured ones). */
 export interface IrregularRunOptions extends IrregularOptions {
   config?: Partial<SearchConfig>;
+  /** No-fit polygons shared with other runs of the same items (see NfpStore). */
+  nfpStore?: NfpStore;
 }
 
 function makeSearch(problem: IrregularProblem, options: IrregularRunOptions): IrregularSearch {
@@ -36,6 +39,7 @@ function makeSearch(problem: IrregularProblem, options: IrregularRunOptions): Ir
     timeLimitMs: options.now ? (options.timeLimitMs ?? DEFAULT_TIME_MS) : Infinity,
     maxMoves: options.maxMoves ?? (options.now ? Infinity : DEFAULT_MOVES),
     ...(options.config ? { config: options.config } : {}),
+    ...(options.nfpStore ? { nfpStore: options.nfpStore } : {}),
   });
 }
 

@@ -417,23 +417,50 @@ export function penetration(n: Nfp, qx: number, qy: number): number {
 }
 
 /**
+ * No-fit polygons kept across runs: the Minkowski sums of pairs of integer item shapes (scaled,
+ * kerf-grown, own frames) by relative quarter turn. Hand one store to several runs whose items
+ * repeat (the strips of one slab group) and each pair is computed once; runs whose scale or kerf
+ * differ simply get other shapes, hence other ids. Not bounded: one store per planning run.
+ * @example const store = new NfpStore(); nestIrregularSync(p1, { nfpStore: store }); nestIrregularSync(p2, { nfpStore: store });
+ */
+export class NfpStore {
+  readonly base = new Map<string, Path64[]>();
+  /** Whole NFPs (with their grids) of pairs of quarter-turned variants, by ids, turns and offsets. */
+  readonly built = new Map<string, Nfp>();
+  private readonly ids = new Map<string, number>();
+  /** The id of an integer shape (its loops written out in full). */
+  idOf(loops: readonly Path64[]): number {
+    const k = loops.map((l) => l.map((p) => `${p.x},${p.y}`).join(" ")).join("|");
+    let id = this.ids.get(k);
+    if (id === undefined) {
+      id = this.ids.size;
+      this.ids.set(k, id);
+    }
+    return id;
+  }
+}
+
+/**
  * Lazily computed NFPs of every ordered pair of variants. Pairs whose rotations are multiples of
  * 90° share one Minkowski computation per pair of items and relative rotation: NFP(R_a A, R_b B) =
  * R_a(A ⊕ −R_(b−a) B), exact on integers; NFP(B, A) is −NFP(A, B).
  */
 export class NfpCache {
   private readonly map: (Nfp | undefined)[];
-  private readonly base = new Map<number, Path64[]>();
+  private readonly base: Map<string, Path64[]>;
   private readonly nv: number;
-  private readonly nt: number;
+  /** Per item type: its id in the store (equal integer shapes share one id). */
+  private readonly typeId: number[];
   computed = 0;
   constructor(
     private readonly variants: readonly Variant[],
     private readonly typeShape: readonly Path64[][],
+    private readonly store: NfpStore = new NfpStore(),
   ) {
     this.nv = variants.length;
-    this.nt = typeShape.length;
     this.map = new Array(this.nv * this.nv);
+    this.base = store.base;
+    this.typeId = typeShape.map((loops) => store.idOf(loops));
   }
   /** NFP of variant b (moving) against variant a (fixed). */
   get(a: number, b: number): Nfp {
@@ -447,9 +474,15 @@ export class NfpCache {
     else if (va.grid && vb.grid) {
       const qa = quarterTurns(va.angle)!;
       const qd = (((quarterTurns(vb.angle)! - qa) % 4) + 4) % 4;
-      const loops = this.baseNfp(va.type, vb.type, qd);
       const dx = vb.ox - va.ox;
       const dy = vb.oy - va.oy;
+      const built = `${this.typeId[va.type]},${this.typeId[vb.type]},${qa},${qd},${dx},${dy}`;
+      const had = this.store.built.get(built);
+      if (had) {
+        this.map[key] = had;
+        return had;
+      }
+      const loops = this.baseNfp(va.type, vb.type, qd);
       n = buildNfp(
         loops.map((l) =>
           l.map((p) => {
@@ -458,6 +491,7 @@ export class NfpCache {
           }),
         ),
       );
+      this.store.built.set(built, n);
     } else {
       n = computeNfp(va.shape, vb.shape);
       this.computed++;
@@ -468,10 +502,12 @@ export class NfpCache {
 
   /** A ⊕ −R_q(B) for item types ta, tb (own frames), computed once per unordered pair. */
   private baseNfp(ta: number, tb: number, q: number): Path64[] {
-    const key = (ta * this.nt + tb) * 4 + q;
+    const ia = this.typeId[ta]!;
+    const ib = this.typeId[tb]!;
+    const key = `${ia},${ib},${q}`;
     let loops = this.base.get(key);
     if (loops) return loops;
-    const other = this.base.get((tb * this.nt + ta) * 4 + ((4 - q) % 4));
+    const other = this.base.get(`${ib},${ia},${(4 - q) % 4}`);
     if (other) {
       // base(B, A, −q) = −R_(−q)(base(A, B, q))  ⇔  base(A, B, q) = −R_q(base(B, A, −q))
       loops = other.map((l) =>

@@ -9,7 +9,7 @@
 import { rng, type Rng } from "../rng";
 import { park, placeBottomLeft } from "./construct";
 import { Layout, type Snapshot } from "./layout";
-import { NfpCache } from "./nfp";
+import { NfpCache, type NfpStore } from "./nfp";
 import { type Ctx, DEFAULT_SEPARATE, type SeparateConfig, Separator, shrinkTo } from "./separate";
 import type { Prepared } from "./shapes";
 
@@ -20,6 +20,8 @@ export interface SearchOptions {
   maxMoves: number;
   /** Tuning knobs (defaults: DEFAULT_CONFIG, the measured ones). */
   config?: Partial<SearchConfig>;
+  /** No-fit polygons shared with other runs (see NfpStore). */
+  nfpStore?: NfpStore;
 }
 
 export interface SearchConfig extends SeparateConfig {
@@ -88,7 +90,7 @@ export class IrregularSearch {
     readonly prep: Prepared,
     readonly opts: SearchOptions,
   ) {
-    this.nfps = new NfpCache(prep.variants, prep.typeShape);
+    this.nfps = new NfpCache(prep.variants, prep.typeShape, opts.nfpStore);
     this.L = new Layout(prep, this.nfps);
     this.rand = rng(opts.seed);
     this.cfg = { ...DEFAULT_CONFIG, ...opts.config };
