@@ -26,7 +26,17 @@ async function waitFor(runId: number, statuses: string[], ms = 60_000) {
 async function stockWithSlivers() {
   const good = await makeBlock({ size: [2000, 1000, 500] });
   const parent = await makeBlock({ size: [2000, 1000, 500] });
+  // Cut, and out of the ledger as a cut block would be: the stock stays reconciled for the tests after this one.
   await testDb()("blocks").where({ id: parent.id }).update({ status: "cut" });
+  await testDb()("stock_ledger").insert({
+    block_id: parent.id,
+    kind: "consumed",
+    volume_m3: 1,
+    delta_m3: -1,
+    value: 100,
+    delta_value: -100,
+    reason: "test fixture",
+  });
   const offcut = await makeBlock({ size: [1200, 600, 18], code: `${parent.code}.4` });
   await testDb()("blocks").where({ id: offcut.id }).update({ parent_id: parent.id });
   // 10 mm high: 2 × 6 mm of face trim leaves nothing (the old `blocks[69].trim: leaves no usable material`).
