@@ -2,7 +2,7 @@ import type { Problem } from "@/lib/nesting";
 import type { RunSettings } from "@/lib/validations/runs";
 import type { Vec3 } from "@/lib/nesting";
 import type { Profile } from "@/lib/profiles/part";
-import { profileOutline } from "./slabs";
+import { profileOutline } from "@/lib/profiles/slabs";
 
 const outlineOf = (profile: Profile, size: Vec3) => {
   const outline = profileOutline(profile, size);

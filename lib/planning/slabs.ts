@@ -5,9 +5,8 @@
  * that turns plan keys into job parts goes through here, so a slab counts as its members (approval,
  * owed parts, recording) and is named for people as "slab for N parts". Pure: no I/O.
  */
-import type { PartOutline, Placement, Plan, Problem, Vec3 } from "@/lib/nesting";
-import { partSections } from "@/lib/profiles/slabs";
-import type { Profile } from "@/lib/profiles/part";
+import type { Placement, Plan, Problem, Vec3 } from "@/lib/nesting";
+export { profileOutline } from "@/lib/profiles/slabs";
 import { partIdFromKey } from "./problem";
 
 /** Slab key → its members' part keys, one entry per piece (a part twice in a slab is listed twice). */
@@ -139,28 +138,6 @@ export function memberPieces<B extends { origin: Vec3; size: Vec3 }>(
       },
     }));
   });
-}
-
-/**
- * A profile as a nesting outline (`parts[i].outline`, in the part box's y–z face), or undefined when
- * its sections do not lie within the box `size` (the part was entered with a box other than its
- * profile's: it stays a box part). Tapered panels carry their tip section.
- * @example profileOutline({ kind: "polygon", points: [[0, 0], [40, 0], [0, 30]], extrudeMm: 20 }, [20, 40, 30])?.outer.length // → 3
- */
-export function profileOutline(profile: Profile, size: Vec3): PartOutline | undefined {
-  const s = partSections(profile);
-  const tol = 0.011; // the box is kept to 0.01 mm (lib/nesting/slab.ts, OUTLINE_BOX_TOL)
-  const loops = [s.root.outer, s.tip.outer];
-  for (const loop of loops)
-    for (const [u, v] of loop) if (u < -tol || v < -tol || u > size[1] + tol || v > size[2] + tol) return undefined;
-  const holes = (h: [number, number][][]) =>
-    h.length ? { holes: h.map((l) => l.map(([u, v]) => [u, v] as [number, number])) } : {};
-  const outer = (l: [number, number][]) => l.map(([u, v]) => [u, v] as [number, number]);
-  return {
-    outer: outer(s.root.outer),
-    ...holes(s.root.holes),
-    ...(s.tapered ? { tip: { outer: outer(s.tip.outer), ...holes(s.tip.holes) } } : {}),
-  };
 }
 
 /** Foam a plan takes from stock, mm³: the blocks it uses less the offcuts it keeps. */

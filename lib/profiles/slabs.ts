@@ -7,7 +7,7 @@
  * through cuts free each part's blank; the slab's blanks, laid on the profile cutter as they sat in
  * the block, are cut by one program (one set-up, one heat-up), each part with its own lead-in.
  */
-import type { Axis, Plan, Vec3 } from "@/lib/nesting";
+import type { Axis, PartOutline, Plan, Vec3 } from "@/lib/nesting";
 import { outline, parseNaca, sectionBox } from "./naca";
 import type { Profile } from "./part";
 import { polygonBounds, type Point } from "./polygon";
@@ -208,4 +208,26 @@ export function planSlabs(
     });
   }
   return slabs;
+}
+
+/**
+ * A profile as a nesting outline (`parts[i].outline`, in the part box's y–z face), or undefined when
+ * its sections do not lie within the box `size` (the part was entered with a box other than its
+ * profile's: it stays a box part). Tapered panels carry their tip section.
+ * @example profileOutline({ kind: "polygon", points: [[0, 0], [40, 0], [0, 30]], extrudeMm: 20 }, [20, 40, 30])?.outer.length // → 3
+ */
+export function profileOutline(profile: Profile, size: Vec3): PartOutline | undefined {
+  const s = partSections(profile);
+  const tol = 0.011; // the box is kept to 0.01 mm (lib/nesting/slab.ts, OUTLINE_BOX_TOL)
+  const loops = [s.root.outer, s.tip.outer];
+  for (const loop of loops)
+    for (const [u, v] of loop) if (u < -tol || v < -tol || u > size[1] + tol || v > size[2] + tol) return undefined;
+  const holes = (h: [number, number][][]) =>
+    h.length ? { holes: h.map((l) => l.map(([u, v]) => [u, v] as [number, number])) } : {};
+  const outer = (l: [number, number][]) => l.map(([u, v]) => [u, v] as [number, number]);
+  return {
+    outer: outer(s.root.outer),
+    ...holes(s.root.holes),
+    ...(s.tapered ? { tip: { outer: outer(s.tip.outer), ...holes(s.tip.holes) } } : {}),
+  };
 }

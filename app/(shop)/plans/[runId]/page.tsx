@@ -229,7 +229,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                       : `${(-c.savedPct).toFixed(1)} % more by true shape`;
                   const unlike =
                     c.unplaced.trueShape !== c.unplaced.box
-                      ? ` Not like for like: ${c.unplaced.trueShape} piece(s) left unplaced by true shape, ${c.unplaced.box} as boxes.`
+                      ? ` Not like for like: ${plural(c.unplaced.trueShape, "piece")} left unplaced by true shape, ${c.unplaced.box} as boxes.`
                       : "";
                   return c.slabs === 0
                     ? `Foam used: ${used(c.trueShapeM3)}. No slab of profiles took less foam than their boxes, so every part is nested as a box (box nesting alone: ${used(c.boxM3)}).${unlike}`
