@@ -1,7 +1,8 @@
 /**
  * `npm run bench:load`: autocannon against the built app on loopback (scripts/serve.mjs, as `npm
  * start` serves it), 50 signed-in users (one session each, one connection each) on the stock list
- * (API and page), a block page and a plan view. Two load models per scenario:
+ * (API and page), a block page, a plan view and the shop frame floor (an unknown block code: the
+ * signed-in layout with a one-line page, what every shop page costs at least). Two load models per scenario:
  *
  * - **50 users, ~1 s think time** (the target is judged here): each user sends a request, waits for
  *   the answer and sends the next one a second after the last began (autocannon `connectionRate:
@@ -212,6 +213,10 @@ const scenarioPaths = (f: Fixtures): [string, string][] =>
       ["stock list API", "/api/blocks?status=available&sort=received"],
       ["stock list page", "/stock"],
       ["block page", `/stock/${encodeURIComponent(f.blockCode)}`],
+      // The floor under any shop page: session, shop settings, the layout and its menu, one lookup by
+      // code and the short "no block with that code" message in the frame (answered 200: the stock
+      // segment's loading boundary has already sent the frame).
+      ["shop frame floor", "/stock/NO-SUCH-BLOCK"],
       ["plan view", `/plans/${f.runId}`],
     ] as [string, string][]
   ).filter(([name]) => !ONLY || ONLY.has(name));

@@ -1,6 +1,7 @@
 import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
+import { prepared } from "@/db/prepared";
 import type { BlocksRow, DeliveriesRow, GradesRow } from "@/db/tables";
 import { appendLedger } from "./ledger";
 import { byStockVersion, hasKept, keep, keptAt } from "./stock-version";
@@ -33,13 +34,14 @@ export interface BlockDetail extends BlockSummary {
   gradeLabel: string;
 }
 
-/** A block as selectBlocks reads it: the block, its grade, its delivery (none for an offcut) and who holds it. */
-type Row = BlocksRow &
-  Pick<GradesRow, "material" | "never_hot_wire" | "colour" | "min_density_kg_m3" | "cure_days" | "grade_system"> & {
+/** "b.code" → "code": the block columns a select names. */
+type Unprefixed<T> = T extends `b.${infer C extends keyof BlocksRow}` ? C : never;
+
+/** A block as selectBlocks reads it (summary columns): the block, its grade, its delivery (none for an offcut) and who holds it. */
+type Row = Pick<BlocksRow, Unprefixed<(typeof SUMMARY_COLUMNS)[number]>> &
+  Pick<GradesRow, "material" | "never_hot_wire" | "colour" | "min_density_kg_m3"> & {
     grade_code: string;
-    grade_name: string;
     received_on: DeliveriesRow["received_on"] | null;
-    po_ref: DeliveriesRow["po_ref"];
     supplier_name: string | null;
     held_by_name: string | null;
     /** count(*): BIGINT, a number (db/types.ts). */
@@ -91,26 +93,65 @@ function toSummary(r: Row, today: string): BlockSummary {
   };
 }
 
-/** Base select with grade, delivery, defect count and FIFO position among ready stock of the grade. */
-function selectBlocks(k: Knex) {
+/** The block columns a summary (toSummary) reads: a list page parses no more than these per row. */
+const SUMMARY_COLUMNS = [
+  "b.id",
+  "b.code",
+  "b.grade_id",
+  "b.lot",
+  "b.parent_id",
+  "b.size_x",
+  "b.size_y",
+  "b.size_z",
+  "b.volume_m3",
+  "b.weight_kg",
+  "b.cost",
+  "b.location",
+  "b.moulded_on",
+  "b.cut_not_before",
+  "b.status",
+  "b.hold_reason",
+  "b.hold_note",
+  "b.held_at",
+] as const;
+
+/** What getBlock reads beyond a summary. */
+const DETAIL_COLUMNS = [
+  "b.delivery_id",
+  "b.origin_in_parent",
+  "b.nominal_x",
+  "b.nominal_y",
+  "b.nominal_z",
+  "b.notes",
+  "g.cure_days",
+  "g.grade_system",
+  "g.grade as grade_name",
+  "d.po_ref",
+] as const;
+
+/**
+ *   selectBlocks(db())          // the columns of a BlockSummary
+ *   selectBlocks(db(), true)    // and those of a BlockDetail
+ * Base select with grade, delivery, supplier, who holds it and the defect count. Only the columns
+ * the answer uses: parsing the rows is much of what a list page costs (the stock list API reads 50
+ * at a time under load).
+ */
+function selectBlocks(k: Knex, detail = false) {
   return k("blocks as b")
     .join("grades as g", "g.id", "b.grade_id")
     .leftJoin("deliveries as d", "d.id", "b.delivery_id")
     .leftJoin("suppliers as s", "s.id", "d.supplier_id")
     .leftJoin("users as hu", "hu.id", "b.held_by")
     .select(
-      "b.*",
+      ...SUMMARY_COLUMNS,
+      ...(detail ? DETAIL_COLUMNS : []),
       "hu.name as held_by_name",
       "g.code as grade_code",
       "g.material",
       "g.never_hot_wire",
       "g.colour",
       "g.min_density_kg_m3",
-      "g.cure_days",
-      "g.grade_system",
-      "g.grade as grade_name",
       "d.received_on",
-      "d.po_ref",
       "s.name as supplier_name",
       k.raw("(SELECT count(*) FROM defect_zones z WHERE z.block_id = b.id AND z.removed_at IS NULL) AS defect_count"),
     );
@@ -252,7 +293,7 @@ export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<Bloc
     return t;
   };
   // Kept totals are checked against the version the page's statement read; none kept: both at once.
-  const rowsQ = page as unknown as Promise<(Row & { sort_key: string; stock_v: number })[]>;
+  const rowsQ = prepared(page) as unknown as Promise<(Row & { sort_key: string; stock_v: number })[]>;
   const [found, fresh] = await Promise.all([rowsQ, hasKept(key) ? null : readTotals()]);
   const v = Number(found[0]?.stock_v ?? -1);
   // An empty first page is the answer's totals too: nothing matches (same filters, same snapshot).
@@ -309,12 +350,12 @@ async function withFifo(items: BlockSummary[], today: string, v: number): Promis
 }
 
 export async function getBlock(idOrCode: number | string, today = isoDate()): Promise<BlockDetail | undefined> {
-  const q = selectBlocks(db())
+  const q = selectBlocks(db(), true)
     .select("p.code as parent_code", db().raw(`(SELECT v FROM stock_version WHERE id = 1) AS stock_v`))
     .leftJoin("blocks as p", "p.id", "b.parent_id");
   if (typeof idOrCode === "number") q.where("b.id", idOrCode);
   else q.whereRaw("upper(b.code) = upper(?)", [idOrCode]);
-  const r = await q.first();
+  const r = await prepared(q.first());
   if (!r) return undefined;
   const s = toSummary(r as Row, today);
   await withFifo([s], today, Number(r.stock_v));
@@ -334,7 +375,12 @@ export async function getBlock(idOrCode: number | string, today = isoDate()): Pr
 export async function listChildren(
   parentId: number,
 ): Promise<{ id: number; code: string; size: Vec3; status: BlockStatus }[]> {
-  const rows = await db()("blocks").where({ parent_id: parentId }).orderBy("id");
+  const rows = await prepared(
+    db()("blocks")
+      .where({ parent_id: parentId })
+      .orderBy("id")
+      .select("id", "code", "size_x", "size_y", "size_z", "status"),
+  );
   return rows.map((r) => ({ id: r.id, code: r.code, size: [r.size_x, r.size_y, r.size_z] as Vec3, status: r.status }));
 }
 

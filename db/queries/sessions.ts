@@ -1,5 +1,6 @@
 import "server-only";
 import { db } from "@/db";
+import { prepared } from "@/db/prepared";
 
 /**
  * Sessions and sign-in failures: the rows behind lib/auth (Lucia's storage and the sign-in
@@ -21,15 +22,20 @@ export interface SessionUserRow extends SessionRow {
   roles: string[];
 }
 
-/** A session with its user and roles, in one round trip (every request validates its session). */
+/**
+ * A session with its user and roles, in one round trip (every request validates its session), as a
+ * prepared statement: planned once per pooled connection, not on every request (db/prepared.ts).
+ */
 export async function findSessionWithUser(sessionId: string): Promise<SessionUserRow | undefined> {
-  const { rows } = await db().raw(
-    `SELECT s.id, s.user_id, s.expires_at,
+  const { rows } = await prepared(
+    db().raw(
+      `SELECT s.id, s.user_id, s.expires_at,
             u.email, u.name, u.active, u.must_change_password, u.display_units,
             coalesce((SELECT array_agg(r.role ORDER BY r.role) FROM user_roles r WHERE r.user_id = u.id), '{}') AS roles
        FROM user_sessions s JOIN users u ON u.id = s.user_id
       WHERE s.id = ?`,
-    [sessionId],
+      [sessionId],
+    ),
   );
   return rows[0] as SessionUserRow | undefined;
 }
