@@ -239,6 +239,7 @@ function* packGroup(
   items: Map<string, FacePoint[]>,
   budget: (share: number) => IrregularRunOptions,
   timeLeft: () => number,
+  slabTimeLeft: () => number,
 ): Generator<Step, Pack, IrregularSolution | Plan> {
   const pool = new Map(g.parts.map((p) => [p.id, p.quantity]));
   const slabs: SlabLayout[] = [];
@@ -248,6 +249,9 @@ function* packGroup(
     return (b.maxX - b.minX) * (b.maxY - b.minY);
   };
   for (let n = 0; n < MAX_SLABS && [...pool.values()].some((q) => q > 0); n++) {
+    // The slabs' time is spent: no new strip (the copies left go to the box nesting), so the run
+    // keeps its budget whatever the input.
+    if (slabTimeLeft() <= 0) break;
     // This slab's share: the copies left, split evenly over the slabs they need (their boxes at
     // SLAB_FILL of the slab's face), taken part by part in turn so shapes mix.
     const remaining = g.parts.reduce((s, p) => s + area(p.id) * (pool.get(p.id) ?? 0), 0);
@@ -374,6 +378,7 @@ function* trueShapeSteps(problem: Problem, options: NestOptions): Generator<Step
   // ones. Each (group, width) gets the time left in proportion to the group's boxes' volume (the
   // foam there is to save), each strip its share of the group's copies.
   const slabEnd = t0 + total * SLAB_SHARE;
+  const slabTimeLeft = () => (now ? slabEnd - now() : Infinity);
   const copies = (g: Group) => g.parts.reduce((t, p) => t + p.quantity, 0);
   const weight = (g: Group) => g.parts.reduce((t, p) => t + p.quantity * boxVolume(p), 0);
   const sizesOf = new Map([...groups.values()].map((g) => [g.key, stripSizes(problem, g)]));
@@ -402,7 +407,7 @@ function* trueShapeSteps(problem: Problem, options: NestOptions): Generator<Step
         return { ...base, now, timeLimitMs: Math.max(100, remaining * part) };
       };
       const timeLeft = () => (now ? Math.max(0, perSize - (now() - start)) : Infinity);
-      const pack: Pack = yield* packGroup(problem, g, size, items, budget, timeLeft);
+      const pack: Pack = yield* packGroup(problem, g, size, items, budget, timeLeft, slabTimeLeft);
       // Every copy is in a slab or left to the box nesting: the least volume wins.
       if (!best || pack.volume < best.volume) best = pack;
     }
@@ -479,7 +484,8 @@ function withSlabs(plan: Plan, slabs: readonly SlabPlanned[]): Plan {
     for (const m of s.layout.members) {
       const e = extra.get(m.part) ?? {
         count: 0,
-        reason: `its slab ${s.id} (${s.layout.size.join(" × ")} mm) found no room: ${u.reason}`,
+        // Sizes to 0.1 mm, and no slab id: an unplaced slab has no placement a reader could find it by.
+        reason: `its slab (${s.layout.size.map((v) => Math.round(v * 10) / 10).join(" × ")} mm) found no room: ${u.reason}`,
       };
       e.count++;
       extra.set(m.part, e);

@@ -170,6 +170,51 @@ describe("nest() honours its time budget within a second (real clock)", () => {
       expect(o.blocksUsed, o.name).toBeLessThanOrEqual(6);
     }
   }, 60_000);
+
+  it("true-shape orders keep the budget too: 300 and 120 triangles of one profile into one block, 2 s and 4 s (+ 1 s)", async () => {
+    // Found by a test of the app's true-shape runs: the slabs' strips started after the slabs' share of the
+    // budget was spent (each taking at least 100 ms): 3.9 s on a 2 s budget for the first case here.
+    const triangles = (timeLimitMs: number, quantity: number, size: number[]) => ({
+      version: 1,
+      settings: {
+        kerf: 1.5,
+        trim: 6,
+        layout: "guillotine",
+        minOffcut: [150, 150, 25],
+        trueShape: true,
+        timeLimitMs,
+        defectMargin: 10,
+      },
+      blocks: [{ id: "B1", cost: 100, size, grade: "EPS-II" }],
+      parts: [
+        {
+          id: "tri",
+          size: [80, 90, 60],
+          grade: "EPS-II",
+          rotate: "any",
+          quantity,
+          outline: {
+            outer: [
+              [0, 0],
+              [90, 0],
+              [0, 60],
+            ],
+          },
+        },
+      ],
+    });
+    const cases = [
+      { name: "300 triangles, 2 s", problem: triangles(2000, 300, [600, 400, 400]) },
+      { name: "120 triangles, 4 s", problem: triangles(4000, 120, [400, 300, 300]) },
+    ];
+    const { outcomes, killed, stderr } = await nestInChild(cases, 30_000);
+    expect(killed, `did not return within 30 s: ${stderr}`).toBe(false);
+    expect(outcomes).toHaveLength(cases.length);
+    for (const [k, o] of outcomes.entries()) {
+      expect(o.errors, o.name).toEqual([]);
+      expect(o.ms, o.name).toBeLessThan(cases[k]!.problem.settings.timeLimitMs + 1000);
+    }
+  }, 60_000);
 });
 
 describe("solveCover: the set cover's linear program", () => {
