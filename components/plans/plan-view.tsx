@@ -9,6 +9,7 @@
  * tablet), so labels and cut numbers are at least 12 units ≈ 13–19 px as shown; cut numbers are a
  * darker orange (5.6:1 on the block's paper colour, WCAG 2.1 AA for text).
  */
+import { plural } from "@/lib/format";
 import { cutRegions, type RegionCut } from "@/lib/planning/cut-regions";
 import type { Vec3 } from "@/lib/nesting";
 
@@ -112,7 +113,7 @@ function View({
         role="img"
         aria-label={`${title} of ${block.id}`}
       >
-        <title>{`${title} of ${block.id}: ${placements.length} parts, ${cutAxes.length} cuts seen from here; the lists below say the same in words`}</title>
+        <title>{`${title} of ${block.id}: ${plural(placements.length, "part")}, ${plural(cutAxes.length, "cut")} seen from here; the lists below say the same in words`}</title>
         <rect x={X(0)} y={Y(H)} width={w} height={h} fill="#f7f5ef" stroke="#1c2a2e" strokeWidth={1.5} />
         {props.offcuts.map((o, i) => (
           <rect

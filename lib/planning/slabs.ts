@@ -140,6 +140,19 @@ export function memberPieces<B extends { origin: Vec3; size: Vec3 }>(
   });
 }
 
+/**
+ * An unplaced reason for people: plans stored before the core rounded its message name a slab that
+ * found no room by its key and exact size ("its slab slab-2 (80 × 193.51703715324402 × 329.79 mm)
+ * …"); people read "its slab (80 × 193.5 × 329.8 mm) …". Other reasons pass unchanged.
+ * @example readableReason("its slab slab-2 (80 × 193.517 × 329.8 mm) found no room: full") // → "its slab (80 × 193.5 × 329.8 mm) found no room: full"
+ */
+export function readableReason(reason: string): string {
+  return reason.replace(/\bslab slab-\d+ \(([^)]*)\)/g, (_m, inner: string) => {
+    const sizes = inner.replace(/-?\d+(?:\.\d+)?/g, (n) => String(Math.round(Number(n) * 10) / 10));
+    return `slab (${sizes})`;
+  });
+}
+
 /** Foam a plan takes from stock, mm³: the blocks it uses less the offcuts it keeps. */
 export const foamUsed = (plan: Pick<Plan, "stats">): number => plan.stats.stockVolume - plan.stats.offcutVolume;
 

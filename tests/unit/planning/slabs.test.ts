@@ -18,6 +18,7 @@ import {
   expandKeys,
   foamUsed,
   isSlabKey,
+  readableReason,
   keyNamer,
   memberList,
   memberPieces,
@@ -223,5 +224,14 @@ describe("the slab helpers on a real true-shape plan", () => {
     expect(c.savedPct).toBeCloseTo(((c.boxM3 - c.trueShapeM3) / c.boxM3) * 100, 9);
     expect(c.slabs).toBe(slabPlacements.length);
     expect(c.unplaced).toEqual({ trueShape: 0, box: 0 });
+  });
+});
+
+describe("readableReason", () => {
+  it("names a slab that found no room by its size to 0.1 mm, never by its key", () => {
+    // The core's reason for an unplaced slab's members (lib/nesting/true-shape.ts, withSlabs).
+    const core = "its slab slab-2 (80 × 193.51703715324402 × 329.7999999523163 mm) found no room: not enough room left";
+    expect(readableReason(core)).toBe("its slab (80 × 193.5 × 329.8 mm) found no room: not enough room left");
+    expect(readableReason("larger than every block of grade EPS-II")).toBe("larger than every block of grade EPS-II");
   });
 });
