@@ -23,8 +23,10 @@ export async function JobRuns({ jobId }: { jobId: number }) {
 }
 
 /**
- * Runs side by side: yield, blocks, cost, offcuts, cut time with the placements and turns of the
- * cutting steps (on the run's machine), what did not fit, layout. The current run is shaded.
+ * Runs side by side: yield, blocks, cost, offcuts, foam used (blocks less offcuts kept: the measure
+ * that compares a true-shape run with box nesting, whose own box figure is in its tooltip), cut time
+ * with the placements and turns of the cutting steps (on the run's machine), what did not fit,
+ * layout. The current run is shaded.
  */
 export function RunTable({
   runs,
@@ -51,6 +53,7 @@ export function RunTable({
             <th className="text-right">Blocks</th>
             {money && <th className="text-right">Stock cost</th>}
             <th className="text-right">Offcuts m³</th>
+            <th className="text-right">Foam used m³</th>
             <th className="text-right">Cut time</th>
             <th className="text-right">Placements · turns</th>
             <th className="text-right">Not placed</th>
@@ -73,6 +76,19 @@ export function RunTable({
               <td className="text-right tabular-nums">{r.stats?.blocksUsed ?? "–"}</td>
               {money && <td className="text-right tabular-nums">{formatMoney(r.cost)}</td>}
               <td className="text-right tabular-nums">{r.stats ? (r.stats.offcutVolume / 1e9).toFixed(3) : "–"}</td>
+              <td
+                className="text-right tabular-nums"
+                title={r.shapes ? `${r.shapes.boxM3.toFixed(3)} m³ with the same parts as boxes` : undefined}
+              >
+                {r.stats ? ((r.stats.stockVolume - r.stats.offcutVolume) / 1e9).toFixed(3) : "–"}
+                {r.shapes && r.shapes.slabs > 0 && (
+                  <span className="block text-xs text-ink-soft">
+                    {r.shapes.savedPct >= 0
+                      ? `${r.shapes.savedPct.toFixed(1)} % less than boxes`
+                      : `${(-r.shapes.savedPct).toFixed(1)} % more than boxes`}
+                  </span>
+                )}
+              </td>
               <td className="text-right tabular-nums">
                 {r.steps
                   ? `${Math.round(r.steps.minutes)} min`
@@ -84,7 +100,10 @@ export function RunTable({
                 {r.steps ? `${r.steps.placements} · ${r.steps.turns}` : "–"}
               </td>
               <td className="text-right tabular-nums">{r.best?.unplacedCount ?? "–"}</td>
-              <td className="pl-4">{r.settings.layout ?? "–"}</td>
+              <td className="pl-4">
+                {r.settings.layout ?? "–"}
+                {r.settings.trueShape ? " · true shape" : ""}
+              </td>
               <td className="text-right text-ink-faint">{formatDate(r.createdAt)}</td>
             </tr>
           ))}

@@ -94,6 +94,18 @@ describe("a true-shape plan in the browser", () => {
     await tablet.getByTestId(`slabs-${block.code}`).waitFor();
     await screenshot(tablet, "true-shape-plan-tablet");
 
+    // The job's runs side by side: foam used, the same figure as the comparison, and the saving against boxes.
+    await planner.goto(`${BASE_URL}/jobs/${jobId}`);
+    const row = planner
+      .getByTestId("job-runs")
+      .locator("tr", { has: planner.getByRole("link", { name: `#${runId}` }) });
+    const rowText = (await row.textContent()) ?? "";
+    expect(rowText).toContain("true shape");
+    expect(rowText).toMatch(/\d+\.\d % (less|more) than boxes/);
+    const foam = comparison?.match(/^Foam used: ([\d.]+) m³/)?.[1];
+    expect(rowText).toContain(Number(foam).toFixed(3));
+    await planner.goto(`${BASE_URL}/plans/${runId}`);
+
     await planner.getByRole("button", { name: "Approve and earmark the stock" }).click();
     await planner.getByText("Approved: the blocks are earmarked").waitFor();
     // The cut sheet lists the slab as one piece with its members, for the profile cutter.
