@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, makeBlock, tableCounts, testDb } from "../support/db";
-import { SETTINGS, makeJobWithParts } from "../support/planning-fixtures";
+import { SETTINGS, makeJobWithParts, waitForRun } from "../support/planning-fixtures";
 import type { Problem } from "@/lib/nesting";
 
 afterAll(closeTestDb);
@@ -12,15 +12,8 @@ beforeAll(async () => {
   await planner.signIn(demoEmail("planner"));
 });
 
-async function waitFor(runId: number, statuses: string[], ms = 60_000) {
-  const end = Date.now() + ms;
-  for (;;) {
-    const res = await planner.get(`/api/runs/${runId}`);
-    if (statuses.includes(res.body.run.status)) return res.body.run;
-    if (Date.now() > end) throw new Error(`run ${runId} still ${res.body.run.status}`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
-}
+const waitFor = async (runId: number, statuses: string[], ms?: number) =>
+  (await waitForRun(planner, runId, statuses, ms)).run;
 
 /** A good block, a sliver offcut (thinner than any part) and a whole sliver the face trim eats. */
 async function stockWithSlivers() {

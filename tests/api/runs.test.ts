@@ -8,6 +8,7 @@ import {
   makeJobWithParts,
   makePinwheelRun,
   makePlannedBlock,
+  waitForRun,
 } from "../support/planning-fixtures";
 import { validatePlan, type Plan, type Problem } from "@/lib/nesting";
 
@@ -22,17 +23,7 @@ beforeAll(async () => {
   await cutter.signIn(demoEmail("cutter"));
 });
 
-async function waitFor(runId: number, statuses: string[], ms = 60_000) {
-  const end = Date.now() + ms;
-  const seen: number[] = [];
-  for (;;) {
-    const res = await planner.get(`/api/runs/${runId}`);
-    seen.push(res.body.run.progress);
-    if (statuses.includes(res.body.run.status)) return { run: res.body.run, seen };
-    if (Date.now() > end) throw new Error(`run ${runId} still ${res.body.run.status}`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
-}
+const waitFor = (runId: number, statuses: string[], ms = 60_000) => waitForRun(planner, runId, statuses, ms);
 
 describe("nesting runs in the background worker", () => {
   it("plans a job into chosen stock, shows progress, and stores a valid plan", async () => {

@@ -12,7 +12,7 @@ import Papa from "papaparse";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, makeBlock, testDb } from "../support/db";
-import { SETTINGS } from "../support/planning-fixtures";
+import { SETTINGS, waitForRun } from "../support/planning-fixtures";
 import { validatePlan, type Plan, type Problem } from "@/lib/nesting";
 import { placedByPart } from "@/lib/planning/slabs";
 
@@ -30,16 +30,8 @@ beforeAll(async () => {
 const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id"))!.id as number;
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-async function waitFor(runId: number, statuses: string[], ms = 90_000) {
-  const end = Date.now() + ms;
-  for (;;) {
-    const res = await planner.get(`/api/runs/${runId}`);
-    expect(res.status).toBe(200);
-    if (statuses.includes(res.body.run.status)) return res.body.run;
-    if (Date.now() > end) throw new Error(`run ${runId} still ${res.body.run.status}`);
-    await sleep(250);
-  }
-}
+const waitFor = async (runId: number, statuses: string[], ms?: number) =>
+  (await waitForRun(planner, runId, statuses, ms)).run;
 
 type Part = { id: number; name: string; quantity: number; size: number[] };
 

@@ -8,7 +8,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, makeBlock, testDb } from "../support/db";
-import { SETTINGS } from "../support/planning-fixtures";
+import { SETTINGS, waitForRun } from "../support/planning-fixtures";
 import { validatePlan, type Plan, type Problem } from "@/lib/nesting";
 
 afterAll(closeTestDb);
@@ -22,15 +22,8 @@ beforeAll(async () => {
   await cutter.signIn(demoEmail("cutter"));
 });
 
-async function waitFor(runId: number, statuses: string[], ms = 90_000) {
-  const end = Date.now() + ms;
-  for (;;) {
-    const res = await planner.get(`/api/runs/${runId}`);
-    if (statuses.includes(res.body.run.status)) return res.body.run;
-    if (Date.now() > end) throw new Error(`run ${runId} still ${res.body.run.status}`);
-    await new Promise((r) => setTimeout(r, 250));
-  }
-}
+const waitFor = async (runId: number, statuses: string[], ms?: number) =>
+  (await waitForRun(planner, runId, statuses, ms)).run;
 
 const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id"))!.id as number;
 

@@ -1,4 +1,5 @@
 import { testDb, makeBlock } from "./db";
+import type { Client } from "./http";
 import { nestSync, parseProblem, type Plan, type Problem } from "@/lib/nesting";
 import { buildProblem } from "@/lib/planning/problem";
 import type { RunSettings } from "@/lib/validations/runs";
@@ -163,4 +164,22 @@ export async function makePinwheelRun() {
     .where({ id: runId })
     .update({ plan: JSON.stringify({ ...plan, offcuts: [], cuts: { [block.code]: [] }, placements }) });
   return { runId, block, jobId };
+}
+
+/**
+ * Polls a run as `who` until its status is one of `statuses`: the run and the progress figures seen
+ * on the way. Any answer but 200 throws (a poll must never fail), as does a run still elsewhere after `ms`.
+ */
+export async function waitForRun(who: Client, runId: number, statuses: string[], ms = 90_000) {
+  const end = Date.now() + ms;
+  const seen: number[] = [];
+  for (;;) {
+    const res = await who.get(`/api/runs/${runId}`);
+    if (res.status !== 200)
+      throw new Error(`GET /api/runs/${runId} answered ${res.status}: ${JSON.stringify(res.body)}`);
+    seen.push(res.body.run.progress);
+    if (statuses.includes(res.body.run.status)) return { run: res.body.run, seen };
+    if (Date.now() > end) throw new Error(`run ${runId} still ${res.body.run.status}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
 }
