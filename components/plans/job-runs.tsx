@@ -1,4 +1,5 @@
 import { formatDate, formatMoney } from "@/lib/format";
+import { formatVolume } from "@/lib/units";
 import Link from "next/link";
 import { rowLinkClass } from "@/components/ui/button";
 import { listRuns, type RunSummary } from "@/db/queries/runs";
@@ -78,7 +79,9 @@ export function RunTable({
               <td className="text-right tabular-nums">{r.stats ? (r.stats.offcutVolume / 1e9).toFixed(3) : "–"}</td>
               <td
                 className="text-right tabular-nums"
-                title={r.shapes ? `${r.shapes.boxM3.toFixed(3)} m³ with the same parts as boxes` : undefined}
+                title={
+                  r.shapes ? `${formatVolume(r.shapes.boxM3, { digits: 3 })} with the same parts as boxes` : undefined
+                }
               >
                 {r.stats ? ((r.stats.stockVolume - r.stats.offcutVolume) / 1e9).toFixed(3) : "–"}
                 {r.shapes && r.shapes.slabs > 0 && (
