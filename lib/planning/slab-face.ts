@@ -4,8 +4,8 @@
  * the wire's path, and a point well inside the outline for its number. Pure: no I/O.
  */
 import type { FacePoint, LeadInFace, PartOutline, SlabLayout } from "@/lib/nesting";
-import { bboxOf, rotateLoop, segDist2, winding } from "@/lib/nesting/irregular/geometry";
-import { leadInFoot, occupiedOutline } from "@/lib/nesting/slab";
+import { bboxOf, segDist2, winding } from "@/lib/nesting/irregular/geometry";
+import { leadInFoot, memberLoop, occupiedOutline } from "@/lib/nesting/slab";
 
 export interface SlabFaceMember {
   /** 1-based, as numbered on the drawing and in the list. */
@@ -22,9 +22,6 @@ export interface SlabFaceMember {
   /** Where the member's number goes: the point of a coarse grid farthest inside the occupied loop. */
   label: FacePoint;
 }
-
-const place = (loop: readonly FacePoint[], rotation: number, at: FacePoint): FacePoint[] =>
-  rotateLoop(loop, rotation).map(([x, y]) => [x + at[0], y + at[1]] as FacePoint);
 
 /** Distance from a point to a loop's edges. */
 function edgeDistance(loop: readonly FacePoint[], x: number, y: number): number {
@@ -77,16 +74,16 @@ export function slabFaceDrawing(
     const o = outlines.get(m.part);
     const corridor: [FacePoint, FacePoint] = [leadInFoot(m.leadIn.to, m.leadIn.face, uv), m.leadIn.to];
     if (!o) return { n: k + 1, rotation: m.rotation, face: m.leadIn.face, holes: [], corridor, label: m.leadIn.to };
-    const outer = place(o.outer, m.rotation, m.at);
-    const holes = (o.holes ?? []).map((h) => place(h, m.rotation, m.at));
-    const occupied = place(occupiedOutline(o), m.rotation, m.at);
+    const outer = memberLoop(o.outer, m.rotation, m.at);
+    const holes = (o.holes ?? []).map((h) => memberLoop(h, m.rotation, m.at));
+    const occupied = memberLoop(occupiedOutline(o), m.rotation, m.at);
     return {
       n: k + 1,
       rotation: m.rotation,
       face: m.leadIn.face,
       outer,
       holes,
-      ...(o.tip ? { tip: place(o.tip.outer, m.rotation, m.at) } : {}),
+      ...(o.tip ? { tip: memberLoop(o.tip.outer, m.rotation, m.at) } : {}),
       corridor,
       label: labelPoint(occupied, o.tip ? [] : holes),
     };

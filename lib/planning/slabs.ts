@@ -67,10 +67,7 @@ export function countByPart(keys: readonly string[], slabs: SlabIndex = {}): Map
  * @example placedByPart(plan.placements) // → Map { 4 → 6, 7 → 2 }
  */
 export function placedByPart(placements: readonly Pick<Placement, "part" | "slab">[]): Map<number, number> {
-  const n = new Map<number, number>();
-  for (const p of placements)
-    for (const k of slabMembers(p)) n.set(partIdFromKey(k), (n.get(partIdFromKey(k)) ?? 0) + 1);
-  return n;
+  return countByPart(placements.flatMap(slabMembers));
 }
 
 /**
@@ -137,19 +134,6 @@ export function memberPieces<B extends { origin: Vec3; size: Vec3 }>(
         ] as Vec3,
       },
     }));
-  });
-}
-
-/**
- * An unplaced reason for people: plans stored before the core rounded its message name a slab that
- * found no room by its key and exact size ("its slab slab-2 (80 × 193.51703715324402 × 329.79 mm)
- * …"); people read "its slab (80 × 193.5 × 329.8 mm) …". Other reasons pass unchanged.
- * @example readableReason("its slab slab-2 (80 × 193.517 × 329.8 mm) found no room: full") // → "its slab (80 × 193.5 × 329.8 mm) found no room: full"
- */
-export function readableReason(reason: string): string {
-  return reason.replace(/\bslab slab-\d+ \(([^)]*)\)/g, (_m, inner: string) => {
-    const sizes = inner.replace(/-?\d+(?:\.\d+)?/g, (n) => String(Math.round(Number(n) * 10) / 10));
-    return `slab (${sizes})`;
   });
 }
 

@@ -6,13 +6,13 @@
  * at the bottom face, suit a horizontal wire as well as an upright one. Pure: no I/O.
  */
 import type { FacePoint, Part, SlabLayout } from "@/lib/nesting";
-import { rotateLoop } from "@/lib/nesting/irregular/geometry";
+import { memberLoop } from "@/lib/nesting/slab";
 import type { Point } from "./polygon";
 import type { ProfileProgramInput, ProgramPart } from "./program";
 import type { Section } from "./slabs";
 
-const place = (loop: readonly FacePoint[], rotation: number, at: FacePoint): Point[] =>
-  rotateLoop(loop, rotation).map(([x, y]) => [x + at[0], y + at[1]] as Point);
+/** A section's loop where the slab holds it: the same turn and move as the member's occupied loop. */
+const place: (loop: readonly FacePoint[], rotation: number, at: FacePoint) => Point[] = memberLoop;
 
 /**
  * The parts of one program for a slab: names from `names` (part id → a name for people), sections

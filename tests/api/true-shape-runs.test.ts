@@ -9,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, makeBlock, testDb } from "../support/db";
 import { SETTINGS, waitForRun } from "../support/planning-fixtures";
+import { L_OUTLINE } from "../support/shapes";
 import { validatePlan, type Plan, type Problem } from "@/lib/nesting";
 
 afterAll(closeTestDb);
@@ -27,15 +28,8 @@ const waitFor = async (runId: number, statuses: string[], ms?: number) =>
 
 const gradeId = async (code: string) => (await testDb()("grades").where({ code }).first("id"))!.id as number;
 
-/** An L of legs 120 × 40 and 40 × 90 (hand-drawn): two interlock, where their boxes cannot. Area 6800 mm². */
-const L_POINTS = [
-  [0, 0],
-  [120, 0],
-  [120, 40],
-  [40, 40],
-  [40, 90],
-  [0, 90],
-];
+/** The hand-drawn L of tests/support/shapes.ts (area 6,800 mm²): two interlock, where their boxes cannot. */
+const L_POINTS = L_OUTLINE;
 
 describe("a true-shape run in the app", () => {
   it("nests profiles in slabs, compares with boxes, reserves and records the slabs' members", async () => {

@@ -10,6 +10,7 @@ import { signedInPage } from "./pages/sign-in";
 import { closeTestDb, makeBlock, testDb } from "../support/db";
 import { makeJob } from "../support/job-fixtures";
 import { makeProfilePart } from "../support/profile-fixtures";
+import { lProfile } from "../support/shapes";
 import type { Profile } from "@/lib/profiles";
 
 let browser: Browser;
@@ -24,19 +25,8 @@ afterAll(async () => {
 const signedIn = (role: string, viewport: { width: number; height: number }): Promise<Page> =>
   signedInPage(browser, role, viewport);
 
-/** An L of legs 120 × 40 and 40 × 90 (hand-drawn), 60 mm thick: two interlock where their boxes cannot. */
-const ELL: Profile = {
-  kind: "polygon",
-  points: [
-    [0, 0],
-    [120, 0],
-    [120, 40],
-    [40, 40],
-    [40, 90],
-    [0, 90],
-  ],
-  extrudeMm: 60,
-};
+/** The hand-drawn L of tests/support/shapes.ts, 60 mm thick: two interlock where their boxes cannot. */
+const ELL: Profile = lProfile(60);
 const PANEL: Profile = { kind: "naca", code: "0012", chordMm: 200, spanMm: 60 };
 
 describe("a true-shape plan in the browser", () => {

@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { type Args, cmdOf, type Event, readBack } from "../support/gcode";
-import { randomPlan } from "../support/procedure-fixtures";
+import { machine as blockCutter, randomPlan } from "../support/procedure-fixtures";
 import type { Vec3 } from "@/lib/nesting";
 import { ENTRY_CLEARANCE, type GcodeDialect, type Machine } from "@/lib/planning/machine";
 import { procedure, type OkProcedure, type ProcedureInput, type Step } from "@/lib/planning/procedure";
@@ -194,20 +194,9 @@ const dialects: Record<string, GcodeDialect> = {
   },
 };
 
-const machine = (over: Partial<Machine> = {}): Machine => ({
-  name: "Test cutter",
-  kind: "block",
-  wire: "horizontal",
-  wireLength: 1300,
-  travel: [2600, 1000],
-  maxPiece: [2500, 1300, 1000],
-  turntable: true,
-  rapid: 3000,
-  heatUpS: 25,
-  handlingS: 120,
-  dialect: dialects["RS274/NGC mm"]!,
-  ...over,
-});
+/** The tests' invented block cutter, with a turntable and the RS274/NGC millimetre dialect. */
+const machine = (over: Partial<Machine> = {}): Machine =>
+  blockCutter({ turntable: true, heatUpS: 25, dialect: dialects["RS274/NGC mm"]!, ...over });
 
 function programs(p: OkProcedure, m: Machine, feed: number) {
   return p.steps.map((step) => ({

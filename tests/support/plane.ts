@@ -40,3 +40,12 @@ export function outlineGap(a: readonly (readonly XY[])[], b: readonly (readonly 
     }
   return d;
 }
+
+/**
+ * A loop as a closed ring (first point repeated at the end), as polygon-clipping takes it.
+ *
+ *   closedRing([[0, 0], [1, 0], [0, 1]])   // → [[0, 0], [1, 0], [0, 1], [0, 0]]
+ */
+export function closedRing(loop: readonly XY[]): [number, number][] {
+  return [...loop.map(([x, y]) => [x, y] as [number, number]), [loop[0]![0], loop[0]![1]]];
+}

@@ -16,6 +16,8 @@ import { slabProgramInput } from "@/lib/profiles/slab-program";
 import { partSections } from "@/lib/profiles/slabs";
 import { checkSlabsIndependently } from "@/scripts/lib-bench/shop-case";
 import { profileCutter } from "../../support/procedure-fixtures";
+import { closedRing } from "../../support/plane";
+import { L_OUTLINE } from "../../support/shapes";
 
 const parse = (json: unknown): Problem => {
   const r = parseProblem(json);
@@ -23,15 +25,8 @@ const parse = (json: unknown): Problem => {
   return r.problem;
 };
 
-/** An L of legs 120 × 40 and 40 × 90 (hand-drawn), in its box 120 × 90. */
-const L: FacePoint[] = [
-  [0, 0],
-  [120, 0],
-  [120, 40],
-  [40, 40],
-  [40, 90],
-  [0, 90],
-];
+/** The hand-drawn L of tests/support/shapes.ts, in its box 120 × 90. */
+const L = L_OUTLINE;
 
 const lProblem = (extra: Record<string, unknown> = {}) => ({
   settings: { kerf: 2, trueShape: true, timeLimitMs: 1000, ...extra },
@@ -42,10 +37,7 @@ const lProblem = (extra: Record<string, unknown> = {}) => ({
   ],
 });
 
-const ring = (l: readonly FacePoint[]): [number, number][] => [
-  ...l.map(([x, y]) => [x, y] as [number, number]),
-  [l[0]![0], l[0]![1]],
-];
+const ring = closedRing;
 
 describe("settings.trueShape and part outlines (optional fields)", () => {
   const v1 = {
@@ -466,5 +458,40 @@ describe("the plan's version (nesting-format.md, 'Extending the format', rules 4
     expect(validatePlan(plainProblem, { ...plain, version: 3 } as unknown as Plan)).toContain(
       "version: must be 1 or 2",
     );
+  });
+});
+
+describe("members of a slab that found no room", () => {
+  it("are reported unplaced with the slab's size to 0.1 mm and no slab id (the slab has no placement to find it by)", () => {
+    // 300 right triangles of 90 × 60 × 80 mm (hand-drawn) and one 400 × 300 × 300 block: their boxes alone are 0.13 m³
+    // against 0.036 m³ of block, so slabs are left over.
+    const p = parse({
+      settings: { kerf: 1.5, trueShape: true, timeLimitMs: 1000 },
+      blocks: [{ id: "B1", size: [400, 300, 300], grade: "EPS" }],
+      parts: [
+        {
+          id: "tri",
+          size: [80, 90, 60],
+          quantity: 300,
+          grade: "EPS",
+          rotate: "any",
+          outline: {
+            outer: [
+              [0, 0],
+              [90, 0],
+              [0, 60],
+            ],
+          },
+        },
+      ],
+    });
+    const plan = nestSync(p, { seed: 1, iterations: 20 });
+    expect(validatePlan(p, plan)).toEqual([]);
+    const reasons = plan.unplaced.map((u) => u.reason).filter((r) => r.startsWith("its slab"));
+    expect(reasons.length).toBeGreaterThan(0);
+    for (const r of reasons) {
+      expect(r).toMatch(/^its slab \(\d+(\.\d)? × \d+(\.\d)? × \d+(\.\d)? mm\) found no room: /);
+      expect(r).not.toMatch(/slab-\d/);
+    }
   });
 });

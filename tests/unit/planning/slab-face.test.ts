@@ -11,6 +11,8 @@ import { SlabFace } from "@/components/plans/slab-face";
 import { type FacePoint, nestSync, type PartOutline, parseProblem, type SlabLayout } from "@/lib/nesting";
 import { winding } from "@/lib/nesting/irregular/geometry";
 import { labelPoint, slabFaceDrawing } from "@/lib/planning/slab-face";
+import { closedRing } from "../../support/plane";
+import { L_OUTLINE } from "../../support/shapes";
 
 /** A "C" of 100 × 100 with a 60 × 60 bite from the right (hand-drawn): its box's centre lies in the bite. */
 const C: FacePoint[] = [
@@ -23,18 +25,8 @@ const C: FacePoint[] = [
   [100, 100],
   [0, 100],
 ];
-const L: FacePoint[] = [
-  [0, 0],
-  [120, 0],
-  [120, 40],
-  [40, 40],
-  [40, 90],
-  [0, 90],
-];
-const ring = (l: readonly FacePoint[]): [number, number][] => [
-  ...l.map(([x, y]) => [x, y] as [number, number]),
-  [l[0]![0], l[0]![1]],
-];
+const L = L_OUTLINE;
+const ring = closedRing;
 
 describe("labelPoint", () => {
   it("puts a C's number inside the C, not in its bite", () => {

@@ -18,7 +18,6 @@ import {
   expandKeys,
   foamUsed,
   isSlabKey,
-  readableReason,
   keyNamer,
   memberList,
   memberPieces,
@@ -30,20 +29,10 @@ import {
 } from "@/lib/planning/slabs";
 import { partGeometry, type Profile } from "@/lib/profiles/part";
 import { machine } from "../../support/procedure-fixtures";
+import { lProfile } from "../../support/shapes";
 
-/** An L of legs 120 × 40 and 40 × 90 (hand-drawn), extruded 60 mm. */
-const L: Profile = {
-  kind: "polygon",
-  points: [
-    [0, 0],
-    [120, 0],
-    [120, 40],
-    [40, 40],
-    [40, 90],
-    [0, 90],
-  ],
-  extrudeMm: 60,
-};
+/** The hand-drawn L of tests/support/shapes.ts, extruded 60 mm. */
+const L: Profile = lProfile(60);
 /** A straight NACA 0012 panel, chord 150 mm, span 60 mm (the L's thickness, so both share slabs). */
 const WING: Profile = { kind: "naca", code: "0012", chordMm: 150, spanMm: 60 };
 
@@ -224,14 +213,5 @@ describe("the slab helpers on a real true-shape plan", () => {
     expect(c.savedPct).toBeCloseTo(((c.boxM3 - c.trueShapeM3) / c.boxM3) * 100, 9);
     expect(c.slabs).toBe(slabPlacements.length);
     expect(c.unplaced).toEqual({ trueShape: 0, box: 0 });
-  });
-});
-
-describe("readableReason", () => {
-  it("names a slab that found no room by its size to 0.1 mm, never by its key", () => {
-    // The core's reason for an unplaced slab's members (lib/nesting/true-shape.ts, withSlabs).
-    const core = "its slab slab-2 (80 × 193.51703715324402 × 329.7999999523163 mm) found no room: not enough room left";
-    expect(readableReason(core)).toBe("its slab (80 × 193.5 × 329.8 mm) found no room: not enough room left");
-    expect(readableReason("larger than every block of grade EPS-II")).toBe("larger than every block of grade EPS-II");
   });
 });

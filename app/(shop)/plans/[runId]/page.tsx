@@ -23,7 +23,7 @@ import { stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { partIdFromKey } from "@/lib/planning/problem";
 import { SlabFace } from "@/components/plans/slab-face";
-import { keyNamer, memberList, readableReason, slabMembers } from "@/lib/planning/slabs";
+import { keyNamer, memberList, slabMembers } from "@/lib/planning/slabs";
 import { leftOutLine } from "@/lib/planning/usable";
 import { planProfiles, profileTime } from "@/db/queries/profile-programs";
 import { formatVolume } from "@/lib/units";
@@ -242,7 +242,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                 <ul className="list-disc pl-5">
                   {plan.unplaced.map((u) => (
                     <li key={u.part}>
-                      {u.count} × {partName(u.part)}: {readableReason(u.reason)}
+                      {u.count} × {partName(u.part)}: {u.reason}
                     </li>
                   ))}
                 </ul>
