@@ -13,7 +13,7 @@ import os from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { nestSync, parseProblem, type Plan, type Problem, validatePlan } from "@/lib/nesting";
-import type { Machine } from "@/lib/planning/machine";
+import { type Machine, slabMaxFor } from "@/lib/planning/machine";
 import { profileProgram } from "@/lib/profiles/program";
 import { slabProgramInput } from "@/lib/profiles/slab-program";
 import { checkSlabsIndependently, foamUsedM3, shopCase } from "./lib-bench/shop-case";
@@ -64,7 +64,11 @@ export function runShopBench(args: string[]): void {
     return;
   }
   const c = shopCase();
-  const json = { ...c.json, settings: { ...(c.json.settings as object), timeLimitMs: budgetS * 1000 } };
+  // Slabs sized for the bench's cutter, as a run in the app sizes them for the shop's.
+  const json = {
+    ...c.json,
+    settings: { ...(c.json.settings as object), timeLimitMs: budgetS * 1000, slabMax: slabMaxFor(CUTTER) },
+  };
   const parsed = parseProblem(json);
   if (!parsed.ok) throw new Error(parsed.errors.join("\n"));
   const trueP = parsed.problem;

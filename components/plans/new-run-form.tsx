@@ -13,6 +13,7 @@ import { formatDate } from "@/lib/format";
 import type { Candidate } from "@/db/queries/run-plan";
 import { leftOutLine, type LeftOut } from "@/lib/planning/usable";
 import { formatVolume } from "@/lib/units";
+import { dims, mm } from "@/lib/planning/machine";
 
 /** Choose the stock (proposed: ready, right grade, oldest first) and the settings, then start. */
 export function NewRunForm({
@@ -21,6 +22,7 @@ export function NewRunForm({
   leftOut = [],
   defaults,
   machines,
+  slabCutter = null,
 }: {
   jobIds: number[];
   candidates: Candidate[];
@@ -29,6 +31,8 @@ export function NewRunForm({
   defaults: RunSettings;
   /** Active block cutters; the first is proposed. */
   machines: { id: number; name: string }[];
+  /** The profile cutter true-shape slabs are sized for, with its largest slab [thickness, across, up] mm; null: none. */
+  slabCutter?: { name: string; slabMax: [number, number, number] } | null;
 }) {
   const router = useRouter();
   const [chosen, setChosen] = useState<Set<number>>(new Set(candidates.map((c) => c.id)));
@@ -211,6 +215,11 @@ export function NewRunForm({
             <span className="block text-sm text-ink-soft">
               Letters, wing cores and other profiles share slabs by their outlines instead of taking a whole box each;
               the run also nests them as boxes and shows how much foam each way uses.
+            </span>
+            <span className="block text-sm text-ink-soft" data-testid="slab-cutter">
+              {slabCutter
+                ? `Each slab is sized for ${slabCutter.name}: a face of at most ${dims(slabCutter.slabMax.slice(1))} mm (across × up), ${mm(slabCutter.slabMax[0])} mm along the wire.`
+                : "The shop has no profile cutter yet: slabs are sized by the blocks alone."}
             </span>
             {fields["settings.trueShape"] && (
               <span className="block text-sm text-ember">{fields["settings.trueShape"]}</span>

@@ -2,6 +2,7 @@ import "server-only";
 import { db } from "@/db";
 import { HttpError } from "@/lib/errors";
 import type { Plan, Problem, SlabLayout, Vec3 } from "@/lib/nesting";
+import { slabMaxFor } from "@/lib/planning/machine";
 import { partIdFromKey } from "@/lib/planning/problem";
 import type { Profile } from "@/lib/profiles";
 import { FourAxisError } from "@/lib/profiles/four-axis";
@@ -231,11 +232,12 @@ export async function slabPrograms(
   if (!run.plan) throw new HttpError(409, "This plan has no layout yet: wait for it to finish.");
   // A box-nested plan: its profile parts grouped into slabs by block and layer. A true-shape plan
   // (version 2): each slab placement is one slab, its members where the nesting put them.
-  const slabs = planSlabs(run.plan, parts);
-  const shaped = trueShapeSlabs(run.plan, problem, slabs);
-  if (!slabs.length && !shaped.length)
-    throw new HttpError(409, "This plan has no profile parts: every part is a plain box.");
+  const hasProfiles = run.plan.placements.some((p) => p.slab || parts.get(p.part)?.profile);
+  if (!hasProfiles) throw new HttpError(409, "This plan has no profile parts: every part is a plain box.");
   const machine = await profileMachine(machineId);
+  // Blanks of one layer that span more than the cutter's face are split into slabs that fit it.
+  const slabs = planSlabs(run.plan, parts, slabMaxFor(machine).slice(1) as [number, number]);
+  const shaped = trueShapeSlabs(run.plan, problem, slabs);
   const gradeIds = new Map(
     ((await db()("grades").select("id", "code")) as { id: number; code: string }[]).map((g) => [g.code, g.id]),
   );

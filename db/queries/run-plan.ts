@@ -2,7 +2,7 @@ import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
 import { owedParts } from "./owed";
-import { getMachine, kerfAndFeed } from "./machines";
+import { getMachine, kerfAndFeed, listMachines } from "./machines";
 import { getShopSettings } from "./settings";
 import { HttpError } from "@/lib/errors";
 import { isoDate } from "@/lib/stock";
@@ -11,6 +11,7 @@ import { MAX_PIECES } from "@/lib/nesting/parse";
 import { buildProblem, partIdFromKey, partKey, type StockForPlan } from "@/lib/planning/problem";
 import type { RunSettings } from "@/lib/validations/runs";
 import { leftOutLine, whyUnusable, type LeftOut } from "@/lib/planning/usable";
+import { slabMaxFor } from "@/lib/planning/machine";
 import type { Vec3 } from "@/lib/nesting";
 
 /** Planning a nesting run: the stock it may use, the parts still owed, and the queued run itself. */
@@ -254,7 +255,13 @@ export async function createRun(
       const { kerf } = kerfAndFeed(machine, gradeIds, { kerf: input.settings.kerf, feed: 0 });
       settings = { ...input.settings, kerf };
     }
-    let parsed = parseProblem(buildProblem(parts, stock, settings));
+    // True-shape slabs are sized for the profile cutter their programs are made for (the shop's
+    // first active one, as on the plan page); without one, by the blocks alone.
+    const profileCutter = settings.trueShape
+      ? (await listMachines({ activeOnly: true }, trx)).find((m) => m.kind === "profile")
+      : undefined;
+    const slabMax = profileCutter ? slabMaxFor(profileCutter) : null;
+    let parsed = parseProblem(buildProblem(parts, stock, settings, { slabMax }));
     // A block the problem's checks refuse (its record disagrees with itself, such as a zone left
     // outside it by a re-measure) is left out with the check's words, not the whole run refused.
     for (let round = 0; !parsed.ok && round < 2; round++) {
@@ -268,7 +275,7 @@ export async function createRun(
       for (const [i, reason] of bad) leave(stock[i]!, reason);
       stock = stock.filter((_, i) => !bad.has(i));
       if (!stock.length) throw refuseAll();
-      parsed = parseProblem(buildProblem(parts, stock, settings));
+      parsed = parseProblem(buildProblem(parts, stock, settings, { slabMax }));
     }
     if (!parsed.ok)
       throw new HttpError(400, `The nesting problem is not valid: ${parsed.errors.slice(0, 3).join("; ")}`);

@@ -74,6 +74,7 @@ function readSettings(r: Reader, raw: unknown): Settings {
     if (typeof s.trueShape !== "boolean") r.err("settings.trueShape", "must be true or false");
     else settings.trueShape = s.trueShape;
   }
+  if (s.slabMax !== undefined) settings.slabMax = r.vec3(s, "slabMax", "settings", "pos");
   return settings;
 }
 

@@ -330,6 +330,14 @@ export function checkSlab(problem: Problem, slab: SlabLayout, path: string): Sla
     return { errors, bad, counts };
   }
   if (!(slab.rotate in ROTATE_RANK)) errors.push(`${path}.rotate: must be one of "any", "z", "none"`);
+  const max = problem.settings.slabMax;
+  if (max) {
+    const over = ["thickness", "face u", "face v"].filter((_, i) => size[i]! > max[i]! + 1e-6);
+    if (over.length)
+      errors.push(
+        `${path}.size: ${size.map((v) => Math.round(v * 10) / 10).join(" × ")} is larger than the profile cutter takes (settings.slabMax ${max.join(" × ")}: ${over.join(", ")})`,
+      );
+  }
   if (!Array.isArray(slab.members) || slab.members.length === 0) {
     errors.push(`${path}.members: must list at least one part`);
     return { errors, bad, counts };

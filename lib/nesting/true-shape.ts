@@ -136,10 +136,13 @@ function minCrossing(loop: readonly FacePoint[], rotations: readonly number[]): 
 
 const boxVolume = (p: Part) => p.size[0] * p.size[1] * p.size[2];
 
-/** Strip widths and the longest slab for them, from the blocks the group may use. */
+/** Strip widths and the longest slab for them, from the blocks the group may use, within `settings.slabMax`. */
 function stripSizes(problem: Problem, g: Group): { width: number; length: number }[] {
   const seen = new Map<string, { width: number; length: number }>();
   const t = g.thickness;
+  const max = problem.settings.slabMax;
+  // Thicker than the profile cutter's wire spans: no slab (the parts are nested as boxes).
+  if (max && t > max[0] + 1e-6) return [];
   for (const b of problem.blocks) {
     if (g.grade !== undefined && b.grade !== g.grade) continue;
     const D = b.size.map((v) => v - 2 * b.trim) as Vec3;
@@ -155,7 +158,10 @@ function stripSizes(problem: Problem, g: Group): { width: number; length: number
         const [p, q] = [0, 1, 2].filter((i) => i !== a).map((i) => D[i]!) as [number, number];
         pairs.push([p, q], [q, p]);
       }
-    for (const [width, length] of pairs) {
+    for (const [w, l] of pairs) {
+      // A slab no larger than the profile cutter takes: its face v (the strip's width) and u (its length).
+      const width = max ? Math.min(w, max[2]) : w;
+      const length = max ? Math.min(l, max[1]) : l;
       if (!(width > 0 && length > 0)) continue;
       const k = `${width.toFixed(2)}|${length.toFixed(2)}`;
       if (!seen.has(k)) seen.set(k, { width, length });
@@ -445,7 +451,7 @@ function* trueShapeSteps(problem: Problem, options: NestOptions): Generator<Step
       rotate: s.layout.rotate,
       ...(s.layout.grade !== undefined ? { grade: s.layout.grade } : {}),
     });
-  const { trueShape: _off, ...plainSettings } = problem.settings;
+  const { trueShape: _off, slabMax: _max, ...plainSettings } = problem.settings;
   const used = (now?.() ?? 0) - t0;
   const boxProblem: Problem = {
     version: 1,

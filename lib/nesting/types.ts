@@ -18,6 +18,12 @@ export interface Settings {
    * true-shape nested profiles").
    */
   trueShape?: boolean;
+  /**
+   * Optional (absent: no limit but the blocks). The largest slab the profile cutter takes,
+   * [thickness along the wire, face u (across), face v (up)] in mm: every true-shape slab is at
+   * most this (its face as the cutter sees it: u across, v up; the slab is not turned on the cutter).
+   */
+  slabMax?: Vec3;
 }
 
 export interface Defect {

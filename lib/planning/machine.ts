@@ -79,6 +79,22 @@ export function placementProblem(m: Machine, placed: Vec3): string | null {
 }
 
 /**
+ * The largest true-shape slab a profile cutter takes, [thickness along the wire, face u (across),
+ * face v (up)] mm, for `settings.slabMax`: the wire's span, the travel less ENTRY_CLEARANCE each
+ * side (the profile program's frame: air to enter, and on a horizontal wire air above and a waste
+ * sheet below), and the table's largest piece taken as [along X, along the wire, up] (within it
+ * axis by axis, a slab also fits the table's sorted check in `placementProblem`).
+ * @example slabMaxFor(bay2) // → [1000, 1200, 600] for a 1000 mm wire, 1250 × 650 travel, table 1200 × 1000 × 600
+ */
+export function slabMaxFor(m: Pick<Machine, "wireLength" | "travel" | "maxPiece">): Vec3 {
+  return [
+    Math.min(m.wireLength, m.maxPiece[1]),
+    Math.min(m.travel[0] - 2 * ENTRY_CLEARANCE, m.maxPiece[0]),
+    Math.min(m.travel[1] - 2 * ENTRY_CLEARANCE, m.maxPiece[2]),
+  ];
+}
+
+/**
  * One line describing a machine for a printout.
  * @example describeMachine(m) // → "Block cutter 1: block cutter, horizontal wire 1300 mm, travel 2600 × 1000 mm, table up to 2500 × 1300 × 1000 mm"
  */

@@ -47,16 +47,28 @@ export const partIdFromKey = (key: string): number => {
 /**
  * The nesting problem (format v1) for a run: the chosen stock with its defect zones, the parts
  * still owed, and the run's settings. With `settings.trueShape`, each part with a profile carries
- * its `outline` (parts without one, or whose profile does not fit its box, stay boxes).
+ * its `outline` (parts without one, or whose profile does not fit its box, stay boxes), and
+ * `options.slabMax` (the profile cutter's largest slab, `slabMaxFor`) bounds every slab.
  *
  *   buildProblem(parts, stock, settings).blocks[0].id  // "HF-1003"
  */
-export function buildProblem(parts: PartForPlan[], stock: StockForPlan[], settings: RunSettings): Problem {
-  // `trueShape` only when on: a box run's problem stays exactly what it was.
+export function buildProblem(
+  parts: PartForPlan[],
+  stock: StockForPlan[],
+  settings: RunSettings,
+  options: { slabMax?: Vec3 | null } = {},
+): Problem {
+  // `trueShape` (and the profile cutter's `slabMax`) only when on: a box run's problem stays exactly what it was.
   const { trueShape, ...rest } = settings;
+  const slabMax = trueShape && options.slabMax ? { slabMax: [...options.slabMax] as Vec3 } : {};
   return {
     version: 1,
-    settings: { ...rest, minOffcut: [...settings.minOffcut] as Vec3, ...(trueShape ? { trueShape: true } : {}) },
+    settings: {
+      ...rest,
+      minOffcut: [...settings.minOffcut] as Vec3,
+      ...(trueShape ? { trueShape: true } : {}),
+      ...slabMax,
+    },
     blocks: stock.map((b) => ({
       id: b.code,
       size: b.size,

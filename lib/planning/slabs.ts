@@ -172,11 +172,11 @@ export function compareShapes(trueShape: Plan, box: Plan): ShapeComparison {
 }
 
 /**
- * The same problem for box nesting: no `trueShape`, no outlines (what the run compares against).
+ * The same problem for box nesting: no `trueShape` or `slabMax`, no outlines (what the run compares against).
  * @example boxProblem(problem).parts.every((p) => !p.outline) // → true
  */
 export function boxProblem(problem: Problem, timeLimitMs = problem.settings.timeLimitMs): Problem {
-  const { trueShape: _ignored, ...settings } = problem.settings;
+  const { trueShape: _ignored, slabMax: _max, ...settings } = problem.settings;
   return {
     ...problem,
     settings: { ...settings, timeLimitMs },

@@ -139,6 +139,8 @@ export interface Slab {
 /**
  * The slabs of a plan: its profile parts grouped by block, wire axis and extent along the wire
  * (to 0.01 mm), each slab's plane spanning its parts' blanks. Parts without a profile are left out.
+ * With `maxFace` (the profile cutter's largest face, across × up: `slabMaxFor(m).slice(1)`), a
+ * layer whose blanks span more is split into slabs that fit it.
  *
  *   planSlabs(plan, new Map([["jp-3", { size: [500, 200, 30], profile }]]))
  *   // → [{ block: "HF-1001", n: 1, wire: "x", plane: ["y", "z"], along: [6, 506], parts: [3 parts] }]
@@ -146,6 +148,7 @@ export interface Slab {
 export function planSlabs(
   plan: Pick<Plan, "placements">,
   parts: ReadonlyMap<string, { size: Vec3; profile: Profile | null }>,
+  maxFace?: Point,
 ): Slab[] {
   const groups = new Map<
     string,
@@ -168,8 +171,7 @@ export function planSlabs(
     (a, b) => a.block.localeCompare(b.block) || AX[a.wire] - AX[b.wire] || a.along[0] - b.along[0],
   );
   const count = new Map<string, number>();
-  for (const g of sorted) {
-    const [a, b] = [AX[g.plane[0]], AX[g.plane[1]]];
+  const slabOf = (g: (typeof sorted)[number], a: number, b: number): Slab => {
     const min: Point = [Infinity, Infinity];
     const max: Point = [-Infinity, -Infinity];
     for (const i of g.items) {
@@ -196,7 +198,7 @@ export function planSlabs(
     });
     const n = (count.get(g.block) ?? 0) + 1;
     count.set(g.block, n);
-    slabs.push({
+    return {
       block: g.block,
       n,
       wire: g.wire,
@@ -205,9 +207,52 @@ export function planSlabs(
       origin: min,
       size: [max[0] - min[0], max[1] - min[1]],
       parts: slabParts,
-    });
+    };
+  };
+  for (const whole of sorted) {
+    const [a, b] = [AX[whole.plane[0]], AX[whole.plane[1]]];
+    for (const items of fitFaces(whole.items, (i) => plan.placements[i]!, a, b, maxFace))
+      slabs.push(slabOf({ ...whole, items }, a, b));
   }
   return slabs;
+}
+
+/**
+ * The placements of one layer split into slabs whose faces (the span of their blanks in the plane
+ * axes a, b) are at most `maxFace`: rows first (by b, then a), each into the first slab it still
+ * fits. A blank larger than `maxFace` by itself is a slab of its own (its program names the limit).
+ * Without `maxFace`, the layer is one slab.
+ */
+function fitFaces(
+  items: readonly number[],
+  at: (i: number) => Pick<Plan["placements"][number], "origin" | "size">,
+  a: number,
+  b: number,
+  maxFace?: Point,
+): number[][] {
+  if (!maxFace) return [[...items]];
+  const rect = (i: number) => {
+    const p = at(i);
+    return { lo: [p.origin[a]!, p.origin[b]!], hi: [p.origin[a]! + p.size[a]!, p.origin[b]! + p.size[b]!] };
+  };
+  const order = [...items].sort((x, y) => rect(x).lo[1]! - rect(y).lo[1]! || rect(x).lo[0]! - rect(y).lo[0]! || x - y);
+  const groups: { lo: number[]; hi: number[]; items: number[] }[] = [];
+  for (const i of order) {
+    const r = rect(i);
+    const fits = (g: (typeof groups)[number]) =>
+      [0, 1].every((k) => Math.max(g.hi[k]!, r.hi[k]!) - Math.min(g.lo[k]!, r.lo[k]!) <= maxFace[k]! + 1e-6);
+    const g = groups.find(fits);
+    if (!g) groups.push({ lo: [...r.lo], hi: [...r.hi], items: [i] });
+    else {
+      g.items.push(i);
+      for (const k of [0, 1]) {
+        g.lo[k] = Math.min(g.lo[k]!, r.lo[k]!);
+        g.hi[k] = Math.max(g.hi[k]!, r.hi[k]!);
+      }
+    }
+  }
+  // Placement order inside each slab, as before the split.
+  return groups.map((g) => g.items.sort((x, y) => x - y));
 }
 
 /**

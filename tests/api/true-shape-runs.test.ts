@@ -11,6 +11,7 @@ import { closeTestDb, ledgerGap, makeBlock, testDb } from "../support/db";
 import { SETTINGS, waitForRun } from "../support/planning-fixtures";
 import { L_OUTLINE } from "../support/shapes";
 import { validatePlan, type Plan, type Problem } from "@/lib/nesting";
+import { slabMaxFor } from "@/lib/planning/machine";
 
 afterAll(closeTestDb);
 
@@ -226,5 +227,61 @@ describe("a true-shape run in the app", () => {
     expect(owed.get(plain.id)).toBe(0);
     const runNow = (await planner.get(`/api/runs/${runId}`)).body.run;
     expect(runNow.status).toBe("closed");
+  });
+
+  it("sizes every slab for the shop's profile cutter: its wire, travel and table bound the slab's face", async () => {
+    // The shop's first active profile cutter, as the plan page and its programs use it.
+    const m = await testDb()("machines").where({ kind: "profile", active: true }).orderBy("name").first();
+    if (!m) throw new Error("The test shop has no profile cutter (the demo seeds one).");
+    const cutterMax = slabMaxFor({
+      wireLength: Number(m.wire_length_mm),
+      travel: [Number(m.travel_x_mm), Number(m.travel_y_mm)],
+      maxPiece: [Number(m.max_length_mm), Number(m.max_width_mm), Number(m.max_height_mm)],
+    });
+    const job = await planner.post("/api/jobs", { name: "Tall letters — slab size trial", customer: "Test customer" });
+    const jobId = job.body.job.id as number;
+    // Ls of 300 × 225 mm: 14 of them fill far more than one slab face of the cutter.
+    const big = L_POINTS.map(([u, v]) => [u * 2.5, v * 2.5]);
+    const part = await planner.post(`/api/jobs/${jobId}/parts`, {
+      gradeId: await gradeId("EPS-II"),
+      rotate: "any",
+      size: [1, 1, 1],
+      name: "Tall L",
+      quantity: 14,
+      profile: { kind: "polygon", points: big, extrudeMm: 100 },
+    });
+    expect(part.status, JSON.stringify(part.body)).toBe(201);
+    // A block whose faces are larger than the cutter takes every way (1600 × 1400 and more).
+    const block = await makeBlock({ size: [1600, 1400, 1200], gradeCode: "EPS-II" });
+    const started = await planner.post("/api/runs", {
+      jobIds: [jobId],
+      blockIds: [block.id],
+      settings: { ...SETTINGS, timeLimitMs: 3000, trueShape: true },
+    });
+    expect(started.status, JSON.stringify(started.body)).toBe(201);
+    const runId = started.body.id as number;
+    const run = await waitFor(runId, ["done", "failed"]);
+    expect(run.status, run.error).toBe("done");
+    const full = (await planner.get(`/api/runs/${runId}/plan`)).body.run;
+    const problem = full.problem as Problem;
+    const plan = full.plan as Plan;
+    expect(problem.settings.slabMax).toEqual(cutterMax);
+    expect(validatePlan(problem, plan)).toEqual([]);
+    const slabs = plan.placements.filter((p) => p.slab);
+    expect(slabs.length).toBeGreaterThan(0);
+    for (const s of slabs)
+      for (let i = 0; i < 3; i++) expect(s.slab!.size[i]).toBeLessThanOrEqual(cutterMax[i]! + 1e-6);
+    // Every slab has its program on that cutter: none "cannot be cut there".
+    const progs = await planner.get(`/api/runs/${runId}/profile-programs`);
+    expect(progs.status, JSON.stringify(progs.body)).toBe(200);
+    const listed = progs.body.slabs as { problem: string | null }[];
+    expect(listed.length).toBeGreaterThan(0);
+    expect(listed.filter((x) => x.problem)).toEqual([]);
+    // A box run's problem carries no limit (it makes no slab).
+    const boxRun = await planner.post("/api/runs", { jobIds: [jobId], blockIds: [block.id], settings: SETTINGS });
+    expect(boxRun.status).toBe(201);
+    await waitFor(boxRun.body.id as number, ["done", "failed"]);
+    const boxProblem = (await planner.get(`/api/runs/${boxRun.body.id}/plan`)).body.run.problem as Problem;
+    expect("slabMax" in boxProblem.settings).toBe(false);
   });
 });

@@ -47,6 +47,10 @@ describe("a true-shape plan in the browser", () => {
     await planner.getByLabel("Time budget (seconds)").fill("3");
     const box = planner.getByRole("checkbox", { name: /Nest profiles by their true shape/ });
     expect(await box.isChecked()).toBe(false); // off by default
+    // The seeded profile cutter: 1000 mm wire, 1250 × 650 travel, table 1200 × 1000 × 600 (db/seeds/06_machines.ts).
+    expect(await planner.getByTestId("slab-cutter").textContent()).toBe(
+      "Each slab is sized for Bay 2 profile cutter: a face of at most 1200 × 600 mm (across × up), 1000 mm along the wire.",
+    );
     await box.check();
     await planner.getByRole("button", { name: "Start nesting" }).click();
     await planner.waitForURL(/\/plans\/\d+$/);
@@ -75,6 +79,7 @@ describe("a true-shape plan in the browser", () => {
     const slabs = await planner.getByTestId(`slabs-${block.code}`).textContent();
     expect(slabs).toMatch(/slab for \d+ parts/);
     expect(slabs).toContain("Letter L");
+    expect(slabs).toContain("Each was sized for the profile cutter: a face of at most 1200 × 600 mm (across × up)");
     expect(await planner.getByTestId(`profile-programs-${block.code}`).textContent()).toContain("Letter L");
     await planner.getByTestId(`slabs-${block.code}`).scrollIntoViewIfNeeded();
     await screenshot(planner, "true-shape-plan-wide");

@@ -9,7 +9,7 @@ import { describe, expect, it } from "vitest";
 import { type FacePoint, nestSync, type Plan, parseProblem, type Problem, validatePlan } from "@/lib/nesting";
 import { findLeadIn, memberLoop, occupiedOutline, type PlacedMember } from "@/lib/nesting/slab";
 import { bboxOf } from "@/lib/nesting/irregular/geometry";
-import type { Machine } from "@/lib/planning/machine";
+import { type Machine, slabMaxFor } from "@/lib/planning/machine";
 import { partGeometry } from "@/lib/profiles/part";
 import { profileProgram } from "@/lib/profiles/program";
 import { slabProgramInput } from "@/lib/profiles/slab-program";
@@ -493,5 +493,73 @@ describe("members of a slab that found no room", () => {
       expect(r).toMatch(/^its slab \(\d+(\.\d)? × \d+(\.\d)? × \d+(\.\d)? mm\) found no room: /);
       expect(r).not.toMatch(/slab-\d/);
     }
+  });
+});
+
+describe("slabs within the profile cutter (settings.slabMax)", () => {
+  // 16 Ls of 120 × 90 into one large block: without a limit the slab face runs to the block's.
+  const many = (extra: Record<string, unknown> = {}) =>
+    parse({
+      settings: { kerf: 2, trueShape: true, timeLimitMs: 1000, ...extra },
+      blocks: [{ id: "B1", size: [400, 1000, 800], grade: "EPS" }],
+      parts: [{ id: "L", size: [60, 120, 90], quantity: 16, grade: "EPS", outline: { outer: L } }],
+    });
+  const placedLs = (plan: Plan) =>
+    plan.placements.reduce((n, p) => n + (p.slab ? p.slab.members.length : p.part === "L" ? 1 : 0), 0);
+
+  it("keeps every slab's face within slabMax [thickness, u, v], and still places every part", () => {
+    const free = nestSync(many(), { seed: 2 });
+    const faces = free.placements.filter((p) => p.slab).map((p) => p.slab!.size);
+    // The check can fail: without the limit some slab is wider or taller than the limit below.
+    expect(faces.some((s) => s[1] > 300 || s[2] > 200)).toBe(true);
+
+    const problem = many({ slabMax: [80, 300, 200] });
+    const plan = nestSync(problem, { seed: 2 });
+    expect(validatePlan(problem, plan)).toEqual([]);
+    const slabs = plan.placements.filter((p) => p.slab);
+    expect(slabs.length).toBeGreaterThan(0);
+    for (const s of slabs) {
+      expect(s.slab!.size[1]).toBeLessThanOrEqual(300);
+      expect(s.slab!.size[2]).toBeLessThanOrEqual(200);
+    }
+    expect(placedLs(plan)).toBe(16);
+    expect(checkSlabsIndependently(problem, plan).errors).toEqual([]);
+  });
+
+  it("makes no slab for parts thicker than the wire spans: they are nested as boxes", () => {
+    const problem = many({ slabMax: [50, 1000, 1000] });
+    const plan = nestSync(problem, { seed: 2 });
+    expect(plan.placements.some((p) => p.slab)).toBe(false);
+    expect(placedLs(plan)).toBe(16);
+    expect(validatePlan(problem, plan)).toEqual([]);
+  });
+
+  it("refuses, naming the path, a slab larger than slabMax and a slabMax that is not 3 numbers > 0", () => {
+    const plan = nestSync(many(), { seed: 2 });
+    const slabAt = plan.placements.findIndex((p) => p.slab);
+    const [t, u, v] = plan.placements[slabAt]!.slab!.size;
+    const tight = many({ slabMax: [t, u - 1, v] });
+    expect(validatePlan(tight, plan).join("\n")).toMatch(
+      new RegExp(`placements\\[${slabAt}\\]\\.slab\\.size: .* larger than the profile cutter takes .*face u`),
+    );
+    const bad = parseProblem({ ...lProblem({ slabMax: [60, 0, "x"] }) });
+    expect(bad.ok).toBe(false);
+    if (!bad.ok) {
+      expect(bad.errors.join("\n")).toMatch(/settings\.slabMax\[1\]/);
+      expect(bad.errors.join("\n")).toMatch(/settings\.slabMax\[2\]/);
+    }
+  });
+
+  it("is taken from a profile cutter: its wire, its travel less 10 mm of air each side, its table", () => {
+    // The shared profile cutter fixture: see tests/support/procedure-fixtures.ts.
+    const m = profileCutter();
+    expect(slabMaxFor(m)).toEqual([
+      Math.min(m.wireLength, m.maxPiece[1]),
+      Math.min(m.travel[0] - 20, m.maxPiece[0]),
+      Math.min(m.travel[1] - 20, m.maxPiece[2]),
+    ]);
+    expect(slabMaxFor({ wireLength: 1000, travel: [1250, 650], maxPiece: [1200, 1000, 600] })).toEqual([
+      1000, 1200, 600,
+    ]);
   });
 });

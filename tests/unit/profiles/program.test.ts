@@ -66,6 +66,24 @@ describe("slabs of a plan", () => {
     expect(slabs[0]!.size).toEqual([223, 80]);
   });
 
+  it("splits a layer whose blanks span more than the cutter's face into slabs that fit it", () => {
+    // The first layer spans 223 × 80 mm (above). A face of at most 190 × 100: the letter and the
+    // upright plate (6 … 187.5 across) share one slab, the turned plate (189 … 229) gets its own.
+    const split = planSlabs(plan, parts, [190, 100]);
+    expect(split.map((s) => [s.n, s.along, s.parts.map((p) => p.placement), s.origin, s.size])).toEqual([
+      [1, [6, 56], [0, 1], [6, 6], [181.5, 80]],
+      [2, [6, 56], [2], [189, 6], [40, 60]],
+      [3, [57.5, 107.5], [3], [6, 6], [120, 80]],
+    ]);
+    for (const s of split) expect(s.size[0] <= 190 && s.size[1] <= 100).toBe(true);
+    // Every placement is in exactly one slab; a face that takes the layer leaves it whole.
+    expect(split.flatMap((s) => s.parts.map((p) => p.placement)).sort()).toEqual([0, 1, 2, 3]);
+    expect(planSlabs(plan, parts, [223, 80]).map((s) => s.parts.length)).toEqual([3, 1]);
+    // A blank larger than the face by itself (the 120 mm letters) is a slab of its own (its program
+    // then names the limit); the two plates span 127.5 … 229 = 101.5 mm and share one.
+    expect(planSlabs(plan, parts, [110, 100]).map((s) => s.parts.map((p) => p.placement))).toEqual([[0], [1, 2], [3]]);
+  });
+
   it("places each section where its box sits, a turned part turned (never mirrored)", () => {
     const [first] = planSlabs(plan, parts);
     const [a, b, c] = first!.parts;

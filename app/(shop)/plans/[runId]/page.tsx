@@ -26,6 +26,7 @@ import { SlabFace } from "@/components/plans/slab-face";
 import { keyNamer, memberList, slabMembers } from "@/lib/planning/slabs";
 import { leftOutLine } from "@/lib/planning/usable";
 import { planProfiles, profileTime } from "@/db/queries/profile-programs";
+import { dims, mm } from "@/lib/planning/machine";
 import { formatVolume } from "@/lib/units";
 import type { Vec3 } from "@/lib/nesting";
 
@@ -409,6 +410,8 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                       <p className="text-ink-soft">
                         True-shape slabs: the through cuts free each slab whole; the profile cutter then cuts its parts
                         out, each from its own lead-in.
+                        {run.problem.settings.slabMax &&
+                          ` Each was sized for the profile cutter: a face of at most ${dims(run.problem.settings.slabMax.slice(1))} mm (across × up), ${mm(run.problem.settings.slabMax[0])} mm along the wire.`}
                       </p>
                       <ul className="mt-1 space-y-2">
                         {plan.placements

@@ -1,4 +1,5 @@
 import { listMachines } from "@/db/queries/machines";
+import { slabMaxFor } from "@/lib/planning/machine";
 import type { Metadata } from "next";
 import { requirePage } from "@/lib/auth/guard";
 import { jobNames } from "@/db/queries/runs";
@@ -105,7 +106,14 @@ export default async function NewPlanPage({
       </>
     );
   }
-  const [jobs, stock, s] = await Promise.all([jobNames(jobIds), candidateStock(jobIds), getShopSettings()]);
+  const [jobs, stock, s, machines] = await Promise.all([
+    jobNames(jobIds),
+    candidateStock(jobIds),
+    getShopSettings(),
+    listMachines({ activeOnly: true }),
+  ]);
+  // True-shape slabs are sized for the first active profile cutter (as the run and the plan page do).
+  const profileCutter = machines.find((m) => m.kind === "profile");
   return (
     <>
       <PageHeader
@@ -116,9 +124,8 @@ export default async function NewPlanPage({
         jobIds={jobIds}
         candidates={stock.items}
         leftOut={stock.leftOut}
-        machines={(await listMachines({ activeOnly: true }))
-          .filter((m) => m.kind === "block")
-          .map((m) => ({ id: m.id, name: m.name }))}
+        machines={machines.filter((m) => m.kind === "block").map((m) => ({ id: m.id, name: m.name }))}
+        slabCutter={profileCutter ? { name: profileCutter.name, slabMax: slabMaxFor(profileCutter) } : null}
         defaults={{
           kerf: s.kerf,
           trim: s.trim,
