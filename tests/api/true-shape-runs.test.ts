@@ -32,6 +32,21 @@ const gradeId = async (code: string) => (await testDb()("grades").where({ code }
 /** The hand-drawn L of tests/support/shapes.ts (area 6,800 mm²): two interlock, where their boxes cannot. */
 const L_POINTS = L_OUTLINE;
 
+/** Starts a true-shape run of a job on one block (3 s), waits for it to finish and reads its problem and plan. */
+const trueShapeRun = async (jobId: number, blockId: number) => {
+  const started = await planner.post("/api/runs", {
+    jobIds: [jobId],
+    blockIds: [blockId],
+    settings: { ...SETTINGS, timeLimitMs: 3000, trueShape: true },
+  });
+  expect(started.status, JSON.stringify(started.body)).toBe(201);
+  const runId = started.body.id as number;
+  const run = await waitFor(runId, ["done", "failed"]);
+  expect(run.status, run.error).toBe("done");
+  const full = (await planner.get(`/api/runs/${runId}/plan`)).body.run;
+  return { runId, run, problem: full.problem as Problem, plan: full.plan as Plan };
+};
+
 describe("a true-shape run in the app", () => {
   it("nests profiles in slabs, compares with boxes, reserves and records the slabs' members", async () => {
     const job = await planner.post("/api/jobs", { name: "Shop sign — true-shape trial", customer: "Test customer" });
@@ -72,20 +87,9 @@ describe("a true-shape run in the app", () => {
     expect(bad.status).toBe(400);
     expect(bad.body.fields["settings.trueShape"]).toMatch(/true/);
 
-    const started = await planner.post("/api/runs", {
-      jobIds: [jobId],
-      blockIds: [block.id],
-      settings: { ...SETTINGS, timeLimitMs: 3000, trueShape: true },
-    });
-    expect(started.status).toBe(201);
-    const runId = started.body.id as number;
-    const run = await waitFor(runId, ["done", "failed"]);
-    expect(run.status, run.error).toBe("done");
+    const { runId, run, problem, plan } = await trueShapeRun(jobId, block.id);
 
     // The plan: version 2, slabs of the profile parts, the plain part a box; valid by the core's check.
-    const full = (await planner.get(`/api/runs/${runId}/plan`)).body.run;
-    const problem = full.problem as Problem;
-    const plan = full.plan as Plan;
     expect(problem.settings.trueShape).toBe(true);
     expect(problem.parts.find((p) => p.id === `jp-${ell.id}`)!.outline!.outer).toHaveLength(6);
     expect(problem.parts.find((p) => p.id === `jp-${plain.id}`)!.outline).toBeUndefined();
@@ -253,18 +257,7 @@ describe("a true-shape run in the app", () => {
     expect(part.status, JSON.stringify(part.body)).toBe(201);
     // A block whose faces are larger than the cutter takes every way (1600 × 1400 and more).
     const block = await makeBlock({ size: [1600, 1400, 1200], gradeCode: "EPS-II" });
-    const started = await planner.post("/api/runs", {
-      jobIds: [jobId],
-      blockIds: [block.id],
-      settings: { ...SETTINGS, timeLimitMs: 3000, trueShape: true },
-    });
-    expect(started.status, JSON.stringify(started.body)).toBe(201);
-    const runId = started.body.id as number;
-    const run = await waitFor(runId, ["done", "failed"]);
-    expect(run.status, run.error).toBe("done");
-    const full = (await planner.get(`/api/runs/${runId}/plan`)).body.run;
-    const problem = full.problem as Problem;
-    const plan = full.plan as Plan;
+    const { runId, problem, plan } = await trueShapeRun(jobId, block.id);
     expect(problem.settings.slabMax).toEqual(cutterMax);
     expect(validatePlan(problem, plan)).toEqual([]);
     const slabs = plan.placements.filter((p) => p.slab);
