@@ -425,8 +425,13 @@ describe("true-shape runs with inputs nobody tuned on", () => {
     expect(plan.unplaced.length).toBeGreaterThan(0);
     const page = visibleText((await planner.get(`/plans/${runId}`)).text);
     expect(page).toMatch(/Not everything fits/);
-    // The reason reads as a size to the tenth of a mm, never a raw slab key or a float's tail.
-    expect(page).toMatch(/\d+\s*×\s*Wedge\s*:\s*its slab \(80 × [\d.]+ × [\d.]+ mm\) found no room/);
+    // The reason reads as a size to the tenth of a mm, never a raw slab key or a float's tail. Which
+    // copies are left depends on the clock: a slab that found no room, or copies nested as boxes
+    // (on a loaded machine the slabs' time can end first); the slab's words are checked without a
+    // clock in tests/unit/nesting/true-shape.test.ts.
+    expect(page).toMatch(
+      /\d+\s*×\s*Wedge\s*:\s*(its slab \(80 × [\d.]+ × [\d.]+ mm\) found no room|not enough room left in the blocks of grade EPS-II)/,
+    );
     expect(page).not.toMatch(/\d\.\d{4,}/);
   });
 
