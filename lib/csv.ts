@@ -47,6 +47,8 @@ export function problemSummary(problems: CsvProblem[]): string {
 export interface ParsedCsv {
   headers: string[];
   rows: Record<string, string>[];
+  /** Each row's number as a spreadsheet shows it (header = 1; blank rows, skipped, still count). */
+  rowNumbers: number[];
   problems: CsvProblem[];
   /** Data rows read before parsing stopped: at most `maxRows + 1` (one past the limit shows it was passed). */
   rowsRead: number;
@@ -69,6 +71,7 @@ export function parseCsv(
     return {
       headers: [],
       rows: [],
+      rowNumbers: [],
       rowsRead: 0,
       problems: [
         { row: 1, message: "The file is not UTF-8 text. Save it from your spreadsheet as “CSV UTF-8” and try again." },
@@ -77,22 +80,31 @@ export function parseCsv(
   }
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   if (!text.trim())
-    return { headers: [], rows: [], rowsRead: 0, problems: [{ row: 1, message: "The file is empty." }] };
+    return {
+      headers: [],
+      rows: [],
+      rowNumbers: [],
+      rowsRead: 0,
+      problems: [{ row: 1, message: "The file is empty." }],
+    };
   // Papaparse guesses the delimiter and line ending from the first rows, but splits the whole text
   // once per candidate delimiter to do so: guess them from the first 64 KB (its first rows) instead.
   const guessed = Papa.parse<string[]>(text.slice(0, 64 * 1024), { preview: 10, skipEmptyLines: "greedy" }).meta;
   // Row by row (papaparse's step), so reading stops at the limit; `preview` would count blank lines too.
   const headers: string[] = [];
   const rows: Record<string, string>[] = [];
+  const rowNumbers: number[] = [];
+  let line = 1; // the header's row
   const errors: { code: string; message: string; row: number }[] = [];
-  let overLimit = false;
+  let overLimit = 0; // the row past the limit, where reading stopped
   Papa.parse<Record<string, string>>(text, {
     delimiter: guessed.delimiter,
     newline: guessed.linebreak as Papa.ParseConfig["newline"],
     // Fast mode splits the whole text into lines before the first row; the full parser stops at once.
     fastMode: false,
     header: true,
-    skipEmptyLines: "greedy",
+    // Blank rows are skipped below, not by papaparse, so the rows after them keep their numbers.
+    skipEmptyLines: false,
     transformHeader: (h) => {
       const name = h.trim().toLowerCase();
       headers.push(name); // as written (papaparse renames a repeated header to "name_1")
@@ -100,13 +112,17 @@ export function parseCsv(
     },
     transform: (v) => v.trim(),
     step: (result, parser) => {
+      line++;
+      // A blank row (or one of empty cells, as spreadsheets write them) is no row of data.
+      if (Object.values(result.data).every((v) => v === "" || (Array.isArray(v) && v.every((x) => x === "")))) return;
       if (rows.length >= spec.maxRows) {
-        overLimit = true;
+        overLimit = line;
         parser.abort();
         return;
       }
-      for (const e of result.errors) errors.push({ code: e.code, message: e.message, row: rows.length });
+      for (const e of result.errors) errors.push({ code: e.code, message: e.message, row: line });
       rows.push(result.data);
+      rowNumbers.push(line);
     },
   });
   const problems: CsvProblem[] = [];
@@ -125,25 +141,25 @@ export function parseCsv(
   if (overLimit) {
     const limit = spec.maxRows.toLocaleString("en");
     problems.push({
-      row: spec.maxRows + 2,
+      row: overLimit,
       message: `The file has more than ${limit} rows; at most ${limit} rows per file — split it and import each part.`,
     });
-    return { headers, rows: [], problems, rowsRead };
+    return { headers, rows: [], rowNumbers: [], problems, rowsRead };
   }
   for (const e of errors) {
     if (e.code === "TooFewFields" || e.code === "TooManyFields") {
       problems.push({
-        row: e.row + 2,
+        row: e.row,
         message:
           e.code === "TooFewFields"
             ? "This row has fewer cells than the header."
             : "This row has more cells than the header.",
       });
     } else if (e.code !== "UndetectableDelimiter") {
-      problems.push({ row: e.row + 2, message: e.message });
+      problems.push({ row: e.row, message: e.message });
     }
   }
-  return { headers, rows, problems, rowsRead };
+  return { headers, rows, rowNumbers, problems, rowsRead };
 }
 
 export type CsvNumber = { value: number } | { problem: string };

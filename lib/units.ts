@@ -13,6 +13,9 @@ export const KG_M3_PER_LB_FT3 = 0.45359237 / 0.3048 ** 3; // ≈ 16.0185
 /** 1 lbf/in² in kPa: 0.45359237 kg × 9.80665 m/s² over (0.0254 m)², exact definitions (≈ 6.894757). */
 export const KPA_PER_PSI = (0.45359237 * 9.80665) / 0.0254 ** 2 / 1000;
 
+/** The register keeps lengths to 0.01 mm (NUMERIC(10,2)): a size under this would be stored as 0. */
+export const MIN_SIZE_MM = 0.01;
+
 export const mmToIn = (mm: number) => mm / MM_PER_INCH;
 /** Inches to mm, to the micrometre (so 24 in is stored as 609.6 mm, not 609.5999999999999). */
 export const inToMm = (inch: number) => Math.round(inch * MM_PER_INCH * 1000) / 1000;

@@ -127,25 +127,46 @@ export async function setStepDone(
     (st?.next ?? []).flatMap((n) => (n.what.kind === "part" ? [n.what.part] : [])),
     slabIndex(run.plan),
   );
-  const fields: Record<string, string> = {};
-  const sum = new Map<number, number>();
-  rejects.forEach((r, i) => {
-    sum.set(r.jobPartId, (sum.get(r.jobPartId) ?? 0) + r.count);
-    const n = freed.get(r.jobPartId) ?? 0;
-    if (!n) fields[`rejects.${i}.jobPartId`] = `That part does not come off in step ${step}.`;
-    else if (sum.get(r.jobPartId)! > n)
-      fields[`rejects.${i}.count`] = `Only ${n} of that part come off in step ${step}.`;
+  await db().transaction(async (trx) => {
+    // One check at a time per block (a double tap, two tablets, a recording): the stored rejects count.
+    const pb = await trx("plan_blocks").where({ run_id: run.id, block_id: blockId }).forUpdate().first("status");
+    if (pb?.status !== "reserved")
+      throw new HttpError(
+        409,
+        pb?.status === "cut"
+          ? `${steps.code} is already recorded as cut.`
+          : `${steps.code} was released from this plan.`,
+      );
+    const stored = done
+      ? ((await trx("plan_block_steps").where({ run_id: run.id, block_id: blockId, step }).first("rejects")) as
+          | { rejects: { jobPartId: number; count: number }[] }
+          | undefined)
+      : undefined;
+    const fields: Record<string, string> = {};
+    const kept = new Map<number, number>();
+    for (const r of stored?.rejects ?? []) kept.set(r.jobPartId, (kept.get(r.jobPartId) ?? 0) + r.count);
+    const sum = new Map(kept);
+    rejects.forEach((r, i) => {
+      sum.set(r.jobPartId, (sum.get(r.jobPartId) ?? 0) + r.count);
+      const n = freed.get(r.jobPartId) ?? 0;
+      const already = kept.get(r.jobPartId) ?? 0;
+      if (!n) fields[`rejects.${i}.jobPartId`] = `That part does not come off in step ${step}.`;
+      else if (sum.get(r.jobPartId)! > n)
+        fields[`rejects.${i}.count`] = already
+          ? `Only ${n} of that part come off in step ${step}, and ${already} ${already === 1 ? "is" : "are"} already recorded as rejected there.`
+          : `Only ${n} of that part come off in step ${step}.`;
+    });
+    if (Object.keys(fields).length) throw new HttpError(400, "Some rejects need attention.", fields);
+    if (done) {
+      const insert = trx("plan_block_steps")
+        .insert({ run_id: run.id, block_id: blockId, step, done_by: actorId, rejects: JSON.stringify(rejects) })
+        .onConflict(["run_id", "block_id", "step"]);
+      // Checked again: the first check stands; rejects sent with it are added to the step's.
+      await (rejects.length
+        ? insert.merge({ rejects: trx.raw("plan_block_steps.rejects || excluded.rejects") })
+        : insert.ignore());
+    } else await trx("plan_block_steps").where({ run_id: run.id, block_id: blockId, step }).delete();
   });
-  if (Object.keys(fields).length) throw new HttpError(400, "Some rejects need attention.", fields);
-  if (done) {
-    const insert = db()("plan_block_steps")
-      .insert({ run_id: run.id, block_id: blockId, step, done_by: actorId, rejects: JSON.stringify(rejects) })
-      .onConflict(["run_id", "block_id", "step"]);
-    // Checked again: the first check stands; rejects sent with it are added to the step's.
-    await (rejects.length
-      ? insert.merge({ rejects: db().raw("plan_block_steps.rejects || excluded.rejects") })
-      : insert.ignore());
-  } else await db()("plan_block_steps").where({ run_id: run.id, block_id: blockId, step }).delete();
 }
 
 /** Past this many pieces in one block, steps and wire paths are not worked out on page loads (seconds each). */

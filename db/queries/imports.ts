@@ -3,6 +3,7 @@ import { db } from "@/db";
 import { receiveDelivery } from "./deliveries";
 import { applyCount, countBlocks, countProblem, type CountChange } from "./stock-counts";
 import { cellReader, parseCsv, problemSummary, type CsvProblem } from "@/lib/csv";
+import { MIN_SIZE_MM } from "@/lib/units";
 import { receivedCodeProblem } from "@/lib/block-code";
 import type { DeliveryInput } from "@/lib/validations/stock";
 import type { Vec3 } from "@/lib/nesting";
@@ -70,7 +71,7 @@ export async function importDeliveries(
   actorId: string,
   commit: boolean,
 ): Promise<ImportReport> {
-  const { rows, problems } = parseCsv(bytes, DELIVERY_COLUMNS);
+  const { rows, rowNumbers, problems } = parseCsv(bytes, DELIVERY_COLUMNS);
   const warnings: CsvProblem[] = [];
   if (problems.some((p) => p.row === 1) || !rows.length) {
     if (!rows.length && !problems.length) problems.push({ row: 2, message: "The file has a header but no rows." });
@@ -94,7 +95,7 @@ export async function importDeliveries(
   let cost = 0;
 
   rows.forEach((r, i) => {
-    const row = i + 2;
+    const row = rowNumbers[i]!;
     const before = problems.length;
     const c = cellReader(problems, row, r);
     const supplierName = c.text("supplier", { required: true, max: 120 });
@@ -113,16 +114,16 @@ export async function importDeliveries(
     const lot = c.text("lot", { required: true, max: 60 });
     const poRef = c.text("po_ref", { max: 60 });
     const size = [
-      c.number("length_mm", { required: true, positive: true, max: 30_000 }),
-      c.number("width_mm", { required: true, positive: true, max: 30_000 }),
-      c.number("height_mm", { required: true, positive: true, max: 30_000 }),
+      c.number("length_mm", { required: true, positive: true, min: MIN_SIZE_MM, max: 30_000 }),
+      c.number("width_mm", { required: true, positive: true, min: MIN_SIZE_MM, max: 30_000 }),
+      c.number("height_mm", { required: true, positive: true, min: MIN_SIZE_MM, max: 30_000 }),
     ];
     const nominalCells = [
-      c.number("nominal_length_mm", { positive: true, max: 30_000 }),
-      c.number("nominal_width_mm", { positive: true, max: 30_000 }),
-      c.number("nominal_height_mm", { positive: true, max: 30_000 }),
+      c.number("nominal_length_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 }),
+      c.number("nominal_width_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 }),
+      c.number("nominal_height_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 }),
     ];
-    const weight = c.number("weight_kg", { positive: true, max: 10_000 });
+    const weight = c.number("weight_kg", { positive: true, min: 0.001, max: 10_000 });
     const price = c.number("cost", { required: true, min: 0, max: 10_000_000, money: true });
     const location = c.text("location", { required: true, max: 60 });
     const mouldedOn = c.date("moulded_on");
@@ -204,7 +205,7 @@ export async function importStockCount(
   actorId: string,
   commit: boolean,
 ): Promise<ImportReport> {
-  const { rows, problems } = parseCsv(bytes, STOCK_COUNT_COLUMNS);
+  const { rows, rowNumbers, problems } = parseCsv(bytes, STOCK_COUNT_COLUMNS);
   const warnings: CsvProblem[] = [];
   if (problems.some((p) => p.row === 1) || !rows.length) {
     if (!rows.length && !problems.length) problems.push({ row: 2, message: "The file has a header but no rows." });
@@ -215,16 +216,16 @@ export async function importStockCount(
   const changes: CountChange[] = [];
   const seen = new Map<string, number>();
   rows.forEach((r, i) => {
-    const row = i + 2;
+    const row = rowNumbers[i]!;
     const before = problems.length;
     const c = cellReader(problems, row, r);
     const code = c.text("code", { required: true, max: 40 })?.toUpperCase();
     const location = c.text("location", { required: true, max: 60 });
     const present = c.bool("present", true);
     const dims = [
-      c.number("length_mm", { positive: true, max: 30_000 }),
-      c.number("width_mm", { positive: true, max: 30_000 }),
-      c.number("height_mm", { positive: true, max: 30_000 }),
+      c.number("length_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 }),
+      c.number("width_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 }),
+      c.number("height_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 }),
     ];
     const note = c.text("note", { max: 300 });
     if (dims.some((d) => d !== null) && dims.some((d) => d === null))

@@ -3,6 +3,7 @@ import type { Knex } from "knex";
 import { db } from "@/db";
 import { HttpError } from "@/lib/errors";
 import { cellReader, parseCsv, problemSummary, type CsvProblem } from "@/lib/csv";
+import { MIN_SIZE_MM } from "@/lib/units";
 import { PART_CSV_COLUMNS, ROTATE_RULES, type JobStatus, type RotateRule } from "@/lib/job-terms";
 import { ProfileError, partGeometry, parsePoints, parseNaca, type Profile } from "@/lib/profiles";
 import type { ImportReport } from "./imports";
@@ -470,7 +471,7 @@ export async function importJobParts(
   if (!job) throw new HttpError(404, "That job was not found.");
   if (job.status !== "open")
     throw new HttpError(409, "Parts can change only while the job is still taking parts. Set it back to open first.");
-  const { rows, problems } = parseCsv(bytes, PART_CSV_COLUMNS);
+  const { rows, rowNumbers, problems } = parseCsv(bytes, PART_CSV_COLUMNS);
   const done = (committed: boolean, summary: Record<string, number>): ImportReport => {
     problems.sort((a, b) => a.row - b.row);
     return {
@@ -499,10 +500,11 @@ export async function importJobParts(
   let pieces = 0;
   let volume = 0;
   rows.forEach((r, i) => {
-    const row = i + 2;
+    const row = rowNumbers[i]!;
     const before = problems.length;
     const add = (column: string, message: string) => problems.push({ row, column, message });
     const c = cellReader(problems, row, r);
+    const blank = (column: string) => !(r[column] ?? "");
     const name = c.text("name", { required: true, max: 120 });
     const quantity = c.number("quantity", { required: true, positive: true, max: 100_000 });
     if (quantity !== null && quantity > 0 && !Number.isInteger(quantity)) add("quantity", "Must be a whole number.");
@@ -517,15 +519,15 @@ export async function importJobParts(
     const naca = c.text("naca", { max: 20 });
     const polygon = c.text("polygon", { max: 20_000 });
     const box = [
-      c.number("length_mm", { positive: true, max: 30_000 }),
-      c.number("width_mm", { positive: true, max: 30_000 }),
-      c.number("height_mm", { positive: true, max: 30_000 }),
+      c.number("length_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 }),
+      c.number("width_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 }),
+      c.number("height_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 }),
     ];
-    const chord = c.number("chord_mm", { positive: true, max: 10_000 });
-    const tip = c.number("tip_chord_mm", { positive: true, max: 10_000 });
-    const span = c.number("span_mm", { positive: true, max: 30_000 });
+    const chord = c.number("chord_mm", { positive: true, min: MIN_SIZE_MM, max: 10_000 });
+    const tip = c.number("tip_chord_mm", { positive: true, min: MIN_SIZE_MM, max: 10_000 });
+    const span = c.number("span_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 });
     const sweep = c.number("sweep_mm", { min: -10_000, max: 10_000 });
-    const extrude = c.number("extrude_mm", { positive: true, max: 30_000 });
+    const extrude = c.number("extrude_mm", { positive: true, min: MIN_SIZE_MM, max: 30_000 });
     const hasBox = box.some((v) => v !== null);
     if ([naca, polygon, hasBox ? "box" : null].filter(Boolean).length > 1) {
       add(
@@ -543,8 +545,8 @@ export async function importJobParts(
       } catch (e) {
         add("naca", (e as Error).message);
       }
-      if (chord === null) add("chord_mm", "Required with a NACA section.");
-      if (span === null) add("span_mm", "Required with a NACA section.");
+      if (blank("chord_mm")) add("chord_mm", "Required with a NACA section.");
+      if (blank("span_mm")) add("span_mm", "Required with a NACA section.");
       if (problems.length > before) return;
       profile = {
         kind: "naca",
@@ -560,12 +562,13 @@ export async function importJobParts(
       } catch (e) {
         add("polygon", (e as Error).message);
       }
-      if (extrude === null) add("extrude_mm", "Required with a polygon.");
+      if (blank("extrude_mm")) add("extrude_mm", "Required with a polygon.");
       if (problems.length > before) return;
     } else {
       const names = ["length_mm", "width_mm", "height_mm"];
-      box.forEach(
-        (v, k) => v === null && add(names[k]!, "Required for a plain part (or give a NACA section or a polygon)."),
+      // A cell that holds something unreadable is named once, by the reader, not also as missing.
+      names.forEach(
+        (col) => blank(col) && add(col, "Required for a plain part (or give a NACA section or a polygon)."),
       );
       if (problems.length > before) return;
       size = box as Vec3;

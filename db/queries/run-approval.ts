@@ -145,7 +145,10 @@ export async function approveRun(id: number, actorId: string): Promise<void> {
   }
 }
 
-/** Releases an approved plan's blocks that are not cut yet; the plan is then cancelled. */
+/**
+ * Releases an approved plan's blocks that are not cut yet; the plan is then cancelled. Refused
+ * while a block has steps checked off at the machine (it is no longer whole).
+ */
 export async function releaseRun(id: number, actorId: string): Promise<void> {
   await db().transaction(async (trx) => {
     const run = await trx("nesting_runs").where({ id }).forUpdate().first();
@@ -154,7 +157,24 @@ export async function releaseRun(id: number, actorId: string): Promise<void> {
     const held = await trx("plan_blocks as pb")
       .join("blocks as b", "b.id", "pb.block_id")
       .where({ "pb.run_id": id, "pb.status": "reserved" })
-      .select("b.id", "b.volume_m3", "b.cost");
+      .select("b.id", "b.code", "b.volume_m3", "b.cost");
+    // A block with steps checked off is already in pieces: back in stock whole, the register would lie.
+    const started = (await trx("plan_block_steps")
+      .whereIn(
+        "block_id",
+        held.map((b: { id: number }) => b.id),
+      )
+      .where({ run_id: id })
+      .groupBy("block_id")
+      .select("block_id", trx.raw("count(*)::int AS n"))) as { block_id: number; n: number }[];
+    if (started.length) {
+      const code = new Map(held.map((b: { id: number; code: string }) => [b.id, b.code]));
+      const named = started.map((s) => `${code.get(s.block_id)} (${s.n} step${s.n === 1 ? "" : "s"} done)`);
+      throw new HttpError(
+        409,
+        `Cutting has started on ${named.join(", ")}: record ${started.length === 1 ? "it" : "them"} part-cut at the machine (or uncheck the steps that were not cut) before releasing this plan. Nothing was released.`,
+      );
+    }
     await trx("plan_blocks").where({ run_id: id, status: "reserved" }).update({ status: "released" });
     if (held.length) {
       await trx("blocks")

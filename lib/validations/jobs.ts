@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { JOB_STATUSES, ROTATE_RULES } from "@/lib/job-terms";
 import { checkOutline, checkPolygon, parseNaca } from "@/lib/profiles";
+import { MIN_SIZE_MM } from "@/lib/units";
 
 const text = (label: string, max = 200) =>
   z
@@ -18,6 +19,8 @@ const mm = (label: string, max = 30_000) =>
     .number({ error: `${label} must be a number.` })
     .finite(`${label} must be a number.`)
     .gt(0, `${label} must be more than 0.`)
+    // Sizes are kept to 0.01 mm: a smaller one would be stored as 0.
+    .min(MIN_SIZE_MM, `${label} must be at least ${MIN_SIZE_MM} mm (sizes are kept to 0.01 mm).`)
     .max(max, `${label} must be at most ${max} mm.`);
 const quantity = z
   .number({ error: "Quantity must be a number." })

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { DEFECT_KINDS, LEDGER_KINDS, MATERIALS, SHOWN_STATUSES } from "@/lib/stock";
 import { receivedCodeProblem } from "@/lib/block-code";
+import { MIN_SIZE_MM } from "@/lib/units";
 
 const text = (label: string, max = 200) =>
   z
@@ -84,7 +85,10 @@ export const supplierSchema = z.object({
 });
 export type SupplierInput = z.infer<typeof supplierSchema>;
 
-export const sizeSchema = z.tuple([positive("Length", 30_000), positive("Width", 30_000), positive("Height", 30_000)]);
+/** A measured side in mm: more than 0 and at least what the register keeps (0.01 mm), else it would be stored as 0. */
+const side = (label: string) =>
+  positive(label, 30_000).min(MIN_SIZE_MM, `${label} must be at least ${MIN_SIZE_MM} mm (sizes are kept to 0.01 mm).`);
+export const sizeSchema = z.tuple([side("Length"), side("Width"), side("Height")]);
 
 export const receivedBlockSchema = z.object({
   // Letters, digits and "-": no invisible or look-alike characters, no "." (offcut codes are Blockyard's).
@@ -99,7 +103,8 @@ export const receivedBlockSchema = z.object({
   gradeId: z.number({ error: "Choose a grade." }).int().positive("Choose a grade."),
   size: sizeSchema,
   nominalSize: sizeSchema.nullable().optional(),
-  weightKg: positive("Weight", 10_000).nullable().optional(),
+  // Kept to the gram: a lighter weight would be stored as 0.
+  weightKg: positive("Weight", 10_000).min(0.001, "Weight must be at least 0.001 kg.").nullable().optional(),
   cost: nonNegative("Cost"),
   location: required("Location", 60),
   mouldedOn: date("Moulding date").nullable().optional(),
@@ -165,6 +170,13 @@ export const defectSchema = z
     (["x", "y", "z"] as const).forEach((axis, i) => {
       if (d.max[i]! <= d.min[i]!)
         ctx.addIssue({ code: "custom", path: ["max", i], message: `max ${axis} must be more than min ${axis}.` });
+      // Kept to 0.01 mm: a thinner zone would be stored with max = min.
+      else if (d.max[i]! - d.min[i]! < MIN_SIZE_MM - 1e-9)
+        ctx.addIssue({
+          code: "custom",
+          path: ["max", i],
+          message: `max ${axis} must be at least ${MIN_SIZE_MM} mm more than min ${axis} (sizes are kept to 0.01 mm).`,
+        });
     });
   });
 export type DefectInput = z.infer<typeof defectSchema>;

@@ -72,11 +72,12 @@ describe("CSV row limit", () => {
   it("still reports row problems with their spreadsheet row numbers, and header problems over the limit", () => {
     const text = "code,location,note\nA,Bay 1,x\n\nB,Bay 2\nC,Bay 3,x,extra\n";
     expect(parseCsv(new TextEncoder().encode(text), SPEC).problems).toEqual([
-      { row: 3, message: "This row has fewer cells than the header." },
-      { row: 4, message: "This row has more cells than the header." },
+      // The blank row 3 is skipped but still counted, as a spreadsheet shows it.
+      { row: 4, message: "This row has fewer cells than the header." },
+      { row: 5, message: "This row has more cells than the header." },
     ]);
     const over = parseCsv(new TextEncoder().encode(text.replace("note", "colour")), { ...SPEC, maxRows: 2 });
-    expect(over.problems.map((p) => p.row)).toEqual([1, 4]);
+    expect(over.problems.map((p) => p.row)).toEqual([1, 5]);
     expect(over.problems[0]!.message).toBe("The column “colour” is not one Blockyard reads.");
   });
 });
