@@ -32,7 +32,7 @@ export function PartProgressTable({ rows }: { rows: PartProgress[] }) {
         <tbody>
           {rows.map((r) => (
             <tr key={r.partId} className="border-b border-bead/60" data-testid={`progress-${r.partId}`}>
-              <th scope="row" className="py-2 pr-3 font-medium">
+              <th scope="row" className="py-2 pr-3 font-medium wrap-anywhere">
                 {r.name}
               </th>
               <td className="pr-3">{r.gradeCode ?? "–"}</td>

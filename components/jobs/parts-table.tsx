@@ -79,7 +79,7 @@ export function PartsTable({
                 className="border-b border-bead/60 align-middle last:border-0"
                 data-testid={`part-${p.id}`}
               >
-                <td className="py-2 pr-3">
+                <td className="py-2 pr-3 wrap-anywhere">
                   <span className="font-medium">{p.name}</span>
                   {p.libraryPartId && <span className="ml-1 text-xs text-ink-faint">library</span>}
                   <span className="block text-xs text-ink-soft">{describeProfile(p.profile)}</span>

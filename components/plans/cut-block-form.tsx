@@ -106,7 +106,7 @@ export function CutBlockForm({
         <tbody>
           {parts.map((p) => (
             <tr key={p.jobPartId} className="border-t border-bead/60">
-              <td className="py-1">{p.name}</td>
+              <td className="py-1 wrap-anywhere">{p.name}</td>
               <td className="pr-4 text-right tabular-nums">{p.count}</td>
               <td className="pr-3">
                 <input

@@ -93,7 +93,7 @@ export default async function JobsPage({
                   const late = j.dueOn !== null && j.dueOn < today && ["open", "planned", "cutting"].includes(j.status);
                   return (
                     <tr key={j.id} className="border-b border-bead/60 last:border-0 hover:bg-paper">
-                      <td className="px-3 py-0">
+                      <td className="px-3 py-0 wrap-anywhere">
                         <Link
                           className="flex min-h-11 items-center font-medium no-underline hover:underline"
                           href={`/jobs/${j.id}`}

@@ -33,7 +33,7 @@ export default async function PlansPage({ searchParams }: { searchParams: Promis
           Plan #{r.id}
         </Link>
       </td>
-      <td>{r.jobNames.join(", ")}</td>
+      <td className="wrap-anywhere">{r.jobNames.join(", ")}</td>
       <td>
         <RunStatusBadge status={r.status} stuck={r.stuckBlocks.length > 0} />
       </td>

@@ -397,7 +397,9 @@ function YieldTable({
 function Table({ head, rows, foot, left = 1 }: { head: string[]; rows: string[][]; foot?: string[]; left?: number }) {
   if (!rows.length) return <p className="text-sm text-ink-faint">Nothing in this period.</p>;
   return (
-    <div className="overflow-x-auto">
+    // Large figures can widen the table past the screen: the keyboard scrolls it (WCAG 2.1.1).
+    // biome-ignore lint/a11y/noNoninteractiveTabindex: a scrolling box must be reachable by keyboard
+    <section className="overflow-x-auto" aria-label={`Figures: ${head.join(", ")}`} tabIndex={0}>
       <table>
         <thead className="border-b border-bead">
           <tr>
@@ -431,6 +433,6 @@ function Table({ head, rows, foot, left = 1 }: { head: string[]; rows: string[][
           </tfoot>
         )}
       </table>
-    </div>
+    </section>
   );
 }
