@@ -69,6 +69,8 @@ const WIRE = "#d2571f";
 // Room around each drawing for dimension lines and their figures (SVG units ≈ CSS px at 1:1).
 const M = { left: 40, right: 14, top: 16, bottom: 38 };
 const FONT = 13;
+/** A coordinate to 0.01 SVG unit (a hundredth of a pixel at most): the markup stays short. */
+const r2 = (n: number) => Math.round(n * 100) / 100;
 
 interface Geometry {
   U: number; // the block along the view's horizontal axis, mm
@@ -82,7 +84,7 @@ function geometry(size: Vec3, axes: [Axis, Axis], s: number): Geometry {
   const U = size[axes[0]];
   const V = size[axes[1]];
   // Slivers stay visible even when a true-scale drawing would be a hairline.
-  return { U, V, s, w: Math.max(U * s, 8), h: Math.max(V * s, 8) };
+  return { U, V, s, w: r2(Math.max(U * s, 8)), h: r2(Math.max(V * s, 8)) };
 }
 
 /** A round grid step (mm) giving four to ten lines along the block's longest side in this unit. */
@@ -159,8 +161,8 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
   const vbW = M.left + g.w + M.right;
   const vbH = M.top + g.h + M.bottom;
   // Block coordinates (mm) → SVG units. v grows upwards on paper, downwards in SVG.
-  const X = (u: number) => M.left + (u / g.U) * g.w;
-  const Y = (v: number) => M.top + g.h - (v / g.V) * g.h;
+  const X = (u: number) => r2(M.left + (u / g.U) * g.w);
+  const Y = (v: number) => r2(M.top + g.h - (v / g.V) * g.h);
 
   const toBlock = (e: ReactPointerEvent): { u: number; v: number } | null => {
     const svg = svgRef.current;
@@ -223,7 +225,7 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
       cy = (y0 + y1) / 2;
     const w = Math.max(x1 - x0, 3),
       h = Math.max(y1 - y0, 3);
-    return { x: cx - w / 2, y: cy - h / 2, w, h };
+    return { x: r2(cx - w / 2), y: r2(cy - h / 2), w: r2(w), h: r2(h) };
   };
 
   const live = drag
@@ -301,14 +303,19 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
         {/* The foam body: bead texture, a quiet grid at round distances, the outline. */}
         <rect x={M.left} y={M.top} width={g.w} height={g.h} fill={FOAM} />
         <rect x={M.left} y={M.top} width={g.w} height={g.h} fill={`url(#beads-${uid}-${view.name})`} />
-        <g stroke={BEAD_STRONG} strokeWidth="0.6" strokeDasharray="2 3">
-          {gridU.map((u) => (
-            <line key={`u${u}`} x1={X(u)} x2={X(u)} y1={M.top} y2={M.top + g.h} />
-          ))}
-          {gridV.map((v) => (
-            <line key={`v${v}`} x1={M.left} x2={M.left + g.w} y1={Y(v)} y2={Y(v)} />
-          ))}
-        </g>
+        {gridU.length + gridV.length > 0 && (
+          // One path for the whole grid, not an element per line.
+          <path
+            fill="none"
+            stroke={BEAD_STRONG}
+            strokeWidth="0.6"
+            strokeDasharray="2 3"
+            d={[
+              ...gridU.map((u) => `M${X(u)} ${M.top}V${r2(M.top + g.h)}`),
+              ...gridV.map((v) => `M${M.left} ${Y(v)}H${r2(M.left + g.w)}`),
+            ].join("")}
+          />
+        )}
 
         {defects.map((d) => {
           const r = boxOf(d.min, d.max);
@@ -400,8 +407,8 @@ function View({ uid, view, g, defects, unit, step, onDraw, highlight, draft, enl
         ).map((l) => (
           <text
             key={l.key}
-            x={l.x}
-            y={l.y}
+            x={r2(l.x)}
+            y={r2(l.y)}
             fontSize={FONT - 1}
             fontWeight={l.weight}
             fill={l.colour}
@@ -501,8 +508,8 @@ function Dimension({
   vertical?: boolean;
 }) {
   if (!vertical) {
-    const y = y1 + offset;
-    const mid = (x1 + x2) / 2;
+    const y = r2(y1 + offset);
+    const mid = r2((x1 + x2) / 2);
     return (
       <g stroke={INK_FAINT} strokeWidth="0.8">
         <line x1={x1} y1={y1 + 3} x2={x1} y2={y + 4} />
@@ -529,8 +536,8 @@ function Dimension({
       </g>
     );
   }
-  const x = x1 + offset;
-  const mid = (y1 + y2) / 2;
+  const x = r2(x1 + offset);
+  const mid = r2((y1 + y2) / 2);
   return (
     <g stroke={INK_FAINT} strokeWidth="0.8">
       <line x1={x1 - 3} y1={y1} x2={x - 4} y2={y1} />

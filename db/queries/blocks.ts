@@ -3,7 +3,8 @@ import type { Knex } from "knex";
 import { db } from "@/db";
 import { prepared } from "@/db/prepared";
 import type { BlocksRow, DeliveriesRow, GradesRow } from "@/db/tables";
-import { appendLedger } from "./ledger";
+import { appendLedger, toEntry, type LedgerEntry, type LedgerRow } from "./ledger";
+import { toDefect, toZoneEvent, type Defect, type DefectRow, type ZoneEvent, type ZoneHistoryRow } from "./defects";
 import { byStockVersion, hasKept, keep, keptAt } from "./stock-version";
 import { HttpError } from "@/lib/errors";
 import {
@@ -349,15 +350,29 @@ async function withFifo(items: BlockSummary[], today: string, v: number): Promis
   for (const b of ready) b.fifo = positions.get(b.id) ?? null;
 }
 
-export async function getBlock(idOrCode: number | string, today = isoDate()): Promise<BlockDetail | undefined> {
-  const q = selectBlocks(db(), true)
-    .select("p.code as parent_code", db().raw(`(SELECT v FROM stock_version WHERE id = 1) AS stock_v`))
+/** A block as getBlock reads it: the summary columns, DETAIL_COLUMNS, its parent's code and the stock version. */
+type DetailRow = Row &
+  Pick<BlocksRow, "delivery_id" | "origin_in_parent" | "nominal_x" | "nominal_y" | "nominal_z" | "notes"> & {
+    cure_days: number;
+    grade_system: string;
+    grade_name: string;
+    po_ref: string | null;
+    parent_code: string | null;
+    stock_v: number;
+  };
+
+/** A detail select (selectBlocks with detail) with its parent's code and the stock version, for one block by id or code. */
+function selectDetail(k: Knex, idOrCode: number | string) {
+  const q = selectBlocks(k, true)
+    .select("p.code as parent_code", k.raw(`(SELECT v FROM stock_version WHERE id = 1) AS stock_v`))
     .leftJoin("blocks as p", "p.id", "b.parent_id");
   if (typeof idOrCode === "number") q.where("b.id", idOrCode);
   else q.whereRaw("upper(b.code) = upper(?)", [idOrCode]);
-  const r = await prepared(q.first());
-  if (!r) return undefined;
-  const s = toSummary(r as Row, today);
+  return q;
+}
+
+async function toDetail(r: DetailRow, today: string): Promise<BlockDetail> {
+  const s = toSummary(r, today);
   await withFifo([s], today, Number(r.stock_v));
   return {
     ...s,
@@ -372,9 +387,122 @@ export async function getBlock(idOrCode: number | string, today = isoDate()): Pr
   };
 }
 
-export async function listChildren(
-  parentId: number,
-): Promise<{ id: number; code: string; size: Vec3; status: BlockStatus }[]> {
+export async function getBlock(idOrCode: number | string, today = isoDate()): Promise<BlockDetail | undefined> {
+  const r = (await prepared(selectDetail(db(), idOrCode).first())) as DetailRow | undefined;
+  return r ? toDetail(r, today) : undefined;
+}
+
+export interface Offcut {
+  id: number;
+  code: string;
+  size: Vec3;
+  status: BlockStatus;
+}
+
+/** Everything the block page shows, read in one statement (getBlockPage). */
+export interface BlockPage {
+  block: BlockDetail;
+  /** Its defect zones in force, with photos. */
+  defects: Defect[];
+  /** The offcuts kept from it. */
+  offcuts: Offcut[];
+  /** Its ledger movements, newest first: the latest `historyLimit`. */
+  history: LedgerEntry[];
+  /** How many movements it has in all. */
+  historyCount: number;
+  /** Its zones flagged, corrected and removed (audit log), newest first: the latest `historyLimit`. */
+  zoneHistory: ZoneEvent[];
+  zoneHistoryCount: number;
+}
+
+/** Most movements and zone events the block page reads, also when asked for all of them. */
+export const BLOCK_PAGE_HISTORY_MAX = 500;
+
+/**
+ *   getBlockPage("HF-1047")                       // the latest 20 movements and zone events
+ *   getBlockPage("HF-1047", { historyLimit: 500 }) // up to 500 of each
+ * The block page's data — the block, its defect zones with photos, its offcuts, its latest ledger
+ * movements and zone events with their counts — in one prepared statement (JSON sub-selects), not
+ * one per list: a page is then one round trip and one pooled connection, which is what it costs
+ * most under load (each statement waits for a connection, and for the event loop to take its
+ * answer, while the request holds the others).
+ */
+export async function getBlockPage(
+  code: string,
+  opts: { historyLimit?: number; today?: string } = {},
+): Promise<BlockPage | undefined> {
+  const k = db();
+  const limit = Math.min(Math.max(1, Math.trunc(opts.historyLimit ?? 20)), BLOCK_PAGE_HISTORY_MAX);
+  const q = selectDetail(k, code).select(
+    k.raw(
+      `coalesce((SELECT json_agg(json_build_object('id', z.id, 'block_id', z.block_id, 'kind', z.kind,
+         'min_x', z.min_x, 'min_y', z.min_y, 'min_z', z.min_z, 'max_x', z.max_x, 'max_y', z.max_y, 'max_z', z.max_z,
+         'found_by', z.found_by, 'found_at', z.found_at, 'note', z.note, 'inherited_from', z.inherited_from,
+         'updated_at', z.updated_at, 'found_by_name', zf.name, 'updated_by_name', ze.name,
+         'photo_list', coalesce((SELECT json_agg(json_build_object('id', ph.id, 'contentType', ph.content_type,
+            'bytes', ph.bytes, 'width', ph.width, 'height', ph.height, 'uploadedAt', ph.uploaded_at) ORDER BY ph.id)
+            FROM defect_photos ph WHERE ph.defect_id = z.id), '[]')) ORDER BY z.id)
+         FROM defect_zones z LEFT JOIN users zf ON zf.id = z.found_by LEFT JOIN users ze ON ze.id = z.updated_by
+        WHERE z.block_id = b.id AND z.removed_at IS NULL), '[]') AS page_defects,
+       coalesce((SELECT json_agg(json_build_object('id', c.id, 'code', c.code, 'size_x', c.size_x, 'size_y', c.size_y,
+         'size_z', c.size_z, 'status', c.status) ORDER BY c.id)
+         FROM blocks c WHERE c.parent_id = b.id), '[]') AS page_offcuts,
+       coalesce((SELECT json_agg(json_build_object('id', l.id, 'block_id', l.block_id, 'kind', l.kind,
+         'volume_m3', l.volume_m3, 'delta_m3', l.delta_m3, 'value', l.value, 'delta_value', l.delta_value,
+         'user_name', l.user_name, 'at', l.at, 'reason', l.reason, 'ref', l.ref) ORDER BY l.at DESC, l.id DESC)
+         FROM (SELECT l.id, l.block_id, l.kind, l.volume_m3, l.delta_m3, l.value, l.delta_value, l.at, l.reason, l.ref,
+                      lu.name AS user_name
+                 FROM stock_ledger l LEFT JOIN users lu ON lu.id = l.user_id
+                WHERE l.block_id = b.id ORDER BY l.at DESC, l.id DESC LIMIT ?) l), '[]') AS page_history,
+       (SELECT count(*) FROM stock_ledger l WHERE l.block_id = b.id) AS page_history_count,
+       coalesce((SELECT json_agg(json_build_object('id', a.id, 'action', a.action, 'detail', a.detail, 'at', a.at,
+         'name', a.name) ORDER BY a.at DESC, a.id DESC)
+         FROM (SELECT a.id, a.action, a.detail, a.at, au.name
+                 FROM audit_log a LEFT JOIN users au ON au.id = a.actor_id
+                WHERE a.subject = 'block:' || b.id AND a.action IN ('defect.create', 'defect.update', 'defect.remove')
+                ORDER BY a.at DESC, a.id DESC LIMIT ?) a), '[]') AS page_zone_history,
+       (SELECT count(*) FROM audit_log a
+         WHERE a.subject = 'block:' || b.id AND a.action IN ('defect.create', 'defect.update', 'defect.remove'))
+         AS page_zone_history_count`,
+      [limit, limit],
+    ),
+  );
+  const r = (await prepared(q.first())) as
+    | (DetailRow & {
+        page_defects: DefectRow[];
+        page_offcuts: {
+          id: number;
+          code: string;
+          size_x: number;
+          size_y: number;
+          size_z: number;
+          status: BlockStatus;
+        }[];
+        page_history: Omit<LedgerRow, "code">[];
+        page_history_count: number;
+        page_zone_history: ZoneHistoryRow[];
+        page_zone_history_count: number;
+      })
+    | undefined;
+  if (!r) return undefined;
+  const block = await toDetail(r, opts.today ?? isoDate());
+  return {
+    block,
+    defects: r.page_defects.map(toDefect),
+    offcuts: r.page_offcuts.map((c) => ({
+      id: c.id,
+      code: c.code,
+      size: [Number(c.size_x), Number(c.size_y), Number(c.size_z)],
+      status: c.status,
+    })),
+    history: r.page_history.map((l) => toEntry({ ...l, code: block.code })),
+    historyCount: Number(r.page_history_count),
+    zoneHistory: r.page_zone_history.map(toZoneEvent),
+    zoneHistoryCount: Number(r.page_zone_history_count),
+  };
+}
+
+export async function listChildren(parentId: number): Promise<Offcut[]> {
   const rows = await prepared(
     db()("blocks")
       .where({ parent_id: parentId })

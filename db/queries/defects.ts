@@ -36,15 +36,60 @@ export interface Defect {
   photos: DefectPhoto[];
 }
 
-/** A zone with the names of who flagged it and who last corrected it. */
-type Row = DefectZonesRow & { found_by_name: string | null; updated_by_name: string | null };
+/**
+ * A zone with the names of who flagged it and who last corrected it, and its photos: as listDefects
+ * reads it, or as JSON inside the block page's one statement (timestamps then arrive as ISO text).
+ */
+export type DefectRow = Pick<
+  DefectZonesRow,
+  | "id"
+  | "block_id"
+  | "kind"
+  | "min_x"
+  | "min_y"
+  | "min_z"
+  | "max_x"
+  | "max_y"
+  | "max_z"
+  | "found_by"
+  | "note"
+  | "inherited_from"
+> & {
+  found_at: Date | string;
+  updated_at: Date | string | null;
+  found_by_name: string | null;
+  updated_by_name: string | null;
+  photo_list: DefectPhoto[];
+};
+
+const iso = (t: Date | string) => new Date(t).toISOString();
+
+/** A zone row (DefectRow) as the app's Defect. */
+export function toDefect(r: DefectRow): Defect {
+  return {
+    id: r.id,
+    blockId: r.block_id,
+    kind: r.kind,
+    min: [Number(r.min_x), Number(r.min_y), Number(r.min_z)],
+    max: [Number(r.max_x), Number(r.max_y), Number(r.max_z)],
+    foundBy: r.found_by_name,
+    foundById: r.found_by,
+    foundAt: iso(r.found_at),
+    note: r.note,
+    inheritedFrom: r.inherited_from,
+    updatedAt: r.updated_at ? iso(r.updated_at) : null,
+    updatedBy: r.updated_by_name,
+    // JSON writes a timestamptz with its offset; the page shows photos' times as ISO UTC.
+    photos: r.photo_list.map((p) => ({ ...p, uploadedAt: iso(p.uploadedAt) })),
+  };
+}
 
 /**
  *   listDefects(blockId) → the block's defect zones (boxes in the block's frame, mm) with photos;
  *   zones taken back (removed) are kept for the record but not listed.
  */
 export async function listDefects(blockId: number): Promise<Defect[]> {
-  // The zones with their photos in one statement (the block page reads this on every visit).
+  // The zones with their photos in one statement.
   const rows = (await db()("defect_zones as z")
     .leftJoin("users as u", "u.id", "z.found_by")
     .leftJoin("users as e", "e.id", "z.updated_by")
@@ -60,23 +105,8 @@ export async function listDefects(blockId: number): Promise<Defect[]> {
                     'width', p.width, 'height', p.height, 'uploadedAt', p.uploaded_at) ORDER BY p.id)
                      FROM defect_photos p WHERE p.defect_id = z.id), '[]') AS photo_list`,
       ),
-    )) as (Row & { photo_list: DefectPhoto[] })[];
-  return rows.map((r) => ({
-    id: r.id,
-    blockId: r.block_id,
-    kind: r.kind,
-    min: [Number(r.min_x), Number(r.min_y), Number(r.min_z)],
-    max: [Number(r.max_x), Number(r.max_y), Number(r.max_z)],
-    foundBy: r.found_by_name,
-    foundById: r.found_by,
-    foundAt: r.found_at.toISOString(),
-    note: r.note,
-    inheritedFrom: r.inherited_from,
-    updatedAt: r.updated_at ? r.updated_at.toISOString() : null,
-    updatedBy: r.updated_by_name,
-    // JSON writes a timestamptz with its offset; the page shows photos' times as ISO UTC.
-    photos: r.photo_list.map((p) => ({ ...p, uploadedAt: new Date(p.uploadedAt).toISOString() })),
-  }));
+    )) as DefectRow[];
+  return rows.map(toDefect);
 }
 
 const AXES = ["length", "width", "height"] as const;
@@ -255,39 +285,31 @@ function zoneDiff(before: Box, after: Box): string[] {
   return out;
 }
 
-/** A block's zone history from the audit log (flagged, changed, removed), newest first. */
-export async function listZoneHistory(blockId: number): Promise<ZoneEvent[]> {
-  const rows = (await db()("audit_log as a")
-    .leftJoin("users as u", "u.id", "a.actor_id")
-    .where("a.subject", `block:${blockId}`)
-    .whereIn("a.action", ["defect.create", "defect.update", "defect.remove"])
-    .orderBy([
-      { column: "a.at", order: "desc" },
-      { column: "a.id", order: "desc" },
-    ])
-    .limit(200)
-    .select("a.id", "a.action", "a.detail", "a.at", "u.name")) as {
-    id: string | number;
-    action: string;
-    detail: { defect: number; before?: Box; after?: Box; kind?: DefectKind; min?: number[]; max?: number[] };
-    at: Date;
-    name: string | null;
-  }[];
-  return rows.map((r) => {
-    const d = r.detail ?? { defect: 0 };
-    const action = r.action === "defect.create" ? "flagged" : r.action === "defect.update" ? "changed" : "removed";
-    let what: string[] = [];
-    if (action === "changed" && d.before && d.after) what = zoneDiff(d.before, d.after);
-    else if (action === "flagged" && d.min && d.max)
-      what = [
-        `${d.kind ? `${DEFECT_LABELS[d.kind] ?? d.kind} ` : ""}x ${span(d as Box, 0)}, y ${span(d as Box, 1)}, z ${span(d as Box, 2)} mm`,
-      ];
-    else if (action === "removed" && d.before)
-      what = [
-        `was ${DEFECT_LABELS[d.before.kind!] ?? "a zone"} x ${span(d.before, 0)}, y ${span(d.before, 1)}, z ${span(d.before, 2)} mm`,
-      ];
-    return { id: Number(r.id), action, zone: Number(d.defect), by: r.name, at: r.at.toISOString(), what };
-  });
+/** An audit log entry about a zone (`defect.create`, `defect.update`, `defect.remove`) with who made it. */
+export interface ZoneHistoryRow {
+  id: string | number;
+  action: string;
+  detail: { defect: number; before?: Box; after?: Box; kind?: DefectKind; min?: number[]; max?: number[] } | null;
+  /** A Date, or ISO text when read as JSON. */
+  at: Date | string;
+  name: string | null;
+}
+
+/** One entry of a block's zone history (flagged, changed, removed), with what changed in words. */
+export function toZoneEvent(r: ZoneHistoryRow): ZoneEvent {
+  const d = r.detail ?? { defect: 0 };
+  const action = r.action === "defect.create" ? "flagged" : r.action === "defect.update" ? "changed" : "removed";
+  let what: string[] = [];
+  if (action === "changed" && d.before && d.after) what = zoneDiff(d.before, d.after);
+  else if (action === "flagged" && d.min && d.max)
+    what = [
+      `${d.kind ? `${DEFECT_LABELS[d.kind] ?? d.kind} ` : ""}x ${span(d as Box, 0)}, y ${span(d as Box, 1)}, z ${span(d as Box, 2)} mm`,
+    ];
+  else if (action === "removed" && d.before)
+    what = [
+      `was ${DEFECT_LABELS[d.before.kind!] ?? "a zone"} x ${span(d.before, 0)}, y ${span(d.before, 1)}, z ${span(d.before, 2)} mm`,
+    ];
+  return { id: Number(r.id), action, zone: Number(d.defect), by: r.name, at: iso(r.at), what };
 }
 
 export interface ZoneChangeAfterPlan {

@@ -62,7 +62,8 @@ export interface LedgerEntry {
   ref: string | null;
 }
 
-interface Row {
+/** A movement with its block's code and who made it: as listLedgerEntries reads it, or as JSON (`at` then ISO text). */
+export interface LedgerRow {
   id: number;
   block_id: number;
   code: string;
@@ -72,12 +73,12 @@ interface Row {
   value: number;
   delta_value: number;
   user_name: string | null;
-  at: Date;
+  at: Date | string;
   reason: string | null;
   ref: string | null;
 }
 
-const toEntry = (r: Row): LedgerEntry => ({
+export const toEntry = (r: LedgerRow): LedgerEntry => ({
   id: Number(r.id),
   blockId: r.block_id,
   blockCode: r.code,
@@ -87,7 +88,7 @@ const toEntry = (r: Row): LedgerEntry => ({
   value: Number(r.value),
   deltaValue: Number(r.delta_value),
   user: r.user_name,
-  at: r.at.toISOString(),
+  at: new Date(r.at).toISOString(),
   reason: r.reason,
   ref: r.ref,
 });
@@ -150,7 +151,7 @@ export async function listLedgerEntries(q: LedgerQuery): Promise<LedgerEntry[]> 
     ])
     .limit(pageSize)
     .offset((page - 1) * pageSize);
-  return (rows as Row[]).map(toEntry);
+  return (rows as LedgerRow[]).map(toEntry);
 }
 
 /** Stock on hand according to the ledger (m³ and value): the figure every page must agree with. */

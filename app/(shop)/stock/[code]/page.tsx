@@ -4,9 +4,8 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requirePage } from "@/lib/auth/guard";
 import { seesMoney } from "@/lib/auth/policy";
-import { getBlock, listChildren } from "@/db/queries/blocks";
-import { listDefects, listZoneHistory, mayChangeZone } from "@/db/queries/defects";
-import { listLedgerEntries } from "@/db/queries/ledger";
+import { BLOCK_PAGE_HISTORY_MAX, getBlockPage } from "@/db/queries/blocks";
+import { mayChangeZone } from "@/db/queries/defects";
 import { displayUnit } from "@/lib/display";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { GradeChip, StatusBadge } from "@/components/stock/status-badge";
@@ -22,22 +21,35 @@ export async function generateMetadata({ params }: { params: Promise<{ code: str
   return { title: decodeURIComponent((await params).code) };
 }
 
-export default async function BlockPage({ params }: { params: Promise<{ code: string }> }) {
+/** Movements and zone events shown at first; `?history=all` shows them all (up to BLOCK_PAGE_HISTORY_MAX). */
+const HISTORY_SHOWN = 20;
+
+export default async function BlockPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ code: string }>;
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const user = await requirePage("/stock/[code]");
   const code = decodeURIComponent((await params).code);
-  const block = await getBlock(code);
-  if (!block) notFound();
-  const [defects, offcuts, history, unit, zoneHistory] = await Promise.all([
-    listDefects(block.id),
-    listChildren(block.id),
-    listLedgerEntries({ blockId: block.id, pageSize: 200 }),
+  const all = (await searchParams).history === "all";
+  // One statement for everything below (db/queries/blocks.ts, getBlockPage).
+  const [data, unit] = await Promise.all([
+    getBlockPage(code, { historyLimit: all ? BLOCK_PAGE_HISTORY_MAX : HISTORY_SHOWN }),
     displayUnit(user),
-    listZoneHistory(block.id),
   ]);
+  if (!data) notFound();
+  const { block, defects, offcuts, history, zoneHistory } = data;
+  const allHref = `/stock/${encodeURIComponent(block.code)}?history=all`;
   const has = (...r: string[]) => user.roles.some((x) => x === "admin" || r.includes(x));
   const lowDensity = block.densityKgM3 !== null && block.minDensity !== null && block.densityKgM3 < block.minDensity;
   const inStock = block.status === "in_stock";
   const held = block.status === "on_hold" ? block.hold : null;
+  const canHold = inStock && has("buyer", "cutter");
+  const canRelease = has("buyer");
+  const canMove = has("buyer", "cutter");
+  const canCorrect = has("buyer");
 
   return (
     <>
@@ -200,7 +212,7 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
               ))}
             </ul>
           )}
-          {zoneHistory.some((e) => e.action !== "flagged") && (
+          {(zoneHistory.some((e) => e.action !== "flagged") || data.zoneHistoryCount > zoneHistory.length) && (
             <div className="mt-4 border-t border-bead pt-3">
               <h3 className="mb-1 text-sm font-semibold">Zone corrections</h3>
               <ol className="space-y-1 text-sm" data-testid="defect-corrections">
@@ -217,6 +229,9 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
                   </li>
                 ))}
               </ol>
+              {data.zoneHistoryCount > zoneHistory.length && (
+                <MoreHistory shown={zoneHistory.length} total={data.zoneHistoryCount} all={all} href={allHref} />
+              )}
             </div>
           )}
         </Card>
@@ -251,7 +266,7 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
             </div>
           </Card>
           <Card title="History">
-            <ol className="space-y-2 text-sm">
+            <ol className="space-y-2 text-sm" data-testid="block-history">
               {history.map((e) => (
                 <li
                   key={e.id}
@@ -268,27 +283,49 @@ export default async function BlockPage({ params }: { params: Promise<{ code: st
                 </li>
               ))}
             </ol>
+            {data.historyCount > history.length && (
+              <MoreHistory shown={history.length} total={data.historyCount} all={all} href={allHref} />
+            )}
           </Card>
         </div>
 
-        <HoldActions
-          blockId={block.id}
-          code={block.code}
-          hold={held?.reason ?? null}
-          canHold={inStock && has("buyer", "cutter")}
-          canRelease={has("buyer")}
-        />
+        {/* The forms only for someone who may use them (they would draw nothing for anyone else). */}
+        {(held ? canRelease : canHold) && (
+          <HoldActions
+            blockId={block.id}
+            code={block.code}
+            hold={held?.reason ?? null}
+            canHold={canHold}
+            canRelease={canRelease}
+          />
+        )}
 
-        <BlockActions
-          blockId={block.id}
-          code={block.code}
-          location={block.location}
-          size={block.size}
-          canMove={has("buyer", "cutter")}
-          canCorrect={has("buyer")}
-          inStock={inStock || held !== null}
-        />
+        {(inStock || held !== null) && (canMove || canCorrect) && (
+          <BlockActions
+            blockId={block.id}
+            code={block.code}
+            location={block.location}
+            size={block.size}
+            canMove={canMove}
+            canCorrect={canCorrect}
+            inStock
+          />
+        )}
       </div>
     </>
+  );
+}
+
+/** Under a list cut to its latest entries: how many there are and a link to them all. */
+function MoreHistory({ shown, total, all, href }: { shown: number; total: number; all: boolean; href: string }) {
+  return (
+    <p className="mt-2 text-sm text-ink-faint">
+      The latest {shown} of {total.toLocaleString("en")}.{" "}
+      {!all && (
+        <Link href={href} scroll={false}>
+          Show all {total.toLocaleString("en")}
+        </Link>
+      )}
+    </p>
   );
 }
