@@ -9,7 +9,7 @@ import { Button } from "@/components/ui/button";
 import { Card, Notice } from "@/components/ui/card";
 import { Field, Input, Select } from "@/components/ui/field";
 import { BUDGET_S, type RunSettings, secondsToMs } from "@/lib/validations/runs";
-import { formatDate } from "@/lib/format";
+import { formatDate, plural } from "@/lib/format";
 import type { Candidate } from "@/db/queries/run-plan";
 import { leftOutLine, type LeftOut } from "@/lib/planning/usable";
 import { formatVolume } from "@/lib/units";
@@ -81,7 +81,9 @@ export function NewRunForm({
         {fields.blockIds && <p className="mb-2 text-sm text-ember">{fields.blockIds}</p>}
         {candidates.length === 0 ? (
           <p className="text-sm text-ink-soft">
-            No ready stock of the grades these parts need. Receive some, or wait for settling blocks.
+            {leftOut.length
+              ? `No ready block can hold any of these parts: ${plural(leftOut.length, "block")} of their grades, listed below with the reason. Receive larger stock, or check the parts' sizes.`
+              : "No ready stock of the grades these parts need. Receive some, or wait for settling blocks."}
           </p>
         ) : (
           <div className="max-h-96 overflow-y-auto">
@@ -103,14 +105,17 @@ export function NewRunForm({
               <tbody>
                 {candidates.map((c) => (
                   <tr key={c.id} className="border-t border-bead/60">
-                    <td className="py-1 pr-3">
-                      <input
-                        type="checkbox"
-                        className="size-5 accent-kerf"
-                        aria-label={`Use ${c.code}`}
-                        checked={chosen.has(c.id)}
-                        onChange={() => toggle(c.id)}
-                      />
+                    <td className="pr-3">
+                      {/* The whole cell is the tap target (44 px), not just the 20 px box. */}
+                      <label className="flex min-h-11 min-w-11 cursor-pointer items-center">
+                        <input
+                          type="checkbox"
+                          className="size-5 accent-kerf"
+                          aria-label={`Use ${c.code}`}
+                          checked={chosen.has(c.id)}
+                          onChange={() => toggle(c.id)}
+                        />
+                      </label>
                     </td>
                     <td className="whitespace-nowrap px-3 py-1 font-medium">
                       {c.code}

@@ -212,7 +212,9 @@ export async function createRun(
         409,
         heldRuns.length
           ? `Nothing is left to plan: every part still owed is in approved ${plansNamed(heldRuns)}, waiting to be cut. Release a plan first to plan those parts again.`
-          : "Nothing is owed on these jobs: every part has been cut.",
+          : (await trx("job_parts").whereIn("job_id", input.jobIds).first("id"))
+            ? "Nothing is owed on these jobs: every part has been cut."
+            : `${input.jobIds.length === 1 ? "This job has" : "These jobs have"} no parts yet: add the parts to cut on the job's page, then plan it.`,
       );
     const chosen = await stockForPlan(trx, input.blockIds);
     if (chosen.length !== new Set(input.blockIds).size)

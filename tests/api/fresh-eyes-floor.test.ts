@@ -8,7 +8,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, ledgerGap, makeBlock, tableCounts, testDb } from "../support/db";
-import { makeDoneRun, makeJobWithParts } from "../support/planning-fixtures";
+import { makeDoneRun, makeJobWithParts, SETTINGS } from "../support/planning-fixtures";
 import { makeJob } from "../support/job-fixtures";
 
 afterAll(closeTestDb);
@@ -201,5 +201,23 @@ describe("at the machine, with fingers and tablets nobody planned for", () => {
     expect((await planner.post(`/api/runs/${other.runId}/release`)).status).toBe(200);
     expect((await testDb()("blocks").where({ id: other.block.id }).first("status"))!.status).toBe("in_stock");
     expect(await ledgerGap()).toEqual({ m3: expect.closeTo(0, 6), value: expect.closeTo(0, 2) });
+  });
+});
+
+describe("planning a job as a new shop first does", () => {
+  it("a job with no parts yet is told so, not that every part has been cut; nothing is started", async () => {
+    const job = await planner.post("/api/jobs", { name: `Empty job ${tag()}`, customer: "Test customer" });
+    expect(job.status).toBe(201);
+    const block = await makeBlock({ size: [1000, 600, 400] });
+    const before = await tableCounts();
+    const res = await planner.post("/api/runs", {
+      jobIds: [job.body.job.id],
+      blockIds: [block.id],
+      settings: SETTINGS,
+    });
+    expect(res.status).toBe(409);
+    expect(res.body.error).toMatch(/This job has no parts yet/);
+    expect(res.body.error).not.toMatch(/every part has been cut/);
+    expect(await tableCounts()).toEqual(before);
   });
 });
