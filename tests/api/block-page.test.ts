@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { client, type Client } from "../support/http";
 import { TEST_PASSWORD, closeTestDb, makeBlock, makeUser, testDb } from "../support/db";
+import { sqlSent } from "../support/statements";
 
 // The query modules are read here in this process too (to see the SQL they send); outside Next,
 // the "server-only" marker would refuse to load.
@@ -29,17 +30,7 @@ beforeAll(async () => {
 });
 
 /** The SQL of every statement `run` sends through the app's Knex instance. */
-async function statementsOf(run: () => Promise<unknown>): Promise<string[]> {
-  const sql: string[] = [];
-  const on = (q: { sql: string }) => sql.push(q.sql);
-  db().on("query", on);
-  try {
-    await run();
-  } finally {
-    db().off("query", on);
-  }
-  return sql;
-}
+const statementsOf = (run: () => Promise<unknown>) => sqlSent(db(), run);
 
 /**
  * A block with a bit of everything the page lists: two zones (one corrected, with a photo), one

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
 import { closeTestDb, makeBlock, testDb } from "../support/db";
+import { sqlSent } from "../support/statements";
 import { makeDoneRun, makeJobWithParts } from "../support/planning-fixtures";
 
 // The query modules are read here in this process too (to see the SQL they send); outside Next,
@@ -24,17 +25,7 @@ beforeAll(async () => {
 });
 
 /** The SQL of every statement `run` sends through the app's Knex instance. */
-async function statementsOf(run: () => Promise<unknown>): Promise<string[]> {
-  const sql: string[] = [];
-  const on = (q: { sql: string }) => sql.push(q.sql);
-  db().on("query", on);
-  try {
-    await run();
-  } finally {
-    db().off("query", on);
-  }
-  return sql;
-}
+const statementsOf = (run: () => Promise<unknown>) => sqlSent(db(), run);
 
 const totalsOf = async (query: string) => {
   const res = await buyer.get(`/api/blocks?${query}`);
