@@ -7,7 +7,7 @@ import { partIdFromKey } from "@/lib/planning/problem";
 import type { Profile } from "@/lib/profiles";
 import { FourAxisError } from "@/lib/profiles/four-axis";
 import { type ProfileProgram, type ProgramPart, ProgramError, profileProgram } from "@/lib/profiles/program";
-import { blankSlabs, orientation, partSections, planSlabs, type Slab } from "@/lib/profiles/slabs";
+import { orientation, partSections, planSlabs, type Slab } from "@/lib/profiles/slabs";
 import { slabProgramInput, slabProgramParts } from "@/lib/profiles/slab-program";
 import { type Dwell, ToolpathError } from "@/lib/profiles/toolpath";
 import type { Point } from "@/lib/profiles/polygon";
@@ -270,52 +270,36 @@ export async function slabPrograms(
       else throw e;
     }
   }
-  for (const whole of slabs) {
-    const grade = run.problem.blocks.find((b) => b.id === whole.block)?.grade;
+  for (const s of slabs) {
+    const grade = run.problem.blocks.find((b) => b.id === s.block)?.grade;
     const { kerf, feed } = await kerfFeed(machine, grade ? (gradeIds.get(grade) ?? null) : null);
-    const nameOf = (s: Slab) => s.parts.map((p) => parts.get(p.part)?.name ?? p.part);
+    const label = `${s.block} slab ${s.n}`;
+    const names = s.parts.map((p) => parts.get(p.part)?.name ?? p.part);
     if (choices.listOnly) {
-      out.push({
-        slab: whole,
-        label: `${whole.block} slab ${whole.n}`,
-        program: null,
-        problem: null,
-        names: nameOf(whole),
-      });
+      out.push({ slab: s, label, program: null, problem: null, names });
       continue;
     }
-    const make = (s: Slab, label: string): SlabProgram & { lead?: boolean } => {
-      const names = nameOf(s);
-      try {
-        const program = profileProgram(
-          {
-            title: `plan ${runId}, block ${s.block}, ${label.slice(s.block.length + 1)} of ${perBlock.get(s.block)}`,
-            size: s.size,
-            thickness: s.along[1] - s.along[0],
-            parts: s.parts.map((p, i) => ({ name: names[i]!, root: p.root, tip: p.tip, tapered: p.tapered })),
-            kerf,
-            feed,
-            grade: grade ?? null,
-            direction: choices.direction,
-            dwell: choices.dwell,
-          },
-          machine,
-        );
-        return { slab: s, label, program, problem: null, names };
-      } catch (e) {
-        if (e instanceof ProgramError || e instanceof FourAxisError || e instanceof ToolpathError)
-          return { slab: s, label, program: null, problem: e.message, names, lead: e instanceof ToolpathError };
-        throw e;
-      }
-    };
-    const one = make(whole, `${whole.block} slab ${whole.n}`);
-    // A part walled in by the others has no clear lead-in: each blank is then cut on its own
-    // (the block cutter frees them apart), as "HF-1001 slab 2-1", "… 2-2", ….
-    const made =
-      one.lead && whole.parts.length > 1
-        ? blankSlabs(whole).map((s, k) => make(s, `${whole.block} slab ${whole.n}-${k + 1}`))
-        : [one];
-    for (const { lead: _lead, ...entry } of made) out.push(entry);
+    try {
+      const program = profileProgram(
+        {
+          title: `plan ${runId}, block ${s.block}, slab ${s.n} of ${perBlock.get(s.block)}`,
+          size: s.size,
+          thickness: s.along[1] - s.along[0],
+          parts: s.parts.map((p, i) => ({ name: names[i]!, root: p.root, tip: p.tip, tapered: p.tapered })),
+          kerf,
+          feed,
+          grade: grade ?? null,
+          direction: choices.direction,
+          dwell: choices.dwell,
+        },
+        machine,
+      );
+      out.push({ slab: s, label, program, problem: null, names });
+    } catch (e) {
+      if (e instanceof ProgramError || e instanceof FourAxisError || e instanceof ToolpathError)
+        out.push({ slab: s, label, program: null, problem: e.message, names });
+      else throw e;
+    }
   }
   return { machine, slabs: out };
 }

@@ -181,10 +181,9 @@ function bbox(ctx: Ctx, idx: readonly number[]): [number[], number[]] {
  * high) take off what lies outside the pieces, then a split across an in-plane axis, recursing
  * into each group right after the cut that frees it. Trims across the wire's axis are left to the
  * groups; a group that needs a cut across the wire's axis (or, on a horizontal wire, a bottom trim
- * whose wire would run below the table) comes off for a later step. With `merge`, neighbouring such
- * groups of one extent along the wire come off together (`mergeUnfinished`).
+ * whose wire would run below the table) comes off for a later step.
  */
-function simulate(foam: Foam, o: O, ctx: Ctx, defer: boolean, merge = false): Sim {
+function simulate(foam: Foam, o: O, ctx: Ctx, defer: boolean): Sim {
   const { kerf } = ctx;
   const cuts: SimCut[] = [];
   const later: Foam[] = [];
@@ -240,9 +239,7 @@ function simulate(foam: Foam, o: O, ctx: Ctx, defer: boolean, merge = false): Si
       }
     } else {
       for (const a of [o[0], o[2]]) {
-        const { groups, cuts: at } = merge
-          ? mergeUnfinished(ctx, splitAlong(ctx.boxes, idx, a, kerf), o[1], min, max)
-          : splitAlong(ctx.boxes, idx, a, kerf);
+        const { groups, cuts: at } = splitAlong(ctx.boxes, idx, a, kerf);
         if (groups.length < 2) continue;
         const [cutsBefore, laterBefore] = [cuts.length, later.length];
         let lo = min[a]!;
@@ -272,45 +269,6 @@ function simulate(foam: Foam, o: O, ctx: Ctx, defer: boolean, merge = false): Si
   return { cuts, later };
 }
 
-/**
- * Neighbouring groups of a split that both need a cut along the wire (their pieces do not span the
- * foam there) and span the same extent along it stay together: one piece for a later step, whose
- * one trim along the wire serves them all, instead of one later step each (40 slices under a kept
- * offcut took 42 placements, each slice its own).
- */
-function mergeUnfinished(
-  ctx: Ctx,
-  split: { groups: number[][]; cuts: number[] },
-  w: number,
-  min: readonly number[],
-  max: readonly number[],
-): { groups: number[][]; cuts: number[] } {
-  const { groups, cuts } = split;
-  if (groups.length < 2) return split;
-  const span = (g: readonly number[]) => {
-    const [lo, hi] = bbox(ctx, g);
-    return [lo[w]!, hi[w]!] as const;
-  };
-  const unfinished = (g: readonly number[]) =>
-    g.some((i) => {
-      const b = ctx.boxes[i]!;
-      return b.origin[w]! - min[w]! > EPS || max[w]! - (b.origin[w]! + b.size[w]!) > EPS;
-    });
-  const out: number[][] = [[...groups[0]!]];
-  const at: number[] = [];
-  for (let j = 1; j < groups.length; j++) {
-    const [p, g] = [groups[j - 1]!, groups[j]!];
-    const [ps, gs] = [span(p), span(g)];
-    const together = unfinished(p) && unfinished(g) && Math.abs(ps[0] - gs[0]) <= EPS && Math.abs(ps[1] - gs[1]) <= EPS;
-    if (together) out[out.length - 1]!.push(...g);
-    else {
-      at.push(cuts[j - 1]!);
-      out.push([...g]);
-    }
-  }
-  return { groups: out, cuts: at };
-}
-
 interface Candidate {
   o: O;
   sim: Sim;
@@ -325,11 +283,8 @@ const placedOf = (f: Foam, o: O): Vec3 => {
 /** The axis standing up: machine Y for a horizontal wire, the wire itself for a vertical one. */
 const upAxis = (o: O, horizontal: boolean) => (horizontal ? o[2] : o[1]);
 
-/**
- * The placements of `foam` worth comparing: each orientation that fits, cutting as far as it can or
- * deferring groups, and (with `merge`) keeping neighbouring groups that need a later step together.
- */
-function options(foam: Foam, ctx: Ctx, m: Machine, merge: boolean): { o: O; k: number; sim: Sim }[] {
+/** The placements of `foam` worth comparing: each orientation that fits, cutting as far as it can or deferring groups. */
+function options(foam: Foam, ctx: Ctx, m: Machine): { o: O; k: number; sim: Sim }[] {
   const out: { o: O; k: number; sim: Sim }[] = [];
   ORIENTS.forEach((o, k) => {
     if (placementProblem(m, placedOf(foam, o))) return;
@@ -338,9 +293,6 @@ function options(foam: Foam, ctx: Ctx, m: Machine, merge: boolean): { o: O; k: n
     out.push({ o, k, sim: full });
     const deferred = simulate(foam, o, ctx, true);
     if (deferred.cuts.length !== full.cuts.length) out.push({ o, k, sim: deferred });
-    if (!merge) return;
-    const merged = simulate(foam, o, ctx, false, true);
-    if (merged.cuts.length !== full.cuts.length && merged.cuts.length > 0) out.push({ o, k, sim: merged });
   });
   return out;
 }
@@ -348,8 +300,7 @@ function options(foam: Foam, ctx: Ctx, m: Machine, merge: boolean): { o: O; k: n
 /** Steps a greedy choice (fewest pieces left, then most cuts) needs for `foam`; Infinity when it gets stuck. */
 function rollout(foam: Foam, ctx: Ctx, m: Machine): number {
   let best: Sim | undefined;
-  // Without merged groups: the greedy choice (fewest pieces left) would always take them.
-  for (const { sim } of options(foam, ctx, m, false))
+  for (const { sim } of options(foam, ctx, m))
     if (
       !best ||
       sim.later.length < best.later.length ||
@@ -368,8 +319,7 @@ function choose(foam: Foam, prev: O | null, canTurn: boolean, ctx: Ctx, m: Machi
   const cands: Candidate[] = [];
   const fits = ORIENTS.filter((o) => !placementProblem(m, placedOf(foam, o)));
   const look = foam.idx.length <= LOOKAHEAD_PIECES;
-  // Merged groups only where the steps ahead are counted (a lower bound would always favour them).
-  for (const { o, k, sim } of options(foam, ctx, m, look)) {
+  for (const { o, k, sim } of options(foam, ctx, m)) {
     // Steps in all (or, for big pieces, a lower bound of them: this one and one per piece left).
     const ahead = look ? sim.later.reduce((s, f) => s + rollout(f, ctx, m), 1) : 1 + sim.later.length;
     const same = prev?.every((v, i) => v === o[i]) ?? false;

@@ -218,30 +218,6 @@ export function planSlabs(
 }
 
 /**
- * Each blank of a slab as a slab of its own, its sections moved to the blank's corner. The block
- * cutter frees every blank of a box-nested layer; laid on the profile cutter alone, a part walled in
- * by its neighbours in the layer gets a lead-in that crosses no other part.
- *
- *   blankSlabs(slab).map((s) => s.parts.length) // → [1, 1, 1] for a slab of three parts
- */
-export function blankSlabs(s: Slab): Slab[] {
-  return s.parts.map((p) => {
-    const [du, dv] = p.blank.min;
-    const move = (sec: Section): Section => ({
-      outer: sec.outer.map(([u, v]) => [u - du, v - dv] as Point),
-      holes: sec.holes.map((h) => h.map(([u, v]) => [u - du, v - dv] as Point)),
-    });
-    const size: Point = [p.blank.max[0] - du, p.blank.max[1] - dv];
-    return {
-      ...s,
-      origin: [s.origin[0] + du, s.origin[1] + dv],
-      size,
-      parts: [{ ...p, root: move(p.root), tip: move(p.tip), blank: { min: [0, 0], max: size } }],
-    };
-  });
-}
-
-/**
  * The placements of one layer split into slabs whose faces (the span of their blanks in the plane
  * axes a, b) are at most `maxFace`: rows first (by b, then a), each into the first slab it still
  * fits. A blank larger than `maxFace` by itself is a slab of its own (its program names the limit).

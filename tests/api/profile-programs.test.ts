@@ -1,11 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
-import { closeTestDb, makeBlock, tableCounts, testDb } from "../support/db";
+import { closeTestDb, tableCounts, testDb } from "../support/db";
 import { makeJob, makeJobPart } from "../support/job-fixtures";
-import { makeDoneRun, makePlannedBlock } from "../support/planning-fixtures";
+import { makePlannedBlock } from "../support/planning-fixtures";
 import { LETTER_O, WING, makeProfilePart, makeProfileRun, profileCutterId } from "../support/profile-fixtures";
 import { machineBody } from "./route-examples";
-import type { Profile } from "@/lib/profiles";
 
 let planner: Client;
 let cutter: Client;
@@ -151,36 +150,6 @@ describe("a plan's profile programs, per slab", () => {
     const none = await planner.get(`/api/runs/${runId}/profile-programs?slab=${encodeURIComponent("HF-0 slab 9")}`);
     expect(none.status).toBe(404);
     expect(none.body.error).toMatch(/^This plan has no slab “HF-0 slab 9”; its slabs are /);
-  });
-
-  it("cuts each blank on its own when a part of a layer is walled in by the others (no clear lead-in)", async () => {
-    // Nine 100 × 60 plates, 50 thick, fill a block exactly as one 3 × 3 layer (trim 6, kerf 1.5):
-    // as one slab the middle plate has no lead-in that crosses no other part.
-    const jobId = await makeJob();
-    const plate = {
-      kind: "polygon",
-      points: [
-        [0, 0],
-        [100, 0],
-        [100, 60],
-        [0, 60],
-      ],
-      extrudeMm: 50,
-    } satisfies Profile;
-    await makeProfilePart(jobId, plate, { name: "Plate", quantity: 9, gradeCode: "EPS-II" });
-    const block = await makeBlock({ size: [62, 315, 195], gradeCode: "EPS-II" });
-    const { runId, plan } = await makeDoneRun(jobId, [block]);
-    expect(plan.placements).toHaveLength(9);
-    const list = await cutter.get(`/api/runs/${runId}/profile-programs`);
-    expect(list.status, JSON.stringify(list.body)).toBe(200);
-    const slabs = list.body.slabs as { slab: string; parts: string[]; problem: string | null }[];
-    expect(slabs.map((s) => s.slab)).toEqual(Array.from({ length: 9 }, (_, k) => `${block.code} slab 1-${k + 1}`));
-    expect(slabs.filter((s) => s.problem)).toEqual([]);
-    const g = await planner
-      .get(`/api/runs/${runId}/profile-programs?slab=${encodeURIComponent(`${block.code} slab 1-5`)}`)
-      .buffer(true);
-    expect(g.status).toBe(200);
-    expect((g.text.match(/^\(PART \d+: /gm) ?? []).length).toBe(1);
   });
 
   it("answers 409 for a plan of plain boxes, 403 for a buyer", async () => {

@@ -7,8 +7,7 @@ import type { Plan } from "@/lib/nesting";
 import type { Machine } from "@/lib/planning/machine";
 import { partGeometry, type Point, type Profile } from "@/lib/profiles";
 import { ProgramError, profileProgram } from "@/lib/profiles/program";
-import { blankSlabs, orientation, partSections, planSlabs } from "@/lib/profiles/slabs";
-import { ToolpathError } from "@/lib/profiles/toolpath";
+import { orientation, partSections, planSlabs } from "@/lib/profiles/slabs";
 import { profileCutter } from "../../support/procedure-fixtures";
 
 const cutter = (over: Partial<Machine> = {}, dialect: Partial<Machine["dialect"]> = {}): Machine =>
@@ -110,44 +109,6 @@ describe("slabs of a plan", () => {
     expect(maxU(s.root.outer)).toBeCloseTo(200, 3);
     expect(minU(s.tip.outer)).toBeCloseTo(50, 6);
     expect(maxU(s.tip.outer)).toBeCloseTo(170, 3);
-  });
-});
-
-describe("a layer whose middle part is walled in", () => {
-  // Nine 100 × 60 plates, 50 thick, in a 3 × 3 grid 1.5 mm apart: the middle one touches no face
-  // a lead-in may start from (left, right, top), and every straight lead-in crosses a neighbour.
-  const parts = new Map([["jp-9", { size: [50, 100, 60] as [number, number, number], profile: plate(100, 60, 50) }]]);
-  const plan: Pick<Plan, "placements"> = {
-    placements: Array.from({ length: 9 }, (_, i) => ({
-      part: "jp-9",
-      block: "HF-9",
-      origin: [6, 6 + (i % 3) * 101.5, 6 + Math.floor(i / 3) * 61.5] as [number, number, number],
-      size: [50, 100, 60] as [number, number, number],
-    })),
-  };
-  const input = (s: ReturnType<typeof planSlabs>[number]) => ({
-    title: "grid",
-    size: s.size,
-    thickness: s.along[1] - s.along[0],
-    parts: s.parts.map((p) => ({ name: "Plate", root: p.root, tip: p.tip, tapered: p.tapered })),
-    kerf: 1.5,
-    feed: 250,
-  });
-
-  it("cannot be cut as one slab, and each blank on its own can: blankSlabs", () => {
-    const [slab] = planSlabs(plan, parts);
-    expect(slab!.parts).toHaveLength(9);
-    expect(() => profileProgram(input(slab!), cutter())).toThrow(ToolpathError);
-    const alone = blankSlabs(slab!);
-    expect(alone).toHaveLength(9);
-    for (const [k, s] of alone.entries()) {
-      // Its blank at the slab's corner, the section moved with it, the slab's origin moved the other way.
-      expect(s.size).toEqual([100, 60]);
-      expect(s.parts[0]!.blank).toEqual({ min: [0, 0], max: [100, 60] });
-      expect(s.parts[0]!.root.outer).toEqual(rect(100, 60));
-      expect(s.origin).toEqual([6 + (k % 3) * 101.5, 6 + Math.floor(k / 3) * 61.5]);
-      expect(profileProgram(input(s), cutter()).gcode).toMatch(/PART 1: PLATE/);
-    }
   });
 });
 
