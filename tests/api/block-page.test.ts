@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { client, type Client } from "../support/http";
 import { TEST_PASSWORD, closeTestDb, makeBlock, makeUser, testDb } from "../support/db";
 import { sqlSent } from "../support/statements";
+import { makeBlock as makeChild } from "../support/defect-fixtures";
 
 // The query modules are read here in this process too (to see the SQL they send); outside Next,
 // the "server-only" marker would refuse to load.
@@ -56,39 +57,12 @@ async function busyBlock(moves = 3) {
     width: 640,
     height: 480,
   });
-  const grade = (await testDb()("blocks").where({ id: block.id }).first("grade_id"))!.grade_id;
+  // Two offcuts cut from it, each received through the ledger (the shared fixture).
   for (const [i, size] of [
     [600, 400, 300],
     [500, 300, 200],
-  ].entries()) {
-    const [offcut] = await testDb()("blocks")
-      .insert({
-        code: `${block.code}.${i + 1}`,
-        grade_id: grade,
-        lot: "TEST-LOT",
-        parent_id: block.id,
-        nominal_x: size[0]!,
-        nominal_y: size[1]!,
-        nominal_z: size[2]!,
-        size_x: size[0]!,
-        size_y: size[1]!,
-        size_z: size[2]!,
-        cost: 0,
-        location: "Offcut rack",
-        cut_not_before: "2020-01-01",
-        status: "in_stock",
-      })
-      .returning(["id", "volume_m3"]);
-    // With its movement, so the ledger still agrees with the yard for the tests beside this one.
-    await testDb()("stock_ledger").insert({
-      block_id: offcut!.id,
-      kind: "offcut_created",
-      volume_m3: offcut!.volume_m3!,
-      delta_m3: offcut!.volume_m3!,
-      value: 0,
-      delta_value: 0,
-    });
-  }
+  ].entries())
+    await makeChild({ size: size as [number, number, number], code: `${block.code}.${i + 1}`, parentId: block.id });
   // Movements that change nothing on hand (a reserve and its release), at distinct times.
   for (let i = 0; i < moves; i++)
     await testDb()("stock_ledger").insert({
