@@ -52,6 +52,7 @@ export interface BlocksRow {
   hold_note: string | null;
   held_at: Date | null;
   held_by: string | null;
+  grade_code: string;
 }
 
 export interface BlocksInsert {
@@ -81,6 +82,7 @@ export interface BlocksInsert {
   hold_note?: W<string | null>;
   held_at?: W<Date | string | null>;
   held_by?: W<string | null>;
+  grade_code?: W<string>;
 }
 
 export interface CsvImportsRow {

@@ -84,6 +84,15 @@ async function filtersFor(databaseUrl: string): Promise<[string, string][]> {
       )
     ).rows[0] as { key: string; id: number };
     const deepCursor = Buffer.from(JSON.stringify(["received", row.key, row.id])).toString("base64url");
+    // The same depth sorted by grade (code, then id), as the list orders it.
+    const byGrade = (
+      await k.raw(
+        `SELECT g.code AS key, b.id FROM blocks b JOIN grades g ON g.id = b.grade_id
+          WHERE b.status IN ('in_stock','earmarked','on_hold') ORDER BY g.code, b.id OFFSET ? LIMIT 1`,
+        [599 * 50 - 1],
+      )
+    ).rows[0] as { key: string; id: number };
+    const deepGrade = Buffer.from(JSON.stringify(["grade", byGrade.key, byGrade.id])).toString("base64url");
     return [
       ["default (available, by received)", ""],
       ["status ready", "status=ready"],
@@ -93,6 +102,9 @@ async function filtersFor(databaseUrl: string): Promise<[string, string][]> {
       ["sort by volume, desc", "sort=volume&dir=desc"],
       ["deep page by offset (page 600)", "page=600"],
       ["deep page by keyset (page 600)", `page=600&after=${deepCursor}`],
+      ["sort by grade", "sort=grade"],
+      ["deep page by offset, sorted by grade (page 600)", "sort=grade&page=600"],
+      ["deep page by keyset, sorted by grade (page 600)", `sort=grade&page=600&after=${deepGrade}`],
       ["ready + grade + volume sort", `status=ready&grade=${grade}&sort=volume&dir=desc`],
       ["all statuses, 200 per page", "status=all&pageSize=200"],
     ];

@@ -193,7 +193,7 @@ function applyFilters(q: Knex.QueryBuilder, f: BlockQuery, today: string) {
 
 const SORT_COLUMNS: Record<BlockQuery["sort"], string> = {
   code: "b.code",
-  grade: "g.code",
+  grade: "b.grade_code",
   volume: "b.volume_m3",
   cut_not_before: "b.cut_not_before",
   received: "b.created_at",
@@ -262,11 +262,7 @@ export async function listBlocks(f: BlockQuery, today = isoDate()): Promise<Bloc
   // The page's ids from the narrow index (or a sort of narrow rows, for a column without one), then
   // the full rows of those ids only, in the same statement: a deep page does not build (or count
   // the defects of) any row it skips. One row more than the page tells whether there is a page beyond.
-  const ids = applyFilters(
-    f.sort === "grade" ? k("blocks as b").join("grades as g", "g.id", "b.grade_id") : k("blocks as b"),
-    f,
-    today,
-  )
+  const ids = applyFilters(k("blocks as b"), f, today)
     .select("b.id")
     .orderBy(col, dir)
     .orderBy("b.id", dir)

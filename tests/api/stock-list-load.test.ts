@@ -120,6 +120,71 @@ describe("stock list under load: one statement per page, totals kept until stock
   });
 });
 
+describe("the stock list sorted by grade, page by page", () => {
+  it("walks every page by keyset in grade code then id order, and follows a grade's new code or a block's new grade", async () => {
+    const k = testDb();
+    const stamp = `GS${Date.now().toString(36).toUpperCase()}`;
+    const location = `Grade sort bay ${stamp}`;
+    // Grades of the test's own (blocks of a demo grade would lift it over its reorder point for
+    // the buyer's tests); "-M" is renamed below.
+    const grade = async (suffix: string) =>
+      (
+        await k("grades")
+          .insert({ code: `${stamp}-${suffix}`, material: "EPS", grade_system: "shop", grade: `test ${suffix}` })
+          .returning(["id", "code"])
+      )[0]!;
+    const [b, m, x] = [await grade("B"), await grade("M"), await grade("X")];
+    const blocks: { id: number; code: string }[] = [];
+    for (const g of [x, m, b, m, x, b, m]) blocks.push(await makeBlock({ location, gradeCode: g.code }));
+    const codesOf = (...i: number[]) => i.map((n) => blocks[n]!.code);
+    const f = blockQuerySchema.parse({ status: "all", location, sort: "grade", pageSize: 2 });
+    /** Every page of the filter by keyset (forwards), and by offset: the codes in order. */
+    const walk = async (dir: "asc" | "desc") => {
+      const keyset: string[] = [];
+      let page = await listBlocks({ ...f, dir });
+      keyset.push(...page.items.map((r) => r.code));
+      while (page.next) {
+        page = await listBlocks({ ...f, dir, after: page.next });
+        keyset.push(...page.items.map((r) => r.code));
+      }
+      const offset: string[] = [];
+      for (let p = 1; p <= 4; p++) offset.push(...(await listBlocks({ ...f, dir, page: p })).items.map((r) => r.code));
+      return { keyset, offset };
+    };
+    /** The order read straight from the grades table (the join the list made before): code, then id. */
+    const joined = async (dir: "asc" | "desc") =>
+      (
+        await k("blocks as b")
+          .join("grades as g", "g.id", "b.grade_id")
+          .where("b.location", location)
+          .orderBy([
+            { column: "g.code", order: dir },
+            { column: "b.id", order: dir },
+          ])
+          .select("b.code")
+      ).map((r) => r.code as string);
+    for (const dir of ["asc", "desc"] as const) {
+      const { keyset, offset } = await walk(dir);
+      expect(keyset).toEqual(await joined(dir));
+      expect(offset).toEqual(keyset);
+    }
+    expect((await walk("asc")).keyset).toEqual(codesOf(2, 5, 1, 3, 6, 0, 4));
+    // "-M" renamed "-Z": its three blocks move from the middle to the end.
+    await k("grades")
+      .where({ id: m.id })
+      .update({ code: `${stamp}-Z` });
+    expect((await walk("asc")).keyset).toEqual(codesOf(2, 5, 0, 4, 1, 3, 6));
+    // A block moved to another grade sorts with it.
+    await k("blocks").where({ id: blocks[0]!.id }).update({ grade_id: m.id });
+    const moved = await walk("asc");
+    expect(moved.keyset).toEqual(codesOf(2, 5, 4, 0, 1, 3, 6));
+    expect(moved.keyset).toEqual(await joined("asc"));
+    // The stored copy cannot drift: written directly, it is set back from the grade.
+    await k("blocks").where({ id: blocks[2]!.id }).update({ grade_code: "AAA" });
+    expect((await k("blocks").where({ id: blocks[2]!.id }).first("grade_code"))!.grade_code).toBe(b.code);
+  });
+});
+
 describe("the plan page's runs of the same job", () => {
   it("are read without any run's problem or plan", async () => {
     const block = await makeBlock({ size: [2000, 1000, 600] });
