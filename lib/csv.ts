@@ -227,6 +227,7 @@ export function cellReader(problems: CsvProblem[], row: number, r: Record<string
         return null;
       }
       if (v.length > (opts.max ?? 200)) add(column, `At most ${opts.max ?? 200} characters.`);
+      if (v.includes("\u0000")) add(column, "Holds a NUL character (code 0), which cannot be stored: remove it.");
       return v;
     },
     /** See `readCsvNumber`: `money` allows unambiguous comma thousands. */

@@ -175,7 +175,30 @@ export async function readJson<T extends z.ZodType>(req: Request, schema: T): Pr
   return parseWith(schema, body);
 }
 
+/** What a field holding a NUL character is told (Postgres cannot store one in text). */
+export const NUL_REFUSED = "Holds a NUL character (code 0), which cannot be stored: remove it.";
+
+/**
+ * The path of every string in `value` that holds a NUL character, as `fieldErrors` names paths
+ * ("parts.3.name"), each with `NUL_REFUSED`.
+ * @example nulFields({ parts: [{ name: "ok" }, { name: "a\u0000b" }] }) // → { "parts.1.name": NUL_REFUSED }
+ */
+export function nulFields(value: unknown): Record<string, string> {
+  const out: Record<string, string> = {};
+  const walk = (v: unknown, path: (string | number)[]) => {
+    if (typeof v === "string") {
+      if (v.includes("\u0000")) out[path.length ? path.join(".") : "_"] = NUL_REFUSED;
+    } else if (Array.isArray(v)) v.forEach((x, i) => walk(x, [...path, i]));
+    else if (v && typeof v === "object") for (const [key, x] of Object.entries(v)) walk(x, [...path, key]);
+  };
+  walk(value, []);
+  return out;
+}
+
+/** Checks a value against a zod schema; 400 naming each bad field (and each holding a NUL) otherwise. */
 export function parseWith<T extends z.ZodType>(schema: T, value: unknown): z.infer<T> {
+  const nul = nulFields(value);
+  if (Object.keys(nul).length) throw new HttpError(400, "Some fields need attention.", nul);
   const r = schema.safeParse(value);
   if (r.success) return r.data;
   throw new HttpError(400, "Some fields need attention.", fieldErrors(r.error));

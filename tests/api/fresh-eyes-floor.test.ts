@@ -150,6 +150,43 @@ describe("sizes at the edge of what the forms take", () => {
   });
 });
 
+describe("a NUL character (pasted from a binary file or a badly exported sheet)", () => {
+  const NUL = "Holds a NUL character (code 0), which cannot be stored: remove it.";
+  it("is refused naming the field, the part's row or the CSV cell, and changes nothing", async () => {
+    const jobId = await makeJob();
+    const before = await tableCounts();
+    // A job's name: once a generic "A value cannot be stored…" naming no field.
+    const job = await planner.post("/api/jobs", { name: "Sign\u0000 letters", customer: "Hill\u0000 Co" });
+    expect(job.status).toBe(400);
+    expect(job.body.fields).toEqual({ name: NUL, customer: NUL });
+    // The second of three parts added at once.
+    const part = { quantity: 1, size: [400, 300, 200] };
+    const parts = await planner.post(`/api/jobs/${jobId}/parts`, {
+      parts: [
+        { ...part, name: "Plinth" },
+        { ...part, name: "Plin\u0000th" },
+        { ...part, name: "Cap" },
+      ],
+    });
+    expect(parts.status).toBe(400);
+    expect(parts.body.fields).toEqual({ "parts.1.name": NUL });
+    // A stock filter in the address.
+    const list = await buyer.get("/api/blocks?q=BN%00");
+    expect(list.status).toBe(400);
+    expect(list.body.fields).toEqual({ q: NUL });
+    // A CSV cell: row and column, preview and import alike.
+    for (const commit of ["0", "1"]) {
+      const r = await planner
+        .call("post", `/api/jobs/${jobId}/parts/import?commit=${commit}&name=parts.csv`)
+        .set("Content-Type", "text/csv")
+        .send("name,quantity,length_mm,width_mm,height_mm\nWedge,2,300,100,25\nWed\u0000ge,1,300,100,25\n");
+      expect(r.status).toBe(422);
+      expect(r.body.problems).toEqual([{ row: 3, column: "name", message: NUL }]);
+    }
+    expect(await tableCounts()).toEqual(before);
+  });
+});
+
 describe("at the machine, with fingers and tablets nobody planned for", () => {
   it("a double-tapped step with a reject stores it once; the block can still be finished", async () => {
     const { runId, block, partId, partStep } = await approvedOnePart();
