@@ -60,12 +60,11 @@ export function plural(count: number, one: string, many = `${one}s`): string {
  */
 export function formatMoney(value: number | null | undefined, opts: { whole?: boolean } = {}): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "–";
-  return value.toLocaleString("en", {
-    style: "currency",
-    currency: "USD",
-    ...(opts.whole ? { maximumFractionDigits: 0 } : {}),
-  });
+  return (opts.whole ? WHOLE_DOLLARS : DOLLARS).format(value);
 }
+// Built once (`toLocaleString` with options builds a formatter on every call; a stock page makes hundreds).
+const DOLLARS = new Intl.NumberFormat("en", { style: "currency", currency: "USD" });
+const WHOLE_DOLLARS = new Intl.NumberFormat("en", { style: "currency", currency: "USD", maximumFractionDigits: 0 });
 
 /** A fraction as a percent with one decimal and a thin space before the sign: 0.9123 → "91.2 %". */
 export function formatPercent(fraction: number | null | undefined, digits = 1): string {

@@ -55,9 +55,19 @@ export function formatSize(size: readonly number[], unit: LengthUnit): string {
  *   formatVolume(0.576, { digits: 2, boardFeet: true }) // "0.58 m³ · 244 BF"
  */
 export function formatVolume(m3: number, opts: { digits?: number; boardFeet?: boolean } = {}): string {
-  const d = opts.digits ?? 3;
-  const text = `${m3.toLocaleString("en", { minimumFractionDigits: d, maximumFractionDigits: d })} m³`;
-  return opts.boardFeet ? `${text} · ${Math.round(m3ToBoardFeet(m3)).toLocaleString("en")} BF` : text;
+  const text = `${numberFormat(opts.digits ?? 3).format(m3)} m³`;
+  return opts.boardFeet ? `${text} · ${numberFormat(0).format(Math.round(m3ToBoardFeet(m3)))} BF` : text;
+}
+
+/** One formatter per number of places (`toLocaleString` with options builds a new one on every call). */
+const formats = new Map<number, Intl.NumberFormat>();
+function numberFormat(digits: number): Intl.NumberFormat {
+  let f = formats.get(digits);
+  if (!f) {
+    f = new Intl.NumberFormat("en", { minimumFractionDigits: digits, maximumFractionDigits: digits });
+    formats.set(digits, f);
+  }
+  return f;
 }
 
 function trimZeros(s: string): string {
