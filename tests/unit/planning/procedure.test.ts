@@ -243,6 +243,35 @@ describe("cutting procedure: a 1000 × 600 × 50 slab cut into blanks across its
   });
 });
 
+describe("cutting procedure: 40 slices under a kept offcut", () => {
+  // A 2000 × 1000 × 512 block, trim 6, kerf 1.5: 40 slices 1980 × 980 × 10 stacked from z = 6 every
+  // 11.5 mm (the last ends at 6 + 39 · 11.5 + 10 = 464.5), a 1988 × 988 × 40 offcut kept above them
+  // (466 … 506). Only the 1000 mm width fits along the 1350 mm wire for the cuts between slices, and
+  // the slices' 980 mm width needs a cut along it: each slice came off for its own later step
+  // (42 placements, about 19 hours at the machine). Together: 4.
+  const pieces: ProcedurePiece[] = [
+    ...Array.from({ length: 40 }, (_, i) => part(`S${i + 1}`, [6, 6, 6 + 11.5 * i], [1980, 980, 10])),
+    { kind: "offcut", index: 0, origin: [6, 6, 466], size: [1988, 988, 40] },
+  ];
+  const input: ProcedureInput = {
+    blockCode: "HF-2040",
+    size: [2000, 1000, 512],
+    trim: 6,
+    kerf: 1.5,
+    pieces,
+    machine: machine({ wireLength: 1350, travel: [5200, 1300], maxPiece: [5000, 1300, 1250], turntable: true }),
+  };
+
+  it("keeps the slices together for one cut along the wire, then parts them: 4 steps, not one per slice", () => {
+    const p = ok(procedure(input));
+    check(p, input);
+    expect(p.steps.length).toBeLessThanOrEqual(4);
+    // Every cut between two slices is made once, in one step.
+    const between = p.steps.filter((s) => s.next.filter((x) => x.what.kind === "part").length === 40);
+    expect(between).toHaveLength(1);
+  });
+});
+
 describe("cutting procedure: edge cases", () => {
   it("labels pieces A…Z, AA, AB…", () => {
     expect([0, 1, 25, 26, 27, 51, 52, 701, 702].map(pieceLabel)).toEqual([
