@@ -37,14 +37,27 @@ export const kgM3ToLbFt3 = (kgm3: number) => kgm3 / KG_M3_PER_LB_FT3;
 /** Pressure (compressive resistance) in psi as kPa. */
 export const psiToKpa = (psi: number) => psi * KPA_PER_PSI;
 
+/** A length in `unit` without the unit's name: millimetres to 0.1, inches to 0.01 (trailing zeros dropped). */
+export function lengthNumber(mm: number, unit: LengthUnit): string {
+  return unit === "in" ? trimZeros(mmToIn(mm).toFixed(2)) : trimZeros(mm.toFixed(1));
+}
+
 export function formatLength(mm: number, unit: LengthUnit): string {
-  if (unit === "in") return `${trimZeros(mmToIn(mm).toFixed(2))} in`;
-  return `${trimZeros(mm.toFixed(1))} mm`;
+  return `${lengthNumber(mm, unit)} ${unit}`;
 }
 
 export function formatSize(size: readonly number[], unit: LengthUnit): string {
-  const parts = size.map((v) => (unit === "in" ? trimZeros(mmToIn(v).toFixed(2)) : trimZeros(v.toFixed(1))));
-  return `${parts.join(" × ")} ${unit}`;
+  return `${size.map((v) => lengthNumber(v, unit)).join(" × ")} ${unit}`;
+}
+
+/**
+ * A size at the machine: always in millimetres (the machines are driven in mm and the steps'
+ * positions are in mm), with the inches beside it for someone who reads inches.
+ *   formatMachineSize([1000, 500, 254], "in") // "1000 × 500 × 254 mm (39.37 × 19.69 × 10 in)"
+ */
+export function formatMachineSize(size: readonly number[], unit: LengthUnit): string {
+  const mm = formatSize(size, "mm");
+  return unit === "in" ? `${mm} (${formatSize(size, "in")})` : mm;
 }
 
 /**

@@ -12,8 +12,7 @@ import { BUDGET_S, type RunSettings, secondsToMs } from "@/lib/validations/runs"
 import { formatDate, plural } from "@/lib/format";
 import type { Candidate } from "@/db/queries/run-plan";
 import { leftOutLine, type LeftOut } from "@/lib/planning/usable";
-import { formatVolume } from "@/lib/units";
-import { dims, mm } from "@/lib/planning/machine";
+import { formatLength, formatSize, formatVolume, lengthToMm, lengthNumber, mmToIn, type LengthUnit } from "@/lib/units";
 
 /** Choose the stock (proposed: ready, right grade, oldest first) and the settings, then start. */
 export function NewRunForm({
@@ -23,6 +22,7 @@ export function NewRunForm({
   defaults,
   machines,
   slabCutter = null,
+  unit = "mm",
 }: {
   jobIds: number[];
   candidates: Candidate[];
@@ -33,7 +33,18 @@ export function NewRunForm({
   machines: { id: number; name: string }[];
   /** The profile cutter true-shape slabs are sized for, with its largest slab [thickness, across, up] mm; null: none. */
   slabCutter?: { name: string; slabMax: [number, number, number] } | null;
+  /** The person's length unit: sizes are shown and lengths typed in it (the run keeps millimetres). */
+  unit?: LengthUnit;
 }) {
+  // A length field shows the default in the person's unit (inches to 0.0001); left as shown, the
+  // default goes back in millimetres exactly (no drift from converting there and back).
+  const shown = (mm: number) => (unit === "in" ? String(Math.round(mmToIn(mm) * 10_000) / 10_000) : String(mm));
+  const lengthField = (fd: FormData, name: string, mm: number): number | null => {
+    const raw = fd.get(name);
+    if (String(raw ?? "").trim() === shown(mm)) return mm;
+    const n = num(raw);
+    return n === null ? null : lengthToMm(n, unit);
+  };
   const router = useRouter();
   const [chosen, setChosen] = useState<Set<number>>(new Set(candidates.map((c) => c.id)));
   const { busy, fields, message, submit } = useSubmit();
@@ -58,10 +69,10 @@ export function NewRunForm({
               blockIds: [...chosen],
               machineId: fd.get("machineId") ? Number(fd.get("machineId")) : null,
               settings: {
-                kerf: num(fd.get("kerf")),
-                trim: num(fd.get("trim")),
-                defectMargin: num(fd.get("defectMargin")),
-                minOffcut: [num(fd.get("mo0")), num(fd.get("mo1")), num(fd.get("mo2"))],
+                kerf: lengthField(fd, "kerf", defaults.kerf),
+                trim: lengthField(fd, "trim", defaults.trim),
+                defectMargin: lengthField(fd, "defectMargin", defaults.defectMargin),
+                minOffcut: [0, 1, 2].map((i) => lengthField(fd, `mo${i}`, defaults.minOffcut[i]!)),
                 layout: fd.get("layout"),
                 // Typed in seconds; the API keeps milliseconds.
                 timeLimitMs: secondsToMs(num(fd.get("timeBudgetS"))),
@@ -95,7 +106,7 @@ export function NewRunForm({
                   </th>
                   <th className="px-3 py-2">Code</th>
                   <th className="px-3 py-2">Grade</th>
-                  <th className="whitespace-nowrap px-3 py-2">Size (mm)</th>
+                  <th className="whitespace-nowrap px-3 py-2">Size ({unit})</th>
                   <th className="px-3 py-2 text-right">m³</th>
                   <th className="px-3 py-2">Since</th>
                   <th className="px-3 py-2">Location</th>
@@ -122,7 +133,9 @@ export function NewRunForm({
                       {c.isOffcut && <span className="ml-1 text-xs text-ink-faint">offcut</span>}
                     </td>
                     <td className="px-3 py-1">{c.gradeCode}</td>
-                    <td className="whitespace-nowrap px-3 py-1 tabular-nums">{c.size.join(" × ")}</td>
+                    <td className="whitespace-nowrap px-3 py-1 tabular-nums">
+                      {c.size.map((v) => lengthNumber(v, unit)).join(" × ")}
+                    </td>
                     <td className="px-3 py-1 text-right tabular-nums">{c.volumeM3.toFixed(3)}</td>
                     <td className="whitespace-nowrap px-3 py-1 tabular-nums">{formatDate(c.since)}</td>
                     <td className="px-3 py-1">{c.location}</td>
@@ -164,14 +177,14 @@ export function NewRunForm({
       </Card>
       <Card title="Settings for this run (from the shop defaults)">
         <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-          <Field label="Kerf (mm)" name="kerf" error={fields["settings.kerf"]}>
-            <Input name="kerf" inputMode="decimal" defaultValue={defaults.kerf} />
+          <Field label={`Kerf (${unit})`} name="kerf" error={fields["settings.kerf"]}>
+            <Input name="kerf" inputMode="decimal" defaultValue={shown(defaults.kerf)} />
           </Field>
-          <Field label="Face trim (mm)" name="trim" error={fields["settings.trim"]}>
-            <Input name="trim" inputMode="decimal" defaultValue={defaults.trim} />
+          <Field label={`Face trim (${unit})`} name="trim" error={fields["settings.trim"]}>
+            <Input name="trim" inputMode="decimal" defaultValue={shown(defaults.trim)} />
           </Field>
-          <Field label="Defect margin (mm)" name="defectMargin" error={fields["settings.defectMargin"]}>
-            <Input name="defectMargin" inputMode="decimal" defaultValue={defaults.defectMargin} />
+          <Field label={`Defect margin (${unit})`} name="defectMargin" error={fields["settings.defectMargin"]}>
+            <Input name="defectMargin" inputMode="decimal" defaultValue={shown(defaults.defectMargin)} />
           </Field>
           <Field
             label="Block cutter"
@@ -195,14 +208,14 @@ export function NewRunForm({
               <option value="free">free (comparison only: may not be cuttable, cannot be approved then)</option>
             </Select>
           </Field>
-          <Field label="Smallest offcut kept: length" name="mo0" error={fields["settings.minOffcut.0"]}>
-            <Input name="mo0" inputMode="decimal" defaultValue={defaults.minOffcut[0]} />
+          <Field label={`Smallest offcut kept: length (${unit})`} name="mo0" error={fields["settings.minOffcut.0"]}>
+            <Input name="mo0" inputMode="decimal" defaultValue={shown(defaults.minOffcut[0]!)} />
           </Field>
-          <Field label="… width" name="mo1" error={fields["settings.minOffcut.1"]}>
-            <Input name="mo1" inputMode="decimal" defaultValue={defaults.minOffcut[1]} />
+          <Field label={`… width (${unit})`} name="mo1" error={fields["settings.minOffcut.1"]}>
+            <Input name="mo1" inputMode="decimal" defaultValue={shown(defaults.minOffcut[1]!)} />
           </Field>
-          <Field label="… height" name="mo2" error={fields["settings.minOffcut.2"]}>
-            <Input name="mo2" inputMode="decimal" defaultValue={defaults.minOffcut[2]} />
+          <Field label={`… height (${unit})`} name="mo2" error={fields["settings.minOffcut.2"]}>
+            <Input name="mo2" inputMode="decimal" defaultValue={shown(defaults.minOffcut[2]!)} />
           </Field>
           <Field
             label="Time budget (seconds)"
@@ -223,7 +236,7 @@ export function NewRunForm({
             </span>
             <span className="block text-sm text-ink-soft" data-testid="slab-cutter">
               {slabCutter
-                ? `Each slab is sized for ${slabCutter.name}: a face of at most ${dims(slabCutter.slabMax.slice(1))} mm (across × up), ${mm(slabCutter.slabMax[0])} mm along the wire.`
+                ? `Each slab is sized for ${slabCutter.name}: a face of at most ${formatSize(slabCutter.slabMax.slice(1), unit)} (across × up), ${formatLength(slabCutter.slabMax[0], unit)} along the wire.`
                 : "The shop has no profile cutter yet: slabs are sized by the blocks alone."}
             </span>
             {fields["settings.trueShape"] && (

@@ -12,6 +12,7 @@
 import { plural } from "@/lib/format";
 import { cutRegions, type RegionCut } from "@/lib/planning/cut-regions";
 import type { Vec3 } from "@/lib/nesting";
+import { formatLength, formatSize, lengthNumber, type LengthUnit } from "@/lib/units";
 
 type V3 = Vec3;
 
@@ -27,6 +28,8 @@ export interface PlanViewProps {
   showLayers?: boolean;
   /** The text list of cuts and parts under the drawings (on by default). */
   facts?: boolean;
+  /** The reader's length unit for the drawing's dimensions and the text list (millimetres by default). */
+  unit?: LengthUnit;
 }
 
 const AX = { x: 0, y: 1, z: 2 } as const;
@@ -210,7 +213,7 @@ function View({
           );
         })}
         <text x={X(W / 2)} y={Y(0) + fs + 4} fontSize={fs} textAnchor="middle" fill="#3d4f54">
-          {Math.round(W)} mm
+          {formatLength(W, props.unit ?? "mm")}
         </text>
         <text
           x={X(0) - 8}
@@ -220,7 +223,7 @@ function View({
           fill="#3d4f54"
           transform={`rotate(-90 ${X(0) - 8} ${Y(H / 2)})`}
         >
-          {Math.round(H)} mm
+          {formatLength(H, props.unit ?? "mm")}
         </text>
       </svg>
     </figure>
@@ -278,7 +281,7 @@ export function PlanView(props: PlanViewProps) {
               return (
                 <View
                   key={key}
-                  title={`Layer ${i + 1}: z ${Math.round(lo!)}–${Math.round(hi!)} mm`}
+                  title={`Layer ${i + 1}: z ${lengthNumber(lo!, props.unit ?? "mm")}–${formatLength(hi!, props.unit ?? "mm")}`}
                   a={0}
                   b={1}
                   props={props}
@@ -318,12 +321,16 @@ export function PlanView(props: PlanViewProps) {
 }
 
 const AXIS_WORDS = { x: "across the length", y: "across the width", z: "across the height" } as const;
-const mm = (v: number) => `${Math.round(v * 10) / 10}`;
-const box = (min: readonly number[], max: readonly number[]) =>
-  `${mm(max[0]! - min[0]!)} × ${mm(max[1]! - min[1]!)} × ${mm(max[2]! - min[2]!)} mm`;
-
 /** The drawings' facts as text: each through cut in order with the piece it splits, and each part. */
 function PlanFacts({ props, regions }: { props: PlanViewProps; regions: RegionCut[] }) {
+  const unit = props.unit ?? "mm";
+  const len = (v: number) => formatLength(v, unit);
+  const at = (v: number) => lengthNumber(v, unit);
+  const box = (min: readonly number[], max: readonly number[]) =>
+    formatSize(
+      [0, 1, 2].map((i) => max[i]! - min[i]!),
+      unit,
+    );
   const cuts = regions.slice(0, LIST_ROWS);
   const parts = props.placements.slice(0, LIST_ROWS);
   return (
@@ -339,9 +346,8 @@ function PlanFacts({ props, regions }: { props: PlanViewProps; regions: RegionCu
             {cuts.map((c) => (
               <li key={c.n}>
                 <span className="font-semibold tabular-nums">{c.n}.</span> {AXIS_WORDS[c.axis]}, wire at{" "}
-                {mm(c.at + props.kerf / 2)} mm from the{" "}
-                {c.axis === "x" ? "left end" : c.axis === "y" ? "front" : "base"}, through the piece{" "}
-                {box(c.region.min, c.region.max)}
+                {len(c.at + props.kerf / 2)} from the {c.axis === "x" ? "left end" : c.axis === "y" ? "front" : "base"},
+                through the piece {box(c.region.min, c.region.max)}
               </li>
             ))}
             {!regions.length && <li>No through cuts: the block is used whole.</li>}
@@ -357,8 +363,8 @@ function PlanFacts({ props, regions }: { props: PlanViewProps; regions: RegionCu
           <ul className="mt-1 space-y-1 text-sm">
             {parts.map((p, i) => (
               <li key={`${p.part}-${i}`}>
-                {props.partName(p.part)}: {mm(p.size[0])} × {mm(p.size[1])} × {mm(p.size[2])} mm at x {mm(p.origin[0])},
-                y {mm(p.origin[1])}, z {mm(p.origin[2])}
+                {props.partName(p.part)}: {formatSize(p.size, unit)} at x {at(p.origin[0])}, y {at(p.origin[1])}, z{" "}
+                {at(p.origin[2])}
               </li>
             ))}
           </ul>
@@ -369,8 +375,7 @@ function PlanFacts({ props, regions }: { props: PlanViewProps; regions: RegionCu
           )}
           {props.offcuts.length > 0 && (
             <p className="mt-2 text-sm">
-              Offcuts kept:{" "}
-              {props.offcuts.map((o) => `${mm(o.size[0])} × ${mm(o.size[1])} × ${mm(o.size[2])} mm`).join("; ")}
+              Offcuts kept: {props.offcuts.map((o) => formatSize(o.size, unit)).join("; ")}
             </p>
           )}
           {props.block.defects.length > 0 && (

@@ -6,9 +6,10 @@ import { useState } from "react";
 import useSWR from "swr";
 import type { BlockSteps } from "@/db/queries/at-the-machine";
 import { ApiError, fetcher, send } from "@/lib/swr/fetcher";
-import { dims, mm } from "@/lib/planning/machine";
+import { mm } from "@/lib/planning/machine";
 import { partIdFromKey } from "@/lib/planning/problem";
 import { expandKeys } from "@/lib/planning/slabs";
+import { formatMachineSize, type LengthUnit } from "@/lib/units";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Notice } from "@/components/ui/card";
 import { StepDrawing, describeNext } from "./step-drawing";
@@ -26,11 +27,14 @@ export function StepRunner({
   initial,
   partNames,
   canCheck,
+  unit = "mm",
 }: {
   runId: number;
   initial: BlockSteps;
   partNames: Record<string, string>;
   canCheck: boolean;
+  /** The person's length unit: sizes get inches beside the millimetres (positions stay in mm). */
+  unit?: LengthUnit;
 }) {
   const router = useRouter();
   const url = `/api/runs/${runId}/blocks/${initial.blockId}/steps`;
@@ -56,7 +60,7 @@ export function StepRunner({
         <ul className="list-disc pl-5">
           {proc.problems.map((p) => (
             <li key={p.piece}>
-              Piece {p.piece} ({dims(p.size)} mm): {p.limit}.
+              Piece {p.piece} ({formatMachineSize(p.size, unit)}): {p.limit}.
             </li>
           ))}
         </ul>
@@ -134,7 +138,7 @@ export function StepRunner({
       <section aria-labelledby={`step-head-${s.code}`} className="space-y-3">
         <h3 id={`step-head-${s.code}`} className="text-lg font-semibold">
           Step {step.n} of {steps.length}: {step.kind === "turn" ? "turn" : "place"} piece {step.piece} ·{" "}
-          {dims(step.size)} mm{" "}
+          {formatMachineSize(step.size, unit)}{" "}
           {isDone && <span className="text-moss">· done{doneBy?.by ? ` by ${doneBy.by}` : ""}</span>}
         </h3>
         <p className="rounded-md bg-paper-sunk p-3">{step.howToPlace}</p>

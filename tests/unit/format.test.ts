@@ -4,7 +4,7 @@ import { createElement } from "react";
 import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it, vi } from "vitest";
 import { formatDate, formatDateTime, formatMoney, formatPercent, formatTime, noun, plural } from "@/lib/format";
-import { formatVolume } from "@/lib/units";
+import { formatMachineSize, formatSize, formatVolume } from "@/lib/units";
 
 vi.mock("next/navigation", () => ({ useRouter: () => ({ push() {}, refresh() {} }) }));
 
@@ -124,6 +124,16 @@ describe("money and percent, written once", () => {
       .filter((f) => !f.endsWith(path.join("lib", "format.ts")))
       .filter((f) => /style:\s*"currency"/.test(fs.readFileSync(f, "utf8")));
     expect(offenders).toEqual([]);
+  });
+});
+
+describe("sizes in the reader's unit", () => {
+  // 1 in = 25.4 mm exactly (the 1959 international yard and pound agreement).
+  it("writes inches to 0.01 and millimetres to 0.1; at the machine millimetres first, inches beside", () => {
+    expect(formatSize([1270, 762, 508], "in")).toBe("50 × 30 × 20 in");
+    expect(formatSize([1.5, 1000.04, 254.05], "mm")).toBe("1.5 × 1000 × 254.1 mm");
+    expect(formatMachineSize([1270, 762, 1.5], "in")).toBe("1270 × 762 × 1.5 mm (50 × 30 × 0.06 in)");
+    expect(formatMachineSize([1270, 762, 508], "mm")).toBe("1270 × 762 × 508 mm");
   });
 });
 

@@ -26,8 +26,8 @@ import { SlabFace } from "@/components/plans/slab-face";
 import { keyNamer, memberList, slabMembers } from "@/lib/planning/slabs";
 import { leftOutLine } from "@/lib/planning/usable";
 import { planProfiles, profileTime } from "@/db/queries/profile-programs";
-import { dims, mm } from "@/lib/planning/machine";
-import { formatVolume } from "@/lib/units";
+import { formatLength, formatSize, formatVolume } from "@/lib/units";
+import { displayUnit } from "@/lib/display";
 import type { Vec3 } from "@/lib/nesting";
 
 export async function generateMetadata({ params }: { params: Promise<{ runId: string }> }): Promise<Metadata> {
@@ -41,13 +41,15 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
   if (!Number.isInteger(id) || id <= 0) notFound();
   const run = await getRun(id);
   if (!run) notFound();
-  const [settings, siblings, owed, steps, profiles] = await Promise.all([
+  const [settings, siblings, owed, steps, profiles, unit] = await Promise.all([
     getShopSettings(),
     listRuns({ jobId: run.jobIds[0], limit: 8 }),
     owedByRun(id, run.plan),
     planSteps(run),
     run.plan ? planProfiles(run) : Promise.resolve(null),
+    displayUnit(user),
   ]);
+  const len = (v: number) => formatLength(v, unit);
   // Profile parts: their slab programs on the shop's profile cutter add to the cut time.
   // A large plan: the figures stored when it finished (the programs are worked out on download).
   const profTime = !profiles
@@ -106,8 +108,8 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
             <span>for {run.jobNames.join(", ")}</span>
             {run.settings.layout ? (
               <span className="text-ink-faint">
-                {run.settings.layout} layout · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · defect margin{" "}
-                {run.settings.defectMargin} mm
+                {run.settings.layout} layout · kerf {len(run.settings.kerf)} · trim {len(run.settings.trim)} · defect
+                margin {len(run.settings.defectMargin)}
               </span>
             ) : (
               <span className="text-ink-faint">recorded history (no plan stored)</span>
@@ -324,7 +326,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                         {b.id}
                       </Link>
                       <span className="text-sm font-normal text-ink-soft">
-                        {b.size.join(" × ")} mm · {b.grade}
+                        {formatSize(b.size, unit)} · {b.grade}
                         {b.offcut && " · offcut"}
                       </span>
                       {status === "cut" && <Badge tone="moss">cut</Badge>}
@@ -411,7 +413,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                         True-shape slabs: the through cuts free each slab whole; the profile cutter then cuts its parts
                         out, each from its own lead-in.
                         {run.problem.settings.slabMax &&
-                          ` Each was sized for the profile cutter: a face of at most ${dims(run.problem.settings.slabMax.slice(1))} mm (across × up), ${mm(run.problem.settings.slabMax[0])} mm along the wire.`}
+                          ` Each was sized for the profile cutter: a face of at most ${formatSize(run.problem.settings.slabMax.slice(1), unit)} (across × up), ${len(run.problem.settings.slabMax[0])} along the wire.`}
                       </p>
                       <ul className="mt-1 space-y-2">
                         {plan.placements
@@ -422,14 +424,15 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                             const label =
                               profiles?.slabs.find((s) => s.slab.block === b.id && s.slab.parts[0]?.placement === i)
                                 ?.label ?? `${b.id} slab ${k + 1}`;
-                            const [t, u, v] = p.slab!.size.map((x) => Math.round(x * 10) / 10);
+                            const [t, u, v] = p.slab!.size;
                             return (
                               <li key={p.part}>
                                 <span className="font-medium">
                                   {label}: {partName(p.part)}
                                 </span>{" "}
                                 <span className="text-ink-soft">
-                                  ({t} mm thick, face {u} × {v} mm) — {memberList(slabMembers(p), partName)}
+                                  ({len(t!)} thick, face {formatSize([u!, v!], unit)}) —{" "}
+                                  {memberList(slabMembers(p), partName)}
                                 </span>
                                 <details className="mt-1" open={k < 4}>
                                   <summary className="cursor-pointer text-sm text-ink-soft">Face drawing</summary>
@@ -471,6 +474,7 @@ export default async function RunPage({ params }: { params: Promise<{ runId: str
                     kerf={run.settings.kerf}
                     trim={b.trim}
                     partName={partName}
+                    unit={unit}
                   />
                 </Card>
               );

@@ -10,6 +10,7 @@ import { JOB_STATUS_LABELS } from "@/lib/job-terms";
 import { Card, Notice, PageHeader } from "@/components/ui/card";
 import { buttonClass } from "@/components/ui/button";
 import { NewRunForm } from "@/components/plans/new-run-form";
+import { displayUnit } from "@/lib/display";
 
 export const metadata: Metadata = { title: "New plan" };
 
@@ -34,7 +35,7 @@ export default async function NewPlanPage({
 }: {
   searchParams: Promise<{ jobs?: string; job?: string | string[]; q?: string }>;
 }) {
-  await requirePage("/plans/new");
+  const user = await requirePage("/plans/new");
   const sp = await searchParams;
   const jobIds = chosenJobs(sp);
   if (!jobIds.length) {
@@ -126,6 +127,7 @@ export default async function NewPlanPage({
         leftOut={stock.leftOut}
         machines={machines.filter((m) => m.kind === "block").map((m) => ({ id: m.id, name: m.name }))}
         slabCutter={profileCutter ? { name: profileCutter.name, slabMax: slabMaxFor(profileCutter) } : null}
+        unit={await displayUnit(user)}
         defaults={{
           kerf: s.kerf,
           trim: s.trim,

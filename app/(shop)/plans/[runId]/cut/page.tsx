@@ -16,11 +16,15 @@ import { StepRunner } from "@/components/plans/step-runner";
 import { blockSteps } from "@/db/queries/at-the-machine";
 import { UNDO_MINUTES } from "@/db/queries/cuts";
 import { UndoCut } from "@/components/plans/undo-cut";
+import { displayUnit } from "@/lib/display";
+import { formatMachineSize } from "@/lib/units";
 
 export const metadata: Metadata = { title: "At the machine" };
 
 export default async function AtTheMachinePage({ params }: { params: Promise<{ runId: string }> }) {
-  await requirePage("/plans/[runId]/cut");
+  const user = await requirePage("/plans/[runId]/cut");
+  // Sizes in millimetres (the machine's unit), with inches beside them for someone who reads inches.
+  const unit = await displayUnit(user);
   await connection(); // the undo window depends on the clock: render on each request
   const id = Number((await params).runId);
   const run = Number.isInteger(id) && id > 0 ? await getRun(id) : undefined;
@@ -57,6 +61,11 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
       />
       <div className="space-y-5">
         <HotWireCaution />
+        {unit === "in" && (
+          <p className="text-sm text-ink-soft">
+            Sizes are given in inches too; every position stays in millimetres, as the machines are driven.
+          </p>
+        )}
         {run.status !== "approved" && (
           <Notice tone="caution">
             This plan is {run.status === "closed" ? "fully cut" : "not approved"}: nothing to record here.
@@ -71,8 +80,8 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
             <Card
               key={b.id}
               title={
-                <span className="flex items-center gap-2">
-                  {b.code}{" "}
+                <span className="flex flex-wrap items-center gap-2">
+                  {b.code} <span className="text-sm font-normal text-ink-soft">{formatMachineSize(pb.size, unit)}</span>
                   {b.planStatus === "cut" ? (
                     <Badge tone="moss">cut</Badge>
                   ) : b.planStatus === "released" ? (
@@ -96,6 +105,7 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
                     initial={stepsOf.get(b.id)!}
                     partNames={partNames}
                     canCheck={run.status === "approved"}
+                    unit={unit}
                   />
                 )}
                 <details className="rounded-md border border-bead p-3" open={!stepsOf.get(b.id)}>

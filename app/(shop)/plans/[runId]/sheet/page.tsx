@@ -17,16 +17,20 @@ import { piecesOf, stuckPieces } from "@/lib/planning/cut-regions";
 import { NotCuttable } from "@/components/plans/not-cuttable";
 import { keyNamer, memberList, slabIndex } from "@/lib/planning/slabs";
 import { cutRuns, groupPlacements } from "@/lib/planning/sheet";
+import { displayUnit } from "@/lib/display";
+import { formatMachineSize } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Cut sheet" };
 
 /** Millimetres as a cutter reads them: a tenth at most, no float noise. */
 const mm = (v: number) => String(Math.round(v * 10) / 10);
-const dims = (v: readonly number[]) => v.map(mm).join(" × ");
 
 /** The printable cut sheet: per block, the through cuts in order, the parts, and labels for the offcuts it will make. */
 export default async function CutSheetPage({ params }: { params: Promise<{ runId: string }> }) {
-  await requirePage("/plans/[runId]/sheet");
+  const user = await requirePage("/plans/[runId]/sheet");
+  // Sizes in millimetres (the machine's unit), with inches beside them for someone who reads inches.
+  const unit = await displayUnit(user);
+  const size = (v: readonly number[]) => formatMachineSize(v, unit);
   const id = Number((await params).runId);
   const run = Number.isInteger(id) && id > 0 ? await getRun(id) : undefined;
   if (!run?.plan) notFound();
@@ -80,6 +84,11 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
             {run.jobNames.join(", ")} · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · feed{" "}
             {settings.feedMmPerMin} mm/min
           </p>
+          {unit === "in" && (
+            <p className="text-sm text-ink-soft">
+              Sizes are given in inches too; every position stays in millimetres, as the machines are driven.
+            </p>
+          )}
         </div>
         <PrintButton label="Print cut sheet" />
       </div>
@@ -100,14 +109,14 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
             <h2>
               Block {b.id}{" "}
               <span className="text-sm font-normal text-ink-soft">
-                {dims(b.size)} mm · {b.grade}
+                {size(b.size)} · {b.grade}
                 {b.offcut ? " · offcut (faces clean)" : ` · trim ${run.settings.trim} mm each face first`}
               </span>
             </h2>
             {stuck > 0 && <NotCuttable count={stuck} />}
             {proc && !proc.ok && (
               <Notice tone="danger" title={`Not on ${machineSteps.machine.name}`}>
-                {proc.problems.map((p) => `Piece ${p.piece} (${dims(p.size)} mm): ${p.limit}.`).join(" ")}
+                {proc.problems.map((p) => `Piece ${p.piece} (${size(p.size)}): ${p.limit}.`).join(" ")}
               </Notice>
             )}
             {proc?.ok && proc.steps.length > 0 && (
@@ -122,7 +131,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                   {proc.steps.map((s) => (
                     <li key={s.n} className="break-inside-avoid space-y-2 rounded border border-bead p-2 text-sm">
                       <p className="font-semibold">
-                        Step {s.n}: {s.kind === "turn" ? "turn" : "place"} piece {s.piece} · {dims(s.size)} mm
+                        Step {s.n}: {s.kind === "turn" ? "turn" : "place"} piece {s.piece} · {size(s.size)}
                       </p>
                       <p>{s.howToPlace}</p>
                       <div className="max-w-sm [&_svg]:max-h-56">
@@ -191,7 +200,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                     <tr className="text-left [&>th]:pr-4 [&>th]:font-medium">
                       <th>Part</th>
                       <th className="text-right">Count</th>
-                      <th>Size (mm)</th>
+                      <th>Size</th>
                       <th>At (x, y, z mm)</th>
                     </tr>
                   </thead>
@@ -207,7 +216,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                           )}
                         </td>
                         <td className="text-right tabular-nums">{l.count}</td>
-                        <td className="whitespace-nowrap">{dims(l.size)}</td>
+                        <td className={unit === "in" ? "" : "whitespace-nowrap"}>{size(l.size)}</td>
                         <td>
                           {l.origins
                             .slice(0, 4)
@@ -247,7 +256,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
                       <div className="size-20 shrink-0" dangerouslySetInnerHTML={{ __html: l.svg }} />
                       <div className="text-sm">
                         <p className="text-lg font-bold">{l.code}</p>
-                        <p>{dims(l.size)} mm</p>
+                        <p>{size(l.size)}</p>
                         <p>
                           {b.grade} · offcut of {b.id}
                         </p>
