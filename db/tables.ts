@@ -536,6 +536,7 @@ export interface PlanBlockStepsRow {
   done_by: string | null;
   done_at: Date;
   rejects: { jobPartId: number; count: number; reason: string }[];
+  request_ids: string[];
 }
 
 export interface PlanBlockStepsInsert {
@@ -545,6 +546,7 @@ export interface PlanBlockStepsInsert {
   done_by?: W<string | null>;
   done_at?: W<Date | string>;
   rejects?: W<string>;
+  request_ids?: W<string[]>;
 }
 
 export interface PlanBlocksRow {

@@ -2,7 +2,7 @@
 
 import { noun } from "@/lib/format";
 import { useRouter } from "next/navigation";
-import { useState } from "react";
+import { useRef, useState } from "react";
 import useSWR from "swr";
 import type { BlockSteps } from "@/db/queries/at-the-machine";
 import { ApiError, fetcher, send } from "@/lib/swr/fetcher";
@@ -52,6 +52,9 @@ export function StepRunner({
   const [rejectPart, setRejectPart] = useState("");
   const [rejectCount, setRejectCount] = useState("1");
   const [rejectReason, setRejectReason] = useState("");
+  // The check being sent and its id: sent again unchanged (its answer was lost), it keeps the id,
+  // so the server does not add its rejects twice.
+  const attempt = useRef<{ key: string; id: string } | null>(null);
   const partName = (k: string) => partNames[k] ?? k;
 
   if (!proc.ok) {
@@ -78,11 +81,15 @@ export function StepRunner({
   const check = async (done: boolean) => {
     setBusy(true);
     setError(null);
+    const payload = { done, rejects: done ? rejects : [] };
+    const key = JSON.stringify([step.n, payload]);
+    if (attempt.current?.key !== key) attempt.current = { key, id: requestId() };
     try {
       await send(`/api/runs/${runId}/blocks/${s.blockId}/steps/${step.n}`, "PUT", {
-        done,
-        rejects: done ? rejects : [],
+        ...payload,
+        requestId: attempt.current.id,
       });
+      attempt.current = null;
       setRejects([]);
       await mutate();
       router.refresh(); // the finish form beside offers part-cut recording once steps are done
@@ -304,4 +311,10 @@ export function StepRunner({
       </section>
     </div>
   );
+}
+
+/** A random id for one check (crypto.randomUUID needs https; a shop's tablets may reach the app over plain http). */
+function requestId(): string {
+  const bytes = crypto.getRandomValues(new Uint8Array(16));
+  return Array.from(bytes, (b) => b.toString(16).padStart(2, "0")).join("");
 }

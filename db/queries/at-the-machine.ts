@@ -107,6 +107,7 @@ export async function setStepDone(
   done: boolean,
   actorId: string,
   rejects: { jobPartId: number; count: number; reason: string }[] = [],
+  requestId?: string,
 ): Promise<void> {
   if (run.status !== "approved") throw new HttpError(409, "Only the steps of an approved plan are checked off.");
   const steps = await blockSteps(run, blockId);
@@ -138,10 +139,14 @@ export async function setStepDone(
           : `${steps.code} was released from this plan.`,
       );
     const stored = done
-      ? ((await trx("plan_block_steps").where({ run_id: run.id, block_id: blockId, step }).first("rejects")) as
-          | { rejects: { jobPartId: number; count: number }[] }
+      ? ((await trx("plan_block_steps")
+          .where({ run_id: run.id, block_id: blockId, step })
+          .first("rejects", "request_ids")) as
+          | { rejects: { jobPartId: number; count: number }[]; request_ids: string[] }
           | undefined)
       : undefined;
+    // The same check sent again (its answer was lost on the way back): already stored, nothing to add.
+    if (requestId && stored?.request_ids.includes(requestId)) return;
     const fields: Record<string, string> = {};
     const kept = new Map<number, number>();
     for (const r of stored?.rejects ?? []) kept.set(r.jobPartId, (kept.get(r.jobPartId) ?? 0) + r.count);
@@ -159,11 +164,22 @@ export async function setStepDone(
     if (Object.keys(fields).length) throw new HttpError(400, "Some rejects need attention.", fields);
     if (done) {
       const insert = trx("plan_block_steps")
-        .insert({ run_id: run.id, block_id: blockId, step, done_by: actorId, rejects: JSON.stringify(rejects) })
+        .insert({
+          run_id: run.id,
+          block_id: blockId,
+          step,
+          done_by: actorId,
+          rejects: JSON.stringify(rejects),
+          request_ids: requestId ? [requestId] : [],
+        })
         .onConflict(["run_id", "block_id", "step"]);
-      // Checked again: the first check stands; rejects sent with it are added to the step's.
+      // Checked again: the first check stands; rejects sent with it are added to the step's (once
+      // per request id).
       await (rejects.length
-        ? insert.merge({ rejects: trx.raw("plan_block_steps.rejects || excluded.rejects") })
+        ? insert.merge({
+            rejects: trx.raw("plan_block_steps.rejects || excluded.rejects"),
+            request_ids: trx.raw("plan_block_steps.request_ids || excluded.request_ids"),
+          })
         : insert.ignore());
     } else await trx("plan_block_steps").where({ run_id: run.id, block_id: blockId, step }).delete();
   });

@@ -214,6 +214,47 @@ describe("at the machine, with fingers and tablets nobody planned for", () => {
     expect(await ledgerGap()).toEqual({ m3: expect.closeTo(0, 6), value: expect.closeTo(0, 2) });
   });
 
+  it("a check sent again with its request id (its answer lost) adds its rejects once; a new check adds them", async () => {
+    // Four slabs of one part stacked in the block: one step frees several of them.
+    const block = await makeBlock({ size: [1200, 1000, 600] });
+    const { jobId, partIds } = await makeJobWithParts([
+      { name: "Stacked slab", quantity: 4, size: [1180, 980, 120], gradeCode: "EPS-II" },
+    ]);
+    const { runId } = await makeDoneRun(jobId, [block]);
+    expect((await planner.post(`/api/runs/${runId}/approve`)).status).toBe(200);
+    const steps = (await cutter.get(`/api/runs/${runId}/blocks/${block.id}/steps`)).body.procedure.steps as Step[];
+    const many = steps.find((st) => st.next.filter((n) => n.what.kind === "part").length >= 2);
+    expect(many, "a step that frees two or more of the part").toBeDefined();
+    for (const st of steps.filter((x) => x.n < many!.n))
+      expect((await cutter.put(`/api/runs/${runId}/blocks/${block.id}/steps/${st.n}`, { done: true })).status).toBe(
+        200,
+      );
+    const url = `/api/runs/${runId}/blocks/${block.id}/steps/${many!.n}`;
+    const reject = { done: true, rejects: [{ jobPartId: partIds[0]!, count: 1, reason: "void in the face" }] };
+    const stored = async () => {
+      const row = await testDb()("plan_block_steps")
+        .where({ run_id: runId, block_id: block.id, step: many!.n })
+        .first();
+      return (row?.rejects ?? []).reduce((s: number, r: { count: number }) => s + r.count, 0);
+    };
+    expect((await cutter.put(url, { ...reject, requestId: "check-7f3a-0001" })).status).toBe(200);
+    expect(await stored()).toBe(1);
+    const before = await tableCounts();
+    // The same check again (and from another tablet with the same id): still one reject.
+    for (const who of [cutter, otherTablet])
+      expect((await who.put(url, { ...reject, requestId: "check-7f3a-0001" })).status).toBe(200);
+    expect(await stored()).toBe(1);
+    // A second reject, found afterwards and sent as a check of its own: added.
+    expect((await cutter.put(url, { ...reject, requestId: "check-7f3a-0002" })).status).toBe(200);
+    expect(await stored()).toBe(2);
+    // An id that is not one: refused by field, nothing added.
+    const bad = await cutter.put(url, { ...reject, requestId: "x" });
+    expect(bad.status).toBe(400);
+    expect(Object.keys(bad.body.fields)).toEqual(["requestId"]);
+    expect(await stored()).toBe(2);
+    expect(await tableCounts()).toEqual(before);
+  });
+
   it("a planner cannot release a plan while its block is half cut; a new session records it part-cut instead", async () => {
     const { runId, block, steps } = await approvedOnePart();
     expect(steps.length).toBeGreaterThan(1);

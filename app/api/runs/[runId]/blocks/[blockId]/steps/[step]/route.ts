@@ -19,6 +19,14 @@ const body = z.object({
     )
     .max(100)
     .default([]),
+  /**
+   * The check's own id, the same when the tablet sends it again (its answer was lost): rejects
+   * are then not added twice. Any text of 8 to 100 letters, digits and dashes.
+   */
+  requestId: z
+    .string()
+    .regex(/^[A-Za-z0-9-]{8,100}$/, "requestId: 8 to 100 letters, digits and dashes, the same for a check sent again.")
+    .optional(),
 });
 
 /** Checks a step off at the machine (done: true) or on again (done: false); stored, so work can go on elsewhere. */
@@ -27,8 +35,8 @@ export const PUT = api<P>("PUT /api/runs/[runId]/blocks/[blockId]/steps/[step]",
   if (!run?.plan) throw notFound("That plan");
   const blockId = idParam(params.blockId, "That block");
   const step = idParam(params.step, "That step");
-  const { done, rejects } = await readJson(req, body);
-  await setStepDone(run, blockId, step, done, user.id, rejects);
+  const { done, rejects, requestId } = await readJson(req, body);
+  await setStepDone(run, blockId, step, done, user.id, rejects, requestId);
   const steps = await blockSteps(run, blockId);
   return { done: steps.done };
 });
