@@ -19,6 +19,7 @@ export function NewRunForm({
   jobIds,
   candidates,
   leftOut = [],
+  capped = null,
   defaults,
   machines,
   slabCutter = null,
@@ -28,6 +29,8 @@ export function NewRunForm({
   candidates: Candidate[];
   /** Ready stock of the grades that cannot hold any part still owed, with the reason: not offered. */
   leftOut?: LeftOut[];
+  /** More ready stock than the form offers: how many (the oldest) are, said under the list; null: all are. */
+  capped?: number | null;
   defaults: RunSettings;
   /** Active block cutters; the first is proposed. */
   machines: { id: number; name: string }[];
@@ -145,6 +148,12 @@ export function NewRunForm({
               </tbody>
             </table>
           </div>
+        )}
+        {capped !== null && (
+          <p className="mt-2 text-sm text-ink-soft" data-testid="candidates-capped">
+            Only the {capped} oldest ready blocks of these grades are offered. To plan into newer stock, give the parts
+            their grade, or use up the older stock first.
+          </p>
         )}
         {leftOut.length > 0 && (
           <details className="mt-3 text-sm" data-testid="left-out-stock">

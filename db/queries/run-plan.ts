@@ -107,10 +107,13 @@ export interface Candidate {
  * Only blocks that can hold some part still owed (after the face trim, in a way the part may be
  * turned) are offered; the others are listed in `leftOut`, each with the reason.
  */
+/** Ready blocks a new plan is offered at most, oldest first (the form says when there are more). */
+export const CANDIDATE_LIMIT = 500;
+
 export async function candidateStock(
   jobIds: number[],
   opts: { today?: string; trim?: number } = {},
-): Promise<{ items: Candidate[]; leftOut: LeftOut[] }> {
+): Promise<{ items: Candidate[]; leftOut: LeftOut[]; capped: boolean }> {
   const today = opts.today ?? isoDate();
   const [owed, trim] = await Promise.all([owedParts(db(), jobIds), opts.trim ?? getShopSettings().then((s) => s.trim)]);
   const grades = await db()("job_parts").whereIn("job_id", jobIds).distinct("grade_id").pluck("grade_id");
@@ -137,13 +140,16 @@ export async function candidateStock(
       ),
     )
     .orderByRaw("coalesce(b.moulded_on, b.created_at::date), b.id")
-    .limit(500);
+    .limit(CANDIDATE_LIMIT + 1);
   if (!anyGrade)
     q.whereIn(
       "b.grade_id",
       grades.filter((g): g is number => g !== null),
     );
-  const rows = await q;
+  const found = await q;
+  // One row more than offered says whether there are more.
+  const capped = found.length > CANDIDATE_LIMIT;
+  const rows = found.slice(0, CANDIDATE_LIMIT);
   const all: Candidate[] = rows.map((r: Record<string, unknown>) => ({
     id: r.id as number,
     code: r.code as string,
@@ -163,7 +169,7 @@ export async function candidateStock(
     if (reason) leftOut.push({ id: c.id, code: c.code, reason });
     else items.push(c);
   }
-  return { items, leftOut };
+  return { items, leftOut, capped };
 }
 
 /**

@@ -11,7 +11,7 @@ import type { Browser } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
 import { signedInAs } from "./pages/sign-in";
 import { client } from "../support/http";
-import { TEST_PASSWORD, closeTestDb, makeBlock, makeUser, testDb } from "../support/db";
+import { TEST_PASSWORD, closeTestDb, makeBlock, makeGrade, makeUser, testDb } from "../support/db";
 import { makeDoneRun, makeJobWithParts } from "../support/planning-fixtures";
 
 let browser: Browser;
@@ -26,17 +26,13 @@ afterAll(async () => {
 describe("a planner and cutter who reads inches", () => {
   it("sees inches on the plan page and the new-plan form, and millimetres with inches at the machine", async () => {
     const k = testDb();
-    const stamp = Date.now().toString(36).toUpperCase();
-    // A grade of the test's own: blocks of a demo grade would lift it over its reorder point.
-    const [grade] = await k("grades")
-      .insert({ code: `INCH-${stamp}`, material: "EPS", grade_system: "shop", grade: "test", cure_days: 1 })
-      .returning("code");
+    const grade = await makeGrade("INCH");
     const user = await makeUser(["planner", "cutter"]);
     await k("users").where({ id: user.id }).update({ display_units: "in" });
     // 50 × 30 × 20 in, and parts of 20 × 10 × 5 in.
-    const block = await makeBlock({ size: [1270, 762, 508], gradeCode: grade!.code });
+    const block = await makeBlock({ size: [1270, 762, 508], gradeCode: grade.code });
     const { jobId } = await makeJobWithParts([
-      { name: "Inch plinth", quantity: 2, size: [508, 254, 127], gradeCode: grade!.code },
+      { name: "Inch plinth", quantity: 2, size: [508, 254, 127], gradeCode: grade.code },
     ]);
     const { runId } = await makeDoneRun(jobId, [block]);
 

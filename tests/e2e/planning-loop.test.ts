@@ -3,7 +3,7 @@ import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
 import { signedInPage } from "./pages/sign-in";
 import { JobsPage } from "./pages/jobs";
-import { closeTestDb, makeBlock, testDb } from "../support/db";
+import { closeTestDb, makeBlock, makeGrade, testDb } from "../support/db";
 import { makeJobWithParts, makePinwheelRun } from "../support/planning-fixtures";
 
 let browser: Browser;
@@ -26,13 +26,14 @@ describe("the planner's and the cutter's loop", () => {
     const jobs = new JobsPage(planner);
     await jobs.openList();
     await jobs.createJob(`Foyer letters ${Date.now().toString(36)}`, "Copperleaf Signs", "2026-12-20");
+    const { code: grade } = await makeGrade("FOYER");
     await jobs.importCsv(
       "letters.csv",
       `${[
         "name,quantity,length_mm,width_mm,height_mm,grade,rotate",
-        "Letter O,5,1000,1000,300,EPS-II,z",
-        "Letter K,2,600,480,100,EPS-II,z",
-        "Backing strip,4,1200,80,40,EPS-II,any",
+        `Letter O,5,1000,1000,300,${grade},z`,
+        `Letter K,2,600,480,100,${grade},z`,
+        `Backing strip,4,1200,80,40,${grade},any`,
       ].join("\n")}\n`,
     );
     await jobs.confirmImport();
@@ -40,7 +41,7 @@ describe("the planner's and the cutter's loop", () => {
 
     // Plan it into one fresh block: it holds two of the five big letters, so the search cannot prove
     // it is done early and uses its whole budget (the bar is seen); the room they leave comes back as offcuts.
-    const block = await makeBlock({ size: [2440, 1220, 610], gradeCode: "EPS-II" });
+    const block = await makeBlock({ size: [2440, 1220, 610], gradeCode: grade });
     await planner.getByRole("link", { name: "Plan this job" }).click();
     await planner.waitForURL(/\/plans\/new\?jobs=/);
     await planner.getByRole("button", { name: "None" }).click();

@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
 import { BASE_URL, VIEWPORTS, launch, screenshot } from "./pages/browser";
 import { signedInPage } from "./pages/sign-in";
-import { closeTestDb, makeBlock, testDb } from "../support/db";
+import { closeTestDb, makeBlock, makeGrade, testDb } from "../support/db";
 import { makeJob } from "../support/job-fixtures";
 import { makeProfilePart } from "../support/profile-fixtures";
 import { lProfile } from "../support/shapes";
@@ -32,13 +32,14 @@ const PANEL: Profile = { kind: "naca", code: "0012", chordMm: 200, spanMm: 60 };
 describe("a true-shape plan in the browser", () => {
   it("starts from the form's checkbox, shows the slabs and the comparison, and the cutter sees each slab as one piece", async () => {
     const jobId = await makeJob({ name: `True-shape sign ${Date.now().toString(36)}` });
+    const { code: grade } = await makeGrade("TRUE");
     const parts = [
-      await makeProfilePart(jobId, ELL, { name: "Letter L", quantity: 6, gradeCode: "EPS-II" }),
-      await makeProfilePart(jobId, PANEL, { name: "Wing 0012", quantity: 2, gradeCode: "EPS-II" }),
+      await makeProfilePart(jobId, ELL, { name: "Letter L", quantity: 6, gradeCode: grade }),
+      await makeProfilePart(jobId, PANEL, { name: "Wing 0012", quantity: 2, gradeCode: grade }),
     ];
     // Turnable in the slab's face: upright-only Ls cannot interlock, and no slab would beat their boxes.
     await testDb()("job_parts").whereIn("id", parts).update({ rotate: "any" });
-    const block = await makeBlock({ size: [800, 700, 500], gradeCode: "EPS-II" });
+    const block = await makeBlock({ size: [800, 700, 500], gradeCode: grade });
 
     const planner = await signedIn("planner", VIEWPORTS.wide);
     await planner.goto(`${BASE_URL}/plans/new?jobs=${jobId}`);

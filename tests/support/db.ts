@@ -55,6 +55,20 @@ export async function tableCounts(): Promise<Record<string, number>> {
 let blockSeq = 0;
 
 /** A block in stock (with its "received" ledger row, so ledger totals still reconcile). */
+/**
+ * A grade of the test's own (EPS, cured in a day, no reorder point): stock received in a demo grade
+ * lifts it over its reorder point for the buyer's tests, and parts of a grade are offered only that
+ * grade's blocks (the new-plan form offers the oldest 500 ready blocks, and the suite's database
+ * holds more than that of the demo grades by the end).
+ */
+export async function makeGrade(prefix = "TG"): Promise<{ id: number; code: string }> {
+  const code = `${prefix}-${process.pid}-${Date.now().toString(36)}-${++blockSeq}`.toUpperCase();
+  const [g] = await testDb()("grades")
+    .insert({ code, material: "EPS", grade_system: "shop", grade: "test", cure_days: 1 })
+    .returning(["id", "code"]);
+  return g!;
+}
+
 export async function makeBlock(
   opts: {
     size?: [number, number, number];

@@ -3,7 +3,7 @@ import { slabMaxFor } from "@/lib/planning/machine";
 import type { Metadata } from "next";
 import { requirePage } from "@/lib/auth/guard";
 import { jobNames } from "@/db/queries/runs";
-import { candidateStock } from "@/db/queries/run-plan";
+import { CANDIDATE_LIMIT, candidateStock } from "@/db/queries/run-plan";
 import { getShopSettings } from "@/db/queries/settings";
 import { listJobs } from "@/db/queries/jobs";
 import { JOB_STATUS_LABELS } from "@/lib/job-terms";
@@ -125,6 +125,7 @@ export default async function NewPlanPage({
         jobIds={jobIds}
         candidates={stock.items}
         leftOut={stock.leftOut}
+        capped={stock.capped ? CANDIDATE_LIMIT : null}
         machines={machines.filter((m) => m.kind === "block").map((m) => ({ id: m.id, name: m.name }))}
         slabCutter={profileCutter ? { name: profileCutter.name, slabMax: slabMaxFor(profileCutter) } : null}
         unit={await displayUnit(user)}
