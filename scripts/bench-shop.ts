@@ -13,6 +13,8 @@ import os from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { nestSync, parseProblem, type Plan, type Problem, validatePlan } from "@/lib/nesting";
+import { signedArea } from "@/lib/nesting/irregular/geometry";
+import { occupiedOutline } from "@/lib/nesting/slab";
 import { type Machine, slabMaxFor } from "@/lib/planning/machine";
 import { profileProgram } from "@/lib/profiles/program";
 import { slabProgramInput } from "@/lib/profiles/slab-program";
@@ -139,10 +141,14 @@ export function runShopBench(args: string[]): void {
     ["time", `${(ts.ms / 1000).toFixed(1)} s`, `${(bx.ms / 1000).toFixed(1)} s`],
   ];
   for (const r of rows) console.log(`${r[0]!.padEnd(40)} | ${r[1]!.padStart(22)} | ${r[2]!.padStart(16)}`);
+  // The share of a slab's face its members' occupied outlines fill.
+  const fill = (slab: NonNullable<Plan["placements"][number]["slab"]>) =>
+    slab.members.reduce((a, m) => a + Math.abs(signedArea(occupiedOutline(partsById.get(m.part)!.outline!))), 0) /
+    (slab.size[1] * slab.size[2]);
   for (const s of slabs)
     console.log(
-      `  ${s.part}: ${s.slab!.size.map((v) => v.toFixed(0)).join(" × ")} mm, ${s.slab!.members.length} parts, in ${s.block}` +
-        ` (faces of the lead-ins: ${["top", "right", "left"].map((f) => `${f} ${s.slab!.members.filter((m) => m.leadIn.face === f).length}`).join(", ")})`,
+      `  ${s.part}: ${s.slab!.size.map((v) => v.toFixed(0)).join(" × ")} mm, ${s.slab!.members.length} parts, fill ${(fill(s.slab!) * 100).toFixed(1)} %, in ${s.block}` +
+        ` (faces of the lead-ins: ${["top", "right", "left"].map((f) => `${f} ${s.slab!.members.filter((m) => m.leadIn.face === f && m.leadIn.via === undefined).length}`).join(", ")}; chained through another's kerf ${s.slab!.members.filter((m) => m.leadIn.via !== undefined).length})`,
     );
   console.log(
     `true-shape uses ${less.toFixed(1)} % less foam than box nesting (target ≥ 20 %: ${less >= 20 ? "met" : "NOT met"}); ` +

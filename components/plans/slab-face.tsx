@@ -117,7 +117,8 @@ export function SlabFace({ id, slab, outlines, kerf, partName, facts = true }: S
           {d.members.map((m) => (
             <li key={m.n} className="tabular-nums">
               <span className="font-semibold">{m.n}.</span> {partName(slab.members[m.n - 1]!.part)}
-              {m.rotation ? `, turned ${m.rotation}°` : ""}, lead-in {FACE_WORDS[m.face]}
+              {m.rotation ? `, turned ${m.rotation}°` : ""}, lead-in{" "}
+              {m.via ? `through the cut of ${m.via} (a bridge across the waste)` : FACE_WORDS[m.face]}
               {m.outer ? "" : " (no outline on record)"}
             </li>
           ))}

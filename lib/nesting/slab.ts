@@ -15,6 +15,13 @@
  *   the slab (never the bottom: a horizontal wire cannot come up through the table), from that face
  *   to a point of the wire's path round the part (kerf / 2 outside it). It must keep kerf / 2 from
  *   every other member, so cutting it never touches another part.
+ * - Chained lead-in (`leadIn.via`): a member no face corridor reaches (walled in by others) may be
+ *   entered through an earlier member's kerf: the wire comes in by that member's lead-in, runs along
+ *   its already cut path to `from`, and crosses the waste on a straight bridge, kerf wide, to `to`
+ *   on this member's path, keeping kerf / 2 from every other member; it leaves the same way.
+ *   Running in a kerf the wire has already cut is common practice on hot-wire machines (common
+ *   practice, no source). The host comes earlier in `members` (it is cut first), so a chain always
+ *   ends at a member with a face corridor and has no cycle.
  */
 import { EndType, FillRule, inflatePathsD, JoinType, type PathD, unionD } from "@countertype/clipper2-ts";
 import {
@@ -28,7 +35,18 @@ import {
   winding,
 } from "./irregular/geometry";
 import { intersectionArea, OVERLAP_SHARE, type PlacedOutline } from "./irregular/validate";
-import type { FacePoint, LeadInFace, Part, PartOutline, Problem, Rotate, SlabLayout, SlabMember, Vec3 } from "./types";
+import type {
+  FacePoint,
+  LeadIn,
+  LeadInFace,
+  Part,
+  PartOutline,
+  Problem,
+  Rotate,
+  SlabLayout,
+  SlabMember,
+  Vec3,
+} from "./types";
 
 /** Faces a lead-in may start from, in the order they are tried. */
 export const LEAD_IN_FACES: readonly LeadInFace[] = ["top", "right", "left"];
@@ -283,6 +301,188 @@ export function findLeadIn(
   return null;
 }
 
+/** The point of segment ab nearest to p. */
+function nearestOnSeg(p: FacePoint, a: FacePoint, b: FacePoint): FacePoint {
+  const dx = b[0] - a[0];
+  const dy = b[1] - a[1];
+  const l2 = dx * dx + dy * dy;
+  const t = l2 > 0 ? Math.min(1, Math.max(0, ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / l2)) : 0;
+  return [a[0] + t * dx, a[1] + t * dy];
+}
+
+/** The point of a closed path nearest to p, and its distance. */
+function nearestOnPath(p: FacePoint, path: readonly FacePoint[]): { q: FacePoint; d: number } {
+  let best: FacePoint = path[0]!;
+  let bd = Infinity;
+  for (let i = 0, j = path.length - 1; i < path.length; j = i++) {
+    const q = nearestOnSeg(p, path[j]!, path[i]!);
+    const d = Math.hypot(q[0] - p[0], q[1] - p[1]);
+    if (d < bd) {
+      bd = d;
+      best = q;
+    }
+  }
+  return { q: best, d: bd };
+}
+
+/** Whether a slot from a to b keeps kerf / 2 (and 1 µm) from every member but those in `skip`. */
+function slotClear(
+  members: readonly PlacedMember[],
+  a: FacePoint,
+  b: FacePoint,
+  r: number,
+  skip: readonly number[],
+): boolean {
+  const sb = {
+    minX: Math.min(a[0], b[0]) - r,
+    maxX: Math.max(a[0], b[0]) + r,
+    minY: Math.min(a[1], b[1]) - r,
+    maxY: Math.max(a[1], b[1]) + r,
+  };
+  for (let j = 0; j < members.length; j++) {
+    if (skip.includes(j)) continue;
+    const m = members[j]!;
+    if (m.bb.minX > sb.maxX || m.bb.maxX < sb.minX || m.bb.minY > sb.maxY || m.bb.maxY < sb.minY) continue;
+    if (slotClearance(a, b, m.loop) < r + 1e-3) return false;
+  }
+  return true;
+}
+
+/**
+ * Whether a straight line from p (on the wire's path round a member) leaves the member's box in
+ * one of the four directions without nearing the member: a profile program finds the entry on the
+ * path only from such a line.
+ */
+function seesOut(p: FacePoint, m: PlacedMember, r: number): boolean {
+  const b = m.bb;
+  const rays: [FacePoint, FacePoint][] = [
+    [
+      [p[0] - 0.5, p[1]],
+      [b.minX - r - 1, p[1]],
+    ],
+    [
+      [p[0] + 0.5, p[1]],
+      [b.maxX + r + 1, p[1]],
+    ],
+    [
+      [p[0], p[1] - 0.5],
+      [p[0], b.minY - r - 1],
+    ],
+    [
+      [p[0], p[1] + 0.5],
+      [p[0], b.maxY + r + 1],
+    ],
+  ];
+  return rays.some(
+    ([a, f]) =>
+      (f[0] - a[0]) * (f[0] - p[0]) + (f[1] - a[1]) * (f[1] - p[1]) <= 0 || loopDistance([a, f], m.loop) >= r + 0.05,
+  );
+}
+
+/** Hosts tried per walled-in member (the nearest by their boxes), and points of its path tried per host. */
+const BRIDGE_HOSTS = 6;
+const BRIDGE_POINTS = 96;
+const BRIDGE_TRIES = 16;
+
+/**
+ * A chained lead-in for member `k` that no face corridor reaches: a straight bridge, kerf wide,
+ * from the wire path of one of `hosts` (members already reachable, cut before it) to its own path,
+ * keeping kerf / 2 from every other member and not cutting into either part. The shortest clear
+ * bridge over the nearest hosts; null when none is clear. `paths` caches the members' wire paths.
+ * @example findBridge(members, 3, [0, 1], 1.5, paths) // → { via: 1, from: [212.3, 80.75], to: [212.3, 82.25] }
+ */
+export function findBridge(
+  members: readonly PlacedMember[],
+  k: number,
+  hosts: readonly number[],
+  kerf: number,
+  paths: (FacePoint[] | undefined)[],
+): { via: number; from: FacePoint; to: FacePoint } | null {
+  const r = kerf / 2;
+  const pathOf = (i: number) => {
+    paths[i] ??= wirePath(members[i]!.loop, kerf);
+    return paths[i]!;
+  };
+  const own = members[k]!;
+  const gap = (b: BBox) =>
+    Math.max(0, b.minX - own.bb.maxX, own.bb.minX - b.maxX) + Math.max(0, b.minY - own.bb.maxY, own.bb.minY - b.maxY);
+  const near = [...hosts].sort((a, b) => gap(members[a]!.bb) - gap(members[b]!.bb) || a - b).slice(0, BRIDGE_HOSTS);
+  const ownPath = pathOf(k);
+  const step = Math.max(1, Math.floor(ownPath.length / BRIDGE_POINTS));
+  const cands: { via: number; from: FacePoint; to: FacePoint; len: number }[] = [];
+  for (const j of near) {
+    const hostPath = pathOf(j);
+    const hb = members[j]!.bb;
+    for (let i = 0; i < ownPath.length; i += step) {
+      const to = ownPath[i]!;
+      // A point of the path farther from the host's box than the best so far cannot give a shorter bridge.
+      const dBox = Math.hypot(
+        Math.max(0, hb.minX - to[0], to[0] - hb.maxX),
+        Math.max(0, hb.minY - to[1], to[1] - hb.maxY),
+      );
+      if (dBox > 4 * kerf + 50) continue;
+      const { q, d } = nearestOnPath(to, hostPath);
+      cands.push({ via: j, from: q, to, len: d });
+    }
+  }
+  cands.sort((a, b) => a.len - b.len || a.via - b.via);
+  let tries = 0;
+  for (const c of cands) {
+    if (tries++ >= BRIDGE_TRIES) break;
+    const host = members[c.via]!;
+    if (!seesOut(c.to, own, r)) continue;
+    if (c.len > 1e-9) {
+      if (loopDistance([c.from, c.to], own.loop) < r - LEAD_IN_TOL) continue;
+      if (loopDistance([c.from, c.to], host.loop) < r - LEAD_IN_TOL) continue;
+    }
+    if (!slotClear(members, c.from, c.to, r, [k, c.via])) continue;
+    return { via: c.via, from: c.from, to: c.to };
+  }
+  return null;
+}
+
+/**
+ * Lead-ins for every member of a layout: a face corridor where one is clear, else a chained
+ * lead-in through a member reached before it. Returns the order to cut them in (every host before
+ * the members chained through it) and each member's lead-in with `via` naming its host's place in
+ * that order; `blocked` lists the members neither reaches.
+ * @example leadIns(members, [600, 400], 1.5).blocked // → [] when every member is reachable
+ */
+export function leadIns(
+  members: readonly PlacedMember[],
+  uv: [number, number],
+  kerf: number,
+  chainable: (k: number) => boolean = () => true,
+): { order: number[]; leads: LeadIn[]; blocked: number[] } {
+  const face = members.map((_, k) => findLeadIn(members, k, uv, kerf));
+  const order = face.map((l, k) => (l ? k : -1)).filter((k) => k >= 0);
+  const byMember = new Map<number, LeadIn>(order.map((k) => [k, face[k]!]));
+  let pending = face.map((l, k) => (l ? -1 : k)).filter((k) => k >= 0);
+  const paths: (FacePoint[] | undefined)[] = [];
+  while (pending.length && order.length) {
+    const still: number[] = [];
+    const hosts = order.filter(chainable);
+    for (const k of pending) {
+      const b = chainable(k) && hosts.length ? findBridge(members, k, hosts, kerf, paths) : null;
+      if (!b) {
+        still.push(k);
+        continue;
+      }
+      byMember.set(k, { face: byMember.get(b.via)!.face, to: b.to, via: b.via, from: b.from });
+      order.push(k);
+      hosts.push(k);
+    }
+    if (still.length === pending.length) break;
+    pending = still;
+  }
+  const place = new Map(order.map((k, i) => [k, i]));
+  const leads = order.map((k) => {
+    const l = byMember.get(k)!;
+    return l.via === undefined ? l : { ...l, via: place.get(l.via)! };
+  });
+  return { order, leads, blocked: pending };
+}
+
 /**
  * Places members' occupied loops (for checks and drawings).
  * @example placeMembers(problem, slab)[0].loop // the first member's loop in the slab's face
@@ -370,6 +570,15 @@ export function checkSlab(problem: Problem, slab: SlabLayout, path: string): Sla
     const li = m.leadIn;
     if (!isObj(li) || !LEAD_IN_FACES.includes(li.face) || !Array.isArray(li.to) || !isNum(li.to[0]) || !isNum(li.to[1]))
       fail(k, `leadIn: must be { face: "left" | "right" | "top", to: [u, v] }`);
+    else if (li.via !== undefined || li.from !== undefined) {
+      if (!Number.isInteger(li.via) || li.via! < 0 || li.via! >= k)
+        fail(
+          k,
+          `leadIn.via: must be the index of an earlier member (one cut before this one, 0 to ${k - 1}), not ${JSON.stringify(li.via ?? null)}`,
+        );
+      else if (!Array.isArray(li.from) || !isNum(li.from[0]) || !isNum(li.from[1]))
+        fail(k, "leadIn.from: must be a point [u, v] on the wire's path of the member named by leadIn.via");
+    }
   }
   if (errors.length) return { errors, bad, counts };
 
@@ -434,6 +643,52 @@ export function checkSlab(problem: Problem, slab: SlabLayout, path: string): Sla
       to[1] > V + r + LEAD_IN_TOL
     ) {
       fail(k, "leadIn.to lies outside the slab");
+      continue;
+    }
+    const via = m.leadIn.via;
+    if (via !== undefined) {
+      // A chained lead-in: the bridge from the host's wire path to this member's.
+      const host = placed[via]!;
+      const from = m.leadIn.from!;
+      const dHost = loopDistance([from, from], host.loop);
+      if (
+        dHost > r + LEAD_IN_TOL ||
+        dHost < r - LEAD_IN_TOL ||
+        (dHost > 1e-9 && winding(host.loop, from[0], from[1]) !== 0)
+      ) {
+        fail(
+          k,
+          `leadIn.from ${fmt(from[0])}, ${fmt(from[1])} is ${fmt(dHost)} from members[${via}] (${slab.members[via]!.part}), not on its wire's path (kerf / 2 = ${fmt(r)})`,
+        );
+        continue;
+      }
+      if (m.leadIn.face !== slab.members[via]!.leadIn.face) {
+        fail(
+          k,
+          `leadIn.face: a chained lead-in starts where its host's does (${slab.members[via]!.leadIn.face}), not ${face}`,
+        );
+        continue;
+      }
+      const long = Math.hypot(from[0] - to[0], from[1] - to[1]) > 1e-9;
+      if (long && loopDistance([from, to], own.loop) < r - LEAD_IN_TOL) {
+        fail(k, `the bridge from members[${via}] cuts through its own part ${m.part}`);
+        continue;
+      }
+      if (long && loopDistance([from, to], host.loop) < r - LEAD_IN_TOL) {
+        fail(k, `the bridge cuts through members[${via}] (${slab.members[via]!.part}), the member it starts from`);
+        continue;
+      }
+      for (const [j, o] of placed.entries()) {
+        if (j === k || j === via) continue;
+        const d = slotClearance(from, to, o.loop);
+        if (d < r - 1e-6) {
+          fail(
+            k,
+            `the bridge from members[${via}] at ${fmt(from[0])}, ${fmt(from[1])} to ${fmt(to[0])}, ${fmt(to[1])} is blocked by members[${j}] (${slab.members[j]!.part}): ${fmt(d)} from it, kerf / 2 = ${fmt(r)}`,
+          );
+          break;
+        }
+      }
       continue;
     }
     if (loopDistance([foot, to], own.loop) < r - LEAD_IN_TOL) {

@@ -75,8 +75,24 @@ export interface SlabMember {
   part: string;
   rotation: number;
   at: FacePoint;
-  /** The lead-in corridor: a straight slot, kerf wide, from `face` perpendicular to the point `to` on the wire's path round the part. */
-  leadIn: { face: LeadInFace; to: FacePoint };
+  /**
+   * The lead-in corridor: a straight slot, kerf wide, from `face` perpendicular to the point `to`
+   * on the wire's path round the part. With `via` (optional) the member is entered through an
+   * earlier member's kerf instead: the wire comes in by that member's own lead-in, runs along its
+   * (already cut) path to `from`, then crosses the waste on a straight bridge, kerf wide, from
+   * `from` to `to`; `face` is then the face the chain starts from.
+   */
+  leadIn: LeadIn;
+}
+
+/** A member's lead-in: from a slab face, or (with `via` and `from`) chained through an earlier member's kerf. */
+export interface LeadIn {
+  face: LeadInFace;
+  to: FacePoint;
+  /** Index (in `members`) of the earlier member whose cut path the wire follows to the bridge. */
+  via?: number;
+  /** The bridge's start on that member's wire path. */
+  from?: FacePoint;
 }
 
 /** A slab of true-shape nested profile parts, carried by the placement of its box. */

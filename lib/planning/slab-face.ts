@@ -1,7 +1,8 @@
 /**
  * What the drawing of a true-shape slab's face shows (components/plans/slab-face.tsx): each member's
  * outline, holes and tip section where the slab holds them, its lead-in corridor from the face to
- * the wire's path, and a point well inside the outline for its number. Pure: no I/O.
+ * the wire's path (for a chained lead-in the bridge from the earlier member's path), and a point
+ * well inside the outline for its number. Pure: no I/O.
  */
 import type { FacePoint, LeadInFace, PartOutline, SlabLayout } from "@/lib/nesting";
 import { bboxOf, segDist2, winding } from "@/lib/nesting/irregular/geometry";
@@ -17,8 +18,10 @@ export interface SlabFaceMember {
   holes: FacePoint[][];
   /** The tip section of a tapered part. */
   tip?: FacePoint[];
-  /** From the slab face to the wire's path. */
+  /** From the slab face to the wire's path; for a chained lead-in, the bridge from the earlier member's path. */
   corridor: [FacePoint, FacePoint];
+  /** A chained lead-in: the 1-based number of the member whose cut path the wire comes by. */
+  via?: number;
   /** Where the member's number goes: the point of a coarse grid farthest inside the occupied loop. */
   label: FacePoint;
 }
@@ -72,8 +75,22 @@ export function slabFaceDrawing(
   const uv: [number, number] = [slab.size[1], slab.size[2]];
   const members = slab.members.map((m, k): SlabFaceMember => {
     const o = outlines.get(m.part);
-    const corridor: [FacePoint, FacePoint] = [leadInFoot(m.leadIn.to, m.leadIn.face, uv), m.leadIn.to];
-    if (!o) return { n: k + 1, rotation: m.rotation, face: m.leadIn.face, holes: [], corridor, label: m.leadIn.to };
+    const { via, from } = m.leadIn;
+    const chained = via !== undefined && from ? { via: via + 1 } : {};
+    const corridor: [FacePoint, FacePoint] = [
+      via !== undefined && from ? from : leadInFoot(m.leadIn.to, m.leadIn.face, uv),
+      m.leadIn.to,
+    ];
+    if (!o)
+      return {
+        n: k + 1,
+        rotation: m.rotation,
+        face: m.leadIn.face,
+        holes: [],
+        corridor,
+        label: m.leadIn.to,
+        ...chained,
+      };
     const outer = memberLoop(o.outer, m.rotation, m.at);
     const holes = (o.holes ?? []).map((h) => memberLoop(h, m.rotation, m.at));
     const occupied = memberLoop(occupiedOutline(o), m.rotation, m.at);
@@ -86,6 +103,7 @@ export function slabFaceDrawing(
       ...(o.tip ? { tip: memberLoop(o.tip.outer, m.rotation, m.at) } : {}),
       corridor,
       label: labelPoint(occupied, o.tip ? [] : holes),
+      ...chained,
     };
   });
   return { members };

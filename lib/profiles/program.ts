@@ -37,6 +37,12 @@ export interface ProgramPart {
   leadIn?: Point | null;
   /** Per hole, the planner's slit point on the outer loop, slab plane mm. */
   slits?: (Point | null)[];
+  /**
+   * A chained lead-in (a true-shape slab's walled-in member): the wire reaches `leadIn` from the
+   * path of an earlier part (`part`, its index here), by a straight bridge from `from` on that
+   * path, after that part is cut; it runs in the kerf already cut (common practice, no source).
+   */
+  via?: { part: number; from: Point } | null;
 }
 
 export interface ProfileProgramInput {
@@ -76,7 +82,7 @@ export interface ProfileProgram {
   svg: string;
   warnings: string[];
   /** Each part's paths in the machine frame, at the root face and the tip face. */
-  parts: { name: string; root: Toolpath; tip: Toolpath; order: number }[];
+  parts: { name: string; root: Toolpath; tip: Toolpath; order: number; via?: { part: number; from: Point } }[];
   frame: {
     /** The slab in the machine frame. */
     slab: { min: Point; max: Point };
@@ -200,16 +206,34 @@ export function profileProgram(input: ProfileProgramInput, machine: Machine): Pr
   const roots = input.parts.map((p) => tf(p.root));
   const tips = input.parts.map((p) => tf(p.tip));
   const warnings: string[] = [];
-  const made: { name: string; root: Toolpath; tip: Toolpath; tapered: boolean }[] = input.parts.map((p, i) => {
+  const chained = (p: ProgramPart, i: number) => {
+    const v = p.via;
+    if (!v) return undefined;
+    const host = input.parts[v.part];
+    if (!Number.isInteger(v.part) || v.part === i || !host || host.via?.part === i || !p.leadIn)
+      throw new ProgramError(`${p.name}: its chained lead-in names no other part to enter through.`);
+    if (p.tapered || host.tapered)
+      throw new ProgramError(`${p.name}: a chained lead-in needs both parts straight (not tapered).`);
+    return { part: v.part, from: [c + v.from[0], c + v.from[1]] as Point };
+  };
+  const made: {
+    name: string;
+    root: Toolpath;
+    tip: Toolpath;
+    tapered: boolean;
+    via?: { part: number; from: Point };
+  }[] = input.parts.map((p, i) => {
     const where = input.parts.length > 1 ? `${p.name}: ` : "";
     try {
       const common = { kerf: input.kerf, blank: slab, direction: input.direction, dwell: input.dwell };
+      const via = chained(p, i);
+      // A chained part is entered by its bridge: its face lead-in is not used, so no face or other part limits it.
       const root = toolpath(roots[i]!.outer, roots[i]!.holes, {
         ...common,
-        faces,
+        faces: via ? [...FACES] : faces,
         leadIn: p.leadIn ? ([c + p.leadIn[0], c + p.leadIn[1]] as Point) : null,
         slits: p.slits?.map((s) => (s ? ([c + s[0], c + s[1]] as Point) : null)),
-        avoid: roots.filter((_, j) => j !== i).map((s) => s.outer),
+        avoid: via ? [] : roots.filter((_, j) => j !== i).map((s) => s.outer),
       });
       const tip = p.tapered
         ? toolpath(tips[i]!.outer, tips[i]!.holes, {
@@ -220,6 +244,19 @@ export function profileProgram(input: ProfileProgramInput, machine: Machine): Pr
         : root;
       warnings.push(...root.warnings.map((w) => `${where}${w}`));
       if (p.tapered) warnings.push(...tip.warnings.map((w) => `${where}at the tip: ${w}`));
+      if (via) {
+        // Its lead-in is the bridge: from the earlier part's path to the entry, and back out the same way.
+        // (`face` is set to the face its chain starts from once every part's path is made.)
+        const to = root.leadIn.to;
+        const face = root.leadIn.face;
+        const bridged: Toolpath = {
+          ...root,
+          leadIn: { face, from: via.from, to },
+          leadOut: { face, from: to, to: via.from },
+          route: [{ p: via.from }, ...root.loop, { p: via.from }],
+        };
+        return { name: p.name, root: bridged, tip: bridged, tapered: false, via };
+      }
       return { name: p.name, root, tip, tapered: p.tapered };
     } catch (e) {
       if (e instanceof ToolpathError) throw new ToolpathError(`${where}${e.message}`);
@@ -227,11 +264,34 @@ export function profileProgram(input: ProfileProgramInput, machine: Machine): Pr
     }
   });
 
-  // Parts in the order the wire meets their lead-ins going round the ring from machine zero.
-  const order = made
-    .map((m, i) => ({ i, s: ringPos(airPoint(m.root.leadIn.from, m.root.leadIn.face, R, T), R, T) }))
+  // Parts in the order the wire meets their lead-ins going round the ring from machine zero; a
+  // chained part right after the part it is entered through (chains end at a face lead-in).
+  const children = new Map<number, number[]>();
+  for (const [i, m] of made.entries()) if (m.via) children.set(m.via.part, [...(children.get(m.via.part) ?? []), i]);
+  const rootsOf = (i: number, seen = new Set<number>()): number => {
+    const v = made[i]!.via;
+    if (!v) return i;
+    if (seen.has(i)) throw new ProgramError(`${made[i]!.name}: its chained lead-in goes round in a circle.`);
+    seen.add(i);
+    return rootsOf(v.part, seen);
+  };
+  for (const [i, m] of made.entries()) {
+    const face = made[rootsOf(i)]!.root.leadIn.face;
+    if (m.via) m.root = { ...m.root, leadIn: { ...m.root.leadIn, face }, leadOut: { ...m.root.leadOut, face } };
+    if (m.via) m.tip = m.root;
+  }
+  const ringOrder = made
+    .map((m, i) => ({ i, m }))
+    .filter((x) => !x.m.via)
+    .map(({ m, i }) => ({ i, s: ringPos(airPoint(m.root.leadIn.from, m.root.leadIn.face, R, T), R, T) }))
     .sort((a, b) => a.s - b.s)
     .map((x) => x.i);
+  const order: number[] = [];
+  const visitOrder = (i: number) => {
+    order.push(i);
+    for (const ch of children.get(i) ?? []) visitOrder(ch);
+  };
+  for (const i of ringOrder) visitOrder(i);
 
   // The moves, root and tip face points side by side; towers by similar triangles.
   const moves: ProgramMove[] = [];
@@ -255,7 +315,21 @@ export function profileProgram(input: ProfileProgramInput, machine: Machine): Pr
     for (const k of ringCorners(ringPos(at.root, R, T), ringPos(to, R, T), R, T, closed)) push("rapid", k, k);
     push("rapid", to, toTip);
   };
-  for (const i of order) {
+  // The parts chained through part i (wire at i's entry, i cut): along i's cut path to the bridge,
+  // over it, round the chained part (and its own chained parts), and back the same way.
+  const cutChained = (i: number) => {
+    const host = made[i]!;
+    for (const ch of children.get(i) ?? []) {
+      const m = made[ch]!;
+      const way = alongPath(host.root.outer, m.via!.from);
+      for (const q of way) push("feed", q, q, { part: ch });
+      for (const q of m.root.loop) push("feed", q.p, q.p, { part: ch, dwell: q.dwell });
+      cutChained(ch);
+      for (const q of [...way].reverse()) push("feed", q, q, { part: ch });
+      push("feed", host.root.outer[0]!, host.root.outer[0]!, { part: ch });
+    }
+  };
+  for (const i of ringOrder) {
     const m = made[i]!;
     const airR = airPoint(m.root.leadIn.from, m.root.leadIn.face, R, T);
     const airT = airPoint(m.tip.leadIn.from, m.tip.leadIn.face, R, T);
@@ -264,6 +338,7 @@ export function profileProgram(input: ProfileProgramInput, machine: Machine): Pr
     lr.forEach((q, k) => {
       push("feed", q.p, lt[k]!.p, { part: i, dwell: q.dwell ?? lt[k]!.dwell });
     });
+    cutChained(i);
     push("feed", airR, airT, { part: i });
   }
   ring([0, 0], [0, 0]);
@@ -332,13 +407,49 @@ export function profileProgram(input: ProfileProgramInput, machine: Machine): Pr
   minutes.total = minutes.feed + minutes.rapid + minutes.dwell + minutes.heat + minutes.handling;
 
   const frame = { slab, origin: o, right: o[0] + R, top: o[1] + T, horizontal, fourAxis, towers };
-  const parts = made.map((m, i) => ({ name: m.name, root: m.root, tip: m.tip, order: order.indexOf(i) + 1 }));
+  const parts = made.map((m, i) => ({
+    name: m.name,
+    root: m.root,
+    tip: m.tip,
+    order: order.indexOf(i) + 1,
+    ...(m.via ? { via: { part: m.via.part, from: [m.via.from[0] + o[0], m.via.from[1] + o[1]] as Point } } : {}),
+  }));
   const program = { parts, frame, moves, feedMm, rapidMm, minutes, warnings };
   return {
     ...program,
     gcode: writeGcode(input, machine, program, letters),
     svg: drawSvg(input, machine, program),
   };
+}
+
+/**
+ * The wire's way from the start of a cut closed path (its entry) along it to the point of it
+ * nearest `to`, the shorter way round: the points to pass, ending at that point.
+ */
+function alongPath(path: readonly Point[], to: Point): Point[] {
+  let best = 0;
+  let bestD = Infinity;
+  let at: Point = path[0]!;
+  const n = path.length;
+  for (let i = 0; i < n; i++) {
+    const a = path[i]!;
+    const b = path[(i + 1) % n]!;
+    const dx = b[0] - a[0];
+    const dy = b[1] - a[1];
+    const l2 = dx * dx + dy * dy;
+    const t = l2 > 0 ? Math.min(1, Math.max(0, ((to[0] - a[0]) * dx + (to[1] - a[1]) * dy) / l2)) : 0;
+    const q: Point = [a[0] + t * dx, a[1] + t * dy];
+    const d = dist(q, to);
+    if (d < bestD) {
+      bestD = d;
+      best = i;
+      at = q;
+    }
+  }
+  const len = (pts: Point[]) => pts.reduce((s, q, k) => (k ? s + dist(pts[k - 1]!, q) : s), 0);
+  const forward = [...path.slice(0, best + 1), at];
+  const back = [path[0]!, ...path.slice(best + 1).reverse(), at];
+  return len(forward) <= len(back) ? forward : back;
 }
 
 /** A toolpath moved by `o`. */
@@ -420,14 +531,20 @@ function writeGcode(
   const first = feeds[0] ?? -1;
   const last = feeds.at(-1) ?? -1;
   let part = -1;
+  // A part's note once, where its cut starts (the wire comes back through a part to leave by its lead-in).
+  const noted = new Set<number>();
   p.moves.forEach((m, i) => {
     if (i === first) w.heatOn(machine.heatUpS);
-    if (m.part !== undefined && m.part !== part) {
+    if (m.part !== undefined && m.part !== part && !noted.has(m.part)) {
       part = m.part;
+      noted.add(part);
       const made = p.parts[part]!;
       const holes = made.root.slits.length;
+      const entry = made.via
+        ? `Entered by a bridge from the cut path of part ${p.parts[made.via.part]!.order}`
+        : `Lead-in from the ${made.root.leadIn.face} face`;
       note(
-        `Part ${made.order}: ${made.name}. Lead-in from the ${made.root.leadIn.face} face, ${input.direction === "cw" ? "clockwise" : "anticlockwise"}${holes ? `, ${holes} hole slit${holes === 1 ? "" : "s"}` : ""}`,
+        `Part ${made.order}: ${made.name}. ${entry}, ${input.direction === "cw" ? "clockwise" : "anticlockwise"}${holes ? `, ${holes} hole slit${holes === 1 ? "" : "s"}` : ""}`,
       );
     }
     if (m.kind === "feed") code(`G1 ${pos(m)} F${num(m.f ?? input.feed)}`);
@@ -496,7 +613,8 @@ function drawSvg(input: ProfileProgramInput, machine: Machine, p: Built): string
       out.push(
         `<path d="${[part.tip.outer].map((l) => path(l)).join(" ")}" fill="none" stroke="#b04418" stroke-width="${n(fs / 14)}" stroke-dasharray="${n(fs / 3)} ${n(fs / 5)}"/>`,
       );
-    const air = airPoint(part.root.leadIn.from, part.root.leadIn.face, R, T, O);
+    // A chained part's lead-in is its bridge from the earlier part's path.
+    const air = part.via ? part.via.from : airPoint(part.root.leadIn.from, part.root.leadIn.face, R, T, O);
     out.push(
       `<line x1="${X(air[0])}" y1="${Y(air[1])}" x2="${X(part.root.leadIn.to[0])}" y2="${Y(part.root.leadIn.to[1])}" stroke="#b04418" stroke-width="${n(fs / 8)}" stroke-dasharray="${n(fs / 3)} ${n(fs / 5)}"/>`,
     );

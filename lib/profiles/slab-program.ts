@@ -39,7 +39,16 @@ export function slabProgramParts(
           holes: (o.tip.holes ?? []).map((h) => place(h, m.rotation, m.at)),
         }
       : root;
-    return { name: names(m.part, k), root, tip, tapered: !!o.tip, leadIn: [m.leadIn.to[0], m.leadIn.to[1]] };
+    const { via, from } = m.leadIn;
+    return {
+      name: names(m.part, k),
+      root,
+      tip,
+      tapered: !!o.tip,
+      leadIn: [m.leadIn.to[0], m.leadIn.to[1]],
+      // A chained lead-in: entered from an earlier member's cut path by its bridge.
+      ...(via !== undefined && from ? { via: { part: via, from: [from[0], from[1]] as Point } } : {}),
+    };
   });
 }
 

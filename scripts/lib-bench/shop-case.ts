@@ -172,7 +172,8 @@ export interface SlabFigures {
  * Checks every slab of a plan again with polygon-clipping: each member's occupied region (its
  * outer loop, for a tapered part united with the tip's) inside the slab's face, no two members
  * overlapping (intersection ≤ 1e-6 of the smaller), and each lead-in slot (a kerf-wide rectangle
- * from the face to its end) meeting no other member (≤ 1e-6 of the member's area).
+ * from the face to its end, or for a chained lead-in the bridge from the earlier member's path)
+ * meeting no other member (≤ 1e-6 of the member's area).
  * @example checkSlabsIndependently(problem, plan).errors // → []
  */
 export function checkSlabsIndependently(problem: Problem, plan: Plan): SlabFigures {
@@ -207,7 +208,11 @@ export function checkSlabsIndependently(problem: Problem, plan: Plan): SlabFigur
           errors.push(`placements[${i}].slab.members[${k}] and [${j}] overlap (${inter.toExponential(2)} mm²)`);
       }
       const m = pl.slab.members[k]!;
-      const foot = leadInFoot(m.leadIn.to, m.leadIn.face, [U, V]);
+      // A chained lead-in's slot is its bridge from the earlier member's path (that member's own slot is checked with it).
+      const via = m.leadIn.via;
+      if (via !== undefined && !(Number.isInteger(via) && via >= 0 && via < k))
+        errors.push(`placements[${i}].slab.members[${k}]: chained through members[${via}], not one cut before it`);
+      const foot = via !== undefined && m.leadIn.from ? m.leadIn.from : leadInFoot(m.leadIn.to, m.leadIn.face, [U, V]);
       const to = m.leadIn.to;
       const len = Math.hypot(foot[0] - to[0], foot[1] - to[1]);
       corridors++;
@@ -223,7 +228,7 @@ export function checkSlabsIndependently(problem: Problem, plan: Plan): SlabFigur
         ]),
       ];
       for (const [j, q] of polys.entries()) {
-        if (j === k) continue;
+        if (j === k || j === via) continue;
         const inter = polyArea(polygonClipping.intersection(slot, q.poly) as [number, number][][][]);
         if (inter > 1e-6 * q.area)
           errors.push(

@@ -6,10 +6,22 @@
  */
 import polygonClipping, { type Polygon } from "polygon-clipping";
 import { describe, expect, it } from "vitest";
-import { type FacePoint, nestSync, type Plan, parseProblem, type Problem, validatePlan } from "@/lib/nesting";
-import { findLeadIn, memberLoop, occupiedOutline, type PlacedMember } from "@/lib/nesting/slab";
+import {
+  type FacePoint,
+  nestSync,
+  type Plan,
+  parseProblem,
+  type Problem,
+  type SlabLayout,
+  type SlabMember,
+  validatePlan,
+} from "@/lib/nesting";
+import { findLeadIn, leadIns, memberLoop, occupiedOutline, type PlacedMember } from "@/lib/nesting/slab";
+import { nestTrueShapeSync } from "@/lib/nesting/true-shape";
+import { loopDistance } from "@/lib/nesting/irregular/geometry";
 import { bboxOf } from "@/lib/nesting/irregular/geometry";
 import { type Machine, slabMaxFor } from "@/lib/planning/machine";
+import { slabFaceDrawing } from "@/lib/planning/slab-face";
 import { partGeometry } from "@/lib/profiles/part";
 import { profileProgram } from "@/lib/profiles/program";
 import { slabProgramInput } from "@/lib/profiles/slab-program";
@@ -380,6 +392,191 @@ describe("the validator on slab members", () => {
     // The same slab with the lower square entered from the left is valid.
     bad.placements[0]!.slab!.members[0]!.leadIn = { face: "left", to: [-1, 25] };
     expect(validatePlan(sqProblem, bad)).toEqual([]);
+  });
+});
+
+describe("chained lead-ins (a walled-in member entered through an earlier member's kerf)", () => {
+  // Slab face 100 × 100, kerf 2: a 20 mm square "a" at the bottom between two walls, under a roof.
+  // The walls reach the left and right faces, the roof the top; "a" reaches no face.
+  const rect = (w: number, h: number): FacePoint[] => [
+    [0, 0],
+    [w, 0],
+    [w, h],
+    [0, h],
+  ];
+  const problem = parse({
+    settings: { kerf: 2, trueShape: true },
+    blocks: [{ id: "B1", size: [300, 300, 300] }],
+    parts: [
+      { id: "roof", size: [40, 100, 70], quantity: 1, outline: { outer: rect(100, 70) } },
+      { id: "wall", size: [40, 30, 28], quantity: 2, outline: { outer: rect(30, 28) } },
+      { id: "a", size: [40, 20, 20], quantity: 1, outline: { outer: rect(20, 20) } },
+    ],
+  });
+  // The same with a small part "c" to stand in the waste.
+  const withC = parse({
+    ...problem,
+    version: undefined,
+    parts: [
+      ...problem.parts,
+      { id: "c", size: [40, 4, 10], quantity: 1, rotate: "any", outline: { outer: rect(4, 10) } },
+    ],
+  });
+  const parts = new Map(problem.parts.map((p) => [p.id, p]));
+  const layout = [
+    { part: "a", rotation: 0, at: [40, 0] as FacePoint },
+    { part: "wall", rotation: 0, at: [0, 0] as FacePoint },
+    { part: "roof", rotation: 0, at: [0, 30] as FacePoint },
+    { part: "wall", rotation: 0, at: [70, 0] as FacePoint },
+  ];
+  const placedOf = (ms: { part: string; rotation: number; at: FacePoint }[]): PlacedMember[] =>
+    ms.map((m) => {
+      const loop = memberLoop(occupiedOutline(parts.get(m.part)!.outline!), m.rotation, m.at);
+      return { loop, bb: bboxOf([loop]), area: 0 };
+    });
+  const planOf = (members: SlabMember[]): Plan => ({
+    version: 2,
+    placements: [
+      {
+        part: "slab-1",
+        block: "B1",
+        origin: [0, 0, 0],
+        size: [40, 100, 100],
+        slab: { size: [40, 100, 100], rotate: "any", members },
+      },
+    ],
+    unplaced: [],
+    offcuts: [],
+    cuts: {},
+    stats: {
+      blocksUsed: 1,
+      partVolume: 40 * 100 * 100,
+      stockVolume: 0,
+      offcutVolume: 0,
+      yield: 0,
+      elapsedMs: 0,
+      lowerBoundBlocks: 1,
+    },
+  });
+  // What the planner makes of the layout: members in cutting order, each with its lead-in.
+  const planned = () => {
+    const placed = placedOf(layout);
+    const got = leadIns(placed, [100, 100], 2);
+    const members = got.order.map((k, i): SlabMember => ({ ...layout[k]!, leadIn: got.leads[i]! }));
+    return { placed, got, members };
+  };
+
+  it("gives a walled-in part a bridge from a member reached before it, and the plan is valid", () => {
+    const { placed, got, members } = planned();
+    expect(findLeadIn(placed, 0, [100, 100], 2)).toBeNull();
+    expect(got.blocked).toEqual([]);
+    // The square comes last in cutting order, entered through the kerf of a member cut before it.
+    expect(got.order.at(-1)).toBe(0);
+    const li = got.leads.at(-1)!;
+    expect(li.via).toBeGreaterThanOrEqual(0);
+    expect(li.via).toBeLessThan(members.length - 1);
+    const host = placed[got.order[li.via!]!]!;
+    // Both ends on the wire's paths (kerf / 2 off each part), the bridge across the 10 mm of waste.
+    expect(loopDistance([li.from!, li.from!], host.loop)).toBeCloseTo(1, 1);
+    expect(loopDistance([li.to, li.to], placed[0]!.loop)).toBeCloseTo(1, 1);
+    expect(Math.hypot(li.to[0] - li.from![0], li.to[1] - li.from![1])).toBeCloseTo(8, 1);
+    expect(validatePlan(problem, planOf(members))).toEqual([]);
+    expect(checkSlabsIndependently(problem, planOf(members)).errors).toEqual([]);
+  });
+
+  it("refuses a bridge that crosses another member, naming both", () => {
+    // A small part "c" stands in the waste between the left wall and the square.
+    const members: SlabMember[] = [
+      { part: "roof", rotation: 0, at: [0, 30], leadIn: { face: "top", to: [50, 101] } },
+      { part: "wall", rotation: 0, at: [0, 0], leadIn: { face: "left", to: [-1, 14] } },
+      { part: "wall", rotation: 0, at: [70, 0], leadIn: { face: "right", to: [101, 14] } },
+      { part: "c", rotation: 0, at: [33, 5], leadIn: { face: "left", to: [32, 10], via: 1, from: [31, 10] } },
+      { part: "a", rotation: 0, at: [40, 0], leadIn: { face: "left", to: [39, 10], via: 1, from: [31, 10] } },
+    ];
+    const errs = validatePlan(withC, planOf(members));
+    expect(errs).toEqual([
+      "placements[0].slab.members[4]: the bridge from members[1] at 31, 10 to 39, 10 is blocked by members[3] (c): 0 from it, kerf / 2 = 1",
+    ]);
+    // Bridged from the roof instead (straight down across the waste above it), the slab is valid.
+    members[4]!.leadIn = { face: "top", to: [50, 21], via: 0, from: [50, 29] };
+    expect(validatePlan(withC, planOf(members))).toEqual([]);
+  });
+
+  it("refuses a chain through a member cut later (or itself), and a bridge start off that member's path", () => {
+    const { members } = planned();
+    const last = members.length - 1;
+    const later = structuredClone(members);
+    // The square first in the list: its host is cut after it.
+    const [sq] = later.splice(last, 1);
+    later.unshift(sq!);
+    const hostAt = sq!.leadIn.via! + 1;
+    later[0]!.leadIn.via = hostAt;
+    expect(validatePlan(problem, planOf(later))).toContain(
+      `placements[0].slab.members[0]: leadIn.via: must be the index of an earlier member (one cut before this one, 0 to -1), not ${hostAt}`,
+    );
+    const self = structuredClone(members);
+    self[last]!.leadIn.via = last;
+    expect(validatePlan(problem, planOf(self)).some((e) => e.includes(`members[${last}]: leadIn.via: must be`))).toBe(
+      true,
+    );
+    const off = structuredClone(members);
+    off[last]!.leadIn.from = [off[last]!.leadIn.from![0] + 5, off[last]!.leadIn.from![1] + 5];
+    expect(
+      validatePlan(problem, planOf(off)).some((e) => e.startsWith(`placements[0].slab.members[${last}]: leadIn.from`)),
+    ).toBe(true);
+  });
+
+  it("cuts the host first, then follows its cut path to the bridge, cuts the chained part, and leaves the same way", () => {
+    const { members } = planned();
+    const slab: SlabLayout = { size: [40, 100, 100], rotate: "any", members };
+    const input = slabProgramInput("slab-1", slab, parts, (id, k) => `${id} ${k + 1}`, { kerf: 2, feed: 250 });
+    const prog = profileProgram(input, profileCutter());
+    const a = members.length - 1;
+    const host = members[a]!.leadIn.via!;
+    expect(prog.parts[a]!.via?.part).toBe(host);
+    // Visited right after its host.
+    expect(prog.parts[a]!.order).toBe(prog.parts[host]!.order + 1);
+    const idx = (k: number) => prog.moves.flatMap((m, i) => (m.part === k ? [i] : []));
+    const hostMoves = idx(host);
+    const aMoves = idx(a);
+    expect(aMoves[0]!).toBeGreaterThan(hostMoves[0]!);
+    // The host's lead-out to the air comes after the chained part, and the wire stays in the foam's kerf between.
+    expect(hostMoves.at(-1)!).toBeGreaterThan(aMoves.at(-1)!);
+    expect(prog.moves.slice(hostMoves[0]!, hostMoves.at(-1)! + 1).every((m) => m.kind === "feed")).toBe(true);
+    // The bridge: a move from the planned start on the host's path straight to the square's entry (frame 10 mm off).
+    const at = (p: FacePoint) => [p[0] + 10, p[1] + 10];
+    const [fx = 0, fy = 0] = at(members[a]!.leadIn.from!);
+    const [tx = 0, ty = 0] = at(members[a]!.leadIn.to);
+    const bridge = prog.moves.findIndex(
+      (m, i) =>
+        i > 0 &&
+        Math.hypot(m.root[0] - tx, m.root[1] - ty) < 0.05 &&
+        Math.hypot(prog.moves[i - 1]!.root[0] - fx, prog.moves[i - 1]!.root[1] - fy) < 0.05,
+    );
+    expect(bridge).toBeGreaterThan(hostMoves[0]!);
+    expect(prog.gcode).toContain(
+      `PART ${prog.parts[a]!.order}: A ${a + 1}. ENTERED BY A BRIDGE FROM THE CUT PATH OF PART ${prog.parts[host]!.order}`,
+    );
+    // The drawing of the face shows the bridge, numbered by the host.
+    const face = slabFaceDrawing(slab, new Map(problem.parts.map((p) => [p.id, p.outline!])));
+    expect(face.members[a]!.via).toBe(host + 1);
+    expect(face.members[a]!.corridor).toEqual([members[a]!.leadIn.from, members[a]!.leadIn.to]);
+  });
+});
+
+describe("the block nesting of the slabs", () => {
+  it("tries further seeds while they stop at their bound, and keeps the plan that consumes the least stock", () => {
+    const problem = parse(lProblem());
+    const seeds: number[] = [];
+    // The box nesting as `nestSync` runs it; the plan of seed 10 is made to return one more offcut (less consumed).
+    const plan = nestTrueShapeSync(problem, { seed: 7 }, (p, o) => {
+      seeds.push(o.seed ?? 0);
+      const got = nestSync(p, o);
+      if (o.seed !== 10) return got;
+      return { ...got, offcuts: [...got.offcuts, { block: "B1", origin: [0, 0, 0], size: [1, 1, 1] }] };
+    });
+    expect(seeds).toEqual(Array.from({ length: 16 }, (_, k) => 7 + k));
+    expect(plan.offcuts.some((o) => o.size[0] === 1 && o.size[1] === 1 && o.size[2] === 1)).toBe(true);
   });
 });
 
