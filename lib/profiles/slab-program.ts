@@ -6,7 +6,8 @@
  * at the bottom face, suit a horizontal wire as well as an upright one. Pure: no I/O.
  */
 import type { FacePoint, Part, SlabLayout } from "@/lib/nesting";
-import { memberLoop } from "@/lib/nesting/slab";
+import { bboxOf, signedArea } from "@/lib/nesting/irregular/geometry";
+import { leadIns, memberLoop, type PlacedMember } from "@/lib/nesting/slab";
 import type { Point } from "./polygon";
 import type { ProfileProgramInput, ProgramPart } from "./program";
 import type { Section } from "./slabs";
@@ -73,4 +74,28 @@ export function slabProgramInput(
     feed: cut.feed,
     ...(cut.grade !== undefined ? { grade: cut.grade } : {}),
   };
+}
+
+/**
+ * A box-nested layer's parts (each in its blank) with a chained lead-in for every part the others
+ * wall in: no straight slot from the left, right or top face reaches it without crossing another
+ * part, so it is entered through a neighbour's kerf by a straight bridge across the waste, as
+ * true-shape slabs are (`leadIns` of lib/nesting/slab.ts; tapered parts are never chained). The
+ * others keep the lead-in their program finds. Null when no part needs a chain, or some part is
+ * reached neither way.
+ *
+ *   chainWalledIn(parts, [304.5, 183], 1.5) // → the 9 plates of a 3 × 3 grid, the middle one with `via`
+ */
+export function chainWalledIn(parts: readonly ProgramPart[], size: Point, kerf: number): ProgramPart[] | null {
+  const placed: PlacedMember[] = parts.map((p) => {
+    const loop = p.root.outer.map((q): FacePoint => [q[0], q[1]]);
+    return { loop, bb: bboxOf([loop]), area: Math.abs(signedArea(loop)) };
+  });
+  const { order, leads, blocked } = leadIns(placed, [size[0], size[1]], kerf, (k) => !parts[k]!.tapered);
+  if (blocked.length || !leads.some((l) => l.via !== undefined)) return null;
+  return parts.map((p, k) => {
+    const l = leads[order.indexOf(k)]!;
+    if (l.via === undefined || !l.from) return p;
+    return { ...p, leadIn: [l.to[0], l.to[1]], via: { part: order[l.via]!, from: [l.from[0], l.from[1]] } };
+  });
 }

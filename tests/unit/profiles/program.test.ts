@@ -8,6 +8,8 @@ import type { Machine } from "@/lib/planning/machine";
 import { partGeometry, type Point, type Profile } from "@/lib/profiles";
 import { ProgramError, profileProgram } from "@/lib/profiles/program";
 import { orientation, partSections, planSlabs } from "@/lib/profiles/slabs";
+import { chainWalledIn } from "@/lib/profiles/slab-program";
+import { ToolpathError } from "@/lib/profiles/toolpath";
 import { profileCutter } from "../../support/procedure-fixtures";
 
 const cutter = (over: Partial<Machine> = {}, dialect: Partial<Machine["dialect"]> = {}): Machine =>
@@ -109,6 +111,60 @@ describe("slabs of a plan", () => {
     expect(maxU(s.root.outer)).toBeCloseTo(200, 3);
     expect(minU(s.tip.outer)).toBeCloseTo(50, 6);
     expect(maxU(s.tip.outer)).toBeCloseTo(170, 3);
+  });
+});
+
+describe("a box-nested layer whose middle part is walled in", () => {
+  // Nine 100 × 60 plates, 50 thick, in a 3 × 3 grid 4 mm apart (kerf 1.5): the middle one touches
+  // no face a lead-in may start from (left, right, top), and every straight slot to it crosses a
+  // neighbour. Found by the fresh-eyes sweep with 12 DXF brackets: the layer's program was refused.
+  const parts = new Map([["jp-9", { size: [50, 100, 60] as [number, number, number], profile: plate(100, 60, 50) }]]);
+  const plan: Pick<Plan, "placements"> = {
+    placements: Array.from({ length: 9 }, (_, i) => ({
+      part: "jp-9",
+      block: "HF-9",
+      origin: [6, 6 + (i % 3) * 104, 6 + Math.floor(i / 3) * 64] as [number, number, number],
+      size: [50, 100, 60] as [number, number, number],
+    })),
+  };
+  const [slab] = planSlabs(plan, parts);
+  const input = {
+    title: "grid",
+    size: slab!.size,
+    thickness: slab!.along[1] - slab!.along[0],
+    parts: slab!.parts.map((p) => ({ name: "Plate", root: p.root, tip: p.tip, tapered: p.tapered })),
+    kerf: 1.5,
+    feed: 250,
+  };
+
+  it("is refused with face lead-ins only, and cut whole with the middle plate entered by a neighbour's kerf", () => {
+    expect(slab!.parts).toHaveLength(9);
+    expect(() => profileProgram(input, cutter())).toThrow(ToolpathError);
+    const chained = chainWalledIn(input.parts, slab!.size, 1.5)!;
+    expect(chained).not.toBeNull();
+    // Chained: the middle plate (index 4) and the bottom row's middle one (index 1: no lead-in
+    // comes up through the table), each from a plate next to it (a grid step away), over the 4 mm
+    // gap less the two half kerfs: bridges 2.5 mm long.
+    const vias = chained.flatMap((p, k) => (p.via ? [k] : []));
+    expect(vias).toEqual([1, 4]);
+    const program = profileProgram({ ...input, parts: chained }, cutter());
+    expect(program.parts).toHaveLength(9);
+    for (const k of vias) {
+      const { via, leadIn } = chained[k]!;
+      const [row, col, hostRow, hostCol] = [Math.floor(k / 3), k % 3, Math.floor(via!.part / 3), via!.part % 3];
+      expect(Math.abs(row - hostRow) + Math.abs(col - hostCol)).toBe(1);
+      expect(Math.hypot(leadIn![0] - via!.from[0], leadIn![1] - via!.from[1])).toBeCloseTo(2.5, 1);
+      // Cut after the plate it is entered through, and said so in the program.
+      const host = program.parts[via!.part]!;
+      expect(program.parts[k]!.order).toBeGreaterThan(host.order);
+      expect(program.gcode).toContain(`Entered by a bridge from the cut path of part ${host.order}`.toUpperCase());
+    }
+  });
+
+  it("leaves a layer alone when every part has a lead-in from a face", () => {
+    const two = { ...input, parts: input.parts.slice(0, 2) };
+    expect(chainWalledIn(two.parts, slab!.size, 1.5)).toBeNull();
+    expect(profileProgram(two, cutter()).parts).toHaveLength(2);
   });
 });
 
