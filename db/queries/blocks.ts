@@ -158,13 +158,18 @@ function selectBlocks(k: Knex, detail = false) {
     );
 }
 
+/**
+ * Blocks (`b`) whose code a person typed: a bare number is the number on the label (it finds
+ * HF-1047 and its offcuts HF-1047.1…, not HF-10470); anything else is the start of the code.
+ *   whereCodeMatches(db()("blocks as b"), "hf-10") // HF-1001, HF-1002.1, …
+ */
+export function whereCodeMatches(q: Knex.QueryBuilder, text: string): Knex.QueryBuilder {
+  if (/^\d+$/.test(text)) return q.whereRaw("b.code ~ ?", [`(^|[^0-9])${text}([^0-9]|$)`]);
+  return q.whereRaw("upper(b.code) LIKE ?", [`${text.toUpperCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`]);
+}
+
 function applyFilters(q: Knex.QueryBuilder, f: BlockQuery, today: string) {
-  if (f.q) {
-    // A bare number is the number on the label: it finds HF-1047 and its offcuts HF-1047.1…, not
-    // HF-10470. Anything else is the start of the code.
-    if (/^\d+$/.test(f.q)) q.whereRaw("b.code ~ ?", [`(^|[^0-9])${f.q}([^0-9]|$)`]);
-    else q.whereRaw("upper(b.code) LIKE ?", [`${f.q.toUpperCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`]);
-  }
+  if (f.q) whereCodeMatches(q, f.q);
   if (f.grade) q.where("b.grade_id", f.grade);
   if (f.location) q.where("b.location", f.location);
   if (f.minLength !== undefined) q.whereRaw("GREATEST(b.size_x, b.size_y, b.size_z) >= ?", [f.minLength]);

@@ -2,6 +2,7 @@ import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db";
 import { owedParts } from "./owed";
+import { whereCodeMatches } from "./blocks";
 import { getMachine, kerfAndFeed, listMachines } from "./machines";
 import { getShopSettings } from "./settings";
 import { HttpError } from "@/lib/errors";
@@ -112,7 +113,7 @@ export const CANDIDATE_LIMIT = 500;
 
 export async function candidateStock(
   jobIds: number[],
-  opts: { today?: string; trim?: number } = {},
+  opts: { today?: string; trim?: number; code?: string } = {},
 ): Promise<{ items: Candidate[]; leftOut: LeftOut[]; capped: boolean }> {
   const today = opts.today ?? isoDate();
   const [owed, trim] = await Promise.all([owedParts(db(), jobIds), opts.trim ?? getShopSettings().then((s) => s.trim)]);
@@ -141,6 +142,8 @@ export async function candidateStock(
     )
     .orderByRaw("coalesce(b.moulded_on, b.created_at::date), b.id")
     .limit(CANDIDATE_LIMIT + 1);
+  // Found by code (the form's search, for stock past the oldest offered).
+  if (opts.code) whereCodeMatches(q, opts.code);
   if (!anyGrade)
     q.whereIn(
       "b.grade_id",

@@ -1,6 +1,7 @@
 import { listMachines } from "@/db/queries/machines";
 import { slabMaxFor } from "@/lib/planning/machine";
 import type { Metadata } from "next";
+import Link from "next/link";
 import { requirePage } from "@/lib/auth/guard";
 import { jobNames } from "@/db/queries/runs";
 import { CANDIDATE_LIMIT, candidateStock } from "@/db/queries/run-plan";
@@ -33,7 +34,7 @@ function chosenJobs(q: { jobs?: string; job?: string | string[] }): number[] {
 export default async function NewPlanPage({
   searchParams,
 }: {
-  searchParams: Promise<{ jobs?: string; job?: string | string[]; q?: string }>;
+  searchParams: Promise<{ jobs?: string; job?: string | string[]; q?: string; stock?: string }>;
 }) {
   const user = await requirePage("/plans/new");
   const sp = await searchParams;
@@ -107,9 +108,11 @@ export default async function NewPlanPage({
       </>
     );
   }
+  // A block code typed in the stock search: past the oldest blocks offered, any ready block by its code.
+  const code = typeof sp.stock === "string" ? sp.stock.trim().slice(0, 40) : "";
   const [jobs, stock, s, machines] = await Promise.all([
     jobNames(jobIds),
-    candidateStock(jobIds),
+    candidateStock(jobIds, { code: code || undefined }),
     getShopSettings(),
     listMachines({ activeOnly: true }),
   ]);
@@ -121,7 +124,36 @@ export default async function NewPlanPage({
         title="New plan"
         lead={`Nest the parts still owed on ${[...jobs.values()].join(", ")} into the stock you choose.`}
       />
+      {(stock.capped || code) && (
+        <form method="get" action="/plans/new" className="mb-4 flex flex-wrap items-end gap-2">
+          <input type="hidden" name="jobs" value={jobIds.join(",")} />
+          <label className="flex flex-col text-sm font-medium text-ink-soft">
+            Find stock by block code or label number
+            <input
+              type="search"
+              name="stock"
+              defaultValue={code}
+              maxLength={40}
+              className="mt-1 min-h-11 rounded border border-bead px-3 text-base text-ink"
+            />
+          </label>
+          <button type="submit" className={buttonClass("secondary")}>
+            Find stock
+          </button>
+          {code && (
+            <Link className={buttonClass("quiet")} href={`/plans/new?jobs=${jobIds.join(",")}`}>
+              All stock
+            </Link>
+          )}
+        </form>
+      )}
+      {code && (
+        <p className="mb-2 text-sm text-ink-soft" data-testid="stock-search">
+          Ready blocks whose code matches “{code}”.
+        </p>
+      )}
       <NewRunForm
+        key={code}
         jobIds={jobIds}
         candidates={stock.items}
         leftOut={stock.leftOut}
