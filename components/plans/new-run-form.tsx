@@ -151,8 +151,8 @@ export function NewRunForm({
         )}
         {capped !== null && (
           <p className="mt-2 text-sm text-ink-soft" data-testid="candidates-capped">
-            Only the {capped} oldest ready blocks of these grades are offered. To plan into newer stock, give the parts
-            their grade, or use up the older stock first.
+            Only the {capped} oldest ready blocks of these grades are offered. Find a newer block by its code above, or
+            give the parts their grade to narrow the list.
           </p>
         )}
         {leftOut.length > 0 && (
