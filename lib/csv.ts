@@ -1,4 +1,5 @@
 import Papa from "papaparse";
+import { NUL_REFUSED } from "./errors";
 
 /**
  * CSV out: a cell that a spreadsheet would run as a formula (=, +, -, @, tab, CR at the start)
@@ -227,7 +228,7 @@ export function cellReader(problems: CsvProblem[], row: number, r: Record<string
         return null;
       }
       if (v.length > (opts.max ?? 200)) add(column, `At most ${opts.max ?? 200} characters.`);
-      if (v.includes("\u0000")) add(column, "Holds a NUL character (code 0), which cannot be stored: remove it.");
+      if (v.includes("\u0000")) add(column, NUL_REFUSED);
       return v;
     },
     /** See `readCsvNumber`: `money` allows unambiguous comma thousands. */

@@ -11,6 +11,9 @@ export class HttpError extends Error {
   }
 }
 
+/** What a field or CSV cell holding a NUL character is told (Postgres cannot store one in text). */
+export const NUL_REFUSED = "Holds a NUL character (code 0), which cannot be stored: remove it.";
+
 export const unauthorized = () => new HttpError(401, "Sign in to continue.");
 export const forbidden = () => new HttpError(403, "Your role does not allow this.");
 export const notFound = (what = "That record") => new HttpError(404, `${what} was not found.`);

@@ -1,6 +1,6 @@
 "use client";
 
-import { numberOrNull as num } from "@/lib/forms";
+import { lengthMmOrNull, numberOrNull as num } from "@/lib/forms";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { send } from "@/lib/swr/fetcher";
@@ -12,7 +12,7 @@ import { BUDGET_S, type RunSettings, secondsToMs } from "@/lib/validations/runs"
 import { formatDate, plural } from "@/lib/format";
 import type { Candidate } from "@/db/queries/run-plan";
 import { leftOutLine, type LeftOut } from "@/lib/planning/usable";
-import { formatLength, formatSize, formatVolume, lengthToMm, lengthNumber, mmToIn, type LengthUnit } from "@/lib/units";
+import { formatLength, formatSize, formatVolume, lengthNumber, mmToIn, type LengthUnit } from "@/lib/units";
 
 /** Choose the stock (proposed: ready, right grade, oldest first) and the settings, then start. */
 export function NewRunForm({
@@ -44,9 +44,7 @@ export function NewRunForm({
   const shown = (mm: number) => (unit === "in" ? String(Math.round(mmToIn(mm) * 10_000) / 10_000) : String(mm));
   const lengthField = (fd: FormData, name: string, mm: number): number | null => {
     const raw = fd.get(name);
-    if (String(raw ?? "").trim() === shown(mm)) return mm;
-    const n = num(raw);
-    return n === null ? null : lengthToMm(n, unit);
+    return String(raw ?? "").trim() === shown(mm) ? mm : lengthMmOrNull(raw, unit);
   };
   const router = useRouter();
   const [chosen, setChosen] = useState<Set<number>>(new Set(candidates.map((c) => c.id)));

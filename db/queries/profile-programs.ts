@@ -8,7 +8,7 @@ import type { Profile } from "@/lib/profiles";
 import { FourAxisError } from "@/lib/profiles/four-axis";
 import { type ProfileProgram, type ProgramPart, ProgramError, profileProgram } from "@/lib/profiles/program";
 import { orientation, partSections, planSlabs, type Slab } from "@/lib/profiles/slabs";
-import { chainWalledIn, slabProgramInput, slabProgramParts } from "@/lib/profiles/slab-program";
+import { layerProgram, slabProgramInput, slabProgramParts } from "@/lib/profiles/slab-program";
 import { type Dwell, ToolpathError } from "@/lib/profiles/toolpath";
 import type { Point } from "@/lib/profiles/polygon";
 import { getMachine, kerfAndFeed, listMachines, type StoredMachine } from "./machines";
@@ -280,27 +280,21 @@ export async function slabPrograms(
       continue;
     }
     try {
-      const input = {
-        title: `plan ${runId}, block ${s.block}, slab ${s.n} of ${perBlock.get(s.block)}`,
-        size: s.size,
-        thickness: s.along[1] - s.along[0],
-        parts: s.parts.map((p, i) => ({ name: names[i]!, root: p.root, tip: p.tip, tapered: p.tapered })),
-        kerf,
-        feed,
-        grade: grade ?? null,
-        direction: choices.direction,
-        dwell: choices.dwell,
-      };
-      let program: ProfileProgram;
-      try {
-        program = profileProgram(input, machine);
-      } catch (e) {
-        // A part walled in by the others (no straight lead-in crosses no other part): entered
-        // through a neighbour's kerf instead, where every part can be reached that way.
-        const chained = e instanceof ToolpathError ? chainWalledIn(input.parts, s.size, kerf) : null;
-        if (!chained) throw e;
-        program = profileProgram({ ...input, parts: chained }, machine);
-      }
+      // A part the others wall in is entered through a neighbour's kerf (layerProgram).
+      const program = layerProgram(
+        {
+          title: `plan ${runId}, block ${s.block}, slab ${s.n} of ${perBlock.get(s.block)}`,
+          size: s.size,
+          thickness: s.along[1] - s.along[0],
+          parts: s.parts.map((p, i) => ({ name: names[i]!, root: p.root, tip: p.tip, tapered: p.tapered })),
+          kerf,
+          feed,
+          grade: grade ?? null,
+          direction: choices.direction,
+          dwell: choices.dwell,
+        },
+        machine,
+      );
       out.push({ slab: s, label, program, problem: null, names });
     } catch (e) {
       if (e instanceof ProgramError || e instanceof FourAxisError || e instanceof ToolpathError)

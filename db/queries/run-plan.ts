@@ -102,15 +102,16 @@ export interface Candidate {
   since: string;
 }
 
+/** Ready blocks a new plan is offered at most, oldest first (the form says when there are more). */
+export const CANDIDATE_LIMIT = 500;
+
 /**
  * Stock a run may use for these jobs: ready (cut-not-before passed), in stock, of the grades the
  * parts need (any hot-wireable grade for parts without one), never a no-hot-wire grade; oldest first.
  * Only blocks that can hold some part still owed (after the face trim, in a way the part may be
- * turned) are offered; the others are listed in `leftOut`, each with the reason.
+ * turned) are offered; the others are listed in `leftOut`, each with the reason. At most
+ * CANDIDATE_LIMIT are read (`capped` says when there were more); `code` finds blocks by their code.
  */
-/** Ready blocks a new plan is offered at most, oldest first (the form says when there are more). */
-export const CANDIDATE_LIMIT = 500;
-
 export async function candidateStock(
   jobIds: number[],
   opts: { today?: string; trim?: number; code?: string } = {},

@@ -19,7 +19,7 @@ import {
   type PublicRouteKey,
   type RouteKey,
 } from "./policy";
-import { HttpError, forbidden, isDatabaseDown, unauthorized } from "@/lib/errors";
+import { HttpError, NUL_REFUSED, forbidden, isDatabaseDown, unauthorized } from "@/lib/errors";
 
 /** The page path proxy.ts passes along (it overwrites whatever the client sent). */
 export const PATH_HEADER = "x-blockyard-path";
@@ -174,9 +174,6 @@ export async function readJson<T extends z.ZodType>(req: Request, schema: T): Pr
   }
   return parseWith(schema, body);
 }
-
-/** What a field holding a NUL character is told (Postgres cannot store one in text). */
-export const NUL_REFUSED = "Holds a NUL character (code 0), which cannot be stored: remove it.";
 
 /**
  * The path of every string in `value` that holds a NUL character, as `fieldErrors` names paths

@@ -140,6 +140,8 @@ interface Ctx {
   horizontal: boolean;
   /** Whether neighbouring groups that need a later step may come off together (`mergeUnfinished`). */
   merge: boolean;
+  /** Set when, without `merge`, some placement weighed could have taken groups off together. */
+  mergeable: boolean;
 }
 
 const toBox = (min: readonly number[], max: readonly number[]): Box => ({
@@ -329,9 +331,10 @@ const upAxis = (o: O, horizontal: boolean) => (horizontal ? o[2] : o[1]);
 
 /**
  * The placements of `foam` worth comparing: each orientation that fits, cutting as far as it can or
- * deferring groups, and (with `merge`) keeping neighbouring groups that need a later step together.
+ * deferring groups, and (with `look`, where the steps ahead are counted) keeping neighbouring groups
+ * that need a later step together — offered with `ctx.merge`, else only noted in `ctx.mergeable`.
  */
-function options(foam: Foam, ctx: Ctx, m: Machine, merge: boolean): { o: O; k: number; sim: Sim }[] {
+function options(foam: Foam, ctx: Ctx, m: Machine, look: boolean): { o: O; k: number; sim: Sim }[] {
   const out: { o: O; k: number; sim: Sim }[] = [];
   ORIENTS.forEach((o, k) => {
     if (placementProblem(m, placedOf(foam, o))) return;
@@ -340,9 +343,11 @@ function options(foam: Foam, ctx: Ctx, m: Machine, merge: boolean): { o: O; k: n
     out.push({ o, k, sim: full });
     const deferred = simulate(foam, o, ctx, true);
     if (deferred.cuts.length !== full.cuts.length) out.push({ o, k, sim: deferred });
-    if (!merge) return;
+    if (!look || (!ctx.merge && ctx.mergeable)) return;
     const merged = simulate(foam, o, ctx, false, true);
-    if (merged.cuts.length !== full.cuts.length && merged.cuts.length > 0) out.push({ o, k, sim: merged });
+    if (merged.cuts.length === full.cuts.length || merged.cuts.length === 0) return;
+    if (ctx.merge) out.push({ o, k, sim: merged });
+    else ctx.mergeable = true;
   });
   return out;
 }
@@ -371,7 +376,7 @@ function choose(foam: Foam, prev: O | null, canTurn: boolean, ctx: Ctx, m: Machi
   const fits = ORIENTS.filter((o) => !placementProblem(m, placedOf(foam, o)));
   const look = foam.idx.length <= LOOKAHEAD_PIECES;
   // Merged groups only where the steps ahead are counted (a lower bound would always favour them).
-  for (const { o, k, sim } of options(foam, ctx, m, look && ctx.merge)) {
+  for (const { o, k, sim } of options(foam, ctx, m, look)) {
     // Steps in all (or, for big pieces, a lower bound of them: this one and one per piece left).
     const ahead = look ? sim.later.reduce((s, f) => s + rollout(f, ctx, m), 1) : 1 + sim.later.length;
     const same = prev?.every((v, i) => v === o[i]) ?? false;
@@ -438,9 +443,10 @@ export function procedure(input: ProcedureInput): Procedure {
   // Worked out both ways, groups kept apart and (where that saves steps) taken off together: the
   // step-count estimate that decides each placement is greedy, so either can come out shorter.
   // Fewer placements win, then fewer steps; a tie keeps the groups apart.
-  const apart = procedureWith(input, false);
-  if (apart.ok && apart.placements <= 1) return apart;
-  const together = procedureWith(input, true);
+  // The second way only where the first met groups that could come off together.
+  const { procedure: apart, mergeable } = procedureWith(input, false);
+  if (!mergeable || (apart.ok && apart.placements <= 1)) return apart;
+  const { procedure: together } = procedureWith(input, true);
   if (!together.ok) return apart;
   if (!apart.ok) return together;
   const better =
@@ -449,10 +455,16 @@ export function procedure(input: ProcedureInput): Procedure {
   return better ? together : apart;
 }
 
-function procedureWith(input: ProcedureInput, merge: boolean): Procedure {
-  const { size, kerf, machine: m, pieces } = input;
+function procedureWith(input: ProcedureInput, merge: boolean): { procedure: Procedure; mergeable: boolean } {
+  const { kerf, machine: m, pieces } = input;
   const boxes: Box[] = pieces.map((p) => ({ origin: [...p.origin], size: [...p.size] }));
-  const ctx: Ctx = { boxes, pieces, kerf, horizontal: m.wire === "horizontal", merge };
+  const ctx: Ctx = { boxes, pieces, kerf, horizontal: m.wire === "horizontal", merge, mergeable: false };
+  return { procedure: procedureSteps(input, ctx), mergeable: ctx.mergeable };
+}
+
+function procedureSteps(input: ProcedureInput, ctx: Ctx): Procedure {
+  const { size, kerf, machine: m, pieces } = input;
+  const { boxes } = ctx;
   const block: Foam = { min: [0, 0, 0], max: [...size], idx: pieces.map((_, i) => i) };
   const base = { ok: true as const, block: input.blockCode, size: [...size] as Vec3, kerf, wire: m.wire };
   const empty = { ...base, steps: [], cutCount: 0, placements: 0, turns: 0 };

@@ -9,7 +9,9 @@ import type { FacePoint, Part, SlabLayout } from "@/lib/nesting";
 import { bboxOf, signedArea } from "@/lib/nesting/irregular/geometry";
 import { leadIns, memberLoop, type PlacedMember } from "@/lib/nesting/slab";
 import type { Point } from "./polygon";
-import type { ProfileProgramInput, ProgramPart } from "./program";
+import { type ProfileProgram, type ProfileProgramInput, type ProgramPart, profileProgram } from "./program";
+import type { Machine } from "@/lib/planning/machine";
+import { ToolpathError } from "./toolpath";
 import type { Section } from "./slabs";
 
 /** A section's loop where the slab holds it: the same turn and move as the member's occupied loop. */
@@ -98,4 +100,19 @@ export function chainWalledIn(parts: readonly ProgramPart[], size: Point, kerf: 
     if (l.via === undefined || !l.from) return p;
     return { ...p, leadIn: [l.to[0], l.to[1]], via: { part: order[l.via]!, from: [l.from[0], l.from[1]] } };
   });
+}
+
+/**
+ * The program of a box-nested layer (parts in their blanks, each finding its own lead-in): where a
+ * part has none because the others wall it in, the same layer with that part entered through a
+ * neighbour's kerf (`chainWalledIn`). Throws as `profileProgram` does when that does not help either.
+ */
+export function layerProgram(input: ProfileProgramInput, machine: Machine): ProfileProgram {
+  try {
+    return profileProgram(input, machine);
+  } catch (e) {
+    const chained = e instanceof ToolpathError ? chainWalledIn(input.parts, input.size, input.kerf) : null;
+    if (!chained) throw e;
+    return profileProgram({ ...input, parts: chained }, machine);
+  }
 }

@@ -7,7 +7,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
-import { closeTestDb, ledgerGap, makeBlock, tableCounts, testDb } from "../support/db";
+import { closeTestDb, ledgerGap, makeBlock, makeGrade, tableCounts, testDb } from "../support/db";
 import { makeDoneRun, makeJobWithParts, SETTINGS } from "../support/planning-fixtures";
 import { makeJob } from "../support/job-fixtures";
 
@@ -127,22 +127,14 @@ describe("sizes at the edge of what the forms take", () => {
 
     // The smallest size the register keeps, and the largest the form takes, go in — in a grade of
     // their own: 27,000 m³ of a demo grade would lift it over its reorder point for later tests.
-    const [own] = await testDb()("grades")
-      .insert({
-        code: `EDGE-${Date.now().toString(36).toUpperCase()}`,
-        material: "EPS",
-        grade_system: "shop",
-        grade: "test",
-        cure_days: 1,
-      })
-      .returning("id");
+    const own = await makeGrade("EDGE");
     const edges = await buyer.post("/api/deliveries", {
       supplierId: supplier.id,
       receivedOn: "2026-12-01",
       lot: "Lot Ω",
       blocks: [
-        { gradeId: own!.id, size: [0.01, 0.01, 0.01], cost: 0, location: "Bay ✓" },
-        { gradeId: own!.id, size: [30_000, 30_000, 30_000], cost: 10_000_000, location: "Bay ✓" },
+        { gradeId: own.id, size: [0.01, 0.01, 0.01], cost: 0, location: "Bay ✓" },
+        { gradeId: own.id, size: [30_000, 30_000, 30_000], cost: 10_000_000, location: "Bay ✓" },
       ],
     });
     expect(edges.status).toBe(201);

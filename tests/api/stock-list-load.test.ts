@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { client, demoEmail, type Client } from "../support/http";
-import { closeTestDb, makeBlock, testDb } from "../support/db";
+import { closeTestDb, makeBlock, makeGrade, testDb } from "../support/db";
 import { sqlSent } from "../support/statements";
 import { makeDoneRun, makeJobWithParts } from "../support/planning-fixtures";
 
@@ -127,13 +127,7 @@ describe("the stock list sorted by grade, page by page", () => {
     const location = `Grade sort bay ${stamp}`;
     // Grades of the test's own (blocks of a demo grade would lift it over its reorder point for
     // the buyer's tests); "-M" is renamed below.
-    const grade = async (suffix: string) =>
-      (
-        await k("grades")
-          .insert({ code: `${stamp}-${suffix}`, material: "EPS", grade_system: "shop", grade: `test ${suffix}` })
-          .returning(["id", "code"])
-      )[0]!;
-    const [b, m, x] = [await grade("B"), await grade("M"), await grade("X")];
+    const [b, m, x] = [await makeGrade(`${stamp}-B`), await makeGrade(`${stamp}-M`), await makeGrade(`${stamp}-X`)];
     const blocks: { id: number; code: string }[] = [];
     for (const g of [x, m, b, m, x, b, m]) blocks.push(await makeBlock({ location, gradeCode: g.code }));
     const codesOf = (...i: number[]) => i.map((n) => blocks[n]!.code);

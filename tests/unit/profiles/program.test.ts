@@ -8,7 +8,7 @@ import type { Machine } from "@/lib/planning/machine";
 import { partGeometry, type Point, type Profile } from "@/lib/profiles";
 import { ProgramError, profileProgram } from "@/lib/profiles/program";
 import { orientation, partSections, planSlabs } from "@/lib/profiles/slabs";
-import { chainWalledIn } from "@/lib/profiles/slab-program";
+import { chainWalledIn, layerProgram } from "@/lib/profiles/slab-program";
 import { ToolpathError } from "@/lib/profiles/toolpath";
 import { profileCutter } from "../../support/procedure-fixtures";
 
@@ -149,6 +149,8 @@ describe("a box-nested layer whose middle part is walled in", () => {
     expect(vias).toEqual([1, 4]);
     const program = profileProgram({ ...input, parts: chained }, cutter());
     expect(program.parts).toHaveLength(9);
+    // What the app calls for a layer: the plain program, and this one where that finds no lead-in.
+    expect(layerProgram(input, cutter()).gcode).toBe(program.gcode);
     for (const k of vias) {
       const { via, leadIn } = chained[k]!;
       const [row, col, hostRow, hostCol] = [Math.floor(k / 3), k % 3, Math.floor(via!.part / 3), via!.part % 3];
@@ -165,6 +167,7 @@ describe("a box-nested layer whose middle part is walled in", () => {
     const two = { ...input, parts: input.parts.slice(0, 2) };
     expect(chainWalledIn(two.parts, slab!.size, 1.5)).toBeNull();
     expect(profileProgram(two, cutter()).parts).toHaveLength(2);
+    expect(layerProgram(two, cutter()).gcode).toBe(profileProgram(two, cutter()).gcode);
   });
 });
 

@@ -31,6 +31,38 @@ function chosenJobs(q: { jobs?: string; job?: string | string[] }): number[] {
   ];
 }
 
+/** A search of this page (jobs by name, stock by code), sent as the address so it can be kept. */
+function FindForm(props: {
+  label: string;
+  name: string;
+  value: string;
+  maxLength: number;
+  button: string;
+  /** The jobs already chosen, kept through the search. */
+  jobs?: string;
+  children?: React.ReactNode;
+}) {
+  return (
+    <form method="get" action="/plans/new" className="mb-4 flex flex-wrap items-end gap-2">
+      {props.jobs && <input type="hidden" name="jobs" value={props.jobs} />}
+      <label className="flex flex-col text-sm font-medium text-ink-soft">
+        {props.label}
+        <input
+          type="search"
+          name={props.name}
+          defaultValue={props.value}
+          maxLength={props.maxLength}
+          className="mt-1 min-h-11 rounded border border-bead px-3 text-base text-ink"
+        />
+      </label>
+      <button type="submit" className={buttonClass("secondary")}>
+        {props.button}
+      </button>
+      {props.children}
+    </form>
+  );
+}
+
 export default async function NewPlanPage({
   searchParams,
 }: {
@@ -49,21 +81,7 @@ export default async function NewPlanPage({
           title="New plan"
           lead="Choose the jobs to nest together: their parts share the stock you pick next."
         />
-        <form method="get" action="/plans/new" className="mb-4 flex flex-wrap items-end gap-2">
-          <label className="flex flex-col text-sm font-medium text-ink-soft">
-            Find a job by name or customer
-            <input
-              type="search"
-              name="q"
-              defaultValue={q}
-              maxLength={60}
-              className="mt-1 min-h-11 rounded border border-bead px-3 text-base text-ink"
-            />
-          </label>
-          <button type="submit" className={buttonClass("secondary")}>
-            Find
-          </button>
-        </form>
+        <FindForm label="Find a job by name or customer" name="q" value={q} maxLength={60} button="Find" />
         {total > items.length && (
           <p className="mb-2 text-sm text-ink-soft">
             Showing the {items.length} soonest due of {total} open jobs; find a job by name to see others.
@@ -125,27 +143,20 @@ export default async function NewPlanPage({
         lead={`Nest the parts still owed on ${[...jobs.values()].join(", ")} into the stock you choose.`}
       />
       {(stock.capped || code) && (
-        <form method="get" action="/plans/new" className="mb-4 flex flex-wrap items-end gap-2">
-          <input type="hidden" name="jobs" value={jobIds.join(",")} />
-          <label className="flex flex-col text-sm font-medium text-ink-soft">
-            Find stock by block code or label number
-            <input
-              type="search"
-              name="stock"
-              defaultValue={code}
-              maxLength={40}
-              className="mt-1 min-h-11 rounded border border-bead px-3 text-base text-ink"
-            />
-          </label>
-          <button type="submit" className={buttonClass("secondary")}>
-            Find stock
-          </button>
+        <FindForm
+          label="Find stock by block code or label number"
+          name="stock"
+          value={code}
+          maxLength={40}
+          button="Find stock"
+          jobs={jobIds.join(",")}
+        >
           {code && (
             <Link className={buttonClass("quiet")} href={`/plans/new?jobs=${jobIds.join(",")}`}>
               All stock
             </Link>
           )}
-        </form>
+        </FindForm>
       )}
       {code && (
         <p className="mb-2 text-sm text-ink-soft" data-testid="stock-search">

@@ -17,6 +17,7 @@ import { blockSteps } from "@/db/queries/at-the-machine";
 import { UNDO_MINUTES } from "@/db/queries/cuts";
 import { UndoCut } from "@/components/plans/undo-cut";
 import { displayUnit } from "@/lib/display";
+import { MachineUnitsNote } from "@/components/plans/machine-units";
 import { formatMachineSize } from "@/lib/units";
 
 export const metadata: Metadata = { title: "At the machine" };
@@ -61,11 +62,7 @@ export default async function AtTheMachinePage({ params }: { params: Promise<{ r
       />
       <div className="space-y-5">
         <HotWireCaution />
-        {unit === "in" && (
-          <p className="text-sm text-ink-soft">
-            Sizes are given in inches too; every position stays in millimetres, as the machines are driven.
-          </p>
-        )}
+        <MachineUnitsNote unit={unit} />
         {run.status !== "approved" && (
           <Notice tone="caution">
             This plan is {run.status === "closed" ? "fully cut" : "not approved"}: nothing to record here.

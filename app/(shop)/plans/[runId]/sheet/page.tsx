@@ -18,6 +18,7 @@ import { NotCuttable } from "@/components/plans/not-cuttable";
 import { keyNamer, memberList, slabIndex } from "@/lib/planning/slabs";
 import { cutRuns, groupPlacements } from "@/lib/planning/sheet";
 import { displayUnit } from "@/lib/display";
+import { MachineUnitsNote } from "@/components/plans/machine-units";
 import { formatMachineSize } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Cut sheet" };
@@ -84,11 +85,7 @@ export default async function CutSheetPage({ params }: { params: Promise<{ runId
             {run.jobNames.join(", ")} · kerf {run.settings.kerf} mm · trim {run.settings.trim} mm · feed{" "}
             {settings.feedMmPerMin} mm/min
           </p>
-          {unit === "in" && (
-            <p className="text-sm text-ink-soft">
-              Sizes are given in inches too; every position stays in millimetres, as the machines are driven.
-            </p>
-          )}
+          <MachineUnitsNote unit={unit} />
         </div>
         <PrintButton label="Print cut sheet" />
       </div>
